@@ -1,0 +1,35 @@
+# Shared by the start, test and CI scripts: install what a fresh Debian machine lacks.
+
+as_root() {
+  if [ "$(id -u)" = "0" ]; then "$@";
+  elif command -v sudo >/dev/null 2>&1; then sudo "$@";
+  else return 1; fi
+}
+
+apt_install() {
+  # $@: Debian package names
+  echo "Installing $* from Debian's packages (apt-get)..."
+  if ! as_root env DEBIAN_FRONTEND=noninteractive apt-get update -qq ||
+     ! as_root env DEBIAN_FRONTEND=noninteractive apt-get install -y -qq --no-install-recommends "$@" >/dev/null; then
+    echo "Could not install $* with apt-get. Install it yourself (as root: apt-get install $*) and run this again." >&2
+    exit 1
+  fi
+}
+
+ensure_mariadb() {
+  if ! command -v mariadbd >/dev/null 2>&1 && [ ! -x /usr/sbin/mariadbd ]; then
+    apt_install mariadb-server
+  fi
+  # Debian's package may start its own system server on 3306; Ferrolane never uses it.
+}
+
+ensure_chromium() {
+  if [ ! -x /usr/bin/chromium ]; then apt_install chromium fonts-dejavu-core; fi
+}
+
+ensure_node_modules() {
+  if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+    echo "Installing npm packages (npm ci)..."
+    npm ci --no-audit --no-fund --loglevel=error
+  fi
+}

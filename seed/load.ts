@@ -1,0 +1,20 @@
+import type { Sequelize } from 'sequelize'
+import { User } from '../server/models/index'
+import { hashPassword } from '../server/services/passwords'
+import { DEMO_ACCOUNTS, DEMO_COLLEAGUES, DEMO_PASSWORD } from './demo/staff'
+
+/**
+ * Loads the invented demo scenario, only into an empty database (so a restart keeps real work).
+ * Returns whether it loaded anything.
+ */
+export async function loadDemoScenario(sequelize: Sequelize): Promise<boolean> {
+  if ((await User.count()) > 0) return false
+  const passwordHash = await hashPassword(DEMO_PASSWORD)
+  await sequelize.transaction(async (t) => {
+    await User.bulkCreate(
+      [...DEMO_ACCOUNTS, ...DEMO_COLLEAGUES].map((s) => ({ ...s, passwordHash, mustChangePassword: false })),
+      { transaction: t },
+    )
+  })
+  return true
+}

@@ -1,0 +1,95 @@
+import express, { type Express } from 'express'
+import session from 'express-session'
+import helmet from 'helmet'
+import path from 'node:path'
+import { existsSync } from 'node:fs'
+import type { Sequelize } from 'sequelize'
+import type { PassportStatic } from 'passport'
+import type { Config } from './config'
+import { initModels } from './models/index'
+import { MariaDbSessionStore } from './auth/sessionStore'
+import { createPassport } from './auth/passport'
+import { requestId } from './middleware/requestId'
+import { requireCsrf } from './middleware/csrf'
+import { apiNotFound, errorHandler } from './middleware/errors'
+import type { ApiRouter, RouteSpec } from './routes/apiRouter'
+import type { AppContext } from './routes/context'
+import { healthRoutes } from './routes/health'
+import { authRoutes } from './routes/auth'
+import { userRoutes } from './routes/users'
+
+export const SESSION_COOKIE = 'ferrolane.sid'
+
+export interface FerrolaneApp {
+  app: Express
+  routes: RouteSpec[]
+  sessionStore: MariaDbSessionStore
+}
+
+function contentSecurityPolicy(config: Config) {
+  return helmet({
+    contentSecurityPolicy: {
+      useDefaults: false,
+      directives: {
+        defaultSrc: ["'self'"],
+        scriptSrc: ["'self'"],
+        // PrimeVue writes its theme into <style> elements at run time.
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        imgSrc: ["'self'", 'data:'],
+        fontSrc: ["'self'", 'data:'],
+        connectSrc: ["'self'"],
+        objectSrc: ["'none'"],
+        baseUri: ["'self'"],
+        formAction: ["'self'"],
+        frameAncestors: ["'none'"],
+        ...(config.session.cookieSecure ? { upgradeInsecureRequests: [] } : {}),
+      },
+    },
+    strictTransportSecurity: config.session.cookieSecure,
+  })
+}
+
+/** Builds the whole app without listening, so tests can drive it with Supertest. */
+export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
+  initModels(sequelize)
+  const ctx: AppContext = { config, sequelize }
+  const app = express()
+  app.disable('x-powered-by')
+  app.set('trust proxy', config.trustProxy)
+  app.use(requestId)
+  app.use(contentSecurityPolicy(config))
+
+  const sessionStore = new MariaDbSessionStore(config.session.idleMinutes * 60_000)
+  const passport = createPassport(config) as unknown as PassportStatic
+  const api = express.Router()
+  api.use(express.json({ limit: '1mb' }))
+  api.use(
+    session({
+      name: SESSION_COOKIE,
+      secret: config.session.secret,
+      store: sessionStore,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true, // the idle timeout restarts with every request
+      cookie: { httpOnly: true, sameSite: 'lax', secure: config.session.cookieSecure, maxAge: config.session.idleMinutes * 60_000 },
+    }),
+  )
+  api.use(passport.initialize())
+  api.use(passport.session())
+  api.use(requireCsrf)
+
+  const routers: ApiRouter[] = [healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx)]
+  for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
+  api.use(apiNotFound)
+  api.use(errorHandler)
+  app.use('/api', api)
+
+  const staticDir = path.resolve(config.staticDir || 'dist')
+  if (config.staticDir && existsSync(path.join(staticDir, 'index.html'))) {
+    app.use(express.static(staticDir, { index: false, maxAge: '1h' }))
+    // The client owns every other path (history-mode routing).
+    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(path.join(staticDir, 'index.html')))
+  }
+  app.use(errorHandler)
+  return { app, routes: routers.flatMap((r) => r.specs), sessionStore }
+}

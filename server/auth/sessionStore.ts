@@ -1,0 +1,54 @@
+import session from 'express-session'
+import { Op } from 'sequelize'
+import { SessionRow } from '../models/index'
+
+type Callback = (err?: unknown, value?: session.SessionData | null) => void
+
+function userIdOf(sess: session.SessionData): number | null {
+  const id = (sess as { passport?: { user?: unknown } }).passport?.user
+  return typeof id === 'number' ? id : null
+}
+
+function expiryOf(sess: session.SessionData, fallbackMs: number): Date {
+  const expires = sess.cookie?.expires
+  return expires ? new Date(expires) : new Date(Date.now() + fallbackMs)
+}
+
+/**
+ * express-session store on the app's own MariaDB, so sessions survive a restart and are shared
+ * by several server processes. The user id is a column, so deactivating a user ends their sessions.
+ */
+export class MariaDbSessionStore extends session.Store {
+  constructor(private readonly idleMs: number) {
+    super()
+  }
+
+  override get(sid: string, cb: Callback): void {
+    SessionRow.findOne({ where: { sid, expiresAt: { [Op.gt]: new Date() } }, raw: true })
+      .then((row) => cb(null, row ? (JSON.parse(row.data) as session.SessionData) : null))
+      .catch((err) => cb(err))
+  }
+
+  override set(sid: string, sess: session.SessionData, cb?: (err?: unknown) => void): void {
+    SessionRow.upsert({ sid, userId: userIdOf(sess), data: JSON.stringify(sess), expiresAt: expiryOf(sess, this.idleMs) })
+      .then(() => cb?.())
+      .catch((err) => cb?.(err))
+  }
+
+  override touch(sid: string, sess: session.SessionData, cb?: (err?: unknown) => void): void {
+    SessionRow.update({ expiresAt: expiryOf(sess, this.idleMs) }, { where: { sid } })
+      .then(() => cb?.())
+      .catch((err) => cb?.(err))
+  }
+
+  override destroy(sid: string, cb?: (err?: unknown) => void): void {
+    SessionRow.destroy({ where: { sid } })
+      .then(() => cb?.())
+      .catch((err) => cb?.(err))
+  }
+
+  /** Expired rows are dead weight; the server sweeps them now and then. */
+  async sweep(): Promise<number> {
+    return SessionRow.destroy({ where: { expiresAt: { [Op.lte]: new Date() } } })
+  }
+}

@@ -1,0 +1,93 @@
+/**
+ * The one place that reads process.env. Each key names its environment variable; the whole
+ * config is checked at boot so a typo fails loudly instead of running with a wrong default.
+ */
+export interface Config {
+  env: 'production' | 'development' | 'test'
+  /** PORT */ port: number
+  /** HOST */ host: string
+  db: {
+    /** DB_HOST */ host: string
+    /** DB_PORT */ port: number
+    /** DB_NAME */ name: string
+    /** DB_USER */ user: string
+    /** DB_PASSWORD */ password: string
+    /** DB_POOL_MAX */ poolMax: number
+  }
+  session: {
+    /** SESSION_SECRET */ secret: string
+    /** SESSION_IDLE_MINUTES */ idleMinutes: number
+    /** COOKIE_SECURE: true behind TLS */ cookieSecure: boolean
+  }
+  /** TRUST_PROXY: hops of reverse proxy to trust for the client address */ trustProxy: number
+  login: {
+    /** LOGIN_MAX_FAILURES_ACCOUNT */ maxFailuresPerAccount: number
+    /** LOGIN_MAX_FAILURES_ADDRESS */ maxFailuresPerAddress: number
+    /** LOGIN_WINDOW_MINUTES */ windowMinutes: number
+  }
+  smtp: {
+    /** SMTP_HOST */ host: string
+    /** SMTP_PORT */ port: number
+    /** MAIL_FROM */ from: string
+  }
+  /** STATIC_DIR: the built client; empty disables serving it */ staticDir: string
+  /** PUBLIC_URL: base of links in e-mails */ publicUrl: string
+}
+
+type Env = Record<string, string | undefined>
+
+function int(env: Env, key: string, fallback: number, min = 0, max = 65535): number {
+  const raw = env[key]
+  if (raw === undefined || raw === '') return fallback
+  const n = Number(raw)
+  if (!Number.isInteger(n) || n < min || n > max) {
+    throw new Error(`Configuration: ${key} must be an integer between ${min} and ${max} (got "${raw}")`)
+  }
+  return n
+}
+
+function bool(env: Env, key: string, fallback: boolean): boolean {
+  const raw = env[key]
+  if (raw === undefined || raw === '') return fallback
+  if (['1', 'true', 'yes'].includes(raw.toLowerCase())) return true
+  if (['0', 'false', 'no'].includes(raw.toLowerCase())) return false
+  throw new Error(`Configuration: ${key} must be true or false (got "${raw}")`)
+}
+
+export function loadConfig(env: Env = process.env): Config {
+  const nodeEnv = env.NODE_ENV === 'production' || env.NODE_ENV === 'test' ? env.NODE_ENV : 'development'
+  const secret = env.SESSION_SECRET ?? (nodeEnv === 'production' ? '' : 'ferrolane-local-development-secret')
+  if (secret.length < 16) throw new Error('Configuration: SESSION_SECRET must be at least 16 characters')
+  const port = int(env, 'PORT', 8080, 0)
+  return {
+    env: nodeEnv,
+    port,
+    host: env.HOST || '127.0.0.1',
+    db: {
+      host: env.DB_HOST || '127.0.0.1',
+      port: int(env, 'DB_PORT', 3406, 1),
+      name: env.DB_NAME || 'ferrolane',
+      user: env.DB_USER || 'ferrolane',
+      password: env.DB_PASSWORD ?? 'ferrolane-local',
+      poolMax: int(env, 'DB_POOL_MAX', 20, 1, 500),
+    },
+    session: {
+      secret,
+      idleMinutes: int(env, 'SESSION_IDLE_MINUTES', 30, 1, 24 * 60),
+      cookieSecure: bool(env, 'COOKIE_SECURE', false),
+    },
+    trustProxy: int(env, 'TRUST_PROXY', 0, 0, 10),
+    login: {
+      maxFailuresPerAccount: int(env, 'LOGIN_MAX_FAILURES_ACCOUNT', 5, 1, 1000),
+      maxFailuresPerAddress: int(env, 'LOGIN_MAX_FAILURES_ADDRESS', 30, 1, 10000),
+      windowMinutes: int(env, 'LOGIN_WINDOW_MINUTES', 15, 1, 24 * 60),
+    },
+    smtp: {
+      host: env.SMTP_HOST || '127.0.0.1',
+      port: int(env, 'SMTP_PORT', 1025, 1),
+      from: env.MAIL_FROM || 'Ferrolane anaemia service <no-reply@ferrolane.test>',
+    },
+    staticDir: env.STATIC_DIR ?? 'dist',
+    publicUrl: (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, ''),
+  }
+}

@@ -1,0 +1,27 @@
+import { loadConfig } from './config'
+import { createSequelize } from './db'
+import { createApp } from './app'
+
+/** The only place that listens. Stops cleanly on SIGINT/SIGTERM so the start script can shut MariaDB down after it. */
+async function main(): Promise<void> {
+  const config = loadConfig()
+  const sequelize = createSequelize(config)
+  const { app, sessionStore } = createApp(config, sequelize)
+  const server = app.listen(config.port, config.host, () => {
+    console.log(`Ferrolane listening on http://${config.host}:${config.port}`)
+  })
+  const sweep = setInterval(() => void sessionStore.sweep().catch(() => {}), 10 * 60_000)
+  const stop = (signal: string) => {
+    console.log(`Ferrolane stopping (${signal})`)
+    clearInterval(sweep)
+    server.close(() => void sequelize.close().finally(() => process.exit(0)))
+    setTimeout(() => process.exit(0), 5000).unref()
+  }
+  process.on('SIGINT', () => stop('SIGINT'))
+  process.on('SIGTERM', () => stop('SIGTERM'))
+}
+
+main().catch((err) => {
+  console.error(err)
+  process.exit(1)
+})

@@ -1,0 +1,11 @@
+import type { QueryInterface } from 'sequelize'
+import * as m0001 from './0001-foundation'
+
+export interface Migration {
+  name: string
+  up(params: { context: QueryInterface }): Promise<void>
+  down(params: { context: QueryInterface }): Promise<void>
+}
+
+/** In order. Listed by hand so they bundle and type-check like the rest of the server. */
+export const migrations: Migration[] = [{ name: '0001-foundation', ...m0001 }]

@@ -1,0 +1,32 @@
+import { Router, type RequestHandler } from 'express'
+import { authorize, type AccessOptions, type Access } from '../middleware/authorize'
+
+export interface RouteSpec {
+  method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'
+  path: string
+  access: Access
+}
+
+/**
+ * An Express router that will not mount a handler without an access rule, and remembers each
+ * route so the role-matrix test can prove that every mounted route is in its table.
+ */
+export class ApiRouter {
+  readonly router = Router()
+  readonly specs: RouteSpec[] = []
+
+  constructor(readonly prefix: string) {}
+
+  private add(method: RouteSpec['method'], path: string, opts: AccessOptions, handlers: RequestHandler[]): this {
+    this.specs.push({ method, path: this.prefix + path, access: opts.access })
+    const verb = method.toLowerCase() as 'get' | 'post' | 'patch' | 'put' | 'delete'
+    this.router[verb](path, authorize(opts), ...handlers)
+    return this
+  }
+
+  get(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('GET', path, opts, h) }
+  post(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('POST', path, opts, h) }
+  patch(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('PATCH', path, opts, h) }
+  put(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('PUT', path, opts, h) }
+  delete(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('DELETE', path, opts, h) }
+}

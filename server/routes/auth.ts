@@ -1,0 +1,54 @@
+import type { Request, Response, NextFunction } from 'express'
+import type { PassportStatic } from 'passport'
+import { ApiRouter } from './apiRouter'
+import { actorOf, signedInActor, type AppContext } from './context'
+import { validate } from '../middleware/validate'
+import { csrfTokenFor } from '../middleware/csrf'
+import { loginSchema } from '../../shared/schemas/auth'
+import { changeOwnPassword } from '../services/users'
+import { recordAudit } from '../services/audit'
+import { AppError } from '../errors'
+import type { SessionUser } from '../../shared/types'
+
+function authenticate(passport: PassportStatic, req: Request, res: Response, next: NextFunction): Promise<SessionUser | null> {
+  return new Promise((resolve, reject) => {
+    passport.authenticate('local', (err: unknown, user: SessionUser | false) => (err ? reject(err) : resolve(user || null)))(req, res, next)
+  })
+}
+
+export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter {
+  const api = new ApiRouter('/api/auth')
+
+  api.get('/csrf', { access: 'public' }, (req, res) => {
+    res.json({ csrfToken: csrfTokenFor(req) })
+  })
+
+  api.post('/login', { access: 'public' }, validate(loginSchema), async (req, res, next) => {
+    const user = await authenticate(passport, req, res, next)
+    if (!user) throw new AppError('invalid_credentials', 'E-mail or password is not correct', 401)
+    // passport regenerates the session id here, so a fixated id is worthless.
+    await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
+    await recordAudit(null, { ...actorOf(req), userId: user.id }, { action: 'sign-in', entity: 'session', entityId: user.id })
+    res.json({ user, csrfToken: csrfTokenFor(req) })
+  })
+
+  api.post('/logout', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
+    const actor = signedInActor(req)
+    await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())))
+    await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())))
+    await recordAudit(null, actor, { action: 'sign-out', entity: 'session', entityId: actor.userId })
+    res.clearCookie('ferrolane.sid')
+    res.status(204).end()
+  })
+
+  api.get('/me', { access: 'signed-in', duringPasswordChange: true }, (req, res) => {
+    res.json(req.user)
+  })
+
+  api.post('/password', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
+    await changeOwnPassword(ctx.sequelize, signedInActor(req), req.body)
+    res.status(204).end()
+  })
+
+  return api
+}

@@ -1,0 +1,30 @@
+import { ApiRouter } from './apiRouter'
+import { idParam, signedInActor, type AppContext } from './context'
+import { validate } from '../middleware/validate'
+import { createUserSchema, updateUserSchema, type CreateUserInput, type UpdateUserInput } from '../../shared/schemas/users'
+import { createStaff, listStaff, resetStaffPassword, updateStaff } from '../services/users'
+
+export function userRoutes({ sequelize }: AppContext): ApiRouter {
+  const api = new ApiRouter('/api/users')
+  const admin = { access: ['admin'] } as const
+
+  api.get('', admin, async (_req, res) => {
+    res.json({ rows: await listStaff() })
+  })
+
+  api.post('', admin, validate(createUserSchema), async (req, res) => {
+    const { email, name, role } = req.body as CreateUserInput
+    res.status(201).json(await createStaff(sequelize, signedInActor(req), { email, name, role }))
+  })
+
+  api.patch('/:id', admin, validate(updateUserSchema), async (req, res) => {
+    const { name, role, active } = req.body as UpdateUserInput
+    res.json(await updateStaff(sequelize, signedInActor(req), idParam(req), { name, role, active }))
+  })
+
+  api.post('/:id/reset-password', admin, async (req, res) => {
+    res.json(await resetStaffPassword(sequelize, signedInActor(req), idParam(req)))
+  })
+
+  return api
+}

@@ -1,0 +1,63 @@
+// Public API of Ferrolane's clinical calculations. Pure functions, canonical units in names.
+export { ClinicalInputError } from './errors'
+export { CLINICAL_LIMITS } from './limits'
+export type { Limit, ClinicalLimitName } from './limits'
+export type { Sex, HbUnit } from './types'
+
+export {
+  convertHb,
+  mmHgToKPa,
+  kPaToMmHg,
+  creatinineUmolLToMgDl,
+  creatinineMgDlToUmolL,
+  ironUgDlToUmolL,
+  ironUmolLToUgDl,
+  tibcFromTransferrin,
+  tsatFromIron,
+  HB_GDL_TO_MMOL_L,
+  MMHG_PER_KPA,
+  CREATININE_UMOL_L_PER_MG_DL,
+} from './units'
+
+export { saturationFromPo2, po2FromSaturation, severinghausInversePo2, STANDARD_P50_MMHG, DEFAULT_HILL_N } from './dissociation'
+export type { DissociationModel, DissociationOptions } from './dissociation'
+
+export {
+  oxygenContent,
+  oxygenDelivery,
+  oxygenConsumption,
+  oxygenExtraction,
+  DEFAULT_HUFNER_ML_PER_G,
+  DEFAULT_SOLUBILITY_ML_DL_MMHG,
+} from './oxygen'
+export type { OxygenContentInput } from './oxygen'
+
+export { estimatedBloodVolume, WEIGHT_BASED_ML_PER_KG } from './bloodVolume'
+export type { BloodVolumeMethod, BloodVolumeInput } from './bloodVolume'
+
+export {
+  allowableBloodLoss,
+  redCellTransfusionNeed,
+  redCellNeedFromHct,
+  hctFromHbGL,
+  HCT_FROM_HB_ASSUMPTION,
+  DEFAULT_UNIT_RED_CELL_ML,
+} from './bloodLoss'
+export type { AllowableLossMethod, RedCellNeed } from './bloodLoss'
+
+export { ganzoniIronDeficit, ganzoniStoresMg, fcmSimplifiedNeedMg, GANZONI_FACTOR_G_L } from './iron'
+export { validateIronProduct } from './ironProduct'
+export type { IronProduct } from './ironProduct'
+export { ironDosePlan } from './ironPlan'
+export type { IronDose, IronDoseCap, IronDosePlan } from './ironPlan'
+
+export { classifyAnaemia } from './anaemia'
+export type { AnaemiaCriteria, AnaemiaSeverity, AnaemiaClassification } from './anaemia'
+export { classifyIronStatus, isIronDeficient, IRON_STATUS_CRITERIA } from './ironStatus'
+export type { IronStatus } from './ironStatus'
+
+export { egfrCkdEpi2021 } from './kidney'
+export { bmi, bsaMosteller, bsaDuBois } from './bodySize'
+
+export { projectHb, roundHbGL, EXPECTED_HB_RESPONSE } from './projection'
+export type { HbMeasurement, HbTreatment, ResponseAssumption, HbProjection } from './projection'

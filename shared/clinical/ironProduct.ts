@@ -1,0 +1,59 @@
+import { ClinicalInputError, optionalInRange, requireInRange, requireIntegerInRange, requireOneOf } from './errors'
+import { CLINICAL_LIMITS } from './limits'
+
+/**
+ * One formulary entry. Caps are data so a hospital can change them to match its own
+ * protocols and the product's current prescribing information.
+ */
+export interface IronProduct {
+  code: string
+  name: string
+  route: 'iv' | 'oral'
+  /** Largest single dose in mg of iron. For oral products, one tablet's elemental iron. */
+  maxSingleDoseMg: number
+  /** e.g. 20 mg/kg for ferric carboxymaltose by infusion (EU SmPC). */
+  maxSingleDoseMgPerKg?: number
+  /** Minimum whole days between doses. */
+  minIntervalDays: number
+  /** Largest total in any 7 consecutive days. */
+  maxWeeklyMg?: number
+  /** Largest course total. */
+  maxTotalMg?: number
+  /** Dose step (vial or ampoule size), e.g. 100 or 50 mg; doses are whole multiples. */
+  roundToMg?: number
+  /** Oral: elemental iron per dose in mg. */
+  oralDailyMg?: number
+  /** Oral: one dose on alternate days rather than daily. */
+  oralAlternateDays?: boolean
+}
+
+function requireText(input: string, value: unknown): string {
+  if (typeof value !== 'string' || value.trim() === '') {
+    throw new ClinicalInputError(input, value, `${input} must be a non-empty text (got ${JSON.stringify(value)})`)
+  }
+  return value
+}
+
+/** Checks a formulary entry against CLINICAL_LIMITS; returns it unchanged or throws ClinicalInputError. */
+export function validateIronProduct(product: IronProduct): IronProduct {
+  if (product === null || typeof product !== 'object') {
+    throw new ClinicalInputError('product', product, 'product must be an iron formulary entry')
+  }
+  requireText('product.code', product.code)
+  requireText('product.name', product.name)
+  const route = requireOneOf('product.route', product.route, ['iv', 'oral'] as const)
+  requireInRange('product.maxSingleDoseMg', product.maxSingleDoseMg, CLINICAL_LIMITS.productMaxSingleDoseMg)
+  optionalInRange('product.maxSingleDoseMgPerKg', product.maxSingleDoseMgPerKg, CLINICAL_LIMITS.productMaxSingleDoseMgPerKg)
+  requireIntegerInRange('product.minIntervalDays', product.minIntervalDays, CLINICAL_LIMITS.productMinIntervalDays)
+  optionalInRange('product.maxWeeklyMg', product.maxWeeklyMg, CLINICAL_LIMITS.productMaxWeeklyMg)
+  optionalInRange('product.maxTotalMg', product.maxTotalMg, CLINICAL_LIMITS.productMaxTotalMg)
+  optionalInRange('product.roundToMg', product.roundToMg, CLINICAL_LIMITS.productRoundToMg)
+  optionalInRange('product.oralDailyMg', product.oralDailyMg, CLINICAL_LIMITS.productOralDailyMg)
+  if (route === 'oral' && product.oralDailyMg === undefined) {
+    throw new ClinicalInputError('product.oralDailyMg', undefined, 'product.oralDailyMg is required for an oral product (mg elemental iron per dose)')
+  }
+  if (product.oralAlternateDays !== undefined && typeof product.oralAlternateDays !== 'boolean') {
+    throw new ClinicalInputError('product.oralAlternateDays', product.oralAlternateDays, 'product.oralAlternateDays must be true or false')
+  }
+  return product
+}
