@@ -13,7 +13,8 @@ import { prepareDatabase } from './lib/prepare'
 interface Tally { passed: number; failed: number }
 interface Step { name: string; run: () => Promise<Tally> }
 
-const dataDir = path.resolve(repoRoot, '.test-data')
+// FERROLANE_TEST_DATA_DIR with the TEST_* ports lets two test runs share a machine.
+const dataDir = path.resolve(repoRoot, process.env.FERROLANE_TEST_DATA_DIR || '.test-data')
 const bin = (name: string) => path.join(repoRoot, 'node_modules/.bin', name)
 
 function exec(cmd: string, args: string[], env: NodeJS.ProcessEnv): Promise<number> {

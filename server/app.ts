@@ -87,8 +87,9 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   const staticDir = path.resolve(config.staticDir || 'dist')
   if (config.staticDir && existsSync(path.join(staticDir, 'index.html'))) {
     app.use(express.static(staticDir, { index: false, maxAge: '1h' }))
-    // The client owns every other path (history-mode routing).
-    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(path.join(staticDir, 'index.html')))
+    // The client owns every other path (history-mode routing). `root` because send() refuses an
+    // absolute path through a dot-directory, and the test build lives in .test-data/.
+    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile('index.html', { root: staticDir }))
   }
   app.use(errorHandler)
   return { app, routes: routers.flatMap((r) => r.specs), sessionStore }

@@ -1,0 +1,108 @@
+import type { ApiErrorBody } from '@shared/types'
+
+/** A failed API call, carrying the server's error code and per-field messages. */
+export class ApiError extends Error {
+  override readonly name = 'ApiError'
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fields: Record<string, string> = {},
+  ) {
+    super(message)
+  }
+}
+
+export function isApiError(error: unknown, code?: string): error is ApiError {
+  return error instanceof ApiError && (code === undefined || error.code === code)
+}
+
+type Method = 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'
+
+/** Called when the server says the session is gone (401) or a new password is due (403). */
+type AuthFailureHandler = (error: ApiError) => void
+let onAuthFailure: AuthFailureHandler | undefined
+export function setAuthFailureHandler(handler: AuthFailureHandler): void {
+  onAuthFailure = handler
+}
+
+// The CSRF token belongs to the session; the server regenerates the session at sign-in.
+let csrfToken: string | null = null
+export function setCsrfToken(token: string | null): void {
+  csrfToken = token
+}
+
+async function ensureCsrfToken(): Promise<string> {
+  if (!csrfToken) {
+    const { csrfToken: fresh } = await send<{ csrfToken: string }>('GET', '/auth/csrf')
+    csrfToken = fresh
+  }
+  return csrfToken
+}
+
+async function toApiError(response: Response): Promise<ApiError> {
+  const body = (await response.json().catch(() => null)) as Partial<ApiErrorBody> | null
+  const error = body?.error
+  if (error && typeof error.code === 'string') {
+    return new ApiError(response.status, error.code, error.message ?? 'Request failed', error.fields ?? {})
+  }
+  // A proxy or a crashed server answers without our error shape.
+  const message =
+    response.status >= 500 ? 'The server is not answering properly. Try again in a moment.' : 'Request failed'
+  return new ApiError(response.status, `http_${response.status}`, message)
+}
+
+async function send<T>(method: Method, path: string, body?: unknown): Promise<T> {
+  const headers: Record<string, string> = { Accept: 'application/json' }
+  if (body !== undefined) headers['Content-Type'] = 'application/json'
+  if (method !== 'GET') headers['X-CSRF-Token'] = await ensureCsrfToken()
+
+  let response: Response
+  try {
+    response = await fetch(`/api${path}`, {
+      method,
+      headers,
+      credentials: 'same-origin',
+      body: body === undefined ? undefined : JSON.stringify(body),
+    })
+  } catch {
+    throw new ApiError(0, 'network_error', 'Ferrolane cannot reach the server. Check the connection and try again.')
+  }
+
+  if (!response.ok) throw await toApiError(response)
+  if (response.status === 204) return undefined as T
+  return (await response.json()) as T
+}
+
+async function request<T>(method: Method, path: string, body?: unknown): Promise<T> {
+  try {
+    return await send<T>(method, path, body)
+  } catch (error) {
+    if (!(error instanceof ApiError)) throw error
+    // A stale token (e.g. the session was renewed elsewhere): fetch a new one and retry once.
+    if (error.code === 'csrf_invalid') {
+      csrfToken = null
+      return send<T>(method, path, body).catch((retryError: unknown) => {
+        notify(retryError)
+        throw retryError
+      })
+    }
+    notify(error)
+    throw error
+  }
+}
+
+function notify(error: unknown): void {
+  if (!(error instanceof ApiError)) return
+  // A wrong password (at sign-in or when changing it) is not a lost session.
+  if (error.code === 'invalid_credentials') return
+  if (error.status === 401 || error.code === 'password_change_required') onAuthFailure?.(error)
+}
+
+export const api = {
+  get: <T>(path: string) => request<T>('GET', path),
+  post: <T>(path: string, body?: unknown) => request<T>('POST', path, body ?? {}),
+  patch: <T>(path: string, body: unknown) => request<T>('PATCH', path, body),
+  put: <T>(path: string, body: unknown) => request<T>('PUT', path, body),
+  delete: <T>(path: string) => request<T>('DELETE', path),
+}

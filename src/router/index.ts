@@ -1,0 +1,73 @@
+import { createRouter, createWebHistory } from 'vue-router'
+import type { RouteLocationNormalized, RouteLocationRaw } from 'vue-router'
+import type { Pinia } from 'pinia'
+import { setAuthFailureHandler } from '@/api/client'
+import { queryClient } from '@/api/queryClient'
+import { meQueryOptions } from '@/composables/useAuth'
+import { useSessionStore } from '@/stores/session'
+import { homeRouteFor } from './homes'
+import { routes } from './routes'
+import './meta'
+
+export const router = createRouter({
+  history: createWebHistory(),
+  routes,
+  scrollBehavior: () => ({ top: 0 }),
+})
+
+// Asked once per page load, without retries so a down server does not hold up the sign-in page; afterwards sign-in, sign-out and 401s keep the store current.
+let sessionLoaded: Promise<void> | null = null
+
+function loadSessionOnce(session: ReturnType<typeof useSessionStore>): Promise<void> {
+  sessionLoaded ??= queryClient
+    .fetchQuery({ ...meQueryOptions(), retry: false })
+    .then((user) => session.setUser(user))
+    .catch(() => {
+      // Server unreachable: treat as signed out, and ask again on the next navigation.
+      sessionLoaded = null
+      session.clear()
+    })
+  return sessionLoaded
+}
+
+/** Only same-site paths, so a crafted link cannot bounce a user to another origin. */
+export function safeRedirect(value: unknown): string | null {
+  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') ? value : null
+}
+
+export function installGuards(pinia: Pinia): void {
+  const session = useSessionStore(pinia)
+
+  router.beforeEach(async (to: RouteLocationNormalized): Promise<RouteLocationRaw | true> => {
+    await loadSessionOnce(session)
+    const user = session.user
+
+    if (to.meta.public) return user && to.name === 'sign-in' ? homeRouteFor(user.role) : true
+    if (!user) {
+      return { name: 'sign-in', query: to.fullPath === '/' ? {} : { redirect: to.fullPath } }
+    }
+    if (user.mustChangePassword && to.name !== 'change-password') return { name: 'change-password' }
+    if (to.name === 'home') return homeRouteFor(user.role)
+    if (to.meta.roles && !to.meta.roles.includes(user.role)) return { name: 'forbidden', query: { from: to.fullPath } }
+    return true
+  })
+
+  // A call failed because the session ended or a new password is due: send the person where
+  // they can act on it. Ignored when no one was signed in (a wrong password also answers 401).
+  setAuthFailureHandler((error) => {
+    if (!session.user) return
+    if (error.code === 'password_change_required') {
+      session.markPasswordChangeRequired()
+      void router.push({ name: 'change-password' })
+      return
+    }
+    const from = router.currentRoute.value.fullPath
+    session.clear()
+    queryClient.removeQueries()
+    void router.push({ name: 'sign-in', query: { redirect: from, reason: 'expired' } })
+  })
+
+  router.afterEach((to) => {
+    document.title = to.meta.title ? `${to.meta.title} · Ferrolane` : 'Ferrolane'
+  })
+}

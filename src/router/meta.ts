@@ -1,0 +1,16 @@
+import type { Role } from '@shared/roles'
+
+declare module 'vue-router' {
+  interface RouteMeta {
+    /** Open without signing in (only the sign-in page). */
+    public?: boolean
+    /** Roles allowed in; absent means any signed-in user. The server checks again. */
+    roles?: readonly Role[]
+    /** Page title shown in the browser tab. */
+    title?: string
+    /** Listed in the main navigation, in this order, for the roles allowed. */
+    nav?: { label: string; icon: string; order: number }
+  }
+}
+
+export {}

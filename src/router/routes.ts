@@ -1,0 +1,68 @@
+import type { RouteRecordRaw } from 'vue-router'
+import { ROLES } from '@shared/roles'
+import { ROLE_HOMES } from './homes'
+
+// '/' never renders: the guard always sends a signed-in user on to their role's home.
+const RoleHomeRedirect = { render: () => null }
+
+export const routes: RouteRecordRaw[] = [
+  { path: '/', name: 'home', component: RoleHomeRedirect },
+  {
+    path: '/sign-in',
+    name: 'sign-in',
+    component: () => import('@/views/SignInView.vue'),
+    meta: { public: true, title: 'Sign in' },
+  },
+  {
+    path: '/screening',
+    name: 'nurse-home',
+    component: () => import('@/views/NurseHomeView.vue'),
+    meta: { roles: ['nurse'], title: ROLE_HOMES.nurse.title, nav: { label: 'Screening', icon: 'pi pi-list-check', order: 10 } },
+  },
+  {
+    path: '/clinic',
+    name: 'doctor-home',
+    component: () => import('@/views/DoctorHomeView.vue'),
+    meta: { roles: ['doctor'], title: ROLE_HOMES.doctor.title, nav: { label: 'Clinic', icon: 'pi pi-briefcase', order: 10 } },
+  },
+  {
+    path: '/theatre',
+    name: 'surgeon-home',
+    component: () => import('@/views/SurgeonHomeView.vue'),
+    meta: {
+      roles: ['surgeon'],
+      title: ROLE_HOMES.surgeon.title,
+      nav: { label: 'Readiness', icon: 'pi pi-calendar-clock', order: 10 },
+    },
+  },
+  {
+    path: '/admin',
+    name: 'admin-home',
+    component: () => import('@/views/AdminHomeView.vue'),
+    meta: { roles: ['admin'], title: ROLE_HOMES.admin.title, nav: { label: 'Administration', icon: 'pi pi-cog', order: 10 } },
+  },
+  {
+    path: '/admin/users',
+    name: 'admin-users',
+    component: () => import('@/views/AdminUsersView.vue'),
+    meta: { roles: ['admin'], title: 'Staff accounts', nav: { label: 'Staff accounts', icon: 'pi pi-users', order: 20 } },
+  },
+  {
+    path: '/account/password',
+    name: 'change-password',
+    component: () => import('@/views/ChangePasswordView.vue'),
+    meta: { roles: ROLES, title: 'Change password' },
+  },
+  {
+    path: '/forbidden',
+    name: 'forbidden',
+    component: () => import('@/views/ForbiddenView.vue'),
+    meta: { title: 'No access' },
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    name: 'not-found',
+    component: () => import('@/views/NotFoundView.vue'),
+    meta: { title: 'Page not found' },
+  },
+]

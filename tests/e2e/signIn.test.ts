@@ -1,0 +1,84 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import AxeBuilder from '@axe-core/playwright'
+import { launchBrowser, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
+import { cleanDatabase } from '../helpers/app'
+import { makeStaff, type StaffFixture } from '../helpers/factories'
+import { ROLES, type Role } from '../../shared/roles'
+
+let served: ServedApp
+let browser: Browser
+const staff = {} as Record<Role, StaffFixture>
+
+const HOME: Record<Role, { path: string; heading: RegExp }> = {
+  nurse: { path: '/screening', heading: /Screening/ },
+  doctor: { path: '/clinic', heading: /Anaemia clinic/ },
+  surgeon: { path: '/theatre', heading: /Theatre readiness/ },
+  admin: { path: '/admin', heading: /Administration/ },
+}
+
+beforeAll(async () => {
+  served = await serveBuiltApp()
+  await cleanDatabase(served.sequelize)
+  for (const role of ROLES) staff[role] = await makeStaff(role)
+  browser = await launchBrowser()
+})
+afterAll(async () => {
+  await browser?.close()
+  await served?.stop()
+})
+
+/** axe-core's WCAG 2.x A/AA rules; serious and critical findings fail the test. */
+async function seriousViolations(page: import('playwright-core').Page) {
+  const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21aa', 'wcag22aa']).analyze()
+  return results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)
+}
+
+describe('signing in through the real page', () => {
+  it('then the sign-in page has no serious or critical accessibility violation', async () => {
+    const context = await browser.newContext()
+    const page = await context.newPage()
+    await page.goto(`${served.baseUrl}/sign-in`)
+    await page.waitForSelector('#email')
+    expect(await seriousViolations(page)).toEqual([])
+    await context.close()
+  })
+
+  it('when the password is wrong, then the page says so and stays on sign-in', async () => {
+    const page = await browser.newPage()
+    await signInThroughPage(page, served.baseUrl, staff.nurse.email, 'definitely-not-it')
+    await expect.poll(() => page.getByTestId('sign-in-error').textContent()).toMatch(/do not match/)
+    expect(new URL(page.url()).pathname).toBe('/sign-in')
+    await page.close()
+  })
+
+  for (const role of ROLES) {
+    it(`when a ${role} signs in, then they land on their home, which passes axe`, async () => {
+      const context = await browser.newContext()
+      const page = await context.newPage()
+      await signInThroughPage(page, served.baseUrl, staff[role].email, staff[role].password)
+      await page.waitForURL(`${served.baseUrl}${HOME[role].path}`)
+      await expect.poll(() => page.locator('h1').first().textContent()).toMatch(HOME[role].heading)
+      expect(await seriousViolations(page)).toEqual([])
+      await context.close()
+    })
+  }
+
+  it('when a nurse opens the admin URL, then they are turned away', async () => {
+    const context = await browser.newContext()
+    const page = await context.newPage()
+    await signInThroughPage(page, served.baseUrl, staff.nurse.email, staff.nurse.password)
+    await page.waitForURL(`${served.baseUrl}/screening`)
+    await page.goto(`${served.baseUrl}/admin/users`)
+    await expect.poll(() => page.locator('h1').first().textContent()).toMatch(/access/i)
+    expect(await page.locator('text=Staff accounts').count()).toBe(0)
+    await context.close()
+  })
+
+  it('when signed out, then opening a page sends the user to sign-in', async () => {
+    const page = await browser.newPage()
+    await page.goto(`${served.baseUrl}/admin/users`)
+    await page.waitForURL(/\/sign-in/)
+    await page.close()
+  })
+})
