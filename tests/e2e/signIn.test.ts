@@ -5,6 +5,7 @@ import { launchBrowser, serveBuiltApp, signInThroughPage, type ServedApp } from 
 import { cleanDatabase } from '../helpers/app'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { ROLES, type Role } from '../../shared/roles'
+import { gzipSync } from 'node:zlib'
 
 let served: ServedApp
 let browser: Browser
@@ -41,6 +42,23 @@ describe('signing in through the real page', () => {
     await page.goto(`${served.baseUrl}/sign-in`)
     await page.waitForSelector('#email')
     expect(await seriousViolations(page)).toEqual([])
+    await context.close()
+  })
+
+  it('then the sign-in page loads under 200 kB of JavaScript, gzipped, and nothing from another origin', async () => {
+    const context = await browser.newContext()
+    const page = await context.newPage()
+    const scripts: Promise<Buffer>[] = []
+    const origins = new Set<string>()
+    page.on('request', (r) => origins.add(new URL(r.url()).origin))
+    page.on('response', (r) => {
+      if (r.request().resourceType() === 'script') scripts.push(r.body())
+    })
+    await page.goto(`${served.baseUrl}/sign-in`, { waitUntil: 'networkidle' })
+    const gzipped = (await Promise.all(scripts)).reduce((sum, b) => sum + gzipSync(b).length, 0)
+    expect(gzipped).toBeGreaterThan(10_000) // it did load the app
+    expect(gzipped).toBeLessThan(200 * 1024)
+    expect([...origins]).toEqual([served.baseUrl])
     await context.close()
   })
 

@@ -1,0 +1,8 @@
+#!/usr/bin/env bash
+# npm run bench: performance figures printed as JSON lines (a benchmark, not a timed test).
+set -euo pipefail
+cd "$(dirname "$0")/.."
+source scripts/lib/system.sh
+ensure_mariadb
+ensure_node_modules
+exec node_modules/.bin/tsx scripts/bench.ts "$@"
