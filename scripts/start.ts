@@ -1,6 +1,8 @@
 /**
  * npm start: private MariaDB (.data/), migrations, demo data when empty, maildev, client build,
  * then the server. Ctrl-C stops everything it started and shuts MariaDB down cleanly.
+ * `--dev` (npm run dev) skips the build and runs the server under `tsx watch` beside Vite's
+ * dev server (http://127.0.0.1:5173, which proxies /api to the server).
  */
 import { spawn, type ChildProcess } from 'node:child_process'
 import path from 'node:path'
@@ -8,6 +10,7 @@ import { startStack, repoRoot, intFromEnv } from './lib/stack'
 import { prepareDatabase } from './lib/prepare'
 import { DEMO_PASSWORD, DEMO_ACCOUNTS } from '../seed/demo/staff'
 
+const dev = process.argv.includes('--dev')
 const port = intFromEnv('PORT', 8080)
 const mailWebPort = intFromEnv('MAILDEV_WEB_PORT', 1080)
 
@@ -30,11 +33,13 @@ async function main(): Promise<void> {
     mailWebPort,
   })
   let server: ChildProcess | null = null
+  let vite: ChildProcess | null = null
   let stopping = false
   const stopAll = async (signal: string) => {
     if (stopping) return
     stopping = true
     console.log(`\n[start] ${signal}: stopping Ferrolane, maildev and MariaDB...`)
+    vite?.kill('SIGTERM')
     if (server && server.exitCode === null) {
       server.kill('SIGTERM')
       await new Promise((r) => server!.once('exit', r))
@@ -47,13 +52,18 @@ async function main(): Promise<void> {
   process.on('SIGTERM', () => void stopAll('SIGTERM'))
 
   try {
-    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, PORT: String(port), NODE_ENV: process.env.NODE_ENV || 'production' }
+    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, PORT: String(port), NODE_ENV: process.env.NODE_ENV || (dev ? 'development' : 'production') }
     env.SESSION_SECRET ||= 'ferrolane-local-demo-secret-change-me-in-production'
     const seeded = await prepareDatabase(env, { seedDemo: true })
     console.log(seeded ? '[start] loaded the demo scenario (invented data)' : '[start] database already has data; demo not reloaded')
-    console.log('[start] building the client...')
-    await run(path.join(repoRoot, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], env)
-    server = spawn(path.join(repoRoot, 'node_modules/.bin/tsx'), ['server/index.ts'], { cwd: repoRoot, env, stdio: 'inherit' })
+    if (dev) {
+      vite = spawn(path.join(repoRoot, 'node_modules/.bin/vite'), ['--host', '127.0.0.1'], { cwd: repoRoot, env, stdio: 'inherit' })
+    } else {
+      console.log('[start] building the client...')
+      await run(path.join(repoRoot, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], env)
+    }
+    const serverArgs = dev ? ['watch', 'server/index.ts'] : ['server/index.ts']
+    server = spawn(path.join(repoRoot, 'node_modules/.bin/tsx'), serverArgs, { cwd: repoRoot, env, stdio: 'inherit' })
     server.on('exit', (code) => {
       if (!stopping) {
         console.error(`[start] the server exited (${code}); stopping the rest`)
@@ -61,7 +71,7 @@ async function main(): Promise<void> {
       }
     })
     console.log(`
-  Ferrolane      http://127.0.0.1:${port}
+  Ferrolane      http://127.0.0.1:${dev ? 5173 : port}
   maildev        http://127.0.0.1:${mailWebPort}   (every e-mail the app sends lands here)
   Demo sign-ins  (password for all: ${DEMO_PASSWORD})
 ${DEMO_ACCOUNTS.map((a) => `    ${a.role.padEnd(8)} ${a.email}`).join('\n')}
