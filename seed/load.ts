@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize'
 import { User } from '../server/models/index'
 import { hashPassword } from '../server/services/passwords'
 import { DEMO_ACCOUNTS, DEMO_COLLEAGUES, DEMO_PASSWORD } from './demo/staff'
+import { loadDemoEpisodes } from './demo/episodes'
 
 /**
  * Loads the invented demo scenario, only into an empty database (so a restart keeps real work).
@@ -15,6 +16,8 @@ export async function loadDemoScenario(sequelize: Sequelize): Promise<boolean> {
       [...DEMO_ACCOUNTS, ...DEMO_COLLEAGUES].map((s) => ({ ...s, passwordHash, mustChangePassword: false })),
       { transaction: t },
     )
+    // The operations catalogue and about forty invented patients across every stage.
+    await loadDemoEpisodes(t)
   })
   return true
 }

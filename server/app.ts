@@ -17,6 +17,11 @@ import type { AppContext } from './routes/context'
 import { healthRoutes } from './routes/health'
 import { authRoutes } from './routes/auth'
 import { userRoutes } from './routes/users'
+import { staffRoutes } from './routes/staff'
+import { patientRoutes } from './routes/patients'
+import { procedureRoutes } from './routes/procedures'
+import { referralRoutes } from './routes/referrals'
+import { worklistRoutes } from './routes/worklist'
 
 export const SESSION_COOKIE = 'ferrolane.sid'
 
@@ -78,7 +83,10 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   api.use(passport.session())
   api.use(requireCsrf)
 
-  const routers: ApiRouter[] = [healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx)]
+  const routers: ApiRouter[] = [
+    healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx),
+    staffRoutes(ctx), patientRoutes(ctx), procedureRoutes(ctx), referralRoutes(ctx), worklistRoutes(ctx),
+  ]
   for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
   api.use(apiNotFound)
   api.use(errorHandler)

@@ -1,5 +1,6 @@
 import type { QueryInterface } from 'sequelize'
 import * as m0001 from './0001-foundation'
+import * as m0002 from './0002-pathway'
 
 export interface Migration {
   name: string
@@ -8,4 +9,7 @@ export interface Migration {
 }
 
 /** In order. Listed by hand so they bundle and type-check like the rest of the server. */
-export const migrations: Migration[] = [{ name: '0001-foundation', ...m0001 }]
+export const migrations: Migration[] = [
+  { name: '0001-foundation', ...m0001 },
+  { name: '0002-pathway', ...m0002 },
+]

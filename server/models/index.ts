@@ -3,8 +3,14 @@ import { initUser, User } from './user'
 import { initSessionRow, SessionRow } from './session'
 import { initAuditEntry, AuditEntry } from './auditEntry'
 import { initLoginFailure, LoginFailure } from './loginFailure'
+import { initPatient, Patient } from './patient'
+import { initPatientMeasurement, PatientMeasurement } from './patientMeasurement'
+import { initProcedure, Procedure } from './procedure'
+import { initReferral, Referral } from './referral'
+import { initResult, Result } from './result'
+import { initStageTransition, StageTransition } from './stageTransition'
 
-export { User, SessionRow, AuditEntry, LoginFailure }
+export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 
 /**
  * Models are module-level classes bound to one Sequelize instance; a test that builds a
@@ -15,5 +21,21 @@ export function initModels(sequelize: Sequelize): void {
   initSessionRow(sequelize)
   initAuditEntry(sequelize)
   initLoginFailure(sequelize)
-  // Associations live here, in one place, as later models arrive.
+  initPatient(sequelize)
+  initPatientMeasurement(sequelize)
+  initProcedure(sequelize)
+  initReferral(sequelize)
+  initResult(sequelize)
+  initStageTransition(sequelize)
+
+  // Associations live here, in one place. Aliases are the names services include by.
+  Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
+  Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })
+  Referral.belongsTo(Patient, { foreignKey: 'patientId', as: 'patient' })
+  Referral.belongsTo(Procedure, { foreignKey: 'procedureId', as: 'procedure' })
+  Referral.belongsTo(User, { foreignKey: 'surgeonId', as: 'surgeon' })
+  Referral.hasMany(Result, { foreignKey: 'referralId', as: 'results' })
+  Referral.hasMany(StageTransition, { foreignKey: 'referralId', as: 'transitions' })
+  Result.belongsTo(User, { foreignKey: 'enteredBy', as: 'enteredByUser' })
+  StageTransition.belongsTo(User, { foreignKey: 'userId', as: 'user' })
 }

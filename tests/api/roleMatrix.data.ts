@@ -1,5 +1,7 @@
 import type { Role } from '../../shared/roles'
 
+const STAFF: Role[] = ['admin', 'nurse', 'doctor', 'surgeon']
+
 export type Allow = 'public' | 'signed-in' | Role[]
 export interface MatrixEntry { method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'; path: string; allow: Allow }
 
@@ -18,4 +20,21 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/users', allow: ['admin'] },
   { method: 'PATCH', path: '/api/users/:id', allow: ['admin'] },
   { method: 'POST', path: '/api/users/:id/reset-password', allow: ['admin'] },
+  // The referral pathway: every staff role reads (surgeons their own patients only, checked in
+  // the services); nurses and doctors write clinical records; admins keep the catalogue.
+  { method: 'GET', path: '/api/staff', allow: 'signed-in' },
+  { method: 'GET', path: '/api/patients', allow: [...STAFF] },
+  { method: 'POST', path: '/api/patients', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/patients/:id', allow: [...STAFF] },
+  { method: 'PATCH', path: '/api/patients/:id', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/procedures', allow: 'signed-in' },
+  { method: 'POST', path: '/api/procedures', allow: ['admin'] },
+  { method: 'PATCH', path: '/api/procedures/:code', allow: ['admin'] },
+  { method: 'POST', path: '/api/referrals', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/referrals/:id', allow: [...STAFF] },
+  { method: 'PATCH', path: '/api/referrals/:id', allow: ['nurse', 'doctor'] },
+  { method: 'POST', path: '/api/referrals/:id/transitions', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'POST', path: '/api/referrals/:id/results', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/referrals/:id/results', allow: [...STAFF] },
+  { method: 'GET', path: '/api/worklist', allow: [...STAFF] },
 ]

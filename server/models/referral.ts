@@ -1,0 +1,64 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
+import type { AnaemiaCriteria, AnaemiaSeverity, IronStatus } from '../../shared/clinical'
+import type { Priority, Stage } from '../../shared/pathway'
+
+/**
+ * One surgical episode. The screening outcome (latest Hb, iron status, proposal) is kept on
+ * this row, updated in the same transaction as each new result, so the worklist is a single
+ * indexed SELECT even with hundreds of thousands of results.
+ */
+export class Referral extends Model<InferAttributes<Referral>, InferCreationAttributes<Referral>> {
+  declare id: CreationOptional<number>
+  declare patientId: number
+  declare procedureId: number
+  declare surgeonId: number
+  declare plannedSurgeryDate: string
+  declare priority: Priority
+  declare referringSource: string | null
+  declare stage: Stage
+  declare version: CreationOptional<number>
+  declare anaemic: boolean | null
+  declare anaemiaSeverity: AnaemiaSeverity | null
+  declare anaemiaCriteria: AnaemiaCriteria
+  declare ironStatus: IronStatus | null
+  declare proposedStage: Stage | null
+  declare latestHbGL: number | null
+  declare latestHbAt: Date | null
+  // Filled by the clinic work (prescriptions, re-checks); nullable until then.
+  declare recheckDueDate: CreationOptional<string | null>
+  declare treatmentOrderedAt: CreationOptional<Date | null>
+  declare treatmentGivenAt: CreationOptional<Date | null>
+  declare createdBy: number | null
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export function initReferral(sequelize: Sequelize): void {
+  Referral.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      patientId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      procedureId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      surgeonId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      plannedSurgeryDate: { type: DataTypes.DATEONLY, allowNull: false },
+      priority: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'routine' },
+      referringSource: { type: DataTypes.STRING(200), allowNull: true },
+      stage: { type: DataTypes.STRING(12), allowNull: false, defaultValue: 'referred' },
+      version: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 1 },
+      anaemic: { type: DataTypes.BOOLEAN, allowNull: true },
+      anaemiaSeverity: { type: DataTypes.STRING(10), allowNull: true },
+      anaemiaCriteria: { type: DataTypes.STRING(10), allowNull: false },
+      ironStatus: { type: DataTypes.STRING(20), allowNull: true },
+      proposedStage: { type: DataTypes.STRING(12), allowNull: true },
+      latestHbGL: { type: DataTypes.DOUBLE, allowNull: true, field: 'latest_hb_gl' },
+      latestHbAt: { type: DataTypes.DATE, allowNull: true },
+      recheckDueDate: { type: DataTypes.DATEONLY, allowNull: true },
+      treatmentOrderedAt: { type: DataTypes.DATE, allowNull: true },
+      treatmentGivenAt: { type: DataTypes.DATE, allowNull: true },
+      createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: 'referrals' },
+  )
+}

@@ -1,0 +1,34 @@
+import { ApiRouter } from './apiRouter'
+import { signedInActor, type AppContext } from './context'
+import { validate } from '../middleware/validate'
+import { createProcedureSchema, updateProcedureSchema, type CreateProcedureInput, type UpdateProcedureInput } from '../../shared/schemas/procedures'
+import { createProcedure, listProcedures, updateProcedure } from '../services/procedures'
+
+export function procedureRoutes({ sequelize }: AppContext): ApiRouter {
+  const api = new ApiRouter('/api/procedures')
+  const admin = { access: ['admin'] } as const
+
+  api.get('', { access: 'signed-in' }, async (req, res) => {
+    res.json({ rows: await listProcedures(req.query.includeInactive === '1' || req.query.includeInactive === 'true') })
+  })
+
+  api.post('', admin, validate(createProcedureSchema), async (req, res) => {
+    const b = req.body as CreateProcedureInput
+    const input: CreateProcedureInput = {
+      code: b.code, name: b.name, specialty: b.specialty, expectedBloodLossMl: b.expectedBloodLossMl, transfusionRate: b.transfusionRate,
+      usualBloodOrder: b.usualBloodOrder, usualUnits: b.usualUnits, source: b.source, active: b.active,
+    }
+    res.status(201).json(await createProcedure(sequelize, signedInActor(req), input))
+  })
+
+  api.patch('/:code', admin, validate(updateProcedureSchema), async (req, res) => {
+    const b = req.body as UpdateProcedureInput
+    const input: UpdateProcedureInput = {
+      name: b.name, specialty: b.specialty, expectedBloodLossMl: b.expectedBloodLossMl, transfusionRate: b.transfusionRate,
+      usualBloodOrder: b.usualBloodOrder, usualUnits: b.usualUnits, source: b.source, active: b.active,
+    }
+    res.json(await updateProcedure(sequelize, signedInActor(req), String(req.params.code).toUpperCase(), input))
+  })
+
+  return api
+}

@@ -1,0 +1,67 @@
+import { ApiRouter } from './apiRouter'
+import { idParam, type AppContext } from './context'
+import { CLINICAL_WRITERS, STAFF, viewerOf } from './pathwayContext'
+import { validate } from '../middleware/validate'
+import {
+  createReferralSchema,
+  transitionSchema,
+  updateReferralSchema,
+  type CreateReferralInput,
+  type TransitionInput,
+  type UpdateReferralInput,
+} from '../../shared/schemas/referrals'
+import { createResultSchema, type CreateResultInput } from '../../shared/schemas/results'
+import { isAnalyte } from '../../shared/pathway'
+import { createReferral, updateReferral } from '../services/referrals'
+import { referralDetail } from '../services/referralDetail'
+import { moveReferral } from '../services/transitions'
+import { addResult, listResults } from '../services/results'
+import { Invalid } from '../errors'
+
+export function referralRoutes({ sequelize }: AppContext): ApiRouter {
+  const api = new ApiRouter('/api/referrals')
+
+  api.post('', { access: CLINICAL_WRITERS }, validate(createReferralSchema), async (req, res) => {
+    const b = req.body as CreateReferralInput
+    const input: CreateReferralInput = {
+      patientId: b.patientId, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
+      plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource,
+    }
+    res.status(201).json(await createReferral(sequelize, viewerOf(req), input))
+  })
+
+  api.get('/:id', { access: STAFF }, async (req, res) => {
+    res.json(await referralDetail(viewerOf(req), idParam(req), { audit: true }))
+  })
+
+  api.patch('/:id', { access: CLINICAL_WRITERS }, validate(updateReferralSchema), async (req, res) => {
+    const b = req.body as UpdateReferralInput
+    const input: UpdateReferralInput = {
+      version: b.version, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
+      plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource,
+    }
+    res.json(await updateReferral(sequelize, viewerOf(req), idParam(req), input))
+  })
+
+  // Surgeons record the operation and may postpone or withdraw; the pathway table decides the rest.
+  api.post('/:id/transitions', { access: ['nurse', 'doctor', 'surgeon'] }, validate(transitionSchema), async (req, res) => {
+    const b = req.body as TransitionInput
+    res.json(await moveReferral(sequelize, viewerOf(req), idParam(req), { to: b.to, reason: b.reason, version: b.version }))
+  })
+
+  api.post('/:id/results', { access: CLINICAL_WRITERS }, validate(createResultSchema), async (req, res) => {
+    const b = req.body as CreateResultInput
+    const input: CreateResultInput = { analyte: b.analyte, value: b.value, unit: b.unit, takenAt: b.takenAt }
+    res.status(201).json(await addResult(sequelize, viewerOf(req), idParam(req), input))
+  })
+
+  api.get('/:id/results', { access: STAFF }, async (req, res) => {
+    const analyte = req.query.analyte
+    if (analyte !== undefined && !isAnalyte(analyte) && analyte !== 'egfr') {
+      throw new Invalid('analyte filter is not a known analyte', { analyte: 'is not a known analyte' })
+    }
+    res.json({ rows: await listResults(viewerOf(req), idParam(req), analyte as string | undefined) })
+  })
+
+  return api
+}

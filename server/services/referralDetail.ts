@@ -1,0 +1,88 @@
+import { Patient, Procedure, Referral, Result, StageTransition, User } from '../models/index'
+import { STAGE_LABELS, allowedMoves, daysBetween, isReadOnly, nextAction, referralFlags, todayIso } from '../../shared/pathway'
+import { recordAudit } from './audit'
+import { toPatientView } from './patients'
+import { toProcedureView } from './procedures'
+import { toResultView, type ResultView } from './results'
+import { screeningView } from './screening'
+import { assertMaySeeReferral, isoOrNull, type Viewer } from './viewer'
+import { NotFound } from '../errors'
+
+type Loaded = Referral & { patient: Patient; procedure: Procedure; surgeon: User }
+type TransitionRow = StageTransition & { user?: User | null }
+
+function timelineOf(transitions: TransitionRow[], results: ResultView[]) {
+  const moves = transitions.map((s) => ({
+    kind: 'transition' as const,
+    at: isoOrNull(s.at)!,
+    from: s.fromStage,
+    to: s.toStage,
+    toLabel: STAGE_LABELS[s.toStage],
+    reason: s.reason,
+    user: s.user ? { id: s.user.id, name: s.user.name } : null,
+  }))
+  // Results sit on the timeline at the time the sample was taken (the clinical moment).
+  const labs = results.map((r) => ({ kind: 'result' as const, ...r, at: r.takenAt }))
+  return [...moves, ...labs].sort((a, b) => (a.at < b.at ? 1 : a.at > b.at ? -1 : 0))
+}
+
+/** The latest result of each analyte (including derived TSAT and eGFR). */
+function latestByAnalyte(results: ResultView[]): Record<string, ResultView> {
+  const out: Record<string, ResultView> = {}
+  for (const r of results) out[r.analyte] ??= r
+  return out
+}
+
+/**
+ * One episode as the episode page shows it: patient header, operation, screening outcome,
+ * latest results, flags, the moves this caller may make and the timeline (newest first).
+ * `audit: true` records the read (opening a record is audited; returning it after a write is not).
+ */
+export async function referralDetail(viewer: Viewer, id: number, opts: { audit?: boolean } = {}) {
+  const r = (await Referral.findByPk(id, {
+    include: [
+      { model: Patient, as: 'patient' },
+      { model: Procedure, as: 'procedure' },
+      { model: User, as: 'surgeon', attributes: ['id', 'name'] },
+    ],
+  })) as Loaded | null
+  if (!r) throw new NotFound('Referral')
+  assertMaySeeReferral(viewer, r.surgeonId)
+  const [patient, resultRows, transitions] = await Promise.all([
+    toPatientView(r.patient),
+    Result.findAll({ where: { referralId: id }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
+    StageTransition.findAll({ where: { referralId: id }, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']] }),
+  ])
+  if (opts.audit) await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId })
+  const results = resultRows.map(toResultView)
+  const today = todayIso()
+  return {
+    id: r.id,
+    version: r.version,
+    stage: r.stage,
+    stageLabel: STAGE_LABELS[r.stage],
+    nextAction: nextAction(r.stage),
+    readOnly: isReadOnly(r.stage),
+    priority: r.priority,
+    referringSource: r.referringSource,
+    plannedSurgeryDate: r.plannedSurgeryDate,
+    daysToSurgery: daysBetween(today, r.plannedSurgeryDate),
+    patientId: r.patientId,
+    procedureCode: r.procedure.code,
+    surgeonId: r.surgeonId,
+    patient: { id: patient.id, mrn: patient.mrn, givenName: patient.givenName, familyName: patient.familyName, dateOfBirth: patient.dateOfBirth, ageYears: patient.ageYears, sex: patient.sex, heightCm: patient.heightCm, heightMeasuredAt: patient.heightMeasuredAt, weightKg: patient.weightKg, weightMeasuredAt: patient.weightMeasuredAt, version: patient.version },
+    procedure: toProcedureView(r.procedure),
+    surgeon: { id: r.surgeon.id, name: r.surgeon.name },
+    screening: screeningView(r, r.patient.sex),
+    latestResults: latestByAnalyte(results),
+    flags: referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today),
+    recheckDueDate: r.recheckDueDate,
+    treatmentOrderedAt: isoOrNull(r.treatmentOrderedAt),
+    treatmentGivenAt: isoOrNull(r.treatmentGivenAt),
+    allowedMoves: allowedMoves(r.stage, viewer.role),
+    timeline: timelineOf(transitions as TransitionRow[], results),
+    createdBy: r.createdBy,
+    createdAt: isoOrNull(r.createdAt),
+    updatedAt: isoOrNull(r.updatedAt),
+  }
+}

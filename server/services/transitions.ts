@@ -1,0 +1,56 @@
+import type { Sequelize } from 'sequelize'
+import { Referral, StageTransition } from '../models/index'
+import { STAGE_LABELS, allowedMoves, findMove, isReadOnly, type Stage } from '../../shared/pathway'
+import type { TransitionInput } from '../../shared/schemas/referrals'
+import { recordAudit } from './audit'
+import { referralDetail } from './referralDetail'
+import { assertMaySeeReferral, staleVersion, type Viewer } from './viewer'
+import { Forbidden, NotFound, RuleRefused } from '../errors'
+
+/**
+ * Moves an episode to another stage, enforcing the pathway table in shared/pathway. The checks
+ * run in this order so each answer is the most useful one: a stale version first (what you saw
+ * is no longer true), then a read-only episode, a move the pathway does not have, a role that
+ * may not make it, a missing reason, and a missing result.
+ */
+export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: number, input: TransitionInput) {
+  const to = input.to as Stage
+  const reason = input.reason ?? null
+  await sequelize.transaction(async (t) => {
+    // Locked so a result arriving at the same moment cannot interleave with the move.
+    const r = await Referral.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
+    if (!r) throw new NotFound('Referral')
+    assertMaySeeReferral(viewer, r.surgeonId)
+    if (r.version !== input.version) throw staleVersion('This referral')
+    if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
+    const move = findMove(r.stage, to)
+    if (!move) {
+      const options = allowedMoves(r.stage, viewer.role).map((m) => m.to)
+      throw new RuleRefused(
+        `An episode cannot move from "${STAGE_LABELS[r.stage]}" to "${STAGE_LABELS[to]}"${options.length ? ` (you may move it to: ${options.join(', ')})` : ''}`,
+        'move_not_allowed',
+      )
+    }
+    if (!move.roles.includes(viewer.role)) {
+      throw new Forbidden(`Only ${move.roles.join(' or ')} may move an episode from ${r.stage} to ${to}`, 'move_forbidden')
+    }
+    if (move.requiresReason && !reason) {
+      throw new RuleRefused(`A reason is required to move an episode to "${STAGE_LABELS[to]}"`, 'reason_required', { reason: 'is required for this move' })
+    }
+    if (move.requires === 'hb-result' && r.latestHbAt == null) {
+      throw new RuleRefused('Screening needs at least an Hb result; enter one first', 'hb_result_required')
+    }
+    const [count] = await Referral.update({ stage: to, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
+    if (count !== 1) throw staleVersion('This referral')
+    const row = await StageTransition.create({ referralId: id, fromStage: r.stage, toStage: to, reason, userId: viewer.userId }, { transaction: t })
+    await recordAudit(t, viewer, {
+      action: 'transition',
+      entity: 'referral',
+      entityId: id,
+      patientId: r.patientId,
+      before: { stage: r.stage, version: r.version },
+      after: { stage: to, version: input.version + 1, reason, transitionId: row.id },
+    })
+  })
+  return referralDetail(viewer, id)
+}

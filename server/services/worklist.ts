@@ -1,0 +1,168 @@
+import { QueryTypes, type Sequelize } from 'sequelize'
+import {
+  PRE_OPERATIVE_STAGES,
+  PRIORITIES,
+  STAGES,
+  STAGE_LABELS,
+  SURGERY_SOON_DAYS,
+  addDays,
+  daysBetween,
+  nextAction,
+  referralFlags,
+  todayIso,
+  type Stage,
+  type WorklistFlag,
+} from '../../shared/pathway'
+import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals'
+import { Forbidden } from '../errors'
+import { isoOrNull, type Viewer } from './viewer'
+
+const quoted = (xs: readonly string[]) => xs.map((x) => `'${x}'`).join(',')
+const PRE_OP = `(${quoted(PRE_OPERATIVE_STAGES)})`
+
+/**
+ * The flags as SQL over columns of the referral row only (no subqueries), so each filter is an
+ * index range. They mirror referralFlags() in shared/pathway/flags.ts, which labels each row;
+ * the API tests check that the two agree.
+ */
+const FLAG_SQL: Record<WorklistFlag, string> = {
+  'surgery-soon-anaemic': `(r.anaemic = 1 AND r.planned_surgery_date BETWEEN :today AND :soon AND r.stage IN ${PRE_OP})`,
+  'no-screening-result': `(r.latest_hb_at IS NULL AND r.stage IN ${PRE_OP})`,
+  'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR DATE(r.latest_hb_at) < r.recheck_due_date))`,
+  'treatment-not-given': `(r.treatment_ordered_at IS NOT NULL AND r.treatment_given_at IS NULL AND r.stage IN ${PRE_OP})`,
+}
+
+const byDate = 'r.planned_surgery_date'
+// Every order ends in r.id so pages never overlap or skip rows that tie.
+const SORT_SQL: Record<WorklistSort, string> = {
+  plannedSurgeryDate: `${byDate} ASC, r.id ASC`,
+  '-plannedSurgeryDate': `${byDate} DESC, r.id DESC`,
+  daysToSurgery: `${byDate} ASC, r.id ASC`,
+  '-daysToSurgery': `${byDate} DESC, r.id DESC`,
+  // Lowest Hb first; episodes without an Hb go last either way.
+  latestHb: `r.latest_hb_gl IS NULL, r.latest_hb_gl ASC, ${byDate} ASC, r.id ASC`,
+  '-latestHb': `r.latest_hb_gl IS NULL, r.latest_hb_gl DESC, ${byDate} ASC, r.id ASC`,
+  // The pathway's own order, not the alphabet.
+  stage: `FIELD(r.stage, ${quoted(STAGES)}) ASC, ${byDate} ASC, r.id ASC`,
+  '-stage': `FIELD(r.stage, ${quoted(STAGES)}) DESC, ${byDate} ASC, r.id ASC`,
+  familyName: `pa.family_name ASC, pa.given_name ASC, r.id ASC`,
+  '-familyName': `pa.family_name DESC, pa.given_name DESC, r.id DESC`,
+  // Most pressing first: cancer pathway, urgent, routine.
+  priority: `FIELD(r.priority, ${quoted([...PRIORITIES].reverse())}) ASC, ${byDate} ASC, r.id ASC`,
+  '-priority': `FIELD(r.priority, ${quoted([...PRIORITIES].reverse())}) DESC, ${byDate} ASC, r.id ASC`,
+  createdAt: `r.created_at ASC, r.id ASC`,
+  '-createdAt': `r.created_at DESC, r.id DESC`,
+}
+
+const likePrefix = (s: string) => `${s.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
+
+interface WorklistSqlRow {
+  id: number
+  version: number
+  stage: Stage
+  priority: string
+  plannedSurgeryDate: string
+  latestHbGL: number | null
+  latestHbAt: Date | string | null
+  ironStatus: string | null
+  anaemic: number | boolean | null
+  proposedStage: Stage | null
+  recheckDueDate: string | null
+  treatmentOrderedAt: Date | string | null
+  treatmentGivenAt: Date | string | null
+  patientId: number
+  mrn: string
+  givenName: string
+  familyName: string
+  dateOfBirth: string
+  sex: string
+  procedureCode: string
+  procedureName: string
+  surgeonId: number
+  surgeonName: string
+}
+
+/**
+ * The clinic's live list: filtered, sorted and paged in one indexed SELECT (joined to patient,
+ * operation and surgeon) plus a COUNT with the same filter. Surgeons see only their own
+ * patients; asking for another surgeon's list is refused rather than silently narrowed.
+ */
+export async function worklist(sequelize: Sequelize, viewer: Viewer, q: WorklistQuery) {
+  if (viewer.role === 'surgeon' && q.surgeonId !== undefined && q.surgeonId !== viewer.userId) {
+    throw new Forbidden("Surgeons see their own patients only", 'not_your_patient')
+  }
+  const today = todayIso()
+  const where: string[] = []
+  const params: Record<string, unknown> = { today, soon: addDays(today, SURGERY_SOON_DAYS) }
+  const surgeonId = viewer.role === 'surgeon' || q.mine ? viewer.userId : q.surgeonId
+  if (surgeonId !== undefined) { where.push('r.surgeon_id = :surgeonId'); params.surgeonId = surgeonId }
+  if (q.stage?.length) { where.push('r.stage IN (:stages)'); params.stages = q.stage }
+  if (q.priority?.length) { where.push('r.priority IN (:priorities)'); params.priorities = q.priority }
+  // A constant subquery (evaluated once), so the filter is on the referral row's own index.
+  if (q.procedureCode) { where.push('r.procedure_id = (SELECT id FROM procedures WHERE code = :procedureCode)'); params.procedureCode = q.procedureCode }
+  if (q.from) { where.push(`${byDate} >= :from`); params.from = q.from }
+  if (q.to) { where.push(`${byDate} <= :to`); params.to = q.to }
+  // Several flags mean "any of them", like several stages.
+  if (q.flag?.length) where.push(`(${q.flag.map((f) => FLAG_SQL[f as WorklistFlag]).join(' OR ')})`)
+  const terms = (q.q ?? '').split(/\s+/).filter(Boolean).slice(0, 4)
+  terms.forEach((term, i) => {
+    where.push(`(pa.mrn LIKE :q${i} OR pa.family_name LIKE :q${i} OR pa.given_name LIKE :q${i})`)
+    params[`q${i}`] = likePrefix(term)
+  })
+  const whereSql = where.length ? `WHERE ${where.join(' AND ')}` : ''
+  const sort = (q.sort ?? 'plannedSurgeryDate') as WorklistSort
+  // Read referrals first, in the sort's index order, and join only the page's rows. The
+  // optimiser otherwise starts from the ten-row operations table and sorts every referral.
+  // Name sorts are left to the optimiser, which then walks the patients' name index.
+  const straight = sort.endsWith('amilyName') ? '' : 'STRAIGHT_JOIN'
+  const page = q.page ?? 1
+  const pageSize = q.pageSize ?? 25
+  // Foreign keys guarantee the joined rows exist, so the count needs patients only to search.
+  const countFrom = `FROM referrals r${terms.length ? ' JOIN patients pa ON pa.id = r.patient_id' : ''}`
+  const [rows, countRows] = await Promise.all([
+    sequelize.query<WorklistSqlRow>(
+      `SELECT ${straight} r.id, r.version, r.stage, r.priority, r.planned_surgery_date AS plannedSurgeryDate,
+         r.latest_hb_gl AS latestHbGL, r.latest_hb_at AS latestHbAt, r.iron_status AS ironStatus, r.anaemic,
+         r.proposed_stage AS proposedStage, r.recheck_due_date AS recheckDueDate,
+         r.treatment_ordered_at AS treatmentOrderedAt, r.treatment_given_at AS treatmentGivenAt,
+         pa.id AS patientId, pa.mrn, pa.given_name AS givenName, pa.family_name AS familyName,
+         pa.date_of_birth AS dateOfBirth, pa.sex,
+         pr.code AS procedureCode, pr.name AS procedureName, u.id AS surgeonId, u.name AS surgeonName
+       FROM referrals r
+         JOIN patients pa ON pa.id = r.patient_id
+         JOIN procedures pr ON pr.id = r.procedure_id
+         JOIN users u ON u.id = r.surgeon_id
+       ${whereSql}
+       ORDER BY ${SORT_SQL[sort]}
+       LIMIT :limit OFFSET :offset`,
+      { type: QueryTypes.SELECT, replacements: { ...params, limit: pageSize, offset: (page - 1) * pageSize } },
+    ),
+    sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total ${countFrom} ${whereSql}`, { type: QueryTypes.SELECT, replacements: params }),
+  ])
+  return { rows: rows.map((row) => toWorklistRow(row, today)), total: Number(countRows[0]?.total ?? 0), page, pageSize }
+}
+
+function toWorklistRow(row: WorklistSqlRow, today: string) {
+  const anaemic = row.anaemic == null ? null : Boolean(row.anaemic)
+  return {
+    id: row.id,
+    version: row.version,
+    stage: row.stage,
+    stageLabel: STAGE_LABELS[row.stage],
+    nextAction: nextAction(row.stage),
+    priority: row.priority,
+    plannedSurgeryDate: row.plannedSurgeryDate,
+    daysToSurgery: daysBetween(today, row.plannedSurgeryDate),
+    latestHbGL: row.latestHbGL,
+    latestHbAt: isoOrNull(row.latestHbAt),
+    ironStatus: row.ironStatus,
+    anaemic,
+    proposedStage: row.proposedStage,
+    flags: referralFlags({ ...row, anaemic }, today),
+    mrn: row.mrn,
+    patientName: `${row.familyName}, ${row.givenName}`,
+    patient: { id: row.patientId, mrn: row.mrn, givenName: row.givenName, familyName: row.familyName, dateOfBirth: row.dateOfBirth, sex: row.sex },
+    procedure: { code: row.procedureCode, name: row.procedureName },
+    surgeon: { id: row.surgeonId, name: row.surgeonName },
+  }
+}

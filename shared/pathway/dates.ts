@@ -1,0 +1,42 @@
+/**
+ * Calendar-date helpers on 'YYYY-MM-DD' strings. Surgery and due dates are whole days in the
+ * hospital's local calendar, so they are never turned into instants (which would shift a day
+ * across time zones).
+ */
+const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/
+
+export function isIsoDate(value: unknown): value is string {
+  if (typeof value !== 'string') return false
+  const m = ISO_DATE.exec(value)
+  if (!m) return false
+  const d = new Date(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])))
+  return d.getUTCFullYear() === Number(m[1]) && d.getUTCMonth() === Number(m[2]) - 1 && d.getUTCDate() === Number(m[3])
+}
+
+/** Today in the local calendar of whoever runs this (the browser, or the server process). */
+export function todayIso(now: Date = new Date()): string {
+  const pad = (n: number) => String(n).padStart(2, '0')
+  return `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`
+}
+
+function utcDay(iso: string): number {
+  const [y, m, d] = iso.split('-').map(Number)
+  return Date.UTC(y!, m! - 1, d!) / 86_400_000
+}
+
+export function addDays(iso: string, days: number): string {
+  const d = new Date((utcDay(iso) + days) * 86_400_000)
+  return d.toISOString().slice(0, 10)
+}
+
+/** Whole days from `from` to `to` (negative when `to` is earlier). */
+export function daysBetween(from: string, to: string): number {
+  return utcDay(to) - utcDay(from)
+}
+
+/** Age in completed years on a given day. */
+export function ageOn(dateOfBirth: string, onIso: string): number {
+  const [by, bm, bd] = dateOfBirth.split('-').map(Number)
+  const [y, m, d] = onIso.split('-').map(Number)
+  return y! - by! - (m! < bm! || (m === bm && d! < bd!) ? 1 : 0)
+}
