@@ -61,3 +61,5 @@ export { bmi, bsaMosteller, bsaDuBois } from './bodySize'
 
 export { projectHb, roundHbGL, EXPECTED_HB_RESPONSE } from './projection'
 export type { HbMeasurement, HbTreatment, ResponseAssumption, HbProjection } from './projection'
+
+export { hbAfterIsovolaemicLoss } from './haemodilution'
