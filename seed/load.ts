@@ -3,6 +3,7 @@ import { User } from '../server/models/index'
 import { hashPassword } from '../server/services/passwords'
 import { DEMO_ACCOUNTS, DEMO_COLLEAGUES, DEMO_PASSWORD } from './demo/staff'
 import { loadDemoEpisodes } from './demo/episodes'
+import { loadDemoDateRequest, loadDemoTreatments, loadFormulary } from './demo/clinic'
 
 /**
  * Loads the invented demo scenario, only into an empty database (so a restart keeps real work).
@@ -18,6 +19,11 @@ export async function loadDemoScenario(sequelize: Sequelize): Promise<boolean> {
     )
     // The operations catalogue and about forty invented patients across every stage.
     await loadDemoEpisodes(t)
+    await loadFormulary(t)
+    const staffId = async (email: string) => (await User.findOne({ where: { email }, transaction: t }))!.id
+    await loadDemoTreatments(t, await staffId('doctor@ferrolane.test'), await staffId('nurse@ferrolane.test'))
   })
+  // Needs the committed episodes: the stored request carries the projection the surgeon saw.
+  await loadDemoDateRequest(sequelize)
   return true
 }

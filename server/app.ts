@@ -22,6 +22,10 @@ import { patientRoutes } from './routes/patients'
 import { procedureRoutes } from './routes/procedures'
 import { referralRoutes } from './routes/referrals'
 import { worklistRoutes } from './routes/worklist'
+import { clinicRoutes } from './routes/clinic'
+import { formularyRoutes } from './routes/formulary'
+import { clinicSettingsRoutes } from './routes/clinicSettings'
+import { readinessRoutes } from './routes/readiness'
 
 export const SESSION_COOKIE = 'ferrolane.sid'
 
@@ -86,6 +90,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   const routers: ApiRouter[] = [
     healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx),
     staffRoutes(ctx), patientRoutes(ctx), procedureRoutes(ctx), referralRoutes(ctx), worklistRoutes(ctx),
+    clinicRoutes(ctx), formularyRoutes(ctx), clinicSettingsRoutes(ctx), readinessRoutes(ctx),
   ]
   for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
   api.use(apiNotFound)

@@ -1,6 +1,7 @@
 import type { QueryInterface } from 'sequelize'
 import * as m0001 from './0001-foundation'
 import * as m0002 from './0002-pathway'
+import * as m0003 from './0003-clinic'
 
 export interface Migration {
   name: string
@@ -12,4 +13,5 @@ export interface Migration {
 export const migrations: Migration[] = [
   { name: '0001-foundation', ...m0001 },
   { name: '0002-pathway', ...m0002 },
+  { name: '0003-clinic', ...m0003 },
 ]

@@ -9,8 +9,16 @@ import { initProcedure, Procedure } from './procedure'
 import { initReferral, Referral } from './referral'
 import { initResult, Result } from './result'
 import { initStageTransition, StageTransition } from './stageTransition'
+import { initIronProduct, IronProductRow } from './ironProduct'
+import { initClinicSettings, ClinicSettingsRow } from './clinicSettings'
+import { initClinicReview, ClinicReview } from './clinicReview'
+import { initPrescription, Prescription } from './prescription'
+import { initAdministration, Administration } from './administration'
+import { initReadinessReview, ReadinessReview } from './readinessReview'
 
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
+export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
+
 
 /**
  * Models are module-level classes bound to one Sequelize instance; a test that builds a
@@ -27,6 +35,12 @@ export function initModels(sequelize: Sequelize): void {
   initReferral(sequelize)
   initResult(sequelize)
   initStageTransition(sequelize)
+  initIronProduct(sequelize)
+  initClinicSettings(sequelize)
+  initClinicReview(sequelize)
+  initPrescription(sequelize)
+  initAdministration(sequelize)
+  initReadinessReview(sequelize)
 
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
@@ -38,4 +52,11 @@ export function initModels(sequelize: Sequelize): void {
   Referral.hasMany(StageTransition, { foreignKey: 'referralId', as: 'transitions' })
   Result.belongsTo(User, { foreignKey: 'enteredBy', as: 'enteredByUser' })
   StageTransition.belongsTo(User, { foreignKey: 'userId', as: 'user' })
+  Referral.hasMany(ClinicReview, { foreignKey: 'referralId', as: 'reviews' })
+  ClinicReview.belongsTo(User, { foreignKey: 'reviewedBy', as: 'reviewer' })
+  Referral.hasMany(Prescription, { foreignKey: 'referralId', as: 'prescriptions' })
+  Prescription.belongsTo(User, { foreignKey: 'prescribedBy', as: 'prescriber' })
+  Prescription.hasMany(Administration, { foreignKey: 'prescriptionId', as: 'administrations' })
+  Administration.belongsTo(User, { foreignKey: 'givenBy', as: 'giver' })
+  Referral.hasMany(ReadinessReview, { foreignKey: 'referralId', as: 'readinessReviews' })
 }

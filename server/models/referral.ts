@@ -28,6 +28,10 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   declare recheckDueDate: CreationOptional<string | null>
   declare treatmentOrderedAt: CreationOptional<Date | null>
   declare treatmentGivenAt: CreationOptional<Date | null>
+  /** Set at clinic review; selects the 80 g/L transfusion trigger in the projection. */
+  declare cardiovascularDisease: CreationOptional<boolean>
+  /** The surgeon asked for the date to move; the clinic sees a flag until the date changes. */
+  declare dateChangeRequestedAt: CreationOptional<Date | null>
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -55,6 +59,8 @@ export function initReferral(sequelize: Sequelize): void {
       recheckDueDate: { type: DataTypes.DATEONLY, allowNull: true },
       treatmentOrderedAt: { type: DataTypes.DATE, allowNull: true },
       treatmentGivenAt: { type: DataTypes.DATE, allowNull: true },
+      cardiovascularDisease: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      dateChangeRequestedAt: { type: DataTypes.DATE, allowNull: true },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

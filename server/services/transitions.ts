@@ -1,4 +1,4 @@
-import type { Sequelize } from 'sequelize'
+import type { Sequelize, Transaction } from 'sequelize'
 import { Referral, StageTransition } from '../models/index'
 import { STAGE_LABELS, allowedMoves, findMove, isReadOnly, type Stage } from '../../shared/pathway'
 import type { TransitionInput } from '../../shared/schemas/referrals'
@@ -40,17 +40,27 @@ export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: num
     if (move.requires === 'hb-result' && r.latestHbAt == null) {
       throw new RuleRefused('Screening needs at least an Hb result; enter one first', 'hb_result_required')
     }
-    const [count] = await Referral.update({ stage: to, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
-    if (count !== 1) throw staleVersion('This referral')
-    const row = await StageTransition.create({ referralId: id, fromStage: r.stage, toStage: to, reason, userId: viewer.userId }, { transaction: t })
-    await recordAudit(t, viewer, {
-      action: 'transition',
-      entity: 'referral',
-      entityId: id,
-      patientId: r.patientId,
-      before: { stage: r.stage, version: r.version },
-      after: { stage: to, version: input.version + 1, reason, transitionId: row.id },
-    })
+    await recordMove(t, viewer, r, to, reason)
   })
   return referralDetail(viewer, id)
+}
+
+/**
+ * Writes one stage move (new stage and version, the transition row, the audit entry) inside the
+ * caller's transaction, on a referral row the caller has locked. Rule checks are the caller's:
+ * moveReferral checks the pathway table; a recorded iron dose moves the episode to treating.
+ */
+export async function recordMove(t: Transaction, viewer: Viewer, r: Referral, to: Stage, reason: string | null): Promise<number> {
+  const [count] = await Referral.update({ stage: to, version: r.version + 1 }, { where: { id: r.id, version: r.version }, transaction: t })
+  if (count !== 1) throw staleVersion('This referral')
+  const row = await StageTransition.create({ referralId: r.id, fromStage: r.stage, toStage: to, reason, userId: viewer.userId }, { transaction: t })
+  await recordAudit(t, viewer, {
+    action: 'transition',
+    entity: 'referral',
+    entityId: r.id,
+    patientId: r.patientId,
+    before: { stage: r.stage, version: r.version },
+    after: { stage: to, version: r.version + 1, reason, transitionId: row.id },
+  })
+  return r.version + 1
 }

@@ -30,6 +30,7 @@ const FLAG_SQL: Record<WorklistFlag, string> = {
   'no-screening-result': `(r.latest_hb_at IS NULL AND r.stage IN ${PRE_OP})`,
   'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR DATE(r.latest_hb_at) < r.recheck_due_date))`,
   'treatment-not-given': `(r.treatment_ordered_at IS NOT NULL AND r.treatment_given_at IS NULL AND r.stage IN ${PRE_OP})`,
+  'date-change-requested': `(r.date_change_requested_at IS NOT NULL AND r.stage IN ${PRE_OP})`,
 }
 
 const byDate = 'r.planned_surgery_date'
@@ -70,6 +71,7 @@ interface WorklistSqlRow {
   recheckDueDate: string | null
   treatmentOrderedAt: Date | string | null
   treatmentGivenAt: Date | string | null
+  dateChangeRequestedAt: Date | string | null
   patientId: number
   mrn: string
   givenName: string
@@ -125,6 +127,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
          r.latest_hb_gl AS latestHbGL, r.latest_hb_at AS latestHbAt, r.iron_status AS ironStatus, r.anaemic,
          r.proposed_stage AS proposedStage, r.recheck_due_date AS recheckDueDate,
          r.treatment_ordered_at AS treatmentOrderedAt, r.treatment_given_at AS treatmentGivenAt,
+         r.date_change_requested_at AS dateChangeRequestedAt,
          pa.id AS patientId, pa.mrn, pa.given_name AS givenName, pa.family_name AS familyName,
          pa.date_of_birth AS dateOfBirth, pa.sex,
          pr.code AS procedureCode, pr.name AS procedureName, u.id AS surgeonId, u.name AS surgeonName

@@ -2,7 +2,7 @@ import { PRE_OPERATIVE_STAGES, type Stage } from './stages'
 import { daysBetween } from './dates'
 
 /** Worklist flags: conditions the service wants to see before they become problems. */
-export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given'] as const
+export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given', 'date-change-requested'] as const
 export type WorklistFlag = (typeof WORKLIST_FLAGS)[number]
 
 export function isWorklistFlag(value: unknown): value is WorklistFlag {
@@ -14,6 +14,7 @@ export const FLAG_LABELS: Record<WorklistFlag, string> = {
   'no-screening-result': 'No screening bloods yet',
   'recheck-overdue': 'Re-check overdue',
   'treatment-not-given': 'Treatment ordered, not given',
+  'date-change-requested': 'Surgeon asks to move the date',
 }
 
 /**
@@ -30,6 +31,8 @@ export interface FlagInput {
   recheckDueDate: string | null
   treatmentOrderedAt: Date | string | null
   treatmentGivenAt: Date | string | null
+  /** The operating surgeon asked for the date to move (readiness review). */
+  dateChangeRequestedAt?: Date | string | null
 }
 
 function dayOf(at: Date | string): string {
@@ -57,5 +60,6 @@ export function referralFlags(r: FlagInput, todayIso: string): WorklistFlag[] {
     flags.push('recheck-overdue')
   }
   if (r.treatmentOrderedAt != null && r.treatmentGivenAt == null) flags.push('treatment-not-given')
+  if (r.dateChangeRequestedAt != null) flags.push('date-change-requested')
   return flags
 }

@@ -17,13 +17,13 @@ export const routes: RouteRecordRaw[] = [
     path: '/screening',
     name: 'nurse-home',
     component: () => import('@/views/NurseHomeView.vue'),
-    meta: { roles: ['nurse'], title: ROLE_HOMES.nurse.title, nav: { label: 'Screening', icon: 'pi pi-list-check', order: 10 } },
+    meta: { roles: ['nurse'], title: ROLE_HOMES.nurse.title, wide: true, nav: { label: 'Screening', icon: 'pi pi-list-check', order: 10 } },
   },
   {
     path: '/clinic',
     name: 'doctor-home',
     component: () => import('@/views/DoctorHomeView.vue'),
-    meta: { roles: ['doctor'], title: ROLE_HOMES.doctor.title, nav: { label: 'Clinic', icon: 'pi pi-briefcase', order: 10 } },
+    meta: { roles: ['doctor'], title: ROLE_HOMES.doctor.title, wide: true, nav: { label: 'Clinic', icon: 'pi pi-briefcase', order: 10 } },
   },
   {
     path: '/theatre',
@@ -32,6 +32,7 @@ export const routes: RouteRecordRaw[] = [
     meta: {
       roles: ['surgeon'],
       title: ROLE_HOMES.surgeon.title,
+      wide: true,
       nav: { label: 'Readiness', icon: 'pi pi-calendar-clock', order: 10 },
     },
   },
@@ -46,6 +47,26 @@ export const routes: RouteRecordRaw[] = [
     name: 'admin-users',
     component: () => import('@/views/AdminUsersView.vue'),
     meta: { roles: ['admin'], title: 'Staff accounts', nav: { label: 'Staff accounts', icon: 'pi pi-users', order: 20 } },
+  },
+  {
+    path: '/worklist',
+    name: 'worklist',
+    component: () => import('@/views/WorklistView.vue'),
+    meta: { roles: ROLES, title: 'Worklist', wide: true, nav: { label: 'Worklist', icon: 'pi pi-list', order: 30 } },
+  },
+  {
+    path: '/referrals/new',
+    name: 'register',
+    component: () => import('@/views/RegisterReferralView.vue'),
+    // Nurses and clinic doctors write clinical records; the server checks again.
+    meta: { roles: ['nurse', 'doctor'], title: 'Register a patient', nav: { label: 'Register patient', icon: 'pi pi-user-plus', order: 40 } },
+  },
+  {
+    // Digits only, so '/referrals/new' can never be read as an episode id.
+    path: '/referrals/:id(\\d+)',
+    name: 'episode',
+    component: () => import('@/views/EpisodeView.vue'),
+    meta: { roles: ROLES, title: 'Episode', wide: true },
   },
   {
     path: '/account/password',

@@ -37,4 +37,22 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/referrals/:id/results', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/referrals/:id/results', allow: [...STAFF] },
   { method: 'GET', path: '/api/worklist', allow: [...STAFF] },
+  // Anaemia clinic and theatre readiness: doctors review and prescribe; nurses and doctors record
+  // doses; only the operating surgeon answers the readiness projection; admins keep formulary and thresholds.
+  { method: 'GET', path: '/api/referrals/:id/reviews', allow: [...STAFF] },
+  { method: 'POST', path: '/api/referrals/:id/reviews', allow: ['doctor'] },
+  { method: 'POST', path: '/api/referrals/:id/dose-plan', allow: ['doctor'] },
+  { method: 'GET', path: '/api/referrals/:id/prescriptions', allow: [...STAFF] },
+  { method: 'POST', path: '/api/referrals/:id/prescriptions', allow: ['doctor'] },
+  { method: 'GET', path: '/api/referrals/:id/administrations', allow: [...STAFF] },
+  { method: 'POST', path: '/api/referrals/:id/administrations', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/referrals/:id/projection', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/readiness', allow: [...STAFF] },
+  { method: 'POST', path: '/api/referrals/:id/readiness', allow: ['surgeon'] },
+  { method: 'GET', path: '/api/formulary', allow: [...STAFF] },
+  { method: 'POST', path: '/api/formulary', allow: ['admin'] },
+  { method: 'PATCH', path: '/api/formulary/:code', allow: ['admin'] },
+  { method: 'GET', path: '/api/settings/clinic', allow: [...STAFF] },
+  { method: 'PATCH', path: '/api/settings/clinic', allow: ['admin'] },
+  { method: 'GET', path: '/api/readiness', allow: [...STAFF] },
 ]

@@ -1,0 +1,35 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
+
+export type Reaction = 'none' | 'mild' | 'moderate' | 'severe'
+
+/** A dose actually given: what, when, which batch, and any reaction. */
+export class Administration extends Model<InferAttributes<Administration>, InferCreationAttributes<Administration>> {
+  declare id: CreationOptional<number>
+  declare prescriptionId: number
+  declare referralId: number
+  declare doseMg: number
+  declare givenAt: Date
+  declare batchNumber: string
+  declare reaction: Reaction
+  declare reactionNotes: string | null
+  declare givenBy: number | null
+  declare createdAt: CreationOptional<Date>
+}
+
+export function initAdministration(sequelize: Sequelize): void {
+  Administration.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      prescriptionId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      referralId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      doseMg: { type: DataTypes.DOUBLE, allowNull: false },
+      givenAt: { type: DataTypes.DATE, allowNull: false },
+      batchNumber: { type: DataTypes.STRING(40), allowNull: false },
+      reaction: { type: DataTypes.STRING(12), allowNull: false },
+      reactionNotes: { type: DataTypes.TEXT, allowNull: true },
+      givenBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      createdAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: 'administrations', updatedAt: false },
+  )
+}

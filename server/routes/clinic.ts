@@ -1,0 +1,78 @@
+import { ApiRouter } from './apiRouter'
+import { idParam, type AppContext } from './context'
+import { STAFF, viewerOf } from './pathwayContext'
+import { validate } from '../middleware/validate'
+import {
+  administrationSchema, dosePlanPreviewSchema, prescriptionSchema, readinessActionSchema, reviewSchema,
+  type AdministrationInput, type DosePlanPreviewInput, type PrescriptionInput, type ReadinessActionInput, type ReviewInput,
+} from '../../shared/schemas/clinic'
+import { listReviews, recordReview } from '../services/clinicReview'
+import { listPrescriptions, prescribe, previewDosePlan } from '../services/prescriptions'
+import { listAdministrations, recordAdministration } from '../services/administrations'
+import { projectionFor } from '../services/projection'
+import { listReadinessReviews, recordReadinessAction } from '../services/readiness'
+import { Invalid } from '../errors'
+
+/** Anaemia clinic and theatre readiness, on an episode. */
+export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
+  const api = new ApiRouter('/api/referrals')
+  const doctor = { access: ['doctor'] } as const
+
+  api.get('/:id/reviews', { access: STAFF }, async (req, res) => {
+    res.json({ rows: await listReviews(viewerOf(req), idParam(req)) })
+  })
+  api.post('/:id/reviews', doctor, validate(reviewSchema), async (req, res) => {
+    const b = req.body as ReviewInput
+    res.status(201).json(await recordReview(sequelize, viewerOf(req), idParam(req), {
+      diagnosis: b.diagnosis, notes: b.notes, plan: b.plan, cardiovascularDisease: b.cardiovascularDisease, version: b.version,
+    }))
+  })
+
+  // Computed by the server with the clinical library, shown before saving.
+  api.post('/:id/dose-plan', doctor, validate(dosePlanPreviewSchema), async (req, res) => {
+    const b = req.body as DosePlanPreviewInput
+    res.json(await previewDosePlan(viewerOf(req), idParam(req), { productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate }))
+  })
+  api.get('/:id/prescriptions', { access: STAFF }, async (req, res) => {
+    res.json({ rows: await listPrescriptions(viewerOf(req), idParam(req)) })
+  })
+  api.post('/:id/prescriptions', doctor, validate(prescriptionSchema), async (req, res) => {
+    const b = req.body as PrescriptionInput
+    res.status(201).json(await prescribe(sequelize, viewerOf(req), idParam(req), {
+      productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate, doses: b.doses,
+      cautions: b.cautions, overrideReason: b.overrideReason, version: b.version,
+    }))
+  })
+
+  api.get('/:id/administrations', { access: STAFF }, async (req, res) => {
+    res.json({ rows: await listAdministrations(viewerOf(req), idParam(req)) })
+  })
+  api.post('/:id/administrations', { access: ['nurse', 'doctor'] }, validate(administrationSchema), async (req, res) => {
+    const b = req.body as AdministrationInput
+    res.status(201).json(await recordAdministration(sequelize, viewerOf(req), idParam(req), {
+      prescriptionId: b.prescriptionId, doseMg: b.doseMg, givenAt: b.givenAt, batchNumber: b.batchNumber, reaction: b.reaction, reactionNotes: b.reactionNotes,
+    }))
+  })
+
+  api.get('/:id/projection', { access: STAFF }, async (req, res) => {
+    const raw = req.query.cardiacOutputLMin
+    let cardiacOutputLMin: number | undefined
+    if (raw !== undefined && raw !== '') {
+      cardiacOutputLMin = Number(raw)
+      if (!Number.isFinite(cardiacOutputLMin) || cardiacOutputLMin < 1 || cardiacOutputLMin > 20) {
+        throw new Invalid('cardiacOutputLMin must be between 1 and 20 L/min', { cardiacOutputLMin: 'must be between 1 and 20 L/min' })
+      }
+    }
+    res.json(await projectionFor(viewerOf(req), idParam(req), { cardiacOutputLMin }))
+  })
+
+  api.get('/:id/readiness', { access: STAFF }, async (req, res) => {
+    res.json({ rows: await listReadinessReviews(viewerOf(req), idParam(req)) })
+  })
+  // Only the operating surgeon answers; a nurse cannot acknowledge on a surgeon's behalf.
+  api.post('/:id/readiness', { access: ['surgeon'] }, validate(readinessActionSchema), async (req, res) => {
+    const b = req.body as ReadinessActionInput
+    res.status(201).json(await recordReadinessAction(sequelize, viewerOf(req), idParam(req), { action: b.action, reason: b.reason }))
+  })
+  return api
+}

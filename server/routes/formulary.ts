@@ -1,0 +1,32 @@
+import { ApiRouter } from './apiRouter'
+import { actorOf, type AppContext } from './context'
+import { STAFF } from './pathwayContext'
+import { validate } from '../middleware/validate'
+import { createIronProductSchema, updateIronProductSchema, type CreateIronProductInput, type UpdateIronProductInput } from '../../shared/schemas/formulary'
+import { createProduct, listFormulary, updateProduct } from '../services/formulary'
+
+export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
+  const api = new ApiRouter('/api/formulary')
+  const admin = { access: ['admin'] } as const
+
+  api.get('', { access: STAFF }, async (req, res) => {
+    res.json({ rows: await listFormulary({ includeInactive: req.query.includeInactive === '1' }) })
+  })
+  api.post('', admin, validate(createIronProductSchema), async (req, res) => {
+    const b = req.body as CreateIronProductInput
+    res.status(201).json(await createProduct(sequelize, actorOf(req), {
+      code: b.code, name: b.name, route: b.route, maxSingleDoseMg: b.maxSingleDoseMg, maxSingleDoseMgPerKg: b.maxSingleDoseMgPerKg,
+      minIntervalDays: b.minIntervalDays, maxWeeklyMg: b.maxWeeklyMg, maxTotalMg: b.maxTotalMg, roundToMg: b.roundToMg,
+      oralDailyMg: b.oralDailyMg, oralAlternateDays: b.oralAlternateDays, source: b.source, active: b.active,
+    }))
+  })
+  api.patch('/:code', admin, validate(updateIronProductSchema), async (req, res) => {
+    const b = req.body as UpdateIronProductInput
+    res.json(await updateProduct(sequelize, actorOf(req), String(req.params.code), {
+      name: b.name, route: b.route, maxSingleDoseMg: b.maxSingleDoseMg, maxSingleDoseMgPerKg: b.maxSingleDoseMgPerKg,
+      minIntervalDays: b.minIntervalDays, maxWeeklyMg: b.maxWeeklyMg, maxTotalMg: b.maxTotalMg, roundToMg: b.roundToMg,
+      oralDailyMg: b.oralDailyMg, oralAlternateDays: b.oralAlternateDays, source: b.source, active: b.active,
+    }))
+  })
+  return api
+}

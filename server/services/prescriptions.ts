@@ -1,0 +1,104 @@
+import type { Sequelize } from 'sequelize'
+import { Prescription, Referral, User } from '../models/index'
+import { ironDosePlan, type IronDosePlan } from '../../shared/clinical'
+import { checkDosesAgainstCaps } from '../../shared/clinic/doseCheck'
+import { IV_IRON_CAUTIONS, positiveCautions, type CautionAnswers } from '../../shared/clinic/cautions'
+import { DECISION_SUPPORT_CAUTION } from '../../shared/clinic/readiness'
+import type { DosePlanPreviewInput, PrescriptionInput } from '../../shared/schemas/clinic'
+import { daysBetween, isReadOnly, todayIso } from '../../shared/pathway'
+import { recordAudit } from './audit'
+import { getClinicSettings } from './clinicSettings'
+import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
+import { findProduct, toIronProduct, FORMULARY_CAUTION } from './formulary'
+import { clinical, isoOrNull, staleVersion, type Viewer } from './viewer'
+import { RuleRefused } from '../errors'
+
+/** The figures a dose is computed from; a missing one is a 422 that names it, never a default. */
+async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
+  const [facts, settings, productRow] = await Promise.all([clinicalFacts(r), getClinicSettings(), findProduct(input.productCode)])
+  if (facts.body.weightKg == null) throw new RuleRefused('Record the patient\'s weight before prescribing iron', 'weight_missing', { weightKg: 'is missing' })
+  const latestHb = facts.hb[facts.hb.length - 1]
+  if (!latestHb) throw new RuleRefused('Record an Hb result before prescribing iron', 'hb_missing', { hb: 'is missing' })
+  const product = toIronProduct(productRow)
+  const targetHbGL = input.targetHbGL ?? settings.ironTargetHbGL
+  const firstDoseDate = input.firstDoseDate ?? todayIso()
+  const plan: IronDosePlan = clinical('productCode', () =>
+    ironDosePlan({ product, weightKg: facts.body.weightKg!, hbGL: latestHb.hbGL, targetHbGL, startDate: firstDoseDate }),
+  )
+  const warnings = [...plan.warnings]
+  const weightAgeDays = facts.body.weightMeasuredAt ? daysBetween(facts.body.weightMeasuredAt.slice(0, 10), todayIso()) : null
+  if (weightAgeDays !== null && weightAgeDays > settings.weightMaxAgeDays) {
+    warnings.unshift(`The weight (${facts.body.weightKg} kg) was measured ${weightAgeDays} days ago, more than ${settings.weightMaxAgeDays}: re-weigh the patient before relying on this dose.`)
+  }
+  return {
+    product,
+    productSource: productRow.source,
+    inputs: { weightKg: facts.body.weightKg, weightMeasuredAt: facts.body.weightMeasuredAt, hbGL: latestHb.hbGL, hbTakenAt: isoOrNull(latestHb.takenAt), targetHbGL, firstDoseDate },
+    plan: { ...plan, warnings },
+    methods: { deficit: 'Ganzoni 1970: weight (kg) × (target − actual Hb, g/L) × 0.24 + iron stores (500 mg, or 15 mg/kg under 35 kg)', caps: `Caps from the formulary entry for ${product.name}. ${FORMULARY_CAUTION}` },
+    cautions: [DECISION_SUPPORT_CAUTION, FORMULARY_CAUTION],
+    cautionQuestions: product.route === 'iv' ? IV_IRON_CAUTIONS : [],
+  }
+}
+
+export async function previewDosePlan(viewer: Viewer, referralId: number, input: DosePlanPreviewInput) {
+  return doseInputs(await loadReferral(viewer, referralId), input)
+}
+
+export function toPrescriptionView(p: Prescription & { prescriber?: User | null }) {
+  return {
+    id: p.id, productCode: p.productCode, route: p.route, weightKg: p.weightKg, hbGL: p.hbGL, targetHbGL: p.targetHbGL,
+    deficitMg: p.deficitMg, totalMg: p.totalMg, firstDoseDate: p.firstDoseDate, doses: p.plan.doses, warnings: p.plan.warnings,
+    oralSchedule: p.plan.oralSchedule ?? null, cautions: p.cautions, overrideReason: p.overrideReason, status: p.status,
+    prescribedAt: isoOrNull(p.prescribedAt), prescriber: p.prescriber ? { id: p.prescriber.id, name: p.prescriber.name } : null,
+  }
+}
+
+/** Saves a prescription after re-computing it and re-checking every dose against the caps. */
+export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId: number, input: PrescriptionInput) {
+  const r = await loadReferral(viewer, referralId)
+  if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
+  const computed = await doseInputs(r, input)
+  const { product, plan } = computed
+  const doses = input.doses?.length
+    ? input.doses.map((d, i) => ({ number: i + 1, doseMg: d.doseMg, dayOffset: d.dayOffset, cappedBy: [] }))
+    : plan.doses
+  if (product.route === 'iv') {
+    const violations = checkDosesAgainstCaps(product, computed.inputs.weightKg, doses, plan.totalMg)
+    if (violations.length) {
+      throw new RuleRefused(violations.map((v) => v.message).join('; '), 'dose_over_cap', Object.fromEntries(violations.map((v) => [v.cap, v.message])))
+    }
+    const positives = positiveCautions(input.cautions as CautionAnswers)
+    if (positives.length && !input.overrideReason) {
+      const asked = IV_IRON_CAUTIONS.filter((c) => positives.includes(c.key)).map((c) => c.question.replace(/\?$/, ''))
+      throw new RuleRefused(`IV iron is blocked by: ${asked.join('; ')}. Record an override reason to prescribe anyway.`, 'caution_positive', { overrideReason: 'is required when a caution is answered yes' })
+    }
+  }
+  return sequelize.transaction(async (t) => {
+    const locked = await loadReferral(viewer, referralId, t, true)
+    if (locked.version !== input.version) throw staleVersion('This referral')
+    // One active prescription per episode: a new one replaces the old.
+    await Prescription.update({ status: 'cancelled' }, { where: { referralId, status: 'active' }, transaction: t })
+    const p = await Prescription.create({
+      referralId, productCode: product.code, route: product.route, weightKg: computed.inputs.weightKg, hbGL: computed.inputs.hbGL,
+      targetHbGL: computed.inputs.targetHbGL, deficitMg: plan.deficitMg, totalMg: doses.reduce((s, d) => s + d.doseMg, 0) || plan.totalMg,
+      firstDoseDate: computed.inputs.firstDoseDate, plan: { doses, warnings: plan.warnings, oralSchedule: plan.oralSchedule?.description ?? null },
+      cautions: input.cautions as CautionAnswers, overrideReason: input.overrideReason ?? null, status: 'active',
+      prescribedBy: viewer.userId, prescribedAt: new Date(),
+    }, { transaction: t })
+    const [count] = await Referral.update(
+      { treatmentOrderedAt: new Date(), treatmentGivenAt: null, version: locked.version + 1 },
+      { where: { id: referralId, version: locked.version }, transaction: t },
+    )
+    if (count !== 1) throw staleVersion('This referral')
+    const view = toPrescriptionView(p)
+    await recordAudit(t, viewer, { action: 'create', entity: 'prescription', entityId: p.id, patientId: locked.patientId, after: view })
+    return { prescription: view, version: locked.version + 1 }
+  })
+}
+
+export async function listPrescriptions(viewer: Viewer, referralId: number) {
+  await loadReferral(viewer, referralId)
+  const rows = await Prescription.findAll({ where: { referralId }, include: [{ model: User, as: 'prescriber', attributes: ['id', 'name'] }], order: [['prescribedAt', 'DESC']] })
+  return rows.map(toPrescriptionView)
+}

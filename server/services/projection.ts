@@ -1,0 +1,61 @@
+import { ClinicalInputError, type HbTreatment } from '../../shared/clinical'
+import { buildProjection, type Projection } from '../../shared/clinic/projection'
+import { todayIso } from '../../shared/pathway'
+import type { IronStatus } from '../../shared/clinical'
+import { getClinicSettings } from './clinicSettings'
+import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
+import { Prescription } from '../models/index'
+import type { Viewer } from './viewer'
+import { RuleRefused } from '../errors'
+
+export interface ProjectionOptions { cardiacOutputLMin?: number }
+
+/**
+ * The surgery-day projection for one episode, from today's data. What it cannot know it does not
+ * invent: a missing weight, Hb or usual blood loss is a 422 that names it.
+ */
+export async function projectionForReferral(r: LoadedReferral, opts: ProjectionOptions = {}): Promise<Projection> {
+  const [facts, settings] = await Promise.all([clinicalFacts(r), getClinicSettings()])
+  const missing: Record<string, string> = {}
+  if (facts.body.weightKg == null) missing.weightKg = "the patient's weight is not recorded"
+  if (!facts.hb.length) missing.hb = 'no Hb result is recorded'
+  if (r.procedure.expectedBloodLossMl == null) missing.expectedBloodLossMl = `the operation "${r.procedure.name}" has no usual blood loss in the catalogue`
+  if (Object.keys(missing).length) {
+    throw new RuleRefused(`Cannot project surgery day: ${Object.values(missing).join('; ')}`, 'projection_inputs_missing', missing)
+  }
+  let treatment: HbTreatment | null = null
+  if (facts.doses.length) {
+    const first = facts.doses[0]!
+    const p = await Prescription.findByPk(first.prescriptionId)
+    treatment = { kind: p?.route ?? 'iv', firstDoseDate: first.givenAt, totalMg: facts.doses.reduce((s, d) => s + d.doseMg, 0) }
+  }
+  try {
+    return buildProjection({
+      today: todayIso(),
+      plannedSurgeryDate: r.plannedSurgeryDate,
+      sex: r.patient.sex,
+      heightCm: facts.body.heightCm,
+      weightKg: facts.body.weightKg!,
+      hbMeasurements: facts.hb,
+      treatment,
+      procedure: {
+        code: r.procedure.code, name: r.procedure.name, expectedBloodLossMl: r.procedure.expectedBloodLossMl!,
+        usualBloodOrder: r.procedure.usualBloodOrder, usualUnits: r.procedure.usualUnits,
+      },
+      priority: r.priority,
+      cardiovascularDisease: Boolean(r.cardiovascularDisease),
+      ironStatus: (r.ironStatus as IronStatus | null) ?? null,
+      saO2: settings.defaultSaO2,
+      paO2MmHg: settings.defaultPaO2MmHg,
+      cardiacOutputLMin: opts.cardiacOutputLMin ?? null,
+    }, settings)
+  } catch (err) {
+    // The record holds something the formulas refuse (e.g. an implausible stored figure).
+    if (err instanceof ClinicalInputError) throw new RuleRefused(`Cannot project surgery day: ${err.message}`, 'projection_input_invalid', { [err.input]: err.message })
+    throw err
+  }
+}
+
+export async function projectionFor(viewer: Viewer, referralId: number, opts: ProjectionOptions = {}): Promise<Projection> {
+  return projectionForReferral(await loadReferral(viewer, referralId), opts)
+}

@@ -1,0 +1,149 @@
+import {
+  allowableBloodLoss, bmi, bsaMosteller, classifyAnaemia, estimatedBloodVolume, hbAfterIsovolaemicLoss, isIronDeficient,
+  oxygenContent, oxygenDelivery, projectHb, redCellTransfusionNeed, HCT_FROM_HB_ASSUMPTION, WEIGHT_BASED_ML_PER_KG,
+  type HbMeasurement, type HbTreatment, type IronStatus, type Sex,
+} from '../clinical'
+import type { ClinicSettings } from './settings'
+import { TRIGGER_SOURCES } from './settings'
+import { readinessVerdict } from './verdict'
+import { DECISION_SUPPORT_CAUTION, type BloodOrderKind, type Verdict } from './readiness'
+
+/** Everything the projection uses; returned as `inputs` so every figure can be recomputed. */
+export interface ProjectionInputs {
+  today: string
+  plannedSurgeryDate: string
+  sex: Sex
+  heightCm: number | null
+  weightKg: number
+  hbMeasurements: HbMeasurement[]
+  treatment: HbTreatment | null
+  procedure: { code: string; name: string; expectedBloodLossMl: number; usualBloodOrder: string; usualUnits: number }
+  priority: string
+  cardiovascularDisease: boolean
+  ironStatus: IronStatus | null
+  saO2: number
+  paO2MmHg: number
+  /** Given by the user; otherwise cardiac index × body surface area. */
+  cardiacOutputLMin: number | null
+}
+
+export interface OxygenPoint { hbGL: number; cao2MlDl: number; do2MlMin: number }
+
+export interface Projection {
+  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL'> }
+  methods: Record<string, string>
+  bloodVolumeMl: number
+  triggerHbGL: number
+  currentHbGL: number
+  predictedSurgeryHbGL: number
+  predictedPostOpHbGL: number
+  allowableBloodLossMl: { gross: number; logarithmic: number }
+  expectedBloodLossMl: number
+  oxygen: { today: OxygenPoint; surgeryDay: OxygenPoint; postOp: OxygenPoint }
+  transfusionNeed: { toleratedRedCellMl: number; expectedRedCellLossMl: number; deficitMl: number; units: number }
+  bloodOrder: { kind: BloodOrderKind; units: number }
+  readiness: { verdict: Verdict; reasons: string[] }
+  assumptions: string[]
+  cautions: string[]
+}
+
+const r0 = (x: number) => Math.round(x)
+const r1 = (x: number) => Math.round(x * 10) / 10
+const r2 = (x: number) => Math.round(x * 100) / 100
+
+/**
+ * The surgery-day projection for one patient and one operation, from the clinical library.
+ * Pure: the server assembles the inputs from the record and answers with this object.
+ */
+export function buildProjection(input: ProjectionInputs, settings: ClinicSettings): Projection {
+  const assumptions: string[] = []
+  const cautions: string[] = [DECISION_SUPPORT_CAUTION]
+  const methods: Record<string, string> = {}
+
+  const bvMethod = input.heightCm ? 'nadler' : 'weight'
+  const ebv = estimatedBloodVolume({ sex: input.sex, heightCm: input.heightCm ?? undefined, weightKg: input.weightKg, method: bvMethod })
+  methods.bloodVolume = bvMethod === 'nadler'
+    ? 'Nadler 1962 (Surgery 51:224), from height, weight and sex'
+    : `Weight-based ${WEIGHT_BASED_ML_PER_KG[input.sex]} mL/kg (height missing)`
+  if (bvMethod === 'weight') assumptions.push(`Height is not recorded, so blood volume is weight-based (${WEIGHT_BASED_ML_PER_KG[input.sex]} mL/kg) instead of Nadler.`)
+  if (input.heightCm && bmi({ heightCm: input.heightCm, weightKg: input.weightKg }) >= 35) {
+    cautions.push('BMI 35 or more: weight-based and Nadler estimates overstate blood volume in obesity, so the tolerable loss may be smaller than shown.')
+  }
+
+  const triggerHbGL = input.cardiovascularDisease ? settings.cardiovascularTriggerGL : settings.transfusionTriggerGL
+  methods.trigger = input.cardiovascularDisease ? TRIGGER_SOURCES.cardiovascular : TRIGGER_SOURCES.standard
+
+  const measured = [...input.hbMeasurements].sort((a, b) => +new Date(a.takenAt) - +new Date(b.takenAt))
+  const currentHbGL = measured[measured.length - 1]!.hbGL
+  const target = input.plannedSurgeryDate > input.today ? input.plannedSurgeryDate : input.today
+  const hbProjection = projectHb({ targetDate: target, measurements: measured, treatment: input.treatment ?? undefined })
+  const surgeryHb = hbProjection.hbGL
+  methods.surgeryDayHb = {
+    trend: 'Measured trend since treatment (least-squares line through the results)',
+    'expected-response': 'Expected response to iron (stated assumption, no re-check yet)',
+    'latest-value': 'Latest measured Hb (no treatment recorded)',
+  }[hbProjection.method]
+  assumptions.push(...hbProjection.assumptions)
+
+  const lossMl = input.procedure.expectedBloodLossMl
+  const postOpHb = hbAfterIsovolaemicLoss({ ebvMl: ebv, hbStartGL: surgeryHb, lossMl })
+  methods.postOpHb = `Isovolaemic dilution Hb × e^(−loss/EBV) after the usual loss for ${input.procedure.name}, no transfusion`
+  assumptions.push('Blood volume is kept up with clear fluid during surgery (normovolaemia); all blood-loss figures assume it.')
+
+  const abl = {
+    gross: allowableBloodLoss({ ebvMl: ebv, hbStartGL: surgeryHb, hbFloorGL: triggerHbGL, method: 'gross' }),
+    logarithmic: allowableBloodLoss({ ebvMl: ebv, hbStartGL: surgeryHb, hbFloorGL: triggerHbGL, method: 'logarithmic' }),
+  }
+  methods.allowableBloodLoss = 'Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the predicted surgery-day Hb to the trigger'
+
+  const bsa = input.heightCm ? bsaMosteller({ heightCm: input.heightCm, weightKg: input.weightKg }) : null
+  let co = input.cardiacOutputLMin
+  if (co == null) {
+    co = bsa ? settings.defaultCardiacIndexLMinM2 * bsa : 5
+    assumptions.push(bsa
+      ? `Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface area ${r2(bsa)} m² (Mosteller); edit it to recompute.`
+      : 'Cardiac output 5 L/min (resting adult, common practice; height missing for body surface area); edit it to recompute.')
+  }
+  const point = (hbGL: number): OxygenPoint => {
+    const cao2 = oxygenContent({ hbGL, so2: input.saO2, po2MmHg: input.paO2MmHg })
+    return { hbGL: r1(hbGL), cao2MlDl: r2(cao2), do2MlMin: r0(oxygenDelivery({ cardiacOutputLMin: co!, cao2MlDl: cao2 })) }
+  }
+  methods.oxygenContent = 'CaO2 = 1.34 × Hb (g/dL) × SaO2 + 0.003 × PaO2 (mmHg)'
+  methods.oxygenDelivery = 'DO2 = cardiac output (L/min) × CaO2 × 10'
+  assumptions.push(`Arterial SaO2 ${Math.round(input.saO2 * 100)} % and PaO2 ${input.paO2MmHg} mmHg are the clinic's stated defaults (no blood gas recorded).`)
+
+  const need = redCellTransfusionNeed({ ebvMl: ebv, hbStartGL: surgeryHb, hbFloorGL: triggerHbGL, expectedLossMl: lossMl })
+  methods.transfusionNeed = 'Red-cell-volume method (Mercuriali & Inghilleri 1996): units = (expected red-cell loss − tolerated red-cell loss) / 200 mL per unit'
+  assumptions.push(HCT_FROM_HB_ASSUMPTION)
+  const bloodOrder = need.units > 0 ? { kind: 'crossmatch' as const, units: need.units } : { kind: 'group-and-screen' as const, units: 0 }
+
+  const surgeryAnaemia = classifyAnaemia({ hbGL: surgeryHb, sex: input.sex, criteria: settings.anaemiaCriteria })
+  const readiness = readinessVerdict({
+    predictedSurgeryHbGL: r1(surgeryHb),
+    anaemicOnSurgeryDay: surgeryAnaemia.anaemic,
+    thresholdGL: surgeryAnaemia.thresholdGL,
+    ironDeficientUntreated: input.ironStatus !== null && isIronDeficient(input.ironStatus) && input.treatment === null,
+    allowableLossMl: r0(abl.logarithmic),
+    expectedLossMl: lossMl,
+    bloodOrder,
+    priority: input.priority,
+  })
+
+  return {
+    inputs: { ...input, cardiacOutputLMin: r2(co), triggerHbGL, settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL } },
+    methods,
+    bloodVolumeMl: r0(ebv),
+    triggerHbGL,
+    currentHbGL: r1(currentHbGL),
+    predictedSurgeryHbGL: r1(surgeryHb),
+    predictedPostOpHbGL: r1(postOpHb),
+    allowableBloodLossMl: { gross: r0(abl.gross), logarithmic: r0(abl.logarithmic) },
+    expectedBloodLossMl: lossMl,
+    oxygen: { today: point(currentHbGL), surgeryDay: point(surgeryHb), postOp: point(postOpHb) },
+    transfusionNeed: { toleratedRedCellMl: r0(need.toleratedRedCellMl), expectedRedCellLossMl: r0(need.expectedRedCellLossMl), deficitMl: r0(need.deficitMl), units: need.units },
+    bloodOrder,
+    readiness,
+    assumptions,
+    cautions,
+  }
+}

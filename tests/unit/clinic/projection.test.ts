@@ -1,0 +1,118 @@
+import { describe, expect, it } from 'vitest'
+import { buildProjection, type ProjectionInputs } from '../../../shared/clinic/projection'
+import { DEFAULT_CLINIC_SETTINGS } from '../../../shared/clinic/settings'
+
+const TODAY = '2027-03-01'
+const base = {
+  today: TODAY,
+  treatment: null,
+  priority: 'routine',
+  cardiovascularDisease: false,
+  ironStatus: 'replete',
+  saO2: 0.97,
+  paO2MmHg: 95,
+  cardiacOutputLMin: null,
+} as const
+
+// Worked patients: every expected figure below was computed by hand from the published formula
+// named beside it (Nadler 1962; Gross 1983; Bourke & Smith 1974; Mercuriali & Inghilleri 1996;
+// CaO2 = 1.34·Hb·SaO2 + 0.003·PaO2), not taken from the code.
+describe('surgery-day projection, worked patients', () => {
+  it('when a non-anaemic man (175 cm, 70 kg, Hb 130) has a knee replacement, then he is ready with group and screen', () => {
+    const p = buildProjection({
+      ...base,
+      plannedSurgeryDate: '2027-03-29',
+      sex: 'male', heightCm: 175, weightKg: 70,
+      hbMeasurements: [{ takenAt: '2027-02-27', hbGL: 130 }],
+      // TKA total loss 1474 mL (Sehat et al., Knee 2000)
+      procedure: { code: 'TKA', name: 'Total knee replacement', expectedBloodLossMl: 1474, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+    } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
+    expect(p.bloodVolumeMl).toBe(4824) // Nadler: 0.3669·1.75³ + 0.03219·70 + 0.6041 = 4.824 L (reference §3)
+    expect(p.triggerHbGL).toBe(70) // NICE NG24 restrictive threshold
+    expect(p.predictedSurgeryHbGL).toBe(130) // no treatment: latest value
+    expect(p.allowableBloodLossMl.gross).toBe(2894) // 4824·60/100 = 2894.4 (Gross 1983)
+    expect(p.allowableBloodLossMl.logarithmic).toBe(2986) // 4824·ln(130/70) = 2986.2 (Bourke & Smith 1974)
+    expect(p.predictedPostOpHbGL).toBe(95.8) // 130·e^(−1474/4824) = 95.76
+    expect(p.oxygen.today.cao2MlDl).toBe(17.18) // 1.34·13·0.97 + 0.003·95 = 17.182
+    // Cardiac output default 3.0 L/min/m² × Mosteller BSA √(175·70/3600) = 1.8447 m² → 5.534 L/min; DO2 = 5.534·17.182·10
+    expect(p.inputs.cardiacOutputLMin).toBe(5.53)
+    expect(p.oxygen.today.do2MlMin).toBe(951)
+    // Mercuriali: tolerated 4824·(0.39 − 0.21) = 868 mL red cells > expected 1474·0.39 = 575 mL → no units
+    expect(p.transfusionNeed.toleratedRedCellMl).toBe(868)
+    expect(p.transfusionNeed.expectedRedCellLossMl).toBe(575)
+    expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 })
+    expect(p.readiness.verdict).toBe('ready')
+    expect(p.methods.bloodVolume).toMatch(/Nadler/)
+  })
+
+  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had IV iron 14 days ago, then the expected response lifts her but she is still to optimise, with 1 unit crossmatched', () => {
+    const p = buildProjection({
+      ...base,
+      plannedSurgeryDate: '2027-03-29', // 28 days away; first dose 14 days ago → 42 days of response
+      sex: 'female', heightCm: 160, weightKg: 60,
+      ironStatus: 'absolute-deficiency',
+      treatment: { kind: 'iv', firstDoseDate: '2027-02-15', totalMg: 1000 },
+      hbMeasurements: [{ takenAt: '2027-02-10', hbGL: 100 }],
+      // THA total loss 1510 mL (Sehat 2004, secondary source)
+      procedure: { code: 'THA', name: 'Total hip replacement', expectedBloodLossMl: 1510, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+    } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
+    expect(p.bloodVolumeMl).toBe(3627) // Nadler female: 0.3561·1.6³ + 0.03308·60 + 0.1833 = 3.627 L (reference §3)
+    // Stated assumption: +2.5 g/L a week from day 7 → (42 − 7)/7 · 2.5 = +12.5 g/L
+    expect(p.predictedSurgeryHbGL).toBe(112.5)
+    expect(p.allowableBloodLossMl.logarithmic).toBe(1721) // 3627·ln(112.5/70) = 1720.9
+    expect(p.allowableBloodLossMl.gross).toBe(1689) // 3627·42.5/91.25 = 1689.3
+    expect(p.predictedPostOpHbGL).toBe(74.2) // 112.5·e^(−1510/3627) = 74.19
+    // Mercuriali: tolerated 3627·(0.3375 − 0.21) = 462 mL; expected 1510·0.3375 = 510 mL; deficit 47 → 1 unit
+    expect(p.transfusionNeed.deficitMl).toBe(47)
+    expect(p.bloodOrder).toEqual({ kind: 'crossmatch', units: 1 })
+    expect(p.readiness.verdict).toBe('optimise')
+    expect(p.assumptions.join(' ')).toMatch(/2\.5 g\/L/)
+  })
+
+  it('when an untreated anaemic man without a height (80 kg, Hb 95, heart disease) has a routine CABG, then deferral is suggested and the 80 g/L trigger is used', () => {
+    const p = buildProjection({
+      ...base,
+      plannedSurgeryDate: '2027-04-12',
+      sex: 'male', heightCm: null, weightKg: 80,
+      cardiovascularDisease: true,
+      ironStatus: 'absolute-deficiency',
+      hbMeasurements: [{ takenAt: '2027-02-20', hbGL: 95 }],
+      procedure: { code: 'CABG', name: 'Coronary artery bypass graft', expectedBloodLossMl: 750, usualBloodOrder: 'crossmatch', usualUnits: 2 },
+    } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
+    expect(p.bloodVolumeMl).toBe(5600) // weight-based 70 mL/kg (Morgan & Mikhail, reference §3)
+    expect(p.assumptions.join(' ')).toMatch(/Height is not recorded/)
+    expect(p.triggerHbGL).toBe(80) // AABB 2023 (Carson, JAMA): 8 g/dL with cardiovascular disease
+    expect(p.allowableBloodLossMl.logarithmic).toBe(962) // 5600·ln(95/80) = 962.4
+    expect(p.allowableBloodLossMl.gross).toBe(960) // 5600·15/87.5
+    // No height → cardiac output 5 L/min stated; CaO2 1.34·9.5·0.97 + 0.285 = 12.633; DO2 = 631.7
+    expect(p.oxygen.today.do2MlMin).toBe(632)
+    expect(p.readiness.verdict).toBe('consider-deferral')
+    expect(p.readiness.reasons.join(' ')).toMatch(/Iron deficiency found at screening/)
+  })
+
+  it('when the same patient is on the cancer pathway, then the verdict is to optimise, not defer', () => {
+    const p = buildProjection({
+      ...base,
+      priority: 'cancer',
+      plannedSurgeryDate: '2027-03-15',
+      sex: 'male', heightCm: 170, weightKg: 75,
+      hbMeasurements: [{ takenAt: '2027-02-20', hbGL: 92 }],
+      procedure: { code: 'COLO', name: 'Open colorectal resection', expectedBloodLossMl: 350, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+    } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
+    expect(p.readiness.verdict).toBe('optimise')
+    expect(p.readiness.reasons.join(' ')).toMatch(/Not a routine operation/)
+  })
+
+  it('then more Hb on the day means more tolerable loss and more oxygen content (monotonic)', () => {
+    const make = (hbGL: number) => buildProjection({
+      ...base, plannedSurgeryDate: '2027-03-20', sex: 'female', heightCm: 165, weightKg: 65,
+      hbMeasurements: [{ takenAt: '2027-02-25', hbGL }],
+      procedure: { code: 'X', name: 'X', expectedBloodLossMl: 500, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+    }, DEFAULT_CLINIC_SETTINGS)
+    const low = make(100)
+    const high = make(130)
+    expect(high.allowableBloodLossMl.logarithmic).toBeGreaterThan(low.allowableBloodLossMl.logarithmic)
+    expect(high.oxygen.surgeryDay.cao2MlDl).toBeGreaterThan(low.oxygen.surgeryDay.cao2MlDl)
+    expect(high.cautions[0]).toMatch(/Decision support/)
+  })
+})
