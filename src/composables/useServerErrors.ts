@@ -23,3 +23,16 @@ export function useServerErrors(
     return messages[e.code] ?? e.message
   })
 }
+
+/**
+ * Some server rules answer with a bare fragment for the field ("must not be before the date of
+ * birth"); put the field's label in front so the message reads on its own under the field.
+ */
+export function withFieldLabels(setErrors: (fields: Record<string, string>) => void, labels: Record<string, string>) {
+  return (fields: Record<string, string>) =>
+    setErrors(
+      Object.fromEntries(
+        Object.entries(fields).map(([k, msg]) => [k, /^[a-z]/.test(msg) && labels[k] && !msg.startsWith(k) ? `${labels[k]} ${msg}` : msg]),
+      ),
+    )
+}

@@ -29,3 +29,17 @@ export const accountLinks: HomeLink[] = [
     icon: 'pi pi-key',
   },
 ]
+
+export const worklistLink: HomeLink = {
+  to: { name: 'worklist' },
+  label: 'Worklist',
+  description: 'Every patient on the pathway: filter, sort and open an episode.',
+  icon: 'pi pi-list',
+}
+
+export const registerLink: HomeLink = {
+  to: { name: 'register' },
+  label: 'Register a patient',
+  description: 'Find or register a patient and record their planned operation.',
+  icon: 'pi pi-user-plus',
+}

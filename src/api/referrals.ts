@@ -1,0 +1,27 @@
+import type { CreateReferralInput, TransitionInput } from '@shared/schemas/referrals'
+import type { CreateResultInput } from '@shared/schemas/results'
+import { api } from './client'
+import type { ReferralDetail, ResultView, Screening } from './pathwayTypes'
+
+export function getReferral(id: number): Promise<ReferralDetail> {
+  return api.get<ReferralDetail>(`/referrals/${id}`)
+}
+
+export function createReferral(input: CreateReferralInput): Promise<ReferralDetail> {
+  return api.post<ReferralDetail>('/referrals', input)
+}
+
+export function moveReferral(id: number, input: TransitionInput): Promise<ReferralDetail> {
+  return api.post<ReferralDetail>(`/referrals/${id}/transitions`, input)
+}
+
+export interface AddedResult {
+  result: ResultView
+  derived: ResultView[]
+  screening: Screening
+  referral: { id: number; version: number; stage: string }
+}
+
+export function addResult(id: number, input: CreateResultInput): Promise<AddedResult> {
+  return api.post<AddedResult>(`/referrals/${id}/results`, input)
+}

@@ -1,0 +1,67 @@
+import { computed, toValue, type MaybeRefOrGetter } from 'vue'
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
+import type { CreateReferralInput, TransitionInput } from '@shared/schemas/referrals'
+import type { CreateResultInput } from '@shared/schemas/results'
+import { addResult, createReferral, getReferral, moveReferral } from '@/api/referrals'
+import { fetchWorklist, type WorklistFilters } from '@/api/worklist'
+
+/** One key family for episodes: the worklist pages and each episode's detail sit under it. */
+export const referralKeys = {
+  all: ['referrals'] as const,
+  lists: () => [...referralKeys.all, 'list'] as const,
+  list: (filters: WorklistFilters) => [...referralKeys.lists(), filters] as const,
+  details: () => [...referralKeys.all, 'detail'] as const,
+  detail: (id: number) => [...referralKeys.details(), id] as const,
+}
+
+// Colleagues change the same episodes all day: poll well inside the 15 s the clinic expects.
+const WORKLIST_POLL_MS = 8_000
+const DETAIL_POLL_MS = 12_000
+
+/** One page of the worklist; the previous page stays on screen while the next one loads. */
+export function useWorklistQuery(filters: MaybeRefOrGetter<WorklistFilters>) {
+  return useQuery({
+    queryKey: computed(() => referralKeys.list(toValue(filters))),
+    queryFn: () => fetchWorklist(toValue(filters)),
+    placeholderData: keepPreviousData,
+    refetchInterval: WORKLIST_POLL_MS,
+    refetchOnWindowFocus: true,
+  })
+}
+
+export function useReferralQuery(id: MaybeRefOrGetter<number>) {
+  return useQuery({
+    queryKey: computed(() => referralKeys.detail(toValue(id))),
+    queryFn: () => getReferral(toValue(id)),
+    refetchInterval: DETAIL_POLL_MS,
+    refetchOnWindowFocus: true,
+  })
+}
+
+/** Any change to an episode can move it between worklist pages, so every list refetches. */
+function useInvalidateReferrals() {
+  const queryClient = useQueryClient()
+  return () => queryClient.invalidateQueries({ queryKey: referralKeys.all })
+}
+
+export function useCreateReferralMutation() {
+  const invalidate = useInvalidateReferrals()
+  return useMutation({ mutationFn: (input: CreateReferralInput) => createReferral(input), onSuccess: invalidate })
+}
+
+export function useMoveReferralMutation() {
+  const invalidate = useInvalidateReferrals()
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: TransitionInput }) => moveReferral(id, input),
+    // A stale version (409) also means our copy is out of date: refetch either way.
+    onSettled: invalidate,
+  })
+}
+
+export function useAddResultMutation() {
+  const invalidate = useInvalidateReferrals()
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: CreateResultInput }) => addResult(id, input),
+    onSuccess: invalidate,
+  })
+}

@@ -1,0 +1,64 @@
+import type { Stage, WorklistFlag } from '@shared/pathway'
+import { ANALYTE_DEFS, isAnalyte } from '@shared/pathway'
+import type { IronStatus } from '@shared/clinical'
+
+/** Stages in which the screening outcome's proposal is still waiting to be confirmed. */
+export const SCREENING_STAGES: readonly Stage[] = ['referred', 'screened']
+
+/** Tag tones from our theme: green = done, amber = needs attention, neutral = in hand or finished. */
+export type Tone = 'info' | 'success' | 'warn' | 'secondary' | 'danger'
+
+/** Each stage shows its label with an icon and a tone, never the colour alone. */
+export const STAGE_LOOK: Record<Stage, { icon: string; tone: Tone }> = {
+  referred: { icon: 'pi pi-inbox', tone: 'info' },
+  screened: { icon: 'pi pi-list-check', tone: 'info' },
+  clinic: { icon: 'pi pi-user-edit', tone: 'info' },
+  treating: { icon: 'pi pi-sync', tone: 'info' },
+  recheck: { icon: 'pi pi-hourglass', tone: 'info' },
+  cleared: { icon: 'pi pi-check-circle', tone: 'success' },
+  operated: { icon: 'pi pi-verified', tone: 'success' },
+  closed: { icon: 'pi pi-lock', tone: 'secondary' },
+  deferred: { icon: 'pi pi-calendar-times', tone: 'warn' },
+  withdrawn: { icon: 'pi pi-ban', tone: 'secondary' },
+}
+
+// Partial on purpose: a flag added to shared/pathway shows with the generic icon until it gets its own.
+const FLAG_ICONS: Partial<Record<WorklistFlag, string>> = {
+  'surgery-soon-anaemic': 'pi pi-exclamation-triangle',
+  'no-screening-result': 'pi pi-question-circle',
+  'recheck-overdue': 'pi pi-clock',
+  'treatment-not-given': 'pi pi-hourglass',
+  'date-change-requested': 'pi pi-calendar-clock',
+}
+
+export function flagIcon(flag: WorklistFlag): string {
+  return FLAG_ICONS[flag] ?? 'pi pi-flag'
+}
+
+/** Iron status in the words the clinic uses (the clinical library returns identifiers). */
+export const IRON_STATUS_LABELS: Record<IronStatus, string> = {
+  'absolute-deficiency': 'Iron deficient',
+  'iron-restricted': 'Iron-restricted',
+  replete: 'Iron replete',
+  indeterminate: 'Unclear — needs TSAT',
+}
+
+export function ironStatusLabel(status: IronStatus | null | undefined): string {
+  return status ? IRON_STATUS_LABELS[status] : 'No iron studies yet'
+}
+
+export const SEVERITY_LABELS = { none: 'none', mild: 'mild', moderate: 'moderate', severe: 'severe' } as const
+
+/** Names for every stored analyte, including those the server derives. */
+export function analyteLabel(analyte: string): string {
+  if (analyte === 'egfr') return 'eGFR (CKD-EPI 2021)'
+  return isAnalyte(analyte) ? ANALYTE_DEFS[analyte].label : analyte
+}
+
+/** The order results are read in: blood count, iron studies, inflammation, kidney, vitamins. */
+export const RESULT_ORDER = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferrin', 'tibc', 'crp', 'creatinine', 'egfr', 'b12', 'folate']
+
+/** Schema messages name the API field first ("value is required"); under a form field they start a sentence. */
+export function asSentence(message: string | undefined): string {
+  return message ? message.charAt(0).toUpperCase() + message.slice(1) : ''
+}
