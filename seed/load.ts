@@ -3,6 +3,7 @@ import { User } from '../server/models/index'
 import { hashPassword } from '../server/services/passwords'
 import { DEMO_ACCOUNTS, DEMO_COLLEAGUES, DEMO_PASSWORD } from './demo/staff'
 import { loadDemoEpisodes } from './demo/episodes'
+import { loadDemoAppointments } from './demo/appointments'
 import { loadDemoDateRequest, loadDemoTreatments, loadFormulary } from './demo/clinic'
 
 /**
@@ -19,6 +20,8 @@ export async function loadDemoScenario(sequelize: Sequelize): Promise<boolean> {
     )
     // The operations catalogue and about forty invented patients across every stage.
     await loadDemoEpisodes(t)
+    // Infusion sessions and a few booked visits (their e-mails recorded as sent, never mailed).
+    await loadDemoAppointments(t)
     await loadFormulary(t)
     const staffId = async (email: string) => (await User.findOne({ where: { email }, transaction: t }))!.id
     await loadDemoTreatments(t, await staffId('doctor@ferrolane.test'), await staffId('nurse@ferrolane.test'))

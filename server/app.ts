@@ -22,6 +22,11 @@ import { patientRoutes } from './routes/patients'
 import { procedureRoutes } from './routes/procedures'
 import { referralRoutes } from './routes/referrals'
 import { worklistRoutes } from './routes/worklist'
+import { appointmentRoutes, referralAppointmentRoutes } from './routes/appointments'
+import { infusionSessionRoutes } from './routes/infusionSessions'
+import { outboxRoutes } from './routes/outbox'
+import { appointmentTaskRoutes } from './routes/appointmentTasks'
+import { replyRoutes } from './routes/replies'
 import { clinicRoutes } from './routes/clinic'
 import { formularyRoutes } from './routes/formulary'
 import { clinicSettingsRoutes } from './routes/clinicSettings'
@@ -91,6 +96,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
     healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx),
     staffRoutes(ctx), patientRoutes(ctx), procedureRoutes(ctx), referralRoutes(ctx), worklistRoutes(ctx),
     clinicRoutes(ctx), formularyRoutes(ctx), clinicSettingsRoutes(ctx), readinessRoutes(ctx),
+    appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),
   ]
   for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
   api.use(apiNotFound)

@@ -2,6 +2,9 @@
  * The one place that reads process.env. Each key names its environment variable; the whole
  * config is checked at boot so a typo fails loudly instead of running with a wrong default.
  */
+import { DEMO_HOSPITAL } from '../seed/demo/hospital'
+import { isTimeZone } from '../shared/appointments/time'
+
 export interface Config {
   env: 'production' | 'development' | 'test'
   /** PORT */ port: number
@@ -30,6 +33,25 @@ export interface Config {
     /** SMTP_PORT */ port: number
     /** MAIL_FROM */ from: string
   }
+  /** The clinic named in patient e-mails and on the reply page (defaults: the invented demo hospital). */
+  clinic: {
+    /** CLINIC_NAME */ name: string
+    /** CLINIC_SERVICE */ service: string
+    /** CLINIC_PHONE: the number patients are told to call */ phone: string
+    /** CLINIC_EMAIL: organiser of calendar invitations */ email: string
+    /** CLINIC_TIME_ZONE: IANA zone appointments are stated in */ timeZone: string
+  }
+  outbox: {
+    /** OUTBOX_POLL_MS: how often the worker looks for mail to send */ pollMs: number
+    /** OUTBOX_MAX_ATTEMPTS: sends tried before a message is marked failed */ maxAttempts: number
+    /** OUTBOX_RETRY_BASE_SECONDS: first retry delay, doubled after each failure */ retryBaseSeconds: number
+    /** OUTBOX_LEASE_SECONDS: a claimed message not finished by then may be claimed again */ leaseSeconds: number
+    /** REMINDER_DAYS_BEFORE: days before an appointment its reminder goes; 0 turns reminders off */ reminderDaysBefore: number
+  }
+  replies: {
+    /** REPLY_MAX_BAD_TOKENS: unknown reply links per address before 429 */ maxBadTokensPerAddress: number
+    /** REPLY_WINDOW_MINUTES: throttling window for reply links */ windowMinutes: number
+  }
   /** STATIC_DIR: the built client; empty disables serving it */ staticDir: string
   /** PUBLIC_URL: base of links in e-mails */ publicUrl: string
 }
@@ -52,6 +74,12 @@ function bool(env: Env, key: string, fallback: boolean): boolean {
   if (['1', 'true', 'yes'].includes(raw.toLowerCase())) return true
   if (['0', 'false', 'no'].includes(raw.toLowerCase())) return false
   throw new Error(`Configuration: ${key} must be true or false (got "${raw}")`)
+}
+
+function timeZone(env: Env, key: string, fallback: string): string {
+  const raw = env[key] || fallback
+  if (!isTimeZone(raw)) throw new Error(`Configuration: ${key} must be an IANA time zone such as Europe/London (got "${raw}")`)
+  return raw
 }
 
 export function loadConfig(env: Env = process.env): Config {
@@ -86,6 +114,24 @@ export function loadConfig(env: Env = process.env): Config {
       host: env.SMTP_HOST || '127.0.0.1',
       port: int(env, 'SMTP_PORT', 1025, 1),
       from: env.MAIL_FROM || 'Ferrolane anaemia service <no-reply@ferrolane.test>',
+    },
+    clinic: {
+      name: env.CLINIC_NAME || DEMO_HOSPITAL.name,
+      service: env.CLINIC_SERVICE || DEMO_HOSPITAL.service,
+      phone: env.CLINIC_PHONE || DEMO_HOSPITAL.phone,
+      email: env.CLINIC_EMAIL || DEMO_HOSPITAL.email,
+      timeZone: timeZone(env, 'CLINIC_TIME_ZONE', DEMO_HOSPITAL.timeZone),
+    },
+    outbox: {
+      pollMs: int(env, 'OUTBOX_POLL_MS', 5000, 100, 3_600_000),
+      maxAttempts: int(env, 'OUTBOX_MAX_ATTEMPTS', 8, 1, 100),
+      retryBaseSeconds: int(env, 'OUTBOX_RETRY_BASE_SECONDS', 30, 1, 86_400),
+      leaseSeconds: int(env, 'OUTBOX_LEASE_SECONDS', 120, 10, 86_400),
+      reminderDaysBefore: int(env, 'REMINDER_DAYS_BEFORE', 2, 0, 60),
+    },
+    replies: {
+      maxBadTokensPerAddress: int(env, 'REPLY_MAX_BAD_TOKENS', 10, 1, 10000),
+      windowMinutes: int(env, 'REPLY_WINDOW_MINUTES', 15, 1, 24 * 60),
     },
     staticDir: env.STATIC_DIR ?? 'dist',
     publicUrl: (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, ''),

@@ -5,6 +5,8 @@ export class AppError extends Error {
     message: string,
     public readonly status: number,
     public readonly fields?: Record<string, string>,
+    /** Extra facts for the caller to act on (e.g. the free slots offered with a refusal). */
+    public readonly details?: Record<string, unknown>,
   ) {
     super(message)
   }
@@ -35,8 +37,8 @@ export class NotFound extends AppError {
 }
 
 export class Conflict extends AppError {
-  constructor(message: string, code = 'conflict', fields?: Record<string, string>) {
-    super(code, message, 409, fields)
+  constructor(message: string, code = 'conflict', fields?: Record<string, string>, details?: Record<string, unknown>) {
+    super(code, message, 409, fields, details)
   }
 }
 

@@ -1,6 +1,7 @@
 import { loadConfig } from './config'
 import { createSequelize } from './db'
 import { createApp } from './app'
+import { OutboxWorker } from './services/outboxWorker'
 
 /** The only place that listens. Stops cleanly on SIGINT/SIGTERM so the start script can shut MariaDB down after it. */
 async function main(): Promise<void> {
@@ -10,11 +11,14 @@ async function main(): Promise<void> {
   const server = app.listen(config.port, config.host, () => {
     console.log(`Ferrolane listening on http://${config.host}:${config.port}`)
   })
+  // Patient e-mails leave from the outbox in this process; several processes may run it side by side.
+  const outbox = new OutboxWorker({ sequelize, config })
+  outbox.start()
   const sweep = setInterval(() => void sessionStore.sweep().catch(() => {}), 10 * 60_000)
   const stop = (signal: string) => {
     console.log(`Ferrolane stopping (${signal})`)
     clearInterval(sweep)
-    server.close(() => void sequelize.close().finally(() => process.exit(0)))
+    server.close(() => void outbox.stop().finally(() => sequelize.close()).finally(() => process.exit(0)))
     setTimeout(() => process.exit(0), 5000).unref()
   }
   process.on('SIGINT', () => stop('SIGINT'))

@@ -18,5 +18,5 @@ export interface StaffAccount extends SessionUser {
 
 /** The one error shape every API failure answers with. */
 export interface ApiErrorBody {
-  error: { code: string; message: string; fields?: Record<string, string> }
+  error: { code: string; message: string; fields?: Record<string, string>; details?: Record<string, unknown> }
 }

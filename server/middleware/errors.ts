@@ -10,7 +10,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   let e: unknown = err
   if (e instanceof ValidationError) e = toInvalid(e)
   if (e instanceof AppError) {
-    res.status(e.status).json({ error: { code: e.code, message: e.message, ...(e.fields ? { fields: e.fields } : {}) } })
+    res.status(e.status).json({ error: { code: e.code, message: e.message, ...(e.fields ? { fields: e.fields } : {}), ...(e.details ? { details: e.details } : {}) } })
     return
   }
   const status = (err as { status?: number; type?: string }).status

@@ -2,6 +2,7 @@ import type { QueryInterface } from 'sequelize'
 import * as m0001 from './0001-foundation'
 import * as m0002 from './0002-pathway'
 import * as m0003 from './0003-clinic'
+import * as m0004 from './0004-appointments'
 
 export interface Migration {
   name: string
@@ -14,4 +15,5 @@ export const migrations: Migration[] = [
   { name: '0001-foundation', ...m0001 },
   { name: '0002-pathway', ...m0002 },
   { name: '0003-clinic', ...m0003 },
+  { name: '0004-appointments', ...m0004 },
 ]

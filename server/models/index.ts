@@ -16,9 +16,17 @@ import { initPrescription, Prescription } from './prescription'
 import { initAdministration, Administration } from './administration'
 import { initReadinessReview, ReadinessReview } from './readinessReview'
 
+import { initInfusionSession, InfusionSession } from './infusionSession'
+import { initAppointment, Appointment } from './appointment'
+import { initAppointmentEvent, AppointmentEvent } from './appointmentEvent'
+import { initOutboxMessage, OutboxMessage } from './outboxMessage'
+import { initAppointmentReplyToken, AppointmentReplyToken } from './appointmentReplyToken'
+import { initAppointmentReplyFailure, AppointmentReplyFailure } from './appointmentReplyFailure'
+import { initAppointmentTask, AppointmentTask } from './appointmentTask'
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
+export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, AppointmentReplyToken, AppointmentReplyFailure, AppointmentTask }
 
 /**
  * Models are module-level classes bound to one Sequelize instance; a test that builds a
@@ -42,6 +50,13 @@ export function initModels(sequelize: Sequelize): void {
   initAdministration(sequelize)
   initReadinessReview(sequelize)
 
+  initInfusionSession(sequelize)
+  initAppointment(sequelize)
+  initAppointmentEvent(sequelize)
+  initOutboxMessage(sequelize)
+  initAppointmentReplyToken(sequelize)
+  initAppointmentReplyFailure(sequelize)
+  initAppointmentTask(sequelize)
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
   Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })
@@ -59,4 +74,14 @@ export function initModels(sequelize: Sequelize): void {
   Prescription.hasMany(Administration, { foreignKey: 'prescriptionId', as: 'administrations' })
   Administration.belongsTo(User, { foreignKey: 'givenBy', as: 'giver' })
   Referral.hasMany(ReadinessReview, { foreignKey: 'referralId', as: 'readinessReviews' })
+  // Appointments and the patient messages about them.
+  Referral.hasMany(Appointment, { foreignKey: 'referralId', as: 'appointments' })
+  Appointment.belongsTo(Referral, { foreignKey: 'referralId', as: 'referral' })
+  Appointment.belongsTo(Patient, { foreignKey: 'patientId', as: 'patient' })
+  Appointment.belongsTo(InfusionSession, { foreignKey: 'infusionSessionId', as: 'session' })
+  Appointment.hasMany(AppointmentEvent, { foreignKey: 'appointmentId', as: 'events' })
+  Appointment.hasMany(OutboxMessage, { foreignKey: 'appointmentId', as: 'messages' })
+  OutboxMessage.belongsTo(Patient, { foreignKey: 'patientId', as: 'patient' })
+  AppointmentTask.belongsTo(Appointment, { foreignKey: 'appointmentId', as: 'appointment' })
+  AppointmentTask.belongsTo(Patient, { foreignKey: 'patientId', as: 'patient' })
 }

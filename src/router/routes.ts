@@ -75,6 +75,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { roles: ROLES, title: 'Change password' },
   },
   {
+    // Patients open this from their appointment e-mail: no account, no app shell.
+    path: '/reply/:token',
+    name: 'appointment-reply',
+    component: () => import('@/views/AppointmentReplyView.vue'),
+    meta: { public: true, title: 'Your appointment' },
+  },
+  {
     path: '/forbidden',
     name: 'forbidden',
     component: () => import('@/views/ForbiddenView.vue'),

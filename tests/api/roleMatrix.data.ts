@@ -55,4 +55,20 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/settings/clinic', allow: [...STAFF] },
   { method: 'PATCH', path: '/api/settings/clinic', allow: ['admin'] },
   { method: 'GET', path: '/api/readiness', allow: [...STAFF] },
+  // Appointments and patient e-mail: nurses and doctors book; every staff role reads (surgeons
+  // their own patients); admins keep the infusion sessions; patients answer through public links.
+  { method: 'POST', path: '/api/appointments', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/appointments/:id', allow: [...STAFF] },
+  { method: 'PATCH', path: '/api/appointments/:id', allow: ['nurse', 'doctor'] },
+  { method: 'POST', path: '/api/appointments/:id/cancel', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/referrals/:id/appointments', allow: [...STAFF] },
+  { method: 'GET', path: '/api/infusion-sessions', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'POST', path: '/api/infusion-sessions', allow: ['admin'] },
+  { method: 'PATCH', path: '/api/infusion-sessions/:id', allow: ['admin'] },
+  { method: 'GET', path: '/api/outbox', allow: ['nurse', 'doctor', 'admin'] },
+  { method: 'GET', path: '/api/tasks', allow: ['nurse', 'doctor'] },
+  { method: 'POST', path: '/api/tasks/:id/done', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/replies/:token', allow: 'public' },
+  { method: 'POST', path: '/api/replies/:token/confirm', allow: 'public' },
+  { method: 'POST', path: '/api/replies/:token/rebook', allow: 'public' },
 ]

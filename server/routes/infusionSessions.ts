@@ -1,0 +1,36 @@
+import { ApiRouter } from './apiRouter'
+import { idParam, type AppContext } from './context'
+import { viewerOf } from './pathwayContext'
+import { validate } from '../middleware/validate'
+import {
+  createInfusionSessionSchema,
+  sessionRangeSchema,
+  updateInfusionSessionSchema,
+  type CreateInfusionSessionInput,
+  type SessionRangeQuery,
+  type UpdateInfusionSessionInput,
+} from '../../shared/schemas/appointments'
+import { createInfusionSession, listInfusionSessions, updateInfusionSession } from '../services/infusionSessions'
+
+/** Admins keep the infusion unit's sessions; the nurses and doctors who book read them. */
+export function infusionSessionRoutes({ sequelize, config }: AppContext): ApiRouter {
+  const api = new ApiRouter('/api/infusion-sessions')
+
+  api.get('', { access: ['admin', 'nurse', 'doctor'] }, validate(sessionRangeSchema, 'query'), async (_req, res) => {
+    res.json(await listInfusionSessions(config, res.locals.query as SessionRangeQuery))
+  })
+
+  api.post('', { access: ['admin'] }, validate(createInfusionSessionSchema), async (req, res) => {
+    const b = req.body as CreateInfusionSessionInput
+    const input: CreateInfusionSessionInput = { date: b.date, startTime: b.startTime, endTime: b.endTime, chairs: b.chairs, location: b.location }
+    res.status(201).json(await createInfusionSession(sequelize, config, viewerOf(req), input))
+  })
+
+  api.patch('/:id', { access: ['admin'] }, validate(updateInfusionSessionSchema), async (req, res) => {
+    const b = req.body as UpdateInfusionSessionInput
+    const input: UpdateInfusionSessionInput = { version: b.version, date: b.date, startTime: b.startTime, endTime: b.endTime, chairs: b.chairs, location: b.location }
+    res.json(await updateInfusionSession(sequelize, config, viewerOf(req), idParam(req), input))
+  })
+
+  return api
+}

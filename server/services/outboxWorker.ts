@@ -1,0 +1,165 @@
+import type { InferAttributes } from 'sequelize'
+import { hostname } from 'node:os'
+import { randomBytes } from 'node:crypto'
+import { QueryTypes, type Sequelize } from 'sequelize'
+import type { Transporter } from 'nodemailer'
+import type { Config } from '../config'
+import { AppointmentReplyToken, OutboxMessage } from '../models/index'
+import { composeMail } from '../mail/compose'
+import { carriesReplyLink } from '../mail/snapshot'
+import { createMailTransport } from '../mail/transport'
+import { newReplyToken } from './appointmentTokens'
+import { queueDueReminders } from './appointmentReminders'
+
+type Row = InferAttributes<OutboxMessage>
+export interface RunResult { claimed: number; sent: number; retried: number; failed: number; bounced: number; reminders: number }
+
+export interface WorkerOptions {
+  sequelize: Sequelize
+  config: Config
+  /** Names this worker in claimed_by; two processes must differ. */
+  workerId?: string
+  transport?: Transporter
+  batchSize?: number
+}
+
+/** Longest wait between retries, however many attempts have failed. */
+const MAX_BACKOFF_MS = 6 * 3_600_000
+
+/**
+ * Sends the outbox. A claim is a short transaction: SELECT ... FOR UPDATE SKIP LOCKED picks due
+ * rows that no other worker holds, and marks them 'sending' with a lease. Sending happens after
+ * that commit; the outcome is written only if this worker still holds the claim. A worker that
+ * dies mid-send leaves its rows 'sending' until the lease ends, then any worker takes them again.
+ */
+export class OutboxWorker {
+  readonly workerId: string
+  private readonly transport: Transporter
+  private timer: NodeJS.Timeout | null = null
+  private running: Promise<unknown> = Promise.resolve()
+  private stopped = false
+
+  constructor(private readonly opts: WorkerOptions) {
+    this.workerId = opts.workerId ?? `${hostname()}:${process.pid}:${randomBytes(3).toString('hex')}`
+    this.transport = opts.transport ?? createMailTransport(opts.config.smtp)
+  }
+
+  private get config(): Config { return this.opts.config }
+
+  /** Claims due messages for this worker; an older message to the same appointment goes first. */
+  async claim(now: Date): Promise<Row[]> {
+    const { sequelize } = this.opts
+    const lease = new Date(now.getTime() + this.config.outbox.leaseSeconds * 1000)
+    return sequelize.transaction(async (transaction) => {
+      const picked = await sequelize.query<{ id: number }>(
+        `SELECT o.id FROM outbox_messages o
+         WHERE ((o.status = 'queued' AND o.next_attempt_at <= ?) OR (o.status = 'sending' AND o.claimed_until < ?))
+           AND NOT EXISTS (SELECT 1 FROM outbox_messages e WHERE e.appointment_id = o.appointment_id AND e.id < o.id AND e.status IN ('queued', 'sending'))
+         ORDER BY o.id LIMIT ? FOR UPDATE SKIP LOCKED`,
+        { replacements: [now, now, this.opts.batchSize ?? 10], type: QueryTypes.SELECT, transaction },
+      )
+      if (!picked.length) return []
+      const ids = picked.map((r) => r.id)
+      await sequelize.query(
+        `UPDATE outbox_messages SET status = 'sending', claimed_by = ?, claimed_until = ?, attempts = attempts + 1, updated_at = ? WHERE id IN (?)`,
+        { replacements: [this.workerId, lease, now, ids], type: QueryTypes.UPDATE, transaction },
+      )
+      return OutboxMessage.findAll({ where: { id: ids }, order: [['id', 'ASC']], transaction, raw: true })
+    })
+  }
+
+  private async finish(id: number, changes: Partial<Row>): Promise<void> {
+    await OutboxMessage.update({ ...changes, claimedBy: null, claimedUntil: null }, { where: { id, claimedBy: this.workerId, status: 'sending' } })
+  }
+
+  /** Sends one claimed message; the reply link's token exists only if the send went through. */
+  private async sendOne(m: Row, now: Date): Promise<'sent' | 'retried' | 'failed' | 'bounced'> {
+    let tokenId: number | null = null
+    try {
+      let token: string | null = null
+      if (carriesReplyLink(m.kind) && m.appointmentId) {
+        const t = newReplyToken()
+        tokenId = (await AppointmentReplyToken.create({ appointmentId: m.appointmentId, tokenHash: t.hash, outboxMessageId: m.id })).id
+        token = t.token
+      }
+      const mail = composeMail(this.config, m.kind, m.payload, token)
+      const info = await this.transport.sendMail({
+        from: this.config.smtp.from,
+        to: m.toAddress,
+        subject: mail.subject,
+        text: mail.text,
+        html: mail.html,
+        // One Message-ID per outbox row: if a crash ever makes us send again, mail systems can tell.
+        messageId: `<outbox-${m.id}@ferrolane>`,
+        headers: { 'X-Ferrolane-Outbox-Id': String(m.id) },
+        attachments: [{ filename: mail.ics.filename, content: mail.ics.content, contentType: `text/calendar; charset=utf-8; method=${mail.ics.method}` }],
+      })
+      await this.finish(m.id, { status: 'sent', smtpMessageId: String(info.messageId ?? ''), sentAt: new Date(), lastError: null })
+      return 'sent'
+    } catch (err) {
+      if (tokenId) await AppointmentReplyToken.destroy({ where: { id: tokenId } }).catch(() => {})
+      const e = err as { responseCode?: number; message?: string }
+      const lastError = String(e.message ?? err).slice(0, 1000)
+      // A 5xx answer is the relay refusing this message for good (unknown mailbox, policy).
+      if (e.responseCode && e.responseCode >= 500) {
+        await this.finish(m.id, { status: 'bounced', lastError })
+        return 'bounced'
+      }
+      if (m.attempts >= this.config.outbox.maxAttempts) {
+        await this.finish(m.id, { status: 'failed', lastError })
+        return 'failed'
+      }
+      const delay = Math.min(this.config.outbox.retryBaseSeconds * 1000 * 2 ** (m.attempts - 1), MAX_BACKOFF_MS)
+      await this.finish(m.id, { status: 'queued', lastError, nextAttemptAt: new Date(now.getTime() + delay) })
+      return 'retried'
+    }
+  }
+
+  /** One pass: queue due reminders, claim one batch, send it. Tests call this directly. */
+  async runOnce(opts: { now?: Date } = {}): Promise<RunResult> {
+    const now = opts.now ?? new Date()
+    const result: RunResult = { claimed: 0, sent: 0, retried: 0, failed: 0, bounced: 0, reminders: 0 }
+    result.reminders = await queueDueReminders(this.opts.sequelize, this.config, now)
+    const batch = await this.claim(now)
+    result.claimed = batch.length
+    for (const m of batch) result[await this.sendOne(m, now)] += 1
+    return result
+  }
+
+  /** Passes until nothing is due (messages put back for a later retry end the loop). */
+  async drain(opts: { now?: Date } = {}): Promise<RunResult> {
+    const total: RunResult = { claimed: 0, sent: 0, retried: 0, failed: 0, bounced: 0, reminders: 0 }
+    for (;;) {
+      const r = await this.runOnce(opts)
+      for (const k of Object.keys(total) as (keyof RunResult)[]) total[k] += r[k]
+      if (r.claimed === 0) return total
+    }
+  }
+
+  /** Polls every OUTBOX_POLL_MS in the server process until stop(). */
+  start(): void {
+    const tick = () => {
+      if (this.stopped) return
+      this.running = this.drain()
+        .catch((err) => console.error('[outbox] pass failed; will try again', err))
+        .finally(() => {
+          if (!this.stopped) this.timer = setTimeout(tick, this.config.outbox.pollMs)
+        })
+    }
+    this.timer = setTimeout(tick, 0)
+  }
+
+  /** Lets the pass in progress finish (its claims are honoured), then closes SMTP. */
+  async stop(): Promise<void> {
+    this.stopped = true
+    if (this.timer) clearTimeout(this.timer)
+    await this.running
+    this.transport.close()
+  }
+}
+
+/** The single-call form tests and scripts use: send everything due now, once. */
+export function drainOutbox(opts: WorkerOptions & { now?: Date }): Promise<RunResult> {
+  const w = new OutboxWorker(opts)
+  return w.drain({ now: opts.now }).finally(() => w.stop())
+}

@@ -1,0 +1,72 @@
+/**
+ * Wall-clock helpers for the clinic's time zone. Appointments are stored as instants (UTC);
+ * patients read them in the clinic's local time, and staff enter session times that way.
+ * Only Intl is used, so the browser and the server agree without a time-zone library.
+ */
+
+function parts(instant: Date, timeZone: string): Record<string, number> {
+  const fmt = new Intl.DateTimeFormat('en-GB', {
+    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
+  })
+  const out: Record<string, number> = {}
+  for (const p of fmt.formatToParts(instant)) if (p.type !== 'literal') out[p.type] = Number(p.value)
+  return out
+}
+
+/** Milliseconds the zone is ahead of UTC at that instant (+3 600 000 for London in summer). */
+export function zoneOffsetMs(instant: Date, timeZone: string): number {
+  const p = parts(instant, timeZone)
+  const asUtc = Date.UTC(p.year!, p.month! - 1, p.day!, p.hour!, p.minute!, p.second!)
+  return asUtc - Math.floor(instant.getTime() / 1000) * 1000
+}
+
+/** The instant at which the clinic's clocks show `dateIso` `hhmm` ('2026-03-31', '09:30'). */
+export function zonedToUtc(dateIso: string, hhmm: string, timeZone: string): Date {
+  const [y, m, d] = dateIso.split('-').map(Number)
+  const [h, min] = hhmm.split(':').map(Number)
+  const wall = Date.UTC(y!, m! - 1, d!, h!, min!)
+  // Two passes settle the offset on either side of a clock change.
+  let guess = wall - zoneOffsetMs(new Date(wall), timeZone)
+  guess = wall - zoneOffsetMs(new Date(guess), timeZone)
+  return new Date(guess)
+}
+
+const pad = (n: number) => String(n).padStart(2, '0')
+
+/** 'YYYY-MM-DD' of the instant on the clinic's calendar. */
+export function localDate(instant: Date, timeZone: string): string {
+  const p = parts(instant, timeZone)
+  return `${p.year}-${pad(p.month!)}-${pad(p.day!)}`
+}
+
+/** 'HH:MM' (24-hour) of the instant on the clinic's clocks. */
+export function localTime(instant: Date, timeZone: string): string {
+  const p = parts(instant, timeZone)
+  return `${pad(p.hour!)}:${pad(p.minute!)}`
+}
+
+/** 'Tuesday 12 May 2026' in the clinic's calendar. */
+export function longDate(instant: Date, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric' })
+    .format(instant)
+    .replace(',', '')
+}
+
+/** 'Tue 12 May' for subject lines. */
+export function shortDate(instant: Date, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'short', day: 'numeric', month: 'short' }).format(instant).replace(',', '')
+}
+
+/** 'UK time (Europe/London)': how the e-mail names the zone, so nobody guesses. */
+export function zoneName(timeZone: string): string {
+  return timeZone === 'Europe/London' ? 'UK time (Europe/London)' : `local time (${timeZone})`
+}
+
+export function isTimeZone(value: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en-GB', { timeZone: value })
+    return true
+  } catch {
+    return false
+  }
+}
