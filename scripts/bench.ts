@@ -1,13 +1,19 @@
 /**
  * npm run bench: builds the client into .bench-data/ and prints one JSON line per figure.
- * Later benchmarks (worklist, imports, reports) add their own steps here.
+ * Its own MariaDB (.bench-data/, port 3410) holds the bench database, loaded once and kept.
+ * `npm run bench -- bundle` or `-- worklist` runs one part.
  */
 import { spawnSync } from 'node:child_process'
 import path from 'node:path'
-import { repoRoot } from './lib/stack'
+import { repoRoot, startStack, intFromEnv } from './lib/stack'
+import { prepareDatabase } from './lib/prepare'
 import { bundleReport } from './bench/bundle'
+import { loadBenchData } from './bench/benchData'
+import { benchWorklist } from './bench/worklist'
 
 const benchDir = path.resolve(repoRoot, '.bench-data')
+const only = process.argv.slice(2)
+const wants = (part: string) => only.length === 0 || only.includes(part)
 
 function buildClient(outDir: string): void {
   const r = spawnSync(path.join(repoRoot, 'node_modules/.bin/vite'), ['build', '--outDir', outDir, '--emptyOutDir', '--logLevel', 'error'], { cwd: repoRoot, stdio: 'inherit' })
@@ -15,9 +21,26 @@ function buildClient(outDir: string): void {
 }
 
 async function main(): Promise<void> {
-  const dist = path.join(benchDir, 'dist')
-  buildClient(dist)
-  console.log(JSON.stringify(bundleReport(dist)))
+  if (wants('bundle')) {
+    const dist = path.join(benchDir, 'dist')
+    buildClient(dist)
+    console.log(JSON.stringify(bundleReport(dist)))
+  }
+  if (!wants('worklist')) return
+  const stack = await startStack({
+    label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
+    dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
+  })
+  try {
+    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1' }
+    await prepareDatabase(env, { seedDemo: false })
+    const t0 = Date.now()
+    const data = await loadBenchData({ host: '127.0.0.1', port: stack.mariadb.port, user: env.DB_USER!, password: env.DB_PASSWORD!, database: env.DB_NAME! })
+    if (data.loaded) console.error(`[bench] loaded the bench database in ${((Date.now() - t0) / 1000).toFixed(1)} s`)
+    console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail)))
+  } finally {
+    await stack.stop()
+  }
 }
 
 main().catch((err) => {

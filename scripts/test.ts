@@ -36,7 +36,9 @@ function vitestStep(name: string, project: string, env: NodeJS.ProcessEnv): Step
     run: async () => {
       const report = path.join(dataDir, `vitest-${project}.json`)
       rmSync(report, { force: true })
-      const code = await exec(bin('vitest'), ['run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], env)
+      // TEST_FILES narrows a run to some files while working (e.g. TEST_FILES=worklist npm test -- api).
+      const files = (process.env.TEST_FILES ?? '').split(',').filter(Boolean)
+      const code = await exec(bin('vitest'), ['run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...files], env)
       if (!existsSync(report)) return { passed: 0, failed: 1 }
       const r = JSON.parse(readFileSync(report, 'utf8')) as { numPassedTests: number; numFailedTests: number; numTotalTests: number; testResults: { status: string }[] }
       // A file that fails to load has no tests in the count; it still fails the run.

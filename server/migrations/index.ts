@@ -3,6 +3,7 @@ import * as m0001 from './0001-foundation'
 import * as m0002 from './0002-pathway'
 import * as m0003 from './0003-clinic'
 import * as m0004 from './0004-appointments'
+import * as m0005 from './0005-worklist-sort'
 
 export interface Migration {
   name: string
@@ -16,4 +17,5 @@ export const migrations: Migration[] = [
   { name: '0002-pathway', ...m0002 },
   { name: '0003-clinic', ...m0003 },
   { name: '0004-appointments', ...m0004 },
+  { name: '0005-worklist-sort', ...m0005 },
 ]

@@ -40,9 +40,10 @@ const SORT_SQL: Record<WorklistSort, string> = {
   '-plannedSurgeryDate': `${byDate} DESC, r.id DESC`,
   daysToSurgery: `${byDate} ASC, r.id ASC`,
   '-daysToSurgery': `${byDate} DESC, r.id DESC`,
-  // Lowest Hb first; episodes without an Hb go last either way.
-  latestHb: `r.latest_hb_gl IS NULL, r.latest_hb_gl ASC, ${byDate} ASC, r.id ASC`,
-  '-latestHb': `r.latest_hb_gl IS NULL, r.latest_hb_gl DESC, ${byDate} ASC, r.id ASC`,
+  // Lowest Hb first; episodes without an Hb go last either way. The sort keys are indexed
+  // generated columns (migration 0005) that put a missing Hb last, so paging reads the index.
+  latestHb: `r.hb_sort_asc ASC, ${byDate} ASC, r.id ASC`,
+  '-latestHb': `r.hb_sort_desc ASC, ${byDate} ASC, r.id ASC`,
   // The pathway's own order, not the alphabet.
   stage: `FIELD(r.stage, ${quoted(STAGES)}) ASC, ${byDate} ASC, r.id ASC`,
   '-stage': `FIELD(r.stage, ${quoted(STAGES)}) DESC, ${byDate} ASC, r.id ASC`,
@@ -107,8 +108,10 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   // Several flags mean "any of them", like several stages.
   if (q.flag?.length) where.push(`(${q.flag.map((f) => FLAG_SQL[f as WorklistFlag]).join(' OR ')})`)
   const terms = (q.q ?? '').split(/\s+/).filter(Boolean).slice(0, 4)
+  // One prefix search per indexed column, unioned: an OR across three columns would read every patient.
   terms.forEach((term, i) => {
-    where.push(`(pa.mrn LIKE :q${i} OR pa.family_name LIKE :q${i} OR pa.given_name LIKE :q${i})`)
+    where.push(`r.patient_id IN (SELECT id FROM patients WHERE mrn LIKE :q${i}
+      UNION SELECT id FROM patients WHERE family_name LIKE :q${i} UNION SELECT id FROM patients WHERE given_name LIKE :q${i})`)
     params[`q${i}`] = likePrefix(term)
   })
   const whereSql = where.length ? `WHERE ${where.join(' AND ')}` : ''
@@ -119,8 +122,8 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   const straight = sort.endsWith('amilyName') ? '' : 'STRAIGHT_JOIN'
   const page = q.page ?? 1
   const pageSize = q.pageSize ?? 25
-  // Foreign keys guarantee the joined rows exist, so the count needs patients only to search.
-  const countFrom = `FROM referrals r${terms.length ? ' JOIN patients pa ON pa.id = r.patient_id' : ''}`
+  // Foreign keys guarantee the joined rows exist, so the count reads referrals alone.
+  const countFrom = 'FROM referrals r'
   const [rows, countRows] = await Promise.all([
     sequelize.query<WorklistSqlRow>(
       `SELECT ${straight} r.id, r.version, r.stage, r.priority, r.planned_surgery_date AS plannedSurgeryDate,

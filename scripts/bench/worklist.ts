@@ -1,0 +1,137 @@
+/**
+ * Worklist throughput: GET /api/worklist over HTTP against a real server process (autocannon,
+ * 32 connections, 10 s), beside the same pages' SQL issued straight through the mariadb driver.
+ */
+import { spawn, type ChildProcess } from 'node:child_process'
+import { readFileSync } from 'node:fs'
+import path from 'node:path'
+import autocannon from 'autocannon'
+import mariadb from 'mariadb'
+import { Sequelize } from 'sequelize'
+import { loadConfig } from '../../server/config'
+import { createSequelize } from '../../server/db'
+import { initModels, User } from '../../server/models/index'
+import { worklist } from '../../server/services/worklist'
+import type { WorklistQuery } from '../../shared/schemas/referrals'
+import { BENCH_PASSWORD } from './benchData'
+import { repoRoot } from '../lib/stack'
+
+const CONNECTIONS = 32
+const DURATION_S = 10
+
+/** Typical views: the default list, a stage queue, a flag, a date window, a sort by Hb, a name search. */
+const VIEWS: { query: string; q: WorklistQuery }[] = [
+  { query: '', q: {} },
+  { query: 'stage=referred,screened', q: { stage: ['referred', 'screened'] } },
+  { query: 'flag=surgery-soon-anaemic', q: { flag: ['surgery-soon-anaemic'] } },
+  { query: 'stage=clinic,treating,recheck&sort=-plannedSurgeryDate', q: { stage: ['clinic', 'treating', 'recheck'], sort: '-plannedSurgeryDate' } },
+  { query: 'sort=latestHb&page=3', q: { sort: 'latestHb', page: 3 } },
+  { query: 'q=ashbro', q: { q: 'ashbro' } },
+] as unknown as { query: string; q: WorklistQuery }[]
+
+function percentile(sorted: number[], p: number): number {
+  if (!sorted.length) return NaN
+  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!
+}
+
+function summary(latencies: number[], seconds: number) {
+  const s = [...latencies].sort((a, b) => a - b)
+  return { p50Ms: +percentile(s, 50).toFixed(2), p95Ms: +percentile(s, 95).toFixed(2), rps: Math.round(latencies.length / seconds), requests: latencies.length }
+}
+
+async function waitForHealth(url: string) {
+  for (let i = 0; i < 120; i++) {
+    try { if ((await fetch(`${url}/api/health`)).ok) return } catch { /* starting */ }
+    await new Promise((r) => setTimeout(r, 250))
+  }
+  throw new Error('bench server did not start')
+}
+
+async function signIn(url: string, email: string): Promise<string> {
+  const csrfRes = await fetch(`${url}/api/auth/csrf`)
+  const cookie = (csrfRes.headers.get('set-cookie') ?? '').split(';')[0]!
+  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string }
+  const login = await fetch(`${url}/api/auth/login`, {
+    method: 'POST', headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
+    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
+  })
+  if (!login.ok) throw new Error(`bench sign-in failed: ${login.status}`)
+  return (login.headers.get('set-cookie') ?? '').split(';')[0]!
+}
+
+function rssMb(pid: number): { rssMb: number; peakMb: number } {
+  const status = readFileSync(`/proc/${pid}/status`, 'utf8')
+  const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? 0)
+  return { rssMb: Math.round(kb('VmRSS') / 1024), peakMb: Math.round(kb('VmHWM') / 1024) }
+}
+
+/** The exact SQL the service issues for each view, captured from Sequelize's log. */
+async function capturedSql(env: NodeJS.ProcessEnv, viewerId: number): Promise<string[][]> {
+  const config = loadConfig(env)
+  const seen: string[] = []
+  const seq: Sequelize = createSequelize(config)
+  ;(seq as unknown as { options: { logging: (sql: string) => void } }).options.logging = (sql) => { seen.push(sql.replace(/^Executing \([^)]*\): /, '')) }
+  initModels(seq)
+  const out: string[][] = []
+  for (const v of VIEWS) {
+    seen.length = 0
+    await worklist(seq, { userId: viewerId, role: 'nurse', requestId: null, ip: null }, v.q)
+    out.push([...seen])
+  }
+  await seq.close()
+  return out
+}
+
+async function directSql(env: NodeJS.ProcessEnv, statements: string[][]) {
+  const pool = mariadb.createPool({ host: env.DB_HOST, port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME, connectionLimit: CONNECTIONS })
+  const latencies: number[] = []
+  const end = Date.now() + DURATION_S * 1000
+  let n = 0
+  await Promise.all(Array.from({ length: CONNECTIONS }, async () => {
+    while (Date.now() < end) {
+      const page = statements[n++ % statements.length]!
+      const t0 = performance.now()
+      await Promise.all(page.map((sql) => pool.query(sql)))
+      latencies.push(performance.now() - t0)
+    }
+  }))
+  await pool.end()
+  return summary(latencies, DURATION_S)
+}
+
+export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string) {
+  const port = 8097
+  const url = `http://127.0.0.1:${port}`
+  const server: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
+  })
+  try {
+    await waitForHealth(url)
+    const cookie = await signIn(url, nurseEmail)
+    const latencies: number[] = []
+    const instance = autocannon({
+      url, connections: CONNECTIONS, duration: DURATION_S,
+      requests: VIEWS.map((v) => ({ method: 'GET', path: `/api/worklist${v.query ? `?${v.query}` : ''}`, headers: { cookie } })),
+    })
+    instance.on('response', (_client: unknown, status: number, _bytes: number, ms: number) => { if (status === 200) latencies.push(ms) })
+    const result = await instance
+    const http = { ...summary(latencies, DURATION_S), non2xx: result.non2xx, errors: result.errors }
+    const memory = rssMb(server.pid!)
+
+    const cfg = loadConfig(env)
+    const seq = createSequelize(cfg)
+    initModels(seq)
+    const nurse = await User.findOne({ where: { email: nurseEmail } })
+    await seq.close()
+    const direct = await directSql(env, await capturedSql(env, nurse!.id))
+    return {
+      bench: 'worklist', connections: CONNECTIONS, durationS: DURATION_S, http, directSql: direct,
+      p95Ratio: +(http.p95Ms / direct.p95Ms).toFixed(2), serverMemory: memory,
+      targets: { p95RatioMax: 2, rpsMin: 300, memoryMbMax: 300 },
+      met: { p95Ratio: http.p95Ms / direct.p95Ms <= 2, rps: http.rps >= 300, memory: memory.peakMb < 300 },
+    }
+  } finally {
+    server.kill('SIGTERM')
+    await new Promise((r) => server.once('exit', r))
+  }
+}
