@@ -26,3 +26,12 @@ export const STARTER_FORMULARY: (IronProduct & { source: string })[] = [
     source: 'Alternate-day dosing: Stoffel, Lancet Haematol 2017; BSG guideline, Gut 2021. Check against your local formulary and the prescribing information.',
   },
 ]
+
+/** The starter formulary as rows of iron_products (absent caps are NULL: no such cap). */
+export function starterFormularyRows() {
+  return STARTER_FORMULARY.map((p) => ({
+    code: p.code, name: p.name, route: p.route, maxSingleDoseMg: p.maxSingleDoseMg, maxSingleDoseMgPerKg: p.maxSingleDoseMgPerKg ?? null,
+    minIntervalDays: p.minIntervalDays, maxWeeklyMg: p.maxWeeklyMg ?? null, maxTotalMg: p.maxTotalMg ?? null, roundToMg: p.roundToMg ?? null,
+    oralDailyMg: p.oralDailyMg ?? null, oralAlternateDays: p.oralAlternateDays ?? null, source: p.source,
+  }))
+}

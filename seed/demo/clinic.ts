@@ -5,19 +5,12 @@ import { DEFAULT_CLINIC_SETTINGS } from '../../shared/clinic/settings'
 import { currentBody } from '../../server/services/patients'
 import { loadReferral } from '../../server/services/episode'
 import { projectionForReferral } from '../../server/services/projection'
-import { STARTER_FORMULARY } from '../formulary'
+import { starterFormularyRows } from '../formulary'
 
 const NO_CAUTIONS = { previousHypersensitivity: false, activeInfection: false, firstTrimester: false, severeLiverDisease: false }
 
 export async function loadFormulary(t: Transaction): Promise<void> {
-  await IronProductRow.bulkCreate(
-    STARTER_FORMULARY.map((p) => ({
-      code: p.code, name: p.name, route: p.route, maxSingleDoseMg: p.maxSingleDoseMg, maxSingleDoseMgPerKg: p.maxSingleDoseMgPerKg ?? null,
-      minIntervalDays: p.minIntervalDays, maxWeeklyMg: p.maxWeeklyMg ?? null, maxTotalMg: p.maxTotalMg ?? null, roundToMg: p.roundToMg ?? null,
-      oralDailyMg: p.oralDailyMg ?? null, oralAlternateDays: p.oralAlternateDays ?? null, source: p.source,
-    })),
-    { transaction: t },
-  )
+  await IronProductRow.bulkCreate(starterFormularyRows(), { transaction: t })
 }
 
 /**

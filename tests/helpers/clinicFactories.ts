@@ -1,14 +1,10 @@
 import { IronProductRow, PatientMeasurement, Result } from '../../server/models/index'
-import { STARTER_FORMULARY } from '../../seed/formulary'
+import { starterFormularyRows } from '../../seed/formulary'
 import { makePatient, makeProcedure, makeReferral, type ReferralOverrides } from './pathwayFactories'
 import type { Sex } from '../../shared/clinical'
 
 export async function loadStarterFormulary(): Promise<void> {
-  await IronProductRow.bulkCreate(STARTER_FORMULARY.map((p) => ({
-    code: p.code, name: p.name, route: p.route, maxSingleDoseMg: p.maxSingleDoseMg, maxSingleDoseMgPerKg: p.maxSingleDoseMgPerKg ?? null,
-    minIntervalDays: p.minIntervalDays, maxWeeklyMg: p.maxWeeklyMg ?? null, maxTotalMg: p.maxTotalMg ?? null, roundToMg: p.roundToMg ?? null,
-    oralDailyMg: p.oralDailyMg ?? null, oralAlternateDays: p.oralAlternateDays ?? null, source: p.source,
-  })))
+  await IronProductRow.bulkCreate(starterFormularyRows())
 }
 
 export interface EpisodeSpec {
