@@ -14,6 +14,7 @@ import {
   type WorklistFlag,
 } from '../../shared/pathway'
 import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals'
+import type { AppointmentKind, AppointmentStatus } from '../../shared/appointments'
 import { Forbidden } from '../errors'
 import { isoOrNull, type Viewer } from './viewer'
 
@@ -145,7 +146,33 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
     ),
     sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total ${countFrom} ${whereSql}`, { type: QueryTypes.SELECT, replacements: params }),
   ])
-  return { rows: rows.map((row) => toWorklistRow(row, today)), total: Number(countRows[0]?.total ?? 0), page, pageSize }
+  const next = await nextAppointments(sequelize, rows.map((r) => r.id))
+  return {
+    rows: rows.map((row) => ({ ...toWorklistRow(row, today), nextAppointment: next.get(row.id) ?? null })),
+    total: Number(countRows[0]?.total ?? 0),
+    page,
+    pageSize,
+  }
+}
+
+export interface NextAppointment { kind: AppointmentKind; startsAt: string; status: AppointmentStatus }
+
+/**
+ * Each episode's next visit that is still on, for the page's rows only: one query over the
+ * (referral_id, starts_at) index, not one per row, so the worklist stays one round trip wider.
+ */
+async function nextAppointments(sequelize: Sequelize, referralIds: number[]): Promise<Map<number, NextAppointment>> {
+  const out = new Map<number, NextAppointment>()
+  if (!referralIds.length) return out
+  const rows = await sequelize.query<{ referralId: number; kind: AppointmentKind; startsAt: Date | string; status: AppointmentStatus }>(
+    `SELECT referral_id AS referralId, kind, starts_at AS startsAt, status FROM appointments
+     WHERE referral_id IN (:ids) AND status <> 'cancelled' AND starts_at >= :now
+     ORDER BY referral_id, starts_at, id`,
+    { type: QueryTypes.SELECT, replacements: { ids: referralIds, now: new Date() } },
+  )
+  // Rows come soonest first per episode, so the first one seen is the next visit.
+  for (const r of rows) if (!out.has(r.referralId)) out.set(r.referralId, { kind: r.kind, startsAt: isoOrNull(r.startsAt)!, status: r.status })
+  return out
 }
 
 function toWorklistRow(row: WorklistSqlRow, today: string) {

@@ -8,6 +8,8 @@ export class ApiError extends Error {
     readonly code: string,
     message: string,
     readonly fields: Record<string, string> = {},
+    /** Facts to act on, e.g. the free slots offered with a full infusion session. */
+    readonly details: Record<string, unknown> = {},
   ) {
     super(message)
   }
@@ -44,7 +46,7 @@ async function toApiError(response: Response): Promise<ApiError> {
   const body = (await response.json().catch(() => null)) as Partial<ApiErrorBody> | null
   const error = body?.error
   if (error && typeof error.code === 'string') {
-    return new ApiError(response.status, error.code, error.message ?? 'Request failed', error.fields ?? {})
+    return new ApiError(response.status, error.code, error.message ?? 'Request failed', error.fields ?? {}, error.details ?? {})
   }
   // A proxy or a crashed server answers without our error shape.
   const message =

@@ -1,3 +1,4 @@
+import type { AppointmentKind, AppointmentStatus } from '@shared/appointments'
 import type { AllowedMove, Priority, Stage, WorklistFlag } from '@shared/pathway'
 import type { IronStatus, Sex } from '@shared/clinical'
 
@@ -25,6 +26,8 @@ export interface WorklistRow {
   patient: { id: number; mrn: string; givenName: string; familyName: string; dateOfBirth: string; sex: Sex }
   procedure: { code: string; name: string }
   surgeon: { id: number; name: string }
+  /** The soonest future visit that is not cancelled (server/services/worklist.ts). */
+  nextAppointment: { kind: AppointmentKind; startsAt: string; status: AppointmentStatus } | null
 }
 
 export interface WorklistPage {

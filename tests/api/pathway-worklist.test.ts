@@ -161,3 +161,27 @@ describe('surgeons see their own patients', () => {
     expect((await s.get(`/api/worklist?surgeonId=${surgeonB.id}`)).status).toBe(403)
   })
 })
+
+describe('the next visit on each row', () => {
+  it('when an episode has past, cancelled and future visits, then the row shows the soonest future one still on; none gives null', async () => {
+    const { Appointment, Referral } = await import('../../server/models/index')
+    const referral = (await Referral.findByPk(named.farAnaemic!, { raw: true }))!
+    const visit = (inDays: number, kind: 'iron-infusion' | 'recheck-bloods', status: 'booked' | 'confirmed' | 'cancelled') => {
+      // Whole minutes: the column keeps seconds, not milliseconds.
+      const startsAt = new Date(Math.floor(Date.now() / 60_000) * 60_000 + inDays * 86_400_000)
+      return Appointment.create({
+        referralId: referral.id, patientId: referral.patientId, kind, startsAt, endsAt: new Date(startsAt.getTime() + 3_600_000),
+        durationMin: 60, location: 'Day Treatment Unit', infusionSessionId: null, status, remindAt: null, createdBy: null,
+      })
+    }
+    await visit(-2, 'recheck-bloods', 'confirmed')
+    await visit(3, 'iron-infusion', 'cancelled')
+    const next = await visit(5, 'iron-infusion', 'confirmed')
+    await visit(9, 'recheck-bloods', 'booked')
+
+    const { rows } = await list('?q=Carver')
+    expect((rows[0] as unknown as { nextAppointment: unknown }).nextAppointment).toEqual({ kind: 'iron-infusion', startsAt: next.startsAt.toISOString(), status: 'confirmed' })
+    const other = await list('?q=Dunmore')
+    expect((other.rows[0] as unknown as { nextAppointment: unknown }).nextAppointment).toBeNull()
+  })
+})

@@ -1,0 +1,100 @@
+import { computed, toValue, type MaybeRefOrGetter } from 'vue'
+import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
+import type { CancelAppointmentInput, CreateAppointmentInput, MoveAppointmentInput } from '@shared/schemas/appointments'
+import {
+  bookAppointment,
+  cancelAppointment,
+  completeTask,
+  listAppointments,
+  listInfusionSessions,
+  listOutbox,
+  listTasks,
+  moveAppointment,
+} from '@/api/appointments'
+import { referralKeys } from './useReferrals'
+
+/** Appointments, their messages, the unit's sessions and patients' requests share one prefix. */
+export const appointmentKeys = {
+  all: ['appointments'] as const,
+  list: (referralId: number) => [...appointmentKeys.all, 'referral', referralId] as const,
+  outbox: (referralId: number) => [...appointmentKeys.all, 'outbox', referralId] as const,
+  sessions: (from: string, to: string) => [...appointmentKeys.all, 'sessions', from, to] as const,
+  tasks: () => [...appointmentKeys.all, 'tasks', 'open'] as const,
+}
+
+// Patients answer from their e-mail and the worker sends in the background: keep both fresh.
+const LIST_POLL_MS = 10_000
+const OUTBOX_POLL_MS = 8_000
+const TASKS_POLL_MS = 15_000
+
+export function useAppointmentsQuery(referralId: MaybeRefOrGetter<number>) {
+  return useQuery({
+    queryKey: computed(() => appointmentKeys.list(toValue(referralId))),
+    queryFn: () => listAppointments(toValue(referralId)),
+    refetchInterval: LIST_POLL_MS,
+  })
+}
+
+export function useOutboxQuery(referralId: MaybeRefOrGetter<number>, enabled: MaybeRefOrGetter<boolean> = true) {
+  return useQuery({
+    queryKey: computed(() => appointmentKeys.outbox(toValue(referralId))),
+    queryFn: () => listOutbox(toValue(referralId)),
+    enabled: computed(() => toValue(enabled)),
+    refetchInterval: OUTBOX_POLL_MS,
+  })
+}
+
+export function useInfusionSessionsQuery(range: MaybeRefOrGetter<{ from: string; to: string } | null>) {
+  return useQuery({
+    queryKey: computed(() => {
+      const r = toValue(range)
+      return appointmentKeys.sessions(r?.from ?? '', r?.to ?? '')
+    }),
+    queryFn: () => {
+      const r = toValue(range)!
+      return listInfusionSessions(r.from, r.to)
+    },
+    enabled: computed(() => toValue(range) !== null),
+  })
+}
+
+export function useTasksQuery() {
+  return useQuery({ queryKey: appointmentKeys.tasks(), queryFn: listTasks, refetchInterval: TASKS_POLL_MS })
+}
+
+/** A booking changes the episode's list, its messages, the session's chairs and the worklist's next visit. */
+function useInvalidateAppointments() {
+  const queryClient = useQueryClient()
+  return () =>
+    Promise.all([
+      queryClient.invalidateQueries({ queryKey: appointmentKeys.all }),
+      queryClient.invalidateQueries({ queryKey: referralKeys.all }),
+    ])
+}
+
+export function useBookAppointmentMutation() {
+  const invalidate = useInvalidateAppointments()
+  return useMutation({ mutationFn: (input: CreateAppointmentInput) => bookAppointment(input), onSuccess: invalidate })
+}
+
+export function useMoveAppointmentMutation() {
+  const invalidate = useInvalidateAppointments()
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: MoveAppointmentInput }) => moveAppointment(id, input),
+    // A stale version (409) means our copy is old: refetch whether it worked or not.
+    onSettled: invalidate,
+  })
+}
+
+export function useCancelAppointmentMutation() {
+  const invalidate = useInvalidateAppointments()
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: CancelAppointmentInput }) => cancelAppointment(id, input),
+    onSettled: invalidate,
+  })
+}
+
+export function useCompleteTaskMutation() {
+  const invalidate = useInvalidateAppointments()
+  return useMutation({ mutationFn: (id: number) => completeTask(id), onSettled: invalidate })
+}
