@@ -1,6 +1,8 @@
 import type { Stage, WorklistFlag } from '@shared/pathway'
 import { ANALYTE_DEFS, isAnalyte } from '@shared/pathway'
 import type { IronStatus } from '@shared/clinical'
+import type { IronDoseCap } from '@shared/clinical/ironPlan'
+import type { BloodOrderKind, Verdict } from '@shared/clinic/readiness'
 
 /** Stages in which the screening outcome's proposal is still waiting to be confirmed. */
 export const SCREENING_STAGES: readonly Stage[] = ['referred', 'screened']
@@ -61,4 +63,39 @@ export const RESULT_ORDER = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferr
 /** Schema messages name the API field first ("value is required"); under a form field they start a sentence. */
 export function asSentence(message: string | undefined): string {
   return message ? message.charAt(0).toUpperCase() + message.slice(1) : ''
+}
+
+/** Readiness verdicts: word (from the server's VERDICT_LABELS) plus an icon and a tone, never colour alone. */
+export const VERDICT_LOOK: Record<Verdict, { icon: string; tone: Tone }> = {
+  ready: { icon: 'pi pi-check-circle', tone: 'success' },
+  optimise: { icon: 'pi pi-exclamation-triangle', tone: 'warn' },
+  // Deferral is a prompt to talk, not a refusal: amber, not red.
+  'consider-deferral': { icon: 'pi pi-calendar-times', tone: 'warn' },
+}
+
+/** The formulary caps in words, for "which cap limited this dose". */
+export const CAP_LABELS: Record<IronDoseCap, string> = {
+  maxSingleDoseMg: 'largest single dose',
+  maxSingleDoseMgPerKg: 'mg per kg limit',
+  maxWeeklyMg: 'weekly limit',
+  maxTotalMg: 'course maximum',
+  roundToMg: 'vial size (dose step)',
+}
+
+export function capLabel(cap: string): string {
+  return CAP_LABELS[cap as IronDoseCap] ?? cap
+}
+
+export const REACTION_LABELS = {
+  none: 'None',
+  mild: 'Mild',
+  moderate: 'Moderate',
+  severe: 'Severe',
+} as const
+
+/** "Group and screen" or "Crossmatch 2 units": the blood to have ready. */
+export function bloodOrderText(order: { kind: BloodOrderKind; units: number } | null | undefined): string {
+  if (!order) return '—'
+  if (order.kind === 'group-and-screen') return 'Group and screen'
+  return `Crossmatch ${order.units} unit${order.units === 1 ? '' : 's'}`
 }

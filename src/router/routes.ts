@@ -49,6 +49,35 @@ export const routes: RouteRecordRaw[] = [
     meta: { roles: ['admin'], title: 'Staff accounts', nav: { label: 'Staff accounts', icon: 'pi pi-users', order: 20 } },
   },
   {
+    path: '/admin/formulary',
+    name: 'admin-formulary',
+    component: () => import('@/views/AdminFormularyView.vue'),
+    meta: { roles: ['admin'], title: 'Iron formulary', nav: { label: 'Formulary', icon: 'pi pi-box', order: 22 } },
+  },
+  {
+    path: '/admin/settings',
+    name: 'admin-settings',
+    component: () => import('@/views/AdminClinicSettingsView.vue'),
+    meta: { roles: ['admin'], title: 'Clinic thresholds', nav: { label: 'Thresholds', icon: 'pi pi-sliders-h', order: 24 } },
+  },
+  {
+    path: '/admin/operations',
+    name: 'admin-operations',
+    component: () => import('@/views/AdminCatalogueView.vue'),
+    meta: { roles: ['admin'], title: 'Operations catalogue', nav: { label: 'Operations', icon: 'pi pi-th-large', order: 26 } },
+  },
+  {
+    path: '/readiness',
+    name: 'readiness',
+    component: () => import('@/views/ReadinessView.vue'),
+    meta: {
+      roles: ['surgeon', 'doctor', 'admin', 'nurse'],
+      title: 'Readiness board',
+      wide: true,
+      // Not in the main bar: it would overflow for admins; the role homes link to it.
+    },
+  },
+  {
     path: '/worklist',
     name: 'worklist',
     component: () => import('@/views/WorklistView.vue'),

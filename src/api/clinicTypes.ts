@@ -1,0 +1,112 @@
+import type { IronDosePlan } from '@shared/clinical/ironPlan'
+import type { IronProduct } from '@shared/clinical/ironProduct'
+import type { CautionAnswers } from '@shared/clinic/cautions'
+import type { Diagnosis } from '@shared/clinic/diagnoses'
+import type { Projection } from '@shared/clinic/projection'
+import type { BloodOrderKind, Verdict } from '@shared/clinic/readiness'
+
+/**
+ * Shapes the clinic and readiness API answers with (server/services/clinicReview.ts,
+ * prescriptions.ts, administrations.ts, readiness.ts, formulary.ts). Typed here for the client.
+ */
+export type { Projection }
+
+export interface ClinicReview {
+  id: number
+  diagnosis: Diagnosis
+  diagnosisLabel: string
+  notes: string | null
+  plan: string
+  reviewedAt: string
+  reviewer: { id: number; name: string } | null
+}
+
+export interface DosePlanPreview {
+  product: IronProduct
+  productSource: string
+  inputs: { weightKg: number; weightMeasuredAt: string | null; hbGL: number; hbTakenAt: string | null; targetHbGL: number; firstDoseDate: string }
+  plan: IronDosePlan
+  methods: { deficit: string; caps: string }
+  cautions: string[]
+  cautionQuestions: { key: keyof CautionAnswers; question: string }[]
+}
+
+export interface PrescriptionView {
+  id: number
+  productCode: string
+  route: 'iv' | 'oral'
+  weightKg: number
+  hbGL: number
+  targetHbGL: number
+  deficitMg: number
+  totalMg: number
+  firstDoseDate: string
+  doses: { number: number; doseMg: number; dayOffset: number; date?: string; cappedBy: string[] }[]
+  warnings: string[]
+  oralSchedule: string | null
+  cautions: CautionAnswers
+  overrideReason: string | null
+  status: 'active' | 'completed' | 'cancelled'
+  prescribedAt: string
+  prescriber: { id: number; name: string } | null
+}
+
+export type Reaction = 'none' | 'mild' | 'moderate' | 'severe'
+
+export interface AdministrationView {
+  id: number
+  prescriptionId: number
+  doseMg: number
+  givenAt: string
+  batchNumber: string
+  reaction: Reaction
+  reactionNotes: string | null
+  giver: { id: number; name: string } | null
+}
+
+export interface RecordedAdministration {
+  administration: AdministrationView
+  recheckDueDate: string
+  stage: string
+  version: number
+}
+
+export interface ReadinessReview {
+  id: number
+  action: 'acknowledged' | 'date-change-requested'
+  reason: string | null
+  at: string
+  surgeonId: number
+  /** The projection exactly as the surgeon saw it when answering. */
+  projection: Projection
+}
+
+export interface ReadinessRow {
+  id: number
+  version: number
+  stage: string
+  stageLabel: string
+  priority: string
+  patient: { id: number; mrn: string; name: string }
+  procedure: { code: string; name: string }
+  surgeon: { id: number; name: string }
+  plannedSurgeryDate: string
+  daysToSurgery: number
+  verdict: Verdict | null
+  verdictLabel: string
+  predictedSurgeryHbGL: number | null
+  allowableBloodLossMl: number | null
+  expectedBloodLossMl: number | null
+  bloodOrder: { kind: BloodOrderKind; units: number } | null
+  openActions: string[]
+  lastReview: { action: ReadinessReview['action']; reason: string | null; at: string } | null
+  /** Why no projection could be made (e.g. no weight), when verdict is null. */
+  missing: string | null
+}
+
+export interface FormularyEntry extends IronProduct {
+  id: number
+  source: string
+  active: boolean
+  caution: string
+}

@@ -1,0 +1,15 @@
+import type { CreateIronProductInput, UpdateIronProductInput } from '@shared/schemas/formulary'
+import { api } from './client'
+import type { FormularyEntry } from './clinicTypes'
+
+export async function listFormulary(includeInactive = false): Promise<FormularyEntry[]> {
+  return (await api.get<{ rows: FormularyEntry[] }>(`/formulary${includeInactive ? '?includeInactive=1' : ''}`)).rows
+}
+
+export function createIronProduct(input: CreateIronProductInput): Promise<FormularyEntry> {
+  return api.post<FormularyEntry>('/formulary', input)
+}
+
+export function updateIronProduct(code: string, changes: UpdateIronProductInput): Promise<FormularyEntry> {
+  return api.patch<FormularyEntry>(`/formulary/${encodeURIComponent(code)}`, changes)
+}
