@@ -62,7 +62,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     total_mg: { type: DataTypes.DOUBLE, allowNull: false },
     first_dose_date: { type: DataTypes.DATEONLY, allowNull: false },
     plan: { type: DataTypes.JSON, allowNull: false },
-    cautions: { type: DataTypes.JSON, allowNull: false },
+    cautions: { type: DataTypes.JSON, allowNull: true },
     override_reason: { type: DataTypes.TEXT, allowNull: true },
     status: { type: DataTypes.STRING(12), allowNull: false },
     prescribed_by: userRef,

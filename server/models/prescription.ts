@@ -15,7 +15,8 @@ export class Prescription extends Model<InferAttributes<Prescription>, InferCrea
   declare totalMg: number
   declare firstDoseDate: string
   declare plan: { doses: IronDose[]; warnings: string[]; oralSchedule?: string | null }
-  declare cautions: CautionAnswers
+  /** Null for oral iron, which has no checklist. */
+  declare cautions: CautionAnswers | null
   declare overrideReason: string | null
   declare status: 'active' | 'completed' | 'cancelled'
   declare prescribedBy: number | null
@@ -36,7 +37,7 @@ export function initPrescription(sequelize: Sequelize): void {
       totalMg: { type: DataTypes.DOUBLE, allowNull: false },
       firstDoseDate: { type: DataTypes.DATEONLY, allowNull: false },
       plan: { type: DataTypes.JSON, allowNull: false },
-      cautions: { type: DataTypes.JSON, allowNull: false },
+      cautions: { type: DataTypes.JSON, allowNull: true },
       overrideReason: { type: DataTypes.TEXT, allowNull: true },
       status: { type: DataTypes.STRING(12), allowNull: false },
       prescribedBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },

@@ -11,7 +11,7 @@ import { getClinicSettings } from './clinicSettings'
 import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
 import { findProduct, toIronProduct, FORMULARY_CAUTION } from './formulary'
 import { clinical, isoOrNull, staleVersion, type Viewer } from './viewer'
-import { RuleRefused } from '../errors'
+import { Invalid, RuleRefused } from '../errors'
 
 /** The figures a dose is computed from; a missing one is a 422 that names it, never a default. */
 async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
@@ -68,6 +68,9 @@ export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId
     if (violations.length) {
       throw new RuleRefused(violations.map((v) => v.message).join('; '), 'dose_over_cap', Object.fromEntries(violations.map((v) => [v.cap, v.message])))
     }
+    if (!input.cautions) {
+      throw new Invalid('Answer every caution question before prescribing IV iron', { cautions: 'Answer every caution question' })
+    }
     const positives = positiveCautions(input.cautions as CautionAnswers)
     if (positives.length && !input.overrideReason) {
       const asked = IV_IRON_CAUTIONS.filter((c) => positives.includes(c.key)).map((c) => c.question.replace(/\?$/, ''))
@@ -83,7 +86,7 @@ export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId
       referralId, productCode: product.code, route: product.route, weightKg: computed.inputs.weightKg, hbGL: computed.inputs.hbGL,
       targetHbGL: computed.inputs.targetHbGL, deficitMg: plan.deficitMg, totalMg: doses.reduce((s, d) => s + d.doseMg, 0) || plan.totalMg,
       firstDoseDate: computed.inputs.firstDoseDate, plan: { doses, warnings: plan.warnings, oralSchedule: plan.oralSchedule?.description ?? null },
-      cautions: input.cautions as CautionAnswers, overrideReason: input.overrideReason ?? null, status: 'active',
+      cautions: (input.cautions ?? null) as CautionAnswers | null, overrideReason: input.overrideReason ?? null, status: 'active',
       prescribedBy: viewer.userId, prescribedAt: new Date(),
     }, { transaction: t })
     const [count] = await Referral.update(

@@ -79,6 +79,9 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     recheckDueDate: r.recheckDueDate,
     treatmentOrderedAt: isoOrNull(r.treatmentOrderedAt),
     treatmentGivenAt: isoOrNull(r.treatmentGivenAt),
+    // Set at clinic review; the review form must show the stored answer, not guess it.
+    cardiovascularDisease: Boolean(r.cardiovascularDisease),
+    dateChangeRequestedAt: isoOrNull(r.dateChangeRequestedAt),
     allowedMoves: allowedMoves(r.stage, viewer.role),
     timeline: timelineOf(transitions as TransitionRow[], results),
     createdBy: r.createdBy,

@@ -33,7 +33,8 @@ export const prescriptionSchema = dosePlanPreviewSchema.shape({
       dayOffset: yup.number().typeError('Each dose needs a day').integer().min(0).max(365).required(),
     }))
     .default(undefined),
-  cautions: yup.object(cautionShape).required('Answer every caution question'),
+  // Required for IV products (the server checks the product's route); oral iron has no checklist.
+  cautions: yup.object(cautionShape).default(undefined),
   overrideReason: yup.string().trim().max(2000).nullable().default(null),
   version,
 })

@@ -123,6 +123,9 @@ export interface ReferralDetail {
   latestResults: Record<string, ResultView>
   flags: WorklistFlag[]
   recheckDueDate: string | null
+  /** Recorded at clinic review; selects the 80 g/L trigger. */
+  cardiovascularDisease: boolean
+  dateChangeRequestedAt: string | null
   allowedMoves: AllowedMove[]
   timeline: TimelineItem[]
 }

@@ -95,6 +95,18 @@ describe('saving a prescription', () => {
     expect(Object.keys(res.body.error.fields).join(' ')).toMatch(/cautions\.activeInfection/)
   })
 
+  it('when IV iron is prescribed without the checklist, then 400 names it; oral iron needs none', async () => {
+    const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 70, hb: [{ hbGL: 115 }] })
+    const version = (await Referral.findByPk(referral.id))!.version
+    const iv = await doctor.post(`/api/referrals/${referral.id}/prescriptions`, { productCode: 'ferric-carboxymaltose', firstDoseDate: todayIso(), version })
+    expect(iv.status).toBe(400)
+    expect(iv.body.error.fields.cautions).toMatch(/caution/)
+    const oral = await doctor.post(`/api/referrals/${referral.id}/prescriptions`, { productCode: 'ferrous-sulfate-oral', firstDoseDate: todayIso(), version })
+    expect(oral.status, JSON.stringify(oral.body)).toBe(201)
+    expect(oral.body.prescription.cautions).toBeNull()
+    expect(oral.body.prescription.oralSchedule).toMatch(/alternate/i)
+  })
+
   it('when the version is stale, then 409 and nothing is stored', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id })
     const res = await doctor.post(`/api/referrals/${referral.id}/prescriptions`, { productCode: 'ferric-carboxymaltose', firstDoseDate: todayIso(), cautions: noCautions, version: referral.version + 5 })

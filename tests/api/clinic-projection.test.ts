@@ -87,6 +87,7 @@ describe('GET /api/referrals/:id/projection', () => {
     })
     const version = (await Referral.findByPk(referral.id))!.version
     await asDoctor.post(`/api/referrals/${referral.id}/reviews`, { diagnosis: 'absolute-iron-deficiency', plan: 'IV iron, re-check in 3 weeks', cardiovascularDisease: true, version }).expect(201)
+    expect((await asDoctor.get(`/api/referrals/${referral.id}`)).body.cardiovascularDisease).toBe(true)
     const p = (await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body
     expect(p.triggerHbGL).toBe(80) // AABB 2023 (Carson, JAMA)
     expect(p.methods.trigger).toMatch(/AABB 2023/)
