@@ -91,8 +91,11 @@ export function redCellNeedFromHct(input: {
 /**
  * Red-cell transfusion need (Mercuriali & Inghilleri 1996, as redCellNeedFromHct) from Hb in
  * g/L and an expected whole-blood loss in mL. Haematocrits come from HCT_FROM_HB_ASSUMPTION.
- * The expected red-cell loss is expectedLossMl × Hct_start: blood lost late in surgery is
- * more dilute, so this slightly overstates the red-cell loss, erring towards blood ready.
+ * The expected red-cell loss is the red-cell volume shed while losing that much blood with the
+ * volume kept up by clear fluid: EBV·Hct_start·(1 − e^(−loss/EBV)). That is the same
+ * normovolaemic model as the logarithmic allowable loss (Bourke & Smith 1974), so a loss within
+ * the allowable loss never asks for blood, and one beyond it always does: the two figures a
+ * surgeon reads side by side cannot contradict each other.
  */
 export function redCellTransfusionNeed(input: {
   ebvMl: number
@@ -104,11 +107,12 @@ export function redCellTransfusionNeed(input: {
   const hctStart = hctFromHbGL(requireInRange('hbStartGL', input.hbStartGL, CLINICAL_LIMITS.hbGL))
   const hctFloor = hctFromHbGL(requireInRange('hbFloorGL', input.hbFloorGL, CLINICAL_LIMITS.hbGL))
   const lossMl = requireInRange('expectedLossMl', input.expectedLossMl, CLINICAL_LIMITS.bloodLossMl)
+  const ebvMl = requireInRange('ebvMl', input.ebvMl, CLINICAL_LIMITS.ebvMl)
   return redCellNeedFromHct({
-    ebvMl: input.ebvMl,
+    ebvMl,
     hctStart,
     hctFloor,
-    expectedRedCellLossMl: lossMl * hctStart,
+    expectedRedCellLossMl: ebvMl * hctStart * (1 - Math.exp(-lossMl / ebvMl)),
     unitRedCellMl: input.unitRedCellMl,
   })
 }

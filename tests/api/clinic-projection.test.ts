@@ -57,7 +57,7 @@ describe('GET /api/referrals/:id/projection', () => {
     expect(p.assumptions.length).toBeGreaterThan(2)
   })
 
-  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the expected response gives 112.5 g/L on day 28 and 1 unit crossmatched', async () => {
+  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the expected response gives 112.5 g/L on day 28 and group and screen is enough', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'female', heightCm: 160, weightKg: 60, expectedBloodLossMl: 1510,
       hb: [{ hbGL: 100, takenAt: new Date(Date.now() - 20 * 86_400_000) }], referral: { plannedSurgeryDate: inDays(28) },
@@ -75,7 +75,7 @@ describe('GET /api/referrals/:id/projection', () => {
     expect(p.bloodVolumeMl).toBe(3627) // Nadler female (reference §3)
     expect(p.predictedSurgeryHbGL).toBe(112.5) // stated assumption: +2.5 g/L a week from day 7 → 5 weeks × 2.5
     expect(p.allowableBloodLossMl.logarithmic).toBe(1721) // 3627·ln(112.5/70)
-    expect(p.bloodOrder).toEqual({ kind: 'crossmatch', units: 1 }) // Mercuriali: deficit 47 mL of red cells → 1 unit
+    expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 }) // usual loss 1510 mL is within the 1721 mL allowable loss
     expect(p.readiness.verdict).toBe('optimise')
     expect(p.methods.surgeryDayHb).toMatch(/Expected response/)
   })

@@ -37,15 +37,15 @@ describe('surgery-day projection, worked patients', () => {
     // Cardiac output default 3.0 L/min/m² × Mosteller BSA √(175·70/3600) = 1.8447 m² → 5.534 L/min; DO2 = 5.534·17.182·10
     expect(p.inputs.cardiacOutputLMin).toBe(5.53)
     expect(p.oxygen.today.do2MlMin).toBe(951)
-    // Mercuriali: tolerated 4824·(0.39 − 0.21) = 868 mL red cells > expected 1474·0.39 = 575 mL → no units
+    // Mercuriali: tolerated 4824·(0.39 − 0.21) = 868 mL red cells > expected 4824·0.39·(1 − e^(−1474/4824)) = 495 mL → no units
     expect(p.transfusionNeed.toleratedRedCellMl).toBe(868)
-    expect(p.transfusionNeed.expectedRedCellLossMl).toBe(575)
+    expect(p.transfusionNeed.expectedRedCellLossMl).toBe(495)
     expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 })
     expect(p.readiness.verdict).toBe('ready')
     expect(p.methods.bloodVolume).toMatch(/Nadler/)
   })
 
-  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had IV iron 14 days ago, then the expected response lifts her but she is still to optimise, with 1 unit crossmatched', () => {
+  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had IV iron 14 days ago, then the expected response lifts her but she is still to optimise, with group and screen', () => {
     const p = buildProjection({
       ...base,
       plannedSurgeryDate: '2027-03-29', // 28 days away; first dose 14 days ago → 42 days of response
@@ -62,9 +62,9 @@ describe('surgery-day projection, worked patients', () => {
     expect(p.allowableBloodLossMl.logarithmic).toBe(1721) // 3627·ln(112.5/70) = 1720.9
     expect(p.allowableBloodLossMl.gross).toBe(1689) // 3627·42.5/91.25 = 1689.3
     expect(p.predictedPostOpHbGL).toBe(74.2) // 112.5·e^(−1510/3627) = 74.19
-    // Mercuriali: tolerated 3627·(0.3375 − 0.21) = 462 mL; expected 1510·0.3375 = 510 mL; deficit 47 → 1 unit
-    expect(p.transfusionNeed.deficitMl).toBe(47)
-    expect(p.bloodOrder).toEqual({ kind: 'crossmatch', units: 1 })
+    // Mercuriali: tolerated 3627·(0.3375 − 0.21) = 462 mL; expected 3627·0.3375·(1 − e^(−1510/3627)) = 417 mL; no deficit
+    expect(p.transfusionNeed.deficitMl).toBe(-46)
+    expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 })
     expect(p.readiness.verdict).toBe('optimise')
     expect(p.assumptions.join(' ')).toMatch(/2\.5 g\/L/)
   })

@@ -67,9 +67,9 @@ describe('red-cell transfusion need (Mercuriali & Inghilleri 1996, Curr Med Res 
     expect(HCT_FROM_HB_ASSUMPTION).toContain('Hb (g/L) × 0.003')
   })
 
-  it('when Hb 133 → 90 g/L, EBV 5000 and expected loss 1500 mL, then 598.5 mL red cells are lost, 645 tolerated, no units (computed from the Mercuriali working form with Hct = Hb × 0.003)', () => {
+  it('when Hb 133 → 90 g/L, EBV 5000 and expected loss 1500 mL, then 517.1 mL red cells are lost, 645 tolerated, no units (computed from the Mercuriali working form with Hct = Hb × 0.003 and isovolaemic red-cell loss 5000·0.399·(1 − e^−0.3))', () => {
     const need = redCellTransfusionNeed({ ebvMl: 5000, hbStartGL: 133, hbFloorGL: 90, expectedLossMl: 1500 })
-    expectWithin(need.expectedRedCellLossMl, 598.5, 1e-9)
+    expectWithin(need.expectedRedCellLossMl, 517.07, 0.01)
     expectWithin(need.toleratedRedCellMl, 645, 1e-9)
     expect(need.units).toBe(0)
   })
@@ -78,9 +78,15 @@ describe('red-cell transfusion need (Mercuriali & Inghilleri 1996, Curr Med Res 
     const need = redCellTransfusionNeed({ ebvMl: 5000, hbStartGL: 70, hbFloorGL: 80, expectedLossMl: 1000 })
     expect(need.toleratedRedCellMl).toBe(0)
     expect(need.startsBelowFloor).toBe(true)
-    // 1000 × 0.21 lost + 5000 × (0.24 − 0.21) shortfall = 210 + 150
-    expectWithin(need.deficitMl, 360, 1e-9)
+    // 5000·0.21·(1 − e^−0.2) = 190.3 lost + 5000 × (0.24 − 0.21) shortfall = 150
+    expectWithin(need.deficitMl, 340.33, 0.01)
     expect(need.units).toBe(2)
+  })
+
+  it('then blood is asked for exactly when the expected loss exceeds the logarithmic allowable loss (same normovolaemic model)', () => {
+    const abl = allowableBloodLoss({ ebvMl: 4200, hbStartGL: 118, hbFloorGL: 70, method: 'logarithmic' })
+    expect(redCellTransfusionNeed({ ebvMl: 4200, hbStartGL: 118, hbFloorGL: 70, expectedLossMl: abl - 5 }).units).toBe(0)
+    expect(redCellTransfusionNeed({ ebvMl: 4200, hbStartGL: 118, hbFloorGL: 70, expectedLossMl: abl + 5 }).units).toBe(1)
   })
 
   it('when the expected loss is negative or the unit volume absurd, then it is refused', () => {
