@@ -4,6 +4,7 @@ import * as m0002 from './0002-pathway'
 import * as m0003 from './0003-clinic'
 import * as m0004 from './0004-appointments'
 import * as m0005 from './0005-worklist-sort'
+import * as m0006 from './0006-outcomes'
 
 export interface Migration {
   name: string
@@ -18,4 +19,5 @@ export const migrations: Migration[] = [
   { name: '0003-clinic', ...m0003 },
   { name: '0004-appointments', ...m0004 },
   { name: '0005-worklist-sort', ...m0005 },
+  { name: '0006-outcomes', ...m0006 },
 ]

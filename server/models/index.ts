@@ -23,9 +23,11 @@ import { initOutboxMessage, OutboxMessage } from './outboxMessage'
 import { initAppointmentReplyToken, AppointmentReplyToken } from './appointmentReplyToken'
 import { initAppointmentReplyFailure, AppointmentReplyFailure } from './appointmentReplyFailure'
 import { initAppointmentTask, AppointmentTask } from './appointmentTask'
+import { initOutcome, Outcome } from './outcome'
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
+export { Outcome }
 export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, AppointmentReplyToken, AppointmentReplyFailure, AppointmentTask }
 
 /**
@@ -57,6 +59,7 @@ export function initModels(sequelize: Sequelize): void {
   initAppointmentReplyToken(sequelize)
   initAppointmentReplyFailure(sequelize)
   initAppointmentTask(sequelize)
+  initOutcome(sequelize)
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
   Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })
@@ -84,4 +87,6 @@ export function initModels(sequelize: Sequelize): void {
   OutboxMessage.belongsTo(Patient, { foreignKey: 'patientId', as: 'patient' })
   AppointmentTask.belongsTo(Appointment, { foreignKey: 'appointmentId', as: 'appointment' })
   AppointmentTask.belongsTo(Patient, { foreignKey: 'patientId', as: 'patient' })
+  Referral.hasOne(Outcome, { foreignKey: 'referralId', as: 'outcome' })
+  AuditEntry.belongsTo(User, { foreignKey: 'userId', as: 'user', constraints: false })
 }

@@ -63,3 +63,9 @@ export { projectHb, roundHbGL, EXPECTED_HB_RESPONSE } from './projection'
 export type { HbMeasurement, HbTreatment, ResponseAssumption, HbProjection } from './projection'
 
 export { hbAfterIsovolaemicLoss } from './haemodilution'
+
+export {
+  crossmatchToTransfusionRatio, transfusionProbabilityPercent, transfusionIndex, suggestBloodOrder,
+  ACCEPTABLE_CT_RATIO, CROSSMATCH_JUSTIFIED_TI, LOW_TRANSFUSION_PROBABILITY_PERCENT,
+} from './bloodOrdering'
+export type { BloodOrderingCounts, BloodOrderSuggestion } from './bloodOrdering'

@@ -71,4 +71,11 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/replies/:token', allow: 'public' },
   { method: 'POST', path: '/api/replies/:token/confirm', allow: 'public' },
   { method: 'POST', path: '/api/replies/:token/rebook', allow: 'public' },
+  // After surgery: nurses, doctors and the operating surgeon record outcomes; reports for admins,
+  // doctors and surgeons (their own figures); the audit trail is admin-only and read-only.
+  { method: 'GET', path: '/api/referrals/:id/outcome', allow: [...STAFF] },
+  { method: 'POST', path: '/api/referrals/:id/outcome', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'POST', path: '/api/referrals/:id/follow-up', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'GET', path: '/api/reports/:name', allow: ['admin', 'doctor', 'surgeon'] },
+  { method: 'GET', path: '/api/audit', allow: ['admin'] },
 ]

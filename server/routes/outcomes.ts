@@ -1,0 +1,31 @@
+import { ApiRouter } from './apiRouter'
+import { idParam, type AppContext } from './context'
+import { STAFF, viewerOf } from './pathwayContext'
+import { validate } from '../middleware/validate'
+import { followUpSchema, outcomeSchema, type FollowUpInput, type OutcomeInput } from '../../shared/schemas/outcomes'
+import { getOutcome, recordFollowUp, recordOutcome } from '../services/outcomes'
+
+/** After surgery: the post-operative record and the follow-up. Surgeons write for their own patients (checked in the service). */
+export function outcomeRoutes({ sequelize }: AppContext): ApiRouter {
+  const api = new ApiRouter('/api/referrals')
+  const writers = { access: ['nurse', 'doctor', 'surgeon'] } as const
+
+  api.get('/:id/outcome', { access: STAFF }, async (req, res) => {
+    res.json(await getOutcome(viewerOf(req), idParam(req)))
+  })
+  api.post('/:id/outcome', writers, validate(outcomeSchema), async (req, res) => {
+    const b = req.body as OutcomeInput
+    res.status(201).json(await recordOutcome(sequelize, viewerOf(req), idParam(req), {
+      surgeryDate: b.surgeryDate, bloodLossMl: b.bloodLossMl, unitsTransfusedIntraOp: b.unitsTransfusedIntraOp, unitsTransfusedPostOp: b.unitsTransfusedPostOp,
+      unitsCrossmatched: b.unitsCrossmatched, lowestHbGL: b.lowestHbGL, dischargeHbGL: b.dischargeHbGL, lengthOfStayDays: b.lengthOfStayDays,
+      complications: b.complications, version: b.version,
+    }))
+  })
+  api.post('/:id/follow-up', writers, validate(followUpSchema), async (req, res) => {
+    const b = req.body as FollowUpInput
+    res.status(201).json(await recordFollowUp(sequelize, viewerOf(req), idParam(req), {
+      recheckHbGL: b.recheckHbGL, recheckDate: b.recheckDate, ironAfterSurgery: b.ironAfterSurgery, notes: b.notes, version: b.version,
+    }))
+  })
+  return api
+}
