@@ -1,7 +1,7 @@
 /**
  * npm run bench: builds the client into .bench-data/ and prints one JSON line per figure.
  * Its own MariaDB (.bench-data/, port 3410) holds the bench database, loaded once and kept.
- * `npm run bench -- bundle` or `-- worklist` runs one part.
+ * `npm run bench -- bundle`, `-- worklist` or `-- reports` runs one part.
  */
 import { spawnSync } from 'node:child_process'
 import path from 'node:path'
@@ -10,6 +10,7 @@ import { prepareDatabase } from './lib/prepare'
 import { bundleReport } from './bench/bundle'
 import { loadBenchData } from './bench/benchData'
 import { benchWorklist } from './bench/worklist'
+import { benchReports } from './bench/reports'
 
 const benchDir = path.resolve(repoRoot, '.bench-data')
 const only = process.argv.slice(2)
@@ -26,7 +27,7 @@ async function main(): Promise<void> {
     buildClient(dist)
     console.log(JSON.stringify(bundleReport(dist)))
   }
-  if (!wants('worklist')) return
+  if (!wants('worklist') && !wants('reports')) return
   const stack = await startStack({
     label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
     dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
@@ -37,7 +38,8 @@ async function main(): Promise<void> {
     const t0 = Date.now()
     const data = await loadBenchData({ host: '127.0.0.1', port: stack.mariadb.port, user: env.DB_USER!, password: env.DB_PASSWORD!, database: env.DB_NAME! })
     if (data.loaded) console.error(`[bench] loaded the bench database in ${((Date.now() - t0) / 1000).toFixed(1)} s`)
-    console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail)))
+    if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail)))
+    if (wants('reports')) console.log(JSON.stringify(await benchReports(env)))
   } finally {
     await stack.stop()
   }

@@ -2,9 +2,6 @@
  * Worklist throughput: GET /api/worklist over HTTP against a real server process (autocannon,
  * 32 connections, 10 s), beside the same pages' SQL issued straight through the mariadb driver.
  */
-import { spawn, type ChildProcess } from 'node:child_process'
-import { readFileSync } from 'node:fs'
-import path from 'node:path'
 import autocannon from 'autocannon'
 import mariadb from 'mariadb'
 import { Sequelize } from 'sequelize'
@@ -14,7 +11,7 @@ import { initModels, User } from '../../server/models/index'
 import { worklist } from '../../server/services/worklist'
 import type { WorklistQuery } from '../../shared/schemas/referrals'
 import { BENCH_PASSWORD } from './benchData'
-import { repoRoot } from '../lib/stack'
+import { memoryMb, signIn, startBenchServer } from './server'
 
 const CONNECTIONS = 32
 const DURATION_S = 10
@@ -37,32 +34,6 @@ function percentile(sorted: number[], p: number): number {
 function summary(latencies: number[], seconds: number) {
   const s = [...latencies].sort((a, b) => a - b)
   return { p50Ms: +percentile(s, 50).toFixed(2), p95Ms: +percentile(s, 95).toFixed(2), rps: Math.round(latencies.length / seconds), requests: latencies.length }
-}
-
-async function waitForHealth(url: string) {
-  for (let i = 0; i < 120; i++) {
-    try { if ((await fetch(`${url}/api/health`)).ok) return } catch { /* starting */ }
-    await new Promise((r) => setTimeout(r, 250))
-  }
-  throw new Error('bench server did not start')
-}
-
-async function signIn(url: string, email: string): Promise<string> {
-  const csrfRes = await fetch(`${url}/api/auth/csrf`)
-  const cookie = (csrfRes.headers.get('set-cookie') ?? '').split(';')[0]!
-  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string }
-  const login = await fetch(`${url}/api/auth/login`, {
-    method: 'POST', headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
-    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
-  })
-  if (!login.ok) throw new Error(`bench sign-in failed: ${login.status}`)
-  return (login.headers.get('set-cookie') ?? '').split(';')[0]!
-}
-
-function rssMb(pid: number): { rssMb: number; peakMb: number } {
-  const status = readFileSync(`/proc/${pid}/status`, 'utf8')
-  const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? 0)
-  return { rssMb: Math.round(kb('VmRSS') / 1024), peakMb: Math.round(kb('VmHWM') / 1024) }
 }
 
 /** The exact SQL the service issues for each view, captured from Sequelize's log. */
@@ -100,26 +71,20 @@ async function directSql(env: NodeJS.ProcessEnv, statements: string[][]) {
 }
 
 export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string) {
-  const port = 8097
-  const url = `http://127.0.0.1:${port}`
-  const server: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
-  })
+  const server = await startBenchServer(env, 8097)
   try {
-    await waitForHealth(url)
-    const cookie = await signIn(url, nurseEmail)
+    const cookie = await signIn(server.url, nurseEmail, BENCH_PASSWORD)
     const latencies: number[] = []
     const instance = autocannon({
-      url, connections: CONNECTIONS, duration: DURATION_S,
+      url: server.url, connections: CONNECTIONS, duration: DURATION_S,
       requests: VIEWS.map((v) => ({ method: 'GET', path: `/api/worklist${v.query ? `?${v.query}` : ''}`, headers: { cookie } })),
     })
     instance.on('response', (_client: unknown, status: number, _bytes: number, ms: number) => { if (status === 200) latencies.push(ms) })
     const result = await instance
     const http = { ...summary(latencies, DURATION_S), non2xx: result.non2xx, errors: result.errors }
-    const memory = rssMb(server.pid!)
+    const memory = memoryMb(server.pid)
 
-    const cfg = loadConfig(env)
-    const seq = createSequelize(cfg)
+    const seq = createSequelize(loadConfig(env))
     initModels(seq)
     const nurse = await User.findOne({ where: { email: nurseEmail } })
     await seq.close()
@@ -131,7 +96,6 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string) 
       met: { p95Ratio: http.p95Ms / direct.p95Ms <= 2, rps: http.rps >= 300, memory: memory.peakMb < 300 },
     }
   } finally {
-    server.kill('SIGTERM')
-    await new Promise((r) => server.once('exit', r))
+    await server.stop()
   }
 }

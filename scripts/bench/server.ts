@@ -1,0 +1,45 @@
+/** A real Ferrolane server process on the bench database, and a signed-in cookie for it. */
+import { spawn, type ChildProcess } from 'node:child_process'
+import { readFileSync } from 'node:fs'
+import { repoRoot } from '../lib/stack'
+
+export interface BenchServer { url: string; pid: number; stop(): Promise<void> }
+
+export async function startBenchServer(env: NodeJS.ProcessEnv, port: number): Promise<BenchServer> {
+  const url = `http://127.0.0.1:${port}`
+  // node --import tsx (not the tsx CLI) so the pid measured is the server itself.
+  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
+  })
+  for (let i = 0; ; i++) {
+    try { if ((await fetch(`${url}/api/health`)).ok) break } catch { /* starting */ }
+    if (i > 120) throw new Error('bench server did not start')
+    await new Promise((r) => setTimeout(r, 250))
+  }
+  return {
+    url,
+    pid: child.pid!,
+    stop: async () => {
+      child.kill('SIGTERM')
+      await new Promise((r) => child.once('exit', r))
+    },
+  }
+}
+
+export async function signIn(url: string, email: string, password: string): Promise<string> {
+  const csrfRes = await fetch(`${url}/api/auth/csrf`)
+  const cookie = (csrfRes.headers.get('set-cookie') ?? '').split(';')[0]!
+  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string }
+  const login = await fetch(`${url}/api/auth/login`, {
+    method: 'POST', headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
+    body: JSON.stringify({ email, password }),
+  })
+  if (!login.ok) throw new Error(`bench sign-in failed: ${login.status}`)
+  return (login.headers.get('set-cookie') ?? '').split(';')[0]!
+}
+
+export function memoryMb(pid: number): { rssMb: number; peakMb: number } {
+  const status = readFileSync(`/proc/${pid}/status`, 'utf8')
+  const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? 0)
+  return { rssMb: Math.round(kb('VmRSS') / 1024), peakMb: Math.round(kb('VmHWM') / 1024) }
+}
