@@ -1,5 +1,5 @@
 import session from 'express-session'
-import { Op } from 'sequelize'
+import { Op, QueryTypes } from 'sequelize'
 import { SessionRow } from '../models/index'
 
 const TOUCH_EVERY_MS = 60_000
@@ -29,8 +29,12 @@ export class MariaDbSessionStore extends session.Store {
   }
 
   override get(sid: string, cb: Callback): void {
-    SessionRow.findOne({ where: { sid, expiresAt: { [Op.gt]: new Date() } }, raw: true })
-      .then((row) => cb(null, row ? (JSON.parse(row.data) as session.SessionData) : null))
+    // Runs on every request: a plain typed query, without building a model instance.
+    SessionRow.sequelize!.query<{ data: string }>('SELECT data FROM sessions WHERE sid = ? AND expires_at > ?', {
+      replacements: [sid, new Date()],
+      type: QueryTypes.SELECT,
+    })
+      .then((rows) => cb(null, rows[0] ? (JSON.parse(rows[0].data) as session.SessionData) : null))
       .catch((err) => cb(err))
   }
 

@@ -27,9 +27,24 @@ export async function listStaff(): Promise<StaffAccount[]> {
   return rows.map(toStaffAccount)
 }
 
+// Every request resolves its session's user; keeping the answer for a few seconds saves a query
+// per request. Changes made in this process forget the entry at once; another process sees a
+// role change within USER_CACHE_MS, and a deactivation at once (its sessions are deleted).
+const USER_CACHE_MS = 5000
+const userCache = new Map<number, { user: SessionUser | null; at: number }>()
+
+export function forgetUser(id: number): void {
+  userCache.delete(id)
+}
+
 export async function findActiveUser(id: number): Promise<SessionUser | null> {
-  const u = await User.findByPk(id)
-  return u && u.active ? toSessionUser(u) : null
+  const hit = userCache.get(id)
+  if (hit && Date.now() - hit.at < USER_CACHE_MS) return hit.user
+  const u = await User.findByPk(id, { raw: true })
+  const user = u && u.active ? toSessionUser(u) : null
+  if (userCache.size > 5000) userCache.clear()
+  userCache.set(id, { user, at: Date.now() })
+  return user
 }
 
 async function loadUser(id: number): Promise<UserRow> {
@@ -73,6 +88,7 @@ export async function updateStaff(sequelize: Sequelize, actor: Actor, id: number
     await u.save({ transaction: t })
     const after = toStaffAccount(u)
     if (input.active === false) await SessionRow.destroy({ where: { userId: id }, transaction: t })
+    t.afterCommit(() => forgetUser(id))
     const diff = changedFields(before, after)
     await recordAudit(t, actor, { action: 'update', entity: 'user', entityId: id, ...diff })
     return after
@@ -89,6 +105,7 @@ export async function resetStaffPassword(sequelize: Sequelize, actor: Actor, id:
     await u.save({ transaction: t })
     // A reset means the old password may be known to someone else: end its sessions too.
     await SessionRow.destroy({ where: { userId: id }, transaction: t })
+    t.afterCommit(() => forgetUser(id))
     await recordAudit(t, actor, { action: 'reset-password', entity: 'user', entityId: id, after: { mustChangePassword: true } })
     return { temporaryPassword: password }
   })
@@ -113,6 +130,7 @@ export async function changeOwnPassword(sequelize: Sequelize, actor: Actor & { u
     u.passwordHash = passwordHash
     u.mustChangePassword = false
     await u.save({ transaction: t })
+    t.afterCommit(() => forgetUser(u.id))
     await recordAudit(t, actor, { action: 'change-password', entity: 'user', entityId: u.id })
   })
 }

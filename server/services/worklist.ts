@@ -109,22 +109,26 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   // Several flags mean "any of them", like several stages.
   if (q.flag?.length) where.push(`(${q.flag.map((f) => FLAG_SQL[f as WorklistFlag]).join(' OR ')})`)
   const terms = (q.q ?? '').split(/\s+/).filter(Boolean).slice(0, 4)
-  // One prefix search per indexed column, unioned: an OR across three columns would read every patient.
-  terms.forEach((term, i) => {
-    where.push(`r.patient_id IN (SELECT id FROM patients WHERE mrn LIKE :q${i}
-      UNION SELECT id FROM patients WHERE family_name LIKE :q${i} UNION SELECT id FROM patients WHERE given_name LIKE :q${i})`)
-    params[`q${i}`] = likePrefix(term)
-  })
+  // A name or MRN search starts from the few matching patients: one prefix search per indexed
+  // column, unioned, joined as a derived table (an OR across three columns reads every patient,
+  // and an IN (...) subquery is re-run for every referral).
+  const searchJoins = terms
+    .map((term, i) => {
+      params[`q${i}`] = likePrefix(term)
+      return `JOIN (SELECT id FROM patients WHERE mrn LIKE :q${i} UNION SELECT id FROM patients WHERE family_name LIKE :q${i}
+        UNION SELECT id FROM patients WHERE given_name LIKE :q${i}) s${i} ON s${i}.id = r.patient_id`
+    })
+    .join(' ')
   const whereSql = where.length ? `WHERE ${where.join(' AND ')}` : ''
   const sort = (q.sort ?? 'plannedSurgeryDate') as WorklistSort
   // Read referrals first, in the sort's index order, and join only the page's rows. The
   // optimiser otherwise starts from the ten-row operations table and sorts every referral.
-  // Name sorts are left to the optimiser, which then walks the patients' name index.
-  const straight = sort.endsWith('amilyName') ? '' : 'STRAIGHT_JOIN'
+  // Name sorts and searches are left to the optimiser, which starts from the patients.
+  const straight = terms.length || sort.endsWith('amilyName') ? '' : 'STRAIGHT_JOIN'
   const page = q.page ?? 1
   const pageSize = q.pageSize ?? 25
-  // Foreign keys guarantee the joined rows exist, so the count reads referrals alone.
-  const countFrom = 'FROM referrals r'
+  // Foreign keys guarantee the joined rows exist, so the count reads referrals (and any search).
+  const countFrom = `FROM referrals r ${searchJoins}`
   const [rows, countRows] = await Promise.all([
     sequelize.query<WorklistSqlRow>(
       `SELECT ${straight} r.id, r.version, r.stage, r.priority, r.planned_surgery_date AS plannedSurgeryDate,
@@ -135,7 +139,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
          pa.id AS patientId, pa.mrn, pa.given_name AS givenName, pa.family_name AS familyName,
          pa.date_of_birth AS dateOfBirth, pa.sex,
          pr.code AS procedureCode, pr.name AS procedureName, u.id AS surgeonId, u.name AS surgeonName
-       FROM referrals r
+       FROM referrals r ${searchJoins}
          JOIN patients pa ON pa.id = r.patient_id
          JOIN procedures pr ON pr.id = r.procedure_id
          JOIN users u ON u.id = r.surgeon_id
