@@ -8,7 +8,8 @@ export interface BenchServer { url: string; pid: number; stop(): Promise<void> }
 export async function startBenchServer(env: NodeJS.ProcessEnv, port: number): Promise<BenchServer> {
   const url = `http://127.0.0.1:${port}`
   // node --import tsx (not the tsx CLI) so the pid measured is the server itself.
-  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server to look for where time goes.
+  const child: ChildProcess = spawn(process.execPath, [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), '--import', 'tsx', 'server/index.ts'], {
     cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
   })
   for (let i = 0; ; i++) {
