@@ -1,12 +1,13 @@
 import { Op, type Sequelize, type Transaction } from 'sequelize'
 import { Administration, IronProductRow, Prescription, ReadinessReview, Referral, Result, User } from '../../server/models/index'
-import { ganzoniIronDeficit } from '../../shared/clinical'
+import { ironDosePlan } from '../../shared/clinical'
 import { DEFAULT_CLINIC_SETTINGS } from '../../shared/clinic/settings'
 import { currentBody } from '../../server/services/patients'
 import { loadReferral } from '../../server/services/episode'
 import { projectionForReferral } from '../../server/services/projection'
-import { starterFormularyRows } from '../formulary'
+import { STARTER_FORMULARY, starterFormularyRows } from '../formulary'
 
+const FCM = STARTER_FORMULARY.find((p) => p.code === 'ferric-carboxymaltose')!
 const NO_CAUTIONS = { previousHypersensitivity: false, activeInfection: false, firstTrimester: false, severeLiverDisease: false }
 
 export async function loadFormulary(t: Transaction): Promise<void> {
@@ -15,7 +16,7 @@ export async function loadFormulary(t: Transaction): Promise<void> {
 
 /**
  * Every demo episode that reached treatment gets the prescription and dose behind it:
- * ferric carboxymaltose, one infusion capped at 1000 mg and 20 mg/kg (EU SmPC caps).
+ * ferric carboxymaltose, the first infusion of its computed plan.
  */
 export async function loadDemoTreatments(t: Transaction, doctorId: number, nurseId: number): Promise<void> {
   const treated = await Referral.findAll({ where: { treatmentOrderedAt: { [Op.ne]: null } }, transaction: t })
@@ -23,8 +24,11 @@ export async function loadDemoTreatments(t: Transaction, doctorId: number, nurse
     const body = await currentBody(r.patientId, t)
     const firstHb = await Result.findOne({ where: { referralId: r.id, analyte: 'hb' }, order: [['takenAt', 'ASC']], transaction: t })
     if (!body.weightKg || !firstHb) continue
-    const deficit = ganzoniIronDeficit({ weightKg: body.weightKg, hbGL: firstHb.valueCanonical, targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL })
-    const dose = Math.min(1000, Math.floor((20 * body.weightKg) / 100) * 100, Math.round(deficit / 100) * 100)
+    // The first dose of the plan the clinic would compute (Ganzoni, capped by the product's rules).
+    const plan = ironDosePlan({ product: FCM, weightKg: body.weightKg, hbGL: firstHb.valueCanonical, targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL })
+    const deficit = plan.deficitMg
+    const dose = plan.doses[0]?.doseMg ?? 0
+    if (!dose) continue
     const orderedAt = r.treatmentOrderedAt!
     const p = await Prescription.create({
       referralId: r.id, productCode: 'ferric-carboxymaltose', route: 'iv', weightKg: body.weightKg, hbGL: firstHb.valueCanonical,
