@@ -4,6 +4,7 @@
  * `npm run bench -- bundle`, `-- worklist` or `-- reports` runs one part.
  */
 import { spawnSync } from 'node:child_process'
+import { readFileSync } from 'node:fs'
 import path from 'node:path'
 import { repoRoot, startStack, intFromEnv } from './lib/stack'
 import { prepareDatabase } from './lib/prepare'
@@ -38,7 +39,8 @@ async function main(): Promise<void> {
     const t0 = Date.now()
     const data = await loadBenchData({ host: '127.0.0.1', port: stack.mariadb.port, user: env.DB_USER!, password: env.DB_PASSWORD!, database: env.DB_NAME! })
     if (data.loaded) console.error(`[bench] loaded the bench database in ${((Date.now() - t0) / 1000).toFixed(1)} s`)
-    if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail)))
+    const databasePid = Number(readFileSync(path.join(benchDir, 'mariadb.pid'), 'utf8').trim())
+    if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail, databasePid)))
     if (wants('reports')) console.log(JSON.stringify(await benchReports(env)))
   } finally {
     await stack.stop()

@@ -13,6 +13,7 @@ import { requestId } from './middleware/requestId'
 import { requireCsrf } from './middleware/csrf'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import type { ApiRouter, RouteSpec } from './routes/apiRouter'
+import { forgetCountsOnEveryWrite } from './services/worklistCounts'
 import type { AppContext } from './routes/context'
 import { healthRoutes } from './routes/health'
 import { authRoutes } from './routes/auth'
@@ -69,6 +70,7 @@ function contentSecurityPolicy(config: Config) {
 /** Builds the whole app without listening, so tests can drive it with Supertest. */
 export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   initModels(sequelize)
+  forgetCountsOnEveryWrite(sequelize)
   const ctx: AppContext = { config, sequelize }
   const app = express()
   app.disable('x-powered-by')

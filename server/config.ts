@@ -12,6 +12,7 @@ export interface Config {
   db: {
     /** DB_HOST */ host: string
     /** DB_PORT */ port: number
+    /** DB_SOCKET: a local server's Unix socket, used instead of host and port when set */ socket: string | null
     /** DB_NAME */ name: string
     /** DB_USER */ user: string
     /** DB_PASSWORD */ password: string
@@ -94,6 +95,7 @@ export function loadConfig(env: Env = process.env): Config {
     db: {
       host: env.DB_HOST || '127.0.0.1',
       port: int(env, 'DB_PORT', 3406, 1),
+      socket: env.DB_SOCKET || null,
       name: env.DB_NAME || 'ferrolane',
       user: env.DB_USER || 'ferrolane',
       password: env.DB_PASSWORD ?? 'ferrolane-local',

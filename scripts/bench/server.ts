@@ -44,3 +44,11 @@ export function memoryMb(pid: number): { rssMb: number; peakMb: number } {
   const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? 0)
   return { rssMb: Math.round(kb('VmRSS') / 1024), peakMb: Math.round(kb('VmHWM') / 1024) }
 }
+
+/** CPU time (user + system) a process has used so far, in ms; Linux clock ticks are 10 ms. */
+export function cpuMs(pid: number): number {
+  const stat = readFileSync(`/proc/${pid}/stat`, 'utf8')
+  // Fields after the command name, which is in parentheses and may hold spaces.
+  const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ')
+  return (Number(f[11]) + Number(f[12])) * 10
+}

@@ -11,7 +11,7 @@ import { initModels, User } from '../../server/models/index'
 import { worklist } from '../../server/services/worklist'
 import type { WorklistQuery } from '../../shared/schemas/referrals'
 import { BENCH_PASSWORD } from './benchData'
-import { memoryMb, signIn, startBenchServer } from './server'
+import { cpuMs, memoryMb, signIn, startBenchServer } from './server'
 
 const CONNECTIONS = 32
 const DURATION_S = 10
@@ -54,7 +54,9 @@ async function capturedSql(env: NodeJS.ProcessEnv, viewerId: number): Promise<st
 }
 
 async function directSql(env: NodeJS.ProcessEnv, statements: string[][]) {
-  const pool = mariadb.createPool({ host: env.DB_HOST, port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME, connectionLimit: CONNECTIONS })
+  // The same transport as the server's, so the baseline differs only by the app's own work.
+  const where = env.DB_SOCKET ? { socketPath: env.DB_SOCKET } : { host: env.DB_HOST, port: Number(env.DB_PORT) }
+  const pool = mariadb.createPool({ ...where, user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME, connectionLimit: CONNECTIONS })
   const latencies: number[] = []
   const end = Date.now() + DURATION_S * 1000
   let n = 0
@@ -70,7 +72,7 @@ async function directSql(env: NodeJS.ProcessEnv, statements: string[][]) {
   return summary(latencies, DURATION_S)
 }
 
-export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string) {
+export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, databasePid: number) {
   const server = await startBenchServer(env, 8097)
   try {
     const cookie = await signIn(server.url, nurseEmail, BENCH_PASSWORD)
@@ -80,8 +82,14 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string) 
       requests: VIEWS.map((v) => ({ method: 'GET', path: `/api/worklist${v.query ? `?${v.query}` : ''}`, headers: { cookie } })),
     })
     instance.on('response', (_client: unknown, status: number, _bytes: number, ms: number) => { if (status === 200) latencies.push(ms) })
+    // CPU per request does not depend on what else the machine is doing, unlike requests/s.
+    const cpuBefore = { server: cpuMs(server.pid), database: cpuMs(databasePid) }
     const result = await instance
-    const http = { ...summary(latencies, DURATION_S), non2xx: result.non2xx, errors: result.errors }
+    const cpuPerRequest = {
+      serverMs: +((cpuMs(server.pid) - cpuBefore.server) / latencies.length).toFixed(2),
+      databaseMs: +((cpuMs(databasePid) - cpuBefore.database) / latencies.length).toFixed(2),
+    }
+    const http = { ...summary(latencies, DURATION_S), non2xx: result.non2xx, errors: result.errors, cpuPerRequest }
     const memory = memoryMb(server.pid)
 
     const seq = createSequelize(loadConfig(env))

@@ -42,6 +42,8 @@ export async function startStack(opts: StackOptions): Promise<Stack> {
     DB_PASSWORD: opts.dbPassword,
     MARIADB_DATA_DIR: opts.dataDir,
     MARIADB_SOCKET: mariadb.socket,
+    // The app talks to its private server over the socket; the port stays open for tools.
+    DB_SOCKET: mariadb.socket,
   }
   if (maildev) {
     env.SMTP_HOST = '127.0.0.1'

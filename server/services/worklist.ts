@@ -17,6 +17,7 @@ import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals
 import type { AppointmentKind, AppointmentStatus } from '../../shared/appointments'
 import { Forbidden } from '../errors'
 import { isoOrNull, type Viewer } from './viewer'
+import { cachedCount } from './worklistCounts'
 
 const quoted = (xs: readonly string[]) => xs.map((x) => `'${x}'`).join(',')
 const PRE_OP = `(${quoted(PRE_OPERATIVE_STAGES)})`
@@ -129,7 +130,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   const pageSize = q.pageSize ?? 25
   // Foreign keys guarantee the joined rows exist, so the count reads referrals (and any search).
   const countFrom = `FROM referrals r ${searchJoins}`
-  const [rows, countRows] = await Promise.all([
+  const [rows, total] = await Promise.all([
     sequelize.query<WorklistSqlRow>(
       `SELECT ${straight} r.id, r.version, r.stage, r.priority, r.planned_surgery_date AS plannedSurgeryDate,
          r.latest_hb_gl AS latestHbGL, r.latest_hb_at AS latestHbAt, r.iron_status AS ironStatus, r.anaemic,
@@ -148,12 +149,15 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
        LIMIT :limit OFFSET :offset`,
       { type: QueryTypes.SELECT, replacements: { ...params, limit: pageSize, offset: (page - 1) * pageSize } },
     ),
-    sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total ${countFrom} ${whereSql}`, { type: QueryTypes.SELECT, replacements: params }),
+    cachedCount(`${countFrom} ${whereSql} ${JSON.stringify(params)}`, async () => {
+      const r = await sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total ${countFrom} ${whereSql}`, { type: QueryTypes.SELECT, replacements: params })
+      return Number(r[0]?.total ?? 0)
+    }),
   ])
   const next = await nextAppointments(sequelize, rows.map((r) => r.id))
   return {
     rows: rows.map((row) => ({ ...toWorklistRow(row, today), nextAppointment: next.get(row.id) ?? null })),
-    total: Number(countRows[0]?.total ?? 0),
+    total,
     page,
     pageSize,
   }
