@@ -35,6 +35,7 @@ import { readinessRoutes } from './routes/readiness'
 import { outcomeRoutes } from './routes/outcomes'
 import { reportRoutes } from './routes/reports'
 import { auditRoutes } from './routes/audit'
+import { clinicProfileRoutes } from './routes/clinicProfile'
 
 export const SESSION_COOKIE = 'ferrolane.sid'
 
@@ -102,7 +103,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
     staffRoutes(ctx), patientRoutes(ctx), procedureRoutes(ctx), referralRoutes(ctx), worklistRoutes(ctx),
     clinicRoutes(ctx), formularyRoutes(ctx), clinicSettingsRoutes(ctx), readinessRoutes(ctx),
     appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),
-    outcomeRoutes(ctx), reportRoutes(ctx), auditRoutes(ctx),
+    outcomeRoutes(ctx), reportRoutes(ctx), auditRoutes(ctx), clinicProfileRoutes(ctx),
   ]
   for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
   api.use(apiNotFound)

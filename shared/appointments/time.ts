@@ -62,6 +62,11 @@ export function zoneName(timeZone: string): string {
   return timeZone === 'Europe/London' ? 'UK time (Europe/London)' : `local time (${timeZone})`
 }
 
+/** 'UK time', or the zone's own name: the short form beside times on staff screens. */
+export function zoneShortName(timeZone: string): string {
+  return timeZone === 'Europe/London' ? 'UK time' : timeZone.replace(/_/g, ' ')
+}
+
 export function isTimeZone(value: string): boolean {
   try {
     new Intl.DateTimeFormat('en-GB', { timeZone: value })

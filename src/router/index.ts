@@ -5,6 +5,8 @@ import { setAuthFailureHandler } from '@/api/client'
 import { queryClient } from '@/api/queryClient'
 import { meQueryOptions } from '@/composables/useAuth'
 import { useSessionStore } from '@/stores/session'
+import { getClinicProfile } from '@/api/clinicProfile'
+import { setClinicZone } from '@/display/appointments'
 import { homeRouteFor } from './homes'
 import { routes } from './routes'
 import './meta'
@@ -30,6 +32,17 @@ function loadSessionOnce(session: ReturnType<typeof useSessionStore>): Promise<v
   return sessionLoaded
 }
 
+// The clinic's zone, once per page load and only when someone is signed in (the route is not
+// public). A failure keeps the default and is asked again on the next navigation.
+let profileLoaded: Promise<void> | null = null
+
+function loadClinicProfileOnce(): Promise<void> {
+  profileLoaded ??= getClinicProfile()
+    .then((p) => setClinicZone(p.timeZone, p.zoneLabel))
+    .catch(() => { profileLoaded = null })
+  return profileLoaded
+}
+
 /** Only same-site paths, so a crafted link cannot bounce a user to another origin. */
 export function safeRedirect(value: unknown): string | null {
   return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') ? value : null
@@ -46,6 +59,7 @@ export function installGuards(pinia: Pinia): void {
     if (!user) {
       return { name: 'sign-in', query: to.fullPath === '/' ? {} : { redirect: to.fullPath } }
     }
+    await loadClinicProfileOnce()
     if (user.mustChangePassword && to.name !== 'change-password') return { name: 'change-password' }
     if (to.name === 'home') return homeRouteFor(user.role)
     if (to.meta.roles && !to.meta.roles.includes(user.role)) return { name: 'forbidden', query: { from: to.fullPath } }

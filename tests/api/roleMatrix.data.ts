@@ -53,6 +53,7 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/formulary', allow: ['admin'] },
   { method: 'PATCH', path: '/api/formulary/:code', allow: ['admin'] },
   { method: 'GET', path: '/api/settings/clinic', allow: [...STAFF] },
+  { method: 'GET', path: '/api/clinic-profile', allow: 'signed-in' },
   { method: 'PATCH', path: '/api/settings/clinic', allow: ['admin'] },
   { method: 'GET', path: '/api/readiness', allow: [...STAFF] },
   // Appointments and patient e-mail: nurses and doctors book; every staff role reads (surgeons
