@@ -36,6 +36,9 @@ import { outcomeRoutes } from './routes/outcomes'
 import { reportRoutes } from './routes/reports'
 import { auditRoutes } from './routes/audit'
 import { clinicProfileRoutes } from './routes/clinicProfile'
+import { documentDownloadRoutes, documentRoutes } from './routes/documents'
+import { appointmentLetterRoutes, letterDownloadRoutes, letterRoutes } from './routes/letters'
+import { fhirExportRoutes } from './routes/fhirExport'
 
 export const SESSION_COOKIE = 'ferrolane.sid'
 
@@ -104,6 +107,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
     clinicRoutes(ctx), formularyRoutes(ctx), clinicSettingsRoutes(ctx), readinessRoutes(ctx),
     appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),
     outcomeRoutes(ctx), reportRoutes(ctx), auditRoutes(ctx), clinicProfileRoutes(ctx),
+    documentRoutes(ctx), documentDownloadRoutes(ctx), letterRoutes(ctx), appointmentLetterRoutes(ctx), letterDownloadRoutes(ctx), fhirExportRoutes(ctx),
   ]
   for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
   api.use(apiNotFound)

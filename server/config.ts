@@ -2,6 +2,7 @@
  * The one place that reads process.env. Each key names its environment variable; the whole
  * config is checked at boot so a typo fails loudly instead of running with a wrong default.
  */
+import path from 'node:path'
 import { DEMO_HOSPITAL } from '../seed/demo/hospital'
 import { isTimeZone } from '../shared/appointments/time'
 
@@ -55,6 +56,8 @@ export interface Config {
   }
   /** STATIC_DIR: the built client; empty disables serving it */ staticDir: string
   /** PUBLIC_URL: base of links in e-mails */ publicUrl: string
+  /** UPLOAD_DIR: where episode documents and letters are stored, outside the web root */ uploadDir: string
+  /** PATIENT_ID_SYSTEM: URI naming the hospital number (MRN) in FHIR exports */ patientIdSystem: string
 }
 
 type Env = Record<string, string | undefined>
@@ -80,6 +83,15 @@ function bool(env: Env, key: string, fallback: boolean): boolean {
 function timeZone(env: Env, key: string, fallback: string): string {
   const raw = env[key] || fallback
   if (!isTimeZone(raw)) throw new Error(`Configuration: ${key} must be an IANA time zone such as Europe/London (got "${raw}")`)
+  return raw
+}
+
+// An invented URI on the reserved .test domain: a real hospital sets its own (often an OID, urn:oid:…).
+const DEMO_PATIENT_ID_SYSTEM = 'https://kestrelvale.ferrolane.test/id/hospital-number'
+
+function uri(env: Env, key: string, fallback: string): string {
+  const raw = env[key] || fallback
+  if (!/^(https?:\/\/[^\s]+|urn:[a-z0-9][a-z0-9-]*:[^\s]+)$/i.test(raw)) throw new Error(`Configuration: ${key} must be an absolute URI (http(s):// or urn:) (got "${raw}")`)
   return raw
 }
 
@@ -137,5 +149,8 @@ export function loadConfig(env: Env = process.env): Config {
     },
     staticDir: env.STATIC_DIR ?? 'dist',
     publicUrl: (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, ''),
+    // Resolved once so a later chdir cannot move the store; the start and test scripts point it into their data dir.
+    uploadDir: path.resolve(env.UPLOAD_DIR || '.data/uploads'),
+    patientIdSystem: uri(env, 'PATIENT_ID_SYSTEM', DEMO_PATIENT_ID_SYSTEM),
   }
 }

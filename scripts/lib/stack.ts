@@ -44,6 +44,8 @@ export async function startStack(opts: StackOptions): Promise<Stack> {
     MARIADB_SOCKET: mariadb.socket,
     // The app talks to its private server over the socket; the port stays open for tools.
     DB_SOCKET: mariadb.socket,
+    // Episode documents and letters live beside the data they belong to, never under the web root.
+    UPLOAD_DIR: path.join(opts.dataDir, 'uploads'),
   }
   if (maildev) {
     env.SMTP_HOST = '127.0.0.1'

@@ -24,10 +24,13 @@ import { initAppointmentReplyToken, AppointmentReplyToken } from './appointmentR
 import { initAppointmentReplyFailure, AppointmentReplyFailure } from './appointmentReplyFailure'
 import { initAppointmentTask, AppointmentTask } from './appointmentTask'
 import { initOutcome, Outcome } from './outcome'
+import { initEpisodeDocument, EpisodeDocument } from './episodeDocument'
+import { initLetter, Letter } from './letter'
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
 export { Outcome }
+export { EpisodeDocument, Letter }
 export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, AppointmentReplyToken, AppointmentReplyFailure, AppointmentTask }
 
 /**
@@ -60,6 +63,8 @@ export function initModels(sequelize: Sequelize): void {
   initAppointmentReplyFailure(sequelize)
   initAppointmentTask(sequelize)
   initOutcome(sequelize)
+  initEpisodeDocument(sequelize)
+  initLetter(sequelize)
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
   Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })
@@ -89,4 +94,6 @@ export function initModels(sequelize: Sequelize): void {
   AppointmentTask.belongsTo(Patient, { foreignKey: 'patientId', as: 'patient' })
   Referral.hasOne(Outcome, { foreignKey: 'referralId', as: 'outcome' })
   AuditEntry.belongsTo(User, { foreignKey: 'userId', as: 'user', constraints: false })
+  EpisodeDocument.belongsTo(User, { foreignKey: 'uploadedBy', as: 'uploader' })
+  Letter.belongsTo(EpisodeDocument, { foreignKey: 'documentId', as: 'document' })
 }

@@ -79,4 +79,13 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/referrals/:id/follow-up', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'GET', path: '/api/reports/:name', allow: ['admin', 'doctor', 'surgeon'] },
   { method: 'GET', path: '/api/audit', allow: ['admin'] },
+  // Documents, letters and the FHIR export: every staff role reads and downloads (surgeons their own
+  // patients); nurses, doctors and the operating surgeon attach files; nurses and doctors write letters.
+  { method: 'POST', path: '/api/referrals/:id/documents', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'GET', path: '/api/referrals/:id/documents', allow: [...STAFF] },
+  { method: 'GET', path: '/api/documents/:id', allow: [...STAFF] },
+  { method: 'POST', path: '/api/referrals/:id/letters', allow: ['nurse', 'doctor'] },
+  { method: 'POST', path: '/api/appointments/:id/letter', allow: ['nurse', 'doctor'] },
+  { method: 'GET', path: '/api/letters/:id', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/fhir', allow: [...STAFF] },
 ]
