@@ -56,7 +56,9 @@ async function toApiError(response: Response): Promise<ApiError> {
 
 async function send<T>(method: Method, path: string, body?: unknown): Promise<T> {
   const headers: Record<string, string> = { Accept: 'application/json' }
-  if (body !== undefined) headers['Content-Type'] = 'application/json'
+  // A FormData body (file upload) sets its own multipart Content-Type with the boundary.
+  const isForm = typeof FormData !== 'undefined' && body instanceof FormData
+  if (body !== undefined && !isForm) headers['Content-Type'] = 'application/json'
   if (method !== 'GET') headers['X-CSRF-Token'] = await ensureCsrfToken()
 
   let response: Response
@@ -65,7 +67,7 @@ async function send<T>(method: Method, path: string, body?: unknown): Promise<T>
       method,
       headers,
       credentials: 'same-origin',
-      body: body === undefined ? undefined : JSON.stringify(body),
+      body: body === undefined ? undefined : isForm ? (body as FormData) : JSON.stringify(body),
     })
   } catch {
     throw new ApiError(0, 'network_error', 'Ferrolane cannot reach the server. Check the connection and try again.')
@@ -107,4 +109,6 @@ export const api = {
   patch: <T>(path: string, body: unknown) => request<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => request<T>('PUT', path, body),
   delete: <T>(path: string) => request<T>('DELETE', path),
+  /** multipart/form-data, for file uploads */
+  postForm: <T>(path: string, form: FormData) => request<T>('POST', path, form),
 }
