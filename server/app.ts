@@ -39,6 +39,7 @@ import { clinicProfileRoutes } from './routes/clinicProfile'
 import { documentDownloadRoutes, documentRoutes } from './routes/documents'
 import { appointmentLetterRoutes, letterDownloadRoutes, letterRoutes } from './routes/letters'
 import { fhirExportRoutes } from './routes/fhirExport'
+import { importRoutes } from './routes/imports'
 
 export const SESSION_COOKIE = 'ferrolane.sid'
 
@@ -108,6 +109,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
     appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),
     outcomeRoutes(ctx), reportRoutes(ctx), auditRoutes(ctx), clinicProfileRoutes(ctx),
     documentRoutes(ctx), documentDownloadRoutes(ctx), letterRoutes(ctx), appointmentLetterRoutes(ctx), letterDownloadRoutes(ctx), fhirExportRoutes(ctx),
+    importRoutes(ctx),
   ]
   for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
   api.use(apiNotFound)

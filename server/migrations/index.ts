@@ -5,6 +5,7 @@ import * as m0003 from './0003-clinic'
 import * as m0004 from './0004-appointments'
 import * as m0005 from './0005-worklist-sort'
 import * as m0006 from './0006-outcomes'
+import * as m0007 from './0007-imports'
 import * as m0008 from './0008-documents'
 
 export interface Migration {
@@ -21,5 +22,6 @@ export const migrations: Migration[] = [
   { name: '0004-appointments', ...m0004 },
   { name: '0005-worklist-sort', ...m0005 },
   { name: '0006-outcomes', ...m0006 },
+  { name: '0007-imports', ...m0007 },
   { name: '0008-documents', ...m0008 },
 ]

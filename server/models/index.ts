@@ -26,11 +26,14 @@ import { initAppointmentTask, AppointmentTask } from './appointmentTask'
 import { initOutcome, Outcome } from './outcome'
 import { initEpisodeDocument, EpisodeDocument } from './episodeDocument'
 import { initLetter, Letter } from './letter'
+import { initImportBatch, ImportBatch } from './importBatch'
+import { initImportMapping, ImportMapping } from './importMapping'
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
 export { Outcome }
 export { EpisodeDocument, Letter }
+export { ImportBatch, ImportMapping }
 export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, AppointmentReplyToken, AppointmentReplyFailure, AppointmentTask }
 
 /**
@@ -65,6 +68,8 @@ export function initModels(sequelize: Sequelize): void {
   initOutcome(sequelize)
   initEpisodeDocument(sequelize)
   initLetter(sequelize)
+  initImportBatch(sequelize)
+  initImportMapping(sequelize)
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
   Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })
@@ -96,4 +101,6 @@ export function initModels(sequelize: Sequelize): void {
   AuditEntry.belongsTo(User, { foreignKey: 'userId', as: 'user', constraints: false })
   EpisodeDocument.belongsTo(User, { foreignKey: 'uploadedBy', as: 'uploader' })
   Letter.belongsTo(EpisodeDocument, { foreignKey: 'documentId', as: 'document' })
+  ImportBatch.belongsTo(User, { foreignKey: 'createdBy', as: 'creator' })
+  ImportBatch.belongsTo(User, { foreignKey: 'reversedBy', as: 'reverser' })
 }

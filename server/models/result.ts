@@ -1,8 +1,8 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
 import type { StoredAnalyte } from '../../shared/pathway'
 
-/** How a result arrived. Lab imports (later) add their own sources. */
-export type ResultSource = 'manual' | 'derived'
+/** How a result arrived: typed in, derived by the server, or imported (CSV or FHIR batch). */
+export type ResultSource = 'manual' | 'derived' | 'lab-csv' | 'fhir'
 
 /** A laboratory value: stored canonical, with what was reported kept beside it. */
 export class Result extends Model<InferAttributes<Result>, InferCreationAttributes<Result>> {
@@ -19,6 +19,8 @@ export class Result extends Model<InferAttributes<Result>, InferCreationAttribut
   declare source: CreationOptional<string>
   /** For derived values (TSAT, eGFR): the ids of the results they were computed from. */
   declare derivedFrom: number[] | null
+  /** The import batch that brought it (derived values from an import carry it too). */
+  declare importBatchId: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -37,6 +39,7 @@ export function initResult(sequelize: Sequelize): void {
       enteredBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       source: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'manual' },
       derivedFrom: { type: DataTypes.JSON, allowNull: true },
+      importBatchId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
     },
     { sequelize, tableName: 'results', updatedAt: false },

@@ -6,7 +6,8 @@ import { Patient, Referral, Result, User } from '../models/index'
 import { recordAudit } from './audit'
 import { refreshScreening, screeningView } from './screening'
 import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer'
-import { Invalid, NotFound, RuleRefused } from '../errors'
+import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
+import type { Sex } from '../../shared/clinical'
 
 export interface ResultView {
   id: number
@@ -40,50 +41,53 @@ export function toResultView(r: Result & { enteredByUser?: User | null }): Resul
 
 const round1 = (n: number) => Math.round(n * 10) / 10
 
-/** The latest result of an analyte taken at exactly this time (one sample = one draw time). */
-function sameDraw(referralId: number, analyte: string, takenAt: Date, t: Transaction) {
-  return Result.findOne({ where: { referralId, analyte, takenAt }, order: [['id', 'DESC']], transaction: t })
-}
+export interface SampleRow { id: number; analyte: string; valueCanonical: number }
 
 /**
- * TSAT from serum iron and transferrin (or TIBC) of the same sample, unless the lab reported
- * a TSAT for that sample itself. Iron above the binding capacity is a unit or typing error.
+ * TSAT from serum iron and transferrin (or TIBC) of one sample, unless the lab reported a TSAT
+ * for that sample itself; the newest entry of each analyte counts. Iron above the binding
+ * capacity is a unit or typing error (ClinicalInputError). Shared by typed-in and imported results.
  */
-async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number }, t: Transaction): Promise<Result | null> {
-  const { referralId, takenAt } = base
-  if (await sameDraw(referralId, 'tsat', takenAt, t)) return null
-  const iron = await sameDraw(referralId, 'iron', takenAt, t)
-  const tibc = (await sameDraw(referralId, 'tibc', takenAt, t)) ?? (await sameDraw(referralId, 'transferrin', takenAt, t))
+export function tsatFromSample(rows: readonly SampleRow[]): { value: number; derivedFrom: [number, number] } | null {
+  const latest = (analyte: string) => rows.filter((r) => r.analyte === analyte).sort((a, b) => b.id - a.id)[0]
+  if (latest('tsat')) return null
+  const iron = latest('iron')
+  const tibc = latest('tibc') ?? latest('transferrin')
   if (!iron || !tibc) return null
-  const tsat = clinical('value', () => {
-    const tibcUmolL = tibc.analyte === 'tibc' ? tibc.valueCanonical : tibcFromTransferrin(tibc.valueCanonical)
-    return tsatFromIron({ ironUmolL: iron.valueCanonical, tibcUmolL })
+  const tibcUmolL = tibc.analyte === 'tibc' ? tibc.valueCanonical : tibcFromTransferrin(tibc.valueCanonical)
+  return { value: round1(tsatFromIron({ ironUmolL: iron.valueCanonical, tibcUmolL })), derivedFrom: [iron.id, tibc.id] }
+}
+
+/** eGFR by CKD-EPI 2021 from a creatinine; null for under-18s, whom the equation excludes. */
+export function egfrFromCreatinine(creatinineUmolL: number, takenAt: Date, patient: { dateOfBirth: string; sex: Sex }): number | null {
+  const age = ageOn(patient.dateOfBirth, takenAt.toISOString().slice(0, 10))
+  if (age < 18) return null
+  return round1(egfrCkdEpi2021({ creatinineUmolL, ageYears: age, sex: patient.sex }))
+}
+
+const SAMPLE_ANALYTES = ['iron', 'tibc', 'transferrin', 'tsat']
+
+async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number }, t: Transaction): Promise<Result | null> {
+  const rows = await Result.findAll({
+    where: { referralId: base.referralId, takenAt: base.takenAt, analyte: { [Op.in]: SAMPLE_ANALYTES } },
+    attributes: ['id', 'analyte', 'valueCanonical'], raw: true, transaction: t,
   })
+  const tsat = clinical('value', () => tsatFromSample(rows))
+  if (!tsat) return null
   return Result.create(
-    { ...base, analyte: 'tsat', valueCanonical: round1(tsat), unitCanonical: DERIVED_UNITS.tsat, valueReported: null, unitReported: null, source: 'derived', derivedFrom: [iron.id, tibc.id] },
+    { ...base, analyte: 'tsat', valueCanonical: tsat.value, unitCanonical: DERIVED_UNITS.tsat, valueReported: null, unitReported: null, source: 'derived', derivedFrom: tsat.derivedFrom },
     { transaction: t },
   )
 }
 
-/** eGFR by CKD-EPI 2021 from each creatinine; not for under-18s, whom the equation excludes. */
 async function deriveEgfr(creatinine: Result, patient: Patient, t: Transaction): Promise<Result | null> {
-  const age = ageOn(patient.dateOfBirth, creatinine.takenAt.toISOString().slice(0, 10))
-  if (age < 18) return null
-  const egfr = clinical('value', () => egfrCkdEpi2021({ creatinineUmolL: creatinine.valueCanonical, ageYears: age, sex: patient.sex }))
+  const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, creatinine.takenAt, patient))
+  if (egfr === null) return null
+  const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }
+  // Two creatinines of one sample can round to the same eGFR; one derived row says it.
+  if (await Result.findOne({ where: same, transaction: t })) return null
   return Result.create(
-    {
-      referralId: creatinine.referralId,
-      patientId: creatinine.patientId,
-      analyte: 'egfr',
-      valueCanonical: round1(egfr),
-      unitCanonical: DERIVED_UNITS.egfr,
-      valueReported: null,
-      unitReported: null,
-      takenAt: creatinine.takenAt,
-      enteredBy: creatinine.enteredBy,
-      source: 'derived',
-      derivedFrom: [creatinine.id],
-    },
+    { ...same, patientId: creatinine.patientId, unitCanonical: DERIVED_UNITS.egfr, valueReported: null, unitReported: null, enteredBy: creatinine.enteredBy, source: 'derived', derivedFrom: [creatinine.id] },
     { transaction: t },
   )
 }
@@ -107,6 +111,12 @@ export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId
     // Whole seconds, as stored: results of one sample are matched by their exact draw time.
     const takenAt = new Date(Math.floor(input.takenAt.getTime() / 1000) * 1000)
     const base = { referralId, patientId: patient.id, takenAt, enteredBy: viewer.userId }
+    // The natural key (referral, analyte, time taken, value) is unique: the same value of the
+    // same sample typed twice is refused, so the clinician knows it is already on the record.
+    const existing = await Result.findOne({ where: { referralId, analyte, takenAt, valueCanonical: value }, transaction: t })
+    if (existing) {
+      throw new Conflict('This result is already recorded for this episode (same test, time taken and value)', 'duplicate_result', { value: 'is already recorded for this sample' }, { resultId: existing.id })
+    }
     const result = await Result.create(
       { ...base, analyte, valueCanonical: value, unitCanonical: ANALYTE_DEFS[analyte].canonicalUnit, valueReported: input.value, unitReported: input.unit, source: 'manual', derivedFrom: null },
       { transaction: t },

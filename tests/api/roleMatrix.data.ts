@@ -88,4 +88,14 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/appointments/:id/letter', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/letters/:id', allow: [...STAFF] },
   { method: 'GET', path: '/api/referrals/:id/fhir', allow: [...STAFF] },
+  // Laboratory imports: nurses, doctors and admins import and review batches; nurses and admins keep
+  // the column mappings; only an admin reverses a batch. Surgeons read results on their episodes.
+  { method: 'POST', path: '/api/imports/lab-results', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'POST', path: '/api/imports/fhir', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'GET', path: '/api/imports/mappings', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'GET', path: '/api/imports/mappings/:source', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'PUT', path: '/api/imports/mappings/:source', allow: ['admin', 'nurse'] },
+  { method: 'GET', path: '/api/imports', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'GET', path: '/api/imports/:id', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'POST', path: '/api/imports/:id/reversal', allow: ['admin'] },
 ]

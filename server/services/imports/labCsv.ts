@@ -1,0 +1,76 @@
+import { createHash } from 'node:crypto'
+import { createReadStream } from 'node:fs'
+import { pipeline } from 'node:stream'
+import { parse, CsvError } from 'csv-parse'
+import type { Sequelize } from 'sequelize'
+import { checkCsvRecord, MAPPED_FIELDS, type Checked, type ColumnMapping } from '../../../shared/imports'
+import { RuleRefused } from '../../errors'
+import type { Viewer } from '../viewer'
+import { ImportRun, type ImportSummary } from './run'
+
+export interface LabCsvInput {
+  filePath: string
+  fileName: string
+  sourceName: string
+  mapping: ColumnMapping
+  commit: boolean
+}
+
+const CHUNK = 1000
+
+function csvRefusal(err: CsvError): RuleRefused {
+  const line = (err as CsvError & { lines?: number }).lines
+  return new RuleRefused(`The file could not be read as CSV${line ? ` at line ${line}` : ''}: ${err.message.replace(/^[^:]*:\s*/, '')}. Nothing was imported.`, 'csv_unreadable', { file: 'is not readable CSV' })
+}
+
+/**
+ * Reads a laboratory CSV as a stream, a chunk of rows at a time, so memory stays flat however
+ * long the file is. A preview stores nothing; a commit stores every accepted row in one
+ * transaction (or none, if anything fails), then derives, re-screens and audits.
+ */
+export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: LabCsvInput, timeZone: string): Promise<ImportSummary> {
+  const hash = createHash('sha256')
+  const file = createReadStream(input.filePath)
+  file.on('data', (c) => hash.update(c))
+  const parser = parse({
+    delimiter: input.mapping.delimiter, bom: true, columns: (h: string[]) => h.map((x) => x.trim()), skip_empty_lines: true,
+    relax_column_count: true, trim: true, max_record_size: 64 * 1024, info: true,
+  })
+  // pipeline, not pipe: a parse error destroys both streams and reaches the loop below.
+  pipeline(file, parser, () => undefined)
+  const run = new ImportRun(sequelize, viewer, { kind: 'lab-csv', commit: input.commit, sourceName: input.sourceName, fileName: input.fileName })
+  const now = Date.now()
+  let chunk: { row: number; checked: Checked }[] = []
+  let headerChecked = false
+  try {
+    await run.begin()
+    for await (const { record, info } of parser as AsyncIterable<{ record: Record<string, string>; info: { records: number; columns?: { name: string }[]; error?: unknown } }>) {
+      if (!headerChecked) {
+        const header = (info.columns ?? []).map((c) => c.name)
+        const missing = MAPPED_FIELDS.filter((f) => !header.includes(input.mapping.columns[f]))
+        if (missing.length) {
+          const names = missing.map((f) => `"${input.mapping.columns[f]}"`).join(', ')
+          throw new RuleRefused(`The file has no column ${names} (its header reads: ${header.join(', ') || 'nothing'}). Check the column mapping for ${input.sourceName}.`, 'missing_columns', { mapping: `columns ${names} are not in the file` })
+        }
+        headerChecked = true
+      }
+      const row = info.records + 1
+      const checked: Checked = info.error
+        ? { ok: false, code: 'bad-row', reason: `row has a different number of fields from the header (${Object.keys(record).length} of ${info.columns?.length ?? 0} read)` }
+        : checkCsvRecord(record, input.mapping, timeZone, now)
+      chunk.push({ row, checked })
+      if (chunk.length >= CHUNK) {
+        await run.addChunk(chunk)
+        chunk = []
+      }
+    }
+    if (!headerChecked) throw new RuleRefused('The file is empty or has only a header; there is nothing to import', 'empty_file', { file: 'has no rows' })
+    if (chunk.length) await run.addChunk(chunk)
+    return await run.finish(hash.digest('hex'))
+  } catch (err) {
+    await run.abandon()
+    file.destroy()
+    throw err instanceof CsvError ? csvRefusal(err) : err
+  }
+}
+

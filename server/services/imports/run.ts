@@ -1,0 +1,134 @@
+import { Op, type Sequelize, type Transaction } from 'sequelize'
+import { LIST_CAP, type Checked, type SkipCode, type SkippedRow } from '../../../shared/imports'
+import { ANALYTE_DEFS } from '../../../shared/pathway'
+import { ImportBatch, type ImportKind } from '../../models/importBatch'
+import { recordAudit } from '../audit'
+import { isoOrNull, type Viewer } from '../viewer'
+import { matchChunk, type ChunkOutcome } from './match'
+import { deriveForBatch, insertRows, rescreenAndAudit, resultRows } from './store'
+
+export interface AcceptedRowView {
+  row: number
+  mrn: string
+  patient: string
+  referralId: number
+  analyte: string
+  analyteLabel: string
+  value: number
+  unit: string
+  valueCanonical: number
+  unitCanonical: string
+  takenAt: string
+}
+
+export interface ImportSummary {
+  batchId?: number
+  kind: ImportKind
+  committed: boolean
+  rowsRead: number
+  accepted: number
+  /** The first LIST_CAP skipped rows, in file order; skippedTotal counts them all. */
+  skipped: SkippedRow[]
+  skippedTotal: number
+  skipCounts: Partial<Record<SkipCode, number>>
+  /** The first LIST_CAP accepted rows, for review before committing. */
+  acceptedRows: AcceptedRowView[]
+  listCap: number
+  referralsAffected: number
+  derived: number
+  derivationsRefused: number
+  /** An earlier, unreversed batch of exactly the same file (by SHA-256). */
+  sameFileAs: { batchId: number; createdAt: string } | null
+}
+
+/**
+ * One import, preview or commit, fed chunk by chunk. Both hold one transaction from the first
+ * chunk to the last and insert rows as they come, so duplicates against earlier chunks are
+ * found by the table's own natural key and memory holds one chunk, never the file. A preview is
+ * that same run rolled back before anything is derived (its figures are the commit's figures);
+ * a commit derives, re-screens, audits and commits, or rolls back together if anything fails.
+ */
+export class ImportRun {
+  private t: Transaction | null = null
+  private batchId: number | null = null
+  private readonly perReferral = new Map<number, { patientId: number; count: number }>()
+  private readonly s: Omit<ImportSummary, 'batchId' | 'sameFileAs'>
+
+  constructor(
+    private readonly sequelize: Sequelize,
+    private readonly viewer: Viewer,
+    private readonly opts: { kind: ImportKind; commit: boolean; sourceName: string; fileName: string },
+  ) {
+    this.s = { kind: opts.kind, committed: false, rowsRead: 0, accepted: 0, skipped: [], skippedTotal: 0, skipCounts: {}, acceptedRows: [], listCap: LIST_CAP, referralsAffected: 0, derived: 0, derivationsRefused: 0 }
+  }
+
+  async begin(): Promise<void> {
+    this.t = await this.sequelize.transaction()
+    const batch = await ImportBatch.create(
+      { kind: this.opts.kind, sourceName: this.opts.sourceName, fileName: this.opts.fileName.slice(0, 255), sha256: '0'.repeat(64), createdBy: this.viewer.userId, skipCounts: null, reversedAt: null, reversedBy: null, reversalReason: null, resultsRemoved: null },
+      { transaction: this.t },
+    )
+    this.batchId = batch.id
+  }
+
+  async addChunk(items: { row: number; checked: Checked }[]): Promise<ChunkOutcome> {
+    // Earlier chunks are already in the table (uncommitted); only this chunk needs remembering.
+    const out = await matchChunk(this.sequelize, items, { batchId: this.batchId, seen: new Set() }, this.t ?? undefined)
+    this.s.rowsRead += items.length
+    this.s.accepted += out.accepted.length
+    this.s.skippedTotal += out.skipped.length
+    for (const sk of out.skipped) {
+      this.s.skipCounts[sk.code] = (this.s.skipCounts[sk.code] ?? 0) + 1
+      if (this.s.skipped.length < LIST_CAP) this.s.skipped.push(sk)
+    }
+    for (const m of out.accepted) {
+      const p = this.perReferral.get(m.referralId) ?? { patientId: m.patientId, count: 0 }
+      p.count += 1
+      this.perReferral.set(m.referralId, p)
+      if (this.s.acceptedRows.length < LIST_CAP) {
+        const r = m.reading
+        this.s.acceptedRows.push({
+          row: m.row, mrn: r.mrn, patient: m.patientName, referralId: m.referralId, analyte: r.analyte, analyteLabel: ANALYTE_DEFS[r.analyte].label,
+          value: r.value, unit: r.unit, valueCanonical: r.valueCanonical, unitCanonical: ANALYTE_DEFS[r.analyte].canonicalUnit, takenAt: r.takenAt.toISOString(),
+        })
+      }
+    }
+    if (this.t && out.accepted.length) {
+      await insertRows(this.sequelize, resultRows(out.accepted, { batchId: this.batchId!, kind: this.opts.kind, userId: this.viewer.userId, now: new Date() }), this.t)
+    }
+    return out
+  }
+
+  async finish(sha256: string): Promise<ImportSummary> {
+    this.s.referralsAffected = this.perReferral.size
+    const earlier = await ImportBatch.findOne({ where: { sha256, reversedAt: null, ...(this.batchId ? { id: { [Op.ne]: this.batchId } } : {}) }, order: [['id', 'DESC']], transaction: this.t ?? undefined })
+    const sameFileAs = earlier ? { batchId: earlier.id, createdAt: isoOrNull(earlier.createdAt)! } : null
+    const t = this.t
+    if (!t) throw new Error('import run finished twice')
+    if (!this.opts.commit || this.s.accepted === 0) {
+      // A preview, or nothing to store: no rows and no empty batch are left behind.
+      await this.abandon()
+      return { ...this.s, sameFileAs }
+    }
+    const batchId = this.batchId!
+    const d = await deriveForBatch(this.sequelize, batchId, this.viewer.userId, t)
+    this.s.derived = d.derived
+    this.s.derivationsRefused = d.refused
+    await rescreenAndAudit(this.sequelize, this.viewer, this.perReferral, t, { action: 'import-results', batchId })
+    const counts = { rowsRead: this.s.rowsRead, accepted: this.s.accepted, skipped: this.s.skippedTotal, derived: d.derived, referralsAffected: this.perReferral.size, skipCounts: this.s.skipCounts }
+    await ImportBatch.update({ sha256, ...counts }, { where: { id: batchId }, transaction: t })
+    await recordAudit(t, this.viewer, {
+      action: 'import', entity: 'import_batch', entityId: batchId,
+      after: { kind: this.opts.kind, source: this.opts.sourceName, fileName: this.opts.fileName, sha256, ...counts },
+    })
+    await t.commit()
+    this.t = null
+    return { ...this.s, batchId, committed: true, sameFileAs }
+  }
+
+  async abandon(): Promise<void> {
+    const t = this.t
+    this.t = null
+    if (t) await t.rollback()
+  }
+}

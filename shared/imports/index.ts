@@ -1,0 +1,7 @@
+export * from './codes'
+export * from './ucum'
+export * from './reasons'
+export * from './mapping'
+export * from './dates'
+export * from './rows'
+export * from './fhir'

@@ -1,0 +1,69 @@
+import { ANALYTE_DEFS, implausibleValue, normaliseUnit, toCanonical, unitsFor, type Analyte } from '../pathway/analytes'
+import { CLOCK_SKEW_MS } from '../schemas/fields'
+import { analyteForCode } from './codes'
+import { expectedDateForm, parseTakenAt } from './dates'
+import type { ColumnMapping } from './mapping'
+import type { SkipCode } from './reasons'
+
+/** A reading that passed every check that needs no database: ready to match to a patient. */
+export interface Reading {
+  mrn: string
+  analyte: Analyte
+  unit: string
+  value: number
+  valueCanonical: number
+  /** Whole seconds, as results are stored and matched. */
+  takenAt: Date
+}
+
+export type Checked = { ok: true; reading: Reading } | { ok: false; code: SkipCode; reason: string }
+
+const fail = (code: SkipCode, reason: string): Checked => ({ ok: false, code, reason })
+
+// Earliest draw time accepted, as for typed-in results (shared/schemas/fields pastInstantField).
+const EARLIEST = Date.parse('1990-01-01T00:00:00Z')
+
+/**
+ * The same unit and plausibility rules a typed-in result meets (shared/pathway/analytes), so a
+ * g/dL Hb sent as g/L is skipped with the same hint instead of stored as a catastrophic anaemia.
+ */
+export function checkReading(input: { mrn: string; analyte: Analyte; unit: string; value: number; takenAt: Date }, now: number): Checked {
+  const { analyte, value } = input
+  const unit = normaliseUnit(input.unit)
+  if (!unitsFor(analyte).includes(unit)) {
+    return fail('unknown-unit', `unit for ${ANALYTE_DEFS[analyte].label} must be one of ${unitsFor(analyte).join(', ')} (got ${input.unit || 'nothing'})`)
+  }
+  const why = implausibleValue(analyte, unit, value)
+  if (why) return fail('implausible-value', why)
+  const t = input.takenAt.getTime()
+  if (t > now + CLOCK_SKEW_MS) return fail('bad-date', 'time taken is in the future')
+  if (t < EARLIEST) return fail('bad-date', 'time taken must be after 1990')
+  const takenAt = new Date(Math.floor(t / 1000) * 1000)
+  return { ok: true, reading: { mrn: input.mrn, analyte, unit, value, valueCanonical: toCanonical(analyte, unit, value), takenAt } }
+}
+
+const NUMBER = /^[-+]?\d+(?:[.,]\d+)?$/
+
+/** One CSV record (header → text) through the source's mapping. */
+export function checkCsvRecord(record: Record<string, string | undefined>, mapping: ColumnMapping, timeZone: string, now: number): Checked {
+  const cell = (f: keyof ColumnMapping['columns']) => (record[mapping.columns[f]] ?? '').trim()
+  const mrn = cell('mrn')
+  if (!mrn) return fail('unknown-mrn', `MRN is empty (column "${mapping.columns.mrn}")`)
+  const code = cell('code')
+  const analyte = analyteForCode(code, mapping.codes)
+  if (!analyte) return fail('unknown-analyte', `test code "${code}" is not one Ferrolane imports (column "${mapping.columns.code}")`)
+  const raw = cell('value')
+  if (!NUMBER.test(raw)) {
+    const censored = /^[<>]/.test(raw) ? ' (values reported as below or above a limit are not imported)' : ''
+    return fail('implausible-value', `value "${raw}" is not a number${censored}`)
+  }
+  const takenText = cell('takenAt')
+  const takenAt = parseTakenAt(takenText, mapping.dateOrder, timeZone)
+  if (!takenAt) return fail('bad-date', `time taken "${takenText}" is not ${expectedDateForm(mapping.dateOrder)}`)
+  return checkReading({ mrn, analyte, unit: cell('unit'), value: Number(raw.replace(',', '.')), takenAt }, now)
+}
+
+/** The natural key of a stored result (referral, analyte, time taken, canonical value). */
+export function naturalKey(referralId: number, analyte: string, takenAt: Date, valueCanonical: number): string {
+  return `${referralId}|${analyte}|${Math.floor(takenAt.getTime() / 1000)}|${valueCanonical}`
+}
