@@ -3,6 +3,7 @@ import { User } from '../server/models/index'
 import { hashPassword } from '../server/services/passwords'
 import { DEMO_ACCOUNTS, DEMO_COLLEAGUES, DEMO_PASSWORD } from './demo/staff'
 import { loadDemoEpisodes } from './demo/episodes'
+import { loadDemoOutcomes } from './demo/outcomes'
 import { loadDemoAppointments } from './demo/appointments'
 import { loadDemoDateRequest, loadDemoTreatments, loadFormulary } from './demo/clinic'
 
@@ -20,6 +21,8 @@ export async function loadDemoScenario(sequelize: Sequelize): Promise<boolean> {
     )
     // The operations catalogue and about forty invented patients across every stage.
     await loadDemoEpisodes(t)
+    // Post-operative records, with follow-ups on the closed episodes (closing needs them).
+    await loadDemoOutcomes(t)
     // Infusion sessions and a few booked visits (their e-mails recorded as sent, never mailed).
     await loadDemoAppointments(t)
     await loadFormulary(t)

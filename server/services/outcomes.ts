@@ -93,5 +93,7 @@ export async function getOutcome(viewer: Viewer, referralId: number) {
   const r = await loadReferral(viewer, referralId)
   const o = await Outcome.findOne({ where: { referralId } })
   if (!o) throw new NotFound('Post-operative record')
+  // Read access to clinical data is audited, as opening the episode or the patient is.
+  await recordAudit(null, viewer, { action: 'view', entity: 'outcome', entityId: o.id, patientId: r.patientId })
   return { outcome: toOutcomeView(o), warnings: outcomeWarnings(o, r.procedure.expectedBloodLossMl), version: r.version }
 }

@@ -1,5 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize'
-import { Referral, StageTransition } from '../models/index'
+import { Outcome, Referral, StageTransition } from '../models/index'
 import { STAGE_LABELS, allowedMoves, findMove, isReadOnly, type Stage } from '../../shared/pathway'
 import type { TransitionInput } from '../../shared/schemas/referrals'
 import { recordAudit } from './audit'
@@ -11,7 +11,7 @@ import { Forbidden, NotFound, RuleRefused } from '../errors'
  * Moves an episode to another stage, enforcing the pathway table in shared/pathway. The checks
  * run in this order so each answer is the most useful one: a stale version first (what you saw
  * is no longer true), then a read-only episode, a move the pathway does not have, a role that
- * may not make it, a missing reason, and a missing result.
+ * may not make it, a missing reason, a missing result, and a missing follow-up after surgery.
  */
 export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: number, input: TransitionInput) {
   const to = input.to as Stage
@@ -40,9 +40,25 @@ export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: num
     if (move.requires === 'hb-result' && r.latestHbAt == null) {
       throw new RuleRefused('Screening needs at least an Hb result; enter one first', 'hb_result_required')
     }
+    if (move.requires === 'follow-up') await assertFollowUpRecorded(t, r.id)
     await recordMove(t, viewer, r, to, reason)
   })
   return referralDetail(viewer, id)
+}
+
+/** An episode after surgery closes only once what happened and the check after discharge are both on record. */
+async function assertFollowUpRecorded(t: Transaction, referralId: number): Promise<void> {
+  const o = await Outcome.findOne({ where: { referralId }, attributes: ['id', 'followUpAt'], transaction: t })
+  if (!o) {
+    throw new RuleRefused('Before closing, record the post-operative outcome and then the follow-up after discharge', 'follow_up_required', {
+      outcome: 'is not recorded yet', followUp: 'is not recorded yet',
+    })
+  }
+  if (o.followUpAt == null) {
+    throw new RuleRefused('Before closing, record the follow-up after discharge (Hb re-check and whether iron is needed)', 'follow_up_required', {
+      followUp: 'is not recorded yet',
+    })
+  }
 }
 
 /**

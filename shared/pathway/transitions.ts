@@ -1,8 +1,11 @@
 import type { Role } from '../roles'
 import { PRE_OPERATIVE_STAGES, READ_ONLY_STAGES, STAGE_LABELS, type Stage } from './stages'
 
-/** Something that must already be true of the referral for the move to be made. */
-export type MoveRequirement = 'hb-result'
+/**
+ * Something that must already be true of the referral for the move to be made: an Hb result
+ * before screening; the post-operative record and its follow-up before closing after surgery.
+ */
+export type MoveRequirement = 'hb-result' | 'follow-up'
 
 export interface Move {
   from: Stage
@@ -46,7 +49,7 @@ export const TRANSITIONS: readonly Move[] = [
   // New results after clearance can send a patient back for review.
   { from: 'cleared', to: 'clinic', roles: nurseOrDoctor },
   { from: 'cleared', to: 'operated', roles: ['nurse', 'doctor', 'surgeon'] },
-  { from: 'operated', to: 'closed', roles: nurseOrDoctor },
+  { from: 'operated', to: 'closed', roles: nurseOrDoctor, requires: 'follow-up' },
   ...PRE_OPERATIVE_STAGES.flatMap(sideExits),
   // A postponed patient comes back in: re-screened, or straight to clinic by a doctor.
   { from: 'deferred', to: 'referred', roles: nurseOrDoctor },

@@ -3,8 +3,8 @@ import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { hoursAgo, makePatient, makeProcedure, makeReferral, type ReferralOverrides } from '../helpers/pathwayFactories'
-import { AuditEntry, Referral, StageTransition } from '../../server/models/index'
-import { TRANSITIONS, allowedMoves } from '../../shared/pathway'
+import { AuditEntry, Outcome, Referral, StageTransition } from '../../server/models/index'
+import { TRANSITIONS, allowedMoves, todayIso } from '../../shared/pathway'
 import { ROLES, type Role } from '../../shared/roles'
 
 let t: TestApp
@@ -35,12 +35,19 @@ beforeEach(async () => {
 const screenedHb = { latestHbGL: 118, latestHbAt: new Date(Date.now() - 3_600_000), anaemic: true }
 const at = (o: Partial<ReferralOverrides>) => makeReferral(ids, { ...screenedHb, ...o })
 const move = (role: Role, id: number, body: object) => as[role].post(`/api/referrals/${id}/transitions`, body)
+// Closing after surgery needs the post-operative record and its follow-up on file (tests/api/outcomes-closing covers the refusal).
+const followUpOnFile = (referralId: number) => Outcome.create({
+  referralId, surgeryDate: todayIso(), bloodLossMl: 300, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched: 0, lowestHbGL: 110,
+  dischargeHbGL: 112, lengthOfStayDays: 3, complications: ['none'], recordedBy: null,
+  followUpRecheckHbGL: 120, followUpRecheckDate: todayIso(), followUpIronAfterSurgery: false, followUpAt: new Date(),
+})
 
 describe('who may make each move (the pathway table in shared/pathway)', () => {
   it('then every move in the table succeeds for exactly the roles it names and is 403 for the others', async () => {
     for (const m of TRANSITIONS) {
       for (const role of ['nurse', 'doctor', 'surgeon'] as const) {
         const r = await at({ stage: m.from })
+        if (m.requires === 'follow-up') await followUpOnFile(r.id)
         const res = await move(role, r.id, { to: m.to, version: 1, reason: 'Patient asked to postpone' })
         const want = m.roles.includes(role) ? 200 : 403
         expect(res.status, `${m.from} → ${m.to} as ${role}: ${JSON.stringify(res.body)}`).toBe(want)
@@ -138,6 +145,7 @@ describe('pathway rules', () => {
 
   it('when the episode is closed, then moves, results and edits are refused with 422 (read-only)', async () => {
     const r = await at({ stage: 'operated' })
+    await followUpOnFile(r.id)
     await move('nurse', r.id, { to: 'closed', version: 1 }).expect(200)
     for (const to of ['referred', 'operated', 'withdrawn']) {
       const res = await move('doctor', r.id, { to, version: 2, reason: 'x' })
