@@ -74,8 +74,22 @@ export const routes: RouteRecordRaw[] = [
       roles: ['surgeon', 'doctor', 'admin', 'nurse'],
       title: 'Readiness board',
       wide: true,
-      // Not in the main bar: it would overflow for admins; the role homes link to it.
+      // Surgeons' home is this board already (AppShellNav leaves it out for them).
+      nav: { label: 'Readiness', icon: 'pi pi-calendar-clock', order: 32 },
     },
+  },
+  {
+    path: '/reports',
+    name: 'reports',
+    component: () => import('@/views/ReportsView.vue'),
+    // Surgeons see only their own figures; the server forces it.
+    meta: { roles: ['admin', 'doctor', 'surgeon'], title: 'Service reports', wide: true, nav: { label: 'Reports', icon: 'pi pi-chart-bar', order: 50 } },
+  },
+  {
+    path: '/admin/audit',
+    name: 'audit-trail',
+    component: () => import('@/views/AuditTrailView.vue'),
+    meta: { roles: ['admin'], title: 'Audit trail', wide: true, nav: { label: 'Audit trail', icon: 'pi pi-history', order: 28 } },
   },
   {
     path: '/worklist',

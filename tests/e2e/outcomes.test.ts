@@ -1,0 +1,162 @@
+import { readFile } from 'node:fs/promises'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser, Page } from 'playwright-core'
+import { launchBrowser, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
+import { cleanDatabase } from '../helpers/app'
+import { makeStaff, type StaffFixture } from '../helpers/factories'
+import { makeEpisode } from '../helpers/clinicFactories'
+import { seriousViolations } from '../helpers/pathwayBrowser'
+import { retype } from '../helpers/clinicBrowser'
+import { Outcome, Referral } from '../../server/models/index'
+import { addDays, todayIso } from '../../shared/pathway'
+import { parseCsv } from '../api/reports-fixture'
+
+let served: ServedApp
+let browser: Browser
+let nurse: StaffFixture
+let admin: StaffFixture
+let referralId = 0
+let mrn = ''
+let nursePage: Page
+let adminPage: Page
+
+beforeAll(async () => {
+  served = await serveBuiltApp()
+  await cleanDatabase(served.sequelize)
+  nurse = await makeStaff('nurse')
+  admin = await makeStaff('admin')
+  const surgeon = await makeStaff('surgeon')
+  // The operation's usual loss is 500 mL, so 1600 mL is over the 3× caution line (shared/reports/outcomeWarnings).
+  const { patient, referral } = await makeEpisode({ surgeonId: surgeon.id, expectedBloodLossMl: 500, referral: { stage: 'operated', plannedSurgeryDate: addDays(todayIso(), -3) } })
+  referralId = referral.id
+  mrn = patient.mrn
+  browser = await launchBrowser()
+  nursePage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 } })).newPage()
+  adminPage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 }, acceptDownloads: true })).newPage()
+})
+afterAll(async () => {
+  await browser?.close()
+  await served?.stop()
+})
+
+const text = async (page: Page, testId: string) => (await page.getByTestId(testId).first().textContent()) ?? ''
+
+describe('a nurse records what happened after surgery and closes the episode', () => {
+  it('when the lowest Hb is typed in g/dL below the caution line, then the caution shows before saving and again from the server', async () => {
+    await signInThroughPage(nursePage, served.baseUrl, nurse.email, nurse.password)
+    await nursePage.waitForURL(`${served.baseUrl}/screening`)
+    await nursePage.selectOption('#hb-unit', 'g/dL')
+    await nursePage.goto(`${served.baseUrl}/referrals/${referralId}?tab=after-surgery`)
+    expect(await text(nursePage, 'close-needs')).toMatch(/post-operative record, then the follow-up/)
+    expect(await text(nursePage, 'close-needs-follow-up')).toMatch(/post-operative record and the follow-up first/)
+    expect(await nursePage.locator('[data-move="closed"]').isDisabled()).toBe(true)
+    // The episode was referred today (factory), so a surgery two days ago is refused by the server, under the field.
+    await nursePage.fill('#oc-date', addDays(todayIso(), -2))
+    await retype(nursePage, '#oc-loss', '1600')
+    await retype(nursePage, '#oc-xm', '2')
+    await retype(nursePage, '#oc-post', '1')
+    await retype(nursePage, '#oc-low', '5.5') // 5.5 g/dL = 55 g/L (× 10, clinical reference §7)
+    await retype(nursePage, '#oc-dis', '8.4')
+    await retype(nursePage, '#oc-stay', '4')
+    await nursePage.click('label[for="oc-c-none"]')
+    await expect.poll(() => text(nursePage, 'outcome-cautions')).toMatch(/more than 3× this operation's usual 500 mL/)
+    expect(await text(nursePage, 'outcome-cautions')).toMatch(/Lowest Hb 55 g\/L is below 60 g\/L/)
+    expect(await seriousViolations(nursePage)).toEqual([])
+    await nursePage.screenshot({ path: '/tmp/outcomes-record-form.png', fullPage: true })
+    await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
+    await expect.poll(() => nursePage.locator('#oc-date').locator('xpath=..').textContent()).toMatch(/Surgery date is before the referral date/)
+    expect(await Outcome.count()).toBe(0)
+    await nursePage.fill('#oc-date', todayIso())
+    await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
+    await nursePage.getByTestId('outcome-summary').waitFor()
+    expect(await text(nursePage, 'outcome-summary')).toMatch(/1600 mL/)
+    expect(await text(nursePage, 'outcome-summary')).toMatch(/5\.5 g\/dL/)
+    expect(await text(nursePage, 'outcome-cautions')).toMatch(/Lowest Hb 55 g\/L/)
+    const saved = (await Outcome.findOne({ where: { referralId } }))!
+    expect(saved.lowestHbGL).toBe(55)
+    expect(saved.dischargeHbGL).toBe(84)
+  })
+
+  it('when the follow-up is recorded, then closing is offered, and the closed episode is read-only', async () => {
+    expect(await text(nursePage, 'close-needs')).toMatch(/the follow-up after discharge/)
+    await retype(nursePage, '#fu-hb', '10.8')
+    await nursePage.click('label[for="fu-iron-yes"]')
+    await nursePage.getByRole('button', { name: 'Save the follow-up' }).click()
+    await expect.poll(() => text(nursePage, 'follow-up-summary')).toMatch(/10\.8 g\/dL/)
+    expect(await text(nursePage, 'close-ready')).toMatch(/can now be closed/)
+    expect(await seriousViolations(nursePage)).toEqual([])
+    await nursePage.screenshot({ path: '/tmp/outcomes-ready-to-close.png', fullPage: true })
+    await nursePage.click('[data-move="closed"]')
+    await nursePage.getByTestId('confirm-move').click()
+    await nursePage.getByTestId('read-only-banner').waitFor()
+    expect((await Referral.findByPk(referralId))!.stage).toBe('closed')
+    // Read-only: the record is shown, no form is offered.
+    await nursePage.goto(`${served.baseUrl}/referrals/${referralId}?tab=after-surgery`)
+    await nursePage.getByTestId('follow-up-summary').waitFor()
+    expect(await nursePage.locator('#oc-loss, #fu-hb').count()).toBe(0)
+  })
+})
+
+describe('an admin finds the patient in the audit trail', () => {
+  it('when searching by MRN and opening the closing entry, then it shows the stage before and after', async () => {
+    await signInThroughPage(adminPage, served.baseUrl, admin.email, admin.password)
+    await adminPage.waitForURL(`${served.baseUrl}/admin`)
+    await adminPage.goto(`${served.baseUrl}/admin/audit`)
+    await adminPage.fill('#au-patient', mrn)
+    await adminPage.click(`[data-patient="${mrn}"]`)
+    await adminPage.getByTestId('audit-patient-chosen').waitFor()
+    expect(adminPage.url()).toMatch(/patientId=\d+/)
+    const row = adminPage.locator('tr', { hasText: 'transition' }).first()
+    await row.waitFor()
+    await row.locator('button').first().click()
+    const diff = adminPage.getByTestId('audit-diff').first()
+    await diff.waitFor()
+    const rowText = async (field: string) => (await diff.locator('tr', { has: adminPage.locator(`th:text-is("${field}")`) }).textContent()) ?? ''
+    expect(await rowText('stage')).toMatch(/operated\s*closed\s*Changed/)
+    expect(await seriousViolations(adminPage)).toEqual([])
+    await adminPage.screenshot({ path: '/tmp/audit-trail.png', fullPage: true })
+    // The export is the server's CSV for the same search: one row per entry the screen counts.
+    const total = Number(/(\d+) entr/.exec((await adminPage.getByText(/entr(y|ies) match/).textContent()) ?? '')?.[1])
+    const [download] = await Promise.all([adminPage.waitForEvent('download'), adminPage.getByTestId('audit-csv').click()])
+    const rows = parseCsv(await readFile((await download.path())!, 'utf8'))
+    expect(rows.length).toBe(total)
+    expect(rows.some((r) => r.action === 'transition' && r.entity === 'referral')).toBe(true)
+  })
+})
+
+describe('the top bar fits for every role', () => {
+  const others: Page[] = []
+  beforeAll(async () => {
+    for (const role of ['doctor', 'surgeon'] as const) {
+      const s = await makeStaff(role)
+      const p = await (await browser.newContext({ locale: 'en-GB' })).newPage()
+      await signInThroughPage(p, served.baseUrl, s.email, s.password)
+      await p.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
+      others.push(p)
+    }
+  })
+  for (const width of [1280, 1024]) {
+    it(`when the window is ${width} px wide, then every role's bar stays on one line and the set-up pages sit in one menu`, async () => {
+      for (const [who, page] of [['admin', adminPage], ['nurse', nursePage], ['doctor', others[0]!], ['surgeon', others[1]!]] as const) {
+        await page.setViewportSize({ width, height: 800 })
+        await page.goto(`${served.baseUrl}/worklist`)
+        const bar = page.locator('header.app-shell__bar')
+        await bar.waitFor()
+        const box = (await bar.boundingBox())!
+        // One row of links: the bar is as tall as a single line (3.25 rem at 14 px = 45.5 px), nothing scrolls sideways.
+        expect(box.height, `${who} at ${width}`).toBeLessThan(60)
+        expect(await page.evaluate('document.documentElement.scrollWidth <= window.innerWidth')).toBe(true)
+        await page.screenshot({ path: `/tmp/nav-${who}-${width}.png`, clip: { x: 0, y: 0, width, height: 120 } })
+      }
+      expect(await nursePage.locator('[data-nav="readiness"]').count()).toBe(1)
+      expect(await adminPage.locator('[data-nav="admin-users"]').count()).toBe(0)
+      // Keyboard: the Set-up button opens its menu with Enter, like any button.
+      await adminPage.focus('[data-nav="set-up"]')
+      await adminPage.keyboard.press('Enter')
+      await adminPage.getByRole('menuitem', { name: 'Audit trail' }).waitFor()
+      expect(await seriousViolations(adminPage)).toEqual([])
+      await adminPage.screenshot({ path: `/tmp/nav-admin-menu-${width}.png`, clip: { x: 0, y: 0, width, height: 400 } })
+      await adminPage.keyboard.press('Escape')
+    })
+  }
+})
