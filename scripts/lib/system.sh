@@ -28,8 +28,14 @@ ensure_chromium() {
 }
 
 ensure_node_modules() {
-  if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+  # Reinstall only when the lockfile's content changed since the last install: its timestamp moves
+  # on every checkout, and npm ci empties node_modules first.
+  local want have
+  want=$(sha256sum package-lock.json | cut -d' ' -f1)
+  have=$(cat node_modules/.ferrolane-lock-sha256 2>/dev/null || true)
+  if [ ! -d node_modules ] || [ "$want" != "$have" ]; then
     echo "Installing npm packages (npm ci)..."
     npm ci --no-audit --no-fund --loglevel=error
+    echo "$want" > node_modules/.ferrolane-lock-sha256
   fi
 }
