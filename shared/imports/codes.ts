@@ -1,4 +1,5 @@
 import { ANALYTES, ANALYTE_DEFS, type Analyte } from '../pathway/analytes'
+import { LOINC, LOINC_ALSO_READ, LOINC_SOURCE, LOINC_SYSTEM } from '../fhir/loinc'
 
 export interface LoincEntry {
   code: string
@@ -9,28 +10,20 @@ export interface LoincEntry {
   source: string
 }
 
-// Every long name below is from memory of the LOINC table (Regenstrief); the pairs named in
-// issue #7 (Hb, MCV, ferritin, TSAT, CRP, creatinine, B12, folate) are also the issue's list.
-const MEMORY = 'LOINC table, from memory'
-const ISSUE = 'LOINC table, from memory; code–analyte pair as listed in issue #7'
-
+/**
+ * The codes an import reads, derived from the one LOINC table (shared/fhir/loinc.ts) that the
+ * export writes with: each stored analyte's code (eGFR is left out: Ferrolane works it out from
+ * creatinine) and the molar forms laboratories also send.
+ */
 export const LOINC_CODES: readonly LoincEntry[] = [
-  { code: '718-7', analyte: 'hb', longName: 'Hemoglobin [Mass/volume] in Blood', source: ISSUE },
-  { code: '787-2', analyte: 'mcv', longName: 'MCV [Entitic volume] by Automated count', source: ISSUE },
-  { code: '2276-4', analyte: 'ferritin', longName: 'Ferritin [Mass/volume] in Serum or Plasma', source: ISSUE },
-  { code: '2502-3', analyte: 'tsat', longName: 'Iron saturation [Mass Fraction] in Serum or Plasma', source: ISSUE },
-  { code: '2498-4', analyte: 'iron', longName: 'Iron [Mass/volume] in Serum or Plasma', source: MEMORY },
-  { code: '14798-3', analyte: 'iron', longName: 'Iron [Moles/volume] in Serum or Plasma', source: MEMORY },
-  { code: '3034-6', analyte: 'transferrin', longName: 'Transferrin [Mass/volume] in Serum or Plasma', source: MEMORY },
-  { code: '2500-7', analyte: 'tibc', longName: 'Iron binding capacity [Mass/volume] in Serum or Plasma', source: MEMORY },
-  { code: '1988-5', analyte: 'crp', longName: 'C reactive protein [Mass/volume] in Serum or Plasma', source: ISSUE },
-  { code: '2160-0', analyte: 'creatinine', longName: 'Creatinine [Mass/volume] in Serum or Plasma', source: ISSUE },
-  { code: '14682-9', analyte: 'creatinine', longName: 'Creatinine [Moles/volume] in Serum or Plasma', source: MEMORY },
-  { code: '2132-9', analyte: 'b12', longName: 'Cobalamin (Vitamin B12) [Mass/volume] in Serum or Plasma', source: ISSUE },
-  { code: '2284-8', analyte: 'folate', longName: 'Folate [Mass/volume] in Serum or Plasma', source: ISSUE },
+  ...ANALYTES.map((analyte) => ({ code: LOINC[analyte].code, analyte, longName: LOINC[analyte].display, source: LOINC_SOURCE })),
+  ...LOINC_ALSO_READ.map((e) => ({ code: e.code, analyte: e.analyte, longName: e.display, source: LOINC_SOURCE })),
 ]
 
-export const LOINC_SYSTEM = 'http://loinc.org'
+export { LOINC_SYSTEM }
+
+/** LOINC codes of values Ferrolane derives itself; an import skips them rather than refusing them. */
+export const DERIVED_LOINC: Readonly<Record<string, string>> = { [LOINC.egfr.code]: 'eGFR' }
 
 export function analyteForLoinc(code: string): LoincEntry | undefined {
   return LOINC_CODES.find((e) => e.code === code.trim())

@@ -1,4 +1,4 @@
-import { analyteForLoinc, LOINC_SYSTEM } from './codes'
+import { analyteForLoinc, DERIVED_LOINC, LOINC_SYSTEM } from './codes'
 import { checkReading, type Reading } from './rows'
 import { appUnitForUcum, UCUM_SYSTEM } from './ucum'
 
@@ -7,7 +7,7 @@ export const USABLE_STATUSES = ['final', 'amended', 'corrected'] as const
 
 export type FhirEntryCheck =
   | { index: number; fullUrl?: string; kind: 'reading'; reading: Reading }
-  | { index: number; fullUrl?: string; kind: 'patient' }
+  | { index: number; fullUrl?: string; kind: 'skip'; reason: string }
   | { index: number; fullUrl?: string; kind: 'invalid'; reason: string }
 
 type Json = Record<string, unknown>
@@ -38,7 +38,13 @@ function subjectMrn(obs: Json, patients: Map<string, string>): string | undefine
   return patients.get(ref)
 }
 
-function checkObservation(obs: Json, patients: Map<string, string>, now: number): { reading: Reading } | { reason: string } {
+/**
+ * Resources a clinical Bundle carries beside its results (Ferrolane's own episode export holds
+ * the last three): reported as skipped, holding no laboratory result, rather than as invalid.
+ */
+const NOT_RESULTS = ['Patient', 'MedicationAdministration', 'Appointment', 'Encounter', 'Specimen', 'DiagnosticReport', 'Practitioner', 'Organization']
+
+function checkObservation(obs: Json, patients: Map<string, string>, now: number): { reading: Reading } | { reason: string } | { skip: string } {
   const status = str(obs.status)
   if (!status || !(USABLE_STATUSES as readonly string[]).includes(status)) {
     return { reason: `status must be one of ${USABLE_STATUSES.join(', ')} (got ${status ?? 'nothing'})` }
@@ -46,6 +52,8 @@ function checkObservation(obs: Json, patients: Map<string, string>, now: number)
   const codings = isObj(obs.code) && Array.isArray(obs.code.coding) ? obs.code.coding.filter(isObj) : []
   const loinc = codings.find((c) => c.system === LOINC_SYSTEM)
   if (!loinc) return { reason: `code.coding has no LOINC coding (system ${LOINC_SYSTEM})` }
+  const derived = DERIVED_LOINC[String(loinc.code ?? '').trim()]
+  if (derived) return { skip: `LOINC ${String(loinc.code)} (${derived}) is worked out by Ferrolane from the creatinine, not imported` }
   const entry = analyteForLoinc(String(loinc.code ?? ''))
   if (!entry) return { reason: `LOINC code ${String(loinc.code ?? '(none)')} is not one Ferrolane imports` }
   const q = isObj(obs.valueQuantity) ? obs.valueQuantity : undefined
@@ -85,9 +93,11 @@ export function checkFhirBundle(bundle: unknown, now: number): { error: string }
       const base = { index, ...(fullUrl ? { fullUrl } : {}) }
       if (!isObj(e) || !isObj(e.resource)) return { ...base, kind: 'invalid', reason: 'entry has no resource' }
       const type = e.resource.resourceType
-      if (type === 'Patient') return { ...base, kind: 'patient' }
+      if (type === 'Patient') return { ...base, kind: 'skip', reason: 'Patient resource: identifies the patient, holds no result' }
+      if (typeof type === 'string' && NOT_RESULTS.includes(type)) return { ...base, kind: 'skip', reason: `${type} resource: holds no laboratory result, not imported` }
       if (type !== 'Observation') return { ...base, kind: 'invalid', reason: `resource must be an Observation (got ${typeof type === 'string' ? type : 'no resourceType'})` }
       const r = checkObservation(e.resource, patients, now)
+      if ('skip' in r) return { ...base, kind: 'skip', reason: r.skip }
       return 'reading' in r ? { ...base, kind: 'reading', reading: r.reading } : { ...base, kind: 'invalid', reason: r.reason }
     }),
   }

@@ -1,4 +1,5 @@
 import { ANALYTE_DEFS, implausibleValue, normaliseUnit, toCanonical, unitsFor, type Analyte } from '../pathway/analytes'
+import { LOINC } from '../fhir/loinc'
 import { CLOCK_SKEW_MS } from '../schemas/fields'
 import { analyteForCode } from './codes'
 import { expectedDateForm, parseTakenAt } from './dates'
@@ -14,6 +15,8 @@ export interface Reading {
   valueCanonical: number
   /** Whole seconds, as results are stored and matched. */
   takenAt: Date
+  /** For a value converted from another unit: how far a stored canonical value may differ and still be this reading. */
+  tolerance?: number
 }
 
 export type Checked = { ok: true; reading: Reading } | { ok: false; code: SkipCode; reason: string }
@@ -23,23 +26,45 @@ const fail = (code: SkipCode, reason: string): Checked => ({ ok: false, code, re
 // Earliest draw time accepted, as for typed-in results (shared/schemas/fields pastInstantField).
 const EARLIEST = Date.parse('1990-01-01T00:00:00Z')
 
+/** The unit a converted value came in, when the analyte table itself does not take it (TIBC in µg/dL). */
+function exportUnit(analyte: Analyte, unit: string): ((v: number) => number) | undefined {
+  const e = LOINC[analyte]
+  return e.toCanonical && e.unit === unit ? e.toCanonical : undefined
+}
+
+/** Decimals the value was sent with: the precision at which two readings are the same reading. */
+function decimals(value: number): number {
+  const s = String(value)
+  return s.includes('e') ? 6 : (s.split('.')[1] ?? '').length
+}
+
 /**
  * The same unit and plausibility rules a typed-in result meets (shared/pathway/analytes), so a
  * g/dL Hb sent as g/L is skipped with the same hint instead of stored as a catastrophic anaemia.
+ * The units Ferrolane's own FHIR export writes (shared/fhir/loinc) are read back too.
  */
 export function checkReading(input: { mrn: string; analyte: Analyte; unit: string; value: number; takenAt: Date }, now: number): Checked {
   const { analyte, value } = input
   const unit = normaliseUnit(input.unit)
-  if (!unitsFor(analyte).includes(unit)) {
-    return fail('unknown-unit', `unit for ${ANALYTE_DEFS[analyte].label} must be one of ${unitsFor(analyte).join(', ')} (got ${input.unit || 'nothing'})`)
+  const def = ANALYTE_DEFS[analyte]
+  const fromExport = unitsFor(analyte).includes(unit) ? undefined : exportUnit(analyte, unit)
+  if (!unitsFor(analyte).includes(unit) && !fromExport) {
+    const accepted = [...unitsFor(analyte), ...(LOINC[analyte].toCanonical && !unitsFor(analyte).includes(LOINC[analyte].unit) ? [LOINC[analyte].unit] : [])]
+    return fail('unknown-unit', `unit for ${def.label} must be one of ${accepted.join(', ')} (got ${input.unit || 'nothing'})`)
   }
-  const why = implausibleValue(analyte, unit, value)
-  if (why) return fail('implausible-value', why)
+  // Three decimals, as toCanonical (shared/pathway/analytes) stores every converted value.
+  const canonical = fromExport ? Math.round(fromExport(value) * 1000) / 1000 : undefined
+  const why = fromExport ? implausibleValue(analyte, def.canonicalUnit, canonical!) : implausibleValue(analyte, unit, value)
+  if (why) return fail('implausible-value', fromExport ? `${value} ${unit} is ${Math.round(canonical! * 100) / 100} ${def.canonicalUnit}: ${why}` : why)
   const t = input.takenAt.getTime()
   if (t > now + CLOCK_SKEW_MS) return fail('bad-date', 'time taken is in the future')
   if (t < EARLIEST) return fail('bad-date', 'time taken must be after 1990')
   const takenAt = new Date(Math.floor(t / 1000) * 1000)
-  return { ok: true, reading: { mrn: input.mrn, analyte, unit, value, valueCanonical: toCanonical(analyte, unit, value), takenAt } }
+  const valueCanonical = canonical ?? toCanonical(analyte, unit, value)
+  // A converted value stands for every stored value that rounds to it in the sent unit
+  // (an export rounds µmol/L to 2 decimals of µg/dL): duplicates are matched within that.
+  const tolerance = unit !== def.canonicalUnit && value !== 0 ? Math.abs(valueCanonical / value) * 0.5 * 10 ** -decimals(value) + 0.0005 : 0
+  return { ok: true, reading: { mrn: input.mrn, analyte, unit, value, valueCanonical, takenAt, ...(tolerance ? { tolerance } : {}) } }
 }
 
 const NUMBER = /^[-+]?\d+(?:[.,]\d+)?$/

@@ -5,7 +5,7 @@
  * Measure, Regenstrief; checked from memory). Which unit suits which analyte is still decided
  * by the analyte table, so an Hb in mg/L is refused there, not here.
  */
-export const UCUM_SYSTEM = 'http://unitsofmeasure.org'
+export { UCUM_SYSTEM } from '../fhir/loinc'
 
 export const UCUM_TO_APP_UNIT: Readonly<Record<string, string>> = {
   'g/L': 'g/L',

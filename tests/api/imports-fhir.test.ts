@@ -71,7 +71,8 @@ describe('importing a FHIR R4 Bundle of Observations', () => {
   it('when the bundle has invalid entries, then each reason is reported and nothing is stored', async () => {
     const res = await post(bundle([
       observation({ mrn: 'FHR0001', at: AT }),
-      { resourceType: 'MedicationAdministration', status: 'completed' },
+      // Not a resource a results bundle carries (clinical resources such as MedicationAdministration are skipped as holding no result).
+      { resourceType: 'Questionnaire', status: 'active' },
       { ...observation({ mrn: 'FHR0001', at: AT }), valueQuantity: undefined },
       observation({ mrn: 'FHR0001', loinc: '2345-7', at: AT }),
       observation({ mrn: 'FHR0001', ucum: 'mcg/L', loinc: '2276-4', at: AT }),
@@ -80,7 +81,7 @@ describe('importing a FHIR R4 Bundle of Observations', () => {
     expect(res.status).toBe(200)
     expect(res.body).toMatchObject({ invalid: 5, committed: false, notStored: expect.stringMatching(/5 entries are invalid/) })
     const reasons = res.body.entries.map((e: { reason?: string }) => e.reason ?? '')
-    expect(reasons[1]).toMatch(/must be an Observation.*MedicationAdministration/)
+    expect(reasons[1]).toMatch(/must be an Observation.*Questionnaire/)
     expect(reasons[2]).toMatch(/valueQuantity is missing/)
     expect(reasons[3]).toMatch(/LOINC code 2345-7/)
     expect(reasons[4]).toMatch(/UCUM unit mcg\/L/)

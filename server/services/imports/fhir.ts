@@ -49,7 +49,7 @@ export async function importFhirBundle(
     const entries = checked.entries.map((e): FhirEntryResult => {
       const base = { index: e.index, ...(e.fullUrl ? { fullUrl: e.fullUrl } : {}) }
       if (e.kind === 'invalid') return { ...base, outcome: 'invalid', reason: e.reason }
-      if (e.kind === 'patient') return { ...base, outcome: 'skipped', reason: 'Patient resource: identifies the patient, holds no result' }
+      if (e.kind === 'skip') return { ...base, outcome: 'skipped', reason: e.reason }
       return { ...outcomes.get(e.index)!, ...base }
     })
     return {

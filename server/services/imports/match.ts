@@ -31,15 +31,31 @@ async function findPatients(sequelize: Sequelize, mrns: string[], t?: Transactio
   return out
 }
 
-/** Which of these natural keys are already stored (inside the commit's transaction, earlier chunks count). */
+/**
+ * Which of these rows are already stored (inside the commit's transaction, earlier chunks count),
+ * keyed by each row's own natural key. A value converted from another unit matches a stored one
+ * within its tolerance (an exported µg/dL rounds the stored µmol/L), so a re-import is no new row.
+ */
 async function storedKeys(sequelize: Sequelize, rows: MatchedRow[], t?: Transaction): Promise<Map<string, number | null>> {
   if (!rows.length) return new Map()
-  const where = rows.map(() => '(referral_id = ? AND analyte = ? AND taken_at = ? AND value_canonical = ?)').join(' OR ')
+  const where = rows.map(() => '(referral_id = ? AND analyte = ? AND taken_at = ? AND value_canonical BETWEEN ? AND ?)').join(' OR ')
   const found = await sequelize.query<{ referralId: number; analyte: string; takenAt: Date; valueCanonical: number; batchId: number | null }>(
     `SELECT referral_id AS referralId, analyte, taken_at AS takenAt, value_canonical AS valueCanonical, import_batch_id AS batchId FROM results WHERE ${where}`,
-    { type: QueryTypes.SELECT, replacements: rows.flatMap((r) => [r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical]), transaction: t },
+    {
+      type: QueryTypes.SELECT, transaction: t,
+      replacements: rows.flatMap((r) => { const tol = r.reading.tolerance ?? 0; return [r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical - tol, r.reading.valueCanonical + tol] }),
+    },
   )
-  return new Map(found.map((f) => [naturalKey(f.referralId, f.analyte, new Date(f.takenAt), f.valueCanonical), f.batchId]))
+  const sample = (referralId: number, analyte: string, takenAt: Date) => `${referralId}|${analyte}|${Math.floor(new Date(takenAt).getTime() / 1000)}`
+  const bySample = new Map<string, typeof found>()
+  for (const f of found) bySample.set(sample(f.referralId, f.analyte, f.takenAt), [...(bySample.get(sample(f.referralId, f.analyte, f.takenAt)) ?? []), f])
+  const out = new Map<string, number | null>()
+  for (const r of rows) {
+    const tol = r.reading.tolerance ?? 0
+    const hit = bySample.get(sample(r.referralId, r.reading.analyte, r.reading.takenAt))?.find((f) => Math.abs(f.valueCanonical - r.reading.valueCanonical) <= tol)
+    if (hit) out.set(naturalKey(r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical), hit.batchId)
+  }
+  return out
 }
 
 export interface ChunkOutcome { accepted: MatchedRow[]; skipped: SkippedRow[] }
