@@ -1,7 +1,8 @@
 /**
  * npm run bench: builds the client into .bench-data/ and prints one JSON line per figure.
  * Its own MariaDB (.bench-data/, port 3410) holds the bench database, loaded once and kept.
- * `npm run bench -- bundle`, `-- worklist` or `-- reports` runs one part.
+ * `npm run bench -- bundle`, `-- worklist`, `-- reports` or `-- imports` runs one part.
+ * BENCH_DATA_DIR (default .bench-data) and BENCH_DB_PORT let two benches run side by side.
  */
 import { spawnSync } from 'node:child_process'
 import { readFileSync } from 'node:fs'
@@ -12,8 +13,9 @@ import { bundleReport } from './bench/bundle'
 import { loadBenchData } from './bench/benchData'
 import { benchWorklist } from './bench/worklist'
 import { benchReports } from './bench/reports'
+import { benchImports } from './bench/imports'
 
-const benchDir = path.resolve(repoRoot, '.bench-data')
+const benchDir = path.resolve(repoRoot, process.env.BENCH_DATA_DIR || '.bench-data')
 const only = process.argv.slice(2)
 const wants = (part: string) => only.length === 0 || only.includes(part)
 
@@ -28,7 +30,7 @@ async function main(): Promise<void> {
     buildClient(dist)
     console.log(JSON.stringify(bundleReport(dist)))
   }
-  if (!wants('worklist') && !wants('reports')) return
+  if (!wants('worklist') && !wants('reports') && !wants('imports')) return
   const stack = await startStack({
     label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
     dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
@@ -42,6 +44,7 @@ async function main(): Promise<void> {
     const databasePid = Number(readFileSync(path.join(benchDir, 'mariadb.pid'), 'utf8').trim())
     if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail, databasePid)))
     if (wants('reports')) console.log(JSON.stringify(await benchReports(env)))
+    if (wants('imports')) console.log(JSON.stringify(await benchImports(env, data.nurseEmail, benchDir)))
   } finally {
     await stack.stop()
   }

@@ -98,6 +98,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { roles: ROLES, title: 'Worklist', wide: true, nav: { label: 'Worklist', icon: 'pi pi-list', order: 30 } },
   },
   {
+    path: '/imports',
+    name: 'import-results',
+    component: () => import('@/views/ImportResultsView.vue'),
+    // Results arrive through the people who screen; the server checks the roles again.
+    meta: { roles: ['nurse', 'doctor', 'admin'], title: 'Import results', wide: true, nav: { label: 'Import results', icon: 'pi pi-file-import', order: 30 } },
+  },
+  {
     path: '/referrals/new',
     name: 'register',
     component: () => import('@/views/RegisterReferralView.vue'),

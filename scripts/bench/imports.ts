@@ -1,0 +1,109 @@
+/**
+ * Laboratory import at scale: CSVs of 25 000 and 100 000 rows for the bench patients, previewed
+ * and committed over HTTP against a real server process, the server's RSS sampled every 100 ms.
+ * Each committed batch is reversed afterwards, so the next run meets no duplicates and the
+ * bench database keeps its size.
+ */
+import { mkdirSync, openAsBlob, openSync, writeSync, closeSync, rmSync } from 'node:fs'
+import path from 'node:path'
+import mariadb from 'mariadb'
+import { hashPassword } from '../../server/services/passwords'
+import { BENCH_PASSWORD, BENCH_SIZE } from './benchData'
+import { memoryMb, signIn, startBenchServer } from './server'
+
+const SIZES = [25_000, 100_000]
+const MAX_SECONDS = 20
+const ADMIN_EMAIL = 'bench.admin@ferrolane.test'
+
+/**
+ * Rows cycle over the bench patients (BN0000000…) and five analytes; one row in 100 names an
+ * MRN no patient has, so the skipped path is exercised too. Draw times start from the current
+ * second and step 7 s apart, so no two runs share a natural key.
+ */
+function writeCsv(file: string, rows: number): void {
+  mkdirSync(path.dirname(file), { recursive: true })
+  const fd = openSync(file, 'w')
+  const codes: [string, string, (i: number) => string][] = [
+    ['HB', 'g/L', (i) => String(85 + (i % 80))],
+    ['FERR', 'ug/L', (i) => String(8 + (i % 320))],
+    ['CRP', 'mg/L', (i) => String(i % 45)],
+    ['MCV', 'fL', (i) => String(68 + (i % 32))],
+    ['CREA', 'umol/L', (i) => String(55 + (i % 90))],
+  ]
+  const base = Math.floor(Date.now() / 1000) * 1000 - 200 * 86_400_000
+  let buf = 'mrn,test_code,value,unit,taken_at\n'
+  for (let i = 0; i < rows; i++) {
+    const [code, unit, value] = codes[i % codes.length]!
+    const mrn = i % 100 === 99 ? `ZZ${String(i).padStart(7, '0')}` : `BN${String(i % BENCH_SIZE.patients).padStart(7, '0')}`
+    buf += `${mrn},${code},${value(i)},${unit},${new Date(base + i * 7000).toISOString().replace('.000Z', 'Z')}\n`
+    if (buf.length > 64 * 1024) { writeSync(fd, buf); buf = '' }
+  }
+  writeSync(fd, buf)
+  closeSync(fd)
+}
+
+/** The bench data has a nurse and surgeons; reversal is an admin's, so one is added once. */
+async function ensureAdmin(env: NodeJS.ProcessEnv): Promise<void> {
+  const conn = await mariadb.createConnection({ host: '127.0.0.1', port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME })
+  try {
+    const now = new Date()
+    await conn.query('INSERT IGNORE INTO users (email, name, role, password_hash, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?)', [ADMIN_EMAIL, 'Bench Admin', 'admin', await hashPassword(BENCH_PASSWORD), now, now])
+  } finally {
+    await conn.end()
+  }
+}
+
+async function csrf(url: string, cookie: string): Promise<string> {
+  const res = await fetch(`${url}/api/auth/csrf`, { headers: { cookie } })
+  return ((await res.json()) as { csrfToken: string }).csrfToken
+}
+
+async function upload(url: string, cookie: string, file: string, commit: boolean): Promise<{ ms: number; body: { batchId?: number; accepted: number; skippedTotal: number; rowsRead: number } }> {
+  const form = new FormData()
+  form.append('commit', String(commit))
+  form.append('source', 'Bench laboratory')
+  form.append('file', await openAsBlob(file, { type: 'text/csv' }), path.basename(file))
+  const t0 = performance.now()
+  const res = await fetch(`${url}/api/imports/lab-results`, { method: 'POST', headers: { cookie, 'x-csrf-token': await csrf(url, cookie) }, body: form })
+  const body = (await res.json()) as { batchId?: number; accepted: number; skippedTotal: number; rowsRead: number }
+  const ms = Math.round(performance.now() - t0)
+  if (!res.ok) throw new Error(`import ${commit ? 'commit' : 'preview'} failed: ${res.status} ${JSON.stringify(body)}`)
+  return { ms, body }
+}
+
+export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, dataDir: string) {
+  await ensureAdmin(env)
+  const server = await startBenchServer(env, 8099)
+  // rssBeforeMb beside peakRssMb shows how far one file raises the server's memory.
+  const runs: { rows: number; previewMs: number; commitMs: number; peakRssMb: number; rssBeforeMb: number; accepted: number; skipped: number; reverseMs: number }[] = []
+  try {
+    const nurse = await signIn(server.url, nurseEmail, BENCH_PASSWORD)
+    const admin = await signIn(server.url, ADMIN_EMAIL, BENCH_PASSWORD)
+    for (const rows of SIZES) {
+      const file = path.join(dataDir, 'imports', `bench-${rows}.csv`)
+      writeCsv(file, rows)
+      const rssBeforeMb = memoryMb(server.pid).rssMb
+      let peak = rssBeforeMb
+      const sampler = setInterval(() => { peak = Math.max(peak, memoryMb(server.pid).rssMb) }, 100)
+      try {
+        const preview = await upload(server.url, nurse, file, false)
+        const commit = await upload(server.url, nurse, file, true)
+        if (commit.body.accepted !== preview.body.accepted) throw new Error(`preview accepted ${preview.body.accepted} but the commit stored ${commit.body.accepted}`)
+        const t0 = performance.now()
+        const rev = await fetch(`${server.url}/api/imports/${commit.body.batchId}/reversal`, {
+          method: 'POST', headers: { cookie: admin, 'x-csrf-token': await csrf(server.url, admin), 'content-type': 'application/json' },
+          body: JSON.stringify({ reason: 'bench run: taken back out so the next run starts clean' }),
+        })
+        if (!rev.ok) throw new Error(`reversal failed: ${rev.status} ${await rev.text()}`)
+        runs.push({ rows, previewMs: preview.ms, commitMs: commit.ms, peakRssMb: peak, rssBeforeMb, accepted: commit.body.accepted, skipped: commit.body.skippedTotal, reverseMs: Math.round(performance.now() - t0) })
+      } finally {
+        clearInterval(sampler)
+        rmSync(file, { force: true })
+      }
+    }
+  } finally {
+    await server.stop()
+  }
+  const met = runs.every((r) => r.previewMs < MAX_SECONDS * 1000 && r.commitMs < MAX_SECONDS * 1000)
+  return { bench: 'imports', runs, targets: { maxSeconds: MAX_SECONDS }, met }
+}
