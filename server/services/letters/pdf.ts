@@ -1,4 +1,3 @@
-import PDFDocument from 'pdfkit'
 import { createRequire } from 'node:module'
 import type { ClinicContact } from '../../mail/snapshot'
 
@@ -30,7 +29,10 @@ const MUTED = '#475569'
 const MARGIN = 56
 
 /** Lays a letter out on A4 and returns the PDF bytes. */
-export function renderLetterPdf(c: LetterContent, meta: { author: string; subject: string }): Promise<Buffer> {
+export async function renderLetterPdf(c: LetterContent, meta: { author: string; subject: string }): Promise<Buffer> {
+  // Loaded on the first letter: pdfkit and its font engine hold tens of MB a server answering
+  // worklists need not carry.
+  const { default: PDFDocument } = await import('pdfkit')
   const doc = new PDFDocument({ size: 'A4', margins: { top: MARGIN, bottom: MARGIN + 10, left: MARGIN, right: MARGIN }, bufferPages: true, info: { Title: c.title, Author: meta.author, Subject: meta.subject, Creator: 'Ferrolane' } })
   const chunks: Buffer[] = []
   doc.on('data', (b: Buffer) => chunks.push(b))
