@@ -1,3 +1,4 @@
+import { recordEpisodeRead } from '../services/readAudit'
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { CLINICAL_WRITERS, STAFF, viewerOf } from './pathwayContext'
@@ -23,7 +24,9 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
   })
 
   api.get('/:id', { access: STAFF }, async (req, res) => {
-    res.json(await getAppointment(viewerOf(req), idParam(req)))
+    const appointment = await getAppointment(viewerOf(req), idParam(req))
+    await recordEpisodeRead(viewerOf(req), 'appointment', appointment.referralId, appointment.id)
+    res.json(appointment)
   })
 
   api.patch('/:id', { access: CLINICAL_WRITERS }, validate(moveAppointmentSchema), async (req, res) => {
@@ -44,7 +47,9 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
 export function referralAppointmentRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
   api.get('/:id/appointments', { access: STAFF }, async (req, res) => {
-    res.json(await listReferralAppointments(viewerOf(req), idParam(req)))
+    const list = await listReferralAppointments(viewerOf(req), idParam(req))
+    await recordEpisodeRead(viewerOf(req), 'appointments', idParam(req))
+    res.json(list)
   })
   return api
 }

@@ -12,6 +12,7 @@ import { listAdministrations, recordAdministration } from '../services/administr
 import { projectionFor } from '../services/projection'
 import { listReadinessReviews, recordReadinessAction } from '../services/readiness'
 import { Invalid } from '../errors'
+import { recordEpisodeRead } from '../services/readAudit'
 
 /** Anaemia clinic and theatre readiness, on an episode. */
 export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
@@ -19,7 +20,9 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   const doctor = { access: ['doctor'] } as const
 
   api.get('/:id/reviews', { access: STAFF }, async (req, res) => {
-    res.json({ rows: await listReviews(viewerOf(req), idParam(req)) })
+    const rows = await listReviews(viewerOf(req), idParam(req))
+    await recordEpisodeRead(viewerOf(req), 'clinic-reviews', idParam(req))
+    res.json({ rows })
   })
   api.post('/:id/reviews', doctor, validate(reviewSchema), async (req, res) => {
     const b = req.body as ReviewInput
@@ -34,7 +37,9 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     res.json(await previewDosePlan(viewerOf(req), idParam(req), { productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate }))
   })
   api.get('/:id/prescriptions', { access: STAFF }, async (req, res) => {
-    res.json({ rows: await listPrescriptions(viewerOf(req), idParam(req)) })
+    const rows = await listPrescriptions(viewerOf(req), idParam(req))
+    await recordEpisodeRead(viewerOf(req), 'prescriptions', idParam(req))
+    res.json({ rows })
   })
   api.post('/:id/prescriptions', doctor, validate(prescriptionSchema), async (req, res) => {
     const b = req.body as PrescriptionInput
@@ -45,7 +50,9 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   api.get('/:id/administrations', { access: STAFF }, async (req, res) => {
-    res.json({ rows: await listAdministrations(viewerOf(req), idParam(req)) })
+    const rows = await listAdministrations(viewerOf(req), idParam(req))
+    await recordEpisodeRead(viewerOf(req), 'administrations', idParam(req))
+    res.json({ rows })
   })
   api.post('/:id/administrations', { access: ['nurse', 'doctor'] }, validate(administrationSchema), async (req, res) => {
     const b = req.body as AdministrationInput
@@ -63,11 +70,15 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
         throw new Invalid('cardiacOutputLMin must be between 1 and 20 L/min', { cardiacOutputLMin: 'must be between 1 and 20 L/min' })
       }
     }
-    res.json(await projectionFor(viewerOf(req), idParam(req), { cardiacOutputLMin }))
+    const projection = await projectionFor(viewerOf(req), idParam(req), { cardiacOutputLMin })
+    await recordEpisodeRead(viewerOf(req), 'projection', idParam(req))
+    res.json(projection)
   })
 
   api.get('/:id/readiness', { access: STAFF }, async (req, res) => {
-    res.json({ rows: await listReadinessReviews(viewerOf(req), idParam(req)) })
+    const rows = await listReadinessReviews(viewerOf(req), idParam(req))
+    await recordEpisodeRead(viewerOf(req), 'readiness-reviews', idParam(req))
+    res.json({ rows })
   })
   // Only the operating surgeon answers; a nurse cannot acknowledge on a surgeon's behalf.
   api.post('/:id/readiness', { access: ['surgeon'] }, validate(readinessActionSchema), async (req, res) => {

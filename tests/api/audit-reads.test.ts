@@ -30,6 +30,12 @@ describe('opening clinical data leaves a "view" entry naming the reader and the 
     ['the patient', () => `/api/patients/${ids.patientId}`, 'patient'],
     ['the results', () => `/api/referrals/${ids.referralId}/results`, 'results'],
     ['the post-operative record', () => `/api/referrals/${ids.referralId}/outcome`, 'outcome'],
+    ['the clinic reviews', () => `/api/referrals/${ids.referralId}/reviews`, 'clinic-reviews'],
+    ['the prescriptions', () => `/api/referrals/${ids.referralId}/prescriptions`, 'prescriptions'],
+    ['the iron doses given', () => `/api/referrals/${ids.referralId}/administrations`, 'administrations'],
+    ['the projection', () => `/api/referrals/${ids.referralId}/projection`, 'projection'],
+    ['the surgeon readiness answers', () => `/api/referrals/${ids.referralId}/readiness`, 'readiness-reviews'],
+    ['the appointments', () => `/api/referrals/${ids.referralId}/appointments`, 'appointments'],
   ])('when a doctor opens %s, then one view entry is written', async (_what, path, entity) => {
     const before = await AuditEntry.count({ where: { action: 'view', entity, userId: doctor.id, patientId: ids.patientId } })
     const res = await asDoctor.get(path())
