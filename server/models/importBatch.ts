@@ -1,6 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
-
-export type ImportKind = 'lab-csv' | 'fhir'
+import type { ImportKind } from '../../shared/imports/views'
 
 /** One imported file: who sent it, what came of its rows, and whether an admin reversed it. */
 export class ImportBatch extends Model<InferAttributes<ImportBatch>, InferCreationAttributes<ImportBatch>> {

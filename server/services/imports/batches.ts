@@ -4,26 +4,7 @@ import { recordAudit } from '../audit'
 import { refreshScreeningMany } from '../screening'
 import { isoOrNull, type Viewer } from '../viewer'
 import { NotFound, RuleRefused } from '../../errors'
-
-export interface BatchView {
-  id: number
-  kind: string
-  sourceName: string
-  fileName: string
-  sha256: string
-  createdAt: string
-  createdBy: { id: number; name: string } | null
-  rowsRead: number
-  accepted: number
-  skipped: number
-  derived: number
-  referralsAffected: number
-  skipCounts: Record<string, number>
-  reversedAt: string | null
-  reversedBy: { id: number; name: string } | null
-  reversalReason: string | null
-  resultsRemoved: number | null
-}
+import type { BatchView } from '../../../shared/imports'
 
 type Row = ImportBatch & { creator?: User | null; reverser?: User | null }
 const who = (u?: User | null) => (u ? { id: u.id, name: u.name } : null)

@@ -1,25 +1,9 @@
 import { createHash } from 'node:crypto'
 import type { Sequelize } from 'sequelize'
-import { checkFhirBundle, type Checked } from '../../../shared/imports'
+import { checkFhirBundle, type Checked, type FhirEntryResult, type FhirImportResult } from '../../../shared/imports'
 import { RuleRefused } from '../../errors'
 import type { Viewer } from '../viewer'
-import { ImportRun, type ImportSummary } from './run'
-
-export type EntryOutcome = 'accepted' | 'skipped' | 'invalid'
-export interface FhirEntryResult { index: number; fullUrl?: string; outcome: EntryOutcome; reason?: string }
-
-export interface FhirImportResult {
-  batchId?: number
-  committed: boolean
-  entries: FhirEntryResult[]
-  accepted: number
-  skipped: number
-  invalid: number
-  referralsAffected: number
-  sameFileAs: ImportSummary['sameFileAs']
-  /** Why a commit stored nothing, when it did not. */
-  notStored?: string
-}
+import { ImportRun } from './run'
 
 /**
  * A FHIR R4 Bundle of Observations, entry by entry. An invalid entry stops the whole bundle

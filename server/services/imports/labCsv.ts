@@ -6,7 +6,8 @@ import type { Sequelize } from 'sequelize'
 import { checkCsvRecord, MAPPED_FIELDS, type Checked, type ColumnMapping } from '../../../shared/imports'
 import { RuleRefused } from '../../errors'
 import type { Viewer } from '../viewer'
-import { ImportRun, type ImportSummary } from './run'
+import type { ImportSummary } from '../../../shared/imports'
+import { ImportRun } from './run'
 
 export interface LabCsvInput {
   filePath: string

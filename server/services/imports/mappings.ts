@@ -1,10 +1,8 @@
-import { DEFAULT_MAPPING, type ColumnMapping } from '../../../shared/imports'
+import { DEFAULT_MAPPING, type ColumnMapping, type MappingView } from '../../../shared/imports'
 import { ImportMapping } from '../../models/index'
 import { recordAudit, changedFields } from '../audit'
 import { isoOrNull, type Viewer } from '../viewer'
 import type { Sequelize } from 'sequelize'
-
-export interface MappingView { sourceName: string; mapping: ColumnMapping; saved: boolean; updatedAt: string | null }
 
 export async function listMappings(): Promise<MappingView[]> {
   const rows = await ImportMapping.findAll({ order: [['sourceName', 'ASC']] })

@@ -1,45 +1,12 @@
 import { Op, type Sequelize, type Transaction } from 'sequelize'
-import { LIST_CAP, type Checked, type SkipCode, type SkippedRow } from '../../../shared/imports'
+import { LIST_CAP, type AcceptedRowView, type Checked, type ImportKind, type ImportSummary, type SkipCode, type SkippedRow } from '../../../shared/imports'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
-import { ImportBatch, type ImportKind } from '../../models/importBatch'
+import { ImportBatch } from '../../models/importBatch'
 import { recordAudit } from '../audit'
 import { isoOrNull, type Viewer } from '../viewer'
 import { matchChunk, type ChunkOutcome } from './match'
 import { deriveForBatch, insertRows, rescreenAndAudit, resultRows } from './store'
 
-export interface AcceptedRowView {
-  row: number
-  mrn: string
-  patient: string
-  referralId: number
-  analyte: string
-  analyteLabel: string
-  value: number
-  unit: string
-  valueCanonical: number
-  unitCanonical: string
-  takenAt: string
-}
-
-export interface ImportSummary {
-  batchId?: number
-  kind: ImportKind
-  committed: boolean
-  rowsRead: number
-  accepted: number
-  /** The first LIST_CAP skipped rows, in file order; skippedTotal counts them all. */
-  skipped: SkippedRow[]
-  skippedTotal: number
-  skipCounts: Partial<Record<SkipCode, number>>
-  /** The first LIST_CAP accepted rows, for review before committing. */
-  acceptedRows: AcceptedRowView[]
-  listCap: number
-  referralsAffected: number
-  derived: number
-  derivationsRefused: number
-  /** An earlier, unreversed batch of exactly the same file (by SHA-256). */
-  sameFileAs: { batchId: number; createdAt: string } | null
-}
 
 /**
  * One import, preview or commit, fed chunk by chunk. Both hold one transaction from the first

@@ -1,7 +1,7 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { ClinicalInputError, type Sex } from '../../../shared/clinical'
 import { ANALYTE_DEFS, DERIVED_UNITS } from '../../../shared/pathway'
-import type { ImportKind } from '../../models/importBatch'
+import type { ImportKind } from '../../../shared/imports'
 import { AuditEntry } from '../../models/index'
 import { egfrFromCreatinine, tsatFromSample, type SampleRow } from '../results'
 import { refreshScreeningMany } from '../screening'
