@@ -1,4 +1,3 @@
-import { recordEpisodeRead } from '../services/readAudit'
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { CLINICAL_WRITERS, STAFF, viewerOf } from './pathwayContext'
@@ -24,9 +23,7 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
   })
 
   api.get('/:id', { access: STAFF }, async (req, res) => {
-    const appointment = await getAppointment(viewerOf(req), idParam(req))
-    await recordEpisodeRead(viewerOf(req), 'appointment', appointment.referralId, appointment.id)
-    res.json(appointment)
+    res.json(await getAppointment(viewerOf(req), idParam(req)))
   })
 
   api.patch('/:id', { access: CLINICAL_WRITERS }, validate(moveAppointmentSchema), async (req, res) => {
@@ -47,9 +44,7 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
 export function referralAppointmentRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
   api.get('/:id/appointments', { access: STAFF }, async (req, res) => {
-    const list = await listReferralAppointments(viewerOf(req), idParam(req))
-    await recordEpisodeRead(viewerOf(req), 'appointments', idParam(req))
-    res.json(list)
+    res.json(await listReferralAppointments(viewerOf(req), idParam(req)))
   })
   return api
 }

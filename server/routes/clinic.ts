@@ -12,7 +12,6 @@ import { listAdministrations, recordAdministration } from '../services/administr
 import { projectionFor } from '../services/projection'
 import { listReadinessReviews, recordReadinessAction } from '../services/readiness'
 import { Invalid } from '../errors'
-import { recordEpisodeRead } from '../services/readAudit'
 
 /** Anaemia clinic and theatre readiness, on an episode. */
 export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
@@ -20,9 +19,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   const doctor = { access: ['doctor'] } as const
 
   api.get('/:id/reviews', { access: STAFF }, async (req, res) => {
-    const rows = await listReviews(viewerOf(req), idParam(req))
-    await recordEpisodeRead(viewerOf(req), 'clinic-reviews', idParam(req))
-    res.json({ rows })
+    res.json({ rows: await listReviews(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/reviews', doctor, validate(reviewSchema), async (req, res) => {
     const b = req.body as ReviewInput
@@ -37,9 +34,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     res.json(await previewDosePlan(viewerOf(req), idParam(req), { productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate }))
   })
   api.get('/:id/prescriptions', { access: STAFF }, async (req, res) => {
-    const rows = await listPrescriptions(viewerOf(req), idParam(req))
-    await recordEpisodeRead(viewerOf(req), 'prescriptions', idParam(req))
-    res.json({ rows })
+    res.json({ rows: await listPrescriptions(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/prescriptions', doctor, validate(prescriptionSchema), async (req, res) => {
     const b = req.body as PrescriptionInput
@@ -50,9 +45,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   api.get('/:id/administrations', { access: STAFF }, async (req, res) => {
-    const rows = await listAdministrations(viewerOf(req), idParam(req))
-    await recordEpisodeRead(viewerOf(req), 'administrations', idParam(req))
-    res.json({ rows })
+    res.json({ rows: await listAdministrations(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/administrations', { access: ['nurse', 'doctor'] }, validate(administrationSchema), async (req, res) => {
     const b = req.body as AdministrationInput
@@ -70,15 +63,11 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
         throw new Invalid('cardiacOutputLMin must be between 1 and 20 L/min', { cardiacOutputLMin: 'must be between 1 and 20 L/min' })
       }
     }
-    const projection = await projectionFor(viewerOf(req), idParam(req), { cardiacOutputLMin })
-    await recordEpisodeRead(viewerOf(req), 'projection', idParam(req))
-    res.json(projection)
+    res.json(await projectionFor(viewerOf(req), idParam(req), { cardiacOutputLMin }))
   })
 
   api.get('/:id/readiness', { access: STAFF }, async (req, res) => {
-    const rows = await listReadinessReviews(viewerOf(req), idParam(req))
-    await recordEpisodeRead(viewerOf(req), 'readiness-reviews', idParam(req))
-    res.json({ rows })
+    res.json({ rows: await listReadinessReviews(viewerOf(req), idParam(req)) })
   })
   // Only the operating surgeon answers; a nurse cannot acknowledge on a surgeon's behalf.
   api.post('/:id/readiness', { access: ['surgeon'] }, validate(readinessActionSchema), async (req, res) => {

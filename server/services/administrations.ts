@@ -74,7 +74,8 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
 }
 
 export async function listAdministrations(viewer: Viewer, referralId: number) {
-  await loadReferral(viewer, referralId)
+  const r = await loadReferral(viewer, referralId)
+  await recordAudit(null, viewer, { action: 'view', entity: 'administrations', entityId: referralId, patientId: r.patientId })
   const rows = await Administration.findAll({ where: { referralId }, include: [{ model: User, as: 'giver', attributes: ['id', 'name'] }], order: [['givenAt', 'DESC']] })
   return rows.map(toAdministrationView)
 }

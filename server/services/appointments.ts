@@ -130,6 +130,7 @@ export async function listReferralAppointments(viewer: Viewer, referralId: numbe
   if (!referral) throw new NotFound('Referral')
   assertMaySeeReferral(viewer, referral.surgeonId)
   const rows = await Appointment.findAll({ where: { referralId }, order: [['startsAt', 'ASC'], ['id', 'ASC']], raw: true })
+  await recordAudit(null, viewer, { action: 'view', entity: 'appointments', entityId: referralId, patientId: referral.patientId })
   return { rows: await withHistory(rows) }
 }
 
@@ -138,5 +139,6 @@ export async function getAppointment(viewer: Viewer, id: number) {
   if (!a) throw new NotFound('Appointment')
   const referral = await Referral.findByPk(a.referralId, { raw: true })
   assertMaySeeReferral(viewer, referral!.surgeonId)
+  await recordAudit(null, viewer, { action: 'view', entity: 'appointment', entityId: id, patientId: referral!.patientId })
   return (await withHistory([a]))[0]!
 }

@@ -45,7 +45,8 @@ export async function recordReview(sequelize: Sequelize, viewer: Viewer, referra
 }
 
 export async function listReviews(viewer: Viewer, referralId: number) {
-  await loadReferral(viewer, referralId)
+  const r = await loadReferral(viewer, referralId)
+  await recordAudit(null, viewer, { action: 'view', entity: 'clinic-reviews', entityId: referralId, patientId: r.patientId })
   const rows = await ClinicReview.findAll({ where: { referralId }, include: [{ model: User, as: 'reviewer', attributes: ['id', 'name'] }], order: [['reviewedAt', 'DESC']] })
   return rows.map(toReviewView)
 }

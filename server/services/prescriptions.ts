@@ -101,7 +101,8 @@ export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId
 }
 
 export async function listPrescriptions(viewer: Viewer, referralId: number) {
-  await loadReferral(viewer, referralId)
+  const r = await loadReferral(viewer, referralId)
+  await recordAudit(null, viewer, { action: 'view', entity: 'prescriptions', entityId: referralId, patientId: r.patientId })
   const rows = await Prescription.findAll({ where: { referralId }, include: [{ model: User, as: 'prescriber', attributes: ['id', 'name'] }], order: [['prescribedAt', 'DESC']] })
   return rows.map(toPrescriptionView)
 }

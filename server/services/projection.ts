@@ -3,6 +3,7 @@ import { buildProjection, type Projection } from '../../shared/clinic/projection
 import { todayIso } from '../../shared/pathway'
 import type { IronStatus } from '../../shared/clinical'
 import { getClinicSettings } from './clinicSettings'
+import { recordAudit } from './audit'
 import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
 import { Prescription } from '../models/index'
 import type { Viewer } from './viewer'
@@ -57,5 +58,9 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
 }
 
 export async function projectionFor(viewer: Viewer, referralId: number, opts: ProjectionOptions = {}): Promise<Projection> {
-  return projectionForReferral(await loadReferral(viewer, referralId), opts)
+  const r = await loadReferral(viewer, referralId)
+  const projection = await projectionForReferral(r, opts)
+  // Audited once the projection exists, so a refusal (missing inputs) is not logged as a view.
+  await recordAudit(null, viewer, { action: 'view', entity: 'projection', entityId: referralId, patientId: r.patientId })
+  return projection
 }

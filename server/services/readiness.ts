@@ -89,7 +89,8 @@ export async function recordReadinessAction(sequelize: Sequelize, viewer: Viewer
 }
 
 export async function listReadinessReviews(viewer: Viewer, referralId: number) {
-  await loadReferral(viewer, referralId)
+  const r = await loadReferral(viewer, referralId)
+  await recordAudit(null, viewer, { action: 'view', entity: 'readiness-reviews', entityId: referralId, patientId: r.patientId })
   const rows = await ReadinessReview.findAll({ where: { referralId }, order: [['at', 'DESC']] })
   return rows.map((r) => ({ id: r.id, action: r.action, reason: r.reason, at: isoOrNull(r.at), surgeonId: r.surgeonId, projection: r.projection }))
 }

@@ -2,7 +2,7 @@
 export const AUDIT_ENTITIES = [
   'patient', 'referral', 'results', 'result', 'outcome', 'follow-up', 'clinic-review', 'prescription', 'administration', 'readiness',
   'appointment', 'appointment-task', 'document', 'documents', 'user', 'procedure', 'iron-product', 'clinic-settings', 'infusion-session', 'audit-trail',
-  // Reads of an episode's sub-records (server/services/readAudit.ts) and the laboratory imports.
+  // Reads of an episode's sub-records (the services that list them) and the laboratory imports.
   'clinic-reviews', 'prescriptions', 'administrations', 'projection', 'readiness-reviews', 'appointments', 'import_batch', 'import_mapping',
 ]
 export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse']
