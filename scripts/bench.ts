@@ -34,6 +34,7 @@ async function main(): Promise<void> {
   const stack = await startStack({
     label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
     dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
+    durability: 'relaxed', // a throw-away database, as in the tests
   })
   try {
     const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1' }

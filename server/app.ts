@@ -11,6 +11,9 @@ import { MariaDbSessionStore } from './auth/sessionStore'
 import { createPassport } from './auth/passport'
 import { requestId } from './middleware/requestId'
 import { requireCsrf } from './middleware/csrf'
+import { signInThrottle } from './middleware/signInThrottle'
+import { jsonBody } from './middleware/jsonBody'
+import { screenRequest } from './middleware/validate'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import type { ApiRouter, RouteSpec } from './routes/apiRouter'
 import { forgetCountsOnEveryWrite } from './services/worklistCounts'
@@ -86,7 +89,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   const sessionStore = new MariaDbSessionStore(config.session.idleMinutes * 60_000)
   const passport = createPassport(config) as unknown as PassportStatic
   const api = express.Router()
-  api.use(express.json({ limit: '1mb' }))
+  api.use(jsonBody({ limit: '1mb' }))
   api.use(
     session({
       name: SESSION_COOKIE,
@@ -100,7 +103,9 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   )
   api.use(passport.initialize())
   api.use(passport.session())
+  api.use('/auth/login', signInThrottle(config))
   api.use(requireCsrf)
+  api.use(screenRequest)
 
   const routers: ApiRouter[] = [
     healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx),

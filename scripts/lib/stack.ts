@@ -14,6 +14,8 @@ export interface StackOptions {
   mailWebPort?: number
   /** Start from an empty database (tests and bench). */
   freshDatabase?: boolean
+  /** See MariaDbOptions.durability: full unless a throw-away instance asks for relaxed. */
+  durability?: 'full' | 'relaxed'
 }
 
 export interface Stack {
@@ -27,7 +29,7 @@ export interface Stack {
 export const repoRoot = path.resolve(import.meta.dirname, '..', '..')
 
 export async function startStack(opts: StackOptions): Promise<Stack> {
-  const mariadb = await startMariaDb({ dataDir: opts.dataDir, port: opts.dbPort, label: opts.label })
+  const mariadb = await startMariaDb({ dataDir: opts.dataDir, port: opts.dbPort, label: opts.label, durability: opts.durability })
   if (opts.freshDatabase) await dropDatabase(mariadb.socket, opts.dbName)
   await ensureDatabase(mariadb.socket, { name: opts.dbName, user: opts.dbUser, password: opts.dbPassword })
   let maildev: MaildevHandle | null = null

@@ -23,7 +23,7 @@ export function createPassport(config: Config): InstanceType<typeof Passport> {
   const passport = new Passport()
   passport.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password', passReqToCallback: true }, (req, email, password, done) => {
-      checkCredentials(config, email, password, clientAddress(req))
+      checkCredentials(email, password, clientAddress(req))
         .then((user) => (user ? done(null, user) : done(null, false, { message: BAD_CREDENTIALS })))
         .catch(done)
     }),

@@ -17,9 +17,11 @@ export function csrfTokenFor(req: Request): string {
 /** Every state-changing request must echo the session's token in X-CSRF-Token. */
 export const requireCsrf: RequestHandler = (req, _res, next) => {
   if (SAFE.has(req.method)) return next()
-  const sent = req.get('X-CSRF-Token') ?? ''
-  const expected = req.session?.csrfToken ?? ''
-  const ok = sent.length > 0 && sent.length === expected.length && timingSafeEqual(Buffer.from(sent), Buffer.from(expected))
+  const sent = Buffer.from(req.get('X-CSRF-Token') ?? '')
+  const expected = Buffer.from(req.session?.csrfToken ?? '')
+  // Compare byte lengths: a header of non-ASCII characters is longer in bytes than in characters,
+  // and timingSafeEqual throws on buffers of different lengths.
+  const ok = sent.length > 0 && sent.length === expected.length && timingSafeEqual(sent, expected)
   if (!ok) return next(new Forbidden('The security token is missing or out of date; reload the page and try again', 'csrf_invalid'))
   next()
 }

@@ -1,5 +1,5 @@
 import type { RequestHandler } from 'express'
-import { ValidationError, type AnyObjectSchema } from 'yup'
+import { ValidationError, type AnyObjectSchema, type InferType } from 'yup'
 import { Invalid } from '../errors'
 
 export function toInvalid(err: ValidationError): Invalid {
@@ -9,16 +9,55 @@ export function toInvalid(err: ValidationError): Invalid {
   return new Invalid(inner[0]!.message, fields)
 }
 
+/**
+ * Keys named like Object.prototype members. yup looks each input key up in a plain object of
+ * fields, so `{"toString": 1}` finds the inherited function and throws a TypeError (a 500);
+ * other code that indexes a table by user input has the same trap. No payload of ours uses them.
+ */
+const SHADOWING = new Set([...Object.getOwnPropertyNames(Object.prototype), 'prototype'])
+const MAX_DEPTH = 32
+
+function screen(value: unknown, path: string, depth: number): void {
+  if (value === null || typeof value !== 'object') return
+  if (depth > MAX_DEPTH) throw new Invalid(`The input is nested more than ${MAX_DEPTH} levels deep`, { [path || '_']: 'Nested too deeply' })
+  for (const key of Object.keys(value)) {
+    const at = path ? `${path}.${key}` : key
+    if (SHADOWING.has(key)) throw new Invalid(`The field "${at}" is not accepted`, { [at]: 'This field name is not accepted' })
+    screen((value as Record<string, unknown>)[key], at, depth + 1)
+  }
+}
+
+/** Throws Invalid naming the first key that shadows an Object.prototype member, or on absurd nesting. */
+export function screenKeys(value: unknown): void {
+  screen(value, '', 0)
+}
+
+/** Every body and query string is screened once, right after parsing, whichever route it reaches. */
+export const screenRequest: RequestHandler = (req, _res, next) => {
+  screenKeys(req.query)
+  screenKeys(req.body)
+  next()
+}
+
+/**
+ * The one way input meets a schema: screened, cast, unknown keys stripped. Routes that parse
+ * their own input (multipart fields) call it after parsing.
+ */
+export async function validateInput<S extends AnyObjectSchema>(schema: S, input: unknown): Promise<InferType<S>> {
+  screenKeys(input)
+  try {
+    return await schema.validate(input ?? {}, { abortEarly: false, stripUnknown: true })
+  } catch (err) {
+    throw err instanceof ValidationError ? toInvalid(err) : err
+  }
+}
+
 /** Replaces req.body with the schema's cast, unknown keys stripped; routes pick fields from it. */
 export function validate(schema: AnyObjectSchema, where: 'body' | 'query' = 'body'): RequestHandler {
   return async (req, res, next) => {
-    try {
-      const value = await schema.validate(req[where] ?? {}, { abortEarly: false, stripUnknown: true })
-      if (where === 'body') req.body = value
-      else res.locals.query = value
-      next()
-    } catch (err) {
-      next(err instanceof ValidationError ? toInvalid(err) : err)
-    }
+    const value = await validateInput(schema, req[where])
+    if (where === 'body') req.body = value
+    else res.locals.query = value
+    next()
   }
 }

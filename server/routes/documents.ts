@@ -3,9 +3,8 @@ import multer from 'multer'
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { STAFF, viewerOf } from './pathwayContext'
-import { toInvalid } from '../middleware/validate'
+import { validateInput } from '../middleware/validate'
 import { AppError, Invalid } from '../errors'
-import { ValidationError } from 'yup'
 import { UPLOAD_MAX_BYTES, UPLOAD_MAX_MB, uploadDocumentSchema } from '../../shared/schemas/documents'
 import { listDocuments, openDocument, referralForAttaching, uploadDocument } from '../services/documents/index'
 
@@ -52,12 +51,7 @@ export function documentRoutes({ sequelize, config }: AppContext): ApiRouter {
     // Who may attach, and whether the episode is open, is settled before the body is read.
     await referralForAttaching(viewer, referralId)
     const file = await receiveFile(req, res)
-    let fields
-    try {
-      fields = await uploadDocumentSchema.validate(req.body ?? {}, { abortEarly: false, stripUnknown: true })
-    } catch (err) {
-      throw err instanceof ValidationError ? toInvalid(err) : err
-    }
+    const fields = await validateInput(uploadDocumentSchema, req.body)
     res.status(201).json(await uploadDocument(sequelize, config, viewer, referralId, {
       kind: fields.kind, title: fields.title, originalName: file.originalname, bytes: file.buffer,
     }))

@@ -1,4 +1,4 @@
-import express, { type RequestHandler } from 'express'
+import type { RequestHandler } from 'express'
 import multer from 'multer'
 import { readFile, rm } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
@@ -7,7 +7,8 @@ import { fileTypeFromFile } from 'file-type'
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { viewerOf } from './pathwayContext'
-import { validate, toInvalid } from '../middleware/validate'
+import { validate, validateInput, screenKeys } from '../middleware/validate'
+import { jsonBody, parseJsonText } from '../middleware/jsonBody'
 import { ValidationError } from 'yup'
 import { MAX_CSV_BYTES, MAX_FHIR_BYTES, type ColumnMapping } from '../../shared/imports'
 import { asColumnMapping, columnMappingSchema, fhirImportQuerySchema, labImportFieldsSchema, reversalSchema, saveMappingSchema, sourceNameField, type ReversalInput } from '../../shared/schemas/imports'
@@ -56,15 +57,9 @@ async function assertCsv(file: Express.Multer.File): Promise<void> {
   if (head.includes(0)) throw refuse('the file contains binary data')
 }
 
-function mappingFromField(raw: string): ColumnMapping {
-  let parsed: unknown
-  try { parsed = JSON.parse(raw) } catch { throw new Invalid('mapping must be JSON (the column mapping)', { mapping: 'is not valid JSON' }) }
-  try {
-    return asColumnMapping(columnMappingSchema.validateSync(parsed, { abortEarly: false, stripUnknown: true }))
-  } catch (err) {
-    if (err instanceof ValidationError) throw toInvalid(err)
-    throw err
-  }
+async function mappingFromField(raw: string): Promise<ColumnMapping> {
+  const parsed = parseJsonText(raw, () => new Invalid('mapping must be JSON (the column mapping)', { mapping: 'is not valid JSON' }))
+  return asColumnMapping(await validateInput(columnMappingSchema, parsed))
 }
 
 export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
@@ -73,10 +68,10 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
   api.post('/lab-results', { access: IMPORTERS }, csvUpload, async (req, res) => {
     const file = req.file
     try {
-      const fields = await labImportFieldsSchema.validate(req.body ?? {}, { abortEarly: false, stripUnknown: true }).catch((e: unknown) => { throw e instanceof ValidationError ? toInvalid(e) : e })
+      const fields = await validateInput(labImportFieldsSchema, req.body)
       if (!file) throw new Invalid('file is required (the laboratory CSV, in the multipart field "file")', { file: 'is required' })
       await assertCsv(file)
-      const mapping = fields.mapping ? mappingFromField(fields.mapping) : (await mappingFor(fields.source)).mapping
+      const mapping = fields.mapping ? await mappingFromField(fields.mapping) : (await mappingFor(fields.source)).mapping
       const out = await importLabCsv(sequelize, viewerOf(req), { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' }, config.clinic.timeZone)
       res.status(out.batchId ? 201 : 200).json(out)
     } finally {
@@ -85,12 +80,13 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
   })
 
   // FHIR's own media type gets a raised limit here; plain application/json passes the app's 1 MB parser.
-  api.post('/fhir', { access: IMPORTERS }, express.json({ type: ['application/fhir+json'], limit: MAX_FHIR_BYTES }), fhirUpload, validate(fhirImportQuerySchema, 'query'), async (req, res) => {
+  api.post('/fhir', { access: IMPORTERS }, ...jsonBody({ type: ['application/fhir+json'], limit: MAX_FHIR_BYTES }), fhirUpload, validate(fhirImportQuerySchema, 'query'), async (req, res) => {
     const q = res.locals.query as { commit: string; storeValid: string; source: string }
     let bundle: unknown = req.body
     if (req.file) {
-      try { bundle = JSON.parse(req.file.buffer.toString('utf8')) } catch { throw new Invalid('The file is not valid JSON (a FHIR R4 Bundle was expected)', { file: 'is not valid JSON' }) }
+      bundle = parseJsonText(req.file.buffer.toString('utf8'), () => new Invalid('The file is not valid JSON (a FHIR R4 Bundle was expected)', { file: 'is not valid JSON' }))
     }
+    screenKeys(bundle)
     const out = await importFhirBundle(sequelize, viewerOf(req), bundle, { commit: q.commit === 'true', storeValid: q.storeValid === 'true', sourceName: q.source })
     res.status(out.batchId ? 201 : 200).json(out)
   })

@@ -19,7 +19,7 @@ export function reportRoutes({ sequelize }: AppContext): ApiRouter {
     // One table per download; the first unless ?table= names another.
     const names = Object.keys(report.tables)
     const table = typeof req.query.table === 'string' && req.query.table !== '' ? req.query.table : names[0]!
-    if (!report.tables[table]) throw new Invalid(`table must be one of ${names.join(', ')}`, { table: `must be one of ${names.join(', ')}` })
+    if (!Object.hasOwn(report.tables, table)) throw new Invalid(`table must be one of ${names.join(', ')}`, { table: `must be one of ${names.join(', ')}` })
     res.type('text/csv; charset=utf-8')
     res.attachment(`${name}-${table}-${report.period.from}-to-${report.period.to}.csv`)
     res.send(tableToCsv(report.tables[table]))

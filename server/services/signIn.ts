@@ -1,4 +1,5 @@
-import { Op, QueryTypes } from 'sequelize'
+import { createHash } from 'node:crypto'
+import { QueryTypes } from 'sequelize'
 import { User, LoginFailure } from '../models/index'
 import type { Config } from '../config'
 import type { SessionUser } from '../../shared/types'
@@ -9,45 +10,62 @@ import { TooMany } from '../errors'
 /** Same words for an unknown e-mail and a wrong password: the answer must not reveal accounts. */
 export const BAD_CREDENTIALS = 'E-mail or password is not correct'
 
-function buckets(email: string, ip: string): { account: string; address: string } {
-  return { account: `account:${email.toLowerCase()}`, address: `address:${ip}` }
+/**
+ * The account bucket holds a hash of the address: whatever was typed (even 10,000 characters)
+ * fits the key, and the table never holds the addresses people tried.
+ */
+function accountBucket(email: unknown): string | null {
+  if (typeof email !== 'string' || email.trim() === '') return null
+  return `account:${createHash('sha256').update(email.trim().toLowerCase()).digest('hex')}`
 }
+const addressBucket = (ip: string) => `address:${ip.slice(0, 200)}`
 
-async function failuresIn(bucket: string, since: Date): Promise<number> {
-  const row = await LoginFailure.findOne({ where: { bucket, windowStartedAt: { [Op.gte]: since } }, raw: true })
-  return row?.failures ?? 0
-}
-
-async function countFailure(bucket: string, windowStart: Date): Promise<void> {
+/**
+ * Adds one to a bucket and reads the new count in the same transaction: the row lock serialises
+ * parallel attempts, so each sees its own number and no more than the limit get through.
+ */
+async function bump(bucket: string, windowStart: Date): Promise<number> {
   const sequelize = LoginFailure.sequelize!
-  // One statement, so concurrent failures from several processes all count.
-  await sequelize.query(
-    `INSERT INTO login_failures (bucket, failures, window_started_at) VALUES (?, 1, NOW())
-     ON DUPLICATE KEY UPDATE
-       failures = IF(window_started_at < ?, 1, failures + 1),
-       window_started_at = IF(window_started_at < ?, NOW(), window_started_at)`,
-    { replacements: [bucket, windowStart, windowStart], type: QueryTypes.INSERT },
-  )
+  return sequelize.transaction(async (transaction) => {
+    await sequelize.query(
+      `INSERT INTO login_failures (bucket, failures, window_started_at) VALUES (?, 1, NOW())
+       ON DUPLICATE KEY UPDATE
+         failures = IF(window_started_at < ?, 1, failures + 1),
+         window_started_at = IF(window_started_at < ?, NOW(), window_started_at)`,
+      { replacements: [bucket, windowStart, windowStart], type: QueryTypes.INSERT, transaction },
+    )
+    const rows = await sequelize.query<{ failures: number }>('SELECT failures FROM login_failures WHERE bucket = ?', {
+      replacements: [bucket], type: QueryTypes.SELECT, transaction,
+    })
+    return Number(rows[0]?.failures ?? 0)
+  })
 }
 
-/** Checks the throttle, then the password; throws TooMany while an account or address is locked out. */
-export async function checkCredentials(config: Config, email: string, password: string, ip: string): Promise<SessionUser | null> {
-  const b = buckets(email, ip)
+/**
+ * Counts a sign-in attempt before anything else looks at it (its shape, its password), as a
+ * failure until proven otherwise; throws TooMany past the limit of the account or the address.
+ */
+export async function countSignInAttempt(config: Config, email: unknown, ip: string): Promise<void> {
   const windowStart = new Date(Date.now() - config.login.windowMinutes * 60_000)
-  const [byAccount, byAddress] = await Promise.all([failuresIn(b.account, windowStart), failuresIn(b.address, windowStart)])
-  if (byAccount >= config.login.maxFailuresPerAccount || byAddress >= config.login.maxFailuresPerAddress) {
+  const account = accountBucket(email)
+  const byAddress = await bump(addressBucket(ip), windowStart)
+  const byAccount = account ? await bump(account, windowStart) : 0
+  if (byAccount > config.login.maxFailuresPerAccount || byAddress > config.login.maxFailuresPerAddress) {
     throw new TooMany(
       `Too many failed sign-ins. Wait ${config.login.windowMinutes} minutes and try again, or ask an administrator to reset your password.`,
     )
   }
+}
+
+/** Checks the password of an attempt already counted; a success takes the attempt back off the counts. */
+export async function checkCredentials(email: string, password: string, ip: string): Promise<SessionUser | null> {
   const user = await User.findOne({ where: { email: email.toLowerCase() } })
   const ok = user ? user.active && (await verifyPassword(password, user.passwordHash)) : (await burnPasswordCheck(password), false)
-  if (!ok || !user) {
-    await countFailure(b.account, windowStart)
-    await countFailure(b.address, windowStart)
-    return null
-  }
-  await LoginFailure.destroy({ where: { bucket: b.account } })
+  if (!ok || !user) return null
+  await LoginFailure.destroy({ where: { bucket: accountBucket(email)! } })
+  await LoginFailure.sequelize!.query('UPDATE login_failures SET failures = GREATEST(failures, 1) - 1 WHERE bucket = ?', {
+    replacements: [addressBucket(ip)], type: QueryTypes.UPDATE,
+  })
   await user.update({ lastSignInAt: new Date() })
   return toSessionUser(user)
 }

@@ -12,6 +12,7 @@ const MAX_AHEAD_MS = 2 * 366 * 86_400_000
 const startsAt = yup
   .string()
   .trim()
+  .max(40, 'startsAt must be a date and time with its offset, e.g. 2026-05-12T09:30:00+01:00')
   .test('iso-instant', 'startsAt must be a date and time with its offset, e.g. 2026-05-12T09:30:00+01:00', (v) => v == null || (WITH_OFFSET.test(v) && !Number.isNaN(Date.parse(v))))
   .test('future', 'startsAt must be in the future', (v) => v == null || !WITH_OFFSET.test(v) || Date.parse(v) > Date.now() - CLOCK_SKEW_MS)
   .test('not-far', 'startsAt must be within two years', (v) => v == null || !WITH_OFFSET.test(v) || Date.parse(v) < Date.now() + MAX_AHEAD_MS)

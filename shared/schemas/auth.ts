@@ -1,9 +1,10 @@
 import * as yup from 'yup'
+import { emailField } from './fields'
 
 export const PASSWORD_MIN_LENGTH = 12
 
 export const loginSchema = yup.object({
-  email: yup.string().trim().lowercase().required('E-mail is required').email('E-mail must be a valid address'),
+  email: emailField().required('E-mail is required'),
   password: yup.string().required('Password is required').max(200, 'Password must be at most 200 characters'),
 })
 export type LoginInput = yup.InferType<typeof loginSchema>

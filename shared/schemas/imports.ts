@@ -46,7 +46,7 @@ const flag = (name: string) =>
 export const labImportFieldsSchema = yup.object({
   commit: flag('commit'),
   source: sourceNameField,
-  mapping: yup.string().optional(),
+  mapping: yup.string().max(64 * 1024, 'mapping must be at most 64 KB of JSON').optional(),
 })
 
 export const fhirImportQuerySchema = yup.object({

@@ -12,6 +12,7 @@ export const createResultSchema = yup.object({
   unit: yup
     .string()
     .required('unit is required')
+    .max(20, 'unit must be at most 20 characters')
     .transform((v: unknown) => (typeof v === 'string' ? normaliseUnit(v) : v))
     .test('known-unit', function (unit) {
       const analyte: unknown = this.parent.analyte

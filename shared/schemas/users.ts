@@ -1,12 +1,13 @@
 import * as yup from 'yup'
 import { ROLES } from '../roles'
+import { emailField } from './fields'
 
 const roleField = yup
   .string()
   .oneOf([...ROLES], `Role must be one of ${ROLES.join(', ')}`)
 
 export const createUserSchema = yup.object({
-  email: yup.string().trim().lowercase().required('E-mail is required').email('E-mail must be a valid address').max(190),
+  email: emailField('E-mail', 190).required('E-mail is required'),
   name: yup.string().trim().required('Name is required').min(2, 'Name must be at least 2 characters').max(120, 'Name must be at most 120 characters'),
   role: roleField.required('Role is required'),
 })
