@@ -17,6 +17,7 @@ import { screenRequest } from './middleware/validate'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import type { ApiRouter, RouteSpec } from './routes/apiRouter'
 import { forgetCountsOnEveryWrite } from './services/worklistCounts'
+import { setViewAuditWindow } from './services/audit'
 import type { AppContext } from './routes/context'
 import { healthRoutes } from './routes/health'
 import { authRoutes } from './routes/auth'
@@ -78,6 +79,7 @@ function contentSecurityPolicy(config: Config) {
 /** Builds the whole app without listening, so tests can drive it with Supertest. */
 export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   initModels(sequelize)
+  setViewAuditWindow(config.auditViewWindowMinutes)
   forgetCountsOnEveryWrite(sequelize)
   const ctx: AppContext = { config, sequelize }
   const app = express()

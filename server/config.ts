@@ -58,6 +58,8 @@ export interface Config {
   /** PUBLIC_URL: base of links in e-mails */ publicUrl: string
   /** UPLOAD_DIR: where episode documents and letters are stored, outside the web root */ uploadDir: string
   /** PATIENT_ID_SYSTEM: URI naming the hospital number (MRN) in FHIR exports */ patientIdSystem: string
+  /** SHUTDOWN_GRACE_SECONDS: on SIGTERM, how long requests in flight may take to finish */ shutdownGraceSeconds: number
+  /** AUDIT_VIEW_WINDOW_MINUTES: a background read of the same record by the same user is audited once per window */ auditViewWindowMinutes: number
 }
 
 type Env = Record<string, string | undefined>
@@ -152,5 +154,7 @@ export function loadConfig(env: Env = process.env): Config {
     // Resolved once so a later chdir cannot move the store; the start and test scripts point it into their data dir.
     uploadDir: path.resolve(env.UPLOAD_DIR || '.data/uploads'),
     patientIdSystem: uri(env, 'PATIENT_ID_SYSTEM', DEMO_PATIENT_ID_SYSTEM),
+    shutdownGraceSeconds: int(env, 'SHUTDOWN_GRACE_SECONDS', 10, 1, 600),
+    auditViewWindowMinutes: int(env, 'AUDIT_VIEW_WINDOW_MINUTES', 15, 0, 24 * 60),
   }
 }

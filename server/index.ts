@@ -1,9 +1,44 @@
+import type { Server } from 'node:http'
 import { loadConfig } from './config'
 import { createSequelize } from './db'
 import { createApp } from './app'
 import { OutboxWorker } from './services/outboxWorker'
 
-/** The only place that listens. Stops cleanly on SIGINT/SIGTERM so the start script can shut MariaDB down after it. */
+/**
+ * The only place that listens. A mistake nobody caught (an unhandled rejection, an uncaught
+ * exception) leaves the process in an unknown state: it is logged and the process exits non-zero
+ * so the supervisor (the start script, systemd) starts a fresh one. SIGTERM/SIGINT stop it
+ * gracefully: no new connections, requests in flight get SHUTDOWN_GRACE_SECONDS to finish, then
+ * the outbox worker stops, the pool closes and the process exits 0.
+ */
+process.on('unhandledRejection', (reason) => {
+  console.error('Ferrolane: unhandled promise rejection; exiting so the supervisor restarts the server', reason)
+  process.exit(1)
+})
+process.on('uncaughtException', (err) => {
+  console.error('Ferrolane: uncaught exception; exiting so the supervisor restarts the server', err)
+  process.exit(1)
+})
+
+/** Resolves true once every connection has ended, false if the grace period ran out first. */
+function drain(server: Server, graceMs: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    // close() stops accepting and ends idle keep-alive sockets once; sockets that go idle after
+    // their last response are ended by the repeat below.
+    const idle = setInterval(() => server.closeIdleConnections(), 100)
+    const deadline = setTimeout(() => {
+      clearInterval(idle)
+      server.closeAllConnections()
+      resolve(false)
+    }, graceMs)
+    server.close(() => {
+      clearInterval(idle)
+      clearTimeout(deadline)
+      resolve(true)
+    })
+  })
+}
+
 async function main(): Promise<void> {
   const config = loadConfig()
   const sequelize = createSequelize(config)
@@ -15,14 +50,21 @@ async function main(): Promise<void> {
   const outbox = new OutboxWorker({ sequelize, config })
   outbox.start()
   const sweep = setInterval(() => void sessionStore.sweep().catch(() => {}), 10 * 60_000)
-  const stop = (signal: string) => {
-    console.log(`Ferrolane stopping (${signal})`)
+  let stopping = false
+  const stop = async (signal: string) => {
+    if (stopping) return
+    stopping = true
+    console.log(`Ferrolane stopping (${signal}): finishing requests in flight (at most ${config.shutdownGraceSeconds} s)`)
     clearInterval(sweep)
-    server.close(() => void outbox.stop().finally(() => sequelize.close()).finally(() => process.exit(0)))
-    setTimeout(() => process.exit(0), 5000).unref()
+    const finished = await drain(server, config.shutdownGraceSeconds * 1000)
+    if (!finished) console.error('Ferrolane: requests still running after the grace period were cut off')
+    await outbox.stop().catch((err) => console.error('Ferrolane: stopping the outbox worker', err))
+    await sequelize.close().catch((err) => console.error('Ferrolane: closing the database pool', err))
+    console.log('Ferrolane stopped')
+    process.exit(finished ? 0 : 1)
   }
-  process.on('SIGINT', () => stop('SIGINT'))
-  process.on('SIGTERM', () => stop('SIGTERM'))
+  process.on('SIGINT', () => void stop('SIGINT'))
+  process.on('SIGTERM', () => void stop('SIGTERM'))
 }
 
 main().catch((err) => {

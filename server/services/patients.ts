@@ -125,7 +125,7 @@ export async function getPatient(viewer: Viewer, id: number) {
     PatientMeasurement.findAll({ where: { patientId: id }, order: [['measuredAt', 'DESC'], ['id', 'DESC']], raw: true }),
     Referral.findAll({ where: { patientId: id }, include: [{ model: Procedure, as: 'procedure' }], order: [['plannedSurgeryDate', 'DESC']] }),
   ])
-  await recordAudit(null, viewer, { action: 'view', entity: 'patient', entityId: id, patientId: id })
+  await recordAudit(null, viewer, { action: 'view', entity: 'patient', entityId: id, patientId: id, opensRecord: true })
   return {
     ...view,
     measurements: measurements.map((m) => ({ id: m.id, heightCm: m.heightCm, weightKg: m.weightKg, measuredAt: isoOrNull(m.measuredAt), recordedBy: m.recordedBy })),

@@ -53,7 +53,7 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     Result.findAll({ where: { referralId: id }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
     StageTransition.findAll({ where: { referralId: id }, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']] }),
   ])
-  if (opts.audit) await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId })
+  if (opts.audit) await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId, opensRecord: true })
   const results = resultRows.map(toResultView)
   const today = todayIso()
   return {
