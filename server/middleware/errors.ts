@@ -4,6 +4,18 @@ import { AppError, NotFound } from '../errors'
 import { isDatabaseUnavailable, RETRY_AFTER_SECONDS } from '../dbUnavailable'
 import { toInvalid } from './validate'
 
+// An outage answers every request with a 503; one log line every few seconds says so without
+// flooding the log.
+let outageLoggedAt = 0
+let outageUnlogged = 0
+function logOutage(requestId: string, err: Error): void {
+  outageUnlogged += 1
+  if (Date.now() - outageLoggedAt < RETRY_AFTER_SECONDS * 1000) return
+  console.error(`[request ${requestId}] database unavailable (${outageUnlogged} request(s) answered 503 since the last line): ${err.name}: ${err.message}`)
+  outageLoggedAt = Date.now()
+  outageUnlogged = 0
+}
+
 export const apiNotFound: RequestHandler = (req, _res, next) => next(new NotFound(`The API route ${req.method} ${req.path}`))
 
 const BODY_ERRORS: Record<string, string> = {
@@ -30,7 +42,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
     return
   }
   if (isDatabaseUnavailable(err)) {
-    console.error(`[request ${req.id}] database unavailable: ${(err as Error).name}: ${(err as Error).message}`)
+    logOutage(req.id, err as Error)
     res.set('Retry-After', String(RETRY_AFTER_SECONDS))
     res.status(503).json({ error: { code: 'unavailable', message: 'Ferrolane cannot reach its database just now; try again in a few seconds' } })
     return

@@ -48,8 +48,28 @@ export async function validateInput<S extends AnyObjectSchema>(schema: S, input:
   try {
     return await schema.validate(input ?? {}, { abortEarly: false, stripUnknown: true })
   } catch (err) {
-    throw err instanceof ValidationError ? toInvalid(err) : err
+    if (err instanceof ValidationError) throw toInvalid(err)
+    // yup's transforms (trim, lowercase) call string methods on whatever arrived: an object or an
+    // array where text belongs throws a TypeError. Without transforms (strict), the type checks
+    // name the fields that hold the wrong kind of value.
+    if (err instanceof TypeError) throw await wrongTypes(schema, input)
+    throw err
   }
+}
+
+const article = (type: string) => (/^[aeiou]/.test(type) ? `an ${type}` : `a ${type}`)
+
+async function wrongTypes(schema: AnyObjectSchema, input: unknown): Promise<Invalid> {
+  try {
+    await schema.validate(input ?? {}, { abortEarly: false, stripUnknown: true, strict: true })
+  } catch (err) {
+    if (err instanceof ValidationError) {
+      // yup's own type message repeats the value, which may be huge: name the field and the type.
+      for (const e of err.inner) if (e.type === 'typeError') e.message = `${e.path} must be ${article(String(e.params?.type))}`
+      return toInvalid(err)
+    }
+  }
+  return new Invalid('A field holds a value of the wrong type (a list or an object where text or a number belongs)')
 }
 
 /** Replaces req.body with the schema's cast, unknown keys stripped; routes pick fields from it. */

@@ -14,4 +14,6 @@ export const clinicSettingsSchema = yup
     weightMaxAgeDays: yup.number().typeError('Weight age must be a number of days').integer().min(7).max(365),
   })
   .noUnknown(true, 'Unknown setting: ${unknown}')
+  // Unknown keys are stripped before noUnknown sees them: an empty edit must not count as a change.
+  .test('something-to-change', 'Send at least one setting to change', (v) => Object.values(v ?? {}).some((x) => x !== undefined))
 export type ClinicSettingsInput = yup.InferType<typeof clinicSettingsSchema>
