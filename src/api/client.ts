@@ -54,8 +54,8 @@ async function toApiError(response: Response): Promise<ApiError> {
   return new ApiError(response.status, `http_${response.status}`, message)
 }
 
-async function send<T>(method: Method, path: string, body?: unknown): Promise<T> {
-  const headers: Record<string, string> = { Accept: 'application/json' }
+async function send<T>(method: Method, path: string, body?: unknown, extra: Record<string, string> = {}): Promise<T> {
+  const headers: Record<string, string> = { Accept: 'application/json', ...extra }
   // A FormData body (file upload) sets its own multipart Content-Type with the boundary.
   const isForm = typeof FormData !== 'undefined' && body instanceof FormData
   if (body !== undefined && !isForm) headers['Content-Type'] = 'application/json'
@@ -78,9 +78,9 @@ async function send<T>(method: Method, path: string, body?: unknown): Promise<T>
   return (await response.json()) as T
 }
 
-async function request<T>(method: Method, path: string, body?: unknown): Promise<T> {
+async function request<T>(method: Method, path: string, body?: unknown, extra?: Record<string, string>): Promise<T> {
   try {
-    return await send<T>(method, path, body)
+    return await send<T>(method, path, body, extra)
   } catch (error) {
     if (!(error instanceof ApiError)) throw error
     // A stale token (e.g. the session was renewed elsewhere): fetch a new one and retry once.
@@ -104,7 +104,12 @@ function notify(error: unknown): void {
 }
 
 export const api = {
-  get: <T>(path: string) => request<T>('GET', path),
+  /**
+   * `refetch`: the screen already shows this data and is re-reading it (a poll, a refetch on
+   * focus). The server audits such reads once per window instead of every time.
+   */
+  get: <T>(path: string, opts: { refetch?: boolean } = {}) =>
+    request<T>('GET', path, undefined, opts.refetch ? { 'X-Ferrolane-Refetch': '1' } : undefined),
   post: <T>(path: string, body?: unknown) => request<T>('POST', path, body ?? {}),
   patch: <T>(path: string, body: unknown) => request<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => request<T>('PUT', path, body),

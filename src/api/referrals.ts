@@ -3,8 +3,9 @@ import type { CreateResultInput } from '@shared/schemas/results'
 import { api } from './client'
 import type { ReferralDetail, ResultView, Screening } from './pathwayTypes'
 
-export function getReferral(id: number): Promise<ReferralDetail> {
-  return api.get<ReferralDetail>(`/referrals/${id}`)
+/** `refetch`: the episode is already on screen (a poll); opening it is audited every time, polls are not. */
+export function getReferral(id: number, opts: { refetch?: boolean } = {}): Promise<ReferralDetail> {
+  return api.get<ReferralDetail>(`/referrals/${id}`, opts)
 }
 
 export function createReferral(input: CreateReferralInput): Promise<ReferralDetail> {

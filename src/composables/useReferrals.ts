@@ -30,9 +30,17 @@ export function useWorklistQuery(filters: MaybeRefOrGetter<WorklistFilters>) {
 }
 
 export function useReferralQuery(id: MaybeRefOrGetter<number>) {
+  // The first read of an episode by this screen is a person opening it (always audited); later
+  // reads of the same episode are polls and refetches, marked so the audit counts them once.
+  let opened: number | null = null
   return useQuery({
     queryKey: computed(() => referralKeys.detail(toValue(id))),
-    queryFn: () => getReferral(toValue(id)),
+    queryFn: () => {
+      const current = toValue(id)
+      const refetch = opened === current
+      opened = current
+      return getReferral(current, { refetch })
+    },
     refetchInterval: DETAIL_POLL_MS,
     refetchOnWindowFocus: true,
   })
