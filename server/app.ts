@@ -6,6 +6,7 @@ import { existsSync } from 'node:fs'
 import type { Sequelize } from 'sequelize'
 import type { PassportStatic } from 'passport'
 import type { Config } from './config'
+import { setClinicTimeZone } from './services/clinicDay'
 import { initModels } from './models/index'
 import { MariaDbSessionStore } from './auth/sessionStore'
 import { createPassport } from './auth/passport'
@@ -75,6 +76,7 @@ function contentSecurityPolicy(config: Config) {
 /** Builds the whole app without listening, so tests can drive it with Supertest. */
 export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   initModels(sequelize)
+  setClinicTimeZone(config.clinic.timeZone)
   forgetCountsOnEveryWrite(sequelize)
   const ctx: AppContext = { config, sequelize }
   const app = express()

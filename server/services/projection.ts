@@ -1,6 +1,5 @@
 import { ClinicalInputError, type HbTreatment } from '../../shared/clinical'
 import { buildProjection, type Projection } from '../../shared/clinic/projection'
-import { todayIso } from '../../shared/pathway'
 import type { IronStatus } from '../../shared/clinical'
 import { getClinicSettings } from './clinicSettings'
 import { recordAudit } from './audit'
@@ -8,6 +7,7 @@ import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
 import { Prescription } from '../models/index'
 import type { Viewer } from './viewer'
 import { RuleRefused } from '../errors'
+import { clinicToday } from './clinicDay'
 
 export interface ProjectionOptions { cardiacOutputLMin?: number }
 
@@ -32,7 +32,7 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
   }
   try {
     return buildProjection({
-      today: todayIso(),
+      today: clinicToday(),
       plannedSurgeryDate: r.plannedSurgeryDate,
       sex: r.patient.sex,
       heightCm: facts.body.heightCm,

@@ -1,6 +1,6 @@
 import { Op, type Sequelize } from 'sequelize'
 import { Patient, Procedure, ReadinessReview, Referral, User } from '../models/index'
-import { PRE_OPERATIVE_STAGES, STAGE_LABELS, addDays, daysBetween, referralFlags, todayIso, FLAG_LABELS } from '../../shared/pathway'
+import { PRE_OPERATIVE_STAGES, STAGE_LABELS, addDays, daysBetween, referralFlags, FLAG_LABELS } from '../../shared/pathway'
 import { VERDICT_LABELS } from '../../shared/clinic/readiness'
 import type { ReadinessActionInput } from '../../shared/schemas/clinic'
 import { recordAudit } from './audit'
@@ -8,6 +8,7 @@ import { loadReferral, type LoadedReferral } from './episode'
 import { projectionForReferral } from './projection'
 import { isoOrNull, type Viewer } from './viewer'
 import { AppError, Forbidden } from '../errors'
+import { clinicTimeZone, clinicToday } from './clinicDay'
 
 export interface BoardQuery { from?: string; to?: string; procedureCode?: string; surgeonId?: number }
 
@@ -19,7 +20,7 @@ function reviewView(r: ReadinessReview | null) {
 
 /** The readiness board: episodes with surgery in the window (default the next 8 weeks), each projected. */
 export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
-  const today = todayIso()
+  const today = clinicToday()
   const where: Record<string, unknown> = {
     stage: { [Op.in]: PRE_OPERATIVE_STAGES },
     plannedSurgeryDate: { [Op.between]: [q.from ?? today, q.to ?? addDays(today, BOARD_WEEKS * 7)] },
@@ -45,7 +46,7 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
   for (const rv of reviews) if (!latestReview.has(rv.referralId)) latestReview.set(rv.referralId, rv)
 
   return Promise.all(rows.map(async (r) => {
-    const flags = referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today)
+    const flags = referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today, clinicTimeZone())
     const base = {
       id: r.id, version: r.version, stage: r.stage, stageLabel: STAGE_LABELS[r.stage], priority: r.priority,
       plannedSurgeryDate: r.plannedSurgeryDate, daysToSurgery: daysBetween(today, r.plannedSurgeryDate),
