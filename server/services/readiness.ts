@@ -1,7 +1,7 @@
 import { Op, type Sequelize } from 'sequelize'
 import { Patient, Procedure, ReadinessReview, Referral, User } from '../models/index'
 import { PRE_OPERATIVE_STAGES, STAGE_LABELS, addDays, daysBetween, referralFlags, FLAG_LABELS } from '../../shared/pathway'
-import { VERDICT_LABELS } from '../../shared/clinic/readiness'
+import { READINESS_FLAG_LABELS, VERDICT_LABELS } from '../../shared/clinic/readiness'
 import type { ReadinessActionInput } from '../../shared/schemas/clinic'
 import { recordAudit } from './audit'
 import { loadReferral, type LoadedReferral } from './episode'
@@ -58,11 +58,13 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
       const p = await projectionForReferral(r)
       return {
         ...base, verdict: p.readiness.verdict, verdictLabel: VERDICT_LABELS[p.readiness.verdict], predictedSurgeryHbGL: p.predictedSurgeryHbGL,
-        allowableBloodLossMl: p.allowableBloodLossMl.logarithmic, expectedBloodLossMl: p.expectedBloodLossMl, bloodOrder: p.bloodOrder, missing: null,
+        allowableBloodLossMl: p.allowableBloodLossMl.logarithmic, expectedBloodLossMl: p.expectedBloodLossMl,
+        bloodOrder: { kind: p.bloodOrder.kind, units: p.bloodOrder.units, decidedBy: p.bloodOrder.decidedBy },
+        needs: p.readiness.missing, concerns: p.readiness.flags.map((key) => ({ key, label: READINESS_FLAG_LABELS[key] })), missing: null,
       }
     } catch (err) {
       if (err instanceof AppError && err.status === 422) {
-        return { ...base, verdict: null, verdictLabel: 'Cannot project yet', predictedSurgeryHbGL: null, allowableBloodLossMl: null, expectedBloodLossMl: null, bloodOrder: null, missing: err.message }
+        return { ...base, verdict: null, verdictLabel: 'Cannot project yet', predictedSurgeryHbGL: null, allowableBloodLossMl: null, expectedBloodLossMl: null, bloodOrder: null, needs: [], concerns: [], missing: err.message }
       }
       throw err
     }

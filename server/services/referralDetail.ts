@@ -82,6 +82,9 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     treatmentGivenAt: isoOrNull(r.treatmentGivenAt),
     // Set at clinic review; the review form must show the stored answer, not guess it.
     cardiovascularDisease: Boolean(r.cardiovascularDisease),
+    // Recorded on the episode; both change the blood plan (migration 0010).
+    redCellAntibodies: r.redCellAntibodies ?? null,
+    declinesTransfusion: Boolean(r.declinesTransfusion),
     dateChangeRequestedAt: isoOrNull(r.dateChangeRequestedAt),
     allowedMoves: allowedMoves(r.stage, viewer.role),
     timeline: timelineOf(transitions as TransitionRow[], results),

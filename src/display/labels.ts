@@ -68,6 +68,8 @@ export function asSentence(message: string | undefined): string {
 /** Readiness verdicts: word (from the server's VERDICT_LABELS) plus an icon and a tone, never colour alone. */
 export const VERDICT_LOOK: Record<Verdict, { icon: string; tone: Tone }> = {
   ready: { icon: 'pi pi-check-circle', tone: 'success' },
+  // Not a judgement on the patient: an instruction to take the bloods that would clear them.
+  'results-needed': { icon: 'pi pi-hourglass', tone: 'info' },
   optimise: { icon: 'pi pi-exclamation-triangle', tone: 'warn' },
   // Deferral is a prompt to talk, not a refusal: amber, not red.
   'consider-deferral': { icon: 'pi pi-calendar-times', tone: 'warn' },
