@@ -127,7 +127,7 @@ export function readinessVerdict(v: VerdictInput): ReadinessVerdict {
   }
   const worstHb = Math.min(v.projectedSurgeryHbGL, measured ?? v.projectedSurgeryHbGL)
   if (routine && projectedBelow && (v.projectedSurgeryHbGL < DEFERRAL_HB_GL || lossBeyondTolerance)) {
-    reasons.push(`Routine operation, still anaemic on the day (below ${DEFERRAL_HB_GL} g/L or loss beyond tolerance): consider postponing until the anaemia is corrected (ESA guideline, Kozek-Langenecker 2017).`)
+    reasons.push(`Routine operation, still anaemic on the day (below ${DEFERRAL_HB_GL} g/L, local policy, or the usual loss beyond tolerance): consider postponing until the anaemia is corrected (ESA guideline, Kozek-Langenecker 2017).`)
     return done('consider-deferral')
   }
   if (measuredBelow || projectedBelow || v.ironDeficientUntreated || e.nonResponse) {
