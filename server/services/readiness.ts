@@ -57,14 +57,14 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
     try {
       const p = await projectionForReferral(r)
       return {
-        ...base, verdict: p.readiness.verdict, verdictLabel: VERDICT_LABELS[p.readiness.verdict], predictedSurgeryHbGL: p.predictedSurgeryHbGL,
+        ...base, verdict: p.readiness.verdict, verdictLabel: VERDICT_LABELS[p.readiness.verdict], predictedSurgeryHbGL: p.predictedSurgeryHbGL, planningHbGL: p.planningHbGL,
         allowableBloodLossMl: p.allowableBloodLossMl.logarithmic, expectedBloodLossMl: p.expectedBloodLossMl,
         bloodOrder: { kind: p.bloodOrder.kind, units: p.bloodOrder.units, decidedBy: p.bloodOrder.decidedBy },
         needs: p.readiness.missing, concerns: p.readiness.flags.map((key) => ({ key, label: READINESS_FLAG_LABELS[key] })), missing: null,
       }
     } catch (err) {
       if (err instanceof AppError && err.status === 422) {
-        return { ...base, verdict: null, verdictLabel: 'Cannot project yet', predictedSurgeryHbGL: null, allowableBloodLossMl: null, expectedBloodLossMl: null, bloodOrder: null, needs: [], concerns: [], missing: err.message }
+        return { ...base, verdict: null, verdictLabel: 'Cannot project yet', predictedSurgeryHbGL: null, planningHbGL: null, allowableBloodLossMl: null, expectedBloodLossMl: null, bloodOrder: null, needs: [], concerns: [], missing: err.message }
       }
       throw err
     }

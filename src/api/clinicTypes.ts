@@ -96,6 +96,8 @@ export interface ReadinessRow {
   verdict: Verdict | null
   verdictLabel: string
   predictedSurgeryHbGL: number | null
+  /** The Hb the blood order and verdict rest on (never above the latest measured value). */
+  planningHbGL: number | null
   allowableBloodLossMl: number | null
   expectedBloodLossMl: number | null
   bloodOrder: { kind: BloodOrderKind; units: number; decidedBy: string } | null
