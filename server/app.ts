@@ -6,6 +6,7 @@ import { existsSync } from 'node:fs'
 import type { Sequelize } from 'sequelize'
 import type { PassportStatic } from 'passport'
 import type { Config } from './config'
+import { setClinicTimeZone } from './services/clinicDay'
 import { initModels } from './models/index'
 import { MariaDbSessionStore } from './auth/sessionStore'
 import { createPassport } from './auth/passport'
@@ -80,6 +81,7 @@ function contentSecurityPolicy(config: Config) {
 export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   initModels(sequelize)
   setViewAuditWindow(config.auditViewWindowMinutes)
+  setClinicTimeZone(config.clinic.timeZone)
   forgetCountsOnEveryWrite(sequelize)
   const ctx: AppContext = { config, sequelize }
   const app = express()

@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize'
 import { Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition, User } from '../../server/models/index'
-import { screeningOutcome } from '../../server/services/screening'
+import { screeningOutcome } from '../../shared/clinic/screening'
 import { egfrCkdEpi2021 } from '../../shared/clinical'
 import { DEFAULT_ANAEMIA_CRITERIA, addDays, findMove, todayIso, type Stage } from '../../shared/pathway'
 import { DEMO_EPISODES, type DemoEpisode } from './patients'

@@ -32,6 +32,9 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   declare cardiovascularDisease: CreationOptional<boolean>
   /** The surgeon asked for the date to move; the clinic sees a flag until the date changes. */
   declare dateChangeRequestedAt: CreationOptional<Date | null>
+  /** Positive red-cell antibody screen; null until recorded. */
+  declare redCellAntibodies: CreationOptional<boolean | null>
+  declare declinesTransfusion: CreationOptional<boolean>
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -61,6 +64,8 @@ export function initReferral(sequelize: Sequelize): void {
       treatmentGivenAt: { type: DataTypes.DATE, allowNull: true },
       cardiovascularDisease: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       dateChangeRequestedAt: { type: DataTypes.DATE, allowNull: true },
+      redCellAntibodies: { type: DataTypes.BOOLEAN, allowNull: true },
+      declinesTransfusion: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

@@ -39,6 +39,7 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
     const input: UpdateReferralInput = {
       version: b.version, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
       plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource,
+      redCellAntibodies: b.redCellAntibodies, declinesTransfusion: b.declinesTransfusion,
     }
     res.json(await updateReferral(sequelize, viewerOf(req), idParam(req), input))
   })

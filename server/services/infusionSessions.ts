@@ -4,10 +4,11 @@ import type { Config } from '../config'
 import { Appointment, InfusionSession } from '../models/index'
 import { localDate, localTime, peakOverlap, zonedToUtc } from '../../shared/appointments'
 import type { CreateInfusionSessionInput, SessionRangeQuery, UpdateInfusionSessionInput } from '../../shared/schemas/appointments'
-import { addDays, todayIso } from '../../shared/pathway'
+import { addDays } from '../../shared/pathway'
 import { Conflict, Invalid, NotFound } from '../errors'
 import { recordAudit, changedFields } from './audit'
 import { staleVersion, type Viewer } from './viewer'
+import { clinicToday } from './clinicDay'
 
 type Row = InferAttributes<InfusionSession>
 
@@ -29,8 +30,8 @@ async function bookingsOf(ids: number[]) {
 
 export async function listInfusionSessions(config: Config, q: SessionRangeQuery) {
   const tz = config.clinic.timeZone
-  const from = zonedToUtc(q.from || todayIso(), '00:00', tz)
-  const to = zonedToUtc(addDays(q.to || addDays(todayIso(), 28), 1), '00:00', tz)
+  const from = zonedToUtc(q.from || clinicToday(), '00:00', tz)
+  const to = zonedToUtc(addDays(q.to || addDays(clinicToday(), 28), 1), '00:00', tz)
   const rows = await InfusionSession.findAll({ where: { startsAt: { [Op.gte]: from, [Op.lt]: to } }, order: [['startsAt', 'ASC']], raw: true })
   const booked = await bookingsOf(rows.map((r) => r.id))
   return { rows: rows.map((r) => view(r, tz, booked.filter((b) => b.infusionSessionId === r.id))) }

@@ -1,11 +1,12 @@
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize'
 import { Patient, PatientMeasurement, Procedure, Referral } from '../models/index'
 import type { CreatePatientInput, UpdatePatientInput } from '../../shared/schemas/patients'
-import { ageOn, todayIso, STAGE_LABELS } from '../../shared/pathway'
+import { ageOn, STAGE_LABELS } from '../../shared/pathway'
 import type { Sex } from '../../shared/clinical'
 import { recordAudit, changedFields, type Actor } from './audit'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Conflict, Forbidden, Invalid, NotFound } from '../errors'
+import { clinicToday } from './clinicDay'
 
 export interface PatientView {
   id: number
@@ -47,7 +48,7 @@ export async function toPatientView(p: Patient, t?: Transaction): Promise<Patien
     givenName: p.givenName,
     familyName: p.familyName,
     dateOfBirth: p.dateOfBirth,
-    ageYears: ageOn(p.dateOfBirth, todayIso()),
+    ageYears: ageOn(p.dateOfBirth, clinicToday()),
     sex: p.sex,
     email: p.email,
     phone: p.phone,

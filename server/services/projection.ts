@@ -1,6 +1,6 @@
-import { ClinicalInputError, type HbTreatment } from '../../shared/clinical'
+import { ClinicalInputError } from '../../shared/clinical'
+import type { TreatmentGiven } from '../../shared/clinic/evidence'
 import { buildProjection, type Projection } from '../../shared/clinic/projection'
-import { todayIso } from '../../shared/pathway'
 import type { IronStatus } from '../../shared/clinical'
 import { getClinicSettings } from './clinicSettings'
 import { recordAudit } from './audit'
@@ -8,6 +8,7 @@ import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
 import { Prescription } from '../models/index'
 import type { Viewer } from './viewer'
 import { RuleRefused } from '../errors'
+import { clinicTimeZone, clinicToday } from './clinicDay'
 
 export interface ProjectionOptions { cardiacOutputLMin?: number }
 
@@ -24,15 +25,21 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
   if (Object.keys(missing).length) {
     throw new RuleRefused(`Cannot project surgery day: ${Object.values(missing).join('; ')}`, 'projection_inputs_missing', missing)
   }
-  let treatment: HbTreatment | null = null
+  let treatment: TreatmentGiven | null = null
   if (facts.doses.length) {
     const first = facts.doses[0]!
     const p = await Prescription.findByPk(first.prescriptionId)
-    treatment = { kind: p?.route ?? 'iv', firstDoseDate: first.givenAt, totalMg: facts.doses.reduce((s, d) => s + d.doseMg, 0) }
+    treatment = {
+      kind: p?.route ?? 'iv', firstDoseAt: first.givenAt, lastDoseAt: facts.doses[facts.doses.length - 1]!.givenAt,
+      totalMg: facts.doses.reduce((s, d) => s + d.doseMg, 0),
+      // The deficit the course was written against: the dose given is weighed against it.
+      deficitMg: p?.deficitMg ?? null,
+    }
   }
   try {
     return buildProjection({
-      today: todayIso(),
+      today: clinicToday(),
+      timeZone: clinicTimeZone(),
       plannedSurgeryDate: r.plannedSurgeryDate,
       sex: r.patient.sex,
       heightCm: facts.body.heightCm,
@@ -41,11 +48,13 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
       treatment,
       procedure: {
         code: r.procedure.code, name: r.procedure.name, expectedBloodLossMl: r.procedure.expectedBloodLossMl!,
-        usualBloodOrder: r.procedure.usualBloodOrder, usualUnits: r.procedure.usualUnits,
+        usualBloodOrder: r.procedure.usualBloodOrder, usualUnits: r.procedure.usualUnits, transfusionRate: r.procedure.transfusionRate,
       },
       priority: r.priority,
       cardiovascularDisease: Boolean(r.cardiovascularDisease),
       ironStatus: (r.ironStatus as IronStatus | null) ?? null,
+      antibodiesPositive: r.redCellAntibodies ?? null,
+      declinesTransfusion: Boolean(r.declinesTransfusion),
       saO2: settings.defaultSaO2,
       paO2MmHg: settings.defaultPaO2MmHg,
       cardiacOutputLMin: opts.cardiacOutputLMin ?? null,

@@ -1,13 +1,14 @@
 import { Op, type Sequelize } from 'sequelize'
 import { Patient, Procedure, ReadinessReview, Referral, User } from '../models/index'
-import { PRE_OPERATIVE_STAGES, STAGE_LABELS, addDays, daysBetween, referralFlags, todayIso, FLAG_LABELS } from '../../shared/pathway'
-import { VERDICT_LABELS } from '../../shared/clinic/readiness'
+import { PRE_OPERATIVE_STAGES, STAGE_LABELS, addDays, daysBetween, referralFlags, FLAG_LABELS } from '../../shared/pathway'
+import { READINESS_FLAG_LABELS, VERDICT_LABELS } from '../../shared/clinic/readiness'
 import type { ReadinessActionInput } from '../../shared/schemas/clinic'
 import { recordAudit } from './audit'
 import { loadReferral, type LoadedReferral } from './episode'
 import { projectionForReferral } from './projection'
 import { isoOrNull, type Viewer } from './viewer'
 import { AppError, Forbidden } from '../errors'
+import { clinicTimeZone, clinicToday } from './clinicDay'
 
 export interface BoardQuery { from?: string; to?: string; procedureCode?: string; surgeonId?: number }
 
@@ -19,7 +20,7 @@ function reviewView(r: ReadinessReview | null) {
 
 /** The readiness board: episodes with surgery in the window (default the next 8 weeks), each projected. */
 export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
-  const today = todayIso()
+  const today = clinicToday()
   const where: Record<string, unknown> = {
     stage: { [Op.in]: PRE_OPERATIVE_STAGES },
     plannedSurgeryDate: { [Op.between]: [q.from ?? today, q.to ?? addDays(today, BOARD_WEEKS * 7)] },
@@ -45,7 +46,7 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
   for (const rv of reviews) if (!latestReview.has(rv.referralId)) latestReview.set(rv.referralId, rv)
 
   return Promise.all(rows.map(async (r) => {
-    const flags = referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today)
+    const flags = referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today, clinicTimeZone())
     const base = {
       id: r.id, version: r.version, stage: r.stage, stageLabel: STAGE_LABELS[r.stage], priority: r.priority,
       plannedSurgeryDate: r.plannedSurgeryDate, daysToSurgery: daysBetween(today, r.plannedSurgeryDate),
@@ -56,12 +57,14 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
     try {
       const p = await projectionForReferral(r)
       return {
-        ...base, verdict: p.readiness.verdict, verdictLabel: VERDICT_LABELS[p.readiness.verdict], predictedSurgeryHbGL: p.predictedSurgeryHbGL,
-        allowableBloodLossMl: p.allowableBloodLossMl.logarithmic, expectedBloodLossMl: p.expectedBloodLossMl, bloodOrder: p.bloodOrder, missing: null,
+        ...base, verdict: p.readiness.verdict, verdictLabel: VERDICT_LABELS[p.readiness.verdict], predictedSurgeryHbGL: p.predictedSurgeryHbGL, planningHbGL: p.planningHbGL,
+        allowableBloodLossMl: p.allowableBloodLossMl.logarithmic, expectedBloodLossMl: p.expectedBloodLossMl,
+        bloodOrder: { kind: p.bloodOrder.kind, units: p.bloodOrder.units, decidedBy: p.bloodOrder.decidedBy },
+        needs: p.readiness.missing, concerns: p.readiness.flags.map((key) => ({ key, label: READINESS_FLAG_LABELS[key] })), missing: null,
       }
     } catch (err) {
       if (err instanceof AppError && err.status === 422) {
-        return { ...base, verdict: null, verdictLabel: 'Cannot project yet', predictedSurgeryHbGL: null, allowableBloodLossMl: null, expectedBloodLossMl: null, bloodOrder: null, missing: err.message }
+        return { ...base, verdict: null, verdictLabel: 'Cannot project yet', predictedSurgeryHbGL: null, planningHbGL: null, allowableBloodLossMl: null, expectedBloodLossMl: null, bloodOrder: null, needs: [], concerns: [], missing: err.message }
       }
       throw err
     }

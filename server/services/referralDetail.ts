@@ -1,5 +1,5 @@
 import { Patient, Procedure, Referral, Result, StageTransition, User } from '../models/index'
-import { STAGE_LABELS, allowedMoves, daysBetween, isReadOnly, nextAction, referralFlags, todayIso } from '../../shared/pathway'
+import { STAGE_LABELS, allowedMoves, daysBetween, isReadOnly, nextAction, referralFlags } from '../../shared/pathway'
 import { recordAudit } from './audit'
 import { toPatientView } from './patients'
 import { toProcedureView } from './procedures'
@@ -7,6 +7,7 @@ import { toResultView, type ResultView } from './results'
 import { screeningView } from './screening'
 import { assertMaySeeReferral, isoOrNull, type Viewer } from './viewer'
 import { NotFound } from '../errors'
+import { clinicTimeZone, clinicToday } from './clinicDay'
 
 type Loaded = Referral & { patient: Patient; procedure: Procedure; surgeon: User }
 type TransitionRow = StageTransition & { user?: User | null }
@@ -55,7 +56,7 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
   ])
   if (opts.audit) await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId, opensRecord: true })
   const results = resultRows.map(toResultView)
-  const today = todayIso()
+  const today = clinicToday()
   return {
     id: r.id,
     version: r.version,
@@ -75,12 +76,15 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     surgeon: { id: r.surgeon.id, name: r.surgeon.name },
     screening: screeningView(r, r.patient.sex),
     latestResults: latestByAnalyte(results),
-    flags: referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today),
+    flags: referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today, clinicTimeZone()),
     recheckDueDate: r.recheckDueDate,
     treatmentOrderedAt: isoOrNull(r.treatmentOrderedAt),
     treatmentGivenAt: isoOrNull(r.treatmentGivenAt),
     // Set at clinic review; the review form must show the stored answer, not guess it.
     cardiovascularDisease: Boolean(r.cardiovascularDisease),
+    // Recorded on the episode; both change the blood plan (migration 0010).
+    redCellAntibodies: r.redCellAntibodies ?? null,
+    declinesTransfusion: Boolean(r.declinesTransfusion),
     dateChangeRequestedAt: isoOrNull(r.dateChangeRequestedAt),
     allowedMoves: allowedMoves(r.stage, viewer.role),
     timeline: timelineOf(transitions as TransitionRow[], results),

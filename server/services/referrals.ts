@@ -32,6 +32,8 @@ function auditable(r: Referral) {
     referringSource: r.referringSource,
     stage: r.stage,
     version: r.version,
+    redCellAntibodies: r.redCellAntibodies ?? null,
+    declinesTransfusion: Boolean(r.declinesTransfusion),
   }
 }
 
@@ -84,6 +86,8 @@ export async function updateReferral(sequelize: Sequelize, viewer: Viewer, id: n
       ...(input.plannedSurgeryDate !== undefined ? { plannedSurgeryDate: input.plannedSurgeryDate } : {}),
       ...(input.priority !== undefined ? { priority: input.priority as Priority } : {}),
       ...(input.referringSource !== undefined ? { referringSource: input.referringSource } : {}),
+      ...(input.redCellAntibodies !== undefined ? { redCellAntibodies: input.redCellAntibodies } : {}),
+      ...(input.declinesTransfusion !== undefined ? { declinesTransfusion: input.declinesTransfusion } : {}),
     }
     const [count] = await Referral.update({ ...changes, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
     if (count !== 1) throw staleVersion('This referral')

@@ -1,13 +1,13 @@
 import { Op, type Sequelize, type Transaction } from 'sequelize'
-import { egfrCkdEpi2021, tibcFromTransferrin, tsatFromIron } from '../../shared/clinical'
-import { DERIVED_UNITS, ANALYTE_DEFS, ageOn, isReadOnly, toCanonical, type Analyte } from '../../shared/pathway'
+import { egfrFromCreatinine, tsatFromSample } from '../../shared/clinic/derivations'
+import { DERIVED_UNITS, ANALYTE_DEFS, dateInZone, isReadOnly, toCanonical, type Analyte } from '../../shared/pathway'
 import type { CreateResultInput } from '../../shared/schemas/results'
 import { Patient, Referral, Result, User } from '../models/index'
 import { recordAudit } from './audit'
 import { refreshScreening, screeningView } from './screening'
 import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer'
 import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
-import type { Sex } from '../../shared/clinical'
+import { clinicTimeZone } from './clinicDay'
 
 export interface ResultView {
   id: number
@@ -39,32 +39,6 @@ export function toResultView(r: Result & { enteredByUser?: User | null }): Resul
   }
 }
 
-const round1 = (n: number) => Math.round(n * 10) / 10
-
-export interface SampleRow { id: number; analyte: string; valueCanonical: number }
-
-/**
- * TSAT from serum iron and transferrin (or TIBC) of one sample, unless the lab reported a TSAT
- * for that sample itself; the newest entry of each analyte counts. Iron above the binding
- * capacity is a unit or typing error (ClinicalInputError). Shared by typed-in and imported results.
- */
-export function tsatFromSample(rows: readonly SampleRow[]): { value: number; derivedFrom: [number, number] } | null {
-  const latest = (analyte: string) => rows.filter((r) => r.analyte === analyte).sort((a, b) => b.id - a.id)[0]
-  if (latest('tsat')) return null
-  const iron = latest('iron')
-  const tibc = latest('tibc') ?? latest('transferrin')
-  if (!iron || !tibc) return null
-  const tibcUmolL = tibc.analyte === 'tibc' ? tibc.valueCanonical : tibcFromTransferrin(tibc.valueCanonical)
-  return { value: round1(tsatFromIron({ ironUmolL: iron.valueCanonical, tibcUmolL })), derivedFrom: [iron.id, tibc.id] }
-}
-
-/** eGFR by CKD-EPI 2021 from a creatinine; null for under-18s, whom the equation excludes. */
-export function egfrFromCreatinine(creatinineUmolL: number, takenAt: Date, patient: { dateOfBirth: string; sex: Sex }): number | null {
-  const age = ageOn(patient.dateOfBirth, takenAt.toISOString().slice(0, 10))
-  if (age < 18) return null
-  return round1(egfrCkdEpi2021({ creatinineUmolL, ageYears: age, sex: patient.sex }))
-}
-
 const SAMPLE_ANALYTES = ['iron', 'tibc', 'transferrin', 'tsat']
 
 async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number }, t: Transaction): Promise<Result | null> {
@@ -81,7 +55,7 @@ async function deriveTsat(base: { referralId: number; patientId: number; takenAt
 }
 
 async function deriveEgfr(creatinine: Result, patient: Patient, t: Transaction): Promise<Result | null> {
-  const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, creatinine.takenAt, patient))
+  const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient))
   if (egfr === null) return null
   const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }
   // Two creatinines of one sample can round to the same eGFR; one derived row says it.

@@ -9,7 +9,6 @@ import {
   daysBetween,
   nextAction,
   referralFlags,
-  todayIso,
   type Stage,
   type WorklistFlag,
 } from '../../shared/pathway'
@@ -18,6 +17,8 @@ import type { AppointmentKind, AppointmentStatus } from '../../shared/appointmen
 import { Forbidden } from '../errors'
 import { isoOrNull, type Viewer } from './viewer'
 import { cachedCount } from './worklistCounts'
+import { zoneOffsetMs } from '../../shared/appointments/time'
+import { clinicTimeZone, clinicToday } from './clinicDay'
 
 const quoted = (xs: readonly string[]) => xs.map((x) => `'${x}'`).join(',')
 const PRE_OP = `(${quoted(PRE_OPERATIVE_STAGES)})`
@@ -25,12 +26,14 @@ const PRE_OP = `(${quoted(PRE_OPERATIVE_STAGES)})`
 /**
  * The flags as SQL over columns of the referral row only (no subqueries), so each filter is an
  * index range. They mirror referralFlags() in shared/pathway/flags.ts, which labels each row;
- * the API tests check that the two agree.
+ * the API tests check that the two agree. Instants are stored in UTC; the day an Hb was taken is
+ * read on the clinic's calendar by adding the zone's offset now (a sample from before a clock
+ * change may be an hour off, which only matters within an hour of midnight).
  */
 const FLAG_SQL: Record<WorklistFlag, string> = {
   'surgery-soon-anaemic': `(r.anaemic = 1 AND r.planned_surgery_date BETWEEN :today AND :soon AND r.stage IN ${PRE_OP})`,
   'no-screening-result': `(r.latest_hb_at IS NULL AND r.stage IN ${PRE_OP})`,
-  'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR DATE(r.latest_hb_at) < r.recheck_due_date))`,
+  'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR DATE(DATE_ADD(r.latest_hb_at, INTERVAL :zoneOffsetMin MINUTE)) < r.recheck_due_date))`,
   'treatment-not-given': `(r.treatment_ordered_at IS NOT NULL AND r.treatment_given_at IS NULL AND r.stage IN ${PRE_OP})`,
   'date-change-requested': `(r.date_change_requested_at IS NOT NULL AND r.stage IN ${PRE_OP})`,
 }
@@ -96,9 +99,9 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   if (viewer.role === 'surgeon' && q.surgeonId !== undefined && q.surgeonId !== viewer.userId) {
     throw new Forbidden("Surgeons see their own patients only", 'not_your_patient')
   }
-  const today = todayIso()
+  const today = clinicToday()
   const where: string[] = []
-  const params: Record<string, unknown> = { today, soon: addDays(today, SURGERY_SOON_DAYS) }
+  const params: Record<string, unknown> = { today, soon: addDays(today, SURGERY_SOON_DAYS), zoneOffsetMin: Math.round(zoneOffsetMs(new Date(), clinicTimeZone()) / 60_000) }
   const surgeonId = viewer.role === 'surgeon' || q.mine ? viewer.userId : q.surgeonId
   if (surgeonId !== undefined) { where.push('r.surgeon_id = :surgeonId'); params.surgeonId = surgeonId }
   if (q.stage?.length) { where.push('r.stage IN (:stages)'); params.stages = q.stage }
@@ -199,7 +202,7 @@ function toWorklistRow(row: WorklistSqlRow, today: string) {
     ironStatus: row.ironStatus,
     anaemic,
     proposedStage: row.proposedStage,
-    flags: referralFlags({ ...row, anaemic }, today),
+    flags: referralFlags({ ...row, anaemic }, today, clinicTimeZone()),
     mrn: row.mrn,
     patientName: `${row.familyName}, ${row.givenName}`,
     patient: { id: row.patientId, mrn: row.mrn, givenName: row.givenName, familyName: row.familyName, dateOfBirth: row.dateOfBirth, sex: row.sex },

@@ -1,26 +1,33 @@
 import {
   allowableBloodLoss, bmi, bsaMosteller, classifyAnaemia, estimatedBloodVolume, hbAfterIsovolaemicLoss, isIronDeficient,
   oxygenContent, oxygenDelivery, projectHb, redCellTransfusionNeed, HCT_FROM_HB_ASSUMPTION, WEIGHT_BASED_ML_PER_KG,
-  type HbMeasurement, type HbTreatment, type IronStatus, type Sex,
+  type HbMeasurement, type IronStatus, type Sex,
 } from '../clinical'
 import type { ClinicSettings } from './settings'
 import { TRIGGER_SOURCES } from './settings'
-import { readinessVerdict } from './verdict'
-import { DECISION_SUPPORT_CAUTION, type BloodOrderKind, type Verdict } from './readiness'
+import { readinessVerdict, type ReadinessVerdict } from './verdict'
+import { gatherEvidence, type Evidence, type TreatmentGiven } from './evidence'
+import { decideBloodOrder, type BloodOrderDecision } from './bloodOrder'
+import { DECISION_SUPPORT_CAUTION } from './readiness'
 
 /** Everything the projection uses; returned as `inputs` so every figure can be recomputed. */
 export interface ProjectionInputs {
+  /** The clinic's today (todayInZone) and the zone it was read in. */
   today: string
+  timeZone: string
   plannedSurgeryDate: string
   sex: Sex
   heightCm: number | null
   weightKg: number
   hbMeasurements: HbMeasurement[]
-  treatment: HbTreatment | null
-  procedure: { code: string; name: string; expectedBloodLossMl: number; usualBloodOrder: string; usualUnits: number }
+  treatment: TreatmentGiven | null
+  procedure: { code: string; name: string; expectedBloodLossMl: number; usualBloodOrder: string; usualUnits: number; transfusionRate: number | null }
   priority: string
   cardiovascularDisease: boolean
   ironStatus: IronStatus | null
+  /** Recorded on the episode: positive red-cell antibody screen (null: not recorded). */
+  antibodiesPositive: boolean | null
+  declinesTransfusion: boolean
   saO2: number
   paO2MmHg: number
   /** Given by the user; otherwise cardiac index × body surface area. */
@@ -30,19 +37,22 @@ export interface ProjectionInputs {
 export interface OxygenPoint { hbGL: number; cao2MlDl: number; do2MlMin: number }
 
 export interface Projection {
-  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL'> }
+  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL' | 'resultMaxAgeDays'> }
   methods: Record<string, string>
   bloodVolumeMl: number
   triggerHbGL: number
   currentHbGL: number
   predictedSurgeryHbGL: number
+  /** The Hb the blood order, allowable loss and verdict rest on: the lower of the latest measured and the projection. */
+  planningHbGL: number
+  evidence: Evidence
   predictedPostOpHbGL: number
   allowableBloodLossMl: { gross: number; logarithmic: number }
   expectedBloodLossMl: number
   oxygen: { today: OxygenPoint; surgeryDay: OxygenPoint; postOp: OxygenPoint }
   transfusionNeed: { toleratedRedCellMl: number; expectedRedCellLossMl: number; deficitMl: number; units: number }
-  bloodOrder: { kind: BloodOrderKind; units: number }
-  readiness: { verdict: Verdict; reasons: string[] }
+  bloodOrder: BloodOrderDecision
+  readiness: ReadinessVerdict
   assumptions: string[]
   cautions: string[]
 }
@@ -74,27 +84,43 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   methods.trigger = input.cardiovascularDisease ? TRIGGER_SOURCES.cardiovascular : TRIGGER_SOURCES.standard
 
   const measured = [...input.hbMeasurements].sort((a, b) => +new Date(a.takenAt) - +new Date(b.takenAt))
-  const currentHbGL = measured[measured.length - 1]!.hbGL
+  const evidence = gatherEvidence({
+    today: input.today, timeZone: input.timeZone, hb: measured, ironStatus: input.ironStatus,
+    treatment: input.treatment, resultMaxAgeDays: settings.resultMaxAgeDays,
+  })
+  const currentHbGL = evidence.latest?.hbGL ?? measured[measured.length - 1]!.hbGL
   const target = input.plannedSurgeryDate > input.today ? input.plannedSurgeryDate : input.today
-  const hbProjection = projectHb({ targetDate: target, measurements: measured, treatment: input.treatment ?? undefined })
+  const t = input.treatment
+  const hbProjection = projectHb({
+    targetDate: target, timeZone: input.timeZone, measurements: measured,
+    treatment: t ? { kind: t.kind, firstDoseDate: t.firstDoseAt, totalMg: t.totalMg, ...(t.deficitMg ? { deficitMg: t.deficitMg } : {}) } : undefined,
+    // Without a calculated deficit the dose cannot be weighed against the need, so no rise is assumed.
+    ...(t && !t.deficitMg ? { assumption: { riseGLPerWeek: 0 } } : {}),
+  })
+  if (t && !t.deficitMg) assumptions.push('No calculated iron deficit is on record for the iron given, so no rise is assumed from it.')
   const surgeryHb = hbProjection.hbGL
+  const assumesRise = hbProjection.method === 'expected-response' && surgeryHb > currentHbGL
+  // Only measured values may lower the blood order or clear the patient: the plan rests on the
+  // lower of the latest measured Hb and the projection (a falling trend still counts in full).
+  const planningHb = Math.min(surgeryHb, currentHbGL)
   methods.surgeryDayHb = {
     trend: 'Measured trend since treatment (least-squares line through the results)',
-    'expected-response': 'Expected response to iron (stated assumption, no re-check yet)',
-    'latest-value': 'Latest measured Hb (no treatment recorded)',
+    'expected-response': 'Expected response to the iron given (stated assumption, no re-check yet)',
+    'latest-value': 'Latest measured Hb',
   }[hbProjection.method]
+  methods.planningHb = 'Blood order, allowable loss and the verdict use the lower of the latest measured Hb and the projection: an assumed rise never lowers them'
   assumptions.push(...hbProjection.assumptions)
 
   const lossMl = input.procedure.expectedBloodLossMl
-  const postOpHb = hbAfterIsovolaemicLoss({ ebvMl: ebv, hbStartGL: surgeryHb, lossMl })
+  const postOpHb = hbAfterIsovolaemicLoss({ ebvMl: ebv, hbStartGL: planningHb, lossMl })
   methods.postOpHb = `Isovolaemic dilution Hb × e^(−loss/EBV) after the usual loss for ${input.procedure.name}, no transfusion`
   assumptions.push('Blood volume is kept up with clear fluid during surgery (normovolaemia); all blood-loss figures assume it.')
 
   const abl = {
-    gross: allowableBloodLoss({ ebvMl: ebv, hbStartGL: surgeryHb, hbFloorGL: triggerHbGL, method: 'gross' }),
-    logarithmic: allowableBloodLoss({ ebvMl: ebv, hbStartGL: surgeryHb, hbFloorGL: triggerHbGL, method: 'logarithmic' }),
+    gross: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'gross' }),
+    logarithmic: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'logarithmic' }),
   }
-  methods.allowableBloodLoss = 'Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the predicted surgery-day Hb to the trigger'
+  methods.allowableBloodLoss = 'Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger'
 
   const bsa = input.heightCm ? bsaMosteller({ heightCm: input.heightCm, weightKg: input.weightKg }) : null
   let co = input.cardiacOutputLMin
@@ -112,34 +138,49 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   methods.oxygenDelivery = 'DO2 = cardiac output (L/min) × CaO2 × 10'
   assumptions.push(`Arterial SaO2 ${Math.round(input.saO2 * 100)} % and PaO2 ${input.paO2MmHg} mmHg are the clinic's stated defaults (no blood gas recorded).`)
 
-  const need = redCellTransfusionNeed({ ebvMl: ebv, hbStartGL: surgeryHb, hbFloorGL: triggerHbGL, expectedLossMl: lossMl })
+  const need = redCellTransfusionNeed({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, expectedLossMl: lossMl })
   methods.transfusionNeed = 'Red-cell-volume method (Mercuriali & Inghilleri 1996): units = (expected red-cell loss − tolerated red-cell loss) / 200 mL per unit'
   assumptions.push(HCT_FROM_HB_ASSUMPTION)
-  const bloodOrder = need.units > 0 ? { kind: 'crossmatch' as const, units: need.units } : { kind: 'group-and-screen' as const, units: 0 }
+  const bloodOrder = decideBloodOrder({
+    calculatedUnits: need.units,
+    procedure: { name: input.procedure.name, usualBloodOrder: input.procedure.usualBloodOrder, usualUnits: input.procedure.usualUnits, transfusionRate: input.procedure.transfusionRate },
+    antibodiesPositive: input.antibodiesPositive,
+    declinesTransfusion: input.declinesTransfusion,
+  })
+  methods.bloodOrder = 'The largest order any rule asks for: red-cell-volume estimate, the catalogue order, the catalogue transfusion rate, a positive antibody screen; a recorded refusal of transfusion overrides all'
 
-  const surgeryAnaemia = classifyAnaemia({ hbGL: surgeryHb, sex: input.sex, criteria: settings.anaemiaCriteria })
+  const rule = classifyAnaemia({ hbGL: planningHb, sex: input.sex, criteria: settings.anaemiaCriteria })
   const readiness = readinessVerdict({
-    predictedSurgeryHbGL: r1(surgeryHb),
-    anaemicOnSurgeryDay: surgeryAnaemia.anaemic,
-    thresholdGL: surgeryAnaemia.thresholdGL,
+    evidence,
+    resultMaxAgeDays: settings.resultMaxAgeDays,
+    thresholdGL: rule.thresholdGL,
+    projectedSurgeryHbGL: r1(surgeryHb),
+    projectionAssumesRise: assumesRise,
     ironDeficientUntreated: input.ironStatus !== null && isIronDeficient(input.ironStatus) && input.treatment === null,
     allowableLossMl: r0(abl.logarithmic),
     expectedLossMl: lossMl,
     bloodOrder,
     priority: input.priority,
+    antibodiesPositive: input.antibodiesPositive,
+    declinesTransfusion: input.declinesTransfusion,
   })
 
   return {
-    inputs: { ...input, cardiacOutputLMin: r2(co), triggerHbGL, settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL } },
+    inputs: {
+      ...input, cardiacOutputLMin: r2(co), triggerHbGL,
+      settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL, resultMaxAgeDays: settings.resultMaxAgeDays },
+    },
     methods,
     bloodVolumeMl: r0(ebv),
     triggerHbGL,
     currentHbGL: r1(currentHbGL),
     predictedSurgeryHbGL: r1(surgeryHb),
+    planningHbGL: r1(planningHb),
+    evidence,
     predictedPostOpHbGL: r1(postOpHb),
     allowableBloodLossMl: { gross: r0(abl.gross), logarithmic: r0(abl.logarithmic) },
     expectedBloodLossMl: lossMl,
-    oxygen: { today: point(currentHbGL), surgeryDay: point(surgeryHb), postOp: point(postOpHb) },
+    oxygen: { today: point(currentHbGL), surgeryDay: point(planningHb), postOp: point(postOpHb) },
     transfusionNeed: { toleratedRedCellMl: r0(need.toleratedRedCellMl), expectedRedCellLossMl: r0(need.expectedRedCellLossMl), deficitMl: r0(need.deficitMl), units: need.units },
     bloodOrder,
     readiness,

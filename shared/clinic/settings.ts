@@ -19,6 +19,12 @@ export interface ClinicSettings {
   defaultCardiacIndexLMinM2: number
   /** Weight older than this warns at prescription. */
   weightMaxAgeDays: number
+  /**
+   * An Hb older than this no longer counts as evidence for the readiness verdict (default 90
+   * days, local policy; the Australian NBA PBM pre-operative template asks for results no older
+   * than 3 months, secondary source only).
+   */
+  resultMaxAgeDays: number
 }
 
 export const DEFAULT_CLINIC_SETTINGS: ClinicSettings = {
@@ -31,6 +37,7 @@ export const DEFAULT_CLINIC_SETTINGS: ClinicSettings = {
   defaultPaO2MmHg: 95,
   defaultCardiacIndexLMinM2: 3.0,
   weightMaxAgeDays: 90,
+  resultMaxAgeDays: 90,
 }
 
 export const TRIGGER_SOURCES = {

@@ -3,6 +3,8 @@
  * hospital's local calendar, so they are never turned into instants (which would shift a day
  * across time zones).
  */
+import { localDate } from '../appointments/time'
+
 const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/
 
 export function isIsoDate(value: unknown): value is string {
@@ -13,7 +15,25 @@ export function isIsoDate(value: unknown): value is string {
   return d.getUTCFullYear() === Number(m[1]) && d.getUTCMonth() === Number(m[2]) - 1 && d.getUTCDate() === Number(m[3])
 }
 
-/** Today in the local calendar of whoever runs this (the browser, or the server process). */
+/**
+ * The clinic's "today": the calendar date on the clinic's clocks (CLINIC_TIME_ZONE), whatever
+ * zone the server or browser runs in. Every clinical rule that counts days (flags, the
+ * projection, the screening window, the age of a result, reminders) starts from this one, so
+ * a flag cannot move by a day around midnight depending on which clock answered.
+ */
+export function todayInZone(timeZone: string, now: Date = new Date()): string {
+  return localDate(now, timeZone)
+}
+
+/** The clinic's calendar date of an instant (a sample's time taken, a dose given). */
+export function dateInZone(instant: Date | string, timeZone: string): string {
+  return localDate(typeof instant === 'string' ? new Date(instant) : instant, timeZone)
+}
+
+/**
+ * Today in the local calendar of whoever runs this: only for form defaults in the browser,
+ * where the user's own calendar is what they expect. Clinical rules use todayInZone.
+ */
 export function todayIso(now: Date = new Date()): string {
   const pad = (n: number) => String(n).padStart(2, '0')
   return `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`

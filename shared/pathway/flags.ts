@@ -1,5 +1,5 @@
 import { PRE_OPERATIVE_STAGES, type Stage } from './stages'
-import { daysBetween } from './dates'
+import { dateInZone, daysBetween } from './dates'
 
 /** Worklist flags: conditions the service wants to see before they become problems. */
 export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given', 'date-change-requested'] as const
@@ -18,8 +18,11 @@ export const FLAG_LABELS: Record<WorklistFlag, string> = {
 }
 
 /**
- * Screening should be done at least 28 days before surgery (Muñoz 2017, from memory), so an
- * anaemic patient inside that window is the case the clinic must act on first.
+ * Screening should be done at least 28 days before surgery, so an anaemic patient inside that
+ * window is the case the clinic must act on first. Origin: the NATA 2011 guideline (Goodnough
+ * et al., Br J Anaesth 2011;106:13–22) asks for Hb at least 28 days before scheduled surgery —
+ * from memory, not checked against the paper; it was once attributed here to Muñoz 2017, which
+ * was not confirmed either (clinical reference §11).
  */
 export const SURGERY_SOON_DAYS = 28
 
@@ -35,16 +38,14 @@ export interface FlagInput {
   dateChangeRequestedAt?: Date | string | null
 }
 
-function dayOf(at: Date | string): string {
-  return (typeof at === 'string' ? new Date(at) : at).toISOString().slice(0, 10)
-}
-
 /**
- * The flags raised for one referral on a given day. Flags only apply before surgery. The
- * server's worklist filter expresses the same rules in SQL (services/worklist.ts); the API
- * tests hold the two together.
+ * The flags raised for one referral on the clinic's day `todayIso`. Instants (the time an Hb
+ * was taken) are read on the clinic's calendar in `timeZone`, the same calendar as `todayIso`
+ * (todayInZone), so an Hb taken at 00:30 clinic time counts on that day, not the UTC day
+ * before. Flags only apply before surgery. The server's worklist filter expresses the same
+ * rules in SQL (services/worklist.ts); the API tests hold the two together.
  */
-export function referralFlags(r: FlagInput, todayIso: string): WorklistFlag[] {
+export function referralFlags(r: FlagInput, todayIso: string, timeZone: string): WorklistFlag[] {
   if (!PRE_OPERATIVE_STAGES.includes(r.stage)) return []
   const flags: WorklistFlag[] = []
   const days = daysBetween(todayIso, r.plannedSurgeryDate)
@@ -55,7 +56,7 @@ export function referralFlags(r: FlagInput, todayIso: string): WorklistFlag[] {
     r.recheckDueDate &&
     r.recheckDueDate < todayIso &&
     (r.stage === 'treating' || r.stage === 'recheck') &&
-    (r.latestHbAt == null || dayOf(r.latestHbAt) < r.recheckDueDate)
+    (r.latestHbAt == null || dateInZone(r.latestHbAt, timeZone) < r.recheckDueDate)
   ) {
     flags.push('recheck-overdue')
   }

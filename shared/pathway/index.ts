@@ -10,4 +10,4 @@ export { ANALYTES, ANALYTE_DEFS, DERIVED_UNITS, FOLATE_UG_L_PER_NMOL_L, isAnalyt
 export type { Analyte, StoredAnalyte } from './analytes'
 export { PRIORITIES, PRIORITY_LABELS, BLOOD_ORDERS, DEFAULT_ANAEMIA_CRITERIA } from './options'
 export type { Priority, BloodOrder } from './options'
-export { todayIso, addDays, daysBetween, ageOn, isIsoDate } from './dates'
+export { todayIso, todayInZone, dateInZone, addDays, daysBetween, ageOn, isIsoDate } from './dates'

@@ -29,6 +29,9 @@ export const updateReferralSchema = yup
     plannedSurgeryDate,
     priority,
     referringSource: optionalText('Referring source', 200),
+    /** Red-cell antibody screen: true positive, false negative, null not known. */
+    redCellAntibodies: yup.boolean().strict().nullable().typeError('redCellAntibodies must be true, false or null (not known)'),
+    declinesTransfusion: yup.boolean().strict().typeError('declinesTransfusion must be true or false'),
   })
   .test('something-to-change', 'Send at least one field to change besides version', (v) =>
     Object.entries(v).some(([k, x]) => k !== 'version' && x !== undefined),

@@ -3,6 +3,7 @@ import type { IronProduct } from '@shared/clinical/ironProduct'
 import type { CautionAnswers } from '@shared/clinic/cautions'
 import type { Diagnosis } from '@shared/clinic/diagnoses'
 import type { Projection } from '@shared/clinic/projection'
+import type { ReadinessFlag } from '@shared/clinic/readiness'
 import type { BloodOrderKind, Verdict } from '@shared/clinic/readiness'
 
 /**
@@ -95,9 +96,15 @@ export interface ReadinessRow {
   verdict: Verdict | null
   verdictLabel: string
   predictedSurgeryHbGL: number | null
+  /** The Hb the blood order and verdict rest on (never above the latest measured value). */
+  planningHbGL: number | null
   allowableBloodLossMl: number | null
   expectedBloodLossMl: number | null
-  bloodOrder: { kind: BloodOrderKind; units: number } | null
+  bloodOrder: { kind: BloodOrderKind; units: number; decidedBy: string } | null
+  /** What must be measured before "ready", in words (empty when nothing is missing). */
+  needs: string[]
+  /** Concerns beside the verdict (no response to iron, falling Hb, antibodies, declines transfusion). */
+  concerns: { key: ReadinessFlag; label: string }[]
   openActions: string[]
   lastReview: { action: ReadinessReview['action']; reason: string | null; at: string } | null
   /** Why no projection could be made (e.g. no weight), when verdict is null. */

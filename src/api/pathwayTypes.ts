@@ -125,6 +125,8 @@ export interface ReferralDetail {
   recheckDueDate: string | null
   /** Recorded at clinic review; selects the 80 g/L trigger. */
   cardiovascularDisease: boolean
+  redCellAntibodies: boolean | null
+  declinesTransfusion: boolean
   dateChangeRequestedAt: string | null
   allowedMoves: AllowedMove[]
   timeline: TimelineItem[]

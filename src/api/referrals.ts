@@ -1,4 +1,4 @@
-import type { CreateReferralInput, TransitionInput } from '@shared/schemas/referrals'
+import type { CreateReferralInput, TransitionInput, UpdateReferralInput } from '@shared/schemas/referrals'
 import type { CreateResultInput } from '@shared/schemas/results'
 import { api } from './client'
 import type { ReferralDetail, ResultView, Screening } from './pathwayTypes'
@@ -10,6 +10,10 @@ export function getReferral(id: number, opts: { refetch?: boolean } = {}): Promi
 
 export function createReferral(input: CreateReferralInput): Promise<ReferralDetail> {
   return api.post<ReferralDetail>('/referrals', input)
+}
+
+export function updateReferral(id: number, input: UpdateReferralInput): Promise<ReferralDetail> {
+  return api.patch<ReferralDetail>(`/referrals/${id}`, input)
 }
 
 export function moveReferral(id: number, input: TransitionInput): Promise<ReferralDetail> {

@@ -1,8 +1,8 @@
 import { computed, toValue, type MaybeRefOrGetter } from 'vue'
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
-import type { CreateReferralInput, TransitionInput } from '@shared/schemas/referrals'
+import type { CreateReferralInput, TransitionInput, UpdateReferralInput } from '@shared/schemas/referrals'
 import type { CreateResultInput } from '@shared/schemas/results'
-import { addResult, createReferral, getReferral, moveReferral } from '@/api/referrals'
+import { addResult, createReferral, getReferral, moveReferral, updateReferral } from '@/api/referrals'
 import { fetchWorklist, type WorklistFilters } from '@/api/worklist'
 
 /** One key family for episodes: the worklist pages and each episode's detail sit under it. */
@@ -71,5 +71,14 @@ export function useAddResultMutation() {
   return useMutation({
     mutationFn: ({ id, input }: { id: number; input: CreateResultInput }) => addResult(id, input),
     onSuccess: invalidate,
+  })
+}
+
+/** Edits to the episode itself (for instance the antibody screen); the projection under it refetches too. */
+export function useUpdateReferralMutation() {
+  const invalidate = useInvalidateReferrals()
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: UpdateReferralInput }) => updateReferral(id, input),
+    onSettled: invalidate,
   })
 }

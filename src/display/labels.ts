@@ -2,13 +2,22 @@ import type { Stage, WorklistFlag } from '@shared/pathway'
 import { ANALYTE_DEFS, isAnalyte } from '@shared/pathway'
 import type { IronStatus } from '@shared/clinical'
 import type { IronDoseCap } from '@shared/clinical/ironPlan'
-import type { BloodOrderKind, Verdict } from '@shared/clinic/readiness'
+import type { BloodOrderKind, ReadinessFlag, Verdict } from '@shared/clinic/readiness'
 
 /** Stages in which the screening outcome's proposal is still waiting to be confirmed. */
 export const SCREENING_STAGES: readonly Stage[] = ['referred', 'screened']
 
 /** Tag tones from our theme: green = done, amber = needs attention, neutral = in hand or finished. */
 export type Tone = 'info' | 'success' | 'warn' | 'secondary' | 'danger'
+
+/** Concerns beside the readiness verdict: amber needs attention; red only where blood may not be there in time. */
+export const READINESS_FLAG_LOOK: Record<ReadinessFlag, { icon: string; tone: Tone }> = {
+  'no-response-to-iron': { icon: 'pi pi-minus-circle', tone: 'warn' },
+  'hb-falling': { icon: 'pi pi-arrow-down-right', tone: 'danger' },
+  'red-cell-antibodies': { icon: 'pi pi-exclamation-circle', tone: 'danger' },
+  'declines-transfusion': { icon: 'pi pi-ban', tone: 'warn' },
+  'result-too-old': { icon: 'pi pi-history', tone: 'warn' },
+}
 
 /** Each stage shows its label with an icon and a tone, never the colour alone. */
 export const STAGE_LOOK: Record<Stage, { icon: string; tone: Tone }> = {
@@ -68,6 +77,8 @@ export function asSentence(message: string | undefined): string {
 /** Readiness verdicts: word (from the server's VERDICT_LABELS) plus an icon and a tone, never colour alone. */
 export const VERDICT_LOOK: Record<Verdict, { icon: string; tone: Tone }> = {
   ready: { icon: 'pi pi-check-circle', tone: 'success' },
+  // Not a judgement on the patient: an instruction to take the bloods that would clear them.
+  'results-needed': { icon: 'pi pi-hourglass', tone: 'info' },
   optimise: { icon: 'pi pi-exclamation-triangle', tone: 'warn' },
   // Deferral is a prompt to talk, not a refusal: amber, not red.
   'consider-deferral': { icon: 'pi pi-calendar-times', tone: 'warn' },
@@ -98,4 +109,9 @@ export function bloodOrderText(order: { kind: BloodOrderKind; units: number } | 
   if (!order) return '—'
   if (order.kind === 'group-and-screen') return 'Group and screen'
   return `Crossmatch ${order.units} unit${order.units === 1 ? '' : 's'}`
+}
+
+/** "Needs a recent Hb: the latest …" → "Needs a recent Hb": the short form for a table cell. */
+export function needHeadline(need: string): string {
+  return need.split(':')[0]!.replace(/\.$/, '')
 }

@@ -3,7 +3,7 @@ import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { loadStarterFormulary, makeEpisode } from '../helpers/clinicFactories'
-import { ReadinessReview, Referral, Result } from '../../server/models/index'
+import { AuditEntry, ReadinessReview, Referral, Result } from '../../server/models/index'
 import { allowableBloodLoss, estimatedBloodVolume, oxygenContent } from '../../shared/clinical'
 import { addDays, todayIso } from '../../shared/pathway'
 
@@ -49,15 +49,17 @@ describe('GET /api/referrals/:id/projection', () => {
     expect(p.bloodVolumeMl).toBe(Math.round(estimatedBloodVolume({ sex: 'male', heightCm: 175, weightKg: 70 })))
     expect(p.allowableBloodLossMl.logarithmic).toBe(Math.round(allowableBloodLoss({ ebvMl: estimatedBloodVolume({ sex: 'male', heightCm: 175, weightKg: 70 }), hbStartGL: 130, hbFloorGL: 70, method: 'logarithmic' })))
     expect(p.oxygen.today.cao2MlDl).toBeCloseTo(oxygenContent({ hbGL: 130, so2: 0.97, po2MmHg: 95 }), 2)
-    expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 })
+    expect(p.bloodOrder).toMatchObject({ kind: 'group-and-screen', units: 0, rule: 'group-and-screen' })
+    // A measured Hb taken today at the threshold and iron replete: the evidence for "ready" is complete.
     expect(p.readiness.verdict).toBe('ready')
+    expect(p.readiness.missing).toEqual([])
     expect(p.inputs).toMatchObject({ sex: 'male', heightCm: 175, weightKg: 70, saO2: 0.97, paO2MmHg: 95, triggerHbGL: 70 })
     expect(Object.keys(p.methods)).toEqual(expect.arrayContaining(['bloodVolume', 'allowableBloodLoss', 'surgeryDayHb', 'oxygenContent', 'transfusionNeed', 'trigger']))
     expect(p.cautions[0]).toMatch(/Decision support/)
     expect(p.assumptions.length).toBeGreaterThan(2)
   })
 
-  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the expected response gives 112.5 g/L on day 28 and group and screen is enough', async () => {
+  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the assumed rise is scaled by the dose and the blood order rests on her measured Hb', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'female', heightCm: 160, weightKg: 60, expectedBloodLossMl: 1510,
       hb: [{ hbGL: 100, takenAt: new Date(Date.now() - 20 * 86_400_000) }], referral: { plannedSurgeryDate: inDays(28) },
@@ -72,11 +74,16 @@ describe('GET /api/referrals/:id/projection', () => {
     const givenAt = new Date(`${inDays(-14)}T00:00:00Z`)
     await asNurse.post(`/api/referrals/${referral.id}/administrations`, { prescriptionId: rx.body.prescription.id, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-77', reaction: 'none' }).expect(201)
     const p = (await asDoctor.get(`/api/referrals/${referral.id}/projection`)).body
+    const deficitMg = rx.body.prescription.deficitMg as number
     expect(p.bloodVolumeMl).toBe(3627) // Nadler female (reference §3)
-    expect(p.predictedSurgeryHbGL).toBe(112.5) // stated assumption: +2.5 g/L a week from day 7 → 5 weeks × 2.5
-    expect(p.allowableBloodLossMl.logarithmic).toBe(1721) // 3627·ln(112.5/70)
-    expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 }) // usual loss 1510 mL is within the 1721 mL allowable loss
-    expect(p.readiness.verdict).toBe('optimise')
+    // Stated assumption: +2.5 g/L a week from day 7 for 5 weeks, scaled by 1000 mg of the prescription's deficit.
+    expect(p.predictedSurgeryHbGL).toBeCloseTo(100 + 12.5 * Math.min(1, 1000 / deficitMg), 1)
+    expect(p.planningHbGL).toBe(100)
+    expect(p.allowableBloodLossMl.logarithmic).toBe(1294) // 3627·ln(100/70), from the measured Hb
+    // Mercuriali at 100 g/L: tolerated 326 mL < expected 371 mL → 1 unit; the assumed rise would have given group and screen.
+    expect(p.bloodOrder).toMatchObject({ kind: 'crossmatch', units: 1, rule: 'red-cell-volume' })
+    expect(p.readiness.verdict).toBe('consider-deferral')
+    expect(p.readiness.missing.join(' ')).toMatch(/Needs a re-check after iron/)
     expect(p.methods.surgeryDayHb).toMatch(/Expected response/)
   })
 
@@ -157,6 +164,51 @@ describe('readiness: acknowledging and asking to move the date', () => {
     const other = await new Client(t.app).mustSignIn(otherSurgeon.email, otherSurgeon.password)
     expect((await other.post(`/api/referrals/${referral.id}/readiness`, { action: 'acknowledge' })).status).toBe(403)
     expect(await ReadinessReview.count()).toBe(0)
+  })
+})
+
+describe('PATCH /api/referrals/:id: antibody screen and transfusion refusal', () => {
+  it('when a doctor records a positive antibody screen, then the episode keeps it, the audit trail names it and the projection crossmatches', async () => {
+    const { referral } = await makeEpisode({
+      surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 140 }], expectedBloodLossMl: 500,
+      referral: { anaemic: false, ironStatus: 'replete', plannedSurgeryDate: inDays(30) },
+    })
+    const version = (await Referral.findByPk(referral.id))!.version
+    const res = await asDoctor.patch(`/api/referrals/${referral.id}`, { version, redCellAntibodies: true })
+    expect(res.status, JSON.stringify(res.body)).toBe(200)
+    expect(res.body).toMatchObject({ redCellAntibodies: true, declinesTransfusion: false })
+    const audit = await AuditEntry.findOne({ where: { entity: 'referral', action: 'update', entityId: String(referral.id) } })
+    expect(JSON.stringify(audit?.after)).toContain('redCellAntibodies')
+    const p = (await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body
+    expect(p.bloodOrder).toMatchObject({ kind: 'crossmatch', rule: 'antibodies' })
+    expect(p.readiness.flags).toContain('red-cell-antibodies')
+  })
+
+  it('when a nurse records that the patient declines transfusion, then the plan prompts cell salvage and tranexamic acid and no units are crossmatched', async () => {
+    const { referral } = await makeEpisode({
+      surgeonId: surgeon.id, sex: 'female', heightCm: 160, weightKg: 60, hb: [{ hbGL: 100 }], expectedBloodLossMl: 1510,
+      referral: { plannedSurgeryDate: inDays(30) },
+    })
+    const version = (await Referral.findByPk(referral.id))!.version
+    await asNurse.patch(`/api/referrals/${referral.id}`, { version, declinesTransfusion: true }).expect(200)
+    const p = (await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body
+    expect(p.bloodOrder).toMatchObject({ kind: 'group-and-screen', units: 0, rule: 'declines-transfusion' })
+    expect(p.readiness.plan.join(' ')).toMatch(/Cell salvage.*Tranexamic acid/s)
+  })
+
+  it('when the antibody screen is sent as a word, then 400 names the field and nothing changes', async () => {
+    const { referral } = await makeEpisode({ surgeonId: surgeon.id, referral: { plannedSurgeryDate: inDays(30) } })
+    const version = (await Referral.findByPk(referral.id))!.version
+    const res = await asDoctor.patch(`/api/referrals/${referral.id}`, { version, redCellAntibodies: 'positive' })
+    expect(res.status).toBe(400)
+    expect(res.body.error.fields.redCellAntibodies).toMatch(/true, false or null/)
+    expect((await Referral.findByPk(referral.id))!.redCellAntibodies).toBeNull()
+  })
+
+  it('when a surgeon tries to record the antibody screen, then 403', async () => {
+    const { referral } = await makeEpisode({ surgeonId: surgeon.id, referral: { plannedSurgeryDate: inDays(30) } })
+    const version = (await Referral.findByPk(referral.id))!.version
+    expect((await asSurgeon.patch(`/api/referrals/${referral.id}`, { version, redCellAntibodies: true })).status).toBe(403)
   })
 })
 

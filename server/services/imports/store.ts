@@ -3,7 +3,9 @@ import { ClinicalInputError, type Sex } from '../../../shared/clinical'
 import { ANALYTE_DEFS, DERIVED_UNITS } from '../../../shared/pathway'
 import type { ImportKind } from '../../../shared/imports'
 import { AuditEntry } from '../../models/index'
-import { egfrFromCreatinine, tsatFromSample, type SampleRow } from '../results'
+import { egfrFromCreatinine, tsatFromSample, type SampleRow } from '../../../shared/clinic/derivations'
+import { dateInZone } from '../../../shared/pathway'
+import { clinicTimeZone } from '../clinicDay'
 import { refreshScreeningMany } from '../screening'
 import type { Viewer } from '../viewer'
 import type { MatchedRow } from './match'
@@ -48,7 +50,7 @@ export async function deriveForBatch(sequelize: Sequelize, batchId: number, user
   for (const c of creatinines) {
     const dateOfBirth = c.dob instanceof Date ? c.dob.toISOString().slice(0, 10) : String(c.dob)
     const takenAt = new Date(c.takenAt)
-    const egfr = egfrFromCreatinine(c.valueCanonical, takenAt, { dateOfBirth, sex: c.sex })
+    const egfr = egfrFromCreatinine(c.valueCanonical, dateInZone(takenAt, clinicTimeZone()), { dateOfBirth, sex: c.sex })
     const key = `${c.referralId}|${takenAt.getTime()}|${egfr}`
     if (egfr === null || egfrKeys.has(key)) continue
     egfrKeys.add(key)

@@ -1,7 +1,8 @@
 import { QueryTypes, type Sequelize } from 'sequelize'
-import { addDays, todayIso } from '../../../shared/pathway'
+import { addDays } from '../../../shared/pathway'
 import type { Viewer } from '../viewer'
 import { Forbidden, Invalid } from '../../errors'
+import { clinicToday } from '../clinicDay'
 
 export interface ReportFilters { from: string; to: string; surgeonId: number | null; procedureCode: string | null }
 
@@ -10,7 +11,7 @@ const DATE = /^\d{4}-\d{2}-\d{2}$/
 /** Reads the query string; a surgeon sees only their own figures, whatever they ask for. */
 export function reportFilters(viewer: Viewer, q: Record<string, unknown>): ReportFilters {
   const str = (k: string) => (typeof q[k] === 'string' && q[k] !== '' ? (q[k] as string) : null)
-  const to = str('to') ?? todayIso()
+  const to = str('to') ?? clinicToday()
   const from = str('from') ?? addDays(to, -365)
   for (const [k, v] of [['from', from], ['to', to]] as const) {
     if (!DATE.test(v) || Number.isNaN(Date.parse(v))) throw new Invalid(`${k} must be a date (YYYY-MM-DD)`, { [k]: 'must be a date (YYYY-MM-DD)' })

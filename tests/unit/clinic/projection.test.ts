@@ -5,6 +5,9 @@ import { DEFAULT_CLINIC_SETTINGS } from '../../../shared/clinic/settings'
 const TODAY = '2027-03-01'
 const base = {
   today: TODAY,
+  timeZone: 'Europe/London',
+  antibodiesPositive: null,
+  declinesTransfusion: false,
   treatment: null,
   priority: 'routine',
   cardiovascularDisease: false,
@@ -25,7 +28,7 @@ describe('surgery-day projection, worked patients', () => {
       sex: 'male', heightCm: 175, weightKg: 70,
       hbMeasurements: [{ takenAt: '2027-02-27', hbGL: 130 }],
       // TKA total loss 1474 mL (Sehat et al., Knee 2000)
-      procedure: { code: 'TKA', name: 'Total knee replacement', expectedBloodLossMl: 1474, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+      procedure: { code: 'TKA', name: 'Total knee replacement', expectedBloodLossMl: 1474, usualBloodOrder: 'group-and-screen', usualUnits: 0, transfusionRate: null },
     } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
     expect(p.bloodVolumeMl).toBe(4824) // Nadler: 0.3669·1.75³ + 0.03219·70 + 0.6041 = 4.824 L (reference §3)
     expect(p.triggerHbGL).toBe(70) // NICE NG24 restrictive threshold
@@ -40,33 +43,40 @@ describe('surgery-day projection, worked patients', () => {
     // Mercuriali: tolerated 4824·(0.39 − 0.21) = 868 mL red cells > expected 4824·0.39·(1 − e^(−1474/4824)) = 495 mL → no units
     expect(p.transfusionNeed.toleratedRedCellMl).toBe(868)
     expect(p.transfusionNeed.expectedRedCellLossMl).toBe(495)
-    expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 })
+    expect(p.bloodOrder).toMatchObject({ kind: 'group-and-screen', units: 0, rule: 'group-and-screen' })
+    // A recent measured Hb at the threshold, iron replete, no treatment: the evidence is complete.
     expect(p.readiness.verdict).toBe('ready')
+    expect(p.readiness.missing).toEqual([])
     expect(p.methods.bloodVolume).toMatch(/Nadler/)
   })
 
-  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had IV iron 14 days ago, then the expected response lifts her but she is still to optimise, with group and screen', () => {
+  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the assumed rise is shown but the blood order and allowable loss rest on her measured 100 g/L', () => {
     const p = buildProjection({
       ...base,
       plannedSurgeryDate: '2027-03-29', // 28 days away; first dose 14 days ago → 42 days of response
       sex: 'female', heightCm: 160, weightKg: 60,
       ironStatus: 'absolute-deficiency',
-      treatment: { kind: 'iv', firstDoseDate: '2027-02-15', totalMg: 1000 },
+      // Ganzoni deficit 60 × (150 − 100) × 0.24 + 500 = 1220 mg (reference §6)
+      treatment: { kind: 'iv', firstDoseAt: '2027-02-15T00:00:00Z', lastDoseAt: '2027-02-15T00:00:00Z', totalMg: 1000, deficitMg: 1220 },
       hbMeasurements: [{ takenAt: '2027-02-10', hbGL: 100 }],
       // THA total loss 1510 mL (Sehat 2004, secondary source)
-      procedure: { code: 'THA', name: 'Total hip replacement', expectedBloodLossMl: 1510, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+      procedure: { code: 'THA', name: 'Total hip replacement', expectedBloodLossMl: 1510, usualBloodOrder: 'group-and-screen', usualUnits: 0, transfusionRate: 0.1 },
     } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
     expect(p.bloodVolumeMl).toBe(3627) // Nadler female: 0.3561·1.6³ + 0.03308·60 + 0.1833 = 3.627 L (reference §3)
-    // Stated assumption: +2.5 g/L a week from day 7 → (42 − 7)/7 · 2.5 = +12.5 g/L
-    expect(p.predictedSurgeryHbGL).toBe(112.5)
-    expect(p.allowableBloodLossMl.logarithmic).toBe(1721) // 3627·ln(112.5/70) = 1720.9
-    expect(p.allowableBloodLossMl.gross).toBe(1689) // 3627·42.5/91.25 = 1689.3
-    expect(p.predictedPostOpHbGL).toBe(74.2) // 112.5·e^(−1510/3627) = 74.19
-    // Mercuriali: tolerated 3627·(0.3375 − 0.21) = 462 mL; expected 3627·0.3375·(1 − e^(−1510/3627)) = 417 mL; no deficit
-    expect(p.transfusionNeed.deficitMl).toBe(-46)
-    expect(p.bloodOrder).toEqual({ kind: 'group-and-screen', units: 0 })
-    expect(p.readiness.verdict).toBe('optimise')
-    expect(p.assumptions.join(' ')).toMatch(/2\.5 g\/L/)
+    // Stated assumption scaled by the dose: 2.5 g/L a week × 1000/1220 for 5 weeks = +10.25 g/L
+    expect(p.predictedSurgeryHbGL).toBe(110.2)
+    expect(p.planningHbGL).toBe(100)
+    expect(p.allowableBloodLossMl.logarithmic).toBe(1294) // 3627·ln(100/70) = 1293.7
+    expect(p.allowableBloodLossMl.gross).toBe(1280) // 3627·30/85 = 1280.1
+    expect(p.predictedPostOpHbGL).toBe(65.9) // 100·e^(−1510/3627) = 65.95
+    // Mercuriali: tolerated 3627·(0.30 − 0.21) = 326 mL; expected 3627·0.30·(1 − e^(−1510/3627)) = 371 mL → 1 unit.
+    // With the assumed 110 g/L it would have been group and screen: the assumption must not lower the order.
+    expect(p.bloodOrder).toMatchObject({ kind: 'crossmatch', units: 1, rule: 'red-cell-volume' })
+    // Routine operation, still anaemic on the day and the usual loss beyond tolerance: deferral prompt.
+    expect(p.readiness.verdict).toBe('consider-deferral')
+    expect(p.readiness.missing.join(' ')).toMatch(/Needs a re-check after iron/)
+    expect(p.readiness.reasons.join(' ')).toMatch(/assumed response to iron; it is not evidence/)
+    expect(p.assumptions.join(' ')).toMatch(/1000 mg of iron given against a calculated deficit of 1220 mg \(82 %\)/)
   })
 
   it('when an untreated anaemic man without a height (80 kg, Hb 95, heart disease) has a routine CABG, then deferral is suggested and the 80 g/L trigger is used', () => {
@@ -77,7 +87,7 @@ describe('surgery-day projection, worked patients', () => {
       cardiovascularDisease: true,
       ironStatus: 'absolute-deficiency',
       hbMeasurements: [{ takenAt: '2027-02-20', hbGL: 95 }],
-      procedure: { code: 'CABG', name: 'Coronary artery bypass graft', expectedBloodLossMl: 750, usualBloodOrder: 'crossmatch', usualUnits: 2 },
+      procedure: { code: 'CABG', name: 'Coronary artery bypass graft', expectedBloodLossMl: 750, usualBloodOrder: 'crossmatch', usualUnits: 2, transfusionRate: null },
     } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
     expect(p.bloodVolumeMl).toBe(5600) // weight-based 70 mL/kg (Morgan & Mikhail, reference §3)
     expect(p.assumptions.join(' ')).toMatch(/Height is not recorded/)
@@ -88,6 +98,8 @@ describe('surgery-day projection, worked patients', () => {
     expect(p.oxygen.today.do2MlMin).toBe(632)
     expect(p.readiness.verdict).toBe('consider-deferral')
     expect(p.readiness.reasons.join(' ')).toMatch(/Iron deficiency found at screening/)
+    // 0 units by red-cell volume (tolerated 5600·(0.285 − 0.24) = 252 mL > expected), but the catalogue orders 2 for CABG.
+    expect(p.bloodOrder).toMatchObject({ kind: 'crossmatch', units: 2, rule: 'catalogue-order' })
   })
 
   it('when the same patient is on the cancer pathway, then the verdict is to optimise, not defer', () => {
@@ -97,7 +109,7 @@ describe('surgery-day projection, worked patients', () => {
       plannedSurgeryDate: '2027-03-15',
       sex: 'male', heightCm: 170, weightKg: 75,
       hbMeasurements: [{ takenAt: '2027-02-20', hbGL: 92 }],
-      procedure: { code: 'COLO', name: 'Open colorectal resection', expectedBloodLossMl: 350, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+      procedure: { code: 'COLO', name: 'Open colorectal resection', expectedBloodLossMl: 350, usualBloodOrder: 'group-and-screen', usualUnits: 0, transfusionRate: null },
     } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
     expect(p.readiness.verdict).toBe('optimise')
     expect(p.readiness.reasons.join(' ')).toMatch(/Not a routine operation/)
@@ -107,7 +119,7 @@ describe('surgery-day projection, worked patients', () => {
     const make = (hbGL: number) => buildProjection({
       ...base, plannedSurgeryDate: '2027-03-20', sex: 'female', heightCm: 165, weightKg: 65,
       hbMeasurements: [{ takenAt: '2027-02-25', hbGL }],
-      procedure: { code: 'X', name: 'X', expectedBloodLossMl: 500, usualBloodOrder: 'group-and-screen', usualUnits: 0 },
+      procedure: { code: 'X', name: 'X', expectedBloodLossMl: 500, usualBloodOrder: 'group-and-screen', usualUnits: 0, transfusionRate: null },
     }, DEFAULT_CLINIC_SETTINGS)
     const low = make(100)
     const high = make(130)

@@ -23,12 +23,12 @@ describe('Hb projection to the surgery date', () => {
     const p = projectHb({
       targetDate: '2025-04-05',
       measurements: [{ takenAt: '2025-02-25', hbGL: 105 }],
-      treatment: { kind: 'iv', firstDoseDate: '2025-03-01', totalMg: 1000 },
+      treatment: { kind: 'iv', firstDoseDate: '2025-03-01', totalMg: 1000, deficitMg: 1000 },
     })
     expect(p.method).toBe('expected-response')
     expectWithin(p.hbGL, 115, 1e-9)
     expect(p.assumptions.join(' ')).toContain('2.5 g/L per week')
-    expect(p.assumptions.join(' ')).toContain('1000 mg')
+    expect(p.assumptions.join(' ')).toContain('1000 mg of iron given against a calculated deficit of 1000 mg (100 %)')
   })
 
   it('when surgery is far off, then the expected IV rise stops at +20 g/L', () => {
@@ -94,7 +94,7 @@ describe('Hb projection to the surgery date', () => {
     expect(p).toMatchObject({ method: 'trend', hbGL: 120 })
   })
 
-  it('when Hb is falling despite iron, then the trend is not extrapolated below the lowest re-check and a review is asked for', () => {
+  it('when Hb is falling despite iron, then the fall is extended to the target date (not floored at the lowest re-check) and a review is asked for', () => {
     const p = projectHb({
       targetDate: '2025-06-01',
       measurements: [
@@ -103,7 +103,9 @@ describe('Hb projection to the surgery date', () => {
       ],
       treatment: { kind: 'iv', firstDoseDate: '2025-03-01' },
     })
-    expect(p.hbGL).toBe(104)
+    // Two points, so the line passes through both: −6 g/L in 28 days; 28 Mar → 1 Jun is 65 days,
+    // so 104 − 6 × 65/28 = 90.07 g/L (by hand). The old floor showed 104 and hid the fall.
+    expectWithin(p.hbGL, 90.07, 0.01)
     expect(p.assumptions.join(' ')).toContain('falling despite iron')
   })
 
@@ -118,6 +120,44 @@ describe('Hb projection to the surgery date', () => {
     })
     expect(p.method).toBe('expected-response')
     expectWithin(p.hbGL, 114, 1e-9)
+  })
+
+  it('when the IV dose given is a sixth of the calculated deficit, then the assumed rise and its cap are scaled to that share', () => {
+    // 200 mg given of a 1 200 mg deficit; 42 days after the dose: full rule +12.5 g/L → a sixth is 2.08 g/L.
+    const p = projectHb({
+      targetDate: '2025-04-12',
+      measurements: [{ takenAt: '2025-02-25', hbGL: 100 }],
+      treatment: { kind: 'iv', firstDoseDate: '2025-03-01', totalMg: 200, deficitMg: 1200 },
+    })
+    expect(p.method).toBe('expected-response')
+    expectWithin(p.hbGL, 100 + 12.5 / 6, 1e-9)
+    expect(p.doseFraction).toBeCloseTo(1 / 6, 9)
+    expect(p.assumptions.join(' ')).toMatch(/200 mg of iron given against a calculated deficit of 1200 mg \(17 %\)/)
+  })
+
+  it('when an Hb is taken on the morning of surgery in the clinic zone, then it counts in the projection', () => {
+    const p = projectHb({
+      targetDate: '2025-07-14',
+      timeZone: 'Europe/London',
+      measurements: [
+        { takenAt: '2025-07-01T09:00:00Z', hbGL: 118 },
+        // 07:30 BST on the surgery day (06:30 UTC)
+        { takenAt: '2025-07-14T06:30:00Z', hbGL: 124 },
+      ],
+    })
+    expect(p.hbGL).toBe(124)
+  })
+
+  it('when an Hb is taken at 00:30 clinic time the day after surgery, then it does not count', () => {
+    const p = projectHb({
+      targetDate: '2025-07-14',
+      timeZone: 'Europe/London',
+      measurements: [
+        { takenAt: '2025-07-01T09:00:00Z', hbGL: 118 },
+        { takenAt: '2025-07-14T23:30:00Z', hbGL: 95 },
+      ],
+    })
+    expect(p.hbGL).toBe(118)
   })
 
   it('when measurements are later than the target, then only those up to the target are used', () => {

@@ -1,0 +1,88 @@
+import type { IronStatus } from '../clinical'
+import { dateInZone, daysBetween } from '../pathway/dates'
+import { FALLING_HB_MARGIN_GL, NON_RESPONSE, RECHECK_MIN_DAYS_AFTER_DOSE } from './rules'
+
+export interface MeasuredHb { takenAt: Date | string; hbGL: number }
+
+export interface TreatmentGiven {
+  kind: 'iv' | 'oral'
+  firstDoseAt: Date | string
+  lastDoseAt: Date | string
+  totalMg: number
+  /** The calculated deficit of the active prescription; null when none is on record. */
+  deficitMg: number | null
+}
+
+export interface EvidenceInput {
+  /** The clinic's today (todayInZone) and its zone, so sample days are read on one calendar. */
+  today: string
+  timeZone: string
+  hb: MeasuredHb[]
+  ironStatus: IronStatus | null
+  treatment: TreatmentGiven | null
+  resultMaxAgeDays: number
+}
+
+export type MissingEvidence = 'recent-hb' | 'iron-studies' | 'tsat-or-crp' | 'recheck-after-iron'
+
+export interface Evidence {
+  latest: { hbGL: number; date: string; ageDays: number } | null
+  hbRecent: boolean
+  ironKnown: boolean
+  /** Latest Hb before the first dose, and the latest taken long enough after the last dose. */
+  baseline: { hbGL: number; date: string } | null
+  recheck: { hbGL: number; date: string; daysAfterFirstDose: number } | null
+  /** IV iron, a re-check 4 weeks or more after the first dose, and a rise under 10 g/L. */
+  nonResponse: boolean
+  /** After treatment the latest Hb is FALLING_HB_MARGIN_GL or more below the pre-treatment value. */
+  falling: boolean
+  missing: MissingEvidence[]
+}
+
+/**
+ * What the measured results show, and what they do not. Pure: only measured values enter here;
+ * the projection's assumed rise never does, so it can never supply evidence it has not seen.
+ */
+export function gatherEvidence(e: EvidenceInput): Evidence {
+  const days = [...e.hb]
+    .map((h) => ({ hbGL: h.hbGL, ms: +new Date(h.takenAt), date: dateInZone(h.takenAt, e.timeZone) }))
+    .filter((h) => h.date <= e.today)
+    .sort((a, b) => a.ms - b.ms)
+  const last = days[days.length - 1]
+  const latest = last ? { hbGL: last.hbGL, date: last.date, ageDays: daysBetween(last.date, e.today) } : null
+  const hbRecent = latest !== null && latest.ageDays <= e.resultMaxAgeDays
+  const ironKnown = e.ironStatus !== null && e.ironStatus !== 'indeterminate'
+
+  let baseline: Evidence['baseline'] = null
+  let recheck: Evidence['recheck'] = null
+  let nonResponse = false
+  let falling = false
+  if (e.treatment) {
+    const firstMs = +new Date(e.treatment.firstDoseAt)
+    const firstDate = dateInZone(e.treatment.firstDoseAt, e.timeZone)
+    const lastDate = dateInZone(e.treatment.lastDoseAt, e.timeZone)
+    const pre = days.filter((h) => h.ms < firstMs)
+    const post = days.filter((h) => h.ms >= firstMs)
+    const b = pre[pre.length - 1]
+    baseline = b ? { hbGL: b.hbGL, date: b.date } : null
+    const rechecks = post.filter((h) => daysBetween(lastDate, h.date) >= RECHECK_MIN_DAYS_AFTER_DOSE)
+    const r = rechecks[rechecks.length - 1]
+    recheck = r ? { hbGL: r.hbGL, date: r.date, daysAfterFirstDose: daysBetween(firstDate, r.date) } : null
+    const lastPost = post[post.length - 1]
+    // Without a pre-treatment value, the first Hb after the dose is the reference.
+    const reference = b ?? (post.length > 1 ? post[0] : undefined)
+    falling = lastPost !== undefined && reference !== undefined && lastPost !== reference && lastPost.hbGL <= reference.hbGL - FALLING_HB_MARGIN_GL
+    if (e.treatment.kind === 'iv' && baseline) {
+      const late = post.filter((h) => daysBetween(firstDate, h.date) >= NON_RESPONSE.afterDays)
+      const l = late[late.length - 1]
+      nonResponse = l !== undefined && l.hbGL - baseline.hbGL < NON_RESPONSE.minRiseGL
+    }
+  }
+
+  const missing: MissingEvidence[] = []
+  if (!hbRecent) missing.push('recent-hb')
+  if (e.ironStatus === null) missing.push('iron-studies')
+  else if (e.ironStatus === 'indeterminate') missing.push('tsat-or-crp')
+  if (e.treatment && !recheck) missing.push('recheck-after-iron')
+  return { latest, hbRecent, ironKnown, baseline, recheck, nonResponse, falling, missing }
+}
