@@ -1,4 +1,4 @@
-import { ClinicalInputError, type HbTreatment } from '../../shared/clinical'
+import { BloodVolumeRefusal, ClinicalInputError, type HbTreatment } from '../../shared/clinical'
 import { buildProjection, type Projection } from '../../shared/clinic/projection'
 import { todayIso } from '../../shared/pathway'
 import type { IronStatus } from '../../shared/clinical'
@@ -19,6 +19,7 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
   const [facts, settings] = await Promise.all([clinicalFacts(r), getClinicSettings()])
   const missing: Record<string, string> = {}
   if (facts.body.weightKg == null) missing.weightKg = "the patient's weight is not recorded"
+  if (facts.body.heightCm == null) missing.height = new BloodVolumeRefusal().message
   if (!facts.hb.length) missing.hb = 'no Hb result is recorded'
   if (r.procedure.expectedBloodLossMl == null) missing.expectedBloodLossMl = `the operation "${r.procedure.name}" has no usual blood loss in the catalogue`
   if (Object.keys(missing).length) {
