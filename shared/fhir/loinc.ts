@@ -27,7 +27,9 @@ export interface LoincEntry {
   toCanonical?: (value: number) => number
 }
 
-export const LOINC_SOURCE = 'LOINC table (Regenstrief), from memory; checked against published laboratory test catalogues'
+// The codes were written from memory and checked against published laboratory test catalogues;
+// what the import screen shows must not say "from memory", so it asks for the local check.
+export const LOINC_SOURCE = 'LOINC table (Regenstrief); check each code against your laboratory\'s catalogue (local policy)'
 
 const round2 = (n: number) => Math.round(n * 100) / 100
 // µmol/L ↔ µg/dL for iron (Fe 55.845 g/mol) and creatinine (113.12 g/mol): shared/clinical/units.ts.
