@@ -77,6 +77,8 @@ export const VERDICT_LOOK: Record<Verdict, { icon: string; tone: Tone }> = {
 export const CAP_LABELS: Record<IronDoseCap, string> = {
   maxSingleDoseMg: 'largest single dose',
   maxSingleDoseMgPerKg: 'mg per kg limit',
+  paediatricMaxSingleDoseMg: 'largest single dose under 18',
+  paediatricMaxSingleDoseMgPerKg: 'mg per kg limit under 18',
   maxWeeklyMg: 'weekly limit',
   maxTotalMg: 'course maximum',
   roundToMg: 'vial size (dose step)',
