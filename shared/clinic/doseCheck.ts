@@ -79,7 +79,12 @@ export function checkGivenDose(input: {
 }): (CapViolation | { cap: 'prescribedTotal'; message: string })[] {
   const { product, doseMg, givenAt } = input
   const single = checkDosesAgainstCaps(product, input.weightKg, [{ doseMg, dayOffset: 0 }], Infinity, { paediatric: input.paediatric })
-  const out: (CapViolation | { cap: 'prescribedTotal'; message: string })[] = single.map((v) => ({ ...v, message: v.message.replace('Dose 1 ', 'This dose ') }))
+  // Only the per-dose caps from the schedule check: the week and the course are counted below
+  // against what was really given.
+  const perDose = new Set(['maxSingleDoseMg', 'maxSingleDoseMgPerKg', 'paediatricMaxSingleDoseMg', 'paediatricMaxSingleDoseMgPerKg'])
+  const out: (CapViolation | { cap: 'prescribedTotal'; message: string })[] = single
+    .filter((v) => perDose.has(v.cap))
+    .map((v) => ({ ...v, message: v.message.replace('Dose 1 ', 'This dose ') }))
   const before = input.earlier.filter((d) => d.givenAt.getTime() <= givenAt.getTime())
   const last = before.reduce<GivenDose | null>((a, d) => (!a || d.givenAt > a.givenAt ? d : a), null)
   if (last && product.route === 'iv') {
