@@ -8,6 +8,7 @@ import * as m0006 from './0006-outcomes'
 import * as m0007 from './0007-imports'
 import * as m0008 from './0008-documents'
 import * as m0010 from './0010-transfusion-inputs'
+import * as m0011 from './0011-dosing-safety'
 
 export interface Migration {
   name: string
@@ -26,4 +27,5 @@ export const migrations: Migration[] = [
   { name: '0007-imports', ...m0007 },
   { name: '0008-documents', ...m0008 },
   { name: '0010-transfusion-inputs', ...m0010 },
+  { name: '0011-dosing-safety', ...m0011 },
 ]

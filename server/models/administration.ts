@@ -13,6 +13,8 @@ export class Administration extends Model<InferAttributes<Administration>, Infer
   declare reaction: Reaction
   declare reactionNotes: string | null
   declare givenBy: number | null
+  /** Why a dose over a cap or the prescribed total was given anyway. */
+  declare overrideReason: CreationOptional<string | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -23,6 +25,7 @@ export function initAdministration(sequelize: Sequelize): void {
       prescriptionId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       referralId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       doseMg: { type: DataTypes.DOUBLE, allowNull: false },
+      overrideReason: { type: DataTypes.STRING(500), allowNull: true },
       givenAt: { type: DataTypes.DATE, allowNull: false },
       batchNumber: { type: DataTypes.STRING(40), allowNull: false },
       reaction: { type: DataTypes.STRING(12), allowNull: false },

@@ -1,3 +1,4 @@
+import type { IronDosingTable } from '../../shared/clinical'
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
 
 /** A formulary entry; its caps are data so the hospital can match its own protocols. */
@@ -14,6 +15,11 @@ export class IronProductRow extends Model<InferAttributes<IronProductRow>, Infer
   declare roundToMg: number | null
   declare oralDailyMg: number | null
   declare oralAlternateDays: boolean | null
+  declare licensedFromAgeYears: CreationOptional<number | null>
+  declare paediatricMaxSingleDoseMgPerKg: CreationOptional<number | null>
+  declare paediatricMaxSingleDoseMg: CreationOptional<number | null>
+  declare dosingTable: CreationOptional<IronDosingTable | null>
+  declare phosphateCheckOnRepeat: CreationOptional<boolean>
   declare source: string
   declare active: CreationOptional<boolean>
   declare createdAt: CreationOptional<Date>
@@ -35,6 +41,11 @@ export function initIronProduct(sequelize: Sequelize): void {
       roundToMg: { type: DataTypes.DOUBLE, allowNull: true },
       oralDailyMg: { type: DataTypes.DOUBLE, allowNull: true },
       oralAlternateDays: { type: DataTypes.BOOLEAN, allowNull: true },
+      licensedFromAgeYears: { type: DataTypes.DOUBLE, allowNull: true },
+      paediatricMaxSingleDoseMgPerKg: { type: DataTypes.DOUBLE, allowNull: true },
+      paediatricMaxSingleDoseMg: { type: DataTypes.DOUBLE, allowNull: true },
+      dosingTable: { type: DataTypes.JSON, allowNull: true },
+      phosphateCheckOnRepeat: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       source: { type: DataTypes.STRING(300), allowNull: false },
       active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       createdAt: DataTypes.DATE,

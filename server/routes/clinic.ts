@@ -50,7 +50,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   api.post('/:id/administrations', { access: ['nurse', 'doctor'] }, validate(administrationSchema), async (req, res) => {
     const b = req.body as AdministrationInput
     res.status(201).json(await recordAdministration(sequelize, viewerOf(req), idParam(req), {
-      prescriptionId: b.prescriptionId, doseMg: b.doseMg, givenAt: b.givenAt, batchNumber: b.batchNumber, reaction: b.reaction, reactionNotes: b.reactionNotes,
+      prescriptionId: b.prescriptionId, doseMg: b.doseMg, givenAt: b.givenAt, batchNumber: b.batchNumber, reaction: b.reaction, reactionNotes: b.reactionNotes, overrideReason: b.overrideReason,
     }))
   })
 

@@ -52,7 +52,7 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
 
   api.post('/:id/results', { access: CLINICAL_WRITERS }, validate(createResultSchema), async (req, res) => {
     const b = req.body as CreateResultInput
-    const input: CreateResultInput = { analyte: b.analyte, value: b.value, unit: b.unit, takenAt: b.takenAt }
+    const input: CreateResultInput = { analyte: b.analyte, value: b.value, unit: b.unit, takenAt: b.takenAt, unitConfirmed: b.unitConfirmed }
     res.status(201).json(await addResult(sequelize, viewerOf(req), idParam(req), input))
   })
 

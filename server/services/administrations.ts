@@ -1,6 +1,8 @@
 import type { Sequelize } from 'sequelize'
 import { Administration, Prescription, Referral, User } from '../models/index'
-import { addDays, isReadOnly } from '../../shared/pathway'
+import { addDays, ageOn, isReadOnly } from '../../shared/pathway'
+import { ADULT_AGE_YEARS } from '../../shared/clinical'
+import { checkGivenDose } from '../../shared/clinic/doseCheck'
 import type { AdministrationInput } from '../../shared/schemas/clinic'
 import type { Reaction } from '../models/administration'
 import { recordAudit } from './audit'
@@ -14,18 +16,18 @@ import { NotFound, RuleRefused } from '../errors'
 
 /** Stages from which a recorded dose means the patient is now on treatment. */
 const MOVES_TO_TREATING = new Set(['clinic', 'recheck', 'screened', 'cleared'])
-const DAY_MS = 86_400_000
 
 export function toAdministrationView(a: Administration & { giver?: User | null }) {
   return {
     id: a.id, prescriptionId: a.prescriptionId, doseMg: a.doseMg, givenAt: isoOrNull(a.givenAt), batchNumber: a.batchNumber,
-    reaction: a.reaction, reactionNotes: a.reactionNotes, giver: a.giver ? { id: a.giver.id, name: a.giver.name } : null,
+    reaction: a.reaction, reactionNotes: a.reactionNotes, overrideReason: a.overrideReason ?? null, giver: a.giver ? { id: a.giver.id, name: a.giver.name } : null,
   }
 }
 
 /**
- * Records a dose given. The dose is checked against the product's single-dose caps and the
- * interval since the last dose; the episode moves to treating and the re-check is scheduled
+ * Records a dose given. The dose is re-checked against the product's single-dose, mg/kg,
+ * interval, weekly and course caps and the prescribed total; an overshoot is refused (422
+ * naming each cap) unless a reason is recorded with it; the episode moves to treating and the re-check is scheduled
  * the clinic's configured number of days after this (the latest) dose.
  */
 export async function recordAdministration(sequelize: Sequelize, viewer: Viewer, referralId: number, input: AdministrationInput) {
@@ -40,23 +42,22 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     const givenAt = new Date(input.givenAt)
     const body = await currentBody(r.patientId, t)
     const weight = body.weightKg ?? p.weightKg
-    const perKg = product.maxSingleDoseMgPerKg !== undefined ? product.maxSingleDoseMgPerKg * weight : Infinity
-    if (input.doseMg > product.maxSingleDoseMg) {
-      throw new RuleRefused(`${input.doseMg} mg is over the largest single dose of ${product.maxSingleDoseMg} mg for ${product.name}`, 'dose_over_cap', { doseMg: 'over maxSingleDoseMg' })
-    }
-    if (input.doseMg > perKg + 1e-9) {
-      throw new RuleRefused(`${input.doseMg} mg is over ${product.maxSingleDoseMgPerKg} mg/kg (${Math.floor(perKg)} mg at ${weight} kg) for ${product.name}`, 'dose_over_cap', { doseMg: 'over maxSingleDoseMgPerKg' })
-    }
-    const previous = await Administration.findOne({ where: { referralId }, order: [['givenAt', 'DESC']], transaction: t })
-    if (previous && product.route === 'iv') {
-      const days = (givenAt.getTime() - previous.givenAt.getTime()) / DAY_MS
-      if (days < product.minIntervalDays) {
-        throw new RuleRefused(`The last dose was ${Math.max(0, Math.floor(days))} days before this one; ${product.name} needs at least ${product.minIntervalDays}`, 'interval_too_short', { givenAt: 'too soon after the last dose' })
-      }
+    const earlier = await Administration.findAll({ where: { referralId }, attributes: ['doseMg', 'givenAt', 'prescriptionId'], transaction: t })
+    const violations = checkGivenDose({
+      product, weightKg: weight, paediatric: ageOn(r.patient.dateOfBirth, givenAt.toISOString().slice(0, 10)) < ADULT_AGE_YEARS,
+      doseMg: input.doseMg, givenAt, earlier: earlier.map((d) => ({ doseMg: d.doseMg, givenAt: d.givenAt })),
+      givenOnPrescriptionMg: earlier.filter((d) => d.prescriptionId === p.id).reduce((sum, d) => sum + d.doseMg, 0),
+      prescribedTotalMg: p.totalMg,
+    })
+    if (violations.length && !input.overrideReason) {
+      const fields = Object.fromEntries(violations.map((v) => [v.cap, v.message]))
+      const code = violations.some((v) => v.cap === 'minIntervalDays') && violations.length === 1 ? 'interval_too_short' : 'dose_over_cap'
+      throw new RuleRefused(`${violations.map((v) => v.message).join('; ')}. Record a reason to give it anyway.`, code, { ...fields, overrideReason: 'is required to give a dose over a cap' })
     }
     const a = await Administration.create({
       prescriptionId: p.id, referralId, doseMg: input.doseMg, givenAt, batchNumber: input.batchNumber,
       reaction: input.reaction as Reaction, reactionNotes: input.reactionNotes ?? null, givenBy: viewer.userId,
+      overrideReason: violations.length ? input.overrideReason ?? null : null,
     }, { transaction: t })
     const given = ((await Administration.sum('doseMg', { where: { prescriptionId: p.id }, transaction: t })) as number | null) ?? 0
     if (given >= p.totalMg) await p.update({ status: 'completed' }, { transaction: t })

@@ -1,6 +1,6 @@
 import { UniqueConstraintError, type Sequelize } from 'sequelize'
 import { IronProductRow } from '../models/index'
-import { validateIronProduct, type IronProduct } from '../../shared/clinical'
+import { validateIronProduct, type IronDosingTable, type IronProduct } from '../../shared/clinical'
 import type { CreateIronProductInput, UpdateIronProductInput } from '../../shared/schemas/formulary'
 import { recordAudit, changedFields, type Actor } from './audit'
 import { clinical } from './viewer'
@@ -29,6 +29,11 @@ export function toIronProduct(row: IronProductRow): IronProduct {
     roundToMg: orUndefined(row.roundToMg),
     oralDailyMg: orUndefined(row.oralDailyMg),
     oralAlternateDays: orUndefined(row.oralAlternateDays),
+    licensedFromAgeYears: orUndefined(row.licensedFromAgeYears),
+    paediatricMaxSingleDoseMgPerKg: orUndefined(row.paediatricMaxSingleDoseMgPerKg),
+    paediatricMaxSingleDoseMg: orUndefined(row.paediatricMaxSingleDoseMg),
+    dosingTable: orUndefined(typeof row.dosingTable === 'string' ? (JSON.parse(row.dosingTable) as IronDosingTable) : row.dosingTable),
+    phosphateCheckOnRepeat: Boolean(row.phosphateCheckOnRepeat),
   }
 }
 
@@ -50,7 +55,8 @@ export async function findProduct(code: string): Promise<IronProductRow> {
 export async function createProduct(sequelize: Sequelize, actor: Actor, input: CreateIronProductInput): Promise<FormularyEntry> {
   const candidate = { ...input, maxSingleDoseMgPerKg: input.maxSingleDoseMgPerKg ?? undefined, maxWeeklyMg: input.maxWeeklyMg ?? undefined,
     maxTotalMg: input.maxTotalMg ?? undefined, roundToMg: input.roundToMg ?? undefined, oralDailyMg: input.oralDailyMg ?? undefined,
-    oralAlternateDays: input.oralAlternateDays ?? undefined } as IronProduct
+    oralAlternateDays: input.oralAlternateDays ?? undefined, licensedFromAgeYears: input.licensedFromAgeYears ?? undefined,
+    paediatricMaxSingleDoseMgPerKg: input.paediatricMaxSingleDoseMgPerKg ?? undefined, paediatricMaxSingleDoseMg: input.paediatricMaxSingleDoseMg ?? undefined } as IronProduct
   clinical('product', () => validateIronProduct(candidate))
   try {
     return await sequelize.transaction(async (t) => {
@@ -59,6 +65,8 @@ export async function createProduct(sequelize: Sequelize, actor: Actor, input: C
         maxSingleDoseMgPerKg: input.maxSingleDoseMgPerKg ?? null, minIntervalDays: input.minIntervalDays,
         maxWeeklyMg: input.maxWeeklyMg ?? null, maxTotalMg: input.maxTotalMg ?? null, roundToMg: input.roundToMg ?? null,
         oralDailyMg: input.oralDailyMg ?? null, oralAlternateDays: input.oralAlternateDays ?? null, source: input.source,
+        licensedFromAgeYears: input.licensedFromAgeYears ?? null, paediatricMaxSingleDoseMgPerKg: input.paediatricMaxSingleDoseMgPerKg ?? null,
+        paediatricMaxSingleDoseMg: input.paediatricMaxSingleDoseMg ?? null, phosphateCheckOnRepeat: input.phosphateCheckOnRepeat ?? false,
         active: input.active ?? true,
       }, { transaction: t })
       const entry = toEntry(row)

@@ -1,17 +1,35 @@
 import type { Sequelize } from 'sequelize'
-import { Prescription, Referral, User } from '../models/index'
-import { ironDosePlan, type IronDosePlan } from '../../shared/clinical'
+import { Op } from 'sequelize'
+import { Administration, Prescription, Referral, Result, User } from '../models/index'
+import { ironDosePlan, IronPlanRefusal, type IronDosePlan, type IronProduct } from '../../shared/clinical'
 import { checkDosesAgainstCaps } from '../../shared/clinic/doseCheck'
 import { IV_IRON_CAUTIONS, positiveCautions, type CautionAnswers } from '../../shared/clinic/cautions'
 import { DECISION_SUPPORT_CAUTION } from '../../shared/clinic/readiness'
 import type { DosePlanPreviewInput, PrescriptionInput } from '../../shared/schemas/clinic'
-import { daysBetween, isReadOnly, todayIso } from '../../shared/pathway'
+import { ageOn, daysBetween, isReadOnly, todayIso } from '../../shared/pathway'
 import { recordAudit } from './audit'
 import { getClinicSettings } from './clinicSettings'
 import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
 import { findProduct, toIronProduct, FORMULARY_CAUTION } from './formulary'
 import { clinical, isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Invalid, RuleRefused } from '../errors'
+
+export const PHOSPHATE_SOURCE = 'Ferinject SmPC 4.4; MHRA Drug Safety Update 2020: check serum phosphate before repeated high doses (hypophosphataemia, osteomalacia)'
+
+/**
+ * A repeat course of a product marked phosphateCheckOnRepeat (ferric carboxymaltose) needs a
+ * serum phosphate taken after the last dose of that product given to this patient.
+ */
+async function phosphateNeeded(r: LoadedReferral, product: IronProduct): Promise<{ needed: boolean; message: string }> {
+  if (!product.phosphateCheckOnRepeat) return { needed: false, message: '' }
+  const referralIds = (await Referral.findAll({ where: { patientId: r.patientId }, attributes: ['id'], raw: true })).map((x) => x.id)
+  const courseIds = (await Prescription.findAll({ where: { referralId: referralIds, productCode: product.code }, attributes: ['id'], raw: true })).map((x) => x.id)
+  const last = courseIds.length ? await Administration.findOne({ where: { prescriptionId: courseIds }, order: [['givenAt', 'DESC']] }) : null
+  if (!last) return { needed: false, message: '' }
+  const phosphate = await Result.findOne({ where: { referralId: r.id, analyte: 'phosphate', takenAt: { [Op.gt]: last.givenAt } } })
+  if (phosphate) return { needed: false, message: '' }
+  return { needed: true, message: `A repeat course of ${product.name}: record a serum phosphate taken since the last dose (${last.givenAt.toISOString().slice(0, 10)}) first (${PHOSPHATE_SOURCE}).` }
+}
 
 /** The figures a dose is computed from; a missing one is a 422 that names it, never a default. */
 async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
@@ -22,10 +40,21 @@ async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
   const product = toIronProduct(productRow)
   const targetHbGL = input.targetHbGL ?? settings.ironTargetHbGL
   const firstDoseDate = input.firstDoseDate ?? todayIso()
-  const plan: IronDosePlan = clinical('productCode', () =>
-    ironDosePlan({ product, weightKg: facts.body.weightKg!, hbGL: latestHb.hbGL, targetHbGL, startDate: firstDoseDate }),
-  )
+  const ageYears = ageOn(r.patient.dateOfBirth, todayIso())
+  const plan: IronDosePlan = clinical('productCode', () => {
+    try {
+      return ironDosePlan({
+        product, weightKg: facts.body.weightKg!, hbGL: latestHb.hbGL, targetHbGL, startDate: firstDoseDate,
+        heightCm: facts.body.heightCm, sex: r.patient.sex, ageYears, surgeryDate: r.plannedSurgeryDate,
+      })
+    } catch (err) {
+      if (err instanceof IronPlanRefusal) throw new RuleRefused(err.message, err.code, { [err.input]: err.message })
+      throw err
+    }
+  })
   const warnings = [...plan.warnings]
+  const phosphate = await phosphateNeeded(r, product)
+  if (phosphate.needed) warnings.unshift(phosphate.message)
   const weightAgeDays = facts.body.weightMeasuredAt ? daysBetween(facts.body.weightMeasuredAt.slice(0, 10), todayIso()) : null
   if (weightAgeDays !== null && weightAgeDays > settings.weightMaxAgeDays) {
     warnings.unshift(`The weight (${facts.body.weightKg} kg) was measured ${weightAgeDays} days ago, more than ${settings.weightMaxAgeDays}: re-weigh the patient before relying on this dose.`)
@@ -33,9 +62,13 @@ async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
   return {
     product,
     productSource: productRow.source,
-    inputs: { weightKg: facts.body.weightKg, weightMeasuredAt: facts.body.weightMeasuredAt, hbGL: latestHb.hbGL, hbTakenAt: isoOrNull(latestHb.takenAt), targetHbGL, firstDoseDate },
+    inputs: {
+      weightKg: facts.body.weightKg, weightMeasuredAt: facts.body.weightMeasuredAt, heightCm: facts.body.heightCm, ageYears, hbGL: latestHb.hbGL,
+      hbTakenAt: isoOrNull(latestHb.takenAt), targetHbGL: plan.method.targetHbGL, firstDoseDate, plannedSurgeryDate: r.plannedSurgeryDate,
+    },
     plan: { ...plan, warnings },
-    methods: { deficit: 'Ganzoni 1970: weight (kg) × (target − actual Hb, g/L) × 0.24 + iron stores (500 mg, or 15 mg/kg under 35 kg)', caps: `Caps from the formulary entry for ${product.name}. ${FORMULARY_CAUTION}` },
+    phosphate,
+    methods: { deficit: plan.method.methodName, caps: `Caps from the formulary entry for ${product.name}${plan.paediatric ? ' (paediatric caps applied)' : ''}. ${FORMULARY_CAUTION}` },
     cautions: [DECISION_SUPPORT_CAUTION, FORMULARY_CAUTION],
     cautionQuestions: product.route === 'iv' ? IV_IRON_CAUTIONS : [],
   }
@@ -63,8 +96,12 @@ export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId
   const doses = input.doses?.length
     ? input.doses.map((d, i) => ({ number: i + 1, doseMg: d.doseMg, dayOffset: d.dayOffset, cappedBy: [] }))
     : plan.doses
+  if (computed.phosphate.needed) throw new RuleRefused(computed.phosphate.message, 'phosphate_required', { phosphate: 'a serum phosphate result is needed before a repeat course' })
   if (product.route === 'iv') {
-    const violations = checkDosesAgainstCaps(product, computed.inputs.weightKg, doses, plan.totalMg)
+    const surgeryDayOffset = daysBetween(computed.inputs.firstDoseDate, r.plannedSurgeryDate)
+    const violations = checkDosesAgainstCaps(product, computed.inputs.weightKg, doses, plan.totalMg, {
+      paediatric: plan.paediatric, surgeryDayOffset, needLabel: plan.method.method === 'product-table' ? 'product dosing table' : 'Ganzoni',
+    })
     if (violations.length) {
       throw new RuleRefused(violations.map((v) => v.message).join('; '), 'dose_over_cap', Object.fromEntries(violations.map((v) => [v.cap, v.message])))
     }

@@ -1,5 +1,5 @@
-import { ClinicalInputError } from '../../shared/clinical'
 import type { TreatmentGiven } from '../../shared/clinic/evidence'
+import { BloodVolumeRefusal, ClinicalInputError } from '../../shared/clinical'
 import { buildProjection, type Projection } from '../../shared/clinic/projection'
 import type { IronStatus } from '../../shared/clinical'
 import { getClinicSettings } from './clinicSettings'
@@ -20,6 +20,7 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
   const [facts, settings] = await Promise.all([clinicalFacts(r), getClinicSettings()])
   const missing: Record<string, string> = {}
   if (facts.body.weightKg == null) missing.weightKg = "the patient's weight is not recorded"
+  if (facts.body.heightCm == null) missing.height = new BloodVolumeRefusal().message
   if (!facts.hb.length) missing.hb = 'no Hb result is recorded'
   if (r.procedure.expectedBloodLossMl == null) missing.expectedBloodLossMl = `the operation "${r.procedure.name}" has no usual blood loss in the catalogue`
   if (Object.keys(missing).length) {

@@ -46,3 +46,57 @@ export function estimatedBloodVolume(input: BloodVolumeInput): number {
     sex === 'male' ? 0.3669 * hM ** 3 + 0.03219 * weightKg + 0.6041 : 0.3561 * hM ** 3 + 0.03308 * weightKg + 0.1833
   return litres * 1000
 }
+
+/** BMI from which blood volume is estimated for lean mass (WHO obesity class I starts at 30). */
+export const LEAN_MASS_BMI = 30
+/** Lemmens' reference BMI: at BMI 22 the indexed blood volume is 70 mL/kg. */
+const LEMMENS_REFERENCE_BMI = 22
+
+/**
+ * Indexed blood volume in mL/kg by Lemmens HJM, Bernstein DP, Brodsky JB, "Estimating blood
+ * volume in obese and morbidly obese patients", Obes Surg 2006;16:773–6: 70 / √(BMI / 22).
+ * Fat holds little blood, so mL per kg of actual weight falls as BMI rises.
+ */
+export function lemmensIndexedMlPerKg(bmiKgM2: number): number {
+  const b = requireInRange('bmi', bmiKgM2, { min: 8, max: 150, unit: 'kg/m²' })
+  return 70 / Math.sqrt(b / LEMMENS_REFERENCE_BMI)
+}
+
+/**
+ * Thrown when a patient's blood volume cannot be estimated safely: without a height neither
+ * Nadler nor Lemmens can be used, and 70 mL/kg of actual weight overstates blood volume in
+ * obesity by up to half (Lemmens 2006). The caller answers 422 naming `height`.
+ */
+export class BloodVolumeRefusal extends ClinicalInputError {
+  readonly code = 'height_required'
+  constructor() {
+    super('height', null, 'height is required to estimate blood volume (Nadler 1962, or Lemmens 2006 when BMI ≥ 30); record the patient\'s height')
+  }
+}
+
+export interface PatientBloodVolume {
+  ml: number
+  method: 'nadler' | 'lemmens'
+  /** What a clinician reads beside the figure. */
+  methodName: string
+  bmi: number
+}
+
+/**
+ * A patient's blood volume for projections: Nadler 1962 when BMI < 30; Lemmens 2006
+ * (70/√(BMI/22) mL/kg × actual weight) when BMI ≥ 30. No height → BloodVolumeRefusal.
+ */
+export function patientBloodVolume(input: { sex: Sex; heightCm?: number | null; weightKg: number }): PatientBloodVolume {
+  if (input.heightCm === undefined || input.heightCm === null) throw new BloodVolumeRefusal()
+  const heightCm = requireInRange('heightCm', input.heightCm, CLINICAL_LIMITS.heightCm)
+  const weightKg = requireInRange('weightKg', input.weightKg, CLINICAL_LIMITS.weightKg)
+  const bmi = weightKg / (heightCm / 100) ** 2
+  if (bmi >= LEAN_MASS_BMI) {
+    const perKg = lemmensIndexedMlPerKg(bmi)
+    return {
+      ml: perKg * weightKg, method: 'lemmens', bmi,
+      methodName: `Lemmens 2006 (Obes Surg 16:773): ${Math.round(perKg)} mL/kg at BMI ${Math.round(bmi)}, because BMI ≥ ${LEAN_MASS_BMI}`,
+    }
+  }
+  return { ml: estimatedBloodVolume({ sex: input.sex, heightCm, weightKg, method: 'nadler' }), method: 'nadler', bmi, methodName: 'Nadler 1962 (Surgery 51:224), from height, weight and sex' }
+}

@@ -32,8 +32,8 @@ export {
 } from './oxygen'
 export type { OxygenContentInput } from './oxygen'
 
-export { estimatedBloodVolume, WEIGHT_BASED_ML_PER_KG } from './bloodVolume'
-export type { BloodVolumeMethod, BloodVolumeInput } from './bloodVolume'
+export { estimatedBloodVolume, patientBloodVolume, lemmensIndexedMlPerKg, BloodVolumeRefusal, LEAN_MASS_BMI, WEIGHT_BASED_ML_PER_KG } from './bloodVolume'
+export type { BloodVolumeMethod, BloodVolumeInput, PatientBloodVolume } from './bloodVolume'
 
 export {
   allowableBloodLoss,
@@ -69,3 +69,8 @@ export {
   ACCEPTABLE_CT_RATIO, CROSSMATCH_JUSTIFIED_TI, LOW_TRANSFUSION_PROBABILITY_PERCENT,
 } from './bloodOrdering'
 export type { BloodOrderingCounts, BloodOrderSuggestion } from './bloodOrdering'
+export { ironNeed, idealBodyWeightKg, tableNeedMg, validateDosingTable, LOW_WEIGHT_TARGET_HB_GL, OBESITY_BMI } from './ironNeed'
+export type { IronDosingTable, IronNeed } from './ironNeed'
+export { surgeryTiming, IV_TOO_LATE_DAYS, ORAL_FIRST_MIN_DAYS, ORAL_FIRST_SOURCE } from './ironTiming'
+export type { SurgeryTiming } from './ironTiming'
+export { IronPlanRefusal, paediatricCheck, ADULT_AGE_YEARS } from './ironPlan'

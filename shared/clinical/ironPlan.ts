@@ -1,10 +1,21 @@
-import { requireDate, requireInRange } from './errors'
-import { ganzoniIronDeficit } from './iron'
+import { ClinicalInputError, requireDate, requireInRange } from './errors'
+import { ironNeed, type IronNeed } from './ironNeed'
+import { surgeryTiming, type SurgeryTiming } from './ironTiming'
 import { validateIronProduct } from './ironProduct'
 import type { IronProduct } from './ironProduct'
 import { CLINICAL_LIMITS } from './limits'
+import type { Sex } from './types'
 
-export type IronDoseCap = 'maxSingleDoseMg' | 'maxSingleDoseMgPerKg' | 'maxWeeklyMg' | 'maxTotalMg' | 'roundToMg'
+export type IronDoseCap = 'maxSingleDoseMg' | 'maxSingleDoseMgPerKg' | 'paediatricMaxSingleDoseMg' | 'paediatricMaxSingleDoseMgPerKg' | 'maxWeeklyMg' | 'maxTotalMg' | 'roundToMg'
+
+/** A plan the formulary does not allow (e.g. a child and a product not licensed for the age). */
+export class IronPlanRefusal extends ClinicalInputError {
+  constructor(input: string, value: unknown, message: string, readonly code: string) {
+    super(input, value, message)
+  }
+}
+
+export const ADULT_AGE_YEARS = 18
 
 export interface IronDose {
   number: number
@@ -33,15 +44,23 @@ export interface IronDosePlan {
     roundToMg: number
   }
   oralSchedule?: { elementalMgPerDose: number; alternateDays: boolean; description: string }
+  /** How the need was found: Ganzoni (which weight, which target) or the product's own table. */
+  method: Pick<IronNeed, 'method' | 'methodName' | 'dosingWeightKg' | 'weightBasis' | 'targetHbGL'>
+  /** Present when a surgery date was given. */
+  timing?: Omit<SurgeryTiming, 'warnings'>
+  /** Under 18 and licensed: the paediatric caps were applied. */
+  paediatric: boolean
   warnings: string[]
 }
 
 const MANY_DOSES = 4
 const DAY_MS = 86_400_000
 
-function perDoseLimit(product: IronProduct, weightKg: number, step: number): { limit: number; by: IronDoseCap[] } {
+function perDoseLimit(product: IronProduct, weightKg: number, step: number, paediatric = false): { limit: number; by: IronDoseCap[] } {
   const candidates: [IronDoseCap, number][] = [['maxSingleDoseMg', product.maxSingleDoseMg]]
   if (product.maxSingleDoseMgPerKg !== undefined) candidates.push(['maxSingleDoseMgPerKg', product.maxSingleDoseMgPerKg * weightKg])
+  if (paediatric && product.paediatricMaxSingleDoseMg !== undefined) candidates.push(['paediatricMaxSingleDoseMg', product.paediatricMaxSingleDoseMg])
+  if (paediatric && product.paediatricMaxSingleDoseMgPerKg !== undefined) candidates.push(['paediatricMaxSingleDoseMgPerKg', product.paediatricMaxSingleDoseMgPerKg * weightKg])
   // A single dose can never exceed what may be given in a whole week.
   if (product.maxWeeklyMg !== undefined) candidates.push(['maxWeeklyMg', product.maxWeeklyMg])
   const raw = Math.min(...candidates.map(([, v]) => v))
@@ -75,13 +94,27 @@ function oralSchedule(product: IronProduct): NonNullable<IronDosePlan['oralSched
   return { elementalMgPerDose: mg, alternateDays, description }
 }
 
+/** Refuses a child unless the product is licensed for the age; true when paediatric caps apply. */
+export function paediatricCheck(product: IronProduct, ageYears: number | undefined): boolean {
+  if (ageYears === undefined || ageYears >= ADULT_AGE_YEARS) return false
+  const from = product.licensedFromAgeYears
+  if (from === undefined || ageYears < from) {
+    throw new IronPlanRefusal('ageYears', ageYears,
+      `${product.name} is not marked as licensed at age ${Math.floor(ageYears)} (${from === undefined ? 'adults only' : `from ${from} years`}): no plan. Choose a product licensed for children or seek paediatric advice.`,
+      'not_licensed_for_age')
+  }
+  return true
+}
+
 /**
- * A dosing plan for one formulary product. Total = Ganzoni deficit (Ganzoni 1970, see
- * ganzoniIronDeficit), capped by maxTotalMg, rounded to the nearest dose step (or down, if
- * rounding up would pass maxTotalMg). Each IV dose = min(remaining, maxSingleDoseMg,
- * maxSingleDoseMgPerKg × weight, maxWeeklyMg) rounded down to roundToMg; doses are spaced by
- * minIntervalDays and later if needed so no 7 consecutive days exceed maxWeeklyMg.
- * Oral products get a schedule description (no dose list) and a warning about time to effect.
+ * A dosing plan for one formulary product. Need = the product's own dosing table when the
+ * formulary gives one, else Ganzoni (see ironNeed: ideal weight when BMI ≥ 30, target 130 g/L
+ * under 35 kg), capped by maxTotalMg, rounded to the nearest dose step (or down, if rounding
+ * up would pass maxTotalMg). Each IV dose = min(remaining, maxSingleDoseMg, maxSingleDoseMgPerKg
+ * × weight, maxWeeklyMg, and under 18 the paediatric caps) rounded down to roundToMg; doses are
+ * spaced by minIntervalDays and later if needed so no 7 consecutive days exceed maxWeeklyMg.
+ * With a surgery date, doses on or after it are left out and the timing cautions are added.
+ * Under 18 the product must be licensed for the age (IronPlanRefusal otherwise).
  * Throws ClinicalInputError for invalid patient values or formulary data.
  */
 export function ironDosePlan(input: {
@@ -90,30 +123,34 @@ export function ironDosePlan(input: {
   hbGL: number
   targetHbGL: number
   startDate?: Date | string
+  heightCm?: number | null
+  sex?: Sex
+  ageYears?: number
+  /** ISO date (YYYY-MM-DD) of the planned operation. */
+  surgeryDate?: string
 }): IronDosePlan {
   const product = validateIronProduct(input.product)
   const weightKg = requireInRange('weightKg', input.weightKg, CLINICAL_LIMITS.weightKg)
   const hbGL = requireInRange('hbGL', input.hbGL, CLINICAL_LIMITS.hbGL)
-  const targetHbGL = requireInRange('targetHbGL', input.targetHbGL, CLINICAL_LIMITS.hbGL)
+  requireInRange('targetHbGL', input.targetHbGL, CLINICAL_LIMITS.hbGL)
   const startMs = input.startDate === undefined ? undefined : requireDate('startDate', input.startDate)
-  const deficitMg = ganzoniIronDeficit({ weightKg, hbGL, targetHbGL })
+  const paediatric = paediatricCheck(product, input.ageYears)
+  const need = ironNeed({ weightKg, heightCm: input.heightCm, sex: input.sex, hbGL, targetHbGL: input.targetHbGL, table: product.dosingTable })
+  const { needMg: deficitMg, targetHbGL } = need
   const step = product.roundToMg ?? 1
-  const warnings: string[] = []
+  const warnings: string[] = [...need.warnings]
 
-  if (hbGL >= targetHbGL) warnings.push(`Hb ${hbGL} g/L is at or above the target ${targetHbGL} g/L: the deficit is iron stores only.`)
-  if (weightKg < 35) {
-    warnings.push(`Weight ${weightKg} kg is under 35 kg: Ganzoni stores are 15 mg/kg and adult dose caps may not apply; check the prescribing information.`)
-  } else if (weightKg > 120) {
-    warnings.push(`Weight ${weightKg} kg is above 120 kg: the deficit uses the weight given; prescribing information suggests ideal body weight in obesity.`)
-  }
+  if (need.method === 'ganzoni' && hbGL >= targetHbGL) warnings.push(`Hb ${hbGL} g/L is at or above the target ${targetHbGL} g/L: the deficit is iron stores only.`)
+  if (paediatric) warnings.push(`Age ${Math.floor(input.ageYears!)}: paediatric caps from the formulary apply; check the dose with the product information for children.`)
+  if (weightKg < 35) warnings.push(`Weight ${weightKg} kg is under 35 kg: Ganzoni stores are 15 mg/kg and adult dose caps may not apply; check the prescribing information.`)
 
   const cappedTotal = product.maxTotalMg !== undefined ? Math.min(deficitMg, product.maxTotalMg) : deficitMg
-  if (cappedTotal < deficitMg) warnings.push(`Total capped at ${product.maxTotalMg} mg (product maximum), below the calculated deficit of ${deficitMg} mg.`)
+  if (cappedTotal < deficitMg) warnings.push(`Total capped at ${product.maxTotalMg} mg (product maximum), below the calculated need of ${deficitMg} mg.`)
   let totalMg = Math.round(cappedTotal / step) * step
   if (totalMg > cappedTotal && product.maxTotalMg !== undefined && totalMg > product.maxTotalMg) totalMg -= step
   if (totalMg !== cappedTotal && totalMg > 0) warnings.push(`Total rounded to ${totalMg} mg (dose step ${step} mg) from ${cappedTotal} mg.`)
 
-  const { limit, by } = perDoseLimit(product, weightKg, step)
+  const { limit, by } = perDoseLimit(product, weightKg, step, paediatric)
   const appliedCaps = {
     perDoseLimitMg: limit,
     perDoseLimitedBy: by,
@@ -122,7 +159,8 @@ export function ironDosePlan(input: {
     minIntervalDays: product.minIntervalDays,
     roundToMg: step,
   }
-  const base = { productCode: product.code, route: product.route, deficitMg, appliedCaps, warnings }
+  const method = { method: need.method, methodName: need.methodName, dosingWeightKg: need.dosingWeightKg, weightBasis: need.weightBasis, targetHbGL }
+  const base = { productCode: product.code, route: product.route, deficitMg, appliedCaps, method, paediatric, warnings }
 
   if (product.route === 'oral') {
     warnings.push(
@@ -135,7 +173,7 @@ export function ironDosePlan(input: {
     return { ...base, totalMg: Math.max(0, totalMg), doses: [] }
   }
 
-  const doses: IronDose[] = []
+  let doses: IronDose[] = []
   let remaining = totalMg
   let nextEarliest = 0
   while (remaining > 0) {
@@ -152,5 +190,13 @@ export function ironDosePlan(input: {
 
   if (doses.length > 1) warnings.push(`The total of ${totalMg} mg exceeds the per-dose limit of ${limit} mg (${by.join(', ')}): given as ${doses.length} doses.`)
   if (doses.length > MANY_DOSES) warnings.push(`${doses.length} doses are needed: consider a product allowing larger single doses.`)
-  return { ...base, totalMg, doses }
+  let timing: IronDosePlan['timing']
+  if (input.surgeryDate !== undefined && startMs !== undefined) {
+    const { warnings: timingWarnings, ...rest } = surgeryTiming({ doses, firstDoseDate: isoDay(startMs, 0), surgeryDate: input.surgeryDate, route: product.route })
+    timing = rest
+    warnings.unshift(...timingWarnings)
+    doses = doses.filter((d) => !rest.afterSurgery.includes(d))
+    totalMg = doses.reduce((s, d) => s + d.doseMg, 0)
+  }
+  return { ...base, totalMg, doses, ...(timing ? { timing } : {}) }
 }

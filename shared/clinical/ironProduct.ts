@@ -1,5 +1,6 @@
 import { ClinicalInputError, optionalInRange, requireInRange, requireIntegerInRange, requireOneOf } from './errors'
 import { CLINICAL_LIMITS } from './limits'
+import { validateDosingTable, type IronDosingTable } from './ironNeed'
 
 /**
  * One formulary entry. Caps are data so a hospital can change them to match its own
@@ -25,6 +26,15 @@ export interface IronProduct {
   oralDailyMg?: number
   /** Oral: one dose on alternate days rather than daily. */
   oralAlternateDays?: boolean
+  /** Youngest licensed age in years; absent = adults (18 and over) only. */
+  licensedFromAgeYears?: number
+  /** Under 18: largest single dose per kg and in mg (the label's paediatric posology). */
+  paediatricMaxSingleDoseMgPerKg?: number
+  paediatricMaxSingleDoseMg?: number
+  /** The label's own dosing table; when present the plan uses it instead of Ganzoni. */
+  dosingTable?: IronDosingTable
+  /** A repeat course needs a serum phosphate first (ferric carboxymaltose: hypophosphataemia). */
+  phosphateCheckOnRepeat?: boolean
 }
 
 function requireText(input: string, value: unknown): string {
@@ -55,5 +65,9 @@ export function validateIronProduct(product: IronProduct): IronProduct {
   if (product.oralAlternateDays !== undefined && typeof product.oralAlternateDays !== 'boolean') {
     throw new ClinicalInputError('product.oralAlternateDays', product.oralAlternateDays, 'product.oralAlternateDays must be true or false')
   }
+  optionalInRange('product.licensedFromAgeYears', product.licensedFromAgeYears, { min: 0, max: 18, unit: 'years' })
+  optionalInRange('product.paediatricMaxSingleDoseMgPerKg', product.paediatricMaxSingleDoseMgPerKg, CLINICAL_LIMITS.productMaxSingleDoseMgPerKg)
+  optionalInRange('product.paediatricMaxSingleDoseMg', product.paediatricMaxSingleDoseMg, CLINICAL_LIMITS.productMaxSingleDoseMg)
+  if (product.dosingTable !== undefined) validateDosingTable(product.dosingTable)
   return product
 }

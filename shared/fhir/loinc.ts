@@ -27,7 +27,9 @@ export interface LoincEntry {
   toCanonical?: (value: number) => number
 }
 
-export const LOINC_SOURCE = 'LOINC table (Regenstrief), from memory; checked against published laboratory test catalogues'
+// The codes were written from memory and checked against published laboratory test catalogues;
+// what the import screen shows must not say "from memory", so it asks for the local check.
+export const LOINC_SOURCE = 'LOINC table (Regenstrief); check each code against your laboratory\'s catalogue (local policy)'
 
 const round2 = (n: number) => Math.round(n * 100) / 100
 // µmol/L ↔ µg/dL for iron (Fe 55.845 g/mol) and creatinine (113.12 g/mol): shared/clinical/units.ts.
@@ -45,6 +47,7 @@ export const LOINC: Record<StoredAnalyte, LoincEntry> = {
   creatinine: { code: '2160-0', display: 'Creatinine [Mass/volume] in Serum or Plasma', ucum: 'mg/dL', unit: 'mg/dL', ...massOf(CREATININE_UMOL_L_PER_MG_DL) },
   b12: { code: '2132-9', display: 'Cobalamin (Vitamin B12) [Mass/volume] in Serum or Plasma', ucum: 'ng/L', unit: 'ng/L' },
   folate: { code: '2284-8', display: 'Folate [Mass/volume] in Serum or Plasma', ucum: 'ug/L', unit: 'µg/L' },
+  phosphate: { code: '14879-1', display: 'Phosphate [Moles/volume] in Serum or Plasma', ucum: 'mmol/L', unit: 'mmol/L' },
   egfr: {
     code: '98979-8',
     display: 'Glomerular filtration rate/1.73 sq M.predicted [Volume Rate/Area] in Serum, Plasma or Blood by Creatinine-based formula (CKD-EPI 2021)',

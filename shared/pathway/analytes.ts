@@ -7,7 +7,7 @@ import {
 } from '../clinical'
 
 /** What a person may enter. Derived values (TSAT from iron, eGFR) are added by the server. */
-export const ANALYTES = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferrin', 'tibc', 'crp', 'creatinine', 'b12', 'folate'] as const
+export const ANALYTES = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferrin', 'tibc', 'crp', 'creatinine', 'b12', 'folate', 'phosphate'] as const
 export type Analyte = (typeof ANALYTES)[number]
 /** Stored results also include what the server derives. */
 export type StoredAnalyte = Analyte | 'egfr'
@@ -42,6 +42,16 @@ const FOLATE_UG_L: Limit = { min: 0.2, max: 100, unit: 'µg/L' }
 // Folic acid 441.4 g/mol: 1 nmol/L = 0.4413 µg/L (from memory; not in the clinical reference).
 export const FOLATE_UG_L_PER_NMOL_L = 0.4413
 
+// A TSAT under 1 % is not a result a laboratory reports: it is a fraction typed in (0.15 for
+// 15 %). The derived TSAT (from iron and TIBC) keeps the library's 0–100 % range.
+const TSAT_ENTRY_PCT: Limit = { min: 1, max: 100, unit: '%' }
+// Serum phosphate: wide on purpose (common practice); mg/dL of phosphorus × 0.3229 = mmol/L
+// (P 30.97 g/mol; from memory).
+const PHOSPHATE_MMOL_L: Limit = { min: 0.1, max: 5, unit: 'mmol/L' }
+export const PHOSPHATE_MMOL_L_PER_MG_DL = 0.3229
+// CRP: 1 mg/dL = 10 mg/L (unit arithmetic).
+export const CRP_MG_L_PER_MG_DL = 10
+
 const L = CLINICAL_LIMITS
 export const ANALYTE_DEFS: Record<Analyte, AnalyteDef> = {
   hb: {
@@ -59,7 +69,7 @@ export const ANALYTE_DEFS: Record<Analyte, AnalyteDef> = {
     canonicalUnit: 'µg/L',
     units: { 'µg/L': same(L.ferritinUgL), 'ng/mL': same({ ...L.ferritinUgL, unit: 'ng/mL' }) },
   },
-  tsat: { label: 'Transferrin saturation', canonicalUnit: '%', units: { '%': same(L.tsatPct) } },
+  tsat: { label: 'Transferrin saturation', canonicalUnit: '%', units: { '%': same(TSAT_ENTRY_PCT) } },
   iron: {
     label: 'Serum iron',
     canonicalUnit: 'µmol/L',
@@ -67,7 +77,7 @@ export const ANALYTE_DEFS: Record<Analyte, AnalyteDef> = {
   },
   transferrin: { label: 'Transferrin', canonicalUnit: 'g/L', units: { 'g/L': same(L.transferrinGL) } },
   tibc: { label: 'TIBC', canonicalUnit: 'µmol/L', units: { 'µmol/L': same(L.tibcUmolL) } },
-  crp: { label: 'CRP', canonicalUnit: 'mg/L', units: { 'mg/L': same(L.crpMgL) } },
+  crp: { label: 'CRP', canonicalUnit: 'mg/L', units: { 'mg/L': same(L.crpMgL), 'mg/dL': scaled(L.crpMgL, 'mg/dL', CRP_MG_L_PER_MG_DL) } },
   creatinine: {
     label: 'Creatinine',
     canonicalUnit: 'µmol/L',
@@ -83,6 +93,11 @@ export const ANALYTE_DEFS: Record<Analyte, AnalyteDef> = {
       'ng/mL': same({ ...FOLATE_UG_L, unit: 'ng/mL' }),
       'nmol/L': scaled(FOLATE_UG_L, 'nmol/L', FOLATE_UG_L_PER_NMOL_L),
     },
+  },
+  phosphate: {
+    label: 'Phosphate',
+    canonicalUnit: 'mmol/L',
+    units: { 'mmol/L': same(PHOSPHATE_MMOL_L), 'mg/dL': scaled(PHOSPHATE_MMOL_L, 'mg/dL', PHOSPHATE_MMOL_L_PER_MG_DL) },
   },
 }
 
@@ -120,7 +135,8 @@ export function implausibleValue(analyte: Analyte, unit: string, value: number):
     return u !== unit && value >= l.min && value <= l.max
   })
   const round = (n: number) => Number(n.toPrecision(4))
-  const hint = other ? `; it looks like ${other}` : ''
+  let hint = other ? `; it looks like ${other}` : ''
+  if (analyte === 'tsat' && value > 0 && value < 1) hint = `; it looks like a fraction: enter it as a percentage (${round(value * 100)} %)`
   return `${ANALYTE_DEFS[analyte].label} in ${unit} must be between ${round(min)} and ${round(max)} ${unit} (got ${value})${hint}`
 }
 

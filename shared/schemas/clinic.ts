@@ -52,6 +52,8 @@ export const administrationSchema = yup.object({
   batchNumber: yup.string().trim().required('Batch number is required').max(40, 'Batch number must be at most 40 characters'),
   reaction: yup.string().oneOf(['none', 'mild', 'moderate', 'severe'], 'Reaction must be none, mild, moderate or severe').required('Reaction is required'),
   reactionNotes: yup.string().trim().max(2000).nullable().default(null),
+  /** Why a dose over a cap or the prescribed total is given anyway. */
+  overrideReason: yup.string().trim().max(500, 'Reason must be at most 500 characters').nullable().default(null),
 })
 export type AdministrationInput = yup.InferType<typeof administrationSchema>
 

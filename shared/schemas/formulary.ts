@@ -16,6 +16,10 @@ const productFields = {
   roundToMg: capField('Dose step', L.productRoundToMg).nullable(),
   oralDailyMg: capField('Elemental iron per oral dose', L.productOralDailyMg).nullable(),
   oralAlternateDays: yup.boolean().nullable(),
+  licensedFromAgeYears: yup.number().typeError('Youngest licensed age must be a number of years').min(0, 'Youngest licensed age must be at least 0 years').max(18, 'Youngest licensed age must be at most 18 years').nullable(),
+  paediatricMaxSingleDoseMgPerKg: capField('Largest dose per kg under 18', L.productMaxSingleDoseMgPerKg).nullable(),
+  paediatricMaxSingleDoseMg: capField('Largest single dose under 18', L.productMaxSingleDoseMg).nullable(),
+  phosphateCheckOnRepeat: yup.boolean(),
   source: yup.string().trim().max(300),
   active: yup.boolean(),
 }

@@ -25,8 +25,13 @@ export interface ClinicReview {
 export interface DosePlanPreview {
   product: IronProduct
   productSource: string
-  inputs: { weightKg: number; weightMeasuredAt: string | null; hbGL: number; hbTakenAt: string | null; targetHbGL: number; firstDoseDate: string }
+  inputs: {
+    weightKg: number; weightMeasuredAt: string | null; heightCm: number | null; ageYears: number; hbGL: number; hbTakenAt: string | null
+    targetHbGL: number; firstDoseDate: string; plannedSurgeryDate: string
+  }
   plan: IronDosePlan
+  /** A repeat course of a product that needs a serum phosphate first. */
+  phosphate: { needed: boolean; message: string }
   methods: { deficit: string; caps: string }
   cautions: string[]
   cautionQuestions: { key: keyof CautionAnswers; question: string }[]
@@ -62,6 +67,8 @@ export interface AdministrationView {
   batchNumber: string
   reaction: Reaction
   reactionNotes: string | null
+  /** Why a dose over a cap or the prescribed total was given anyway. */
+  overrideReason: string | null
   giver: { id: number; name: string } | null
 }
 

@@ -67,7 +67,7 @@ export function analyteLabel(analyte: string): string {
 }
 
 /** The order results are read in: blood count, iron studies, inflammation, kidney, vitamins. */
-export const RESULT_ORDER = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferrin', 'tibc', 'crp', 'creatinine', 'egfr', 'b12', 'folate']
+export const RESULT_ORDER = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferrin', 'tibc', 'crp', 'creatinine', 'egfr', 'b12', 'folate', 'phosphate']
 
 /** Schema messages name the API field first ("value is required"); under a form field they start a sentence. */
 export function asSentence(message: string | undefined): string {
@@ -88,6 +88,8 @@ export const VERDICT_LOOK: Record<Verdict, { icon: string; tone: Tone }> = {
 export const CAP_LABELS: Record<IronDoseCap, string> = {
   maxSingleDoseMg: 'largest single dose',
   maxSingleDoseMgPerKg: 'mg per kg limit',
+  paediatricMaxSingleDoseMg: 'largest single dose under 18',
+  paediatricMaxSingleDoseMgPerKg: 'mg per kg limit under 18',
   maxWeeklyMg: 'weekly limit',
   maxTotalMg: 'course maximum',
   roundToMg: 'vial size (dose step)',

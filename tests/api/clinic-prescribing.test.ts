@@ -25,10 +25,10 @@ beforeEach(async () => {
 })
 
 describe('dose plan preview', () => {
-  it('when a 45 kg patient has Hb 90 g/L, then the Ganzoni deficit is 1148 mg and ferric carboxymaltose is split 900 + 200 mg a week apart', async () => {
-    // Ganzoni (reference §6): 45 × (150 − 90) × 0.24 + 500 = 1148 mg. EU SmPC caps: ≤20 mg/kg → 900 mg first dose.
+  it('when a 45 kg patient has Hb 90 g/L, then the Ganzoni deficit is 1148 mg and ferric derisomaltose is split 900 + 200 mg a week apart', async () => {
+    // Ganzoni (reference §6): 45 × (150 − 90) × 0.24 + 500 = 1148 mg. Caps: ≤20 mg/kg → 900 mg first dose.
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 45, hb: [{ hbGL: 90 }] })
-    const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'ferric-carboxymaltose' })
+    const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'ferric-derisomaltose' })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body.plan.deficitMg).toBe(1148)
     expect(res.body.plan.doses.map((d: { doseMg: number; dayOffset: number }) => [d.doseMg, d.dayOffset])).toEqual([[900, 0], [200, 7]])
@@ -138,13 +138,13 @@ describe('recording a dose given', () => {
     return { ...ep, prescriptionId: res.body.prescription.id as number }
   }
 
-  it('when a nurse records the infusion, then the episode moves to treating and the re-check is due 21 days later', async () => {
+  it('when a nurse records the infusion, then the episode moves to treating and the re-check is due 4 weeks later', async () => {
     const { referral, prescriptionId } = await prescribed()
     const givenAt = new Date()
     const res = await nurse.post(`/api/referrals/${referral.id}/administrations`, { prescriptionId, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-2231', reaction: 'none' })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.stage).toBe('treating')
-    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 21)) // default 21 days, within the usual 2–4 weeks (common practice)
+    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 28)) // Ferinject SmPC 4.2: Hb re-assessed no earlier than 4 weeks after the last dose
     const r = await Referral.findByPk(referral.id)
     expect(r!.stage).toBe('treating')
     expect(await StageTransition.count({ where: { referralId: referral.id, toStage: 'treating' } })).toBe(1)

@@ -87,9 +87,9 @@ describe('GET /api/referrals/:id/projection', () => {
     expect(p.methods.surgeryDayHb).toMatch(/Expected response/)
   })
 
-  it('when heart disease is recorded at review and there is no height, then the 80 g/L trigger and weight-based volume are used and deferral is suggested', async () => {
+  it('when heart disease is recorded at review, then the 80 g/L trigger is used and deferral is suggested', async () => {
     const { referral } = await makeEpisode({
-      surgeonId: surgeon.id, sex: 'male', heightCm: null, weightKg: 80, hb: [{ hbGL: 95 }], expectedBloodLossMl: 750,
+      surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 80, hb: [{ hbGL: 95 }], expectedBloodLossMl: 750,
       referral: { plannedSurgeryDate: inDays(40) },
     })
     const version = (await Referral.findByPk(referral.id))!.version
@@ -98,10 +98,15 @@ describe('GET /api/referrals/:id/projection', () => {
     const p = (await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body
     expect(p.triggerHbGL).toBe(80) // AABB 2023 (Carson, JAMA)
     expect(p.methods.trigger).toMatch(/AABB 2023/)
-    expect(p.bloodVolumeMl).toBe(5600) // 70 mL/kg, weight-based (Morgan & Mikhail, reference §3)
-    expect(p.allowableBloodLossMl.logarithmic).toBe(962) // 5600·ln(95/80)
-    expect(p.oxygen.today.do2MlMin).toBe(632) // CO 5 L/min stated × CaO2 12.633 × 10
     expect(p.readiness.verdict).toBe('consider-deferral')
+  })
+
+  it('when a 150 kg man has no height recorded, then the projection is refused with 422 naming height instead of 70 mL/kg of actual weight', async () => {
+    const { referral } = await makeEpisode({ surgeonId: surgeon.id, sex: 'male', heightCm: null, weightKg: 150, hb: [{ hbGL: 120 }] })
+    const res = await asDoctor.get(`/api/referrals/${referral.id}/projection`)
+    expect(res.status).toBe(422)
+    expect(res.body.error.fields).toHaveProperty('height')
+    expect(res.body.error.message).toMatch(/height is required/)
   })
 
   it('when the cardiac output is given, then oxygen delivery uses it; an impossible one is a 400', async () => {

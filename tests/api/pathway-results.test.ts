@@ -76,14 +76,20 @@ describe('screening classification when results arrive', () => {
 describe('units and derived values', () => {
   it('when Hb is 12.5 g/dL, then it is stored as 125 g/L with the reported value kept (×10)', async () => {
     const r = await episode()
-    const res = await post(r.id, { analyte: 'hb', value: 12.5, unit: 'g/dL', takenAt: hoursAgo(1) }).expect(201)
+    const res = await post(r.id, { analyte: 'hb', value: 12.5, unit: 'g/dL', takenAt: hoursAgo(1), unitConfirmed: true }).expect(201)
     expect(res.body.result).toMatchObject({ value: 125, unit: 'g/L', valueReported: 12.5, unitReported: 'g/dL', source: 'manual' })
   })
 
   it('when Hb is 8.0 mmol/L, then it is 128.9 g/L (per Fe monomer, ×0.6206; clinical reference §7)', async () => {
     const r = await episode()
-    const res = await post(r.id, { analyte: 'hb', value: 8.0, unit: 'mmol/L', takenAt: hoursAgo(1) }).expect(201)
+    const res = await post(r.id, { analyte: 'hb', value: 8.0, unit: 'mmol/L', takenAt: hoursAgo(1), unitConfirmed: true }).expect(201)
     expect(res.body.result.value).toBeCloseTo(128.9, 1)
+  })
+
+  it('when CRP is typed as 2.5 mg/dL, then it is stored as 25 mg/L (1 mg/dL = 10 mg/L)', async () => {
+    const r = await episode()
+    const res = await post(r.id, { analyte: 'crp', value: 2.5, unit: 'mg/dL', takenAt: hoursAgo(1) }).expect(201)
+    expect(res.body.result).toMatchObject({ value: 25, unit: 'mg/L', valueReported: 2.5, unitReported: 'mg/dL' })
   })
 
   it('when creatinine is 1.2 mg/dL in a 60-year-old man, then it is 106.1 µmol/L and eGFR 69.2 is derived (×88.4; CKD-EPI 2021, reference §10)', async () => {
@@ -147,6 +153,9 @@ describe('bad results are refused and nothing is written', () => {
     ['an unknown unit for Hb', { analyte: 'hb', value: 125, unit: 'mg/dL' }, 'unit', /g\/L, g\/dL, mmol\/L/],
     ['an unknown analyte', { analyte: 'glucose', value: 5, unit: 'mmol/L' }, 'analyte', /analyte must be one of/],
     ['a value that is not a number', { analyte: 'hb', value: 'low', unit: 'g/L' }, 'value', /number/],
+    ['Hb 8.0 in mmol/L without its unit confirmed (it fits g/dL too)', { analyte: 'hb', value: 8.0, unit: 'mmol/L' }, 'unitConfirmed', /fits both g\/dL \(2–25\) and mmol\/L \(1\.2–15\.5\).*80 g\/L as g\/dL but 128\.\d g\/L as mmol\/L/],
+    ['TSAT typed as a fraction (0.15)', { analyte: 'tsat', value: 0.15, unit: '%' }, 'value', /between 1 and 100 % \(got 0\.15\); it looks like a fraction: enter it as a percentage \(15 %\)/],
+    ['TSAT above 100 %', { analyte: 'tsat', value: 120, unit: '%' }, 'value', /between 1 and 100 %/],
     ['B12 in pmol/L (no sourced conversion, so not accepted)', { analyte: 'b12', value: 300, unit: 'pmol/L' }, 'unit', /ng\/L/],
   ]
   for (const [what, body, field, message] of cases) {

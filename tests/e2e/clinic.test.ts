@@ -44,16 +44,16 @@ afterAll(async () => {
 const text = async (page: Page, testId: string) => (await page.getByTestId(testId).first().textContent()) ?? ''
 
 describe('a doctor prescribes IV iron from the live dose plan', () => {
-  it('when the doctor picks ferric carboxymaltose, then the plan shows the Ganzoni deficit and the capped doses', async () => {
+  it('when the doctor picks ferric derisomaltose, then the plan shows the Ganzoni deficit and the capped doses', async () => {
     await signInThroughPage(doctorPage, served.baseUrl, doctor.email, doctor.password)
     await doctorPage.waitForURL(`${served.baseUrl}/clinic`)
     await doctorPage.goto(`${served.baseUrl}/referrals/${referralId}?tab=clinic`)
-    await pickOption(doctorPage, '#rx-product', 'Ferric carboxymaltose (IV)')
+    await pickOption(doctorPage, '#rx-product', 'Ferric derisomaltose (IV)')
     // Ganzoni (clinical reference §6): 45 × (150 − 90) × 0.24 + 500 = 1148 mg; rounded to 100 mg vials, 1100 mg.
     await expect.poll(() => text(doctorPage, 'dose-deficit')).toMatch(/1148\s*mg/)
     expect(await text(doctorPage, 'dose-total')).toMatch(/1100\s*mg/)
     expect(await text(doctorPage, 'dose-method')).toMatch(/Ganzoni/)
-    // EU SmPC: ≤ 20 mg/kg a dose → 900 mg at 45 kg, then the remaining 200 mg a week later.
+    // Formulary: ≤ 20 mg/kg a dose → 900 mg at 45 kg, then the remaining 200 mg a week later.
     expect(await doctorPage.inputValue('#dose-mg-1')).toBe('900')
     expect(await doctorPage.inputValue('#dose-mg-2')).toBe('200')
     expect(await text(doctorPage, 'dose-schedule')).toMatch(/mg per kg limit/)

@@ -1,6 +1,6 @@
 import { IronProductRow, PatientMeasurement, Result } from '../../server/models/index'
 import { starterFormularyRows } from '../../seed/formulary'
-import { makePatient, makeProcedure, makeReferral, type ReferralOverrides } from './pathwayFactories'
+import { makePatient, makeProcedure, makeReferral, type PatientOverrides, type ReferralOverrides } from './pathwayFactories'
 import type { Sex } from '../../shared/clinical'
 
 export async function loadStarterFormulary(): Promise<void> {
@@ -16,11 +16,12 @@ export interface EpisodeSpec {
   expectedBloodLossMl?: number | null
   surgeonId: number
   referral?: Partial<ReferralOverrides>
+  patient?: Partial<PatientOverrides>
 }
 
 /** A patient, an operation and a referral with Hb results, straight in the database. */
 export async function makeEpisode(spec: EpisodeSpec) {
-  const patient = await makePatient({ sex: spec.sex ?? 'female', weightKg: null })
+  const patient = await makePatient({ sex: spec.sex ?? 'female', ...spec.patient, weightKg: null })
   if (spec.weightKg !== null) {
     await PatientMeasurement.create({
       patientId: patient.id, heightCm: spec.heightCm === undefined ? 165 : spec.heightCm, weightKg: spec.weightKg ?? 70,

@@ -86,9 +86,9 @@ describe('IV iron dose plan', () => {
     expect(plan.warnings.some((w) => w.includes('iron stores only'))).toBe(true)
   })
 
-  it('when the weight is under 35 kg or above 120 kg, then a weight warning is given', () => {
+  it('when the weight is under 35 kg, or heavy with no height recorded, then a weight warning is given', () => {
     expect(ironDosePlan({ product: carboxymaltoseLike, weightKg: 30, hbGL: 90, targetHbGL: 130 }).warnings.join(' ')).toContain('under 35 kg')
-    expect(ironDosePlan({ product: carboxymaltoseLike, weightKg: 150, hbGL: 90, targetHbGL: 130 }).warnings.join(' ')).toContain('ideal body weight')
+    expect(ironDosePlan({ product: carboxymaltoseLike, weightKg: 150, hbGL: 90, targetHbGL: 130 }).warnings.join(' ')).toContain('obesity cannot be judged')
   })
 
   it('when the mg/kg cap is below one vial step, then no dose is planned and a warning explains why', () => {
