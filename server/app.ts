@@ -11,6 +11,8 @@ import { MariaDbSessionStore } from './auth/sessionStore'
 import { createPassport } from './auth/passport'
 import { requestId } from './middleware/requestId'
 import { requireCsrf } from './middleware/csrf'
+import { absoluteSessionLifetime } from './middleware/sessionLifetime'
+import { setPasswordCost } from './services/passwords'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import type { ApiRouter, RouteSpec } from './routes/apiRouter'
 import { forgetCountsOnEveryWrite } from './services/worklistCounts'
@@ -75,6 +77,7 @@ function contentSecurityPolicy(config: Config) {
 /** Builds the whole app without listening, so tests can drive it with Supertest. */
 export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   initModels(sequelize)
+  setPasswordCost(config.passwords.scryptLog2N)
   forgetCountsOnEveryWrite(sequelize)
   const ctx: AppContext = { config, sequelize }
   const app = express()
@@ -100,6 +103,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   )
   api.use(passport.initialize())
   api.use(passport.session())
+  api.use(absoluteSessionLifetime(config.session.absoluteHours))
   api.use(requireCsrf)
 
   const routers: ApiRouter[] = [

@@ -2,7 +2,7 @@ import { Op, QueryTypes } from 'sequelize'
 import { User, LoginFailure } from '../models/index'
 import type { Config } from '../config'
 import type { SessionUser } from '../../shared/types'
-import { burnPasswordCheck, verifyPassword } from './passwords'
+import { passwordAccepted } from './credentials'
 import { toSessionUser } from './users'
 import { TooMany } from '../errors'
 
@@ -41,7 +41,7 @@ export async function checkCredentials(config: Config, email: string, password: 
     )
   }
   const user = await User.findOne({ where: { email: email.toLowerCase() } })
-  const ok = user ? user.active && (await verifyPassword(password, user.passwordHash)) : (await burnPasswordCheck(password), false)
+  const ok = await passwordAccepted(user, password)
   if (!ok || !user) {
     await countFailure(b.account, windowStart)
     await countFailure(b.address, windowStart)
