@@ -1,6 +1,6 @@
 import type { Sequelize } from 'sequelize'
 import { Administration, Prescription, Referral, User } from '../models/index'
-import { addDays, isReadOnly } from '../../shared/pathway'
+import { addDays, findMove, isReadOnly } from '../../shared/pathway'
 import type { AdministrationInput } from '../../shared/schemas/clinic'
 import type { Reaction } from '../models/administration'
 import { recordAudit } from './audit'
@@ -12,8 +12,6 @@ import { currentBody } from './patients'
 import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 
-/** Stages from which a recorded dose means the patient is now on treatment. */
-const MOVES_TO_TREATING = new Set(['clinic', 'recheck', 'screened', 'cleared'])
 const DAY_MS = 86_400_000
 
 export function toAdministrationView(a: Administration & { giver?: User | null }) {
@@ -25,7 +23,8 @@ export function toAdministrationView(a: Administration & { giver?: User | null }
 
 /**
  * Records a dose given. The dose is checked against the product's single-dose caps and the
- * interval since the last dose; the episode moves to treating and the re-check is scheduled
+ * interval since the last dose; the episode moves to treating where the pathway table allows
+ * this role that move, and the re-check is scheduled
  * the clinic's configured number of days after this (the latest) dose.
  */
 export async function recordAdministration(sequelize: Sequelize, viewer: Viewer, referralId: number, input: AdministrationInput) {
@@ -62,14 +61,18 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     if (given >= p.totalMg) await p.update({ status: 'completed' }, { transaction: t })
 
     let version = r.version
-    if (MOVES_TO_TREATING.has(r.stage)) {
+    // A dose moves the episode to treating only where the pathway table itself offers this role
+    // that move (today: a doctor, from clinic or recheck). Otherwise the dose is recorded, since it
+    // was given, and the stage stays for someone allowed to move it.
+    const moves = findMove(r.stage, 'treating')?.roles.includes(viewer.role) ?? false
+    if (moves) {
       version = await recordMove(t, viewer, r, 'treating', `Iron given: ${input.doseMg} mg ${product.name} (batch ${input.batchNumber})`)
     }
     const recheckDueDate = addDays(givenAt.toISOString().slice(0, 10), settings.recheckDaysAfterLastDose)
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
     const view = toAdministrationView(a)
     await recordAudit(t, viewer, { action: 'create', entity: 'administration', entityId: a.id, patientId: r.patientId, after: { ...view, recheckDueDate } })
-    return { administration: view, recheckDueDate, stage: MOVES_TO_TREATING.has(r.stage) ? 'treating' : r.stage, version }
+    return { administration: view, recheckDueDate, stage: moves ? 'treating' : r.stage, version }
   })
 }
 
