@@ -5,6 +5,7 @@
 import path from 'node:path'
 import { DEMO_HOSPITAL } from '../seed/demo/hospital'
 import { isTimeZone } from '../shared/appointments/time'
+import { LIMITS } from '../shared/limits'
 
 export interface Config {
   env: 'production' | 'development' | 'test'
@@ -63,6 +64,9 @@ export interface Config {
     /** REPLY_MAX_BAD_TOKENS: unknown reply links per address before 429 */ maxBadTokensPerAddress: number
     /** REPLY_WINDOW_MINUTES: throttling window for reply links */ windowMinutes: number
     /** REPLY_LINK_DAYS: a reply link stops working this many days after it is sent (and when the appointment ends) */ linkDays: number
+  }
+  imports: {
+    /** IMPORT_MAX_CSV_ROWS: data rows one laboratory CSV upload may hold */ maxCsvRows: number
   }
   /** STATIC_DIR: the built client; empty disables serving it */ staticDir: string
   /** PUBLIC_URL: base of links in e-mails */ publicUrl: string
@@ -168,6 +172,9 @@ export function loadConfig(env: Env = process.env): Config {
       maxBadTokensPerAddress: int(env, 'REPLY_MAX_BAD_TOKENS', 10, 1, 10000),
       windowMinutes: int(env, 'REPLY_WINDOW_MINUTES', 15, 1, 24 * 60),
       linkDays: int(env, 'REPLY_LINK_DAYS', 14, 1, 365),
+    },
+    imports: {
+      maxCsvRows: int(env, 'IMPORT_MAX_CSV_ROWS', LIMITS.csvRows, 1, 2_000_000),
     },
     staticDir: env.STATIC_DIR ?? 'dist',
     publicUrl: (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, ''),

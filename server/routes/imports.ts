@@ -82,7 +82,7 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
       if (!file) throw new Invalid('file is required (the laboratory CSV, in the multipart field "file")', { file: 'is required' })
       await assertCsv(file)
       const mapping = fields.mapping ? mappingFromField(fields.mapping) : (await mappingFor(fields.source)).mapping
-      const out = await importLabCsv(sequelize, viewerOf(req), { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' }, config.clinic.timeZone)
+      const out = await importLabCsv(sequelize, viewerOf(req), { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' }, config.clinic.timeZone, config.imports.maxCsvRows)
       res.status(out.batchId ? 201 : 200).json(out)
     } finally {
       if (file) await rm(file.path, { force: true })

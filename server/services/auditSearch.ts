@@ -2,6 +2,7 @@ import { Op, type WhereOptions } from 'sequelize'
 import { AuditEntry, Patient, User } from '../models/index'
 import { recordAudit, type Actor } from './audit'
 import { Invalid } from '../errors'
+import { LIMITS, windowTooLong } from '../../shared/limits'
 
 export const AUDIT_PAGE_SIZE = 50
 /** A CSV export is capped so one click cannot pull the whole log into memory. */
@@ -23,6 +24,13 @@ export function auditQuery(q: Record<string, unknown>): AuditQuery {
   for (const k of ['from', 'to']) {
     const v = str(k)
     if (v !== null && !DATE.test(v)) throw new Invalid(`${k} must be a date (YYYY-MM-DD)`, { [k]: 'must be a date (YYYY-MM-DD)' })
+  }
+  const from = str('from')
+  if (from !== null) {
+    const to = str('to') ?? new Date().toISOString().slice(0, 10)
+    if (from > to) throw new Invalid('to must be on or after from', { to: 'must be on or after from' })
+    const tooLong = windowTooLong(from, to, LIMITS.auditDays, 'The audit search window')
+    if (tooLong) throw new Invalid(tooLong, { from: `must be within ${LIMITS.auditDays} days of to` })
   }
   const mrn = str('mrn')?.trim() || null
   if (mrn !== null && mrn.length > 40) throw new Invalid('mrn must be at most 40 characters', { mrn: 'must be at most 40 characters' })
