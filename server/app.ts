@@ -15,6 +15,8 @@ import { requireCsrf } from './middleware/csrf'
 import { signInThrottle } from './middleware/signInThrottle'
 import { jsonBody } from './middleware/jsonBody'
 import { screenRequest } from './middleware/validate'
+import { absoluteSessionLifetime } from './middleware/sessionLifetime'
+import { setPasswordCost } from './services/passwords'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import type { ApiRouter, RouteSpec } from './routes/apiRouter'
 import { forgetCountsOnEveryWrite } from './services/worklistCounts'
@@ -82,6 +84,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   initModels(sequelize)
   setViewAuditWindow(config.auditViewWindowMinutes)
   setClinicTimeZone(config.clinic.timeZone)
+  setPasswordCost(config.passwords.scryptLog2N)
   forgetCountsOnEveryWrite(sequelize)
   const ctx: AppContext = { config, sequelize }
   const app = express()
@@ -93,6 +96,12 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   const sessionStore = new MariaDbSessionStore(config.session.idleMinutes * 60_000)
   const passport = createPassport(config) as unknown as PassportStatic
   const api = express.Router()
+  // Answers carry patient data: no browser or proxy may keep a copy (ASVS 8.2.1). Express still
+  // sets ETags, so a client that asks with If-None-Match gets a 304 without the body.
+  api.use((_req, res, next) => {
+    res.set('Cache-Control', 'no-store')
+    next()
+  })
   api.use(jsonBody({ limit: '1mb' }))
   api.use(
     session({
@@ -108,6 +117,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   api.use(passport.initialize())
   api.use(passport.session())
   api.use('/auth/login', signInThrottle(config))
+  api.use(absoluteSessionLifetime(config.session.absoluteHours))
   api.use(requireCsrf)
   api.use(screenRequest)
 

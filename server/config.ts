@@ -5,6 +5,7 @@
 import path from 'node:path'
 import { DEMO_HOSPITAL } from '../seed/demo/hospital'
 import { isTimeZone } from '../shared/appointments/time'
+import { LIMITS } from '../shared/limits'
 
 export interface Config {
   env: 'production' | 'development' | 'test'
@@ -22,7 +23,12 @@ export interface Config {
   session: {
     /** SESSION_SECRET */ secret: string
     /** SESSION_IDLE_MINUTES */ idleMinutes: number
+    /** SESSION_ABSOLUTE_HOURS: a session ends this long after sign-in, however active */ absoluteHours: number
     /** COOKIE_SECURE: true behind TLS */ cookieSecure: boolean
+  }
+  passwords: {
+    /** PASSWORD_SCRYPT_LOG2N: scrypt cost as a power of two (OWASP: at least 17) */ scryptLog2N: number
+    /** TEMP_PASSWORD_HOURS: a temporary password from an administrator stops working after this */ temporaryHours: number
   }
   /** TRUST_PROXY: hops of reverse proxy to trust for the client address */ trustProxy: number
   login: {
@@ -34,6 +40,10 @@ export interface Config {
     /** SMTP_HOST */ host: string
     /** SMTP_PORT */ port: number
     /** MAIL_FROM */ from: string
+    /** SMTP_REQUIRE_TLS: refuse to send unless the relay upgrades to TLS (STARTTLS) */ requireTls: boolean
+    /** SMTP_TLS_REJECT_UNAUTHORIZED: check the relay's certificate (leave on outside a laboratory) */ tlsRejectUnauthorized: boolean
+    /** SMTP_TLS_CA_FILE: PEM file of the hospital's own certificate authority, when the relay uses one */ tlsCaFile: string | null
+    /** SMTP_TLS_SERVERNAME: the name on the relay's certificate, when it differs from SMTP_HOST */ tlsServername: string | null
   }
   /** The clinic named in patient e-mails and on the reply page (defaults: the invented demo hospital). */
   clinic: {
@@ -53,6 +63,10 @@ export interface Config {
   replies: {
     /** REPLY_MAX_BAD_TOKENS: unknown reply links per address before 429 */ maxBadTokensPerAddress: number
     /** REPLY_WINDOW_MINUTES: throttling window for reply links */ windowMinutes: number
+    /** REPLY_LINK_DAYS: a reply link stops working this many days after it is sent (and when the appointment ends) */ linkDays: number
+  }
+  imports: {
+    /** IMPORT_MAX_CSV_ROWS: data rows one laboratory CSV upload may hold */ maxCsvRows: number
   }
   /** STATIC_DIR: the built client; empty disables serving it */ staticDir: string
   /** PUBLIC_URL: base of links in e-mails */ publicUrl: string
@@ -118,7 +132,13 @@ export function loadConfig(env: Env = process.env): Config {
     session: {
       secret,
       idleMinutes: int(env, 'SESSION_IDLE_MINUTES', 30, 1, 24 * 60),
+      absoluteHours: int(env, 'SESSION_ABSOLUTE_HOURS', 12, 1, 24 * 7),
       cookieSecure: bool(env, 'COOKIE_SECURE', false),
+    },
+    passwords: {
+      // The test run lowers the cost: its hundreds of sign-ins would otherwise take minutes.
+      scryptLog2N: int(env, 'PASSWORD_SCRYPT_LOG2N', nodeEnv === 'test' ? 14 : 17, 10, 20),
+      temporaryHours: int(env, 'TEMP_PASSWORD_HOURS', 72, 1, 24 * 30),
     },
     trustProxy: int(env, 'TRUST_PROXY', 0, 0, 10),
     login: {
@@ -129,7 +149,12 @@ export function loadConfig(env: Env = process.env): Config {
     smtp: {
       host: env.SMTP_HOST || '127.0.0.1',
       port: int(env, 'SMTP_PORT', 1025, 1),
-      from: env.MAIL_FROM || 'Ferrolane anaemia service <no-reply@ferrolane.test>',
+      // Neutral sender name: an inbox preview must not tell a family member what the clinic treats.
+      from: env.MAIL_FROM || 'Hospital appointments <no-reply@ferrolane.test>',
+      requireTls: bool(env, 'SMTP_REQUIRE_TLS', false),
+      tlsRejectUnauthorized: bool(env, 'SMTP_TLS_REJECT_UNAUTHORIZED', true),
+      tlsCaFile: env.SMTP_TLS_CA_FILE || null,
+      tlsServername: env.SMTP_TLS_SERVERNAME || null,
     },
     clinic: {
       name: env.CLINIC_NAME || DEMO_HOSPITAL.name,
@@ -148,6 +173,10 @@ export function loadConfig(env: Env = process.env): Config {
     replies: {
       maxBadTokensPerAddress: int(env, 'REPLY_MAX_BAD_TOKENS', 10, 1, 10000),
       windowMinutes: int(env, 'REPLY_WINDOW_MINUTES', 15, 1, 24 * 60),
+      linkDays: int(env, 'REPLY_LINK_DAYS', 14, 1, 365),
+    },
+    imports: {
+      maxCsvRows: int(env, 'IMPORT_MAX_CSV_ROWS', LIMITS.csvRows, 1, 2_000_000),
     },
     staticDir: env.STATIC_DIR ?? 'dist',
     publicUrl: (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, ''),

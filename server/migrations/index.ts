@@ -9,6 +9,7 @@ import * as m0007 from './0007-imports'
 import * as m0008 from './0008-documents'
 import * as m0010 from './0010-transfusion-inputs'
 import * as m0011 from './0011-dosing-safety'
+import * as m0014 from './0014-security'
 
 export interface Migration {
   name: string
@@ -28,4 +29,5 @@ export const migrations: Migration[] = [
   { name: '0008-documents', ...m0008 },
   { name: '0010-transfusion-inputs', ...m0010 },
   { name: '0011-dosing-safety', ...m0011 },
+  { name: '0014-security', ...m0014 },
 ]

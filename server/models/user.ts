@@ -9,6 +9,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare passwordHash: string
   declare active: CreationOptional<boolean>
   declare mustChangePassword: CreationOptional<boolean>
+  /** When the temporary password stops working; null once the user has chosen their own. */
+  declare temporaryPasswordExpiresAt: CreationOptional<Date | null>
   declare lastSignInAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -24,6 +26,7 @@ export function initUser(sequelize: Sequelize): void {
       passwordHash: { type: DataTypes.STRING(255), allowNull: false },
       active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       mustChangePassword: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      temporaryPasswordExpiresAt: { type: DataTypes.DATE, allowNull: true },
       lastSignInAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_WRITERS, STAFF, viewerOf } from './pathwayContext'
+import { CLINICAL_WRITERS, CLINICAL_READERS, viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import {
   cancelAppointmentSchema,
@@ -22,7 +22,7 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
     res.status(201).json(await bookAppointment(sequelize, config, viewerOf(req), input))
   })
 
-  api.get('/:id', { access: STAFF }, async (req, res) => {
+  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
     res.json(await getAppointment(viewerOf(req), idParam(req)))
   })
 
@@ -43,7 +43,7 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
 /** An episode's appointments with their history and message statuses, beside the other referral routes. */
 export function referralAppointmentRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
-  api.get('/:id/appointments', { access: STAFF }, async (req, res) => {
+  api.get('/:id/appointments', { access: CLINICAL_READERS }, async (req, res) => {
     res.json(await listReferralAppointments(viewerOf(req), idParam(req)))
   })
   return api

@@ -4,9 +4,11 @@ import { ApiRouter } from './apiRouter'
 import { actorOf, signedInActor, type AppContext } from './context'
 import { validate } from '../middleware/validate'
 import { csrfTokenFor } from '../middleware/csrf'
+import { markSignedIn } from '../middleware/sessionLifetime'
 import { loginSchema } from '../../shared/schemas/auth'
 import { changeOwnPassword } from '../services/users'
 import { recordAudit } from '../services/audit'
+import { recordSecurityEvent } from '../services/securityEvents'
 import { AppError } from '../errors'
 import type { SessionUser } from '../../shared/types'
 
@@ -24,10 +26,21 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
   })
 
   api.post('/login', { access: 'public' }, validate(loginSchema), async (req, res, next) => {
-    const user = await authenticate(passport, req, res, next)
-    if (!user) throw new AppError('invalid_credentials', 'E-mail or password is not correct', 401)
+    const email = String((req.body as { email: string }).email).slice(0, 190)
+    const user = await authenticate(passport, req, res, next).catch(async (err: unknown) => {
+      if (err instanceof AppError) {
+        const action = err.status === 429 ? 'sign-in-locked-out' : 'sign-in-refused'
+        await recordSecurityEvent(actorOf(req), action, 'login', { email, reason: err.code })
+      }
+      throw err
+    })
+    if (!user) {
+      await recordSecurityEvent(actorOf(req), 'sign-in-failed', 'login', { email, reason: 'invalid_credentials' })
+      throw new AppError('invalid_credentials', 'E-mail or password is not correct', 401)
+    }
     // passport regenerates the session id here, so a fixated id is worthless.
     await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
+    markSignedIn(req)
     await recordAudit(null, { ...actorOf(req), userId: user.id }, { action: 'sign-in', entity: 'session', entityId: user.id })
     res.json({ user, csrfToken: csrfTokenFor(req) })
   })
@@ -46,8 +59,12 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
   })
 
   api.post('/password', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
-    await changeOwnPassword(ctx.sequelize, signedInActor(req), req.body)
-    res.status(204).end()
+    const user = await changeOwnPassword(ctx.sequelize, signedInActor(req), req.body)
+    // Every session of the user is gone (the service deleted them); passport's login regenerates
+    // this one under a new id, so a session id seen before the change is worthless (ASVS 3.3.3).
+    await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
+    markSignedIn(req)
+    res.json({ user, csrfToken: csrfTokenFor(req) })
   })
 
   return api

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { STAFF, viewerOf } from './pathwayContext'
+import { CLINICAL_READERS, viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import {
   administrationSchema, dosePlanPreviewSchema, prescriptionSchema, readinessActionSchema, reviewSchema,
@@ -18,7 +18,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
   const doctor = { access: ['doctor'] } as const
 
-  api.get('/:id/reviews', { access: STAFF }, async (req, res) => {
+  api.get('/:id/reviews', { access: CLINICAL_READERS }, async (req, res) => {
     res.json({ rows: await listReviews(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/reviews', doctor, validate(reviewSchema), async (req, res) => {
@@ -33,7 +33,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     const b = req.body as DosePlanPreviewInput
     res.json(await previewDosePlan(viewerOf(req), idParam(req), { productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate }))
   })
-  api.get('/:id/prescriptions', { access: STAFF }, async (req, res) => {
+  api.get('/:id/prescriptions', { access: CLINICAL_READERS }, async (req, res) => {
     res.json({ rows: await listPrescriptions(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/prescriptions', doctor, validate(prescriptionSchema), async (req, res) => {
@@ -44,7 +44,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     }))
   })
 
-  api.get('/:id/administrations', { access: STAFF }, async (req, res) => {
+  api.get('/:id/administrations', { access: CLINICAL_READERS }, async (req, res) => {
     res.json({ rows: await listAdministrations(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/administrations', { access: ['nurse', 'doctor'] }, validate(administrationSchema), async (req, res) => {
@@ -54,7 +54,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     }))
   })
 
-  api.get('/:id/projection', { access: STAFF }, async (req, res) => {
+  api.get('/:id/projection', { access: CLINICAL_READERS }, async (req, res) => {
     const raw = req.query.cardiacOutputLMin
     let cardiacOutputLMin: number | undefined
     if (raw !== undefined && raw !== '') {
@@ -66,7 +66,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     res.json(await projectionFor(viewerOf(req), idParam(req), { cardiacOutputLMin }))
   })
 
-  api.get('/:id/readiness', { access: STAFF }, async (req, res) => {
+  api.get('/:id/readiness', { access: CLINICAL_READERS }, async (req, res) => {
     res.json({ rows: await listReadinessReviews(viewerOf(req), idParam(req)) })
   })
   // Only the operating surgeon answers; a nurse cannot acknowledge on a surgeon's behalf.

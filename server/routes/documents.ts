@@ -2,8 +2,8 @@ import type { Request, Response } from 'express'
 import multer from 'multer'
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { STAFF, viewerOf } from './pathwayContext'
 import { validateInput } from '../middleware/validate'
+import { CLINICAL_READERS, viewerOf } from './pathwayContext'
 import { AppError, Invalid } from '../errors'
 import { UPLOAD_MAX_BYTES, UPLOAD_MAX_MB, uploadDocumentSchema } from '../../shared/schemas/documents'
 import { listDocuments, openDocument, referralForAttaching, uploadDocument } from '../services/documents/index'
@@ -57,7 +57,7 @@ export function documentRoutes({ sequelize, config }: AppContext): ApiRouter {
     }))
   })
 
-  api.get('/:id/documents', { access: STAFF }, async (req, res) => {
+  api.get('/:id/documents', { access: CLINICAL_READERS }, async (req, res) => {
     res.json(await listDocuments(viewerOf(req), idParam(req)))
   })
   return api
@@ -77,7 +77,7 @@ export function sendAttachment(res: Response, file: { bytes: Buffer; mediaType: 
 
 export function documentDownloadRoutes({ config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/documents')
-  api.get('/:id', { access: STAFF }, async (req, res) => {
+  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
     sendAttachment(res, await openDocument(config, viewerOf(req), idParam(req)))
   })
   return api

@@ -19,8 +19,13 @@ import { getBatch, listBatches, reverseBatch } from '../services/imports/batches
 import { listMappings, mappingFor, saveMapping } from '../services/imports/mappings'
 import { AppError, Invalid } from '../errors'
 
-/** Results arrive from the laboratory through the people who screen: nurses, doctors, admins. */
-const IMPORTERS: readonly Role[] = ['admin', 'nurse', 'doctor']
+/**
+ * Results arrive from the laboratory through the people who screen: nurses and doctors upload,
+ * preview (which shows patients) and commit, and take a batch back out. Administrators keep the
+ * column mappings and see the batch list, which names no patient.
+ */
+const IMPORTERS: readonly Role[] = ['nurse', 'doctor']
+const BATCH_READERS: readonly Role[] = ['admin', 'nurse', 'doctor']
 const MAPPING_EDITORS: readonly Role[] = ['admin', 'nurse']
 const MB = (n: number) => `${Math.round(n / 1024 / 1024)} MB`
 
@@ -72,7 +77,7 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
       if (!file) throw new Invalid('file is required (the laboratory CSV, in the multipart field "file")', { file: 'is required' })
       await assertCsv(file)
       const mapping = fields.mapping ? await mappingFromField(fields.mapping) : (await mappingFor(fields.source)).mapping
-      const out = await importLabCsv(sequelize, viewerOf(req), { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' }, config.clinic.timeZone)
+      const out = await importLabCsv(sequelize, viewerOf(req), { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' }, config.clinic.timeZone, config.imports.maxCsvRows)
       res.status(out.batchId ? 201 : 200).json(out)
     } finally {
       if (file) await rm(file.path, { force: true })
@@ -91,11 +96,11 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
     res.status(out.batchId ? 201 : 200).json(out)
   })
 
-  api.get('/mappings', { access: IMPORTERS }, async (_req, res) => {
+  api.get('/mappings', { access: BATCH_READERS }, async (_req, res) => {
     res.json({ rows: await listMappings() })
   })
 
-  api.get('/mappings/:source', { access: IMPORTERS }, async (req, res) => {
+  api.get('/mappings/:source', { access: BATCH_READERS }, async (req, res) => {
     res.json(await mappingFor(await sourceOf(req.params.source)))
   })
 
@@ -105,15 +110,15 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
     res.json(await saveMapping(sequelize, viewerOf(req), source, mapping))
   })
 
-  api.get('', { access: IMPORTERS }, async (_req, res) => {
+  api.get('', { access: BATCH_READERS }, async (_req, res) => {
     res.json({ rows: await listBatches() })
   })
 
-  api.get('/:id', { access: IMPORTERS }, async (req, res) => {
+  api.get('/:id', { access: BATCH_READERS }, async (req, res) => {
     res.json(await getBatch(idParam(req)))
   })
 
-  api.post('/:id/reversal', { access: ['admin'] }, validate(reversalSchema), async (req, res) => {
+  api.post('/:id/reversal', { access: IMPORTERS }, validate(reversalSchema), async (req, res) => {
     const { reason } = req.body as ReversalInput
     res.json(await reverseBatch(sequelize, viewerOf(req), idParam(req), reason))
   })

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_WRITERS, STAFF, viewerOf } from './pathwayContext'
+import { CLINICAL_WRITERS, CLINICAL_READERS, viewerOf } from './pathwayContext'
 import { sendAttachment } from './documents'
 import { openLetter, writeAppointmentLetter, writeFamilyDoctorLetter } from '../services/letters/index'
 
@@ -24,7 +24,7 @@ export function appointmentLetterRoutes({ sequelize, config }: AppContext): ApiR
 
 export function letterDownloadRoutes({ config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/letters')
-  api.get('/:id', { access: STAFF }, async (req, res) => {
+  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
     sendAttachment(res, await openLetter(config, viewerOf(req), idParam(req)))
   })
   return api

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { STAFF, viewerOf } from './pathwayContext'
+import { CLINICAL_READERS, viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { followUpSchema, outcomeSchema, type FollowUpInput, type OutcomeInput } from '../../shared/schemas/outcomes'
 import { getOutcome, recordFollowUp, recordOutcome } from '../services/outcomes'
@@ -10,7 +10,7 @@ export function outcomeRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
   const writers = { access: ['nurse', 'doctor', 'surgeon'] } as const
 
-  api.get('/:id/outcome', { access: STAFF }, async (req, res) => {
+  api.get('/:id/outcome', { access: CLINICAL_READERS }, async (req, res) => {
     res.json(await getOutcome(viewerOf(req), idParam(req)))
   })
   api.post('/:id/outcome', writers, validate(outcomeSchema), async (req, res) => {

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_WRITERS, STAFF, viewerOf } from './pathwayContext'
+import { CLINICAL_WRITERS, CLINICAL_READERS, viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { createPatientSchema, patientSearchSchema, updatePatientSchema, type CreatePatientInput, type UpdatePatientInput } from '../../shared/schemas/patients'
 import { createPatient, getPatient, searchPatients, updatePatient } from '../services/patients'
@@ -8,7 +8,7 @@ import { createPatient, getPatient, searchPatients, updatePatient } from '../ser
 export function patientRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/patients')
 
-  api.get('', { access: STAFF }, validate(patientSearchSchema, 'query'), async (req, res) => {
+  api.get('', { access: CLINICAL_READERS }, validate(patientSearchSchema, 'query'), async (req, res) => {
     res.json({ rows: await searchPatients(viewerOf(req), (res.locals.query as { q: string }).q) })
   })
 
@@ -22,7 +22,7 @@ export function patientRoutes({ sequelize }: AppContext): ApiRouter {
     res.status(201).json(await createPatient(sequelize, viewerOf(req), input))
   })
 
-  api.get('/:id', { access: STAFF }, async (req, res) => {
+  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
     res.json(await getPatient(viewerOf(req), idParam(req)))
   })
 

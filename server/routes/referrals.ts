@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_WRITERS, STAFF, viewerOf } from './pathwayContext'
+import { CLINICAL_WRITERS, CLINICAL_READERS, viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import {
   createReferralSchema,
@@ -30,7 +30,7 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
     res.status(201).json(await createReferral(sequelize, viewerOf(req), input))
   })
 
-  api.get('/:id', { access: STAFF }, async (req, res) => {
+  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
     res.json(await referralDetail(viewerOf(req), idParam(req), { audit: true }))
   })
 
@@ -56,7 +56,7 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
     res.status(201).json(await addResult(sequelize, viewerOf(req), idParam(req), input))
   })
 
-  api.get('/:id/results', { access: STAFF }, async (req, res) => {
+  api.get('/:id/results', { access: CLINICAL_READERS }, async (req, res) => {
     const analyte = req.query.analyte
     if (analyte !== undefined && !isAnalyte(analyte) && analyte !== 'egfr') {
       throw new Invalid('analyte filter is not a known analyte', { analyte: 'is not a known analyte' })

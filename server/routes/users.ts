@@ -4,7 +4,7 @@ import { validate } from '../middleware/validate'
 import { createUserSchema, updateUserSchema, type CreateUserInput, type UpdateUserInput } from '../../shared/schemas/users'
 import { createStaff, listStaff, resetStaffPassword, updateStaff } from '../services/users'
 
-export function userRoutes({ sequelize }: AppContext): ApiRouter {
+export function userRoutes({ sequelize, config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/users')
   const admin = { access: ['admin'] } as const
 
@@ -14,7 +14,7 @@ export function userRoutes({ sequelize }: AppContext): ApiRouter {
 
   api.post('', admin, validate(createUserSchema), async (req, res) => {
     const { email, name, role } = req.body as CreateUserInput
-    res.status(201).json(await createStaff(sequelize, signedInActor(req), { email, name, role }))
+    res.status(201).json(await createStaff(sequelize, signedInActor(req), { email, name, role }, config.passwords.temporaryHours))
   })
 
   api.patch('/:id', admin, validate(updateUserSchema), async (req, res) => {
@@ -23,7 +23,7 @@ export function userRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   api.post('/:id/reset-password', admin, async (req, res) => {
-    res.json(await resetStaffPassword(sequelize, signedInActor(req), idParam(req)))
+    res.json(await resetStaffPassword(sequelize, signedInActor(req), idParam(req), config.passwords.temporaryHours))
   })
 
   return api

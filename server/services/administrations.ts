@@ -1,6 +1,6 @@
 import type { Sequelize } from 'sequelize'
 import { Administration, Prescription, Referral, User } from '../models/index'
-import { addDays, ageOn, isReadOnly } from '../../shared/pathway'
+import { addDays, ageOn, findMove, isReadOnly } from '../../shared/pathway'
 import { ADULT_AGE_YEARS } from '../../shared/clinical'
 import { checkGivenDose } from '../../shared/clinic/doseCheck'
 import type { AdministrationInput } from '../../shared/schemas/clinic'
@@ -14,8 +14,6 @@ import { currentBody } from './patients'
 import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 
-/** Stages from which a recorded dose means the patient is now on treatment. */
-const MOVES_TO_TREATING = new Set(['clinic', 'recheck', 'screened', 'cleared'])
 
 export function toAdministrationView(a: Administration & { giver?: User | null }) {
   return {
@@ -27,7 +25,8 @@ export function toAdministrationView(a: Administration & { giver?: User | null }
 /**
  * Records a dose given. The dose is re-checked against the product's single-dose, mg/kg,
  * interval, weekly and course caps and the prescribed total; an overshoot is refused (422
- * naming each cap) unless a reason is recorded with it; the episode moves to treating and the re-check is scheduled
+ * naming each cap) unless a reason is recorded with it; the episode moves to treating where the
+ * pathway table allows this role that move, and the re-check is scheduled
  * the clinic's configured number of days after this (the latest) dose.
  */
 export async function recordAdministration(sequelize: Sequelize, viewer: Viewer, referralId: number, input: AdministrationInput) {
@@ -63,14 +62,18 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     if (given >= p.totalMg) await p.update({ status: 'completed' }, { transaction: t })
 
     let version = r.version
-    if (MOVES_TO_TREATING.has(r.stage)) {
+    // A dose moves the episode to treating only where the pathway table itself offers this role
+    // that move (today: a doctor, from clinic or recheck). Otherwise the dose is recorded, since it
+    // was given, and the stage stays for someone allowed to move it.
+    const moves = findMove(r.stage, 'treating')?.roles.includes(viewer.role) ?? false
+    if (moves) {
       version = await recordMove(t, viewer, r, 'treating', `Iron given: ${input.doseMg} mg ${product.name} (batch ${input.batchNumber})`)
     }
     const recheckDueDate = addDays(givenAt.toISOString().slice(0, 10), settings.recheckDaysAfterLastDose)
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
     const view = toAdministrationView(a)
     await recordAudit(t, viewer, { action: 'create', entity: 'administration', entityId: a.id, patientId: r.patientId, after: { ...view, recheckDueDate } })
-    return { administration: view, recheckDueDate, stage: MOVES_TO_TREATING.has(r.stage) ? 'treating' : r.stage, version }
+    return { administration: view, recheckDueDate, stage: moves ? 'treating' : r.stage, version }
   })
 }
 

@@ -1,13 +1,14 @@
 import { Op, type WhereOptions } from 'sequelize'
-import { AuditEntry, User } from '../models/index'
+import { AuditEntry, Patient, User } from '../models/index'
 import { recordAudit, type Actor } from './audit'
 import { Invalid } from '../errors'
+import { LIMITS, windowTooLong } from '../../shared/limits'
 
 export const AUDIT_PAGE_SIZE = 50
 /** A CSV export is capped so one click cannot pull the whole log into memory. */
 export const AUDIT_EXPORT_LIMIT = 10_000
 
-export interface AuditQuery { userId: number | null; patientId: number | null; entity: string | null; action: string | null; from: string | null; to: string | null; page: number }
+export interface AuditQuery { userId: number | null; patientId: number | null; mrn: string | null; entity: string | null; action: string | null; from: string | null; to: string | null; page: number }
 
 const DATE = /^\d{4}-\d{2}-\d{2}$/
 
@@ -24,7 +25,16 @@ export function auditQuery(q: Record<string, unknown>): AuditQuery {
     const v = str(k)
     if (v !== null && !DATE.test(v)) throw new Invalid(`${k} must be a date (YYYY-MM-DD)`, { [k]: 'must be a date (YYYY-MM-DD)' })
   }
-  return { userId: id('userId'), patientId: id('patientId'), entity: str('entity'), action: str('action'), from: str('from'), to: str('to'), page: id('page') ?? 1 }
+  const from = str('from')
+  if (from !== null) {
+    const to = str('to') ?? new Date().toISOString().slice(0, 10)
+    if (from > to) throw new Invalid('to must be on or after from', { to: 'must be on or after from' })
+    const tooLong = windowTooLong(from, to, LIMITS.auditDays, 'The audit search window')
+    if (tooLong) throw new Invalid(tooLong, { from: `must be within ${LIMITS.auditDays} days of to` })
+  }
+  const mrn = str('mrn')?.trim() || null
+  if (mrn !== null && mrn.length > 40) throw new Invalid('mrn must be at most 40 characters', { mrn: 'must be at most 40 characters' })
+  return { userId: id('userId'), patientId: id('patientId'), mrn, entity: str('entity'), action: str('action'), from: str('from'), to: str('to'), page: id('page') ?? 1 }
 }
 
 function whereOf(q: AuditQuery): WhereOptions {
@@ -52,7 +62,12 @@ function toRow(e: AuditEntry & { user?: User | null }) {
  * page shows the log as it was when asked).
  */
 export async function searchAudit(actor: Actor, q: AuditQuery, exportAll = false) {
-  const where = whereOf(q)
+  const where = whereOf(q) as Record<string, unknown>
+  // An administrator filters by MRN without reading the record: the id stays on the server.
+  if (q.mrn !== null) {
+    const patient = await Patient.findOne({ where: { mrn: q.mrn }, attributes: ['id'], raw: true })
+    where.patientId = q.patientId !== null && q.patientId !== patient?.id ? -1 : (patient?.id ?? -1)
+  }
   const limit = exportAll ? AUDIT_EXPORT_LIMIT : AUDIT_PAGE_SIZE
   const { rows, count } = await AuditEntry.findAndCountAll({
     where, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']],

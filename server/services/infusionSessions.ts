@@ -6,6 +6,7 @@ import { localDate, localTime, peakOverlap, zonedToUtc } from '../../shared/appo
 import type { CreateInfusionSessionInput, SessionRangeQuery, UpdateInfusionSessionInput } from '../../shared/schemas/appointments'
 import { addDays } from '../../shared/pathway'
 import { Conflict, Invalid, NotFound } from '../errors'
+import { LIMITS, windowTooLong } from '../../shared/limits'
 import { recordAudit, changedFields } from './audit'
 import { staleVersion, type Viewer } from './viewer'
 import { clinicToday } from './clinicDay'
@@ -30,8 +31,12 @@ async function bookingsOf(ids: number[]) {
 
 export async function listInfusionSessions(config: Config, q: SessionRangeQuery) {
   const tz = config.clinic.timeZone
-  const from = zonedToUtc(q.from || clinicToday(), '00:00', tz)
-  const to = zonedToUtc(addDays(q.to || addDays(clinicToday(), 28), 1), '00:00', tz)
+  const fromDay = q.from || clinicToday()
+  const toDay = q.to || addDays(fromDay, 28)
+  const tooLong = windowTooLong(fromDay, toDay, LIMITS.infusionSessionDays, 'The session window')
+  if (tooLong) throw new Invalid(tooLong, { to: `must be within ${LIMITS.infusionSessionDays} days of from` })
+  const from = zonedToUtc(fromDay, '00:00', tz)
+  const to = zonedToUtc(addDays(toDay, 1), '00:00', tz)
   const rows = await InfusionSession.findAll({ where: { startsAt: { [Op.gte]: from, [Op.lt]: to } }, order: [['startsAt', 'ASC']], raw: true })
   const booked = await bookingsOf(rows.map((r) => r.id))
   return { rows: rows.map((r) => view(r, tz, booked.filter((b) => b.infusionSessionId === r.id))) }

@@ -7,8 +7,9 @@ import { recordAudit } from './audit'
 import { loadReferral, type LoadedReferral } from './episode'
 import { projectionForReferral } from './projection'
 import { isoOrNull, type Viewer } from './viewer'
-import { AppError, Forbidden } from '../errors'
+import { AppError, Forbidden, Invalid } from '../errors'
 import { clinicTimeZone, clinicToday } from './clinicDay'
+import { LIMITS, windowTooLong } from '../../shared/limits'
 
 export interface BoardQuery { from?: string; to?: string; procedureCode?: string; surgeonId?: number }
 
@@ -21,9 +22,14 @@ function reviewView(r: ReadinessReview | null) {
 /** The readiness board: episodes with surgery in the window (default the next 8 weeks), each projected. */
 export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
   const today = clinicToday()
+  const from = q.from ?? today
+  const to = q.to ?? addDays(from, BOARD_WEEKS * 7)
+  if (from > to) throw new Invalid('to must be on or after from', { to: 'must be on or after from' })
+  const tooLong = windowTooLong(from, to, LIMITS.readinessDays, 'The readiness window')
+  if (tooLong) throw new Invalid(tooLong, { to: `must be within ${LIMITS.readinessDays} days of from` })
   const where: Record<string, unknown> = {
     stage: { [Op.in]: PRE_OPERATIVE_STAGES },
-    plannedSurgeryDate: { [Op.between]: [q.from ?? today, q.to ?? addDays(today, BOARD_WEEKS * 7)] },
+    plannedSurgeryDate: { [Op.between]: [from, to] },
   }
   if (viewer.role === 'surgeon') {
     if (q.surgeonId && q.surgeonId !== viewer.userId) throw new Forbidden("Surgeons see their own patients' readiness only", 'not_your_patient')

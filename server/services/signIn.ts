@@ -3,7 +3,7 @@ import { QueryTypes } from 'sequelize'
 import { User, LoginFailure } from '../models/index'
 import type { Config } from '../config'
 import type { SessionUser } from '../../shared/types'
-import { burnPasswordCheck, verifyPassword } from './passwords'
+import { passwordAccepted } from './credentials'
 import { toSessionUser } from './users'
 import { TooMany } from '../errors'
 
@@ -60,7 +60,7 @@ export async function countSignInAttempt(config: Config, email: unknown, ip: str
 /** Checks the password of an attempt already counted; a success takes the attempt back off the counts. */
 export async function checkCredentials(email: string, password: string, ip: string): Promise<SessionUser | null> {
   const user = await User.findOne({ where: { email: email.toLowerCase() } })
-  const ok = user ? user.active && (await verifyPassword(password, user.passwordHash)) : (await burnPasswordCheck(password), false)
+  const ok = await passwordAccepted(user, password)
   if (!ok || !user) return null
   await LoginFailure.destroy({ where: { bucket: accountBucket(email)! } })
   await LoginFailure.sequelize!.query('UPDATE login_failures SET failures = GREATEST(failures, 1) - 1 WHERE bucket = ?', {

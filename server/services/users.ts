@@ -6,6 +6,12 @@ import { hashPassword, temporaryPassword, verifyPassword } from './passwords'
 import { recordAudit, changedFields, type Actor } from './audit'
 import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
 import { changePasswordSchema } from '../../shared/schemas/auth'
+import { isCommonPassword } from './commonPasswords'
+
+/** When a temporary password handed out now stops working (ASVS 2.3.1). */
+function temporaryExpiry(temporaryHours: number): Date {
+  return new Date(Date.now() + temporaryHours * 3_600_000)
+}
 
 type UserRow = InstanceType<typeof User>
 
@@ -53,13 +59,13 @@ async function loadUser(id: number): Promise<UserRow> {
   return u
 }
 
-export async function createStaff(sequelize: Sequelize, actor: Actor, input: CreateUserInput) {
+export async function createStaff(sequelize: Sequelize, actor: Actor, input: CreateUserInput, temporaryHours: number) {
   const password = temporaryPassword()
   const passwordHash = await hashPassword(password)
   try {
     return await sequelize.transaction(async (t) => {
       const u = await User.create(
-        { email: input.email, name: input.name, role: input.role, passwordHash, mustChangePassword: true },
+        { email: input.email, name: input.name, role: input.role, passwordHash, mustChangePassword: true, temporaryPasswordExpiresAt: temporaryExpiry(temporaryHours) },
         { transaction: t },
       )
       const account = toStaffAccount(u)
@@ -95,13 +101,14 @@ export async function updateStaff(sequelize: Sequelize, actor: Actor, id: number
   })
 }
 
-export async function resetStaffPassword(sequelize: Sequelize, actor: Actor, id: number) {
+export async function resetStaffPassword(sequelize: Sequelize, actor: Actor, id: number, temporaryHours: number) {
   const password = temporaryPassword()
   const passwordHash = await hashPassword(password)
   return sequelize.transaction(async (t) => {
     const u = await loadUser(id)
     u.passwordHash = passwordHash
     u.mustChangePassword = true
+    u.temporaryPasswordExpiresAt = temporaryExpiry(temporaryHours)
     await u.save({ transaction: t })
     // A reset means the old password may be known to someone else: end its sessions too.
     await SessionRow.destroy({ where: { userId: id }, transaction: t })
@@ -111,7 +118,11 @@ export async function resetStaffPassword(sequelize: Sequelize, actor: Actor, id:
   })
 }
 
-export async function changeOwnPassword(sequelize: Sequelize, actor: Actor & { userId: number }, body: unknown) {
+/**
+ * Replaces the signed-in user's password and ends every session they hold, this one included:
+ * the route then signs them in again under a new session id (ASVS 3.3.3).
+ */
+export async function changeOwnPassword(sequelize: Sequelize, actor: Actor & { userId: number }, body: unknown): Promise<SessionUser> {
   const u = await loadUser(actor.userId)
   const input = await changePasswordSchema
     .validate(body, { abortEarly: false, stripUnknown: true, context: { email: u.email } })
@@ -125,12 +136,20 @@ export async function changeOwnPassword(sequelize: Sequelize, actor: Actor & { u
   if (await verifyPassword(input.newPassword, u.passwordHash)) {
     throw new Invalid('New password must differ from the current one', { newPassword: 'New password must differ from the current one' })
   }
+  if (isCommonPassword(input.newPassword)) {
+    const message = 'This password is on a list of common or breached passwords; choose another'
+    throw new Invalid(message, { newPassword: message })
+  }
   const passwordHash = await hashPassword(input.newPassword)
   await sequelize.transaction(async (t) => {
     u.passwordHash = passwordHash
     u.mustChangePassword = false
+    u.temporaryPasswordExpiresAt = null
     await u.save({ transaction: t })
+    // Whoever knew the old password may hold a session elsewhere: end them all.
+    await SessionRow.destroy({ where: { userId: u.id }, transaction: t })
     t.afterCommit(() => forgetUser(u.id))
     await recordAudit(t, actor, { action: 'change-password', entity: 'user', entityId: u.id })
   })
+  return toSessionUser(u)
 }

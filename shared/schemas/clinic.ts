@@ -1,4 +1,5 @@
 import * as yup from 'yup'
+import { LIMITS } from '../limits'
 import { DIAGNOSES } from '../clinic/diagnoses'
 import { IV_IRON_CAUTIONS } from '../clinic/cautions'
 
@@ -32,6 +33,7 @@ export const prescriptionSchema = dosePlanPreviewSchema.shape({
       doseMg: yup.number().typeError('Each dose must be a number of mg').positive('Each dose must be more than 0 mg').required(),
       dayOffset: yup.number().typeError('Each dose needs a day').integer().min(0).max(365).required(),
     }))
+    .max(LIMITS.prescriptionDoses, `doses must list at most ${LIMITS.prescriptionDoses} doses`)
     .default(undefined),
   // Required for IV products (the server checks the product's route); oral iron has no checklist.
   cautions: yup.object(cautionShape).default(undefined),

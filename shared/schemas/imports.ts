@@ -1,4 +1,5 @@
 import * as yup from 'yup'
+import { LIMITS } from '../limits'
 import { ANALYTES } from '../pathway/analytes'
 import { DATE_ORDERS, DELIMITERS, MAPPED_FIELDS, MAPPED_FIELD_LABELS, type ColumnMapping } from '../imports/mapping'
 
@@ -26,7 +27,10 @@ export const columnMappingSchema = yup.object({
     .test('known-analytes', function (codes) {
       if (codes == null) return true
       if (typeof codes !== 'object' || Array.isArray(codes)) return this.createError({ message: 'codes must map each test code to an analyte' })
-      for (const [code, analyte] of Object.entries(codes)) {
+      const entries = Object.entries(codes)
+      if (entries.length > LIMITS.mappingCodes) return this.createError({ message: `codes must list at most ${LIMITS.mappingCodes} test codes (got ${entries.length})` })
+      for (const [code, analyte] of entries) {
+        if (code.length > LIMITS.mappingCodeLength) return this.createError({ message: `each test code in codes must be at most ${LIMITS.mappingCodeLength} characters` })
         if (!(ANALYTES as readonly string[]).includes(String(analyte))) {
           return this.createError({ message: `code ${code} must map to one of ${ANALYTES.join(', ')} (got ${String(analyte)})` })
         }

@@ -2,6 +2,7 @@ import * as yup from 'yup'
 import { PRIORITIES } from '../pathway/options'
 import { STAGES } from '../pathway/stages'
 import { WORKLIST_FLAGS } from '../pathway/flags'
+import { LIMITS } from '../limits'
 import { isoDateField, notBeforeToday, optionalText, versionField, withinYearsAhead } from './fields'
 
 const id = (label: string) => yup.number().typeError(`${label} must be a whole number`).integer(`${label} must be a whole number`).min(1, `${label} must be a whole number`)
@@ -71,7 +72,8 @@ export const worklistQuerySchema = yup.object({
   q: yup.string().trim().max(80, 'q must be at most 80 characters'),
   mine: yup.boolean().typeError('mine must be 1 or 0'),
   sort: yup.string().oneOf([...WORKLIST_SORTS], `sort must be one of ${WORKLIST_SORTS.join(', ')}`).default('plannedSurgeryDate'),
-  page: yup.number().typeError('page must be a whole number').integer('page must be a whole number').min(1, 'page must be 1 or more').default(1),
+  page: yup.number().typeError('page must be a whole number').integer('page must be a whole number').min(1, 'page must be 1 or more')
+    .max(LIMITS.worklistPage, `page must be at most ${LIMITS.worklistPage}`).default(1),
   pageSize: yup
     .number()
     .typeError('pageSize must be a whole number')

@@ -27,6 +27,9 @@ export async function logout(): Promise<void> {
   }
 }
 
-export function changePassword(input: ChangePasswordInput): Promise<void> {
-  return api.post<void>('/auth/password', input)
+export async function changePassword(input: ChangePasswordInput): Promise<SessionUser> {
+  const { user, csrfToken } = await api.post<{ user: SessionUser; csrfToken: string }>('/auth/password', input)
+  // A password change ends every session and opens a new one, with its own token.
+  setCsrfToken(csrfToken)
+  return user
 }

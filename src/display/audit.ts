@@ -4,8 +4,11 @@ export const AUDIT_ENTITIES = [
   'appointment', 'appointment-task', 'document', 'documents', 'user', 'procedure', 'iron-product', 'clinic-settings', 'infusion-session', 'audit-trail',
   // Reads of an episode's sub-records (the services that list them) and the laboratory imports.
   'clinic-reviews', 'prescriptions', 'administrations', 'projection', 'readiness-reviews', 'appointments', 'import_batch', 'import_mapping',
+  // Sign-ins and refusals (failed and locked-out sign-ins, 403s, CSRF refusals).
+  'session', 'request',
 ]
-export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse']
+export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse',
+  'sign-in', 'sign-out', 'sign-in-failed', 'sign-in-locked-out', 'sign-in-refused', 'forbidden', 'csrf-refused', 'change-password', 'reset-password']
 
 export interface DiffLine { field: string; before: string; after: string; changed: boolean }
 

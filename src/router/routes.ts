@@ -2,6 +2,9 @@ import type { RouteRecordRaw } from 'vue-router'
 import { ROLES } from '@shared/roles'
 import { ROLE_HOMES } from './homes'
 
+// Administrators read no patient record (tests/api/roleMatrix.data.ts); the server checks again.
+const CLINICAL_ROLES = ['nurse', 'doctor', 'surgeon'] as const
+
 // '/' never renders: the guard always sends a signed-in user on to their role's home.
 const RoleHomeRedirect = { render: () => null }
 
@@ -71,7 +74,7 @@ export const routes: RouteRecordRaw[] = [
     name: 'readiness',
     component: () => import('@/views/ReadinessView.vue'),
     meta: {
-      roles: ['surgeon', 'doctor', 'admin', 'nurse'],
+      roles: CLINICAL_ROLES,
       title: 'Readiness board',
       wide: true,
       // Surgeons' home is this board already (AppShellNav leaves it out for them).
@@ -95,7 +98,7 @@ export const routes: RouteRecordRaw[] = [
     path: '/worklist',
     name: 'worklist',
     component: () => import('@/views/WorklistView.vue'),
-    meta: { roles: ROLES, title: 'Worklist', wide: true, nav: { label: 'Worklist', icon: 'pi pi-list', order: 30 } },
+    meta: { roles: CLINICAL_ROLES, title: 'Worklist', wide: true, nav: { label: 'Worklist', icon: 'pi pi-list', order: 30 } },
   },
   {
     path: '/imports',
@@ -116,7 +119,7 @@ export const routes: RouteRecordRaw[] = [
     path: '/referrals/:id(\\d+)',
     name: 'episode',
     component: () => import('@/views/EpisodeView.vue'),
-    meta: { roles: ROLES, title: 'Episode', wide: true },
+    meta: { roles: CLINICAL_ROLES, title: 'Episode', wide: true },
   },
   {
     path: '/account/password',

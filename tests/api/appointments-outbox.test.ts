@@ -79,8 +79,8 @@ describe('when the mail relay is down', () => {
     expect(second.nextAttemptAt.getTime() - now.getTime()).toBe(120_000)
     await drainOutbox({ ...opts(), now: new Date(second.nextAttemptAt.getTime() + 1) })
     expect(await row()).toMatchObject({ status: 'failed', attempts: 3 })
-    const admin = await makeStaff('admin')
-    const c = await new Client(t.app).mustSignIn(admin.email, admin.password)
+    const nurse = await makeStaff('nurse')
+    const c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
     const listed = (await c.get('/api/outbox?status=failed').expect(200)).body.rows
     expect(listed).toEqual([expect.objectContaining({ id: body.message.id, status: 'failed', attempts: 3, lastError: expect.any(String) })])
   })

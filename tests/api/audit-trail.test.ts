@@ -12,6 +12,7 @@ let asAdmin: Client
 let asNurse: Client
 let asDoctor: Client
 let patientId: number
+let mrn: string
 let entryId: number
 
 beforeAll(async () => {
@@ -26,6 +27,7 @@ beforeAll(async () => {
   asDoctor = await new Client(t.app).mustSignIn(doctor.email, doctor.password)
   const { patient } = await makeEpisode({ surgeonId: surgeon.id })
   patientId = patient.id
+  mrn = patient.mrn
   // The nurse opens the patient's record: read access to clinical data is audited.
   expect((await asNurse.get(`/api/patients/${patientId}`)).status).toBe(200)
   entryId = Number((await AuditEntry.findOne({ where: { userId: nurse.id, action: 'view', patientId } }))!.id)
@@ -39,6 +41,19 @@ describe('GET /api/audit', () => {
     expect(res.body).toMatchObject({ total: 1, page: 1, pageSize: 50 })
     expect(res.body.rows[0]).toMatchObject({ id: entryId, user: { id: nurse.id, name: 'Nurse Audit' }, action: 'view', entity: 'patient', patientId })
     expect(Object.keys(res.body.rows[0]).sort()).toEqual(['action', 'after', 'at', 'before', 'entity', 'entityId', 'id', 'patientId', 'requestId', 'user'])
+  })
+
+  it('when the admin filters by MRN, then the entries about that patient are found without the admin reading the record', async () => {
+    await asAdmin.get(`/api/patients/${patientId}`).expect(403)
+    const res = await asAdmin.get(`/api/audit?mrn=${encodeURIComponent(mrn)}&action=view&entity=patient`)
+    expect(res.status, JSON.stringify(res.body)).toBe(200)
+    expect(res.body.rows.map((r: { id: number }) => r.id)).toContain(entryId)
+    expect(res.body.rows.every((r: { patientId: number }) => r.patientId === patientId)).toBe(true)
+    const none = await asAdmin.get('/api/audit?mrn=NO-SUCH-MRN').expect(200)
+    expect(none.body.total).toBe(0)
+    const long = await asAdmin.get(`/api/audit?mrn=${'X'.repeat(41)}`)
+    expect(long.status).toBe(400)
+    expect(long.body.error.fields.mrn).toMatch(/at most 40/)
   })
 
   it('when the admin reads the trail, then that reading is itself recorded', async () => {

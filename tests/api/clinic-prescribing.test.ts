@@ -138,10 +138,12 @@ describe('recording a dose given', () => {
     return { ...ep, prescriptionId: res.body.prescription.id as number }
   }
 
-  it('when a nurse records the infusion, then the episode moves to treating and the re-check is due 4 weeks later', async () => {
+  it('when a doctor records the infusion at clinic, then the episode moves to treating (the pathway table gives doctors clinic → treating) and the re-check is due 4 weeks later', async () => {
     const { referral, prescriptionId } = await prescribed()
+    const from = (await Referral.findByPk(referral.id))!.stage
+    expect(from).toBe('clinic')
     const givenAt = new Date()
-    const res = await nurse.post(`/api/referrals/${referral.id}/administrations`, { prescriptionId, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-2231', reaction: 'none' })
+    const res = await doctor.post(`/api/referrals/${referral.id}/administrations`, { prescriptionId, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-2231', reaction: 'none' })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.stage).toBe('treating')
     expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 28)) // Ferinject SmPC 4.2: Hb re-assessed no earlier than 4 weeks after the last dose
@@ -150,6 +152,18 @@ describe('recording a dose given', () => {
     expect(await StageTransition.count({ where: { referralId: referral.id, toStage: 'treating' } })).toBe(1)
     const detail = await nurse.get(`/api/referrals/${referral.id}`)
     expect(detail.body.flags).not.toContain('treatment-not-given')
+  })
+
+  it('when a nurse records the infusion at clinic, then the dose is stored but the stage stays: the pathway table gives nurses no move to treating from clinic', async () => {
+    const { referral, prescriptionId } = await prescribed()
+    const givenAt = new Date()
+    const res = await nurse.post(`/api/referrals/${referral.id}/administrations`, { prescriptionId, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-2232', reaction: 'none' })
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    expect(res.body.stage).toBe('clinic')
+    expect((await Referral.findByPk(referral.id))!.stage).toBe('clinic')
+    expect(await StageTransition.count({ where: { referralId: referral.id, toStage: 'treating' } })).toBe(0)
+    expect(await Administration.count({ where: { referralId: referral.id } })).toBe(1)
+    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 21))
   })
 
   it('when the dose is over the product cap, then 422 and nothing is recorded', async () => {

@@ -78,22 +78,27 @@ describe('a commit is all or nothing', () => {
 })
 
 describe('reversing a batch', () => {
-  it('when an admin reverses a batch with a reason, then its results are gone, the episode is re-screened and the reversal is audited', async () => {
+  it('when a doctor reverses a batch with a reason, then its results are gone, the episode is re-screened and the reversal is audited', async () => {
     const typed = await c.post(`/api/referrals/${referralId}/results`, { analyte: 'hb', value: 142, unit: 'g/L', takenAt: takenHoursAgo(100) })
     expect(typed.status).toBe(201)
     const res = await uploadCsv(c, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]), { commit: true }).expect(201)
     // Hb 98 g/L in a man: anaemic by any threshold (WHO men 130 g/L).
     expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 98, anaemic: 1 })
-    const refused = await c.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'wrong patient file' })
+    // Least privilege: an administrator reads no patient record and takes no results out.
+    const asAdmin = await new Client(t.app).mustSignIn(admin.email, admin.password)
+    const refused = await asAdmin.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'wrong patient file' })
     expect(refused.status).toBe(403)
+    const adminUpload = await uploadCsv(asAdmin, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]))
+    expect(adminUpload.status).toBe(403)
 
-    const a = await new Client(t.app).mustSignIn(admin.email, admin.password)
+    const doctor = await makeStaff('doctor')
+    const a = await new Client(t.app).mustSignIn(doctor.email, doctor.password)
     const noReason = await a.post(`/api/imports/${res.body.batchId}/reversal`, {})
     expect(noReason.status).toBe(400)
     expect(noReason.body.error.fields.reason).toMatch(/required/)
     const done = await a.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'File belonged to another hospital' })
     expect(done.status, JSON.stringify(done.body)).toBe(200)
-    expect(done.body).toMatchObject({ reversalReason: 'File belonged to another hospital', resultsRemoved: 1, reversedBy: { id: admin.id } })
+    expect(done.body).toMatchObject({ reversalReason: 'File belonged to another hospital', resultsRemoved: 1, reversedBy: { id: doctor.id } })
     expect(await Result.count({ where: { importBatchId: res.body.batchId } })).toBe(0)
     // Back to the typed-in Hb: 142 g/L, not anaemic.
     expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 142, anaemic: 0 })
@@ -102,6 +107,18 @@ describe('reversing a batch', () => {
     expect(again.status).toBe(422)
     const list = await a.get('/api/imports').expect(200)
     expect(list.body.rows[0]).toMatchObject({ id: res.body.batchId, reversedAt: expect.any(String) })
+  })
+})
+
+describe('reversing a batch that reached a closed episode', () => {
+  it('when one of its episodes is closed, then the reversal is refused (422) and every result stays', async () => {
+    const res = await uploadCsv(c, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]), { commit: true }).expect(201)
+    await Referral.update({ stage: 'closed' }, { where: { id: referralId } })
+    const refused = await c.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'wrong patient file' })
+    expect(refused.status).toBe(422)
+    expect(refused.body.error).toMatchObject({ code: 'episode_closed', message: expect.stringMatching(/closed episode.*cannot be reversed/) })
+    expect(await Result.count({ where: { importBatchId: res.body.batchId } })).toBe(1)
+    expect((await ImportBatch.findByPk(res.body.batchId, { raw: true }))!.reversedAt).toBeNull()
   })
 })
 

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
+import { makeTestApp, cleanDatabase, clearAuditTrail, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { hoursAgo, makePatient, makeProcedure, makeReferral, type ReferralOverrides } from '../helpers/pathwayFactories'
@@ -25,7 +25,7 @@ beforeAll(async () => {
 afterAll(async () => { await t.close() })
 beforeEach(async () => {
   await StageTransition.destroy({ where: {} })
-  await AuditEntry.destroy({ where: {} })
+  await clearAuditTrail(t.sequelize)
   await Referral.destroy({ where: {} })
   const patient = await makePatient()
   const procedure = await makeProcedure()

@@ -1,6 +1,12 @@
 import type { Role } from '../../shared/roles'
 
 const STAFF: Role[] = ['admin', 'nurse', 'doctor', 'surgeon']
+/**
+ * Least privilege (issue 15): administrators keep staff accounts, settings, catalogues, infusion
+ * sessions, reports' aggregate figures and the audit trail, and read no patient record. Every
+ * route that answers with a patient's data is for the clinical roles only.
+ */
+const CLINICAL: Role[] = ['nurse', 'doctor', 'surgeon']
 
 export type Allow = 'public' | 'signed-in' | Role[]
 export interface MatrixEntry { method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'; path: string; allow: Allow }
@@ -20,34 +26,34 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/users', allow: ['admin'] },
   { method: 'PATCH', path: '/api/users/:id', allow: ['admin'] },
   { method: 'POST', path: '/api/users/:id/reset-password', allow: ['admin'] },
-  // The referral pathway: every staff role reads (surgeons their own patients only, checked in
+  // The referral pathway: the clinical roles read (surgeons their own patients only, checked in
   // the services); nurses and doctors write clinical records; admins keep the catalogue.
   { method: 'GET', path: '/api/staff', allow: 'signed-in' },
-  { method: 'GET', path: '/api/patients', allow: [...STAFF] },
+  { method: 'GET', path: '/api/patients', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/patients', allow: ['nurse', 'doctor'] },
-  { method: 'GET', path: '/api/patients/:id', allow: [...STAFF] },
+  { method: 'GET', path: '/api/patients/:id', allow: [...CLINICAL] },
   { method: 'PATCH', path: '/api/patients/:id', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/procedures', allow: 'signed-in' },
   { method: 'POST', path: '/api/procedures', allow: ['admin'] },
   { method: 'PATCH', path: '/api/procedures/:code', allow: ['admin'] },
   { method: 'POST', path: '/api/referrals', allow: ['nurse', 'doctor'] },
-  { method: 'GET', path: '/api/referrals/:id', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id', allow: [...CLINICAL] },
   { method: 'PATCH', path: '/api/referrals/:id', allow: ['nurse', 'doctor'] },
   { method: 'POST', path: '/api/referrals/:id/transitions', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'POST', path: '/api/referrals/:id/results', allow: ['nurse', 'doctor'] },
-  { method: 'GET', path: '/api/referrals/:id/results', allow: [...STAFF] },
-  { method: 'GET', path: '/api/worklist', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/results', allow: [...CLINICAL] },
+  { method: 'GET', path: '/api/worklist', allow: [...CLINICAL] },
   // Anaemia clinic and theatre readiness: doctors review and prescribe; nurses and doctors record
   // doses; only the operating surgeon answers the readiness projection; admins keep formulary and thresholds.
-  { method: 'GET', path: '/api/referrals/:id/reviews', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/reviews', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/referrals/:id/reviews', allow: ['doctor'] },
   { method: 'POST', path: '/api/referrals/:id/dose-plan', allow: ['doctor'] },
-  { method: 'GET', path: '/api/referrals/:id/prescriptions', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/prescriptions', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/referrals/:id/prescriptions', allow: ['doctor'] },
-  { method: 'GET', path: '/api/referrals/:id/administrations', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/administrations', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/referrals/:id/administrations', allow: ['nurse', 'doctor'] },
-  { method: 'GET', path: '/api/referrals/:id/projection', allow: [...STAFF] },
-  { method: 'GET', path: '/api/referrals/:id/readiness', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/projection', allow: [...CLINICAL] },
+  { method: 'GET', path: '/api/referrals/:id/readiness', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/referrals/:id/readiness', allow: ['surgeon'] },
   { method: 'GET', path: '/api/formulary', allow: [...STAFF] },
   { method: 'POST', path: '/api/formulary', allow: ['admin'] },
@@ -55,18 +61,18 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/settings/clinic', allow: [...STAFF] },
   { method: 'GET', path: '/api/clinic-profile', allow: 'signed-in' },
   { method: 'PATCH', path: '/api/settings/clinic', allow: ['admin'] },
-  { method: 'GET', path: '/api/readiness', allow: [...STAFF] },
+  { method: 'GET', path: '/api/readiness', allow: [...CLINICAL] },
   // Appointments and patient e-mail: nurses and doctors book; every staff role reads (surgeons
   // their own patients); admins keep the infusion sessions; patients answer through public links.
   { method: 'POST', path: '/api/appointments', allow: ['nurse', 'doctor'] },
-  { method: 'GET', path: '/api/appointments/:id', allow: [...STAFF] },
+  { method: 'GET', path: '/api/appointments/:id', allow: [...CLINICAL] },
   { method: 'PATCH', path: '/api/appointments/:id', allow: ['nurse', 'doctor'] },
   { method: 'POST', path: '/api/appointments/:id/cancel', allow: ['nurse', 'doctor'] },
-  { method: 'GET', path: '/api/referrals/:id/appointments', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/appointments', allow: [...CLINICAL] },
   { method: 'GET', path: '/api/infusion-sessions', allow: ['admin', 'nurse', 'doctor'] },
   { method: 'POST', path: '/api/infusion-sessions', allow: ['admin'] },
   { method: 'PATCH', path: '/api/infusion-sessions/:id', allow: ['admin'] },
-  { method: 'GET', path: '/api/outbox', allow: ['nurse', 'doctor', 'admin'] },
+  { method: 'GET', path: '/api/outbox', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/tasks', allow: ['nurse', 'doctor'] },
   { method: 'POST', path: '/api/tasks/:id/done', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/replies/:token', allow: 'public' },
@@ -74,7 +80,7 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/replies/:token/rebook', allow: 'public' },
   // After surgery: nurses, doctors and the operating surgeon record outcomes; reports for admins,
   // doctors and surgeons (their own figures); the audit trail is admin-only and read-only.
-  { method: 'GET', path: '/api/referrals/:id/outcome', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/outcome', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/referrals/:id/outcome', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'POST', path: '/api/referrals/:id/follow-up', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'GET', path: '/api/reports/:name', allow: ['admin', 'doctor', 'surgeon'] },
@@ -82,20 +88,21 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   // Documents, letters and the FHIR export: every staff role reads and downloads (surgeons their own
   // patients); nurses, doctors and the operating surgeon attach files; nurses and doctors write letters.
   { method: 'POST', path: '/api/referrals/:id/documents', allow: ['nurse', 'doctor', 'surgeon'] },
-  { method: 'GET', path: '/api/referrals/:id/documents', allow: [...STAFF] },
-  { method: 'GET', path: '/api/documents/:id', allow: [...STAFF] },
+  { method: 'GET', path: '/api/referrals/:id/documents', allow: [...CLINICAL] },
+  { method: 'GET', path: '/api/documents/:id', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/referrals/:id/letters', allow: ['nurse', 'doctor'] },
   { method: 'POST', path: '/api/appointments/:id/letter', allow: ['nurse', 'doctor'] },
-  { method: 'GET', path: '/api/letters/:id', allow: [...STAFF] },
-  { method: 'GET', path: '/api/referrals/:id/fhir', allow: [...STAFF] },
-  // Laboratory imports: nurses, doctors and admins import and review batches; nurses and admins keep
-  // the column mappings; only an admin reverses a batch. Surgeons read results on their episodes.
-  { method: 'POST', path: '/api/imports/lab-results', allow: ['admin', 'nurse', 'doctor'] },
-  { method: 'POST', path: '/api/imports/fhir', allow: ['admin', 'nurse', 'doctor'] },
+  { method: 'GET', path: '/api/letters/:id', allow: [...CLINICAL] },
+  { method: 'GET', path: '/api/referrals/:id/fhir', allow: [...CLINICAL] },
+  // Laboratory imports: nurses and doctors upload, preview, commit and reverse (never a batch that
+  // touches a closed episode); admins see the batch list (no patient in it) and, with nurses, keep
+  // the column mappings. Surgeons read results on their episodes.
+  { method: 'POST', path: '/api/imports/lab-results', allow: ['nurse', 'doctor'] },
+  { method: 'POST', path: '/api/imports/fhir', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/imports/mappings', allow: ['admin', 'nurse', 'doctor'] },
   { method: 'GET', path: '/api/imports/mappings/:source', allow: ['admin', 'nurse', 'doctor'] },
   { method: 'PUT', path: '/api/imports/mappings/:source', allow: ['admin', 'nurse'] },
   { method: 'GET', path: '/api/imports', allow: ['admin', 'nurse', 'doctor'] },
   { method: 'GET', path: '/api/imports/:id', allow: ['admin', 'nurse', 'doctor'] },
-  { method: 'POST', path: '/api/imports/:id/reversal', allow: ['admin'] },
+  { method: 'POST', path: '/api/imports/:id/reversal', allow: ['nurse', 'doctor'] },
 ]

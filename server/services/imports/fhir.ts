@@ -1,7 +1,8 @@
 import { createHash } from 'node:crypto'
 import type { Sequelize } from 'sequelize'
 import { checkFhirBundle, type Checked, type FhirEntryResult, type FhirImportResult } from '../../../shared/imports'
-import { RuleRefused } from '../../errors'
+import { Invalid, RuleRefused } from '../../errors'
+import { LIMITS } from '../../../shared/limits'
 import type { Viewer } from '../viewer'
 import { ImportRun } from './run'
 
@@ -13,6 +14,10 @@ import { ImportRun } from './run'
 export async function importFhirBundle(
   sequelize: Sequelize, viewer: Viewer, bundle: unknown, opts: { commit: boolean; storeValid: boolean; sourceName: string },
 ): Promise<FhirImportResult> {
+  const entryCount = (bundle as { entry?: unknown } | null)?.entry
+  if (Array.isArray(entryCount) && entryCount.length > LIMITS.fhirEntries) {
+    throw new Invalid(`The Bundle has ${entryCount.length} entries, more than the limit of ${LIMITS.fhirEntries} for one upload; nothing was imported. Send it in parts.`, { bundle: `must have at most ${LIMITS.fhirEntries} entries` })
+  }
   const checked = checkFhirBundle(bundle, Date.now())
   if ('error' in checked) throw new RuleRefused(`${checked.error}. Nothing was imported.`, 'fhir_not_bundle', { bundle: checked.error })
   const invalid = checked.entries.filter((e) => e.kind === 'invalid').length

@@ -4,7 +4,8 @@ import { pipeline } from 'node:stream'
 import { parse, CsvError } from 'csv-parse'
 import type { Sequelize } from 'sequelize'
 import { checkCsvRecord, MAPPED_FIELDS, type Checked, type ColumnMapping } from '../../../shared/imports'
-import { RuleRefused } from '../../errors'
+import { Invalid, RuleRefused } from '../../errors'
+import { LIMITS } from '../../../shared/limits'
 import type { Viewer } from '../viewer'
 import type { ImportSummary } from '../../../shared/imports'
 import { ImportRun } from './run'
@@ -29,7 +30,7 @@ function csvRefusal(err: CsvError): RuleRefused {
  * long the file is. A preview stores nothing; a commit stores every accepted row in one
  * transaction (or none, if anything fails), then derives, re-screens and audits.
  */
-export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: LabCsvInput, timeZone: string): Promise<ImportSummary> {
+export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: LabCsvInput, timeZone: string, maxRows: number = LIMITS.csvRows): Promise<ImportSummary> {
   const hash = createHash('sha256')
   const file = createReadStream(input.filePath)
   file.on('data', (c) => hash.update(c))
@@ -56,6 +57,9 @@ export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: 
         headerChecked = true
       }
       const row = info.records + 1
+      if (info.records > maxRows) {
+        throw new Invalid(`The file has more than ${maxRows} data rows, the limit for one upload; nothing was imported. Split it or export a shorter period.`, { file: `must have at most ${maxRows} rows` })
+      }
       const checked: Checked = info.error
         ? { ok: false, code: 'bad-row', reason: `row has a different number of fields from the header (${Object.keys(record).length} of ${info.columns?.length ?? 0} read)` }
         : checkCsvRecord(record, input.mapping, timeZone, now)

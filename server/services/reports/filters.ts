@@ -3,6 +3,7 @@ import { addDays } from '../../../shared/pathway'
 import type { Viewer } from '../viewer'
 import { Forbidden, Invalid } from '../../errors'
 import { clinicToday } from '../clinicDay'
+import { LIMITS, windowTooLong } from '../../../shared/limits'
 
 export interface ReportFilters { from: string; to: string; surgeonId: number | null; procedureCode: string | null }
 
@@ -17,6 +18,8 @@ export function reportFilters(viewer: Viewer, q: Record<string, unknown>): Repor
     if (!DATE.test(v) || Number.isNaN(Date.parse(v))) throw new Invalid(`${k} must be a date (YYYY-MM-DD)`, { [k]: 'must be a date (YYYY-MM-DD)' })
   }
   if (from > to) throw new Invalid('from must be on or before to', { from: 'must be on or before to' })
+  const tooLong = windowTooLong(from, to, LIMITS.reportDays, 'The report period')
+  if (tooLong) throw new Invalid(tooLong, { from: `must be within ${LIMITS.reportDays} days of to` })
   let surgeonId: number | null = null
   const rawSurgeon = str('surgeonId')
   if (rawSurgeon !== null) {

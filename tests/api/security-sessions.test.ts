@@ -1,0 +1,172 @@
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
+import { QueryTypes } from 'sequelize'
+import request from 'supertest'
+import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
+import { Client } from '../helpers/agent'
+import { makeStaff } from '../helpers/factories'
+import { AuditEntry, SessionRow, User } from '../../server/models/index'
+import { hashPassword, setPasswordCost } from '../../server/services/passwords'
+import { loadConfig } from '../../server/config'
+
+let t: TestApp
+beforeAll(() => { t = makeTestApp() })
+afterAll(async () => { await t.close() })
+beforeEach(async () => { await cleanDatabase(t.sequelize) })
+
+function sessionId(res: { headers: Record<string, unknown> }): string | undefined {
+  const cookies = (res.headers['set-cookie'] as string[] | undefined) ?? []
+  return cookies.find((c) => c.startsWith('ferrolane.sid='))?.split(';')[0]
+}
+
+describe('a password change', () => {
+  it('when a user changes their password, then their other sessions end and this one gets a new id', async () => {
+    const s = await makeStaff('nurse')
+    const here = new Client(t.app)
+    const signIn = await here.signIn(s.email, s.password)
+    const before = sessionId(signIn)!
+    const elsewhere = await new Client(t.app).mustSignIn(s.email, s.password)
+    await elsewhere.get('/api/auth/me').expect(200)
+
+    const res = await here.post('/api/auth/password', { currentPassword: s.password, newPassword: 'a-quiet-lantern-road-58' })
+    expect(res.status, JSON.stringify(res.body)).toBe(200)
+    const after = sessionId(res)
+    expect(after).toBeDefined()
+    expect(after).not.toBe(before)
+    here.csrf = res.body.csrfToken
+
+    await elsewhere.get('/api/auth/me').expect(401)
+    await here.get('/api/auth/me').expect(200)
+    // The id seen before the change answers as nobody.
+    const replay = await request(t.app).get('/api/auth/me').set('Cookie', before)
+    expect(replay.status).toBe(401)
+    expect(await SessionRow.count({ where: { userId: s.id } })).toBe(1)
+  })
+
+  it('when the new password is on the common-password list, then the 400 names newPassword and nothing changes', async () => {
+    const s = await makeStaff('doctor')
+    const c = await new Client(t.app).mustSignIn(s.email, s.password)
+    const hash = (await User.findByPk(s.id))!.passwordHash
+    for (const common of ['qwertyuiop123', 'Sunshine2026!!']) {
+      const res = await c.post('/api/auth/password', { currentPassword: s.password, newPassword: common })
+      expect(res.status).toBe(400)
+      expect(res.body.error.fields.newPassword).toMatch(/common or breached/)
+    }
+    expect((await User.findByPk(s.id))!.passwordHash).toBe(hash)
+  })
+})
+
+describe('the absolute session lifetime', () => {
+  it('when a session was signed in longer ago than SESSION_ABSOLUTE_HOURS, then it answers 401 however active it was', async () => {
+    const s = await makeStaff('nurse')
+    const c = await new Client(t.app).mustSignIn(s.email, s.password)
+    await c.get('/api/auth/me').expect(200)
+    const [row] = await t.sequelize.query<{ sid: string; data: string }>('SELECT sid, data FROM sessions WHERE user_id = ?', { replacements: [s.id], type: QueryTypes.SELECT })
+    const data = JSON.parse(row!.data) as { signedInAt: number }
+    // Still inside the idle timeout (the row's expiry is untouched), but 12 h and a minute since sign-in.
+    data.signedInAt = Date.now() - (t.config.session.absoluteHours * 3_600_000 + 60_000)
+    await t.sequelize.query('UPDATE sessions SET data = ? WHERE sid = ?', { replacements: [JSON.stringify(data), row!.sid] })
+    const res = await c.get('/api/auth/me')
+    expect(res.status).toBe(401)
+    expect(await SessionRow.count({ where: { sid: row!.sid } })).toBe(0)
+  })
+
+  it('then the lifetime defaults to 12 hours and is configurable', () => {
+    expect(loadConfig({}).session.absoluteHours).toBe(12)
+    expect(loadConfig({ SESSION_ABSOLUTE_HOURS: '8' }).session.absoluteHours).toBe(8)
+  })
+})
+
+describe('temporary passwords', () => {
+  it('when an administrator resets a password, then it expires after TEMP_PASSWORD_HOURS', async () => {
+    const admin = await makeStaff('admin')
+    const s = await makeStaff('nurse')
+    const a = await new Client(t.app).mustSignIn(admin.email, admin.password)
+    const res = await a.post(`/api/users/${s.id}/reset-password`).expect(200)
+    const expires = (await User.findByPk(s.id))!.temporaryPasswordExpiresAt!
+    expect(Math.abs(expires.getTime() - (Date.now() + 72 * 3_600_000))).toBeLessThan(60_000)
+    await new Client(t.app).mustSignIn(s.email, res.body.temporaryPassword)
+
+    await User.update({ temporaryPasswordExpiresAt: new Date(Date.now() - 1000) }, { where: { id: s.id } })
+    const late = await new Client(t.app).signIn(s.email, res.body.temporaryPassword)
+    expect(late.status).toBe(401)
+    expect(late.body.error.code).toBe('temporary_password_expired')
+    expect(late.body.error.message).toMatch(/expired/)
+  })
+})
+
+describe('password hashing', () => {
+  it('then new hashes use the configured scrypt cost, and the default cost is OWASP\'s N=2^17, r=8, p=1', async () => {
+    // OWASP Password Storage Cheat Sheet: scrypt with N=2^17, r=8, p=1 at least.
+    expect(loadConfig({}).passwords.scryptLog2N).toBe(17)
+    expect(loadConfig({ NODE_ENV: 'production', SESSION_SECRET: 'x'.repeat(32) }).passwords.scryptLog2N).toBe(17)
+    expect((await hashPassword('any-long-password-1')).split('$').slice(0, 4)).toEqual(['scrypt', String(2 ** t.config.passwords.scryptLog2N), '8', '1'])
+  })
+
+  it('when a user signs in with a hash made at an older cost, then it is rehashed at today\'s', async () => {
+    const s = await makeStaff('doctor')
+    setPasswordCost(t.config.passwords.scryptLog2N - 1)
+    const old = await hashPassword(s.password)
+    setPasswordCost(t.config.passwords.scryptLog2N)
+    await User.update({ passwordHash: old }, { where: { id: s.id } })
+    await new Client(t.app).mustSignIn(s.email, s.password)
+    const now = (await User.findByPk(s.id))!.passwordHash
+    expect(now).not.toBe(old)
+    expect(now.split('$')[1]).toBe(String(2 ** t.config.passwords.scryptLog2N))
+    await new Client(t.app).mustSignIn(s.email, s.password)
+  })
+
+  it('when an account is deactivated, then a sign-in still pays the full hash before it is refused', async () => {
+    const active = await makeStaff('nurse')
+    const off = await makeStaff('nurse', { active: false })
+    const time = async (email: string) => {
+      const c = new Client(t.app)
+      await c.fetchCsrf()
+      const started = performance.now()
+      const res = await c.signIn(email, 'not-the-password-xyz')
+      expect(res.status).toBe(401)
+      return performance.now() - started
+    }
+    // Compared with the slowest quick path there could be: no hash at all takes well under 10 ms.
+    const hashMs = await (async () => { const s = performance.now(); await hashPassword('x-timing-probe-1'); return performance.now() - s })()
+    const offMs = Math.min(await time(off.email), await time(off.email))
+    const activeMs = Math.min(await time(active.email), await time(active.email))
+    expect(offMs).toBeGreaterThan(hashMs * 0.5)
+    expect(offMs).toBeGreaterThan(activeMs * 0.4)
+  })
+})
+
+describe('security events in the audit trail', () => {
+  it('when a sign-in fails, a role is refused or a CSRF token is missing, then each leaves an audit entry', async () => {
+    const s = await makeStaff('surgeon')
+    await new Client(t.app).signIn(s.email, 'wrong-password-entirely')
+    const c = await new Client(t.app).mustSignIn(s.email, s.password)
+    await c.get('/api/users').expect(403)
+    await c.agent.post('/api/auth/logout').set('X-CSRF-Token', 'forged').expect(403)
+    const rows = await AuditEntry.findAll({ where: { action: ['sign-in-failed', 'forbidden', 'csrf-refused'] }, raw: true, order: [['id', 'ASC']] })
+    expect(rows.map((r) => r.action)).toEqual(['sign-in-failed', 'forbidden', 'csrf-refused'])
+    expect(rows[0]!.after).toMatchObject({ email: s.email, reason: 'invalid_credentials' })
+    expect(JSON.stringify(rows[0]!.after)).not.toContain('wrong-password')
+    expect(rows[1]!.userId).toBe(s.id)
+    expect(rows[1]!.after).toMatchObject({ code: 'forbidden', route: 'GET /api/users' })
+  })
+
+  it('when an account is locked out, then the refusal is recorded as a lockout', async () => {
+    const s = await makeStaff('nurse')
+    for (let i = 0; i < t.config.login.maxFailuresPerAccount; i++) await new Client(t.app).signIn(s.email, 'wrong-password-entirely')
+    const locked = await new Client(t.app).signIn(s.email, s.password)
+    expect(locked.status).toBe(429)
+    expect(await AuditEntry.count({ where: { action: 'sign-in-locked-out' } })).toBe(1)
+  })
+})
+
+describe('the audit trail in the database', () => {
+  it('when anything tries to UPDATE or DELETE an audit row, then MariaDB refuses it', async () => {
+    const s = await makeStaff('nurse')
+    await new Client(t.app).mustSignIn(s.email, s.password)
+    const entry = (await AuditEntry.findOne({ where: { action: 'sign-in' } }))!
+    await expect(t.sequelize.query('UPDATE audit_entries SET action = ? WHERE id = ?', { replacements: ['tampered', entry.id] })).rejects.toThrow(/append-only/)
+    await expect(t.sequelize.query('DELETE FROM audit_entries WHERE id = ?', { replacements: [entry.id] })).rejects.toThrow(/append-only/)
+    await expect(AuditEntry.destroy({ where: {} })).rejects.toThrow(/append-only/)
+    expect((await AuditEntry.findByPk(entry.id, { raw: true }))!.action).toBe('sign-in')
+  })
+})
