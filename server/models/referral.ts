@@ -32,6 +32,8 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   declare cardiovascularDisease: CreationOptional<boolean>
   /** The surgeon asked for the date to move; the clinic sees a flag until the date changes. */
   declare dateChangeRequestedAt: CreationOptional<Date | null>
+  /** The decision to operate (listing for surgery); screening lead time is measured from it too. */
+  declare listingDate: CreationOptional<string | null>
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -61,6 +63,7 @@ export function initReferral(sequelize: Sequelize): void {
       treatmentGivenAt: { type: DataTypes.DATE, allowNull: true },
       cardiovascularDisease: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       dateChangeRequestedAt: { type: DataTypes.DATE, allowNull: true },
+      listingDate: { type: DataTypes.DATEONLY, allowNull: true },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

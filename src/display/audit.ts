@@ -4,8 +4,10 @@ export const AUDIT_ENTITIES = [
   'appointment', 'appointment-task', 'document', 'documents', 'user', 'procedure', 'iron-product', 'clinic-settings', 'infusion-session', 'audit-trail',
   // Reads of an episode's sub-records (the services that list them) and the laboratory imports.
   'clinic-reviews', 'prescriptions', 'administrations', 'projection', 'readiness-reviews', 'appointments', 'import_batch', 'import_mapping',
+  // The transfusion record and the quality report's national-audit export.
+  'transfusion', 'transfusions', 'national-audit-export',
 ]
-export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse']
+export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse', 'void']
 
 export interface DiffLine { field: string; before: string; after: string; changed: boolean }
 
