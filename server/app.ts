@@ -40,6 +40,7 @@ import { formularyRoutes } from './routes/formulary'
 import { clinicSettingsRoutes } from './routes/clinicSettings'
 import { readinessRoutes } from './routes/readiness'
 import { outcomeRoutes } from './routes/outcomes'
+import { transfusionRoutes } from './routes/transfusions'
 import { reportRoutes } from './routes/reports'
 import { auditRoutes } from './routes/audit'
 import { clinicProfileRoutes } from './routes/clinicProfile'
@@ -126,7 +127,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
     staffRoutes(ctx), patientRoutes(ctx), procedureRoutes(ctx), referralRoutes(ctx), worklistRoutes(ctx),
     clinicRoutes(ctx), formularyRoutes(ctx), clinicSettingsRoutes(ctx), readinessRoutes(ctx),
     appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),
-    outcomeRoutes(ctx), reportRoutes(ctx), auditRoutes(ctx), clinicProfileRoutes(ctx),
+    outcomeRoutes(ctx), transfusionRoutes(ctx), reportRoutes(ctx), auditRoutes(ctx), clinicProfileRoutes(ctx),
     documentRoutes(ctx), documentDownloadRoutes(ctx), letterRoutes(ctx), appointmentLetterRoutes(ctx), letterDownloadRoutes(ctx), fhirExportRoutes(ctx),
     importRoutes(ctx),
   ]

@@ -10,6 +10,7 @@ import * as m0008 from './0008-documents'
 import * as m0010 from './0010-transfusion-inputs'
 import * as m0011 from './0011-dosing-safety'
 import * as m0014 from './0014-security'
+import * as m0012 from './0012-transfusions'
 
 export interface Migration {
   name: string
@@ -30,4 +31,5 @@ export const migrations: Migration[] = [
   { name: '0010-transfusion-inputs', ...m0010 },
   { name: '0011-dosing-safety', ...m0011 },
   { name: '0014-security', ...m0014 },
+  { name: '0012-transfusions', ...m0012 },
 ]

@@ -28,10 +28,12 @@ import { initEpisodeDocument, EpisodeDocument } from './episodeDocument'
 import { initLetter, Letter } from './letter'
 import { initImportBatch, ImportBatch } from './importBatch'
 import { initImportMapping, ImportMapping } from './importMapping'
+import { initTransfusion, Transfusion } from './transfusion'
+import { initSurgeryDateChange, SurgeryDateChange } from './surgeryDateChange'
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
-export { Outcome }
+export { Outcome, Transfusion, SurgeryDateChange }
 export { EpisodeDocument, Letter }
 export { ImportBatch, ImportMapping }
 export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, AppointmentReplyToken, AppointmentReplyFailure, AppointmentTask }
@@ -70,6 +72,8 @@ export function initModels(sequelize: Sequelize): void {
   initLetter(sequelize)
   initImportBatch(sequelize)
   initImportMapping(sequelize)
+  initTransfusion(sequelize)
+  initSurgeryDateChange(sequelize)
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
   Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })
@@ -78,6 +82,7 @@ export function initModels(sequelize: Sequelize): void {
   Referral.belongsTo(User, { foreignKey: 'surgeonId', as: 'surgeon' })
   Referral.hasMany(Result, { foreignKey: 'referralId', as: 'results' })
   Referral.hasMany(StageTransition, { foreignKey: 'referralId', as: 'transitions' })
+  SurgeryDateChange.belongsTo(User, { foreignKey: 'changedBy', as: 'changedByUser' })
   Result.belongsTo(User, { foreignKey: 'enteredBy', as: 'enteredByUser' })
   StageTransition.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Referral.hasMany(ClinicReview, { foreignKey: 'referralId', as: 'reviews' })

@@ -24,6 +24,15 @@ export class Outcome extends Model<InferAttributes<Outcome>, InferCreationAttrib
   declare followUpNotes: CreationOptional<string | null>
   declare followUpBy: CreationOptional<number | null>
   declare followUpAt: CreationOptional<Date | null>
+  // Blood-saving measures (null = not recorded).
+  declare tranexamicAcidGiven: CreationOptional<boolean | null>
+  declare tranexamicAcidDoseMg: CreationOptional<number | null>
+  declare tranexamicAcidTiming: CreationOptional<string | null>
+  declare cellSalvageUsed: CreationOptional<boolean | null>
+  declare cellSalvageReturnedMl: CreationOptional<number | null>
+  declare transfusionInformationGiven: CreationOptional<boolean | null>
+  declare transfusionConsent: CreationOptional<boolean | null>
+  declare postOperativeIronGiven: CreationOptional<boolean | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 }
@@ -49,6 +58,14 @@ export function initOutcome(sequelize: Sequelize): void {
       followUpNotes: { type: DataTypes.TEXT, allowNull: true },
       followUpBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       followUpAt: { type: DataTypes.DATE, allowNull: true },
+      tranexamicAcidGiven: { type: DataTypes.BOOLEAN, allowNull: true },
+      tranexamicAcidDoseMg: { type: DataTypes.SMALLINT.UNSIGNED, allowNull: true },
+      tranexamicAcidTiming: { type: DataTypes.STRING(20), allowNull: true },
+      cellSalvageUsed: { type: DataTypes.BOOLEAN, allowNull: true },
+      cellSalvageReturnedMl: { type: DataTypes.SMALLINT.UNSIGNED, allowNull: true },
+      transfusionInformationGiven: { type: DataTypes.BOOLEAN, allowNull: true },
+      transfusionConsent: { type: DataTypes.BOOLEAN, allowNull: true },
+      postOperativeIronGiven: { type: DataTypes.BOOLEAN, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

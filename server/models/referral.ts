@@ -35,6 +35,8 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   /** Positive red-cell antibody screen; null until recorded. */
   declare redCellAntibodies: CreationOptional<boolean | null>
   declare declinesTransfusion: CreationOptional<boolean>
+  /** The decision to operate (listing for surgery); screening lead time is measured from it too. */
+  declare listingDate: CreationOptional<string | null>
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -66,6 +68,7 @@ export function initReferral(sequelize: Sequelize): void {
       dateChangeRequestedAt: { type: DataTypes.DATE, allowNull: true },
       redCellAntibodies: { type: DataTypes.BOOLEAN, allowNull: true },
       declinesTransfusion: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      listingDate: { type: DataTypes.DATEONLY, allowNull: true },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

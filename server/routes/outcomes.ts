@@ -16,9 +16,12 @@ export function outcomeRoutes({ sequelize }: AppContext): ApiRouter {
   api.post('/:id/outcome', writers, validate(outcomeSchema), async (req, res) => {
     const b = req.body as OutcomeInput
     res.status(201).json(await recordOutcome(sequelize, viewerOf(req), idParam(req), {
-      surgeryDate: b.surgeryDate, bloodLossMl: b.bloodLossMl, unitsTransfusedIntraOp: b.unitsTransfusedIntraOp, unitsTransfusedPostOp: b.unitsTransfusedPostOp,
+      surgeryDate: b.surgeryDate, bloodLossMl: b.bloodLossMl,
       unitsCrossmatched: b.unitsCrossmatched, lowestHbGL: b.lowestHbGL, dischargeHbGL: b.dischargeHbGL, lengthOfStayDays: b.lengthOfStayDays,
       complications: b.complications, version: b.version,
+      tranexamicAcidGiven: b.tranexamicAcidGiven, tranexamicAcidDoseMg: b.tranexamicAcidDoseMg, tranexamicAcidTiming: b.tranexamicAcidTiming,
+      cellSalvageUsed: b.cellSalvageUsed, cellSalvageReturnedMl: b.cellSalvageReturnedMl,
+      transfusionInformationGiven: b.transfusionInformationGiven, transfusionConsent: b.transfusionConsent, postOperativeIronGiven: b.postOperativeIronGiven,
     }))
   })
   api.post('/:id/follow-up', writers, validate(followUpSchema), async (req, res) => {

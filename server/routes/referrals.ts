@@ -25,7 +25,7 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
     const b = req.body as CreateReferralInput
     const input: CreateReferralInput = {
       patientId: b.patientId, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
-      plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource,
+      plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource, listingDate: b.listingDate,
     }
     res.status(201).json(await createReferral(sequelize, viewerOf(req), input))
   })
@@ -40,6 +40,7 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
       version: b.version, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
       plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource,
       redCellAntibodies: b.redCellAntibodies, declinesTransfusion: b.declinesTransfusion,
+      listingDate: b.listingDate, dateChangeReason: b.dateChangeReason, dateChangeNote: b.dateChangeNote,
     }
     res.json(await updateReferral(sequelize, viewerOf(req), idParam(req), input))
   })

@@ -4,10 +4,17 @@ import { viewerOf } from './pathwayContext'
 import { runReport } from '../services/reports/index'
 import { tableToCsv } from '../services/reports/csv'
 import { Invalid } from '../errors'
+import { qualityReport } from '../services/reports/quality'
+import { reportFilters } from '../services/reports/filters'
 
 /** The service's reports: admins and doctors see everything, surgeons their own figures (forced in the filters). */
 export function reportRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/reports')
+
+  // Registered before '/:name': the quality measures have their own answer shape.
+  api.get('/quality', { access: ['admin', 'doctor', 'surgeon'] }, async (req, res) => {
+    res.json(await qualityReport(sequelize, reportFilters(viewerOf(req), req.query as Record<string, unknown>)))
+  })
 
   api.get('/:name', { access: ['admin', 'doctor', 'surgeon'] }, async (req, res) => {
     const name = String(req.params.name)

@@ -5,6 +5,7 @@ import type { FollowUpInput, OutcomeInput } from '../../shared/schemas/outcomes'
 import { outcomeWarnings } from '../../shared/reports/outcomeWarnings'
 import { changedFields, recordAudit } from './audit'
 import { loadReferral, type LoadedReferral } from './episode'
+import { redCellUnitsByPhase } from './transfusionCounts'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 
@@ -13,6 +14,9 @@ function toOutcomeView(o: Outcome) {
     id: o.id, referralId: o.referralId, surgeryDate: o.surgeryDate, bloodLossMl: o.bloodLossMl,
     unitsTransfusedIntraOp: o.unitsTransfusedIntraOp, unitsTransfusedPostOp: o.unitsTransfusedPostOp, unitsCrossmatched: o.unitsCrossmatched,
     lowestHbGL: o.lowestHbGL, dischargeHbGL: o.dischargeHbGL, lengthOfStayDays: o.lengthOfStayDays, complications: o.complications,
+    tranexamicAcidGiven: o.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: o.tranexamicAcidDoseMg ?? null, tranexamicAcidTiming: o.tranexamicAcidTiming ?? null,
+    cellSalvageUsed: o.cellSalvageUsed ?? null, cellSalvageReturnedMl: o.cellSalvageReturnedMl ?? null,
+    transfusionInformationGiven: o.transfusionInformationGiven ?? null, transfusionConsent: o.transfusionConsent ?? null, postOperativeIronGiven: o.postOperativeIronGiven ?? null,
     followUp: o.followUpAt == null ? null : {
       recheckHbGL: o.followUpRecheckHbGL, recheckDate: o.followUpRecheckDate, ironAfterSurgery: o.followUpIronAfterSurgery,
       notes: o.followUpNotes, recordedAt: isoOrNull(o.followUpAt),
@@ -25,7 +29,7 @@ type OutcomeView = ReturnType<typeof toOutcomeView>
  * The checks every post-operative write makes, in the order moveReferral uses: a stale version
  * first, then a closed (read-only) episode, then an episode that has not reached surgery.
  */
-async function lockForWrite(t: Transaction, viewer: Viewer, referralId: number, version: number): Promise<LoadedReferral> {
+export async function lockForWrite(t: Transaction, viewer: Viewer, referralId: number, version: number): Promise<LoadedReferral> {
   const r = await loadReferral(viewer, referralId, t, true)
   if (r.version !== version) throw staleVersion('This referral')
   if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
@@ -33,7 +37,7 @@ async function lockForWrite(t: Transaction, viewer: Viewer, referralId: number, 
   return r
 }
 
-async function bumpVersion(t: Transaction, r: Referral): Promise<number> {
+export async function bumpVersion(t: Transaction, r: Referral): Promise<number> {
   const [count] = await Referral.update({ version: r.version + 1 }, { where: { id: r.id, version: r.version }, transaction: t })
   if (count !== 1) throw staleVersion('This referral')
   return r.version + 1
@@ -46,10 +50,17 @@ export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referr
     if (input.surgeryDate < r.createdAt.toISOString().slice(0, 10)) {
       throw new RuleRefused('The surgery date is before the referral', 'surgery_before_referral', { surgeryDate: 'is before the referral date' })
     }
+    // Red-cell unit counts are the transfusion record's, never typed here.
+    const counts = await redCellUnitsByPhase(referralId, t)
     const values = {
-      surgeryDate: input.surgeryDate, bloodLossMl: input.bloodLossMl, unitsTransfusedIntraOp: input.unitsTransfusedIntraOp,
-      unitsTransfusedPostOp: input.unitsTransfusedPostOp, unitsCrossmatched: input.unitsCrossmatched, lowestHbGL: input.lowestHbGL,
+      surgeryDate: input.surgeryDate, bloodLossMl: input.bloodLossMl, unitsTransfusedIntraOp: counts.duringSurgery,
+      unitsTransfusedPostOp: counts.afterSurgery, unitsCrossmatched: input.unitsCrossmatched, lowestHbGL: input.lowestHbGL,
       dischargeHbGL: input.dischargeHbGL ?? null, lengthOfStayDays: input.lengthOfStayDays, complications: [...input.complications],
+      tranexamicAcidGiven: input.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: input.tranexamicAcidGiven ? input.tranexamicAcidDoseMg ?? null : null,
+      tranexamicAcidTiming: input.tranexamicAcidGiven ? input.tranexamicAcidTiming ?? null : null,
+      cellSalvageUsed: input.cellSalvageUsed ?? null, cellSalvageReturnedMl: input.cellSalvageUsed ? input.cellSalvageReturnedMl ?? null : null,
+      transfusionInformationGiven: input.transfusionInformationGiven ?? null, transfusionConsent: input.transfusionConsent ?? null,
+      postOperativeIronGiven: input.postOperativeIronGiven ?? null,
     }
     const existing = await Outcome.findOne({ where: { referralId }, transaction: t })
     let before: OutcomeView | null = null

@@ -1,5 +1,6 @@
-import { Patient, Procedure, Referral, Result, StageTransition, User } from '../models/index'
+import { Patient, Procedure, Referral, Result, StageTransition, SurgeryDateChange, User } from '../models/index'
 import { STAGE_LABELS, allowedMoves, daysBetween, isReadOnly, nextAction, referralFlags } from '../../shared/pathway'
+import { DATE_CHANGE_REASON_LABELS } from '../../shared/schemas/referrals'
 import { recordAudit } from './audit'
 import { toPatientView } from './patients'
 import { toProcedureView } from './procedures'
@@ -49,10 +50,11 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
   })) as Loaded | null
   if (!r) throw new NotFound('Referral')
   assertMaySeeReferral(viewer, r.surgeonId)
-  const [patient, resultRows, transitions] = await Promise.all([
+  const [patient, resultRows, transitions, dateChanges] = await Promise.all([
     toPatientView(r.patient),
     Result.findAll({ where: { referralId: id }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
     StageTransition.findAll({ where: { referralId: id }, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']] }),
+    SurgeryDateChange.findAll({ where: { referralId: id }, include: [{ model: User, as: 'changedByUser', attributes: ['id', 'name'] }], order: [['changedAt', 'ASC'], ['id', 'ASC']] }),
   ])
   if (opts.audit) await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId, opensRecord: true })
   const results = resultRows.map(toResultView)
@@ -86,6 +88,12 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     redCellAntibodies: r.redCellAntibodies ?? null,
     declinesTransfusion: Boolean(r.declinesTransfusion),
     dateChangeRequestedAt: isoOrNull(r.dateChangeRequestedAt),
+    listingDate: r.listingDate ?? null,
+    // Who moved the surgery date, when and why: the listing-to-surgery story the quality report counts.
+    dateChanges: dateChanges.map((c) => {
+      const by = (c as SurgeryDateChange & { changedByUser?: User | null }).changedByUser
+      return { fromDate: c.fromDate, toDate: c.toDate, reason: c.reason, reasonLabel: DATE_CHANGE_REASON_LABELS[c.reason], note: c.note, changedAt: c.changedAt.toISOString(), changedBy: by ? { id: by.id, name: by.name } : null }
+    }),
     allowedMoves: allowedMoves(r.stage, viewer.role),
     timeline: timelineOf(transitions as TransitionRow[], results),
     createdBy: r.createdBy,

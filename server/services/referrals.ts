@@ -1,5 +1,5 @@
 import type { Sequelize } from 'sequelize'
-import { Patient, Referral, StageTransition } from '../models/index'
+import { Patient, Referral, StageTransition, SurgeryDateChange } from '../models/index'
 import type { CreateReferralInput, UpdateReferralInput } from '../../shared/schemas/referrals'
 import { DEFAULT_ANAEMIA_CRITERIA, isReadOnly, type Priority } from '../../shared/pathway'
 import { recordAudit, changedFields } from './audit'
@@ -30,6 +30,7 @@ function auditable(r: Referral) {
     plannedSurgeryDate: r.plannedSurgeryDate,
     priority: r.priority,
     referringSource: r.referringSource,
+    listingDate: r.listingDate ?? null,
     stage: r.stage,
     version: r.version,
     redCellAntibodies: r.redCellAntibodies ?? null,
@@ -51,6 +52,7 @@ export async function createReferral(sequelize: Sequelize, viewer: Viewer, input
         plannedSurgeryDate: input.plannedSurgeryDate,
         priority: input.priority as Priority,
         referringSource: input.referringSource ?? null,
+        listingDate: input.listingDate ?? null,
         stage: 'referred',
         anaemiaCriteria: DEFAULT_ANAEMIA_CRITERIA,
         anaemic: null,
@@ -80,6 +82,14 @@ export async function updateReferral(sequelize: Sequelize, viewer: Viewer, id: n
     if (r.version !== input.version) throw staleVersion('This referral')
     if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
     const before = auditable(r)
+    const moves = input.plannedSurgeryDate !== undefined && input.plannedSurgeryDate !== r.plannedSurgeryDate
+    // Every move of the surgery date is kept with its reason: postponements for anaemia are a quality measure.
+    if (moves && !input.dateChangeReason) {
+      throw new Invalid('Say why the surgery date is changing', { dateChangeReason: 'is required when the planned surgery date changes' })
+    }
+    if (input.listingDate != null && input.listingDate > (input.plannedSurgeryDate ?? r.plannedSurgeryDate)) {
+      throw new Invalid('The listing date is after the planned surgery date', { listingDate: 'must be on or before the planned surgery date' })
+    }
     const changes = {
       ...(procedureId !== undefined ? { procedureId } : {}),
       ...(input.surgeonId !== undefined ? { surgeonId: input.surgeonId } : {}),
@@ -88,9 +98,16 @@ export async function updateReferral(sequelize: Sequelize, viewer: Viewer, id: n
       ...(input.referringSource !== undefined ? { referringSource: input.referringSource } : {}),
       ...(input.redCellAntibodies !== undefined ? { redCellAntibodies: input.redCellAntibodies } : {}),
       ...(input.declinesTransfusion !== undefined ? { declinesTransfusion: input.declinesTransfusion } : {}),
+      ...(input.listingDate !== undefined ? { listingDate: input.listingDate } : {}),
     }
     const [count] = await Referral.update({ ...changes, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
     if (count !== 1) throw staleVersion('This referral')
+    if (moves) {
+      await SurgeryDateChange.create({
+        referralId: id, fromDate: r.plannedSurgeryDate, toDate: input.plannedSurgeryDate!, reason: input.dateChangeReason!,
+        note: input.dateChangeNote ?? null, changedBy: viewer.userId, changedAt: new Date(),
+      }, { transaction: t })
+    }
     await r.reload({ transaction: t })
     await recordAudit(t, viewer, { action: 'update', entity: 'referral', entityId: id, patientId: r.patientId, ...changedFields(before, auditable(r)) })
   })

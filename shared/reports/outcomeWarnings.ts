@@ -8,7 +8,10 @@ export const MANY_UNITS_WARNING = 6
 
 export interface OutcomeWarning { field: string; message: string }
 
-export function outcomeWarnings(o: Pick<OutcomeInput, 'bloodLossMl' | 'lowestHbGL' | 'lengthOfStayDays' | 'unitsTransfusedIntraOp' | 'unitsTransfusedPostOp' | 'dischargeHbGL'>, usualLossMl: number | null): OutcomeWarning[] {
+/** Unit counts come from the transfusion record (derived), the rest from the form. */
+type WarningInput = Pick<OutcomeInput, 'bloodLossMl' | 'lowestHbGL' | 'lengthOfStayDays' | 'dischargeHbGL'> & { unitsTransfusedIntraOp: number; unitsTransfusedPostOp: number }
+
+export function outcomeWarnings(o: WarningInput, usualLossMl: number | null): OutcomeWarning[] {
   const w: OutcomeWarning[] = []
   if (usualLossMl && o.bloodLossMl > LOSS_WARNING_MULTIPLE * usualLossMl) {
     w.push({ field: 'bloodLossMl', message: `Blood loss ${o.bloodLossMl} mL is more than ${LOSS_WARNING_MULTIPLE}× this operation's usual ${usualLossMl} mL` })

@@ -3,13 +3,23 @@ import { PRIORITIES } from '../pathway/options'
 import { STAGES } from '../pathway/stages'
 import { WORKLIST_FLAGS } from '../pathway/flags'
 import { LIMITS } from '../limits'
-import { isoDateField, notBeforeToday, optionalText, versionField, withinYearsAhead } from './fields'
+import { isoDateField, notAfterToday, notBeforeToday, optionalText, versionField, withinYearsAhead } from './fields'
 
 const id = (label: string) => yup.number().typeError(`${label} must be a whole number`).integer(`${label} must be a whole number`).min(1, `${label} must be a whole number`)
 const procedureCode = yup.string().trim().uppercase().max(20, 'procedureCode must be at most 20 characters')
 const plannedSurgeryDate = isoDateField('Planned surgery date')
   .test(notBeforeToday('Planned surgery date'))
   .test(withinYearsAhead('Planned surgery date'))
+/** Why a planned surgery date moved; 'anaemia' is what the quality report counts as "postponed for anaemia". */
+export const DATE_CHANGE_REASONS = ['anaemia', 'theatre-capacity', 'patient-choice', 'other-clinical', 'other'] as const
+export type DateChangeReason = (typeof DATE_CHANGE_REASONS)[number]
+export const DATE_CHANGE_REASON_LABELS: Record<DateChangeReason, string> = {
+  anaemia: 'Postponed for anaemia', 'theatre-capacity': 'Theatre capacity', 'patient-choice': 'Patient choice',
+  'other-clinical': 'Another clinical reason', other: 'Other',
+}
+// The listing date (decision to operate) is in the past or today, and not decades back.
+const listingDate = isoDateField('Listing date').test(notAfterToday('Listing date')).nullable().transform((v: unknown) => (v === '' ? null : v))
+
 const priority = yup.string().oneOf([...PRIORITIES], `Priority must be one of ${PRIORITIES.join(', ')}`)
 
 export const createReferralSchema = yup.object({
@@ -19,6 +29,7 @@ export const createReferralSchema = yup.object({
   plannedSurgeryDate: plannedSurgeryDate.required('Planned surgery date is required'),
   priority: priority.default('routine'),
   referringSource: optionalText('Referring source', 200),
+  listingDate: listingDate.default(null),
 })
 export type CreateReferralInput = yup.InferType<typeof createReferralSchema>
 
@@ -33,9 +44,13 @@ export const updateReferralSchema = yup
     /** Red-cell antibody screen: true positive, false negative, null not known. */
     redCellAntibodies: yup.boolean().strict().nullable().typeError('redCellAntibodies must be true, false or null (not known)'),
     declinesTransfusion: yup.boolean().strict().typeError('declinesTransfusion must be true or false'),
+    listingDate,
+    // Required (by the service) whenever the planned surgery date actually moves.
+    dateChangeReason: yup.string().oneOf([...DATE_CHANGE_REASONS], `dateChangeReason must be one of ${DATE_CHANGE_REASONS.join(', ')}`),
+    dateChangeNote: optionalText('Note on the date change', 1000),
   })
   .test('something-to-change', 'Send at least one field to change besides version', (v) =>
-    Object.entries(v).some(([k, x]) => k !== 'version' && x !== undefined),
+    Object.entries(v).some(([k, x]) => !['version', 'dateChangeReason', 'dateChangeNote'].includes(k) && x !== undefined),
   )
 export type UpdateReferralInput = yup.InferType<typeof updateReferralSchema>
 

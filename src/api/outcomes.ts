@@ -1,4 +1,6 @@
-import type { Complication, FollowUpInput, OutcomeInput } from '@shared/schemas/outcomes'
+import type { Complication, FollowUpInput, OutcomeInput, TXA_TIMINGS } from '@shared/schemas/outcomes'
+
+type TxaTiming = (typeof TXA_TIMINGS)[number]
 import type { OutcomeWarning } from '@shared/reports/outcomeWarnings'
 import { api } from './client'
 
@@ -6,6 +8,9 @@ export interface FollowUpView { recheckHbGL: number | null; recheckDate: string 
 export interface OutcomeView {
   id: number; referralId: number; surgeryDate: string; bloodLossMl: number; unitsTransfusedIntraOp: number; unitsTransfusedPostOp: number
   unitsCrossmatched: number; lowestHbGL: number; dischargeHbGL: number | null; lengthOfStayDays: number; complications: Complication[]
+  tranexamicAcidGiven: boolean | null; tranexamicAcidDoseMg: number | null; tranexamicAcidTiming: TxaTiming | null
+  cellSalvageUsed: boolean | null; cellSalvageReturnedMl: number | null
+  transfusionInformationGiven: boolean | null; transfusionConsent: boolean | null; postOperativeIronGiven: boolean | null
   followUp: FollowUpView | null
 }
 export interface OutcomeRead { outcome: OutcomeView; warnings: OutcomeWarning[]; version: number }

@@ -1,6 +1,7 @@
 import type { AppointmentKind, AppointmentStatus } from '@shared/appointments'
 import type { AllowedMove, Priority, Stage, WorklistFlag } from '@shared/pathway'
 import type { IronStatus, Sex } from '@shared/clinical'
+import type { DateChangeReason } from '@shared/schemas/referrals'
 
 /**
  * Shapes the pathway API answers with (server/services/worklist.ts, referralDetail.ts,
@@ -128,6 +129,9 @@ export interface ReferralDetail {
   redCellAntibodies: boolean | null
   declinesTransfusion: boolean
   dateChangeRequestedAt: string | null
+  /** The decision to operate. */
+  listingDate: string | null
+  dateChanges: { fromDate: string; toDate: string; reason: DateChangeReason; reasonLabel: string; note: string | null; changedAt: string; changedBy: { id: number; name: string } | null }[]
   allowedMoves: AllowedMove[]
   timeline: TimelineItem[]
 }

@@ -6,8 +6,10 @@ export const AUDIT_ENTITIES = [
   'clinic-reviews', 'prescriptions', 'administrations', 'projection', 'readiness-reviews', 'appointments', 'import_batch', 'import_mapping',
   // Sign-ins and refusals (failed and locked-out sign-ins, 403s, CSRF refusals).
   'session', 'request',
+  // The transfusion record and the quality report's national-audit export.
+  'transfusion', 'transfusions', 'national-audit-export',
 ]
-export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse',
+export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse', 'void',
   'sign-in', 'sign-out', 'sign-in-failed', 'sign-in-locked-out', 'sign-in-refused', 'forbidden', 'csrf-refused', 'change-password', 'reset-password']
 
 export interface DiffLine { field: string; before: string; after: string; changed: boolean }

@@ -82,11 +82,35 @@ describe('referring a patient', () => {
 
   it('when the surgery date is moved with a stale version, then 409; with the current one, then 200 and audited', async () => {
     const r = (await c.post('/api/referrals', body()).expect(201)).body
-    const moved = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60) })
+    const moved = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60), dateChangeReason: 'theatre-capacity' })
     expect(moved.status).toBe(200)
     expect(moved.body).toMatchObject({ version: 2, daysToSurgery: 60 })
     expect((await c.patch(`/api/referrals/${r.id}`, { version: 1, priority: 'urgent' })).status).toBe(409)
     expect((await Referral.findByPk(r.id))!.priority).toBe('routine')
+  })
+
+  it('when the surgery date moves, then a reason is required and every change is kept with who, when and why', async () => {
+    const r = (await c.post('/api/referrals', body({ listingDate: addDays(todayIso(), -3) })).expect(201)).body
+    expect(r.listingDate).toBe(addDays(todayIso(), -3))
+    const first = addDays(todayIso(), 35)
+    const noReason = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60) })
+    expect(noReason.status).toBe(400)
+    expect(Object.keys(noReason.body.error.fields)).toEqual(['dateChangeReason'])
+    expect((await Referral.findByPk(r.id))!.plannedSurgeryDate).toBe(first)
+    const badReason = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60), dateChangeReason: 'weather' })
+    expect(badReason.status).toBe(400)
+    const a = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60), dateChangeReason: 'anaemia', dateChangeNote: 'Hb 98 g/L, iron first' })
+    expect(a.status, JSON.stringify(a.body)).toBe(200)
+    const b = await c.patch(`/api/referrals/${r.id}`, { version: 2, plannedSurgeryDate: addDays(todayIso(), 70), dateChangeReason: 'patient-choice' })
+    expect(b.body.dateChanges).toMatchObject([
+      { fromDate: first, toDate: addDays(todayIso(), 60), reason: 'anaemia', reasonLabel: 'Postponed for anaemia', note: 'Hb 98 g/L, iron first', changedBy: { id: nurse.id } },
+      { fromDate: addDays(todayIso(), 60), toDate: addDays(todayIso(), 70), reason: 'patient-choice' },
+    ])
+    // Changing something else needs no reason; a listing date in the future is refused.
+    expect((await c.patch(`/api/referrals/${r.id}`, { version: 3, priority: 'urgent' })).status).toBe(200)
+    const future = await c.patch(`/api/referrals/${r.id}`, { version: 4, listingDate: addDays(todayIso(), 1) })
+    expect(future.status).toBe(400)
+    expect(Object.keys(future.body.error.fields)).toEqual(['listingDate'])
   })
 
   it("when a surgeon opens another surgeon's episode, then 403", async () => {

@@ -83,6 +83,11 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/referrals/:id/outcome', allow: [...CLINICAL] },
   { method: 'POST', path: '/api/referrals/:id/outcome', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'POST', path: '/api/referrals/:id/follow-up', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'GET', path: '/api/referrals/:id/transfusions', allow: [...STAFF] },
+  { method: 'POST', path: '/api/referrals/:id/transfusions', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'PUT', path: '/api/referrals/:id/transfusions/:transfusionId', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'POST', path: '/api/referrals/:id/transfusions/:transfusionId/void', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'GET', path: '/api/reports/quality', allow: ['admin', 'doctor', 'surgeon'] },
   { method: 'GET', path: '/api/reports/:name', allow: ['admin', 'doctor', 'surgeon'] },
   { method: 'GET', path: '/api/audit', allow: ['admin'] },
   // Documents, letters and the FHIR export: every staff role reads and downloads (surgeons their own

@@ -54,7 +54,6 @@ describe('a nurse records what happened after surgery and closes the episode', (
     await nursePage.fill('#oc-date', addDays(todayIso(), -2))
     await retype(nursePage, '#oc-loss', '1600')
     await retype(nursePage, '#oc-xm', '2')
-    await retype(nursePage, '#oc-post', '1')
     await retype(nursePage, '#oc-low', '5.5') // 5.5 g/dL = 55 g/L (× 10, clinical reference §7)
     await retype(nursePage, '#oc-dis', '8.4')
     await retype(nursePage, '#oc-stay', '4')

@@ -1,0 +1,30 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
+import type { DateChangeReason } from '../../shared/schemas/referrals'
+
+/** Every move of the planned surgery date, with who, when and why (never edited). */
+export class SurgeryDateChange extends Model<InferAttributes<SurgeryDateChange>, InferCreationAttributes<SurgeryDateChange>> {
+  declare id: CreationOptional<number>
+  declare referralId: number
+  declare fromDate: string
+  declare toDate: string
+  declare reason: DateChangeReason
+  declare note: string | null
+  declare changedBy: number | null
+  declare changedAt: Date
+}
+
+export function initSurgeryDateChange(sequelize: Sequelize): void {
+  SurgeryDateChange.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      referralId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      fromDate: { type: DataTypes.DATEONLY, allowNull: false },
+      toDate: { type: DataTypes.DATEONLY, allowNull: false },
+      reason: { type: DataTypes.STRING(20), allowNull: false },
+      note: { type: DataTypes.STRING(1000), allowNull: true },
+      changedBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      changedAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    { sequelize, tableName: 'surgery_date_changes', timestamps: false },
+  )
+}
