@@ -36,8 +36,12 @@ export default defineConfig({
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',
           fileParallelism: false,
-          testTimeout: 60000,
+          // A browser test is one whole story with its own data (several pages, sign-ins), and the
+          // machine may be shared: generous limits, so only a real fault fails it.
+          testTimeout: 180000,
           hookTimeout: 120000,
+          // Vitest's default 1 s is shorter than one worklist round trip on a busy machine.
+          expect: { poll: { timeout: 10000, interval: 100 } },
         },
       },
     ],

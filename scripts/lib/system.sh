@@ -23,8 +23,20 @@ ensure_mariadb() {
   # Debian's package may start its own system server on 3306; Ferrolane never uses it.
 }
 
+# What the browser tests need besides Chromium itself: fonts, so text is laid out (and axe measures
+# it) the same on every machine. The app ships Open Sans; these are the fallbacks Chromium reaches
+# for (DejaVu, and Liberation, metric-compatible with Arial, Times and Courier).
+BROWSER_FONT_PACKAGES=(fonts-dejavu-core fonts-liberation)
+
 ensure_chromium() {
-  if [ ! -x /usr/bin/chromium ]; then apt_install chromium fonts-dejavu-core; fi
+  local missing=()
+  [ -x /usr/bin/chromium ] || missing+=(chromium)
+  # Each font package on its own: a machine may have Chromium but not the fonts, or some of them.
+  local pkg
+  for pkg in "${BROWSER_FONT_PACKAGES[@]}"; do
+    dpkg-query -W -f='${Status}' "$pkg" 2>/dev/null | grep -q 'install ok installed' || missing+=("$pkg")
+  done
+  if [ "${#missing[@]}" -gt 0 ]; then apt_install "${missing[@]}"; fi
 }
 
 ensure_node_modules() {

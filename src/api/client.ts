@@ -1,4 +1,5 @@
 import type { ApiErrorBody } from '@shared/types'
+import { parseRetryAfter } from './retryAfter'
 
 /** A failed API call, carrying the server's error code and per-field messages. */
 export class ApiError extends Error {
@@ -10,6 +11,8 @@ export class ApiError extends Error {
     readonly fields: Record<string, string> = {},
     /** Facts to act on, e.g. the free slots offered with a full infusion session. */
     readonly details: Record<string, unknown> = {},
+    /** The server's Retry-After, in ms, when it gave one (503 during a database outage). */
+    readonly retryAfterMs?: number,
   ) {
     super(message)
   }
@@ -45,13 +48,14 @@ async function ensureCsrfToken(): Promise<string> {
 async function toApiError(response: Response): Promise<ApiError> {
   const body = (await response.json().catch(() => null)) as Partial<ApiErrorBody> | null
   const error = body?.error
+  const retryAfterMs = parseRetryAfter(response.headers.get('Retry-After'))
   if (error && typeof error.code === 'string') {
-    return new ApiError(response.status, error.code, error.message ?? 'Request failed', error.fields ?? {}, error.details ?? {})
+    return new ApiError(response.status, error.code, error.message ?? 'Request failed', error.fields ?? {}, error.details ?? {}, retryAfterMs)
   }
   // A proxy or a crashed server answers without our error shape.
   const message =
     response.status >= 500 ? 'The server is not answering properly. Try again in a moment.' : 'Request failed'
-  return new ApiError(response.status, `http_${response.status}`, message)
+  return new ApiError(response.status, `http_${response.status}`, message, {}, {}, retryAfterMs)
 }
 
 async function send<T>(method: Method, path: string, body?: unknown, extra: Record<string, string> = {}): Promise<T> {

@@ -1,16 +1,22 @@
-import { QueryClient } from '@tanstack/vue-query'
-import { isApiError } from './client'
+import { MutationCache, QueryClient } from '@tanstack/vue-query'
+import { useOutageStore } from '@/stores/outage'
+import { isDatabaseUnavailable, retryDelayMs, shouldRetryRead } from './retryPolicy'
 
-/** Client errors (4xx) will not change on a retry; network and server errors might. */
-function shouldRetry(failureCount: number, error: unknown): boolean {
-  if (isApiError(error) && error.status >= 400 && error.status < 500) return false
-  return failureCount < 2
-}
-
-/** One client for the app; the router guard uses it too, to load the session once. */
+/**
+ * One client for the app; the router guard uses it too, to load the session once.
+ * Reads retry by themselves through an outage (retryPolicy.ts). Writes never retry on their own:
+ * a change is made once, by the person; when the database was down, every screen shows that the
+ * last change was not saved (AppUnsavedAlert), and the next change that goes through clears it.
+ */
 export const queryClient = new QueryClient({
+  mutationCache: new MutationCache({
+    onError: (error) => {
+      if (isDatabaseUnavailable(error)) useOutageStore().writeFailed()
+    },
+    onSuccess: () => useOutageStore().clear(),
+  }),
   defaultOptions: {
-    queries: { staleTime: 10_000, retry: shouldRetry, refetchOnWindowFocus: true },
+    queries: { staleTime: 10_000, retry: shouldRetryRead, retryDelay: retryDelayMs, refetchOnWindowFocus: true },
     mutations: { retry: false },
   },
 })

@@ -1,23 +1,21 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import AxeBuilder from '@axe-core/playwright'
-import { launchBrowser, serveBuiltApp, type ServedApp } from '../helpers/browser'
+import { launchBrowser, newTestPage, serveBuiltApp, type ServedApp } from '../helpers/browser'
+import { seriousViolations } from '../helpers/pathwayBrowser'
 import { cleanDatabase } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { Maildev } from '../helpers/mail'
-import { at, bookingFixture, makeSession, summerDay, type BookingFixture } from '../helpers/appointmentFactories'
+import { at, bookingFixture, makeSession, summerDay } from '../helpers/appointmentFactories'
 import { drainOutbox } from '../../server/services/outboxWorker'
 
 let served: ServedApp
 let browser: Browser
-let f: BookingFixture
 const mail = Maildev.fromEnv()
 
 beforeAll(async () => {
   served = await serveBuiltApp()
   await cleanDatabase(served.sequelize)
   await mail.clear()
-  f = await bookingFixture({ givenName: 'Tamsin' })
   browser = await launchBrowser()
 })
 afterAll(async () => {
@@ -27,6 +25,7 @@ afterAll(async () => {
 
 describe('the patient answers from their e-mail', () => {
   it('when a nurse books an infusion and the patient opens the link from the e-mail and confirms, then the page and the staff view show it confirmed', async () => {
+    const f = await bookingFixture({ givenName: 'Tamsin' })
     await makeSession(summerDay(), '09:00', '12:30', 6)
     const nurse = await new Client(served.app).mustSignIn(f.nurse.email, f.nurse.password)
     const booked = await nurse.post('/api/appointments', { referralId: f.referralId, kind: 'iron-infusion', startsAt: at(summerDay(), '09:30'), durationMin: 60, location: 'Day Treatment Unit, Level 2' })
@@ -36,7 +35,7 @@ describe('the patient answers from their e-mail', () => {
     // The link points at PUBLIC_URL; the test server listens on its own port, so keep the path.
     const link = /https?:\/\/[^\s/]+(\/reply\/[A-Za-z0-9_-]{43})/.exec(received!.text)![1]!
 
-    const page = await (await browser.newContext()).newPage()
+    const page = await newTestPage(browser)
     await page.goto(served.baseUrl + link)
     await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toBe('Your appointment')
     const details = page.getByTestId('reply-details')
@@ -45,8 +44,7 @@ describe('the patient answers from their e-mail', () => {
     expect(await page.getByText('Hello Tamsin').count()).toBe(1)
     // No app shell for the patient: no navigation, no sign-out.
     expect(await page.getByRole('navigation').count()).toBe(0)
-    const axe = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21aa', 'wcag22aa']).analyze()
-    expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => v.id)).toEqual([])
+    expect(await seriousViolations(page)).toEqual([])
 
     await page.getByRole('button', { name: 'Confirm' }).click()
     await page.getByTestId('reply-confirmed').waitFor()
@@ -55,7 +53,7 @@ describe('the patient answers from their e-mail', () => {
   })
 
   it('when the link is wrong, then the page says so and tells the patient to call the clinic', async () => {
-    const page = await (await browser.newContext()).newPage()
+    const page = await newTestPage(browser)
     await page.goto(`${served.baseUrl}/reply/${'q'.repeat(43)}`)
     const problem = page.getByTestId('reply-problem')
     await problem.waitFor()

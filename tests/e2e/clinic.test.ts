@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { launchBrowser, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
+import { launchBrowser, newTestPage, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
 import { cleanDatabase } from '../helpers/app'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { loadStarterFormulary, makeEpisode } from '../helpers/clinicFactories'
@@ -14,10 +14,6 @@ let served: ServedApp
 let browser: Browser
 let doctor: StaffFixture
 let surgeon: StaffFixture
-let referralId = 0
-let familyName = ''
-let doctorPage: Page
-let surgeonPage: Page
 
 beforeAll(async () => {
   served = await serveBuiltApp()
@@ -25,28 +21,36 @@ beforeAll(async () => {
   await loadStarterFormulary()
   doctor = await makeStaff('doctor')
   surgeon = await makeStaff('surgeon', { name: 'Mr Osric Tallowmere' })
-  // Iron deficient, 45 kg, Hb 90 g/L, a routine operation in three weeks.
-  const { patient, referral } = await makeEpisode({
-    surgeonId: surgeon.id, weightKg: 45, heightCm: 158, hb: [{ hbGL: 90 }],
-    referral: { plannedSurgeryDate: addDays(todayIso(), 21), stage: 'clinic' },
-  })
-  referralId = referral.id
-  familyName = patient.familyName
   browser = await launchBrowser()
-  doctorPage = await (await browser.newContext({ locale: 'en-GB' })).newPage()
-  surgeonPage = await (await browser.newContext({ locale: 'en-GB' })).newPage()
 })
 afterAll(async () => {
   await browser?.close()
   await served?.stop()
 })
 
+/** Each test's own episode: iron deficient, 45 kg, Hb 90 g/L, a routine operation in three weeks. */
+async function ironDeficientEpisode() {
+  return makeEpisode({
+    surgeonId: surgeon.id, weightKg: 45, heightCm: 158, hb: [{ hbGL: 90 }],
+    referral: { plannedSurgeryDate: addDays(todayIso(), 21), stage: 'clinic' },
+  })
+}
+
+async function signedIn(who: StaffFixture, home: string): Promise<Page> {
+  const page = await newTestPage(browser)
+  await signInThroughPage(page, served.baseUrl, who.email, who.password)
+  await page.waitForURL(`${served.baseUrl}${home}`)
+  return page
+}
+
 const text = async (page: Page, testId: string) => (await page.getByTestId(testId).first().textContent()) ?? ''
 
 describe('a doctor prescribes IV iron from the live dose plan', () => {
-  it('when the doctor picks ferric derisomaltose, then the plan shows the Ganzoni deficit and the capped doses', async () => {
-    await signInThroughPage(doctorPage, served.baseUrl, doctor.email, doctor.password)
-    await doctorPage.waitForURL(`${served.baseUrl}/clinic`)
+  // One story in one test: each step works on the form the step before left filled in.
+  it('when the doctor picks ferric derisomaltose, answers the checklist and keeps the capped doses, then the plan shows Ganzoni, the server refuses an over-cap dose, stores the kept plan, and the tab passes axe', async () => {
+    const { referral } = await ironDeficientEpisode()
+    const referralId = referral.id
+    const doctorPage = await signedIn(doctor, '/clinic')
     await doctorPage.goto(`${served.baseUrl}/referrals/${referralId}?tab=clinic`)
     await pickOption(doctorPage, '#rx-product', 'Ferric derisomaltose (IV)')
     // Ganzoni (clinical reference §6): 45 × (150 − 90) × 0.24 + 500 = 1148 mg; rounded to 100 mg vials, 1100 mg.
@@ -58,32 +62,28 @@ describe('a doctor prescribes IV iron from the live dose plan', () => {
     expect(await doctorPage.inputValue('#dose-mg-2')).toBe('200')
     expect(await text(doctorPage, 'dose-schedule')).toMatch(/mg per kg limit/)
     expect(await text(doctorPage, 'decision-support')).toMatch(/prescribing information/)
-  })
 
-  it('when the checklist is not answered, then nothing is saved and each question asks for an answer', async () => {
+    // The checklist not answered: nothing is saved and each question asks for an answer.
     await doctorPage.getByRole('button', { name: 'Save prescription' }).click()
     await expect.poll(() => text(doctorPage, 'caution-checklist')).toMatch(/Answer this question/)
-    expect(await Prescription.count()).toBe(0)
-  })
+    expect(await Prescription.count({ where: { referralId } })).toBe(0)
 
-  it('when a dose is raised over 20 mg/kg, then the server refuses inline naming the cap', async () => {
+    // A dose raised over 20 mg/kg: the server refuses inline, naming the cap.
     await answerCautionsNo(doctorPage)
     await retype(doctorPage, '#dose-mg-1', '1000')
     await doctorPage.getByRole('button', { name: 'Save prescription' }).click()
     await expect.poll(() => text(doctorPage, 'prescription-refused')).toMatch(/20 mg\/kg/)
-    expect(await Prescription.count()).toBe(0)
-  })
+    expect(await Prescription.count({ where: { referralId } })).toBe(0)
 
-  it('when the planned doses are kept and saved, then the prescription is stored as shown', async () => {
+    // The planned doses kept and saved: the prescription is stored as shown.
     await retype(doctorPage, '#dose-mg-1', '900')
     await doctorPage.getByRole('button', { name: 'Save prescription' }).click()
     await expect.poll(() => text(doctorPage, 'prescription-saved')).toMatch(/1100 mg/)
     const stored = await Prescription.findOne({ where: { referralId } })
     expect(stored?.plan.doses.map((d) => d.doseMg)).toEqual([900, 200])
-  })
 
-  it('then the clinic tab passes axe', async () => {
     expect(await seriousViolations(doctorPage)).toEqual([])
+    await doctorPage.context().close()
   })
 })
 
@@ -91,21 +91,21 @@ describe('the surgeon sees the patient on the readiness board and acknowledges t
   // Hb 90 g/L on the day, routine operation, below 100 g/L: the verdict prompts deferral.
   const verdict = VERDICT_LABELS['consider-deferral']
 
-  it('when the surgeon signs in, then the board lists the patient with the verdict', async () => {
-    await signInThroughPage(surgeonPage, served.baseUrl, surgeon.email, surgeon.password)
-    await surgeonPage.waitForURL(`${served.baseUrl}/theatre`)
+  it('when the surgeon signs in, opens the patient from the board and acknowledges the plan, then the board, the readiness panel and the stored acknowledgement show the verdict, and both pages pass axe', async () => {
+    const { patient, referral } = await ironDeficientEpisode()
+    const referralId = referral.id
+    const familyName = patient.familyName
+    const surgeonPage = await signedIn(surgeon, '/theatre')
+
+    // The board lists the patient with the verdict.
     expect(await surgeonPage.locator('h1').first().textContent()).toContain('Theatre readiness')
     const row = surgeonPage.locator('tbody tr', { hasText: familyName })
     await expect.poll(() => row.count()).toBe(1)
     expect(await row.textContent()).toContain(verdict)
     expect(await row.textContent()).toContain('90')
-  })
-
-  it('then the readiness board passes axe', async () => {
     expect(await seriousViolations(surgeonPage)).toEqual([])
-  })
 
-  it('when the surgeon opens the episode, then the readiness panel shows the figures, methods and charts', async () => {
+    // The episode's readiness panel shows the figures, methods and charts.
     await surgeonPage.getByTestId('readiness-patient').filter({ hasText: familyName }).click()
     await surgeonPage.waitForURL(new RegExp(`/referrals/${referralId}\\?tab=readiness`))
     await expect.poll(() => text(surgeonPage, 'readiness-verdict')).toContain(verdict)
@@ -114,17 +114,14 @@ describe('the surgeon sees the patient on the readiness board and acknowledges t
     expect(await text(surgeonPage, 'readiness-assumptions')).toMatch(/Decision support/)
     expect(await surgeonPage.getByTestId('projection-chart').count()).toBe(1)
     expect(await surgeonPage.getByTestId('oxygen-chart').count()).toBe(1)
-  })
 
-  it('when the surgeon acknowledges the plan, then the stored acknowledgement shows with what they saw', async () => {
+    // The acknowledgement is stored with what the surgeon saw.
     await surgeonPage.getByTestId('acknowledge-plan').click()
     await expect.poll(() => text(surgeonPage, 'last-readiness-review')).toMatch(/Plan acknowledged by Mr Osric Tallowmere/)
     expect(await text(surgeonPage, 'last-readiness-review')).toContain(verdict)
     const stored = await ReadinessReview.findAll({ where: { referralId } })
     expect(stored.map((r) => r.action)).toEqual(['acknowledged'])
-  })
-
-  it('then the episode page with the readiness panel open passes axe', async () => {
     expect(await seriousViolations(surgeonPage)).toEqual([])
+    await surgeonPage.context().close()
   })
 })

@@ -1,8 +1,9 @@
 import { readFile } from 'node:fs/promises'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { launchBrowser, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
+import { launchBrowser, newTestPage, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
 import { cleanDatabase } from '../helpers/app'
+import { Client } from '../helpers/agent'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { makeEpisode } from '../helpers/clinicFactories'
 import { seriousViolations } from '../helpers/pathwayBrowser'
@@ -15,36 +16,52 @@ let served: ServedApp
 let browser: Browser
 let nurse: StaffFixture
 let admin: StaffFixture
-let referralId = 0
-let mrn = ''
-let nursePage: Page
-let adminPage: Page
+let surgeon: StaffFixture
 
 beforeAll(async () => {
   served = await serveBuiltApp()
   await cleanDatabase(served.sequelize)
   nurse = await makeStaff('nurse')
   admin = await makeStaff('admin')
-  const surgeon = await makeStaff('surgeon')
-  // The operation's usual loss is 500 mL, so 1600 mL is over the 3× caution line (shared/reports/outcomeWarnings).
-  const { patient, referral } = await makeEpisode({ surgeonId: surgeon.id, expectedBloodLossMl: 500, referral: { stage: 'operated', plannedSurgeryDate: addDays(todayIso(), -3) } })
-  referralId = referral.id
-  mrn = patient.mrn
+  surgeon = await makeStaff('surgeon')
   browser = await launchBrowser()
-  nursePage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 } })).newPage()
-  adminPage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 }, acceptDownloads: true })).newPage()
 })
 afterAll(async () => {
   await browser?.close()
   await served?.stop()
 })
 
+/**
+ * Each test's own operated episode. The operation's usual loss is 500 mL, so 1600 mL is over the
+ * 3× caution line (shared/reports/outcomeWarnings).
+ */
+async function operatedEpisode() {
+  return makeEpisode({ surgeonId: surgeon.id, expectedBloodLossMl: 500, referral: { stage: 'operated', plannedSurgeryDate: addDays(todayIso(), -3) } })
+}
+
+/** The post-operative record through the API, as the nurse's form sends it; returns the new version. */
+async function recordOutcomeThroughApi(c: Client, referralId: number, version = 1): Promise<number> {
+  const res = await c.post(`/api/referrals/${referralId}/outcome`, {
+    surgeryDate: todayIso(), bloodLossMl: 1600, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 1, unitsCrossmatched: 2,
+    lowestHbGL: 55, dischargeHbGL: 84, lengthOfStayDays: 4, complications: ['none'], version,
+  })
+  expect(res.status, JSON.stringify(res.body)).toBe(201)
+  return Number(res.body.version)
+}
+
+async function signedIn(who: StaffFixture, home: string, options: Parameters<typeof newTestPage>[1] = {}): Promise<Page> {
+  const page = await newTestPage(browser, { viewport: { width: 1280, height: 900 }, ...options })
+  await signInThroughPage(page, served.baseUrl, who.email, who.password)
+  await page.waitForURL(`${served.baseUrl}${home}`)
+  return page
+}
+
 const text = async (page: Page, testId: string) => (await page.getByTestId(testId).first().textContent()) ?? ''
 
 describe('a nurse records what happened after surgery and closes the episode', () => {
   it('when the lowest Hb is typed in g/dL below the caution line, then the caution shows before saving and again from the server', async () => {
-    await signInThroughPage(nursePage, served.baseUrl, nurse.email, nurse.password)
-    await nursePage.waitForURL(`${served.baseUrl}/screening`)
+    const referralId = (await operatedEpisode()).referral.id
+    const nursePage = await signedIn(nurse, '/screening')
     await nursePage.selectOption('#hb-unit', 'g/dL')
     await nursePage.goto(`${served.baseUrl}/referrals/${referralId}?tab=after-surgery`)
     expect(await text(nursePage, 'close-needs')).toMatch(/post-operative record, then the follow-up/)
@@ -64,7 +81,7 @@ describe('a nurse records what happened after surgery and closes the episode', (
     await nursePage.screenshot({ path: '/tmp/outcomes-record-form.png', fullPage: true })
     await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
     await expect.poll(() => nursePage.locator('#oc-date').locator('xpath=..').textContent()).toMatch(/Surgery date is before the referral date/)
-    expect(await Outcome.count()).toBe(0)
+    expect(await Outcome.count({ where: { referralId } })).toBe(0)
     await nursePage.fill('#oc-date', todayIso())
     await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
     await nursePage.getByTestId('outcome-summary').waitFor()
@@ -74,9 +91,17 @@ describe('a nurse records what happened after surgery and closes the episode', (
     const saved = (await Outcome.findOne({ where: { referralId } }))!
     expect(saved.lowestHbGL).toBe(55)
     expect(saved.dischargeHbGL).toBe(84)
+    await nursePage.context().close()
   })
 
   it('when the follow-up is recorded, then closing is offered, and the closed episode is read-only', async () => {
+    // This test's own episode with its post-operative record already in (1600 mL, lowest Hb 55 g/L).
+    const referralId = (await operatedEpisode()).referral.id
+    await recordOutcomeThroughApi(await new Client(served.app).mustSignIn(nurse.email, nurse.password), referralId)
+    const nursePage = await signedIn(nurse, '/screening')
+    await nursePage.selectOption('#hb-unit', 'g/dL')
+    await nursePage.goto(`${served.baseUrl}/referrals/${referralId}?tab=after-surgery`)
+    await nursePage.getByTestId('outcome-summary').waitFor()
     expect(await text(nursePage, 'close-needs')).toMatch(/the follow-up after discharge/)
     await retype(nursePage, '#fu-hb', '10.8')
     await nursePage.click('label[for="fu-iron-yes"]')
@@ -93,13 +118,23 @@ describe('a nurse records what happened after surgery and closes the episode', (
     await nursePage.goto(`${served.baseUrl}/referrals/${referralId}?tab=after-surgery`)
     await nursePage.getByTestId('follow-up-summary').waitFor()
     expect(await nursePage.locator('#oc-loss, #fu-hb').count()).toBe(0)
+    await nursePage.context().close()
   })
 })
 
 describe('an admin finds the patient in the audit trail', () => {
   it('when searching by MRN and opening the closing entry, then it shows the stage before and after', async () => {
-    await signInThroughPage(adminPage, served.baseUrl, admin.email, admin.password)
-    await adminPage.waitForURL(`${served.baseUrl}/admin`)
+    // This test's own closed episode, closed through the API as the pages would do it.
+    const { patient, referral } = await operatedEpisode()
+    const mrn = patient.mrn
+    const asNurse = await new Client(served.app).mustSignIn(nurse.email, nurse.password)
+    const afterOutcome = await recordOutcomeThroughApi(asNurse, referral.id)
+    const fu = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, { recheckHbGL: 108, recheckDate: todayIso(), ironAfterSurgery: true, version: afterOutcome })
+    expect(fu.status, JSON.stringify(fu.body)).toBe(201)
+    const closed = await asNurse.post(`/api/referrals/${referral.id}/transitions`, { to: 'closed', version: fu.body.version })
+    expect(closed.status, JSON.stringify(closed.body)).toBe(200)
+
+    const adminPage = await signedIn(admin, '/admin', { acceptDownloads: true })
     await adminPage.goto(`${served.baseUrl}/admin/audit`)
     await adminPage.fill('#au-patient', mrn)
     await adminPage.click(`[data-patient="${mrn}"]`)
@@ -120,23 +155,24 @@ describe('an admin finds the patient in the audit trail', () => {
     const rows = parseCsv(await readFile((await download.path())!, 'utf8'))
     expect(rows.length).toBe(total)
     expect(rows.some((r) => r.action === 'transition' && r.entity === 'referral')).toBe(true)
+    await adminPage.context().close()
   })
 })
 
 describe('the top bar fits for every role', () => {
-  const others: Page[] = []
-  beforeAll(async () => {
-    for (const role of ['doctor', 'surgeon'] as const) {
-      const s = await makeStaff(role)
-      const p = await (await browser.newContext({ locale: 'en-GB' })).newPage()
-      await signInThroughPage(p, served.baseUrl, s.email, s.password)
-      await p.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
-      others.push(p)
-    }
-  })
   for (const width of [1280, 1024]) {
     it(`when the window is ${width} px wide, then every role's bar stays on one line and the set-up pages sit in one menu`, async () => {
-      for (const [who, page] of [['admin', adminPage], ['nurse', nursePage], ['doctor', others[0]!], ['surgeon', others[1]!]] as const) {
+      // Each width signs in its own four sessions: nothing carries over from another test.
+      const pages = {} as Record<'admin' | 'nurse' | 'doctor' | 'surgeon', Page>
+      for (const role of ['admin', 'nurse', 'doctor', 'surgeon'] as const) {
+        const s = await makeStaff(role)
+        const p = await newTestPage(browser)
+        await signInThroughPage(p, served.baseUrl, s.email, s.password)
+        await p.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
+        pages[role] = p
+      }
+      const { admin: adminPage, nurse: nursePage } = pages
+      for (const [who, page] of Object.entries(pages)) {
         await page.setViewportSize({ width, height: 800 })
         await page.goto(`${served.baseUrl}/worklist`)
         const bar = page.locator('header.app-shell__bar')
@@ -156,6 +192,7 @@ describe('the top bar fits for every role', () => {
       expect(await seriousViolations(adminPage)).toEqual([])
       await adminPage.screenshot({ path: `/tmp/nav-admin-menu-${width}.png`, clip: { x: 0, y: 0, width, height: 400 } })
       await adminPage.keyboard.press('Escape')
+      for (const p of Object.values(pages)) await p.context().close()
     })
   }
 })

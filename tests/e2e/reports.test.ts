@@ -1,7 +1,7 @@
 import { readFile } from 'node:fs/promises'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { launchBrowser, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
+import { launchBrowser, newTestPage, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
 import { cleanDatabase } from '../helpers/app'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { seriousViolations } from '../helpers/pathwayBrowser'
@@ -10,7 +10,6 @@ import { makeReportFixture, parseCsv } from '../api/reports-fixture'
 let served: ServedApp
 let browser: Browser
 let doctor: StaffFixture
-let page: Page
 
 beforeAll(async () => {
   served = await serveBuiltApp()
@@ -18,17 +17,31 @@ beforeAll(async () => {
   await makeReportFixture(served.sequelize)
   doctor = await makeStaff('doctor')
   browser = await launchBrowser()
-  page = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 }, acceptDownloads: true })).newPage()
 })
 afterAll(async () => {
   await browser?.close()
   await served?.stop()
 })
 
+/**
+ * Each test signs in its own page. The report fixture is only read, never changed, so sharing it
+ * leaves nothing for one test to depend on from another.
+ */
+async function doctorPage(): Promise<Page> {
+  const page = await newTestPage(browser, { viewport: { width: 1280, height: 900 }, acceptDownloads: true })
+  await signInThroughPage(page, served.baseUrl, doctor.email, doctor.password)
+  await page.waitForURL(`${served.baseUrl}/clinic`)
+  return page
+}
+
+/** A report for 2025 opened from its address, as a shared link would open it. */
+async function report2025(page: Page, name: string): Promise<void> {
+  await page.goto(`${served.baseUrl}/reports?report=${name}&from=2025-01-01&to=2025-12-31`)
+}
+
 describe('a doctor reads the service funnel', () => {
   it('when the 2025 period is chosen, then the chart and the table show the hand-counted funnel with its definitions', async () => {
-    await signInThroughPage(page, served.baseUrl, doctor.email, doctor.password)
-    await page.waitForURL(`${served.baseUrl}/clinic`)
+    const page = await doctorPage()
     await page.click('[data-nav="reports"]')
     await page.waitForURL(/\/reports/)
     await page.fill('#rp-from', '2025-01-01')
@@ -50,9 +63,13 @@ describe('a doctor reads the service funnel', () => {
     const rows = parseCsv(await readFile((await download.path())!, 'utf8'))
     // The CSV keeps the API's keys (RFC 4180 fields); its rows are the rows on screen, in order.
     expect(rows.map((r) => [r.label, r.count, r.percent])).toEqual((await cells()).map((c) => [c[0], c[1], c[2]]))
+    await page.context().close()
   })
 
   it('when the Hb and waiting-time reports are opened, then each is drawn and its table is the text alternative', async () => {
+    const page = await doctorPage()
+    await report2025(page, 'funnel')
+    await page.locator('[data-report-table="funnel"] canvas').waitFor()
     for (const [tab, table] of [['haemoglobin', 'distribution'], ['waiting-times', 'waitingTimes']] as const) {
       await page.click(`[data-tab="${tab}"]`)
       const section = page.locator(`[data-report-table="${table}"]`)
@@ -62,9 +79,13 @@ describe('a doctor reads the service funnel', () => {
       expect(await seriousViolations(page)).toEqual([])
       await page.screenshot({ path: `/tmp/reports-${tab}.png`, fullPage: true })
     }
+    await page.context().close()
   })
 
   it('when the blood-ordering report is opened, then it shows the indices and the observed vs catalogue loss', async () => {
+    const page = await doctorPage()
+    await report2025(page, 'funnel')
+    await page.locator('[data-report-table="funnel"] canvas').waitFor()
     await page.click('[data-tab="blood-ordering"]')
     const table = page.locator('[data-report-table="bloodOrdering"]')
     await table.locator('tbody tr').first().waitFor()
@@ -80,15 +101,17 @@ describe('a doctor reads the service funnel', () => {
     expect(await seriousViolations(page)).toEqual([])
     await page.screenshot({ path: '/tmp/reports-blood-ordering.png', fullPage: true })
     expect(await page.getByTestId('catalogue-link').count()).toBe(0)
+    await page.context().close()
   })
 
   it('when an admin opens the same audit, then it links to the operations catalogue to recalibrate', async () => {
     const admin = await makeStaff('admin')
-    const adminPage = await (await browser.newContext({ locale: 'en-GB' })).newPage()
+    const adminPage = await newTestPage(browser)
     await signInThroughPage(adminPage, served.baseUrl, admin.email, admin.password)
     await adminPage.waitForURL(`${served.baseUrl}/admin`)
     await adminPage.goto(`${served.baseUrl}/reports?report=blood-ordering&from=2025-01-01&to=2025-12-31`)
     await adminPage.getByTestId('catalogue-link').click()
     await adminPage.waitForURL(`${served.baseUrl}/admin/operations`)
+    await adminPage.context().close()
   })
 })

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import AxeBuilder from '@axe-core/playwright'
-import { launchBrowser, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
+import { launchBrowser, newTestContext, newTestPage, serveBuiltApp, signInThroughPage, type ServedApp } from '../helpers/browser'
+import { seriousViolations } from '../helpers/pathwayBrowser'
 import { cleanDatabase } from '../helpers/app'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { ROLES, type Role } from '../../shared/roles'
@@ -29,15 +29,9 @@ afterAll(async () => {
   await served?.stop()
 })
 
-/** axe-core's WCAG 2.x A/AA rules; serious and critical findings fail the test. */
-async function seriousViolations(page: import('playwright-core').Page) {
-  const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21aa', 'wcag22aa']).analyze()
-  return results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)
-}
-
 describe('signing in through the real page', () => {
   it('then the sign-in page has no serious or critical accessibility violation', async () => {
-    const context = await browser.newContext()
+    const context = await newTestContext(browser)
     const page = await context.newPage()
     await page.goto(`${served.baseUrl}/sign-in`)
     await page.waitForSelector('#email')
@@ -46,7 +40,7 @@ describe('signing in through the real page', () => {
   })
 
   it('then the sign-in page loads under 200 kB of JavaScript, gzipped, and nothing from another origin', async () => {
-    const context = await browser.newContext()
+    const context = await newTestContext(browser)
     const page = await context.newPage()
     const scripts: Promise<Buffer>[] = []
     const origins = new Set<string>()
@@ -63,7 +57,7 @@ describe('signing in through the real page', () => {
   })
 
   it('when the password is wrong, then the page says so and stays on sign-in', async () => {
-    const page = await browser.newPage()
+    const page = await newTestPage(browser)
     await signInThroughPage(page, served.baseUrl, staff.nurse.email, 'definitely-not-it')
     await expect.poll(() => page.getByTestId('sign-in-error').textContent()).toMatch(/do not match/)
     expect(new URL(page.url()).pathname).toBe('/sign-in')
@@ -72,7 +66,7 @@ describe('signing in through the real page', () => {
 
   for (const role of ROLES) {
     it(`when a ${role} signs in, then they land on their home, which passes axe`, async () => {
-      const context = await browser.newContext()
+      const context = await newTestContext(browser)
       const page = await context.newPage()
       await signInThroughPage(page, served.baseUrl, staff[role].email, staff[role].password)
       await page.waitForURL(`${served.baseUrl}${HOME[role].path}`)
@@ -83,7 +77,7 @@ describe('signing in through the real page', () => {
   }
 
   it('when a nurse opens the admin URL, then they are turned away', async () => {
-    const context = await browser.newContext()
+    const context = await newTestContext(browser)
     const page = await context.newPage()
     await signInThroughPage(page, served.baseUrl, staff.nurse.email, staff.nurse.password)
     await page.waitForURL(`${served.baseUrl}/screening`)
@@ -94,7 +88,7 @@ describe('signing in through the real page', () => {
   })
 
   it('when signed out, then opening a page sends the user to sign-in', async () => {
-    const page = await browser.newPage()
+    const page = await newTestPage(browser)
     await page.goto(`${served.baseUrl}/admin/users`)
     await page.waitForURL(/\/sign-in/)
     await page.close()

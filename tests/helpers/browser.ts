@@ -1,4 +1,4 @@
-import { chromium, type Browser, type Page } from 'playwright-core'
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core'
 import type { Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import { makeTestApp, type TestApp } from './app'
@@ -10,6 +10,19 @@ export function launchBrowser(): Promise<Browser> {
     headless: true,
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
   })
+}
+
+/**
+ * A fresh session (its own cookies) as the tests want it: British English and reduced motion, so
+ * PrimeVue's fades end at once and axe reads colours at rest (a message caught half faded in fails
+ * the contrast rule on a slow machine). Every browser test opens its pages through this.
+ */
+export function newTestContext(browser: Browser, options: BrowserContextOptions = {}): Promise<BrowserContext> {
+  return browser.newContext({ locale: 'en-GB', reducedMotion: 'reduce', ...options })
+}
+
+export async function newTestPage(browser: Browser, options: BrowserContextOptions = {}): Promise<Page> {
+  return (await newTestContext(browser, options)).newPage()
 }
 
 export interface ServedApp extends TestApp {
