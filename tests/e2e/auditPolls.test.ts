@@ -38,7 +38,7 @@ describe('a nurse keeps an episode open while it polls', () => {
     await signInThroughPage(page, served.baseUrl, nurse.email, nurse.password)
     await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'))
     await page.goto(`${served.baseUrl}/referrals/${referralId}`)
-    await expect.poll(() => episodeReads.length, { timeout: 40_000, intervals: [1000] }).toBeGreaterThanOrEqual(2)
+    await expect.poll(() => episodeReads.length, { timeout: 40_000, interval: 1000 }).toBeGreaterThanOrEqual(2)
     expect(episodeReads[0]).toEqual({ refetch: false })
     expect(episodeReads.slice(1).every((r) => r.refetch)).toBe(true)
     expect(await views('referral')).toBe(1)
