@@ -135,6 +135,17 @@ describe('Hb projection to the surgery date', () => {
     expect(p.assumptions.join(' ')).toMatch(/200 mg of iron given against a calculated deficit of 1200 mg \(17 %\)/)
   })
 
+  it('when a full IV course was given 8 weeks before surgery, then the assumed rise lies within the 10–20 g/L over 4–8 weeks that reviews report', () => {
+    // "IV iron typically raises Hb 10–20 g/L over 4–8 weeks" (secondary source, clinical reference §6 [V2]).
+    const p = projectHb({
+      targetDate: '2025-04-26', // 56 days after the dose
+      measurements: [{ takenAt: '2025-02-25', hbGL: 100 }],
+      treatment: { kind: 'iv', firstDoseDate: '2025-03-01', totalMg: 1000, deficitMg: 1000 },
+    })
+    expect(p.hbGL - 100).toBeGreaterThanOrEqual(10)
+    expect(p.hbGL - 100).toBeLessThanOrEqual(20)
+  })
+
   it('when an Hb is taken on the morning of surgery in the clinic zone, then it counts in the projection', () => {
     const p = projectHb({
       targetDate: '2025-07-14',
