@@ -54,6 +54,8 @@ async function main(): Promise<void> {
   try {
     const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, PORT: String(port), NODE_ENV: process.env.NODE_ENV || (dev ? 'development' : 'production') }
     env.SESSION_SECRET ||= 'ferrolane-local-demo-secret-change-me-in-production'
+    // npm start is the demo: the server skips its production refusals (and says so) for it.
+    env.FERROLANE_DEMO ||= 'true'
     const seeded = await prepareDatabase(env, { seedDemo: true })
     console.log(seeded ? '[start] loaded the demo scenario (invented data)' : '[start] database already has data; demo not reloaded')
     if (dev) {

@@ -9,6 +9,7 @@ import { LIMITS } from '../shared/limits'
 
 export interface Config {
   env: 'production' | 'development' | 'test'
+  /** FERROLANE_DEMO: the demo scenario (npm start); production checks are skipped with a warning */ demo: boolean
   /** PORT */ port: number
   /** HOST */ host: string
   db: {
@@ -118,6 +119,7 @@ export function loadConfig(env: Env = process.env): Config {
   const port = int(env, 'PORT', 8080, 0)
   return {
     env: nodeEnv,
+    demo: bool(env, 'FERROLANE_DEMO', false),
     port,
     host: env.HOST || '127.0.0.1',
     db: {

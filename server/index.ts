@@ -3,6 +3,7 @@ import { loadConfig } from './config'
 import { createSequelize } from './db'
 import { createApp } from './app'
 import { OutboxWorker } from './services/outboxWorker'
+import { productionProblems } from './productionChecks'
 
 /**
  * The only place that listens. A mistake nobody caught (an unhandled rejection, an uncaught
@@ -43,6 +44,17 @@ async function main(): Promise<void> {
   const config = loadConfig()
   const sequelize = createSequelize(config)
   const { app, sessionStore } = createApp(config, sequelize)
+  if (config.env === 'production' && !config.demo) {
+    // A real hospital's server refuses to start on development or demo settings.
+    const problems = await productionProblems(config)
+    if (problems.length) {
+      console.error(`Ferrolane will not start in production:\n${problems.map((p) => `  - ${p}`).join('\n')}\n(npm start runs the demo: FERROLANE_DEMO=true.)`)
+      await sequelize.close()
+      process.exit(1)
+    }
+  } else if (config.env === 'production') {
+    console.warn('Ferrolane is running the DEMO (FERROLANE_DEMO=true): invented data and public passwords. Never use this for patients.')
+  }
   const server = app.listen(config.port, config.host, () => {
     console.log(`Ferrolane listening on http://${config.host}:${config.port}`)
   })

@@ -10,7 +10,7 @@ export async function startBenchServer(env: NodeJS.ProcessEnv, port: number): Pr
   // node --import tsx (not the tsx CLI) so the pid measured is the server itself.
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server to look for where time goes.
   const child: ChildProcess = spawn(process.execPath, [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), '--import', 'tsx', 'server/index.ts'], {
-    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
+    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
   })
   for (let i = 0; ; i++) {
     try { if ((await fetch(`${url}/api/health`)).ok) break } catch { /* starting */ }

@@ -34,12 +34,13 @@ export function calendarFile(kind: MessageKind, s: AppointmentSnapshot, clinic: 
     end: Date.parse(s.endsAt),
     endInputType: 'utc',
     endOutputType: 'utc',
-    title: `${info.label} — ${clinic.name}`,
+    // Neutral like the subject: calendars show the title on shared screens; the detail is in the description.
+    title: `Hospital appointment — ${clinic.name}`,
     description: lines.join('\n'),
     location: s.location,
     status: method === 'CANCEL' ? 'CANCELLED' : 'CONFIRMED',
     // iTIP needs an organiser for REQUEST and CANCEL; the patient is the one attendee.
-    organizer: { name: clinic.service, email: clinic.email },
+    organizer: { name: clinic.name, email: clinic.email },
     attendees: [{ name: s.fullName, email: s.email, rsvp: false, role: 'REQ-PARTICIPANT', partstat: 'NEEDS-ACTION' }],
     ...(url(replyUrl)),
   })

@@ -1,5 +1,23 @@
+import { readFileSync } from 'node:fs'
 import nodemailer, { type Transporter } from 'nodemailer'
 import type { Config } from '../config'
+
+/**
+ * The TLS options of the SMTP connection, from configuration: `requireTLS` refuses to send over a
+ * relay that does not upgrade with STARTTLS (ASVS 9.2.1), and the relay's certificate is checked
+ * unless an operator turns that off; a hospital's own certificate authority can be named.
+ */
+export function smtpTlsOptions(smtp: Config['smtp']) {
+  return {
+    requireTLS: smtp.requireTls,
+    tls: {
+      rejectUnauthorized: smtp.tlsRejectUnauthorized,
+      minVersion: 'TLSv1.2' as const,
+      ...(smtp.tlsCaFile ? { ca: readFileSync(smtp.tlsCaFile, 'utf8') } : {}),
+      ...(smtp.tlsServername ? { servername: smtp.tlsServername } : {}),
+    },
+  }
+}
 
 /**
  * SMTP to the configured relay (maildev locally). Timeouts stay well under the outbox lease,
@@ -10,6 +28,7 @@ export function createMailTransport(smtp: Config['smtp']): Transporter {
     host: smtp.host,
     port: smtp.port,
     secure: false,
+    ...smtpTlsOptions(smtp),
     connectionTimeout: 10_000,
     greetingTimeout: 10_000,
     socketTimeout: 30_000,

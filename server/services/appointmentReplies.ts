@@ -1,4 +1,4 @@
-import type { Sequelize, Transaction } from 'sequelize'
+import { Op, type Sequelize, type Transaction } from 'sequelize'
 import type { Config } from '../config'
 import { Appointment, AppointmentEvent, AppointmentReplyToken, AppointmentTask, OutboxMessage, Patient } from '../models/index'
 import { KIND_INFO, localTime, longDate, zoneName, type AppointmentReply } from '../../shared/appointments'
@@ -29,6 +29,15 @@ async function resolve(config: Config, raw: string, actor: Actor, t?: Transactio
   if (!appointment) throw refusal(config, 'reply_link_unknown', 404, 'We cannot find the appointment for this link.', 'To check your appointment')
   if (appointment.status === 'cancelled') throw refusal(config, 'appointment_cancelled', 410, 'This appointment has been cancelled, so there is nothing to confirm.', 'If you need a new appointment')
   if (appointment.endsAt.getTime() <= Date.now()) throw refusal(config, 'reply_link_expired', 410, 'This appointment has already taken place, so the link no longer works.', 'To arrange another visit')
+  // A link is a bearer credential in an inbox: it lives REPLY_LINK_DAYS from sending, and only the
+  // newest one sent for an appointment works (ASVS 3.5.2).
+  if (token.createdAt.getTime() + config.replies.linkDays * 86_400_000 <= Date.now()) {
+    throw refusal(config, 'reply_link_expired', 410, `This link has expired: links work for ${config.replies.linkDays} days after we send them.`, 'To confirm or change your appointment')
+  }
+  const newer = await AppointmentReplyToken.count({ where: { appointmentId: appointment.id, id: { [Op.gt]: token.id } }, transaction: t })
+  if (newer > 0) {
+    throw refusal(config, 'reply_link_superseded', 410, 'We have sent you a newer e-mail about this appointment. Please use the link in our most recent e-mail.', 'If you cannot find it')
+  }
   // A link from before a move would confirm a time the patient no longer has.
   const message = token.outboxMessageId ? await OutboxMessage.findByPk(token.outboxMessageId, { attributes: ['payload'], transaction: t, raw: true }) : null
   if (message && message.payload.sequence < appointment.sequence) {

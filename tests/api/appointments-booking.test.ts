@@ -49,7 +49,11 @@ describe('booking an appointment', () => {
     expect(await send()).toMatchObject({ sent: 1, retried: 0 })
     const m = await onlyMail()
     // 09:30 in London in July is 08:30 UTC: the e-mail must say the London time and name the zone.
-    expect(m.subject).toMatch(/Booked: Anaemia clinic appointment, \w{3} \d+ Jul, 09:30/)
+    // Neutral subject and sender: an inbox preview must not say what the clinic treats (issue 15).
+    expect(m.subject).toMatch(/^Your hospital appointment is booked: \w{3} \d+ Jul, 09:30$/)
+    expect(m.subject).not.toMatch(/anaemi|iron|infusion/i)
+    expect(JSON.stringify(m.from)).not.toMatch(/anaemi|iron|infusion/i)
+    expect(m.text).toContain('Anaemia clinic appointment')
     for (const part of [m.text, m.html]) {
       expect(part).toContain('09:30 to 10:00')
       expect(part).toContain('Europe/London')
@@ -118,7 +122,7 @@ describe('moving and cancelling', () => {
     expect(res.body.message.status).toBe('queued')
     await send()
     const [first, update] = await mail.to(f.email)
-    expect(update!.subject).toMatch(/^New time or place: .*14:15$/)
+    expect(update!.subject).toMatch(/^Your hospital appointment has changed: .*14:15$/)
     expect(update!.text).toContain('It was ')
     expect(update!.text).toContain('09:30')
     const before = parseIcs(await mail.attachment(first!)).events[0]!
@@ -146,7 +150,7 @@ describe('moving and cancelling', () => {
     expect(res.body.appointment).toMatchObject({ status: 'cancelled', sequence: 2, cancelReason: 'Clinic closed for training' })
     await send()
     const mails = await mail.to(f.email)
-    expect(mails.map((m) => m.subject.split(':')[0])).toEqual(['Booked', 'New time or place', 'Cancelled'])
+    expect(mails.map((m) => m.subject.split(':')[0])).toEqual(['Your hospital appointment is booked', 'Your hospital appointment has changed', 'Your hospital appointment is cancelled'])
     const cancel = mails[2]!
     expect(cancel.text).not.toMatch(/\/reply\//)
     expect(cancel.text).not.toContain('Clinic closed for training')
@@ -190,6 +194,6 @@ describe('reminders', () => {
     expect((await drainOutbox({ ...opts, now: new Date(start - 30 * 3_600_000) })).reminders).toBe(0)
     const subjects = (await mail.to(f.email)).map((m) => m.subject)
     expect(subjects).toHaveLength(2)
-    expect(subjects[1]).toMatch(/^Coming up: Anaemia clinic appointment/)
+    expect(subjects[1]).toMatch(/^Your hospital appointment is coming up: /)
   })
 })

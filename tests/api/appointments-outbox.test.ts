@@ -122,6 +122,6 @@ describe('with two workers', () => {
     // Before the booking's retry is due: the cancellation must not go alone.
     expect(await drainOutbox(opts())).toMatchObject({ claimed: 0 })
     await drainOutbox({ ...opts(), now: minutesFromNow(2) })
-    expect((await mail.to(f.email)).map((m) => m.subject.split(':')[0])).toEqual(['Booked', 'Cancelled'])
+    expect((await mail.to(f.email)).map((m) => m.subject.split(':')[0])).toEqual(['Your hospital appointment is booked', 'Your hospital appointment is cancelled'])
   })
 })

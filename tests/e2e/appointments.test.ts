@@ -63,7 +63,8 @@ describe('a nurse books an infusion, the patient confirms from the e-mail, the w
     const received = await mail.to(f.email)
     expect(received).toHaveLength(1)
     const m = received[0]!
-    expect(m.subject).toMatch(/^Booked: Iron infusion.*09:30$/)
+    expect(m.subject).toMatch(/^Your hospital appointment is booked: .*09:30$/)
+    expect(m.text).toContain('Iron infusion')
     expect(m.text).toContain('09:30 to 10:30, UK time (Europe/London)')
     expect(m.text).toContain(PLACE)
     const cal = parseIcs(await mail.attachment(m, '.ics'))

@@ -19,15 +19,21 @@ function when(iso: string, clinic: ClinicContact): string {
   return `${longDate(d, clinic.timeZone)} at ${localTime(d, clinic.timeZone)}`
 }
 
+/**
+ * Subjects say only that it is a hospital appointment, and when: an inbox preview or a lock
+ * screen is read by others, and "anaemia clinic" or "iron infusion" is health information. The
+ * kind of visit and the clinic are in the body.
+ */
+export const NEUTRAL_SUBJECT = 'Your hospital appointment'
+
 export function subjectFor(kind: MessageKind, s: AppointmentSnapshot, clinic: ClinicContact): string {
   const d = new Date(s.startsAt)
   const at = `${shortDate(d, clinic.timeZone)}, ${localTime(d, clinic.timeZone)}`
-  const what = KIND_INFO[s.kind].label
   switch (kind) {
-    case 'booking': return `Booked: ${what}, ${at}`
-    case 'update': return `New time or place: ${what}, ${at}`
-    case 'cancellation': return `Cancelled: ${what}, ${at}`
-    case 'reminder': return `Coming up: ${what}, ${at}`
+    case 'booking': return `${NEUTRAL_SUBJECT} is booked: ${at}`
+    case 'update': return `${NEUTRAL_SUBJECT} has changed: ${at}`
+    case 'cancellation': return `${NEUTRAL_SUBJECT} is cancelled: ${at}`
+    case 'reminder': return `${NEUTRAL_SUBJECT} is coming up: ${at}`
   }
 }
 
