@@ -1,5 +1,5 @@
 import * as yup from 'yup'
-import { emailField } from './fields'
+import { emailField } from './email'
 
 export const PASSWORD_MIN_LENGTH = 12
 
