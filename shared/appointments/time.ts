@@ -4,10 +4,17 @@
  * Only Intl is used, so the browser and the server agree without a time-zone library.
  */
 
+// Building a formatter costs far more than using one; imports read a zone per row.
+const formatters = new Map<string, Intl.DateTimeFormat>()
+
 function parts(instant: Date, timeZone: string): Record<string, number> {
-  const fmt = new Intl.DateTimeFormat('en-GB', {
-    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
-  })
+  let fmt = formatters.get(timeZone)
+  if (!fmt) {
+    fmt = new Intl.DateTimeFormat('en-GB', {
+      timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
+    })
+    formatters.set(timeZone, fmt)
+  }
   const out: Record<string, number> = {}
   for (const p of fmt.formatToParts(instant)) if (p.type !== 'literal') out[p.type] = Number(p.value)
   return out
