@@ -18,6 +18,8 @@ export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
       code: b.code, name: b.name, route: b.route, maxSingleDoseMg: b.maxSingleDoseMg, maxSingleDoseMgPerKg: b.maxSingleDoseMgPerKg,
       minIntervalDays: b.minIntervalDays, maxWeeklyMg: b.maxWeeklyMg, maxTotalMg: b.maxTotalMg, roundToMg: b.roundToMg,
       oralDailyMg: b.oralDailyMg, oralAlternateDays: b.oralAlternateDays, source: b.source, active: b.active,
+      licensedFromAgeYears: b.licensedFromAgeYears, paediatricMaxSingleDoseMgPerKg: b.paediatricMaxSingleDoseMgPerKg,
+      paediatricMaxSingleDoseMg: b.paediatricMaxSingleDoseMg, phosphateCheckOnRepeat: b.phosphateCheckOnRepeat,
     }))
   })
   api.patch('/:code', admin, validate(updateIronProductSchema), async (req, res) => {
@@ -26,6 +28,8 @@ export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
       name: b.name, route: b.route, maxSingleDoseMg: b.maxSingleDoseMg, maxSingleDoseMgPerKg: b.maxSingleDoseMgPerKg,
       minIntervalDays: b.minIntervalDays, maxWeeklyMg: b.maxWeeklyMg, maxTotalMg: b.maxTotalMg, roundToMg: b.roundToMg,
       oralDailyMg: b.oralDailyMg, oralAlternateDays: b.oralAlternateDays, source: b.source, active: b.active,
+      licensedFromAgeYears: b.licensedFromAgeYears, paediatricMaxSingleDoseMgPerKg: b.paediatricMaxSingleDoseMgPerKg,
+      paediatricMaxSingleDoseMg: b.paediatricMaxSingleDoseMg, phosphateCheckOnRepeat: b.phosphateCheckOnRepeat,
     }))
   })
   return api
