@@ -47,7 +47,7 @@ const FILE = csv([
   ['BRW0001', 'HB', 120, 'mg/dL', T1],
 ])
 
-describe('a nurse imports a laboratory CSV and an admin reverses it', () => {
+describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
   it('when the nurse opens Import results from the bar, then the screen states the 20 MB limit, Commit is off, and it passes axe', async () => {
     await signInThroughPage(page, served.baseUrl, nurse.email, nurse.password)
     await page.waitForURL(`${served.baseUrl}/screening`)
@@ -118,10 +118,25 @@ describe('a nurse imports a laboratory CSV and an admin reverses it', () => {
     expect(await Result.count({ where: { referralId } })).toBe(3)
   })
 
-  it('when an admin reverses the CSV batch with a reason, then it is listed as reversed, its results are gone and the episode is screened on what is left', async () => {
+  it('when an admin opens the imports page, then only the batch list shows: no upload, no preview of patients, no reversal', async () => {
     await page.context().clearCookies()
     await signInThroughPage(page, served.baseUrl, admin.email, admin.password)
     await page.waitForURL(`${served.baseUrl}/admin`)
+    await page.screenshot({ path: '/tmp/security-admin-home.png', fullPage: true })
+    await page.goto(`${served.baseUrl}/imports`)
+    await page.getByTestId('import-admin-note').waitFor()
+    await page.getByTestId('batch-table').waitFor()
+    expect(await page.locator('[data-tab="csv"]').count()).toBe(0)
+    expect(await page.locator('[data-testid^="reverse-"]').count()).toBe(0)
+    expect(await seriousViolations(page)).toEqual([])
+    await page.screenshot({ path: '/tmp/security-admin-imports.png', fullPage: true })
+  })
+
+  it('when a doctor reverses the CSV batch with a reason, then it is listed as reversed, its results are gone and the episode is screened on what is left', async () => {
+    await page.context().clearCookies()
+    const doctor = await makeStaff('doctor')
+    await signInThroughPage(page, served.baseUrl, doctor.email, doctor.password)
+    await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
     await page.goto(`${served.baseUrl}/imports`)
     const batch = (await ImportBatch.findOne({ where: { kind: 'lab-csv' }, raw: true }))!
     await page.getByTestId(`reverse-${batch.id}`).click()
@@ -137,9 +152,8 @@ describe('a nurse imports a laboratory CSV and an admin reverses it', () => {
     // Only the FHIR Hb 125 g/L is left: still anaemic for surgery in a woman (threshold 130 g/L).
     expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 125, anaemic: 1 })
     await page.screenshot({ path: '/tmp/imports-e2e-6-reversed.png', fullPage: true })
-    // The admin's bar is the longest (home, worklist, imports, readiness, reports, set-up menu).
     await page.setViewportSize({ width: 1024, height: 700 })
     await page.evaluate('window.scrollTo(0, 0)')
-    await page.screenshot({ path: '/tmp/imports-e2e-7-admin-1024.png' })
+    await page.screenshot({ path: '/tmp/imports-e2e-7-doctor-1024.png' })
   })
 })
