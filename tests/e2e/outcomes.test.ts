@@ -119,7 +119,10 @@ describe('an admin finds the patient in the audit trail', () => {
     const total = Number(/(\d+) entr/.exec((await adminPage.getByText(/entr(y|ies) match/).textContent()) ?? '')?.[1])
     const [download] = await Promise.all([adminPage.waitForEvent('download'), adminPage.getByTestId('audit-csv').click()])
     const rows = parseCsv(await readFile((await download.path())!, 'utf8'))
-    expect(rows.length).toBe(total)
+    // Open episode pages in the other tabs keep adding audited reads of this patient, so the
+    // export may hold a few more entries than the screen counted a moment before; all are hers.
+    expect(rows.length).toBeGreaterThanOrEqual(total)
+    expect(new Set(rows.map((r) => r.patientId)).size).toBe(1)
     expect(rows.some((r) => r.action === 'transition' && r.entity === 'referral')).toBe(true)
   })
 })
@@ -151,7 +154,8 @@ describe('the top bar fits for every role', () => {
       }
       expect(await nursePage.locator('[data-nav="readiness"]').count()).toBe(1)
       expect(await adminPage.locator('[data-nav="admin-users"]').count()).toBe(0)
-      for (const clinical of ['worklist', 'readiness', 'import-results']) expect(await adminPage.locator(`[data-nav="${clinical}"]`).count(), clinical).toBe(0)
+      // The imports page stays (the batch list names no patient); the clinical lists go.
+      for (const clinical of ['worklist', 'readiness']) expect(await adminPage.locator(`[data-nav="${clinical}"]`).count(), clinical).toBe(0)
       // Keyboard: the Set-up button opens its menu with Enter, like any button.
       await adminPage.focus('[data-nav="set-up"]')
       await adminPage.keyboard.press('Enter')

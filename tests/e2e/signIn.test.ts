@@ -100,33 +100,3 @@ describe('signing in through the real page', () => {
     await page.close()
   })
 })
-
-describe('a temporary password', () => {
-  it('when a nurse replaces it, then the session carries on under a new id with a working token, and a common password is refused first', async () => {
-    const s = await makeStaff('nurse', { mustChangePassword: true })
-    const context = await browser.newContext()
-    const page = await context.newPage()
-    await signInThroughPage(page, served.baseUrl, s.email, s.password)
-    await page.waitForURL(/\/account\/password/)
-    const before = (await context.cookies()).find((c) => c.name === 'ferrolane.sid')?.value
-    await page.fill('#current-password', s.password)
-    await page.fill('#new-password', 'password123456')
-    await page.fill('#confirm-password', 'password123456')
-    await page.getByRole('button', { name: 'Save new password' }).click()
-    await expect.poll(() => page.locator('#new-password-error').textContent()).toMatch(/common or breached/)
-    expect(await seriousViolations(page)).toEqual([])
-    await page.screenshot({ path: '/tmp/security-password-common.png', fullPage: true })
-    await page.fill('#new-password', 'amber-kestrel-lantern-51')
-    await page.fill('#confirm-password', 'amber-kestrel-lantern-51')
-    await page.getByRole('button', { name: 'Save new password' }).click()
-    await page.waitForURL(`${served.baseUrl}/screening`)
-    const after = (await context.cookies()).find((c) => c.name === 'ferrolane.sid')?.value
-    expect(after).toBeDefined()
-    expect(after).not.toBe(before)
-    // A state-changing request with the new session's token: signing out works.
-    await page.getByTestId('account-menu').click()
-    await page.getByRole('menuitem', { name: 'Sign out' }).click()
-    await page.waitForURL(/\/sign-in/)
-    await context.close()
-  })
-})
