@@ -182,3 +182,16 @@ describe('CSV downloads', () => {
     expect(res.text).not.toMatch(/(^|,)"?=HYPERLINK/m)
   })
 })
+
+describe('API answers with patient data', () => {
+  it('when the worklist is fetched, then it says Cache-Control: no-store and its ETag still answers 304', async () => {
+    const s = await makeStaff('nurse')
+    const c = await new Client(t.app).mustSignIn(s.email, s.password)
+    const res = await c.get('/api/worklist').expect(200)
+    expect(res.headers['cache-control']).toBe('no-store')
+    expect(res.headers.etag).toBeDefined()
+    const again = await c.get('/api/worklist').set('If-None-Match', res.headers.etag as string)
+    expect(again.status).toBe(304)
+    expect((await c.get('/api/auth/me')).headers['cache-control']).toBe('no-store')
+  })
+})

@@ -58,7 +58,7 @@ const mixedFile = (mrn: string) => csv([
   [mrn, 'HB', 120, 'mg/dL', T1],
 ])
 
-describe('a nurse imports a laboratory CSV and an admin reverses it', () => {
+describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
   it('when the nurse opens Import results from the bar, then the screen states the 20 MB limit, Commit is off, and it passes axe', async () => {
     const nurse = await makeStaff('nurse')
     const page = await importPage(nurse, '/screening')
@@ -141,9 +141,23 @@ describe('a nurse imports a laboratory CSV and an admin reverses it', () => {
     await page.context().close()
   })
 
-  it('when an admin reverses a CSV batch with a reason, then it is listed as reversed, its results are gone and the episode is screened on what is left', async () => {
-    const { nurse, mrn, referralId } = await importCase('Demelza', 'Penhallurick')
+  it('when an admin opens the imports page, then only the batch list shows: no upload, no preview of patients, no reversal', async () => {
     const admin = await makeStaff('admin')
+    const page = await importPage(admin, '/admin')
+    await page.screenshot({ path: '/tmp/security-admin-home.png', fullPage: true })
+    await page.goto(`${served.baseUrl}/imports`)
+    await page.getByTestId('import-admin-note').waitFor()
+    await page.getByTestId('batch-table').waitFor()
+    expect(await page.locator('[data-tab="csv"]').count()).toBe(0)
+    expect(await page.locator('[data-testid^="reverse-"]').count()).toBe(0)
+    expect(await seriousViolations(page)).toEqual([])
+    await page.screenshot({ path: '/tmp/security-admin-imports.png', fullPage: true })
+    await page.context().close()
+  })
+
+  it('when a doctor reverses a CSV batch with a reason, then it is listed as reversed, its results are gone and the episode is screened on what is left', async () => {
+    const { nurse, mrn, referralId } = await importCase('Demelza', 'Penhallurick')
+    const doctor = await makeStaff('doctor')
     // This test's own two batches, sent as the nurse's form sends them: the one to reverse
     // (Hb 104 g/L, ferritin 15) and a later Hb 125 g/L that stays.
     const c = await new Client(served.app).mustSignIn(nurse.email, nurse.password)
@@ -153,7 +167,7 @@ describe('a nurse imports a laboratory CSV and an admin reverses it', () => {
     expect(kept.status, JSON.stringify(kept.body)).toBe(201)
     const batchId = Number(wrong.body.batchId)
 
-    const page = await importPage(admin, '/admin')
+    const page = await importPage(doctor, '/clinic')
     await page.goto(`${served.baseUrl}/imports`)
     await page.getByTestId(`reverse-${batchId}`).click()
     await page.getByTestId('confirm-batch-reverse').click()
@@ -168,10 +182,9 @@ describe('a nurse imports a laboratory CSV and an admin reverses it', () => {
     // Only the Hb 125 g/L is left: still anaemic for surgery in a woman (threshold 130 g/L).
     expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 125, anaemic: 1 })
     await page.screenshot({ path: '/tmp/imports-e2e-6-reversed.png', fullPage: true })
-    // The admin's bar is the longest (home, worklist, imports, readiness, reports, set-up menu).
     await page.setViewportSize({ width: 1024, height: 700 })
     await page.evaluate('window.scrollTo(0, 0)')
-    await page.screenshot({ path: '/tmp/imports-e2e-7-admin-1024.png' })
+    await page.screenshot({ path: '/tmp/imports-e2e-7-doctor-1024.png' })
     await page.context().close()
   })
 })

@@ -136,10 +136,10 @@ describe('an admin finds the patient in the audit trail', () => {
 
     const adminPage = await signedIn(admin, '/admin', { acceptDownloads: true })
     await adminPage.goto(`${served.baseUrl}/admin/audit`)
+    // Administrators read no patient record: the trail is filtered by the MRN, matched on the server.
     await adminPage.fill('#au-patient', mrn)
-    await adminPage.click(`[data-patient="${mrn}"]`)
-    await adminPage.getByTestId('audit-patient-chosen').waitFor()
-    expect(adminPage.url()).toMatch(/patientId=\d+/)
+    await adminPage.press('#au-patient', 'Enter')
+    await adminPage.waitForURL(/mrn=/)
     const row = adminPage.locator('tr', { hasText: 'transition' }).first()
     await row.waitFor()
     await row.locator('button').first().click()
@@ -153,7 +153,10 @@ describe('an admin finds the patient in the audit trail', () => {
     const total = Number(/(\d+) entr/.exec((await adminPage.getByText(/entr(y|ies) match/).textContent()) ?? '')?.[1])
     const [download] = await Promise.all([adminPage.waitForEvent('download'), adminPage.getByTestId('audit-csv').click()])
     const rows = parseCsv(await readFile((await download.path())!, 'utf8'))
-    expect(rows.length).toBe(total)
+    // Open episode pages in the other tabs keep adding audited reads of this patient, so the
+    // export may hold a few more entries than the screen counted a moment before; all are hers.
+    expect(rows.length).toBeGreaterThanOrEqual(total)
+    expect(new Set(rows.map((r) => r.patientId)).size).toBe(1)
     expect(rows.some((r) => r.action === 'transition' && r.entity === 'referral')).toBe(true)
     await adminPage.context().close()
   })
@@ -174,7 +177,8 @@ describe('the top bar fits for every role', () => {
       const { admin: adminPage, nurse: nursePage } = pages
       for (const [who, page] of Object.entries(pages)) {
         await page.setViewportSize({ width, height: 800 })
-        await page.goto(`${served.baseUrl}/worklist`)
+        // Administrators read no patient record, so no worklist: their bar is checked on their home.
+        await page.goto(`${served.baseUrl}${who === 'admin' ? '/admin' : '/worklist'}`)
         const bar = page.locator('header.app-shell__bar')
         await bar.waitFor()
         const box = (await bar.boundingBox())!
@@ -185,6 +189,8 @@ describe('the top bar fits for every role', () => {
       }
       expect(await nursePage.locator('[data-nav="readiness"]').count()).toBe(1)
       expect(await adminPage.locator('[data-nav="admin-users"]').count()).toBe(0)
+      // The imports page stays (the batch list names no patient); the clinical lists go.
+      for (const clinical of ['worklist', 'readiness']) expect(await adminPage.locator(`[data-nav="${clinical}"]`).count(), clinical).toBe(0)
       // Keyboard: the Set-up button opens its menu with Enter, like any button.
       await adminPage.focus('[data-nav="set-up"]')
       await adminPage.keyboard.press('Enter')
