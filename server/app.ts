@@ -17,6 +17,7 @@ import { forgetCountsOnEveryWrite } from './services/worklistCounts'
 import type { AppContext } from './routes/context'
 import { healthRoutes } from './routes/health'
 import { authRoutes } from './routes/auth'
+import { directoryAuthRoutes } from './routes/directoryAuth'
 import { userRoutes } from './routes/users'
 import { staffRoutes } from './routes/staff'
 import { patientRoutes } from './routes/patients'
@@ -103,7 +104,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   api.use(requireCsrf)
 
   const routers: ApiRouter[] = [
-    healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx),
+    healthRoutes(ctx), authRoutes(ctx, passport), directoryAuthRoutes(ctx), userRoutes(ctx),
     staffRoutes(ctx), patientRoutes(ctx), procedureRoutes(ctx), referralRoutes(ctx), worklistRoutes(ctx),
     clinicRoutes(ctx), formularyRoutes(ctx), clinicSettingsRoutes(ctx), readinessRoutes(ctx),
     appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),

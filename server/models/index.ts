@@ -28,6 +28,8 @@ import { initEpisodeDocument, EpisodeDocument } from './episodeDocument'
 import { initLetter, Letter } from './letter'
 import { initImportBatch, ImportBatch } from './importBatch'
 import { initImportMapping, ImportMapping } from './importMapping'
+import { initRecoveryCode, RecoveryCode } from './recoveryCode'
+export { RecoveryCode }
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
@@ -42,6 +44,7 @@ export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, Appointm
  */
 export function initModels(sequelize: Sequelize): void {
   initUser(sequelize)
+  initRecoveryCode(sequelize)
   initSessionRow(sequelize)
   initAuditEntry(sequelize)
   initLoginFailure(sequelize)

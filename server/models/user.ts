@@ -10,6 +10,10 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare active: CreationOptional<boolean>
   declare mustChangePassword: CreationOptional<boolean>
   declare lastSignInAt: CreationOptional<Date | null>
+  declare directorySubject: CreationOptional<string | null>
+  declare totpSecret: CreationOptional<string | null>
+  declare totpEnabledAt: CreationOptional<Date | null>
+  declare totpLastStep: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 }
@@ -25,6 +29,10 @@ export function initUser(sequelize: Sequelize): void {
       active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       mustChangePassword: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       lastSignInAt: { type: DataTypes.DATE, allowNull: true },
+      directorySubject: { type: DataTypes.STRING(255), allowNull: true, unique: true },
+      totpSecret: { type: DataTypes.STRING(64), allowNull: true },
+      totpEnabledAt: { type: DataTypes.DATE, allowNull: true },
+      totpLastStep: { type: DataTypes.BIGINT, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -8,6 +8,8 @@ import { loginSchema } from '../../shared/schemas/auth'
 import { changeOwnPassword } from '../services/users'
 import { recordAudit } from '../services/audit'
 import { AppError } from '../errors'
+import { endSessionUrl as providerEndSessionUrl } from '../auth/oidcClient'
+import type { SignOutAnswer } from '../../shared/auth/views'
 import type { SessionUser } from '../../shared/types'
 
 function authenticate(passport: PassportStatic, req: Request, res: Response, next: NextFunction): Promise<SessionUser | null> {
@@ -34,11 +36,16 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
 
   api.post('/logout', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
     const actor = signedInActor(req)
+    const idToken = req.session.directoryIdToken
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())))
     await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())))
-    await recordAudit(null, actor, { action: 'sign-out', entity: 'session', entityId: actor.userId })
+    // A directory session ends at the provider too (RP-initiated logout): the client goes there next.
+    const endSessionUrl = idToken && ctx.config.oidc ? await providerEndSessionUrl(ctx.config.oidc, idToken).catch(() => null) : null
+    await recordAudit(null, actor, { action: 'sign-out', entity: 'session', entityId: actor.userId, after: idToken ? { via: 'directory', providerSignOut: Boolean(endSessionUrl) } : null })
     res.clearCookie('ferrolane.sid')
-    res.status(204).end()
+    if (!idToken) return void res.status(204).end()
+    const answer: SignOutAnswer = { endSessionUrl }
+    res.json(answer)
   })
 
   api.get('/me', { access: 'signed-in', duringPasswordChange: true }, (req, res) => {
