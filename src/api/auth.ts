@@ -1,4 +1,5 @@
 import type { SessionUser } from '@shared/types'
+import type { SignInProviders, SignOutAnswer } from '@shared/auth/views'
 import type { ChangePasswordInput, LoginInput } from '@shared/schemas/auth'
 import { api, isApiError, setCsrfToken } from './client'
 
@@ -19,9 +20,15 @@ export async function login(input: LoginInput): Promise<SessionUser> {
   return user
 }
 
-export async function logout(): Promise<void> {
+export function fetchProviders(): Promise<SignInProviders> {
+  return api.get<SignInProviders>('/auth/providers')
+}
+
+/** Answers where to send the browser to end the directory session too, or null for a local session. */
+export async function logout(): Promise<string | null> {
   try {
-    await api.post<void>('/auth/logout')
+    const answer = await api.post<SignOutAnswer | undefined>('/auth/logout')
+    return answer?.endSessionUrl ?? null
   } finally {
     setCsrfToken(null)
   }

@@ -1,11 +1,17 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
 import type { ChangePasswordInput, LoginInput } from '@shared/schemas/auth'
-import { changePassword, fetchMe, login, logout } from '@/api/auth'
+import { changePassword, fetchMe, fetchProviders, login, logout } from '@/api/auth'
 import { useSessionStore } from '@/stores/session'
 
 export const authKeys = {
   all: ['auth'] as const,
   me: () => [...authKeys.all, 'me'] as const,
+  providers: () => [...authKeys.all, 'providers'] as const,
+}
+
+/** The ways to sign in (directory and/or local form); fixed by the server's configuration. */
+export function useProvidersQuery() {
+  return useQuery({ queryKey: authKeys.providers(), queryFn: fetchProviders, staleTime: Infinity })
 }
 
 /** Shared by the router guard (fetchQuery) and components (useQuery). */
@@ -34,6 +40,11 @@ export function useLogoutMutation() {
   const session = useSessionStore()
   return useMutation({
     mutationFn: logout,
+    // A directory session is ended at the provider too, which then sends the browser back to
+    // sign-in. Done here, not in the caller, because the caller unmounts once the session clears.
+    onSuccess: (endSessionUrl) => {
+      if (endSessionUrl) window.location.assign(endSessionUrl)
+    },
     // Sign out locally even if the server call fails: the person asked to leave.
     onSettled: () => {
       session.clear()

@@ -14,6 +14,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, title: 'Sign in' },
   },
   {
+    path: '/sign-in/refused',
+    name: 'sign-in-refused',
+    component: () => import('@/views/SignInRefusedView.vue'),
+    meta: { public: true, title: 'Sign-in refused' },
+  },
+  {
     path: '/screening',
     name: 'nurse-home',
     component: () => import('@/views/NurseHomeView.vue'),
