@@ -36,7 +36,7 @@ async function main(): Promise<void> {
     dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
   })
   try {
-    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1' }
+    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1', ADMIN_SECOND_FACTOR_REQUIRED: 'false' }
     await prepareDatabase(env, { seedDemo: false })
     const t0 = Date.now()
     const data = await loadBenchData({ host: '127.0.0.1', port: stack.mariadb.port, user: env.DB_USER!, password: env.DB_PASSWORD!, database: env.DB_NAME! })

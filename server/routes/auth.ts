@@ -7,10 +7,17 @@ import { csrfTokenFor } from '../middleware/csrf'
 import { loginSchema } from '../../shared/schemas/auth'
 import { changeOwnPassword } from '../services/users'
 import { recordAudit } from '../services/audit'
-import { AppError } from '../errors'
+import { AppError, Forbidden } from '../errors'
+import { hasSecondFactor } from '../services/secondFactor'
 import { endSessionUrl as providerEndSessionUrl } from '../auth/oidcClient'
-import type { SignOutAnswer } from '../../shared/auth/views'
+import type { SignInAnswer, SignOutAnswer } from '../../shared/auth/views'
 import type { SessionUser } from '../../shared/types'
+
+/** passport regenerates the session id in req.login, so a fixated id is worthless. */
+export async function completeSignIn(req: Request, user: SessionUser, how: Record<string, string>): Promise<void> {
+  await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
+  await recordAudit(null, { ...actorOf(req), userId: user.id }, { action: 'sign-in', entity: 'session', entityId: user.id, after: how })
+}
 
 function authenticate(passport: PassportStatic, req: Request, res: Response, next: NextFunction): Promise<SessionUser | null> {
   return new Promise((resolve, reject) => {
@@ -26,12 +33,25 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
   })
 
   api.post('/login', { access: 'public' }, validate(loginSchema), async (req, res, next) => {
+    const mode = ctx.config.localSignIn
+    const directory = ctx.config.oidc?.displayName ?? 'the hospital directory'
+    if (mode === 'off') throw new Forbidden(`Sign-in with a Ferrolane password is switched off; use Sign in with ${directory}`, 'local_sign_in_off')
     const user = await authenticate(passport, req, res, next)
     if (!user) throw new AppError('invalid_credentials', 'E-mail or password is not correct', 401)
-    // passport regenerates the session id here, so a fixated id is worthless.
-    await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
-    await recordAudit(null, { ...actorOf(req), userId: user.id }, { action: 'sign-in', entity: 'session', entityId: user.id })
-    res.json({ user, csrfToken: csrfTokenFor(req) })
+    if (mode === 'admins-only' && user.role !== 'admin') {
+      throw new Forbidden(`Ferrolane passwords are kept for administrators; use Sign in with ${directory}`, 'local_sign_in_admins_only')
+    }
+    if (await hasSecondFactor(user.id)) {
+      // Not signed in yet: the next request must bring the authenticator or a recovery code.
+      req.session.pendingSecondFactor = { userId: user.id, email: user.email, at: Date.now() }
+      const answer: SignInAnswer = { secondFactorRequired: true, csrfToken: csrfTokenFor(req) }
+      return void res.json(answer)
+    }
+    await completeSignIn(req, user, { via: 'password' })
+    const enrol = user.role === 'admin' && ctx.config.adminSecondFactorRequired
+    if (enrol) req.session.secondFactorEnrolmentRequired = true
+    const answer: SignInAnswer = { user, csrfToken: csrfTokenFor(req), ...(enrol ? { secondFactorEnrolmentRequired: true } : {}) }
+    res.json(answer)
   })
 
   api.post('/logout', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
@@ -49,7 +69,7 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
   })
 
   api.get('/me', { access: 'signed-in', duringPasswordChange: true }, (req, res) => {
-    res.json(req.user)
+    res.json(req.session.secondFactorEnrolmentRequired ? { ...req.user, secondFactorEnrolmentRequired: true } : req.user)
   })
 
   api.post('/password', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
