@@ -131,6 +131,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { roles: ROLES, title: 'Change password' },
   },
   {
+    path: '/account/authenticator',
+    name: 'second-factor',
+    component: () => import('@/views/SecondFactorView.vue'),
+    meta: { roles: ROLES, title: 'Authenticator' },
+  },
+  {
     // Patients open this from their appointment e-mail: no account, no app shell.
     path: '/reply/:token',
     name: 'appointment-reply',
