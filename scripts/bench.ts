@@ -37,7 +37,7 @@ async function main(): Promise<void> {
     durability: 'relaxed', // a throw-away database, as in the tests
   })
   try {
-    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1' }
+    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1', ADMIN_SECOND_FACTOR_REQUIRED: 'false' }
     await prepareDatabase(env, { seedDemo: false })
     const t0 = Date.now()
     const data = await loadBenchData({ host: '127.0.0.1', port: stack.mariadb.port, user: env.DB_USER!, password: env.DB_PASSWORD!, database: env.DB_NAME! })

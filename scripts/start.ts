@@ -9,6 +9,8 @@ import path from 'node:path'
 import { startStack, repoRoot, intFromEnv } from './lib/stack'
 import { prepareDatabase } from './lib/prepare'
 import { DEMO_PASSWORD, DEMO_ACCOUNTS } from '../seed/demo/staff'
+import { DEMO_DIRECTORY, DEMO_DIRECTORY_PASSWORD, DEMO_GROUP_ROLES_SETTING, DEMO_OIDC_CLIENT } from '../seed/demo/directory'
+import { startFakeIdentityProvider, type FakeIdentityProvider } from './lib/fakeIdentityProvider'
 
 const dev = process.argv.includes('--dev')
 const port = intFromEnv('PORT', 8080)
@@ -34,6 +36,7 @@ async function main(): Promise<void> {
   })
   let server: ChildProcess | null = null
   let vite: ChildProcess | null = null
+  let directory: FakeIdentityProvider | null = null
   let stopping = false
   const stopAll = async (signal: string) => {
     if (stopping) return
@@ -44,6 +47,7 @@ async function main(): Promise<void> {
       server.kill('SIGTERM')
       await new Promise((r) => server!.once('exit', r))
     }
+    await directory?.stop().catch(() => {})
     await stack.stop()
     console.log('[start] stopped cleanly; your data is kept in .data/')
     process.exit(0)
@@ -56,6 +60,24 @@ async function main(): Promise<void> {
     env.SESSION_SECRET ||= 'ferrolane-local-demo-secret-change-me-in-production'
     // npm start is the demo: the server skips its production refusals (and says so) for it.
     env.FERROLANE_DEMO ||= 'true'
+    // The demo hospital's directory, unless a real provider is configured.
+    if (!env.OIDC_ISSUER) {
+      const appUrl = (env.PUBLIC_URL || `http://127.0.0.1:${dev ? 5173 : port}`).replace(/\/$/, '')
+      directory = await startFakeIdentityProvider({
+        port: intFromEnv('OIDC_FAKE_PORT', 9090),
+        directory: DEMO_DIRECTORY,
+        clients: [{ ...DEMO_OIDC_CLIENT, redirectUris: [`${appUrl}/api/auth/oidc/callback`], postLogoutRedirectUris: [`${appUrl}/sign-in?signedOut=1`] }],
+      })
+      Object.assign(env, {
+        OIDC_ISSUER: directory.issuer,
+        OIDC_CLIENT_ID: DEMO_OIDC_CLIENT.clientId,
+        OIDC_CLIENT_SECRET: DEMO_OIDC_CLIENT.clientSecret,
+        OIDC_REDIRECT_URI: `${appUrl}/api/auth/oidc/callback`,
+        OIDC_POST_LOGOUT_REDIRECT_URI: `${appUrl}/sign-in?signedOut=1`,
+        OIDC_GROUP_ROLES: env.OIDC_GROUP_ROLES || DEMO_GROUP_ROLES_SETTING,
+        OIDC_DISPLAY_NAME: env.OIDC_DISPLAY_NAME || 'Kestrel Vale staff directory',
+      })
+    }
     const seeded = await prepareDatabase(env, { seedDemo: true })
     console.log(seeded ? '[start] loaded the demo scenario (invented data)' : '[start] database already has data; demo not reloaded')
     if (dev) {
@@ -77,7 +99,9 @@ async function main(): Promise<void> {
   maildev        http://127.0.0.1:${mailWebPort}   (every e-mail the app sends lands here)
   Demo sign-ins  (password for all: ${DEMO_PASSWORD})
 ${DEMO_ACCOUNTS.map((a) => `    ${a.role.padEnd(8)} ${a.email}`).join('\n')}
-  Ctrl-C stops everything.
+${directory ? `  Directory      ${directory.issuer}   (fake identity provider; password for all: ${DEMO_DIRECTORY_PASSWORD})
+${DEMO_DIRECTORY.map((p) => `    ${p.email.padEnd(42)} ${p.groups.join(', ')}`).join('\n')}
+` : ''}  Ctrl-C stops everything.
 `)
   } catch (err) {
     console.error('[start] failed:', err instanceof Error ? err.message : err)

@@ -24,6 +24,8 @@ import { setViewAuditWindow } from './services/audit'
 import type { AppContext } from './routes/context'
 import { healthRoutes } from './routes/health'
 import { authRoutes } from './routes/auth'
+import { directoryAuthRoutes } from './routes/directoryAuth'
+import { secondFactorRoutes } from './routes/secondFactor'
 import { userRoutes } from './routes/users'
 import { staffRoutes } from './routes/staff'
 import { patientRoutes } from './routes/patients'
@@ -123,7 +125,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   api.use(screenRequest)
 
   const routers: ApiRouter[] = [
-    healthRoutes(ctx), authRoutes(ctx, passport), userRoutes(ctx),
+    healthRoutes(ctx), authRoutes(ctx, passport), directoryAuthRoutes(ctx), secondFactorRoutes(ctx), userRoutes(ctx),
     staffRoutes(ctx), patientRoutes(ctx), procedureRoutes(ctx), referralRoutes(ctx), worklistRoutes(ctx),
     clinicRoutes(ctx), formularyRoutes(ctx), clinicSettingsRoutes(ctx), readinessRoutes(ctx),
     appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),

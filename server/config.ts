@@ -6,6 +6,8 @@ import path from 'node:path'
 import { DEMO_HOSPITAL } from '../seed/demo/hospital'
 import { isTimeZone } from '../shared/appointments/time'
 import { LIMITS } from '../shared/limits'
+import { isRole, type Role } from '../shared/roles'
+import { LOCAL_SIGN_IN_MODES, type LocalSignInMode } from '../shared/auth/views'
 
 export interface Config {
   env: 'production' | 'development' | 'test'
@@ -75,6 +77,22 @@ export interface Config {
   /** PATIENT_ID_SYSTEM: URI naming the hospital number (MRN) in FHIR exports */ patientIdSystem: string
   /** SHUTDOWN_GRACE_SECONDS: on SIGTERM, how long requests in flight may take to finish */ shutdownGraceSeconds: number
   /** AUDIT_VIEW_WINDOW_MINUTES: a background read of the same record by the same user is audited once per window */ auditViewWindowMinutes: number
+  /** Sign-in through the hospital's OpenID Connect provider; null when OIDC_ISSUER is empty. */
+  oidc: OidcConfig | null
+  /** LOCAL_SIGN_IN: on | admins-only | off — local passwords kept as break glass */ localSignIn: LocalSignInMode
+  /** ADMIN_SECOND_FACTOR_REQUIRED: admins signing in with a local password must enrol and use TOTP */ adminSecondFactorRequired: boolean
+}
+
+export interface OidcConfig {
+  /** OIDC_ISSUER */ issuer: string
+  /** OIDC_CLIENT_ID */ clientId: string
+  /** OIDC_CLIENT_SECRET */ clientSecret: string
+  /** OIDC_REDIRECT_URI: default PUBLIC_URL + /api/auth/oidc/callback */ redirectUri: string
+  /** OIDC_POST_LOGOUT_REDIRECT_URI: default PUBLIC_URL + /sign-in?signedOut=1 */ postLogoutRedirectUri: string
+  /** OIDC_SCOPES */ scopes: string
+  /** OIDC_ROLES_CLAIM: the claim holding the directory groups */ rolesClaim: string
+  /** OIDC_GROUP_ROLES: `Group=role,Group=role`; the first listed group the person holds decides */ groupRoles: [string, Role][]
+  /** OIDC_DISPLAY_NAME: shown as "Sign in with …" */ displayName: string
 }
 
 type Env = Record<string, string | undefined>
@@ -112,11 +130,54 @@ function uri(env: Env, key: string, fallback: string): string {
   return raw
 }
 
+function groupRoles(raw: string): [string, Role][] {
+  const pairs = raw.split(',').map((p) => p.trim()).filter(Boolean).map((p) => {
+    const at = p.lastIndexOf('=')
+    const group = p.slice(0, at).trim()
+    const role = p.slice(at + 1).trim()
+    if (at <= 0 || !group || !isRole(role)) throw new Error(`Configuration: OIDC_GROUP_ROLES entries are Group=role with role one of admin, nurse, doctor, surgeon (got "${p}")`)
+    return [group, role] as [string, Role]
+  })
+  if (pairs.length === 0) throw new Error('Configuration: OIDC_GROUP_ROLES must map at least one directory group to a role when OIDC_ISSUER is set')
+  return pairs
+}
+
+function oidc(env: Env, publicUrl: string): OidcConfig | null {
+  const issuer = env.OIDC_ISSUER?.trim()
+  if (!issuer) return null
+  uri(env, 'OIDC_ISSUER', issuer)
+  const clientId = env.OIDC_CLIENT_ID?.trim() ?? ''
+  if (!clientId) throw new Error('Configuration: OIDC_CLIENT_ID is required when OIDC_ISSUER is set')
+  const scopes = (env.OIDC_SCOPES || 'openid email profile groups').trim()
+  if (!scopes.split(/\s+/).includes('openid')) throw new Error('Configuration: OIDC_SCOPES must include openid')
+  return {
+    issuer,
+    clientId,
+    clientSecret: env.OIDC_CLIENT_SECRET ?? '',
+    redirectUri: uri(env, 'OIDC_REDIRECT_URI', `${publicUrl}/api/auth/oidc/callback`),
+    postLogoutRedirectUri: uri(env, 'OIDC_POST_LOGOUT_REDIRECT_URI', `${publicUrl}/sign-in?signedOut=1`),
+    scopes,
+    rolesClaim: env.OIDC_ROLES_CLAIM || 'groups',
+    groupRoles: groupRoles(env.OIDC_GROUP_ROLES ?? ''),
+    displayName: env.OIDC_DISPLAY_NAME || 'the hospital directory',
+  }
+}
+
+function localSignIn(env: Env): LocalSignInMode {
+  const raw = env.LOCAL_SIGN_IN || 'on'
+  if (!(LOCAL_SIGN_IN_MODES as readonly string[]).includes(raw)) throw new Error(`Configuration: LOCAL_SIGN_IN must be on, admins-only or off (got "${raw}")`)
+  return raw as LocalSignInMode
+}
+
 export function loadConfig(env: Env = process.env): Config {
   const nodeEnv = env.NODE_ENV === 'production' || env.NODE_ENV === 'test' ? env.NODE_ENV : 'development'
   const secret = env.SESSION_SECRET ?? (nodeEnv === 'production' ? '' : 'ferrolane-local-development-secret')
   if (secret.length < 16) throw new Error('Configuration: SESSION_SECRET must be at least 16 characters')
   const port = int(env, 'PORT', 8080, 0)
+  const publicUrl = (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, '')
+  const local = localSignIn(env)
+  const oidcConfig = oidc(env, publicUrl)
+  if (local !== 'on' && !oidcConfig) throw new Error(`Configuration: LOCAL_SIGN_IN=${local} needs OIDC_ISSUER, or nobody but admins could sign in`)
   return {
     env: nodeEnv,
     demo: bool(env, 'FERROLANE_DEMO', false),
@@ -181,11 +242,16 @@ export function loadConfig(env: Env = process.env): Config {
       maxCsvRows: int(env, 'IMPORT_MAX_CSV_ROWS', LIMITS.csvRows, 1, 2_000_000),
     },
     staticDir: env.STATIC_DIR ?? 'dist',
-    publicUrl: (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, ''),
+    publicUrl,
     // Resolved once so a later chdir cannot move the store; the start and test scripts point it into their data dir.
     uploadDir: path.resolve(env.UPLOAD_DIR || '.data/uploads'),
     patientIdSystem: uri(env, 'PATIENT_ID_SYSTEM', DEMO_PATIENT_ID_SYSTEM),
     shutdownGraceSeconds: int(env, 'SHUTDOWN_GRACE_SECONDS', 10, 1, 600),
     auditViewWindowMinutes: int(env, 'AUDIT_VIEW_WINDOW_MINUTES', 15, 0, 24 * 60),
+    oidc: oidcConfig,
+    localSignIn: local,
+    // On unless switched off: the test stack switches it off because its tests sign admins in
+    // with a password everywhere; the second-factor tests switch it back on.
+    adminSecondFactorRequired: bool(env, 'ADMIN_SECOND_FACTOR_REQUIRED', true),
   }
 }

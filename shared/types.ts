@@ -7,6 +7,8 @@ export interface SessionUser {
   name: string
   role: Role
   mustChangePassword: boolean
+  /** Present (true) while an admin who signed in with a password must first set up an authenticator. */
+  secondFactorEnrolmentRequired?: boolean
 }
 
 /** A staff account as the admin screen lists it. */

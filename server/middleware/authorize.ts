@@ -10,7 +10,7 @@ export type Access = 'public' | 'signed-in' | readonly Role[]
 
 export interface AccessOptions {
   access: Access
-  /** Reachable while the user still has to replace a temporary password. */
+  /** Reachable while the user still has to replace a temporary password or enrol a second factor. */
   duringPasswordChange?: boolean
 }
 
@@ -21,6 +21,9 @@ export function authorize(opts: AccessOptions): RequestHandler {
     if (!user) return next(new Unauthenticated())
     if (user.mustChangePassword && !opts.duringPasswordChange) {
       return next(new Forbidden('Choose a new password before continuing', 'password_change_required'))
+    }
+    if (req.session?.secondFactorEnrolmentRequired && !opts.duringPasswordChange) {
+      return next(new Forbidden('Set up your authenticator before continuing', 'second_factor_enrolment_required'))
     }
     if (opts.access !== 'signed-in' && !opts.access.includes(user.role)) return next(new Forbidden())
     next()

@@ -11,6 +11,7 @@ import * as m0010 from './0010-transfusion-inputs'
 import * as m0011 from './0011-dosing-safety'
 import * as m0014 from './0014-security'
 import * as m0012 from './0012-transfusions'
+import * as m0015 from './0015-directory-sign-in'
 
 export interface Migration {
   name: string
@@ -32,4 +33,5 @@ export const migrations: Migration[] = [
   { name: '0011-dosing-safety', ...m0011 },
   { name: '0014-security', ...m0014 },
   { name: '0012-transfusions', ...m0012 },
+  { name: '0015-directory-sign-in', ...m0015 },
 ]

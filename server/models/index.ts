@@ -30,6 +30,8 @@ import { initImportBatch, ImportBatch } from './importBatch'
 import { initImportMapping, ImportMapping } from './importMapping'
 import { initTransfusion, Transfusion } from './transfusion'
 import { initSurgeryDateChange, SurgeryDateChange } from './surgeryDateChange'
+import { initRecoveryCode, RecoveryCode } from './recoveryCode'
+export { RecoveryCode }
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
@@ -44,6 +46,7 @@ export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, Appointm
  */
 export function initModels(sequelize: Sequelize): void {
   initUser(sequelize)
+  initRecoveryCode(sequelize)
   initSessionRow(sequelize)
   initAuditEntry(sequelize)
   initLoginFailure(sequelize)

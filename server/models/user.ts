@@ -12,6 +12,10 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   /** When the temporary password stops working; null once the user has chosen their own. */
   declare temporaryPasswordExpiresAt: CreationOptional<Date | null>
   declare lastSignInAt: CreationOptional<Date | null>
+  declare directorySubject: CreationOptional<string | null>
+  declare totpSecret: CreationOptional<string | null>
+  declare totpEnabledAt: CreationOptional<Date | null>
+  declare totpLastStep: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 }
@@ -28,6 +32,10 @@ export function initUser(sequelize: Sequelize): void {
       mustChangePassword: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       temporaryPasswordExpiresAt: { type: DataTypes.DATE, allowNull: true },
       lastSignInAt: { type: DataTypes.DATE, allowNull: true },
+      directorySubject: { type: DataTypes.STRING(255), allowNull: true, unique: true },
+      totpSecret: { type: DataTypes.STRING(64), allowNull: true },
+      totpEnabledAt: { type: DataTypes.DATE, allowNull: true },
+      totpLastStep: { type: DataTypes.BIGINT, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -9,8 +9,18 @@ import { loginSchema } from '../../shared/schemas/auth'
 import { changeOwnPassword } from '../services/users'
 import { recordAudit } from '../services/audit'
 import { recordSecurityEvent } from '../services/securityEvents'
-import { AppError } from '../errors'
+import { AppError, Forbidden } from '../errors'
+import { hasSecondFactor } from '../services/secondFactor'
+import { endSessionUrl as providerEndSessionUrl } from '../auth/oidcClient'
+import type { SignInAnswer, SignOutAnswer } from '../../shared/auth/views'
 import type { SessionUser } from '../../shared/types'
+
+/** passport regenerates the session id in req.login, so a fixated id is worthless. */
+export async function completeSignIn(req: Request, user: SessionUser, how: Record<string, string>): Promise<void> {
+  await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
+  markSignedIn(req)
+  await recordAudit(null, { ...actorOf(req), userId: user.id }, { action: 'sign-in', entity: 'session', entityId: user.id, after: how })
+}
 
 function authenticate(passport: PassportStatic, req: Request, res: Response, next: NextFunction): Promise<SessionUser | null> {
   return new Promise((resolve, reject) => {
@@ -26,6 +36,9 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
   })
 
   api.post('/login', { access: 'public' }, validate(loginSchema), async (req, res, next) => {
+    const mode = ctx.config.localSignIn
+    const directory = ctx.config.oidc?.displayName ?? 'the hospital directory'
+    if (mode === 'off') throw new Forbidden(`Sign-in with a Ferrolane password is switched off; use Sign in with ${directory}`, 'local_sign_in_off')
     const email = String((req.body as { email: string }).email).slice(0, 190)
     const user = await authenticate(passport, req, res, next).catch(async (err: unknown) => {
       if (err instanceof AppError) {
@@ -38,24 +51,38 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
       await recordSecurityEvent(actorOf(req), 'sign-in-failed', 'login', { email, reason: 'invalid_credentials' })
       throw new AppError('invalid_credentials', 'E-mail or password is not correct', 401)
     }
-    // passport regenerates the session id here, so a fixated id is worthless.
-    await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
-    markSignedIn(req)
-    await recordAudit(null, { ...actorOf(req), userId: user.id }, { action: 'sign-in', entity: 'session', entityId: user.id })
-    res.json({ user, csrfToken: csrfTokenFor(req) })
+    if (mode === 'admins-only' && user.role !== 'admin') {
+      throw new Forbidden(`Ferrolane passwords are kept for administrators; use Sign in with ${directory}`, 'local_sign_in_admins_only')
+    }
+    if (await hasSecondFactor(user.id)) {
+      // Not signed in yet: the next request must bring the authenticator or a recovery code.
+      req.session.pendingSecondFactor = { userId: user.id, email: user.email, at: Date.now() }
+      const answer: SignInAnswer = { secondFactorRequired: true, csrfToken: csrfTokenFor(req) }
+      return void res.json(answer)
+    }
+    await completeSignIn(req, user, { via: 'password' })
+    const enrol = user.role === 'admin' && ctx.config.adminSecondFactorRequired
+    if (enrol) req.session.secondFactorEnrolmentRequired = true
+    const answer: SignInAnswer = { user, csrfToken: csrfTokenFor(req), ...(enrol ? { secondFactorEnrolmentRequired: true } : {}) }
+    res.json(answer)
   })
 
   api.post('/logout', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
     const actor = signedInActor(req)
+    const idToken = req.session.directoryIdToken
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())))
     await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())))
-    await recordAudit(null, actor, { action: 'sign-out', entity: 'session', entityId: actor.userId })
+    // A directory session ends at the provider too (RP-initiated logout): the client goes there next.
+    const endSessionUrl = idToken && ctx.config.oidc ? await providerEndSessionUrl(ctx.config.oidc, idToken).catch(() => null) : null
+    await recordAudit(null, actor, { action: 'sign-out', entity: 'session', entityId: actor.userId, after: idToken ? { via: 'directory', providerSignOut: Boolean(endSessionUrl) } : null })
     res.clearCookie('ferrolane.sid')
-    res.status(204).end()
+    if (!idToken) return void res.status(204).end()
+    const answer: SignOutAnswer = { endSessionUrl }
+    res.json(answer)
   })
 
   api.get('/me', { access: 'signed-in', duringPasswordChange: true }, (req, res) => {
-    res.json(req.user)
+    res.json(req.session.secondFactorEnrolmentRequired ? { ...req.user, secondFactorEnrolmentRequired: true } : req.user)
   })
 
   api.post('/password', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {

@@ -69,3 +69,31 @@ export async function checkCredentials(email: string, password: string, ip: stri
   await user.update({ lastSignInAt: new Date() })
   return toSessionUser(user)
 }
+
+// Second-factor codes share the sign-in throttle. Wrong codes also go in a bucket of their own,
+// which a right password does not clear, so password-then-guess cycles cannot reset the count.
+function secondFactorBucket(email: string): string {
+  return `second-factor:${email.toLowerCase()}`
+}
+
+/** Throws TooMany while the account or address is locked out, before any code is checked. */
+export async function checkSecondFactorThrottle(config: Config, email: string, ip: string): Promise<void> {
+  const b = buckets(email, ip)
+  const windowStart = new Date(Date.now() - config.login.windowMinutes * 60_000)
+  const [byAccount, byAddress, byCode] = await Promise.all([failuresIn(b.account, windowStart), failuresIn(b.address, windowStart), failuresIn(secondFactorBucket(email), windowStart)])
+  if (Math.max(byAccount, byCode) >= config.login.maxFailuresPerAccount || byAddress >= config.login.maxFailuresPerAddress) {
+    throw new TooMany(`Too many failed sign-ins. Wait ${config.login.windowMinutes} minutes and try again, or ask an administrator.`)
+  }
+}
+
+export async function countSecondFactorFailure(config: Config, email: string, ip: string): Promise<void> {
+  const b = buckets(email, ip)
+  const windowStart = new Date(Date.now() - config.login.windowMinutes * 60_000)
+  await countFailure(b.account, windowStart)
+  await countFailure(b.address, windowStart)
+  await countFailure(secondFactorBucket(email), windowStart)
+}
+
+export async function clearSecondFactorFailures(email: string): Promise<void> {
+  await LoginFailure.destroy({ where: { bucket: [buckets(email, '').account, secondFactorBucket(email)] } })
+}

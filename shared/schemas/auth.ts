@@ -34,3 +34,9 @@ export const changePasswordSchema = yup.object({
   newPassword: newPasswordField,
 })
 export type ChangePasswordInput = yup.InferType<typeof changePasswordSchema>
+
+/** A six-digit authenticator code, or one of the recovery codes shown at enrolment. */
+export const secondFactorCodeSchema = yup.object({
+  code: yup.string().trim().required('Enter the code').max(32, 'That code is too long'),
+})
+export type SecondFactorCodeInput = yup.InferType<typeof secondFactorCodeSchema>

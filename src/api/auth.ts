@@ -1,4 +1,5 @@
 import type { SessionUser } from '@shared/types'
+import type { SecondFactorEnrolled, SecondFactorEnrolment, SecondFactorStatus, SignInAnswer, SignInProviders, SignOutAnswer } from '@shared/auth/views'
 import type { ChangePasswordInput, LoginInput } from '@shared/schemas/auth'
 import { api, isApiError, setCsrfToken } from './client'
 
@@ -12,16 +13,45 @@ export async function fetchMe(): Promise<SessionUser | null> {
   }
 }
 
-export async function login(input: LoginInput): Promise<SessionUser> {
-  const { user, csrfToken } = await api.post<{ user: SessionUser; csrfToken: string }>('/auth/login', input)
+/** The user once signed in, or 'second-factor' when an authenticator code is due first. */
+export type SignInStep = SessionUser | 'second-factor'
+
+function signedIn(answer: SignInAnswer): SignInStep {
   // The session id is regenerated at sign-in, so the old token no longer matches.
-  setCsrfToken(csrfToken)
-  return user
+  setCsrfToken(answer.csrfToken)
+  if ('secondFactorRequired' in answer) return 'second-factor'
+  return answer.secondFactorEnrolmentRequired ? { ...answer.user, secondFactorEnrolmentRequired: true } : answer.user
 }
 
-export async function logout(): Promise<void> {
+export async function login(input: LoginInput): Promise<SignInStep> {
+  return signedIn(await api.post<SignInAnswer>('/auth/login', input))
+}
+
+export async function loginSecondFactor(code: string): Promise<SignInStep> {
+  return signedIn(await api.post<SignInAnswer>('/auth/login/second-factor', { code }))
+}
+
+export function fetchSecondFactorStatus(): Promise<SecondFactorStatus> {
+  return api.get<SecondFactorStatus>('/auth/second-factor')
+}
+
+export function startSecondFactorEnrolment(): Promise<SecondFactorEnrolment> {
+  return api.post<SecondFactorEnrolment>('/auth/second-factor/enrolment')
+}
+
+export function confirmSecondFactorEnrolment(code: string): Promise<SecondFactorEnrolled> {
+  return api.post<SecondFactorEnrolled>('/auth/second-factor/enrolment/confirm', { code })
+}
+
+export function fetchProviders(): Promise<SignInProviders> {
+  return api.get<SignInProviders>('/auth/providers')
+}
+
+/** Answers where to send the browser to end the directory session too, or null for a local session. */
+export async function logout(): Promise<string | null> {
   try {
-    await api.post<void>('/auth/logout')
+    const answer = await api.post<SignOutAnswer | undefined>('/auth/logout')
+    return answer?.endSessionUrl ?? null
   } finally {
     setCsrfToken(null)
   }

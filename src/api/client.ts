@@ -103,8 +103,8 @@ async function request<T>(method: Method, path: string, body?: unknown, extra?: 
 function notify(error: unknown): void {
   if (!(error instanceof ApiError)) return
   // A wrong password (at sign-in or when changing it) is not a lost session.
-  if (error.code === 'invalid_credentials') return
-  if (error.status === 401 || error.code === 'password_change_required') onAuthFailure?.(error)
+  if (error.code === 'invalid_credentials' || error.code === 'invalid_code') return
+  if (error.status === 401 || error.code === 'password_change_required' || error.code === 'second_factor_enrolment_required') onAuthFailure?.(error)
 }
 
 export const api = {

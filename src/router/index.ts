@@ -59,8 +59,10 @@ export function installGuards(pinia: Pinia): void {
     if (!user) {
       return { name: 'sign-in', query: to.fullPath === '/' ? {} : { redirect: to.fullPath } }
     }
-    await loadClinicProfileOnce()
+    // Before the clinic profile: that call is closed until the password or authenticator is set up.
     if (user.mustChangePassword && to.name !== 'change-password') return { name: 'change-password' }
+    if (user.secondFactorEnrolmentRequired && to.name !== 'second-factor') return { name: 'second-factor' }
+    if (!user.mustChangePassword && !user.secondFactorEnrolmentRequired) await loadClinicProfileOnce()
     if (to.name === 'home') return homeRouteFor(user.role)
     if (to.meta.roles && !to.meta.roles.includes(user.role)) return { name: 'forbidden', query: { from: to.fullPath } }
     return true
@@ -73,6 +75,11 @@ export function installGuards(pinia: Pinia): void {
     if (error.code === 'password_change_required') {
       session.markPasswordChangeRequired()
       void router.push({ name: 'change-password' })
+      return
+    }
+    if (error.code === 'second_factor_enrolment_required') {
+      session.markSecondFactorRequired()
+      void router.push({ name: 'second-factor' })
       return
     }
     const from = router.currentRoute.value.fullPath

@@ -17,6 +17,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, title: 'Sign in' },
   },
   {
+    path: '/sign-in/refused',
+    name: 'sign-in-refused',
+    component: () => import('@/views/SignInRefusedView.vue'),
+    meta: { public: true, title: 'Sign-in refused' },
+  },
+  {
     path: '/screening',
     name: 'nurse-home',
     component: () => import('@/views/NurseHomeView.vue'),
@@ -126,6 +132,12 @@ export const routes: RouteRecordRaw[] = [
     name: 'change-password',
     component: () => import('@/views/ChangePasswordView.vue'),
     meta: { roles: ROLES, title: 'Change password' },
+  },
+  {
+    path: '/account/authenticator',
+    name: 'second-factor',
+    component: () => import('@/views/SecondFactorView.vue'),
+    meta: { roles: ROLES, title: 'Authenticator' },
   },
   {
     // Patients open this from their appointment e-mail: no account, no app shell.

@@ -22,9 +22,17 @@ export const useSessionStore = defineStore('session', () => {
     if (user.value) user.value = { ...user.value, mustChangePassword: true }
   }
 
+  function markSecondFactorEnrolled(): void {
+    if (user.value) user.value = { ...user.value, secondFactorEnrolmentRequired: false }
+  }
+
+  function markSecondFactorRequired(): void {
+    if (user.value) user.value = { ...user.value, secondFactorEnrolmentRequired: true }
+  }
+
   function clear(): void {
     user.value = null
   }
 
-  return { user, isSignedIn, roleLabel, setUser, markPasswordChanged, markPasswordChangeRequired, clear }
+  return { user, isSignedIn, roleLabel, setUser, markPasswordChanged, markPasswordChangeRequired, markSecondFactorEnrolled, markSecondFactorRequired, clear }
 })

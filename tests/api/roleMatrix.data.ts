@@ -22,6 +22,15 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/auth/logout', allow: 'signed-in' },
   { method: 'GET', path: '/api/auth/me', allow: 'signed-in' },
   { method: 'POST', path: '/api/auth/password', allow: 'signed-in' },
+  // Directory (OpenID Connect) sign-in: reached before anyone is signed in.
+  { method: 'GET', path: '/api/auth/providers', allow: 'public' },
+  { method: 'GET', path: '/api/auth/oidc/start', allow: 'public' },
+  { method: 'GET', path: '/api/auth/oidc/callback', allow: 'public' },
+  // Second factor for local accounts: the code step comes before a session exists.
+  { method: 'POST', path: '/api/auth/login/second-factor', allow: 'public' },
+  { method: 'GET', path: '/api/auth/second-factor', allow: 'signed-in' },
+  { method: 'POST', path: '/api/auth/second-factor/enrolment', allow: 'signed-in' },
+  { method: 'POST', path: '/api/auth/second-factor/enrolment/confirm', allow: 'signed-in' },
   { method: 'GET', path: '/api/users', allow: ['admin'] },
   { method: 'POST', path: '/api/users', allow: ['admin'] },
   { method: 'PATCH', path: '/api/users/:id', allow: ['admin'] },

@@ -1,5 +1,5 @@
 import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core'
-import type { Server } from 'node:http'
+import { createServer, type RequestListener, type Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import { makeTestApp, type TestApp } from './app'
 
@@ -30,18 +30,27 @@ export interface ServedApp extends TestApp {
   stop(): Promise<void>
 }
 
-/** The real app serving the client that `npm test` built, on a free loopback port. */
-export async function serveBuiltApp(overrides: Record<string, string> = {}): Promise<ServedApp> {
+/**
+ * The real app serving the client that `npm test` built, on a free loopback port. `overrides`
+ * may be a function of the app's own URL, for settings that must name it (an OIDC redirect URI).
+ */
+export async function serveBuiltApp(
+  overrides: Record<string, string> | ((baseUrl: string) => Promise<Record<string, string>>) = {},
+): Promise<ServedApp> {
   const staticDir = process.env.STATIC_DIR
   if (!staticDir) throw new Error('STATIC_DIR is not set: run the browser tests through npm test')
-  const t = makeTestApp({ STATIC_DIR: staticDir, ...overrides })
+  let handler: RequestListener = (_req, res) => res.writeHead(503).end()
   const server: Server = await new Promise((resolve) => {
-    const s = t.app.listen(0, '127.0.0.1', () => resolve(s))
+    const s = createServer((req, res) => handler(req, res)).listen(0, '127.0.0.1', () => resolve(s))
   })
   const { port } = server.address() as AddressInfo
+  const baseUrl = `http://127.0.0.1:${port}`
+  const extra = typeof overrides === 'function' ? await overrides(baseUrl) : overrides
+  const t = makeTestApp({ STATIC_DIR: staticDir, ...extra })
+  handler = t.app
   return {
     ...t,
-    baseUrl: `http://127.0.0.1:${port}`,
+    baseUrl,
     stop: async () => {
       server.closeAllConnections()
       await new Promise((r) => server.close(r))
