@@ -40,12 +40,12 @@ export function secondFactorRoutes(ctx: AppContext): ApiRouter {
     const how = await verifySecondFactor(ctx.sequelize, pending.userId, req.body.code)
     const user = how ? await findActiveUser(pending.userId) : null
     if (!how || !user) {
-      await countSecondFactorFailure(ctx.config, pending.email, ip)
+      await countSecondFactorFailure(ctx.config, pending.email)
       await recordAudit(null, { ...actorOf(req), userId: pending.userId }, { action: 'sign-in-refused', entity: 'session', entityId: pending.userId, after: { via: 'password', reason: 'wrong second-factor code' } })
       throw new AppError('invalid_code', 'That code is not right, or was already used', 401)
     }
     delete req.session.pendingSecondFactor
-    await clearSecondFactorFailures(pending.email)
+    await clearSecondFactorFailures(pending.email, ip)
     await completeSignIn(req, user, { via: 'password', secondFactor: how })
     const answer: SignInAnswer = { user, csrfToken: csrfTokenFor(req) }
     res.json(answer)

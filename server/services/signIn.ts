@@ -70,30 +70,44 @@ export async function checkCredentials(email: string, password: string, ip: stri
   return toSessionUser(user)
 }
 
-// Second-factor codes share the sign-in throttle. Wrong codes also go in a bucket of their own,
-// which a right password does not clear, so password-then-guess cycles cannot reset the count.
+// Second-factor codes share the sign-in throttle. The throttle middleware has already counted
+// this request against the address (it guards every /auth/login path); wrong codes also go in the
+// account's bucket and in one of their own, which a right password does not clear, so
+// password-then-guess cycles cannot reset the count.
 function secondFactorBucket(email: string): string {
-  return `second-factor:${email.toLowerCase()}`
+  return `second-factor:${createHash('sha256').update(email.trim().toLowerCase()).digest('hex')}`
 }
 
-/** Throws TooMany while the account or address is locked out, before any code is checked. */
+async function failuresIn(bucket: string, windowStart: Date): Promise<number> {
+  const rows = await LoginFailure.sequelize!.query<{ failures: number }>(
+    'SELECT failures FROM login_failures WHERE bucket = ? AND window_started_at >= ?',
+    { replacements: [bucket, windowStart], type: QueryTypes.SELECT },
+  )
+  return Number(rows[0]?.failures ?? 0)
+}
+
+/** Throws TooMany while the account, its codes or the address are locked out, before any code is checked. */
 export async function checkSecondFactorThrottle(config: Config, email: string, ip: string): Promise<void> {
-  const b = buckets(email, ip)
   const windowStart = new Date(Date.now() - config.login.windowMinutes * 60_000)
-  const [byAccount, byAddress, byCode] = await Promise.all([failuresIn(b.account, windowStart), failuresIn(b.address, windowStart), failuresIn(secondFactorBucket(email), windowStart)])
-  if (Math.max(byAccount, byCode) >= config.login.maxFailuresPerAccount || byAddress >= config.login.maxFailuresPerAddress) {
+  const [byAccount, byAddress, byCode] = await Promise.all([
+    failuresIn(accountBucket(email)!, windowStart), failuresIn(addressBucket(ip), windowStart), failuresIn(secondFactorBucket(email), windowStart),
+  ])
+  if (Math.max(byAccount, byCode) >= config.login.maxFailuresPerAccount || byAddress > config.login.maxFailuresPerAddress) {
     throw new TooMany(`Too many failed sign-ins. Wait ${config.login.windowMinutes} minutes and try again, or ask an administrator.`)
   }
 }
 
-export async function countSecondFactorFailure(config: Config, email: string, ip: string): Promise<void> {
-  const b = buckets(email, ip)
+/** A wrong code: one more failure for the account and for the account's codes. */
+export async function countSecondFactorFailure(config: Config, email: string): Promise<void> {
   const windowStart = new Date(Date.now() - config.login.windowMinutes * 60_000)
-  await countFailure(b.account, windowStart)
-  await countFailure(b.address, windowStart)
-  await countFailure(secondFactorBucket(email), windowStart)
+  await bump(accountBucket(email)!, windowStart)
+  await bump(secondFactorBucket(email), windowStart)
 }
 
-export async function clearSecondFactorFailures(email: string): Promise<void> {
-  await LoginFailure.destroy({ where: { bucket: [buckets(email, '').account, secondFactorBucket(email)] } })
+/** A right code: the account's failures are cleared and this attempt comes back off the address. */
+export async function clearSecondFactorFailures(email: string, ip: string): Promise<void> {
+  await LoginFailure.destroy({ where: { bucket: [accountBucket(email)!, secondFactorBucket(email)] } })
+  await LoginFailure.sequelize!.query('UPDATE login_failures SET failures = GREATEST(failures, 1) - 1 WHERE bucket = ?', {
+    replacements: [addressBucket(ip)], type: QueryTypes.UPDATE,
+  })
 }
