@@ -7,6 +7,7 @@ import * as m0005 from './0005-worklist-sort'
 import * as m0006 from './0006-outcomes'
 import * as m0007 from './0007-imports'
 import * as m0008 from './0008-documents'
+import * as m0013 from './0013-hl7'
 
 export interface Migration {
   name: string
@@ -24,4 +25,5 @@ export const migrations: Migration[] = [
   { name: '0006-outcomes', ...m0006 },
   { name: '0007-imports', ...m0007 },
   { name: '0008-documents', ...m0008 },
+  { name: '0013-hl7', ...m0013 },
 ]

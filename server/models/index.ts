@@ -28,12 +28,14 @@ import { initEpisodeDocument, EpisodeDocument } from './episodeDocument'
 import { initLetter, Letter } from './letter'
 import { initImportBatch, ImportBatch } from './importBatch'
 import { initImportMapping, ImportMapping } from './importMapping'
+import { initHl7Message, Hl7MessageRow } from './hl7Message'
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
 export { Outcome }
 export { EpisodeDocument, Letter }
 export { ImportBatch, ImportMapping }
+export { Hl7MessageRow }
 export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, AppointmentReplyToken, AppointmentReplyFailure, AppointmentTask }
 
 /**
@@ -70,6 +72,7 @@ export function initModels(sequelize: Sequelize): void {
   initLetter(sequelize)
   initImportBatch(sequelize)
   initImportMapping(sequelize)
+  initHl7Message(sequelize)
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
   Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })

@@ -32,6 +32,10 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   declare cardiovascularDisease: CreationOptional<boolean>
   /** The surgeon asked for the date to move; the clinic sees a flag until the date changes. */
   declare dateChangeRequestedAt: CreationOptional<Date | null>
+  /** The theatre system's placer appointment id (HL7 SIU SCH-1/SCH-2) of the booked operation. */
+  declare placerAppointmentId: CreationOptional<string | null>
+  /** Earlier planned dates, each with when and why it moved (theatre bookings keep it). */
+  declare surgeryDateHistory: CreationOptional<{ from: string | null; to: string | null; at: string; reason: string | null; source: string }[] | null>
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -61,6 +65,8 @@ export function initReferral(sequelize: Sequelize): void {
       treatmentGivenAt: { type: DataTypes.DATE, allowNull: true },
       cardiovascularDisease: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       dateChangeRequestedAt: { type: DataTypes.DATE, allowNull: true },
+      placerAppointmentId: { type: DataTypes.STRING(80), allowNull: true },
+      surgeryDateHistory: { type: DataTypes.JSON, allowNull: true },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

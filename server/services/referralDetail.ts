@@ -50,7 +50,7 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
   assertMaySeeReferral(viewer, r.surgeonId)
   const [patient, resultRows, transitions] = await Promise.all([
     toPatientView(r.patient),
-    Result.findAll({ where: { referralId: id }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
+    Result.findAll({ where: { referralId: id, voidedAt: null }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
     StageTransition.findAll({ where: { referralId: id }, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']] }),
   ])
   if (opts.audit) await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId })
