@@ -42,6 +42,8 @@ async function adaOnWorklist(c: Client) {
   return (res.body.rows as { mrn: string; latestHbGL: number | null; anaemic: boolean | null; ironStatus: string | null }[]).find((r) => r.mrn === 'KV100200')!
 }
 
+const rowOf = async (c: Client, mrn: string) => ((await c.get(`/api/worklist?q=${mrn}`)).body.rows as { mrn: string; plannedSurgeryDate: string; flags: string[] }[]).find((r) => r.mrn === mrn)!
+
 describe('the invented sample messages in seed/hl7, sent with npm run hl7:send', () => {
   it("when the laboratory's results for Ada Larkspur are sent, then her worklist row shows the Hb and the anaemia, and the correction then replaces it", async () => {
     const nurse = await new Client(t.app).mustSignIn('nurse@ferrolane.test', DEMO_PASSWORD)
@@ -56,5 +58,13 @@ describe('the invented sample messages in seed/hl7, sent with npm run hl7:send',
     const out = await hl7Send('03-unknown-patient.hl7')
     expect(out).toContain('AE DEMO-LAB-0003 — no patient has MRN KV999901')
     expect(await Hl7MessageRow.count({ where: { needsAttention: true } })).toBe(1)
+  }, 150_000)
+
+  it("when the theatre system books and then moves Bram Thistlewood's operation, then the worklist shows the new date and the date-change flag", async () => {
+    const nurse = await new Client(t.app).mustSignIn('nurse@ferrolane.test', DEMO_PASSWORD)
+    const out = await hl7Send('04-bram-theatre-move.hl7')
+    expect(out).toContain('AA DEMO-THR-0001')
+    expect(out).toContain('AA DEMO-THR-0002')
+    expect(await rowOf(nurse, 'KV100237')).toMatchObject({ plannedSurgeryDate: '2027-02-08', flags: expect.arrayContaining(['date-change-requested']) })
   }, 150_000)
 })

@@ -8,10 +8,12 @@ import type { Actor } from '../audit'
 import { buildAck, Hl7Problem, type AckCode } from './ack'
 import { readOru } from './oruRead'
 import { storeOru } from './oruStore'
+import { storeSiu } from './siu'
+import { storeAdt } from './adt'
 import type { Hl7Change } from '../../../shared/hl7'
 
 /** Message types Ferrolane takes (MSH-9 type^event). */
-const HANDLED = ['ORU^R01'] as const
+const HANDLED = ['ORU^R01', 'SIU^S12', 'SIU^S13', 'SIU^S14', 'SIU^S15', 'ADT^A08'] as const
 
 export interface Header { controlId: string; sendingApp: string; sendingFacility: string; type: string; version: string }
 
@@ -37,7 +39,8 @@ async function apply(sequelize: Sequelize, config: Config, msg: Hl7Message, h: H
     const groups = readOru(msg, { authority: config.hl7.assigningAuthority, codes, timeZone: config.clinic.timeZone, now: Date.now() })
     return storeOru(sequelize, groups, { messageId, controlId: h.controlId, actor }, t)
   }
-  throw new Hl7Problem('AR', 'unsupported-type', `message type ${h.type} is not one Ferrolane takes`, '200', { segment: 'MSH', field: 9 })
+  if (h.type.startsWith('SIU^')) return storeSiu(config, msg, h.type.slice(4), { messageId, controlId: h.controlId, actor }, t)
+  return storeAdt(config, msg, { messageId, actor }, t)
 }
 
 function checkHeader(h: Header): void {
