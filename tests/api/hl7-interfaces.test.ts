@@ -48,6 +48,9 @@ describe('the Interfaces API', () => {
     const res = await admin.get(`/api/interfaces/hl7/messages/${id}`).expect(200)
     expect(res.body.segments.map((s: { name: string }) => s.name)).toEqual(['MSH', 'PID', 'OBR', 'OBX'])
     expect(res.body.segments[3].fields[4]).toBe('99')
+    // Numbered as the standard numbers them: MSH-1 the field separator, MSH-10 the control id.
+    expect(res.body.segments[0].fields.slice(0, 3)).toEqual(['|', '^~\\&', 'KVLAB'])
+    expect(res.body.segments[0].fields[9]).toBe('IF-2')
     expect(res.body.ack).toContain('MSA|AE|IF-2')
     expect(await AuditEntry.count({ where: { action: 'view', entity: 'hl7_message', entityId: String(id) } })).toBe(1)
   })

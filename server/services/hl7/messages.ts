@@ -37,7 +37,11 @@ export async function messageDetail(id: number): Promise<Hl7MessageDetail> {
   if (!r) throw new NotFound('HL7 message')
   let segments: Hl7MessageDetail['segments']
   try {
-    segments = Hl7Message.parse(r.raw).segments.map((s) => ({ name: s.name, fields: s.fields.slice(1).map((f) => f.toString()) }))
+    segments = Hl7Message.parse(r.raw).segments.map((s) => {
+      const fields = s.fields.slice(1).map((f) => f.toString())
+      // MSH-1 is the field separator itself, which the parser does not keep as a field: put it back so numbers match the standard.
+      return { name: s.name, fields: s.name === 'MSH' && fields[0] !== '|' ? ['|', ...fields] : fields }
+    })
   } catch {
     segments = r.raw.split(/\r\n?|\n/).filter(Boolean).map((line) => ({ name: line.slice(0, 3), fields: line.split('|').slice(1) }))
   }
