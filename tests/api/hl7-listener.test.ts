@@ -41,6 +41,15 @@ describe('the MLLP listener and what it is sent', () => {
     await stillAnswers()
   })
 
+  it('when a message has a header but no control id, or is only a bare MSH, then the answer is AR, nothing is stored, and the listener keeps answering', async () => {
+    const noId = oru({ mrn: 'HL71001', control: '', obx: [{ value: '120' }] })
+    const { received } = await rawExchange(port, [`${VT}${noId}${END}`, `${VT}MSH|${END}`], { waitMs: 2000 })
+    expect(received.match(/MSA\|AR\|/g)?.length).toBe(2)
+    expect(received).toContain('control id is empty')
+    expect(await Hl7MessageRow.count()).toBe(0)
+    await stillAnswers()
+  })
+
   it('when a message is larger than the limit, then the connection is closed with AR and nothing is stored', { timeout: 15_000 }, async () => {
     const big = oru({ mrn: 'HL71001', obx: [{ value: '120' }] }) + '\rNTE|1||' + 'x'.repeat(MAX + 10)
     const { received, closedByServer } = await rawExchange(port, [VT, big, END], { waitMs: 8000 })

@@ -122,7 +122,7 @@ export class MllpListener {
           const problem = new Hl7Problem('AE', 'internal', 'the message could not be processed now; nothing was stored; send it again later')
           if (!socket.destroyed) conn.send(Hl7Message.parse(buildAck(event.message, 'AE', problem)))
         }
-      })
+      }).catch(this.lost(socket))
     })
     conn.addEventListener('error', (event: Hl7ErrorEvent) => {
       const err = event.error as Error & { code?: string }
@@ -130,7 +130,15 @@ export class MllpListener {
       if (err.code || socket.destroyed) return
       queue = queue.then(() => {
         if (!socket.destroyed) conn.send(Hl7Message.parse(rejectUnreadable(`the frame is not a readable HL7 v2 message (${err.message})`)))
-      })
+      }).catch(this.lost(socket))
     })
+  }
+
+  /** Whatever fails while answering closes that one connection (the sender will resend); the queue and the process go on. */
+  private lost(socket: net.Socket): (err: unknown) => void {
+    return (err) => {
+      this.log(`[hl7] connection closed after an error: ${(err as Error).message}`)
+      socket.destroy()
+    }
   }
 }
