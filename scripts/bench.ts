@@ -1,7 +1,7 @@
 /**
  * npm run bench: builds the client into .bench-data/ and prints one JSON line per figure.
  * Its own MariaDB (.bench-data/, port 3410) holds the bench database, loaded once and kept.
- * `npm run bench -- bundle`, `-- worklist`, `-- reports` or `-- imports` runs one part.
+ * `npm run bench -- bundle`, `-- worklist`, `-- reports`, `-- imports` or `-- hl7` runs one part.
  * BENCH_DATA_DIR (default .bench-data) and BENCH_DB_PORT let two benches run side by side.
  */
 import { spawnSync } from 'node:child_process'
@@ -14,6 +14,7 @@ import { loadBenchData } from './bench/benchData'
 import { benchWorklist } from './bench/worklist'
 import { benchReports } from './bench/reports'
 import { benchImports } from './bench/imports'
+import { benchHl7 } from './bench/hl7'
 
 const benchDir = path.resolve(repoRoot, process.env.BENCH_DATA_DIR || '.bench-data')
 const only = process.argv.slice(2)
@@ -30,7 +31,7 @@ async function main(): Promise<void> {
     buildClient(dist)
     console.log(JSON.stringify(bundleReport(dist)))
   }
-  if (!wants('worklist') && !wants('reports') && !wants('imports')) return
+  if (!wants('worklist') && !wants('reports') && !wants('imports') && !wants('hl7')) return
   const stack = await startStack({
     label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
     dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
@@ -46,6 +47,7 @@ async function main(): Promise<void> {
     if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail, databasePid)))
     if (wants('reports')) console.log(JSON.stringify(await benchReports(env)))
     if (wants('imports')) console.log(JSON.stringify(await benchImports(env, data.nurseEmail, benchDir)))
+    if (wants('hl7')) console.log(JSON.stringify(await benchHl7(env)))
   } finally {
     await stack.stop()
   }

@@ -78,6 +78,8 @@ async function main(): Promise<void> {
         OIDC_DISPLAY_NAME: env.OIDC_DISPLAY_NAME || 'Kestrel Vale staff directory',
       })
     }
+    // The demo takes laboratory results and theatre bookings over MLLP (npm run hl7:send).
+    env.HL7_MLLP_ENABLED ||= 'true'
     const seeded = await prepareDatabase(env, { seedDemo: true })
     console.log(seeded ? '[start] loaded the demo scenario (invented data)' : '[start] database already has data; demo not reloaded')
     if (dev) {
@@ -97,6 +99,7 @@ async function main(): Promise<void> {
     console.log(`
   Ferrolane      http://127.0.0.1:${dev ? 5173 : port}
   maildev        http://127.0.0.1:${mailWebPort}   (every e-mail the app sends lands here)
+  HL7 MLLP       ${env.HL7_MLLP_HOST || "127.0.0.1"}:${env.HL7_MLLP_PORT || 2575}   (npm run hl7:send -- seed/hl7/*.hl7)
   Demo sign-ins  (password for all: ${DEMO_PASSWORD})
 ${DEMO_ACCOUNTS.map((a) => `    ${a.role.padEnd(8)} ${a.email}`).join('\n')}
 ${directory ? `  Directory      ${directory.issuer}   (fake identity provider; password for all: ${DEMO_DIRECTORY_PASSWORD})

@@ -50,6 +50,7 @@ import { documentDownloadRoutes, documentRoutes } from './routes/documents'
 import { appointmentLetterRoutes, letterDownloadRoutes, letterRoutes } from './routes/letters'
 import { fhirExportRoutes } from './routes/fhirExport'
 import { importRoutes } from './routes/imports'
+import { interfaceRoutes } from './routes/interfaces'
 
 export const SESSION_COOKIE = 'ferrolane.sid'
 
@@ -131,7 +132,7 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
     appointmentRoutes(ctx), referralAppointmentRoutes(ctx), infusionSessionRoutes(ctx), outboxRoutes(ctx), appointmentTaskRoutes(ctx), replyRoutes(ctx),
     outcomeRoutes(ctx), transfusionRoutes(ctx), reportRoutes(ctx), auditRoutes(ctx), clinicProfileRoutes(ctx),
     documentRoutes(ctx), documentDownloadRoutes(ctx), letterRoutes(ctx), appointmentLetterRoutes(ctx), letterDownloadRoutes(ctx), fhirExportRoutes(ctx),
-    importRoutes(ctx),
+    importRoutes(ctx), interfaceRoutes(ctx),
   ]
   for (const r of routers) api.use(r.prefix.replace(/^\/api/, ''), r.router)
   api.use(apiNotFound)

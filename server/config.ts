@@ -81,6 +81,17 @@ export interface Config {
   oidc: OidcConfig | null
   /** LOCAL_SIGN_IN: on | admins-only | off — local passwords kept as break glass */ localSignIn: LocalSignInMode
   /** ADMIN_SECOND_FACTOR_REQUIRED: admins signing in with a local password must enrol and use TOTP */ adminSecondFactorRequired: boolean
+  hl7: {
+    /** HL7_MLLP_ENABLED: listen for HL7 v2 messages over MLLP (npm start turns it on) */ enabled: boolean
+    /** HL7_MLLP_HOST */ host: string
+    /** HL7_MLLP_PORT: 0 picks a free port (the tests) */ port: number
+    /** HL7_ASSIGNING_AUTHORITY: PID-3 assigning authority of the hospital number (MRN) */ assigningAuthority: string
+    /** HL7_RETENTION_DAYS: messages older than this are deleted, unless they still need attention */ retentionDays: number
+    /** HL7_MAX_MESSAGE_BYTES */ maxMessageBytes: number
+    /** HL7_IDLE_TIMEOUT_SECONDS: a connection silent this long is closed */ idleTimeoutSeconds: number
+    /** HL7_PARTIAL_TIMEOUT_SECONDS: a message begun but not finished this long is dropped with its connection */ partialTimeoutSeconds: number
+    /** HL7_MAX_CONNECTIONS */ maxConnections: number
+  }
 }
 
 export interface OidcConfig {
@@ -253,5 +264,17 @@ export function loadConfig(env: Env = process.env): Config {
     // On unless switched off: the test stack switches it off because its tests sign admins in
     // with a password everywhere; the second-factor tests switch it back on.
     adminSecondFactorRequired: bool(env, 'ADMIN_SECOND_FACTOR_REQUIRED', true),
+    hl7: {
+      enabled: bool(env, 'HL7_MLLP_ENABLED', false),
+      host: env.HL7_MLLP_HOST || '127.0.0.1',
+      port: int(env, 'HL7_MLLP_PORT', 2575, 0),
+      // The invented demo hospital's code (Kestrel Vale); a real site sets its own.
+      assigningAuthority: env.HL7_ASSIGNING_AUTHORITY || 'KVH',
+      retentionDays: int(env, 'HL7_RETENTION_DAYS', 365, 1, 36_500),
+      maxMessageBytes: int(env, 'HL7_MAX_MESSAGE_BYTES', 1024 * 1024, 1024, 16 * 1024 * 1024),
+      idleTimeoutSeconds: int(env, 'HL7_IDLE_TIMEOUT_SECONDS', 300, 1, 86_400),
+      partialTimeoutSeconds: int(env, 'HL7_PARTIAL_TIMEOUT_SECONDS', 30, 1, 3600),
+      maxConnections: int(env, 'HL7_MAX_CONNECTIONS', 64, 1, 10_000),
+    },
   }
 }

@@ -39,6 +39,7 @@ function drain(server: Server, graceMs: number): Promise<boolean> {
     })
   })
 }
+import { MllpListener } from './services/hl7/listener'
 
 async function main(): Promise<void> {
   const config = loadConfig()
@@ -61,6 +62,12 @@ async function main(): Promise<void> {
   // Patient e-mails leave from the outbox in this process; several processes may run it side by side.
   const outbox = new OutboxWorker({ sequelize, config })
   outbox.start()
+  // Laboratory results, theatre bookings and demographics over HL7 v2 (MLLP), in this process.
+  const mllp = config.hl7.enabled ? new MllpListener(sequelize, config, (m) => console.error(m)) : null
+  if (mllp) {
+    const mllpPort = await mllp.start()
+    console.log(`HL7 MLLP listener on ${config.hl7.host}:${mllpPort}`)
+  }
   const sweep = setInterval(() => void sessionStore.sweep().catch(() => {}), 10 * 60_000)
   let stopping = false
   const stop = async (signal: string) => {
@@ -68,6 +75,7 @@ async function main(): Promise<void> {
     stopping = true
     console.log(`Ferrolane stopping (${signal}): finishing requests in flight (at most ${config.shutdownGraceSeconds} s)`)
     clearInterval(sweep)
+    await mllp?.stop().catch((err) => console.error('Ferrolane: stopping the MLLP listener', err))
     const finished = await drain(server, config.shutdownGraceSeconds * 1000)
     if (!finished) console.error('Ferrolane: requests still running after the grace period were cut off')
     await outbox.stop().catch((err) => console.error('Ferrolane: stopping the outbox worker', err))

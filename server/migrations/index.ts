@@ -9,8 +9,9 @@ import * as m0007 from './0007-imports'
 import * as m0008 from './0008-documents'
 import * as m0010 from './0010-transfusion-inputs'
 import * as m0011 from './0011-dosing-safety'
-import * as m0014 from './0014-security'
 import * as m0012 from './0012-transfusions'
+import * as m0013 from './0013-hl7'
+import * as m0014 from './0014-security'
 import * as m0015 from './0015-directory-sign-in'
 
 export interface Migration {
@@ -31,7 +32,8 @@ export const migrations: Migration[] = [
   { name: '0008-documents', ...m0008 },
   { name: '0010-transfusion-inputs', ...m0010 },
   { name: '0011-dosing-safety', ...m0011 },
-  { name: '0014-security', ...m0014 },
   { name: '0012-transfusions', ...m0012 },
+  { name: '0013-hl7', ...m0013 },
+  { name: '0014-security', ...m0014 },
   { name: '0015-directory-sign-in', ...m0015 },
 ]

@@ -32,12 +32,14 @@ import { initTransfusion, Transfusion } from './transfusion'
 import { initSurgeryDateChange, SurgeryDateChange } from './surgeryDateChange'
 import { initRecoveryCode, RecoveryCode } from './recoveryCode'
 export { RecoveryCode }
+import { initHl7Message, Hl7MessageRow } from './hl7Message'
 export { User, SessionRow, AuditEntry, LoginFailure, Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition }
 export { IronProductRow, ClinicSettingsRow, ClinicReview, Prescription, Administration, ReadinessReview }
 
 export { Outcome, Transfusion, SurgeryDateChange }
 export { EpisodeDocument, Letter }
 export { ImportBatch, ImportMapping }
+export { Hl7MessageRow }
 export { InfusionSession, Appointment, AppointmentEvent, OutboxMessage, AppointmentReplyToken, AppointmentReplyFailure, AppointmentTask }
 
 /**
@@ -77,6 +79,7 @@ export function initModels(sequelize: Sequelize): void {
   initImportMapping(sequelize)
   initTransfusion(sequelize)
   initSurgeryDateChange(sequelize)
+  initHl7Message(sequelize)
   // Associations live here, in one place. Aliases are the names services include by.
   Patient.hasMany(PatientMeasurement, { foreignKey: 'patientId', as: 'measurements' })
   Patient.hasMany(Referral, { foreignKey: 'patientId', as: 'referrals' })

@@ -37,6 +37,10 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   declare declinesTransfusion: CreationOptional<boolean>
   /** The decision to operate (listing for surgery); screening lead time is measured from it too. */
   declare listingDate: CreationOptional<string | null>
+  /** The theatre system's placer appointment id (HL7 SIU SCH-1/SCH-2) of the booked operation. */
+  declare placerAppointmentId: CreationOptional<string | null>
+  /** Earlier planned dates, each with when and why it moved (theatre bookings keep it). */
+  declare surgeryDateHistory: CreationOptional<{ from: string | null; to: string | null; at: string; reason: string | null; source: string }[] | null>
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -69,6 +73,8 @@ export function initReferral(sequelize: Sequelize): void {
       redCellAntibodies: { type: DataTypes.BOOLEAN, allowNull: true },
       declinesTransfusion: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       listingDate: { type: DataTypes.DATEONLY, allowNull: true },
+      placerAppointmentId: { type: DataTypes.STRING(80), allowNull: true },
+      surgeryDateHistory: { type: DataTypes.JSON, allowNull: true },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

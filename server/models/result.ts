@@ -2,7 +2,10 @@ import { DataTypes, Model, type CreationOptional, type InferAttributes, type Inf
 import type { StoredAnalyte } from '../../shared/pathway'
 
 /** How a result arrived: typed in, derived by the server, or imported (CSV or FHIR batch). */
-export type ResultSource = 'manual' | 'derived' | 'lab-csv' | 'fhir'
+export type ResultSource = 'manual' | 'derived' | 'lab-csv' | 'fhir' | 'hl7'
+
+/** A laboratory's status for the value (HL7 v2 OBX-11): only final and corrected values are screened. */
+export type ResultStatus = 'final' | 'corrected' | 'preliminary'
 
 /** A laboratory value: stored canonical, with what was reported kept beside it. */
 export class Result extends Model<InferAttributes<Result>, InferCreationAttributes<Result>> {
@@ -21,6 +24,13 @@ export class Result extends Model<InferAttributes<Result>, InferCreationAttribut
   declare derivedFrom: number[] | null
   /** The import batch that brought it (derived values from an import carry it too). */
   declare importBatchId: CreationOptional<number | null>
+  declare status: CreationOptional<ResultStatus>
+  /** '<', '<=', '>' or '>=' when the laboratory reported a value beyond a limit ("<5"): kept as sent, not screened. */
+  declare comparator: CreationOptional<string | null>
+  /** Set when a correction replaced the value or the laboratory deleted it; the row stays as history. */
+  declare voidedAt: CreationOptional<Date | null>
+  declare voidReason: CreationOptional<string | null>
+  declare hl7MessageId: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -40,8 +50,23 @@ export function initResult(sequelize: Sequelize): void {
       source: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'manual' },
       derivedFrom: { type: DataTypes.JSON, allowNull: true },
       importBatchId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      status: { type: DataTypes.STRING(12), allowNull: false, defaultValue: 'final' },
+      comparator: { type: DataTypes.STRING(2), allowNull: true },
+      voidedAt: { type: DataTypes.DATE, allowNull: true },
+      voidReason: { type: DataTypes.STRING(200), allowNull: true },
+      hl7MessageId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdAt: DataTypes.DATE,
     },
     { sequelize, tableName: 'results', updatedAt: false },
   )
 }
+
+/**
+ * The rows screening and derivations may use: not voided, not preliminary, and a plain number
+ * (a value beyond a limit says too little to classify by a threshold).
+ */
+export function screenableSql(alias = ''): string {
+  const a = alias ? `${alias}.` : ''
+  return `${a}voided_at IS NULL AND ${a}comparator IS NULL AND ${a}status <> 'preliminary'`
+}
+export const SCREENABLE_WHERE = { voidedAt: null, comparator: null, status: ['final', 'corrected'] }

@@ -1,5 +1,6 @@
 import type { Transaction } from 'sequelize'
 import { Administration, Patient, Prescription, Procedure, Referral, Result } from '../models/index'
+import { SCREENABLE_WHERE } from '../models/result'
 import { currentBody } from './patients'
 import { assertMaySeeReferral, type Viewer } from './viewer'
 import { NotFound } from '../errors'
@@ -22,7 +23,7 @@ export async function loadReferral(viewer: Viewer, id: number, t?: Transaction, 
 export async function clinicalFacts(r: LoadedReferral, t?: Transaction) {
   const [body, hbRows, doses, prescription] = await Promise.all([
     currentBody(r.patientId, t),
-    Result.findAll({ where: { referralId: r.id, analyte: 'hb' }, order: [['takenAt', 'ASC'], ['id', 'ASC']], transaction: t }),
+    Result.findAll({ where: { referralId: r.id, analyte: 'hb', ...SCREENABLE_WHERE }, order: [['takenAt', 'ASC'], ['id', 'ASC']], transaction: t }),
     Administration.findAll({ where: { referralId: r.id }, order: [['givenAt', 'ASC']], transaction: t }),
     Prescription.findOne({ where: { referralId: r.id, status: 'active' }, order: [['prescribedAt', 'DESC']], transaction: t }),
   ])

@@ -6,7 +6,8 @@ import { checkDosesAgainstCaps } from '../../shared/clinic/doseCheck'
 import { IV_IRON_CAUTIONS, positiveCautions, type CautionAnswers } from '../../shared/clinic/cautions'
 import { DECISION_SUPPORT_CAUTION } from '../../shared/clinic/readiness'
 import type { DosePlanPreviewInput, PrescriptionInput } from '../../shared/schemas/clinic'
-import { ageOn, daysBetween, isReadOnly, todayIso } from '../../shared/pathway'
+import { ageOn, daysBetween, isReadOnly } from '../../shared/pathway'
+import { clinicToday } from './clinicDay'
 import { recordAudit } from './audit'
 import { getClinicSettings } from './clinicSettings'
 import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
@@ -39,8 +40,8 @@ async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
   if (!latestHb) throw new RuleRefused('Record an Hb result before prescribing iron', 'hb_missing', { hb: 'is missing' })
   const product = toIronProduct(productRow)
   const targetHbGL = input.targetHbGL ?? settings.ironTargetHbGL
-  const firstDoseDate = input.firstDoseDate ?? todayIso()
-  const ageYears = ageOn(r.patient.dateOfBirth, todayIso())
+  const firstDoseDate = input.firstDoseDate ?? clinicToday()
+  const ageYears = ageOn(r.patient.dateOfBirth, clinicToday())
   const plan: IronDosePlan = clinical('productCode', () => {
     try {
       return ironDosePlan({
@@ -55,7 +56,7 @@ async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
   const warnings = [...plan.warnings]
   const phosphate = await phosphateNeeded(r, product)
   if (phosphate.needed) warnings.unshift(phosphate.message)
-  const weightAgeDays = facts.body.weightMeasuredAt ? daysBetween(facts.body.weightMeasuredAt.slice(0, 10), todayIso()) : null
+  const weightAgeDays = facts.body.weightMeasuredAt ? daysBetween(facts.body.weightMeasuredAt.slice(0, 10), clinicToday()) : null
   if (weightAgeDays !== null && weightAgeDays > settings.weightMaxAgeDays) {
     warnings.unshift(`The weight (${facts.body.weightKg} kg) was measured ${weightAgeDays} days ago, more than ${settings.weightMaxAgeDays}: re-weigh the patient before relying on this dose.`)
   }

@@ -52,7 +52,7 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
   assertMaySeeReferral(viewer, r.surgeonId)
   const [patient, resultRows, transitions, dateChanges] = await Promise.all([
     toPatientView(r.patient),
-    Result.findAll({ where: { referralId: id }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
+    Result.findAll({ where: { referralId: id, voidedAt: null }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
     StageTransition.findAll({ where: { referralId: id }, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']] }),
     SurgeryDateChange.findAll({ where: { referralId: id }, include: [{ model: User, as: 'changedByUser', attributes: ['id', 'name'] }], order: [['changedAt', 'ASC'], ['id', 'ASC']] }),
   ])

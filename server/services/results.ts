@@ -3,6 +3,7 @@ import { egfrFromCreatinine, tsatFromSample } from '../../shared/clinic/derivati
 import { DERIVED_UNITS, ANALYTE_DEFS, dateInZone, isReadOnly, toCanonical, type Analyte } from '../../shared/pathway'
 import type { CreateResultInput } from '../../shared/schemas/results'
 import { Patient, Referral, Result, User } from '../models/index'
+import { SCREENABLE_WHERE } from '../models/result'
 import { recordAudit } from './audit'
 import { refreshScreening, screeningView } from './screening'
 import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer'
@@ -21,6 +22,12 @@ export interface ResultView {
   derivedFrom: number[] | null
   enteredBy: { id: number; name: string } | null
   createdAt: string
+  /** final, corrected or preliminary (a laboratory feed's OBX-11); typed-in results are final. */
+  status: string
+  /** '<' etc. when the laboratory reported a value beyond a limit: the value is that limit. */
+  comparator: string | null
+  voidedAt: string | null
+  voidReason: string | null
 }
 
 export function toResultView(r: Result & { enteredByUser?: User | null }): ResultView {
@@ -36,14 +43,18 @@ export function toResultView(r: Result & { enteredByUser?: User | null }): Resul
     derivedFrom: r.derivedFrom,
     enteredBy: r.enteredByUser ? { id: r.enteredByUser.id, name: r.enteredByUser.name } : null,
     createdAt: isoOrNull(r.createdAt)!,
+    status: r.status ?? 'final',
+    comparator: r.comparator ?? null,
+    voidedAt: isoOrNull(r.voidedAt ?? null),
+    voidReason: r.voidReason ?? null,
   }
 }
 
 const SAMPLE_ANALYTES = ['iron', 'tibc', 'transferrin', 'tsat']
 
-async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number }, t: Transaction): Promise<Result | null> {
+export async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number | null }, t: Transaction): Promise<Result | null> {
   const rows = await Result.findAll({
-    where: { referralId: base.referralId, takenAt: base.takenAt, analyte: { [Op.in]: SAMPLE_ANALYTES } },
+    where: { referralId: base.referralId, takenAt: base.takenAt, analyte: { [Op.in]: SAMPLE_ANALYTES }, ...SCREENABLE_WHERE },
     attributes: ['id', 'analyte', 'valueCanonical'], raw: true, transaction: t,
   })
   const tsat = clinical('value', () => tsatFromSample(rows))
@@ -54,12 +65,12 @@ async function deriveTsat(base: { referralId: number; patientId: number; takenAt
   )
 }
 
-async function deriveEgfr(creatinine: Result, patient: Patient, t: Transaction): Promise<Result | null> {
+export async function deriveEgfr(creatinine: Result, patient: Patient, t: Transaction): Promise<Result | null> {
   const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient))
   if (egfr === null) return null
   const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }
   // Two creatinines of one sample can round to the same eGFR; one derived row says it.
-  if (await Result.findOne({ where: same, transaction: t })) return null
+  if (await Result.findOne({ where: { ...same, voidedAt: null }, transaction: t })) return null
   return Result.create(
     { ...same, patientId: creatinine.patientId, unitCanonical: DERIVED_UNITS.egfr, valueReported: null, unitReported: null, enteredBy: creatinine.enteredBy, source: 'derived', derivedFrom: [creatinine.id] },
     { transaction: t },

@@ -3,12 +3,13 @@ import { classifyAnaemia, IRON_STATUS_CRITERIA, type AnaemiaCriteria, type Sex }
 import { SCREENING_ANALYTES, latestFromRows, screeningOutcome, type LatestValues, type ScreeningColumns } from '../../shared/clinic/screening'
 import { STAGE_LABELS } from '../../shared/pathway'
 import { Referral, Result } from '../models/index'
+import { screenableSql, SCREENABLE_WHERE } from '../models/result'
 import { isoOrNull } from './viewer'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {
   const rows = await Result.findAll({
-    where: { referralId, analyte: { [Op.in]: [...SCREENING_ANALYTES] } },
+    where: { referralId, analyte: { [Op.in]: [...SCREENING_ANALYTES] }, ...SCREENABLE_WHERE },
     order: [['takenAt', 'DESC'], ['id', 'DESC']],
     attributes: ['analyte', 'valueCanonical', 'takenAt'],
     transaction: t,
@@ -42,7 +43,7 @@ export async function refreshScreeningMany(sequelize: Sequelize, referralIds: re
     )
     const rows = await sequelize.query<{ referralId: number; analyte: string; valueCanonical: number; takenAt: Date }>(
       `SELECT referral_id AS referralId, analyte, value_canonical AS valueCanonical, taken_at AS takenAt FROM results
-       WHERE referral_id IN (:ids) AND analyte IN (:analytes) ORDER BY referral_id, taken_at DESC, id DESC`,
+       WHERE referral_id IN (:ids) AND analyte IN (:analytes) AND ${screenableSql()} ORDER BY referral_id, taken_at DESC, id DESC`,
       { type: QueryTypes.SELECT, replacements: { ids, analytes: [...SCREENING_ANALYTES] }, transaction: t },
     )
     const byReferral = new Map<number, typeof rows>()

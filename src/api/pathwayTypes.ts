@@ -50,6 +50,10 @@ export interface ResultView {
   derivedFrom: number[] | null
   enteredBy: { id: number; name: string } | null
   createdAt: string
+  status: string
+  comparator: string | null
+  voidedAt: string | null
+  voidReason: string | null
 }
 
 export interface TransitionItem {

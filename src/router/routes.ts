@@ -101,6 +101,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { roles: ['admin'], title: 'Audit trail', wide: true, nav: { label: 'Audit trail', icon: 'pi pi-history', order: 28 } },
   },
   {
+    path: '/admin/interfaces',
+    name: 'interfaces',
+    component: () => import('@/views/AdminInterfacesView.vue'),
+    meta: { roles: ['admin', 'nurse'], title: 'Interfaces', wide: true, nav: { label: 'Interfaces', icon: 'pi pi-arrow-right-arrow-left', order: 29 } },
+  },
+  {
     path: '/worklist',
     name: 'worklist',
     component: () => import('@/views/WorklistView.vue'),

@@ -12,13 +12,13 @@ export interface MatchedRow {
   patientName: string
 }
 
-interface PatientMatch { mrn: string; patientId: number; name: string; dob: string; sex: Sex; referralId: number | null }
+export interface PatientMatch { mrn: string; patientId: number; name: string; dob: string; sex: Sex; referralId: number | null }
 
 // Stages after which an episode takes no new results; imports match only the open ones.
 const ENDED = ['closed', 'withdrawn']
 
 /** Patients by MRN with their newest open episode (one query for a chunk of rows). */
-async function findPatients(sequelize: Sequelize, mrns: string[], t?: Transaction): Promise<Map<string, PatientMatch>> {
+export async function findPatients(sequelize: Sequelize, mrns: string[], t?: Transaction): Promise<Map<string, PatientMatch>> {
   if (!mrns.length) return new Map()
   const rows = await sequelize.query<Omit<PatientMatch, 'dob'> & { dob: string | Date }>(
     `SELECT p.mrn, p.id AS patientId, CONCAT(p.given_name, ' ', p.family_name) AS name, p.date_of_birth AS dob, p.sex,

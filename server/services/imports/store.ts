@@ -6,6 +6,7 @@ import { AuditEntry } from '../../models/index'
 import { egfrFromCreatinine, tsatFromSample, type SampleRow } from '../../../shared/clinic/derivations'
 import { dateInZone } from '../../../shared/pathway'
 import { clinicTimeZone } from '../clinicDay'
+import { screenableSql } from '../../models/result'
 import { refreshScreeningMany } from '../screening'
 import type { Viewer } from '../viewer'
 import type { MatchedRow } from './match'
@@ -61,7 +62,7 @@ export async function deriveForBatch(sequelize: Sequelize, batchId: number, user
     `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.analyte, r.value_canonical AS valueCanonical, r.taken_at AS takenAt
      FROM results r JOIN (SELECT DISTINCT referral_id, taken_at FROM results WHERE import_batch_id = ? AND analyte IN ('iron', 'tibc', 'transferrin')) d
        ON d.referral_id = r.referral_id AND d.taken_at = r.taken_at
-     WHERE r.analyte IN ('iron', 'tibc', 'transferrin', 'tsat')`,
+     WHERE r.analyte IN ('iron', 'tibc', 'transferrin', 'tsat') AND ${screenableSql('r')}`,
     { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },
   )
   const bySample = new Map<string, typeof samples>()

@@ -1,0 +1,150 @@
+import { Hl7Message } from '@medplum/core'
+import { UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize'
+import { SUPPORTED_VERSIONS, type Hl7Outcome } from '../../../shared/hl7'
+import type { Config } from '../../config'
+import { Hl7MessageRow } from '../../models/index'
+import { mappingFor } from '../imports/mappings'
+import type { Actor } from '../audit'
+import { buildAck, Hl7Problem, type AckCode } from './ack'
+import { readOru } from './oruRead'
+import { storeOru } from './oruStore'
+import { storeSiu } from './siu'
+import { storeAdt } from './adt'
+import type { Hl7Change } from '../../../shared/hl7'
+
+/** Message types Ferrolane takes (MSH-9 type^event). */
+const HANDLED = ['ORU^R01', 'SIU^S12', 'SIU^S13', 'SIU^S14', 'SIU^S15', 'ADT^A08'] as const
+
+export interface Header { controlId: string; sendingApp: string; sendingFacility: string; type: string; version: string }
+
+const cut = (s: string, n: number) => s.trim().slice(0, n)
+
+export function readHeader(msg: Hl7Message): Header {
+  const msh = msg.header
+  return {
+    controlId: cut(msh.getComponent(10, 1), 100),
+    sendingApp: cut(msh.getComponent(3, 1), 100),
+    sendingFacility: cut(msh.getComponent(4, 1), 100),
+    type: cut(`${msh.getComponent(9, 1)}^${msh.getComponent(9, 2)}`, 20),
+    version: cut(msh.getComponent(12, 1), 10),
+  }
+}
+
+/** What a message asks of Ferrolane, done inside `t`; throws Hl7Problem when it cannot be done. */
+async function apply(sequelize: Sequelize, config: Config, msg: Hl7Message, h: Header, messageId: number, t: Transaction): Promise<Hl7Change[]> {
+  const actor: Actor = { userId: null, requestId: `hl7:${messageId}`, ip: null }
+  if (h.type === 'ORU^R01') {
+    // Local codes are the laboratory's own: the CSV import's saved mapping for that source (MSH-4).
+    const codes = (await mappingFor(h.sendingFacility || h.sendingApp)).mapping.codes
+    const groups = readOru(msg, { authority: config.hl7.assigningAuthority, codes, timeZone: config.clinic.timeZone, now: Date.now() })
+    return storeOru(sequelize, groups, { messageId, controlId: h.controlId, actor }, t)
+  }
+  if (h.type.startsWith('SIU^')) return storeSiu(config, msg, h.type.slice(4), { messageId, controlId: h.controlId, actor }, t)
+  return storeAdt(config, msg, { messageId, actor }, t)
+}
+
+function checkHeader(h: Header): void {
+  if (!h.controlId) throw new Hl7Problem('AR', 'missing-control-id', 'MSH-10 message control id is empty', '101', { segment: 'MSH', field: 10 })
+  if (!(SUPPORTED_VERSIONS as readonly string[]).includes(h.version)) {
+    throw new Hl7Problem('AR', 'unsupported-version', `HL7 version "${h.version}" is not supported (${SUPPORTED_VERSIONS.join(', ')})`, '203', { segment: 'MSH', field: 12 })
+  }
+  if (!(HANDLED as readonly string[]).includes(h.type)) {
+    throw new Hl7Problem('AR', 'unsupported-type', `message type ${h.type} is not one Ferrolane takes (${HANDLED.join(', ')})`, '200', { segment: 'MSH', field: 9 })
+  }
+}
+
+function mrnOf(msg: Hl7Message): string | null {
+  return cut(msg.getSegment('PID')?.getComponent(3, 1) ?? '', 40) || null
+}
+
+/**
+ * One message in, one ACK out. A control id already answered gets that answer again and
+ * changes nothing. Otherwise the message row and everything it changes are written in one
+ * transaction, so a message is stored exactly once with its effects or not at all; a message
+ * that cannot be applied is kept (AE, in the attention queue; AR, refused) with the reason.
+ */
+export async function receive(sequelize: Sequelize, config: Config, msg: Hl7Message): Promise<string> {
+  const h = readHeader(msg)
+  const raw = msg.toString()
+  const receivedAt = new Date()
+  try {
+    checkHeader(h)
+  } catch (err) {
+    const problem = err as Hl7Problem
+    if (!h.controlId) return buildAck(msg, 'AR', problem)
+    return record(msg, h, raw, receivedAt, 'rejected', 'AR', problem)
+  }
+  const earlier = await Hl7MessageRow.findOne({ where: { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }, attributes: ['ack'], raw: true })
+  if (earlier) return earlier.ack
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await storeOnce(sequelize, config, msg, h, raw, receivedAt)
+    } catch (err) {
+      // Two messages for one episode at once can deadlock in MariaDB; the loser is simply run again.
+      if (attempt < 4 && isDeadlock(err)) continue
+      throw err
+    }
+  }
+}
+
+function isDeadlock(err: unknown): boolean {
+  const e = err as { parent?: { errno?: number } }
+  return e?.parent?.errno === 1213 || e?.parent?.errno === 1205
+}
+
+async function storeOnce(sequelize: Sequelize, config: Config, msg: Hl7Message, h: Header, raw: string, receivedAt: Date): Promise<string> {
+  try {
+    return await sequelize.transaction(async (t) => {
+      const row = await Hl7MessageRow.create(
+        { receivedAt, controlId: h.controlId, sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, messageType: h.type, version: h.version, raw, outcome: 'stored', ackCode: 'AA', ack: '', errorCode: null, errorText: null, changes: null, patientMrn: mrnOf(msg), needsAttention: false, processedAt: receivedAt },
+        { transaction: t },
+      )
+      const changes = await apply(sequelize, config, msg, h, row.id, t)
+      const ack = buildAck(msg, 'AA')
+      await row.update({ outcome: changes.length ? 'stored' : 'nothing-new', ack, changes, processedAt: new Date() }, { transaction: t })
+      return ack
+    })
+  } catch (err) {
+    if (err instanceof UniqueConstraintError) return (await Hl7MessageRow.findOne({ where: { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }, attributes: ['ack'], raw: true }))?.ack ?? buildAck(msg, 'AA')
+    if (!(err instanceof Hl7Problem)) throw err
+    return record(msg, h, raw, receivedAt, err.ack === 'AE' ? 'error' : 'rejected', err.ack, err)
+  }
+}
+
+async function record(msg: Hl7Message, h: Header, raw: string, receivedAt: Date, outcome: Hl7Outcome, code: AckCode, problem: Hl7Problem): Promise<string> {
+  const ack = buildAck(msg, code, problem)
+  try {
+    await Hl7MessageRow.create({
+      receivedAt, controlId: h.controlId, sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, messageType: h.type, version: h.version, raw, outcome,
+      ackCode: code, ack, errorCode: problem.code, errorText: problem.message.slice(0, 1000), changes: null, patientMrn: mrnOf(msg), needsAttention: code === 'AE', processedAt: new Date(),
+    })
+    return ack
+  } catch (err) {
+    // The same control id arrived twice at once: the first one's answer stands.
+    if (err instanceof UniqueConstraintError) return (await Hl7MessageRow.findOne({ where: { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }, attributes: ['ack'], raw: true }))?.ack ?? ack
+    throw err
+  }
+}
+
+/**
+ * "Process again" for a message in the attention queue, once its cause is fixed (the patient is
+ * registered, the code mapped): the same rules, in one transaction with the row's new outcome.
+ */
+export async function reprocess(sequelize: Sequelize, config: Config, id: number): Promise<{ outcome: Hl7Outcome; errorText: string | null }> {
+  return sequelize.transaction(async (t) => {
+    const row = await Hl7MessageRow.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
+    if (!row || !row.needsAttention) return { outcome: row?.outcome ?? 'rejected', errorText: row ? 'this message does not need attention' : 'no such message' }
+    const msg = Hl7Message.parse(row.raw)
+    const h = readHeader(msg)
+    try {
+      const changes = await sequelize.transaction({ transaction: t }, (inner) => apply(sequelize, config, msg, h, row.id, inner))
+      const ack = buildAck(msg, 'AA')
+      await row.update({ outcome: changes.length ? 'stored' : 'nothing-new', ackCode: 'AA', ack, changes, errorCode: null, errorText: null, needsAttention: false, attempts: row.attempts + 1, processedAt: new Date() }, { transaction: t })
+      return { outcome: row.outcome, errorText: null }
+    } catch (err) {
+      if (!(err instanceof Hl7Problem)) throw err
+      await row.update({ errorCode: err.code, errorText: err.message.slice(0, 1000), attempts: row.attempts + 1, processedAt: new Date() }, { transaction: t })
+      return { outcome: row.outcome, errorText: err.message }
+    }
+  })
+}

@@ -1,0 +1,107 @@
+import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
+import { ANALYTE_DEFS } from '../../../shared/pathway'
+import { Patient, Referral, Result } from '../../models/index'
+import { recordAudit, type Actor } from '../audit'
+import { findPatients } from '../imports/match'
+import { deriveEgfr, deriveTsat } from '../results'
+import { refreshScreening, screeningView } from '../screening'
+import { Hl7Problem } from './ack'
+import type { ObxReading, OruGroup } from './oruRead'
+
+/** A result this message changed (shared/hl7 Hl7Change, narrowed). */
+export interface Change { kind: 'result-added' | 'result-corrected' | 'result-voided' | 'result-promoted' | 'derived'; resultId: number; referralId: number; analyte: string; detail?: string }
+
+/** Voids rows (and the values derived from them); the rows stay, marked, as the episode's history. */
+async function voidRows(sequelize: Sequelize, ids: number[], reason: string, t: Transaction): Promise<number[]> {
+  if (!ids.length) return []
+  const now = new Date()
+  await Result.update({ voidedAt: now, voidReason: reason.slice(0, 200) }, { where: { id: { [Op.in]: ids } }, transaction: t })
+  const derived = await sequelize.query<{ id: number }>(
+    `SELECT id FROM results WHERE source = 'derived' AND voided_at IS NULL AND (${ids.map(() => 'JSON_CONTAINS(derived_from, ?)').join(' OR ')})`,
+    { type: QueryTypes.SELECT, replacements: ids.map(String), transaction: t },
+  )
+  if (derived.length) await Result.update({ voidedAt: now, voidReason: `its source value was voided (${reason})`.slice(0, 200) }, { where: { id: { [Op.in]: derived.map((d) => d.id) } }, transaction: t })
+  return [...ids, ...derived.map((d) => d.id)]
+}
+
+/**
+ * One OBX against the episode: a final value is added (replacing a preliminary one of the same
+ * sample), a correction replaces every earlier value of the sample, a deletion voids them, a
+ * preliminary is kept but not screened and never overrides a final. The same value of the same
+ * sample is the same row (the results' natural key): nothing new is stored for it.
+ */
+async function applyObx(sequelize: Sequelize, o: ObxReading, ctx: { referralId: number; patientId: number; messageId: number; controlId: string }, t: Transaction): Promise<Change[]> {
+  const r = o.reading
+  const sample = { referralId: ctx.referralId, analyte: r.analyte, takenAt: r.takenAt }
+  const live = await Result.findAll({ where: { ...sample, voidedAt: null }, transaction: t, raw: true })
+  const changes: Change[] = []
+  const note = (kind: Change['kind'], resultId: number, detail?: string) => changes.push({ kind, resultId, referralId: ctx.referralId, analyte: r.analyte, ...(detail ? { detail } : {}) })
+  if (o.action === 'void') {
+    const voided = await voidRows(sequelize, live.map((l) => l.id), `deleted by the laboratory (message ${ctx.controlId})`, t)
+    voided.forEach((id) => note('result-voided', id))
+    return changes
+  }
+  if (o.action === 'preliminary' && live.some((l) => l.status !== 'preliminary')) return changes
+  const tol = r.tolerance ?? 0
+  const same = await Result.findOne({ where: { ...sample, valueCanonical: { [Op.between]: [r.valueCanonical - tol, r.valueCanonical + tol] } }, transaction: t })
+  const replace = o.action === 'corrected' ? live : o.action === 'final' ? live.filter((l) => l.status === 'preliminary') : []
+  const toVoid = replace.filter((l) => l.id !== same?.id).map((l) => l.id)
+  const why = o.action === 'corrected' ? `corrected by the laboratory (message ${ctx.controlId})` : `replaced by the final value (message ${ctx.controlId})`
+  ;(await voidRows(sequelize, toVoid, why, t)).forEach((id) => note('result-voided', id))
+  const status = o.action
+  if (same) {
+    const unchanged = same.voidedAt === null && (same.status === status || (status === 'final' && same.status === 'corrected')) && same.comparator === o.comparator
+    if (unchanged) return changes
+    await same.update({ status, comparator: o.comparator, voidedAt: null, voidReason: null }, { transaction: t })
+    note(status === 'corrected' ? 'result-corrected' : 'result-promoted', same.id)
+    return changes
+  }
+  const created = await Result.create({
+    ...sample, patientId: ctx.patientId, valueCanonical: r.valueCanonical, unitCanonical: ANALYTE_DEFS[r.analyte].canonicalUnit,
+    valueReported: r.value, unitReported: r.unit, enteredBy: null, source: 'hl7', derivedFrom: null, status, comparator: o.comparator, hl7MessageId: ctx.messageId,
+  }, { transaction: t })
+  note(status === 'corrected' ? 'result-corrected' : 'result-added', created.id, `${o.comparator ?? ''}${r.value} ${r.unit}${status === 'preliminary' ? ' (preliminary)' : ''}`)
+  return changes
+}
+
+/**
+ * Stores an ORU^R01's results through the same rules as a typed-in result: the referral row is
+ * locked, values derived (TSAT, eGFR) and the episode re-screened in the message's transaction,
+ * with one audit row per episode naming the message.
+ */
+export async function storeOru(sequelize: Sequelize, groups: OruGroup[], ctx: { messageId: number; controlId: string; actor: Actor }, t: Transaction): Promise<Change[]> {
+  const patients = await findPatients(sequelize, [...new Set(groups.map((g) => g.mrn))], t)
+  const all: Change[] = []
+  for (const g of groups) {
+    const p = patients.get(g.mrn.toUpperCase())
+    if (!p) throw new Hl7Problem('AE', 'unknown-mrn', `no patient has MRN ${g.mrn}`, '204', { segment: 'PID', field: 3 })
+    if (p.referralId == null) throw new Hl7Problem('AE', 'no-open-referral', `patient ${g.mrn} has no open episode`, '204', { segment: 'PID', field: 3 })
+    const referral = (await Referral.findByPk(p.referralId, { transaction: t, lock: t.LOCK.UPDATE }))!
+    const patient = (await Patient.findByPk(p.patientId, { transaction: t }))!
+    const early = g.obx.find((o) => o.action !== 'void' && o.reading.takenAt.toISOString().slice(0, 10) < p.dob)
+    if (early) throw new Hl7Problem('AE', 'bad-date', 'time taken is before the date of birth', '102', { segment: 'OBX', seq: early.seq, field: 14 })
+    const before = screeningView(referral, patient.sex)
+    const changes: Change[] = []
+    for (const o of g.obx) changes.push(...(await applyObx(sequelize, o, { referralId: referral.id, patientId: patient.id, messageId: ctx.messageId, controlId: ctx.controlId }, t)))
+    if (!changes.length) continue
+    const usable = g.obx.filter((o) => o.action === 'final' || o.action === 'corrected')
+    const samples = new Set(usable.filter((o) => ['iron', 'tibc', 'transferrin'].includes(o.reading.analyte)).map((o) => o.reading.takenAt.getTime()))
+    for (const at of samples) {
+      const tsat = await deriveTsat({ referralId: referral.id, patientId: patient.id, takenAt: new Date(at), enteredBy: null }, t)
+      if (tsat) changes.push({ kind: 'derived', resultId: tsat.id, referralId: referral.id, analyte: 'tsat' })
+    }
+    for (const c of changes.filter((x) => x.analyte === 'creatinine' && x.kind !== 'result-voided')) {
+      const row = await Result.findByPk(c.resultId, { transaction: t })
+      const egfr = row && row.status !== 'preliminary' && !row.comparator ? await deriveEgfr(row, patient, t) : null
+      if (egfr) changes.push({ kind: 'derived', resultId: egfr.id, referralId: referral.id, analyte: 'egfr' })
+    }
+    await refreshScreening(referral, patient.sex, t)
+    await referral.reload({ transaction: t })
+    await recordAudit(t, ctx.actor, {
+      action: 'hl7-results', entity: 'referral', entityId: referral.id, patientId: patient.id,
+      before: { screening: before }, after: { hl7MessageId: ctx.messageId, controlId: ctx.controlId, changes, screening: screeningView(referral, patient.sex) },
+    })
+    all.push(...changes)
+  }
+  return all
+}
