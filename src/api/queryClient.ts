@@ -1,5 +1,4 @@
 import { MutationCache, QueryClient } from '@tanstack/vue-query'
-import { useOutageStore } from '@/stores/outage'
 import { isDatabaseUnavailable, retryDelayMs, shouldRetryRead } from './retryPolicy'
 
 /**
@@ -10,10 +9,11 @@ import { isDatabaseUnavailable, retryDelayMs, shouldRetryRead } from './retryPol
  */
 export const queryClient = new QueryClient({
   mutationCache: new MutationCache({
+    // Imported on first use: the sign-in page's script stays within its 200 kB budget.
     onError: (error) => {
-      if (isDatabaseUnavailable(error)) useOutageStore().writeFailed()
+      if (isDatabaseUnavailable(error)) void import('@/stores/outage').then((m) => m.useOutageStore().writeFailed())
     },
-    onSuccess: () => useOutageStore().clear(),
+    onSuccess: () => void import('@/stores/outage').then((m) => m.useOutageStore().clear()),
   }),
   defaultOptions: {
     queries: { staleTime: 10_000, retry: shouldRetryRead, retryDelay: retryDelayMs, refetchOnWindowFocus: true },
