@@ -86,6 +86,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { roles: ['admin', 'doctor', 'surgeon'], title: 'Service reports', wide: true, nav: { label: 'Reports', icon: 'pi pi-chart-bar', order: 50 } },
   },
   {
+    path: '/quality',
+    name: 'quality',
+    component: () => import('@/views/QualityView.vue'),
+    // Surgeons see only their own figures; admins figures without patients (the server forces both).
+    meta: { roles: ['admin', 'doctor', 'surgeon'], title: 'Quality measures', wide: true, nav: { label: 'Quality', icon: 'pi pi-verified', order: 51 } },
+  },
+  {
     path: '/admin/audit',
     name: 'audit-trail',
     component: () => import('@/views/AuditTrailView.vue'),
