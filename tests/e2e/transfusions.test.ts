@@ -81,7 +81,7 @@ describe('a two-unit transfusion recorded as two single units moves the QS138 re
     await nursePage.fill('#tx-codes', 'E0336V00')
     await nursePage.press('#tx-codes', 'Enter')
     await expect.poll(() => nursePage.getByTestId('tx-saved').textContent()).toMatch(/1 saved/)
-    await expect.poll(() => nursePage.evaluate(() => document.activeElement?.id)).toBe('tx-given')
+    await expect.poll(() => nursePage.evaluate('document.activeElement && document.activeElement.id')).toBe('tx-given')
 
     // Unit 2, after the re-check of 81 g/L: above the threshold, so a reason is asked for.
     await retype(nursePage, '#tx-pre', '81')
