@@ -7,7 +7,8 @@ import { hashPassword } from '../../server/services/passwords'
 import { BENCH_PASSWORD } from './benchData'
 import { signIn, startBenchServer } from './server'
 
-const REPORTS = ['funnel', 'haemoglobin', 'transfusion', 'waiting-times', 'blood-ordering']
+// 'quality' answers at /api/reports/quality with its own shape; timed the same way.
+const REPORTS = ['funnel', 'haemoglobin', 'transfusion', 'waiting-times', 'blood-ordering', 'quality']
 const ADMIN = 'bench.admin@ferrolane.test'
 
 async function ensureReportData(db: ConnectionConfig): Promise<void> {
@@ -35,8 +36,30 @@ async function ensureReportData(db: ConnectionConfig): Promise<void> {
   }
 }
 
+/** Transfusion rows, blood-saving answers and postponements for the quality report (added once, also to older bench databases). */
+async function ensureQualityData(db: ConnectionConfig): Promise<void> {
+  const conn = await mariadb.createConnection(db)
+  try {
+    const [{ n }] = await conn.query('SELECT COUNT(*) AS n FROM transfusions')
+    if (Number(n) > 0) return
+    await conn.query(`INSERT INTO transfusions (referral_id, given_at, phase, component, units, pre_transfusion_hb_gl, post_transfusion_hb_gl, reassessed_before_next,
+        information_given, product_codes, reason, threshold_gl, threshold_basis, created_at, updated_at)
+      SELECT referral_id, DATE_ADD(surgery_date, INTERVAL 1 DAY), 'after-surgery', 'red-cells', IF(referral_id % 7 = 0, 2, 1), 65 + referral_id % 20,
+        IF(referral_id % 3 = 0, NULL, 80), referral_id % 3 <> 0, referral_id % 4 <> 0, '[]', NULL, 80, 'bench', NOW(), NOW()
+      FROM outcomes WHERE units_transfused_post_op > 0 OR units_transfused_intra_op > 0`)
+    await conn.query(`UPDATE outcomes SET tranexamic_acid_given = (referral_id % 3 <> 0), post_operative_iron_given = (referral_id % 2 = 0)`)
+    await conn.query(`INSERT INTO surgery_date_changes (referral_id, from_date, to_date, reason, changed_at)
+      SELECT id, DATE_SUB(planned_surgery_date, INTERVAL 14 DAY), planned_surgery_date, IF(id % 2 = 0, 'anaemia', 'theatre-capacity'), created_at FROM referrals WHERE id % 11 = 0`)
+    await conn.query('ANALYZE TABLE transfusions, surgery_date_changes, outcomes')
+  } finally {
+    await conn.end()
+  }
+}
+
 export async function benchReports(env: NodeJS.ProcessEnv) {
-  await ensureReportData({ host: env.DB_HOST, port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME })
+  const db = { host: env.DB_HOST, port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME }
+  await ensureReportData(db)
+  await ensureQualityData(db)
   const server = await startBenchServer(env, 8098)
   try {
     const cookie = await signIn(server.url, ADMIN, BENCH_PASSWORD)

@@ -6,6 +6,10 @@ import { tableToCsv } from '../services/reports/csv'
 import { Invalid } from '../errors'
 import { qualityReport } from '../services/reports/quality'
 import { reportFilters } from '../services/reports/filters'
+import { safeCsv } from '../services/reports/csvSafe'
+import { nationalAuditCsv } from '../services/reports/nationalAudit'
+
+const QUALITY_CSV_COLUMNS = ['id', 'title', 'numerator', 'denominator', 'percent', 'value', 'unit', 'numeratorDefinition', 'denominatorDefinition', 'period', 'source', 'benchmarkPercent', 'benchmarkSource'] as const
 
 /** The service's reports: admins and doctors see everything, surgeons their own figures (forced in the filters). */
 export function reportRoutes({ sequelize }: AppContext): ApiRouter {
@@ -13,7 +17,27 @@ export function reportRoutes({ sequelize }: AppContext): ApiRouter {
 
   // Registered before '/:name': the quality measures have their own answer shape.
   api.get('/quality', { access: ['admin', 'doctor', 'surgeon'] }, async (req, res) => {
-    res.json(await qualityReport(sequelize, reportFilters(viewerOf(req), req.query as Record<string, unknown>)))
+    const filters = reportFilters(viewerOf(req), req.query as Record<string, unknown>)
+    const report = await qualityReport(sequelize, filters)
+    if (req.query.format !== 'csv') {
+      res.json(report)
+      return
+    }
+    res.type('text/csv; charset=utf-8')
+    res.attachment(`quality-${filters.from}-to-${filters.to}.csv`)
+    res.send(safeCsv(QUALITY_CSV_COLUMNS, report.measures.map((m) => ({
+      id: m.id, title: m.title, numerator: m.numerator, denominator: m.denominator, percent: m.percent, value: m.value, unit: m.unit,
+      numeratorDefinition: m.definition.numerator, denominatorDefinition: m.definition.denominator, period: m.definition.period, source: m.source,
+      benchmarkPercent: m.benchmark?.percent ?? null, benchmarkSource: m.benchmark?.source ?? null,
+    }))))
+  })
+  // One row per operated episode for the national audits: patient-level, so not for admins (figures only).
+  api.get('/quality/national-audit', { access: ['doctor', 'surgeon'] }, async (req, res) => {
+    const filters = reportFilters(viewerOf(req), req.query as Record<string, unknown>)
+    const csv = await nationalAuditCsv(sequelize, viewerOf(req), filters)
+    res.type('text/csv; charset=utf-8')
+    res.attachment(`national-audit-${filters.from}-to-${filters.to}.csv`)
+    res.send(csv)
   })
 
   api.get('/:name', { access: ['admin', 'doctor', 'surgeon'] }, async (req, res) => {

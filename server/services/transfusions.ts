@@ -68,8 +68,8 @@ function valuesOf(input: TransfusionInput, outcome: Outcome, threshold: Threshol
 export async function listTransfusions(viewer: Viewer, referralId: number): Promise<TransfusionList> {
   const r = await loadReferral(viewer, referralId)
   const rows = await Transfusion.findAll({ where: { referralId }, order: [['givenAt', 'ASC'], ['id', 'ASC']] })
-  // Reading clinical data is audited, as opening the episode is.
-  await recordAudit(null, viewer, { action: 'view', entity: 'transfusions', entityId: referralId, patientId: r.patientId })
+  // Not audited again here: the After surgery tab that lists them opens with the audited read of
+  // the post-operative record (GET /outcome), and the list refetches after every write.
   return { transfusions: rows.map(toTransfusionView), threshold: thresholdOf(r), redCellUnits: await redCellUnitsByPhase(referralId) }
 }
 

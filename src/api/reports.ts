@@ -21,3 +21,15 @@ export function reportCsvUrl(name: ReportName, table: string, filters: ReportFil
   p.set('table', table)
   return `/api/reports/${name}?${p.toString()}`
 }
+
+export function fetchQualityReport(filters: ReportFilters): Promise<import('@shared/reports/quality').QualityReport> {
+  const q = params(filters).toString()
+  return api.get(`/reports/quality${q ? `?${q}` : ''}`)
+}
+
+/** The measures as CSV, or the national-audit rows (doctors and surgeons), for the same filters. */
+export function qualityCsvUrl(filters: ReportFilters, which: 'measures' | 'national-audit'): string {
+  const p = params(filters)
+  if (which === 'measures') p.set('format', 'csv')
+  return `/api/reports/quality${which === 'national-audit' ? '/national-audit' : ''}?${p.toString()}`
+}

@@ -2,7 +2,7 @@ import { computed, toValue, type MaybeRefOrGetter } from 'vue'
 import { keepPreviousData, useQuery } from '@tanstack/vue-query'
 import { REPORT_NAMES, type ReportName } from '@shared/reports'
 import { useRoute, useRouter, type LocationQueryRaw } from 'vue-router'
-import { fetchReport, type ReportFilters } from '@/api/reports'
+import { fetchQualityReport, fetchReport, type ReportFilters } from '@/api/reports'
 import { filtersFromQuery } from './useWorklistUrl'
 import { retryUnlessRefused } from './useClinic'
 
@@ -41,4 +41,13 @@ export function useReportsUrl() {
     void router.replace({ query: next })
   }
   return { filters, report, update }
+}
+
+export function useQualityQuery(filters: MaybeRefOrGetter<ReportFilters>) {
+  return useQuery({
+    queryKey: computed(() => [...reportKeys.all, 'quality', toValue(filters)] as const),
+    queryFn: () => fetchQualityReport(toValue(filters)),
+    placeholderData: keepPreviousData,
+    retry: retryUnlessRefused,
+  })
 }

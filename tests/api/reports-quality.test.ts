@@ -3,6 +3,9 @@ import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { makeStaff } from '../helpers/factories'
 import { makeQualityFixture, type QualityFixture } from './quality-fixture'
+import { parseCsv } from './reports-fixture'
+import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
+import { AuditEntry, Outcome } from '../../server/models/index'
 
 let t: TestApp
 let f: QualityFixture
@@ -124,5 +127,50 @@ describe('GET /api/reports/quality — breakdowns, trend and who sees what', () 
     const n = await makeStaff('nurse')
     const c = await new Client(t.app).mustSignIn(n.email, n.password)
     expect((await c.get(`/api/reports/quality?${PERIOD}`)).status).toBe(403)
+  })
+})
+
+describe('GET /api/reports/quality/national-audit and the measures CSV', () => {
+  it('when a doctor exports, then one row per operated episode with the audit fields, no patient identity, and the export is audited', async () => {
+    const d = await makeStaff('doctor')
+    const c = await new Client(t.app).mustSignIn(d.email, d.password)
+    const res = await c.get(`/api/reports/quality/national-audit?${PERIOD}`)
+    expect(res.status).toBe(200)
+    expect(res.headers['content-type']).toMatch(/text\/csv/)
+    const rows = parseCsv(res.text)
+    expect(rows.map((r) => Number(r.episodeId))).toEqual([f.ids.q1, f.ids.q2, f.ids.q3, f.ids.q4])
+    const q1 = rows[0]!
+    expect(q1).toMatchObject({
+      procedureCode: 'ORTHO', sex: 'female', surgeryDate: '2025-03-10', firstHbDate: '2025-02-01', firstHbGL: '100', daysFirstHbToSurgery: '37',
+      screenedInWindow14to45: 'yes', ironDeficiencyAnaemia: 'yes', ironBeforeSurgery: 'yes', postOperativeIron: 'yes', surgeryDayHbGL: '118',
+      anaemicOnDayOfSurgery: 'yes', tranexamicAcidGiven: 'yes', redCellTransfusions: '2', redCellUnits: '2', singleUnitTransfusions: '2',
+      reassessedAfterEachUnit: '2', lowestPreTransfusionHbGL: '75', transfusionInformationGiven: 'yes',
+    })
+    // Factory patients are born 1960-05-15: 64 on 2025-03-10.
+    expect(q1.ageAtSurgeryYears).toBe('64')
+    expect(rows[1]).toMatchObject({ postponementsForAnaemia: '1', redCellUnits: '2', singleUnitTransfusions: '0', tranexamicAcidGiven: 'no' })
+    expect(res.text).not.toMatch(/TST\d{5}|Family\d|1960-05-15/)
+    expect(await AuditEntry.count({ where: { action: 'export', entity: 'national-audit-export' } })).toBe(1)
+  })
+
+  it('when an admin asks for the patient-level export, then 403; the measures CSV is theirs', async () => {
+    expect((await asAdmin.get(`/api/reports/quality/national-audit?${PERIOD}`)).status).toBe(403)
+    const csv = await asAdmin.get(`/api/reports/quality?${PERIOD}&format=csv`)
+    expect(csv.status).toBe(200)
+    const byRow = Object.fromEntries(parseCsv(csv.text).map((r) => [r.id, r]))
+    expect(byRow['tranexamic-acid']).toMatchObject({ numerator: '1', denominator: '3', percent: '33.3', benchmarkPercent: '67.5' })
+  })
+
+  it('when an operation code starts like a formula, then the exported cell is neutralised', async () => {
+    const p = await makeProcedure({ code: '=1+1' })
+    const pt = await makePatient()
+    const r = await makeReferral({ patientId: pt.id, procedureId: p.id, surgeonId: f.s1.id }, { stage: 'operated' })
+    await Outcome.create({ referralId: r.id, surgeryDate: '2025-07-01', bloodLossMl: 100, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched: 0, lowestHbGL: 120, dischargeHbGL: null, lengthOfStayDays: 1, complications: ['none'], recordedBy: null })
+    const c = await new Client(t.app).mustSignIn(f.s1.email, f.s1.password)
+    const res = await c.get(`/api/reports/quality/national-audit?${PERIOD}`)
+    const row = parseCsv(res.text).find((x) => Number(x.episodeId) === r.id)!
+    expect(row.procedureCode).toBe("'=1+1")
+    // The surgeon's export holds only their own episodes (Q1, Q2 and this one).
+    expect(parseCsv(res.text)).toHaveLength(3)
   })
 })

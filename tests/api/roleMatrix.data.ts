@@ -97,6 +97,8 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'PUT', path: '/api/referrals/:id/transfusions/:transfusionId', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'POST', path: '/api/referrals/:id/transfusions/:transfusionId/void', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'GET', path: '/api/reports/quality', allow: ['admin', 'doctor', 'surgeon'] },
+  // Patient-level rows (one per operated episode): admins see figures, not patients.
+  { method: 'GET', path: '/api/reports/quality/national-audit', allow: ['doctor', 'surgeon'] },
   { method: 'GET', path: '/api/reports/:name', allow: ['admin', 'doctor', 'surgeon'] },
   { method: 'GET', path: '/api/audit', allow: ['admin'] },
   // Documents, letters and the FHIR export: every staff role reads and downloads (surgeons their own
