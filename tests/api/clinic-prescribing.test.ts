@@ -163,7 +163,7 @@ describe('recording a dose given', () => {
     expect((await Referral.findByPk(referral.id))!.stage).toBe('clinic')
     expect(await StageTransition.count({ where: { referralId: referral.id, toStage: 'treating' } })).toBe(0)
     expect(await Administration.count({ where: { referralId: referral.id } })).toBe(1)
-    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 21))
+    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 28)) // re-check 4 weeks after the last dose (clinic default, see the test above)
   })
 
   it('when the dose is over the product cap, then 422 and nothing is recorded', async () => {
