@@ -5,6 +5,7 @@ import { authorizationUrl, finishSignIn, type PendingDirectorySignIn } from '../
 import { DirectorySignInRefused, signInFromDirectory } from '../services/directorySignIn'
 import { recordAudit } from '../services/audit'
 import { NotFound } from '../errors'
+import { markSignedIn } from '../middleware/sessionLifetime'
 import type { DirectoryRefusal, SignInProviders } from '../../shared/auth/views'
 
 declare module 'express-session' {
@@ -22,9 +23,11 @@ function refuse(res: Response, reason: DirectoryRefusal): void {
   res.redirect(303, `/sign-in/refused?reason=${reason}`)
 }
 
-function login(req: Request, user: Express.User): Promise<void> {
+async function login(req: Request, user: Express.User): Promise<void> {
   // passport regenerates the session id here, so an id fixed before the redirect is worthless.
-  return new Promise((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
+  await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
+  // The absolute session lifetime counts from here, as for a password sign-in.
+  markSignedIn(req)
 }
 
 export function directoryAuthRoutes(ctx: AppContext): ApiRouter {
