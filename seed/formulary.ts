@@ -47,6 +47,6 @@ export function starterFormularyRows() {
     minIntervalDays: p.minIntervalDays, maxWeeklyMg: p.maxWeeklyMg ?? null, maxTotalMg: p.maxTotalMg ?? null, roundToMg: p.roundToMg ?? null,
     oralDailyMg: p.oralDailyMg ?? null, oralAlternateDays: p.oralAlternateDays ?? null, source: p.source,
     licensedFromAgeYears: p.licensedFromAgeYears ?? null, paediatricMaxSingleDoseMgPerKg: p.paediatricMaxSingleDoseMgPerKg ?? null,
-    paediatricMaxSingleDoseMg: p.paediatricMaxSingleDoseMg ?? null, dosingTable: p.dosingTable ?? null, phosphateCheckOnRepeat: p.phosphateCheckOnRepeat ?? false,
+    paediatricMaxSingleDoseMg: p.paediatricMaxSingleDoseMg ?? null, dosingTable: p.dosingTable ?? null, dosedByTable: p.dosingTable !== undefined, phosphateCheckOnRepeat: p.phosphateCheckOnRepeat ?? false,
   }))
 }

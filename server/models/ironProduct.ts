@@ -20,6 +20,8 @@ export class IronProductRow extends Model<InferAttributes<IronProductRow>, Infer
   declare paediatricMaxSingleDoseMg: CreationOptional<number | null>
   declare dosingTable: CreationOptional<IronDosingTable | null>
   declare phosphateCheckOnRepeat: CreationOptional<boolean>
+  /** Plans use dosingTable only when this is set (migration 0017). */
+  declare dosedByTable: CreationOptional<boolean>
   declare source: string
   declare active: CreationOptional<boolean>
   declare createdAt: CreationOptional<Date>
@@ -46,6 +48,7 @@ export function initIronProduct(sequelize: Sequelize): void {
       paediatricMaxSingleDoseMg: { type: DataTypes.DOUBLE, allowNull: true },
       dosingTable: { type: DataTypes.JSON, allowNull: true },
       phosphateCheckOnRepeat: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      dosedByTable: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       source: { type: DataTypes.STRING(300), allowNull: false },
       active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       createdAt: DataTypes.DATE,

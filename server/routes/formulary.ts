@@ -4,6 +4,8 @@ import { STAFF } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { createIronProductSchema, updateIronProductSchema, type CreateIronProductInput, type UpdateIronProductInput } from '../../shared/schemas/formulary'
 import { createProduct, listFormulary, updateProduct } from '../services/formulary'
+import { setDosingTable } from '../services/formularyTable'
+import { dosingTableSchema, type DosingTableInput } from '../../shared/schemas/dosingTable'
 
 export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/formulary')
@@ -31,6 +33,12 @@ export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
       licensedFromAgeYears: b.licensedFromAgeYears, paediatricMaxSingleDoseMgPerKg: b.paediatricMaxSingleDoseMgPerKg,
       paediatricMaxSingleDoseMg: b.paediatricMaxSingleDoseMg, phosphateCheckOnRepeat: b.phosphateCheckOnRepeat,
     }))
+  })
+  // The product's own dosing table (weight band × Hb band) and whether plans use it.
+  api.put('/:code/dosing-table', admin, validate(dosingTableSchema), async (req, res) => {
+    const b = req.body as DosingTableInput
+    const table = b.table ? { weightBands: b.table.weightBands, hbBands: b.table.hbBands, needMg: b.table.needMg, source: b.table.source } : null
+    res.json(await setDosingTable(sequelize, actorOf(req), String(req.params.code), { dosedByTable: b.dosedByTable, table }))
   })
   return api
 }

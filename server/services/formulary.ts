@@ -5,19 +5,21 @@ import type { CreateIronProductInput, UpdateIronProductInput } from '../../share
 import { recordAudit, changedFields, type Actor } from './audit'
 import { clinical } from './viewer'
 import { Conflict, NotFound } from '../errors'
+import type { FormularyEntry } from '../../shared/formulary/views'
 
 export const FORMULARY_CAUTION = "Check every cap against your local formulary and the product's prescribing information."
 
-export interface FormularyEntry extends IronProduct {
-  id: number
-  source: string
-  active: boolean
-  caution: string
-}
+export type { FormularyEntry }
 
 const orUndefined = <T>(v: T | null): T | undefined => (v === null ? undefined : v)
 
-/** The clinical library's view of a formulary row: nulls become "no such cap". */
+const storedTable = (row: IronProductRow): IronDosingTable | null =>
+  typeof row.dosingTable === 'string' ? (JSON.parse(row.dosingTable) as IronDosingTable) : row.dosingTable
+
+/**
+ * The clinical library's view of a formulary row: nulls become "no such cap", and the product's
+ * own table is passed on only when the admin has chosen that plans are dosed by it.
+ */
 export function toIronProduct(row: IronProductRow): IronProduct {
   return {
     code: row.code, name: row.name, route: row.route,
@@ -32,13 +34,16 @@ export function toIronProduct(row: IronProductRow): IronProduct {
     licensedFromAgeYears: orUndefined(row.licensedFromAgeYears),
     paediatricMaxSingleDoseMgPerKg: orUndefined(row.paediatricMaxSingleDoseMgPerKg),
     paediatricMaxSingleDoseMg: orUndefined(row.paediatricMaxSingleDoseMg),
-    dosingTable: orUndefined(typeof row.dosingTable === 'string' ? (JSON.parse(row.dosingTable) as IronDosingTable) : row.dosingTable),
+    dosingTable: row.dosedByTable ? orUndefined(storedTable(row)) : undefined,
     phosphateCheckOnRepeat: Boolean(row.phosphateCheckOnRepeat),
   }
 }
 
-function toEntry(row: IronProductRow): FormularyEntry {
-  return { ...toIronProduct(row), id: row.id, source: row.source, active: Boolean(row.active), caution: FORMULARY_CAUTION }
+export function toEntry(row: IronProductRow): FormularyEntry {
+  return {
+    ...toIronProduct(row), id: row.id, source: row.source, active: Boolean(row.active), caution: FORMULARY_CAUTION,
+    dosingTable: storedTable(row), dosedByTable: Boolean(row.dosedByTable),
+  }
 }
 
 export async function listFormulary(opts: { includeInactive?: boolean } = {}): Promise<FormularyEntry[]> {

@@ -68,6 +68,10 @@ export function validateIronProduct(product: IronProduct): IronProduct {
   optionalInRange('product.licensedFromAgeYears', product.licensedFromAgeYears, { min: 0, max: 18, unit: 'years' })
   optionalInRange('product.paediatricMaxSingleDoseMgPerKg', product.paediatricMaxSingleDoseMgPerKg, CLINICAL_LIMITS.productMaxSingleDoseMgPerKg)
   optionalInRange('product.paediatricMaxSingleDoseMg', product.paediatricMaxSingleDoseMg, CLINICAL_LIMITS.productMaxSingleDoseMg)
-  if (product.dosingTable !== undefined) validateDosingTable(product.dosingTable)
+  if (product.dosingTable !== undefined) {
+    // The tables in product information give an IV course's cumulative need; oral iron is dosed by the day.
+    if (route === 'oral') throw new ClinicalInputError('product.dosingTable', 'oral', 'An oral product cannot be dosed by a cumulative-need table: switch "dosed by its table" off first')
+    validateDosingTable(product.dosingTable)
+  }
   return product
 }

@@ -118,9 +118,4 @@ export interface ReadinessRow {
   missing: string | null
 }
 
-export interface FormularyEntry extends IronProduct {
-  id: number
-  source: string
-  active: boolean
-  caution: string
-}
+export type { FormularyEntry } from '@shared/formulary/views'

@@ -67,6 +67,7 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/formulary', allow: [...STAFF] },
   { method: 'POST', path: '/api/formulary', allow: ['admin'] },
   { method: 'PATCH', path: '/api/formulary/:code', allow: ['admin'] },
+  { method: 'PUT', path: '/api/formulary/:code/dosing-table', allow: ['admin'] },
   { method: 'GET', path: '/api/settings/clinic', allow: [...STAFF] },
   { method: 'GET', path: '/api/clinic-profile', allow: 'signed-in' },
   { method: 'PATCH', path: '/api/settings/clinic', allow: ['admin'] },
