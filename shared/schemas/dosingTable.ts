@@ -6,16 +6,17 @@ import { dosingTableProblems, type DosingTableDraft } from '../clinical/dosingTa
  * cell rules live in one pure function (dosingTableProblems) so the form and the server refuse
  * the same gaps, overlaps and impossible needs, each message naming its band or cell.
  */
+// Empty numbers pass here on purpose: dosingTableProblems then names the band or cell they sit in.
 const band = yup.object({
-  from: yup.number().typeError('The lower bound must be a number').required('The lower bound is required'),
-  below: yup.number().typeError('The upper bound must be a number').nullable().defined(),
+  from: yup.number().typeError('A lower bound must be a number').nullable().defined(),
+  below: yup.number().typeError('An upper bound must be a number').nullable().defined(),
 })
 
 const table = yup
   .object({
     weightBands: yup.array(band).required('Weight bands are required'),
     hbBands: yup.array(band).required('Hb bands are required'),
-    needMg: yup.array(yup.array(yup.number().typeError('Each need must be a number (mg)').required('Each need is required')).required()).required('The needs are required'),
+    needMg: yup.array(yup.array(yup.number().typeError('Each need must be a number (mg)').nullable().defined()).required()).required('The needs are required'),
     source: yup.string().trim().max(300, 'Source must be at most 300 characters').required('Source is required (the product information, its section and date)'),
   })
   .test('dosing-table', 'The dosing table has problems', function check(value) {

@@ -1,4 +1,5 @@
 import type { CreateIronProductInput, UpdateIronProductInput } from '@shared/schemas/formulary'
+import type { DosingTableInput } from '@shared/schemas/dosingTable'
 import { api } from './client'
 import type { FormularyEntry } from './clinicTypes'
 
@@ -12,4 +13,8 @@ export function createIronProduct(input: CreateIronProductInput): Promise<Formul
 
 export function updateIronProduct(code: string, changes: UpdateIronProductInput): Promise<FormularyEntry> {
   return api.patch<FormularyEntry>(`/formulary/${encodeURIComponent(code)}`, changes)
+}
+
+export function saveDosingTable(code: string, input: DosingTableInput): Promise<FormularyEntry> {
+  return api.put<FormularyEntry>(`/formulary/${encodeURIComponent(code)}/dosing-table`, input)
 }

@@ -2,7 +2,8 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
 import type { CreateIronProductInput, UpdateIronProductInput } from '@shared/schemas/formulary'
 import type { ClinicSettingsInput } from '@shared/schemas/clinicSettings'
 import type { CreateProcedureInput, UpdateProcedureInput } from '@shared/schemas/procedures'
-import { createIronProduct, listFormulary, updateIronProduct } from '@/api/formulary'
+import { createIronProduct, listFormulary, saveDosingTable, updateIronProduct } from '@/api/formulary'
+import type { DosingTableInput } from '@shared/schemas/dosingTable'
 import { getClinicSettings, updateClinicSettings } from '@/api/clinicSettings'
 import { createProcedure, listAllProcedures, updateProcedure } from '@/api/catalogue'
 import { procedureKeys } from './useCatalogue'
@@ -45,6 +46,12 @@ export function useCreateIronProductMutation() {
 export function useUpdateIronProductMutation() {
   const onSuccess = useInvalidate(formularyKeys.all)
   return useMutation({ mutationFn: ({ code, changes }: { code: string; changes: UpdateIronProductInput }) => updateIronProduct(code, changes), onSuccess })
+}
+
+/** A product's own dosing table changes every plan made with it: formulary and episodes refetch. */
+export function useSaveDosingTableMutation() {
+  const onSuccess = useInvalidate(formularyKeys.all)
+  return useMutation({ mutationFn: ({ code, input }: { code: string; input: DosingTableInput }) => saveDosingTable(code, input), onSuccess })
 }
 
 export function useUpdateClinicSettingsMutation() {
