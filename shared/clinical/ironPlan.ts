@@ -142,7 +142,8 @@ export function ironDosePlan(input: {
 
   if (need.method === 'ganzoni' && hbGL >= targetHbGL) warnings.push(`Hb ${hbGL} g/L is at or above the target ${targetHbGL} g/L: the deficit is iron stores only.`)
   if (paediatric) warnings.push(`Age ${Math.floor(input.ageYears!)}: paediatric caps from the formulary apply; check the dose with the product information for children.`)
-  if (weightKg < 35) warnings.push(`Weight ${weightKg} kg is under 35 kg: Ganzoni stores are 15 mg/kg and adult dose caps may not apply; check the prescribing information.`)
+  // A product table prints its own figure under 35 kg; only Ganzoni changes its stores there.
+  if (weightKg < 35) warnings.push(`Weight ${weightKg} kg is under 35 kg: ${need.method === 'ganzoni' ? 'Ganzoni stores are 15 mg/kg and ' : ''}adult dose caps may not apply; check the prescribing information.`)
 
   const cappedTotal = product.maxTotalMg !== undefined ? Math.min(deficitMg, product.maxTotalMg) : deficitMg
   if (cappedTotal < deficitMg) warnings.push(`Total capped at ${product.maxTotalMg} mg (product maximum), below the calculated need of ${deficitMg} mg.`)

@@ -36,6 +36,13 @@ describe('the product dosing table (ferric carboxymaltose SmPC Table 1)', () => 
     expect(plan.doses.map((d) => d.doseMg)).toEqual([1000, 500])
   })
 
+  it('when the table doses a 30 kg patient, then the plan gives the label\'s 500 mg (Ferinject SmPC 4.2 Table 1: below 35 kg) and no warning speaks of Ganzoni stores', () => {
+    const plan = ironDosePlan({ product: { ...fcm, dosingTable: FCM_TABLE }, weightKg: 30, hbGL: 90, targetHbGL: 150 })
+    expect(plan.deficitMg).toBe(500)
+    expect(plan.warnings.join(' ')).toMatch(/under 35 kg: adult dose caps may not apply/)
+    expect(plan.warnings.join(' ')).not.toMatch(/Ganzoni/)
+  })
+
   it('when a table is malformed, then the formulary entry is refused', () => {
     expect(() => validateIronProduct({ ...fcm, dosingTable: { ...FCM_TABLE, needMg: [[500, 1500]] } })).toThrow(/needMg must have 3 rows/)
     expect(() => validateIronProduct({ ...fcm, dosingTable: { ...FCM_TABLE, weightBandsKg: [35, 70] } })).toThrow(/ascending lower band edges starting at 0/)
