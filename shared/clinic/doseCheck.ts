@@ -85,16 +85,28 @@ export function checkGivenDose(input: {
   const out: (CapViolation | { cap: 'prescribedTotal'; message: string })[] = single
     .filter((v) => perDose.has(v.cap))
     .map((v) => ({ ...v, message: v.message.replace('Dose 1 ', 'This dose ') }))
-  const before = input.earlier.filter((d) => d.givenAt.getTime() <= givenAt.getTime())
-  const last = before.reduce<GivenDose | null>((a, d) => (!a || d.givenAt > a.givenAt ? d : a), null)
-  if (last && product.route === 'iv') {
-    const days = (givenAt.getTime() - last.givenAt.getTime()) / DAY_MS
-    if (days < product.minIntervalDays) {
-      out.push({ cap: 'minIntervalDays', message: `The last dose was ${Math.max(0, Math.floor(days))} days before this one; ${product.name} needs at least ${product.minIntervalDays}` })
+  // A dose may be recorded after the fact, between doses already on file: the interval is
+  // checked against the nearest dose on each side, and the week against every 7-day window
+  // that holds this dose, not only the 7 days before it.
+  const t = givenAt.getTime()
+  const nearest = (side: -1 | 1) => input.earlier
+    .filter((d) => (side < 0 ? d.givenAt.getTime() <= t : d.givenAt.getTime() > t))
+    .reduce<GivenDose | null>((a, d) => (!a || Math.abs(d.givenAt.getTime() - t) < Math.abs(a.givenAt.getTime() - t) ? d : a), null)
+  if (product.route === 'iv') {
+    for (const other of [nearest(-1), nearest(1)]) {
+      if (!other) continue
+      const days = Math.abs(t - other.givenAt.getTime()) / DAY_MS
+      if (days < product.minIntervalDays) {
+        const when = other.givenAt.getTime() <= t ? 'before' : 'after'
+        out.push({ cap: 'minIntervalDays', message: `The nearest dose ${when} this one is ${Math.max(0, Math.floor(days))} days away; ${product.name} needs at least ${product.minIntervalDays}` })
+        break
+      }
     }
   }
   if (product.maxWeeklyMg !== undefined) {
-    const week = before.filter((d) => givenAt.getTime() - d.givenAt.getTime() < 7 * DAY_MS).reduce((s, d) => s + d.doseMg, 0) + doseMg
+    const all = [...input.earlier, { doseMg, givenAt }]
+    const starts = all.map((d) => d.givenAt.getTime()).filter((s0) => s0 <= t && t - s0 < 7 * DAY_MS)
+    const week = Math.max(...starts.map((s0) => all.filter((d) => d.givenAt.getTime() >= s0 && d.givenAt.getTime() - s0 < 7 * DAY_MS).reduce((s, d) => s + d.doseMg, 0)))
     if (week > product.maxWeeklyMg) out.push({ cap: 'maxWeeklyMg', message: `${week} mg within 7 days is over the weekly maximum of ${product.maxWeeklyMg} mg for ${product.name}` })
   }
   const course = input.givenOnPrescriptionMg + doseMg

@@ -43,4 +43,22 @@ describe('re-checking a dose as it is recorded', () => {
     ])
     expect(caps({ weightKg: 40, doseMg: 900 })).toEqual(['maxSingleDoseMgPerKg'])
   })
+
+  it('when the course would pass the product maximum, then the course maximum is named', () => {
+    const v = checkGivenDose({ ...base, product: { ...fcm, maxTotalMg: 2000 }, doseMg: 1000, givenOnPrescriptionMg: 1500, prescribedTotalMg: 3000 })
+    expect(v.map((x) => x.cap)).toEqual(['maxTotalMg'])
+    expect(v[0]!.message).toMatch(/2500 mg, over the product's maximum of 2000 mg/)
+  })
+
+  it('when a dose is recorded after the fact 3 days before a dose already on file, then the interval to that later dose is named', () => {
+    const v = checkGivenDose({ ...base, givenAt: day(10), earlier: [{ doseMg: 500, givenAt: day(13) }] })
+    expect(v.map((x) => x.cap)).toEqual(['minIntervalDays'])
+    expect(v[0]!.message).toMatch(/nearest dose after this one is 3 days away/)
+  })
+
+  it('when a dose recorded after the fact makes more than 1000 mg with a later dose in the same 7 days, then the weekly maximum is named', () => {
+    const twoDay = { ...fcm, minIntervalDays: 2 }
+    expect(caps({ product: twoDay, doseMg: 600, givenAt: day(10), earlier: [{ doseMg: 500, givenAt: day(14) }] })).toEqual(['maxWeeklyMg'])
+    expect(caps({ product: twoDay, doseMg: 600, givenAt: day(10), earlier: [{ doseMg: 500, givenAt: day(17) }] })).toEqual([])
+  })
 })
