@@ -98,7 +98,7 @@ export function checkGivenDose(input: {
       const days = Math.abs(t - other.givenAt.getTime()) / DAY_MS
       if (days < product.minIntervalDays) {
         const when = other.givenAt.getTime() <= t ? 'before' : 'after'
-        out.push({ cap: 'minIntervalDays', message: `The nearest dose ${when} this one is ${Math.max(0, Math.floor(days))} days away; ${product.name} needs at least ${product.minIntervalDays}` })
+        out.push({ cap: 'minIntervalDays', message: `The nearest dose ${when} this one is ${Number(days.toFixed(1))} days away; ${product.name} needs at least ${product.minIntervalDays}` })
         break
       }
     }

@@ -126,6 +126,24 @@ describe('recording a dose re-checks the caps and the prescribed total', () => {
     expect(res.body.error.fields.maxWeeklyMg).toMatch(/800 mg within 7 days is over the weekly maximum of 600 mg/)
   })
 
+  it('when 900 mg ferric carboxymaltose is recorded for a 40 kg patient, then 422 names the 20 mg/kg cap (800 mg; Ferinject SmPC 4.2) and nothing is stored', async () => {
+    const { referral, prescriptionId } = await prescribed('ferric-carboxymaltose', 40, 95)
+    const res = await give(referral.id, { prescriptionId, doseMg: 900 })
+    expect(res.status, JSON.stringify(res.body)).toBe(422)
+    expect(res.body.error.fields.maxSingleDoseMgPerKg).toMatch(/over 20 mg\/kg \(800 mg at 40 kg\)/)
+    expect(await Administration.count()).toBe(0)
+  })
+
+  it('when a dose is entered late, dated 3 days before a dose already on file, then 422 names the interval to that later dose', async () => {
+    const { referral, prescriptionId } = await prescribed('ferric-carboxymaltose', 70, 95)
+    const now = Date.now()
+    await give(referral.id, { prescriptionId, doseMg: 500, givenAt: new Date(now - 2 * 86_400_000).toISOString() }).expect(201)
+    const res = await give(referral.id, { prescriptionId, doseMg: 500, givenAt: new Date(now - 5 * 86_400_000).toISOString() })
+    expect(res.status, JSON.stringify(res.body)).toBe(422)
+    expect(res.body.error.fields.minIntervalDays).toMatch(/nearest dose after this one is 3 days away/)
+    expect(await Administration.count()).toBe(1)
+  })
+
   it('when a repeat ferric carboxymaltose course is prescribed, then a serum phosphate is asked for first; once recorded, the course is saved', async () => {
     const { referral, prescriptionId, patient } = await prescribed('ferric-carboxymaltose', 70, 95)
     const givenAt = new Date(Date.now() - 40 * 86_400_000)
