@@ -67,6 +67,7 @@ describe('the Surgery dates panel on the episode', () => {
   it('when the nurse moves the date for anaemia, then the history shows who, when and why', async () => {
     await page.getByTestId('move-date').click()
     await page.getByTestId('move-date-form').waitFor()
+    expect(await page.inputValue('#move-date')).toBe(addDays(todayIso(), 30))
     await page.fill('#move-date', addDays(todayIso(), 58))
     // Without a reason the form says so and nothing moves.
     await page.getByTestId('confirm-move-date').click()
@@ -135,6 +136,9 @@ describe('correcting and voiding a transfusion row', () => {
     await page.getByRole('button', { name: /^Correct: Red cells/ }).click()
     await page.getByTestId('tx-edit-form').waitFor()
     await waitForStillness(page)
+    // The dialog opens on the row as recorded, given-at time included.
+    expect(await page.inputValue('#tx-edit-given')).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/)
+    expect(await page.inputValue('#tx-edit-pre')).toBe('74')
     expect(await seriousViolations(page)).toEqual([])
     await page.click('#tx-edit-post')
     await page.keyboard.type('83')
