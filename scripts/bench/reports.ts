@@ -56,10 +56,25 @@ async function ensureQualityData(db: ConnectionConfig): Promise<void> {
   }
 }
 
+/** Cancelled planned operations (migration 0018) for the quality report's cancellation measure, added once. */
+async function ensureCancellationData(db: ConnectionConfig): Promise<void> {
+  const conn = await mariadb.createConnection(db)
+  try {
+    const [{ n }] = await conn.query("SELECT COUNT(*) AS n FROM surgery_date_changes WHERE kind = 'cancelled'")
+    if (Number(n) > 0) return
+    await conn.query(`INSERT INTO surgery_date_changes (referral_id, kind, from_date, to_date, reason, changed_at)
+      SELECT id, 'cancelled', planned_surgery_date, NULL, IF(id % 2 = 0, 'anaemia', 'patient-choice'), created_at FROM referrals WHERE id % 13 = 0`)
+    await conn.query('ANALYZE TABLE surgery_date_changes')
+  } finally {
+    await conn.end()
+  }
+}
+
 export async function benchReports(env: NodeJS.ProcessEnv) {
   const db = { host: env.DB_HOST, port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME }
   await ensureReportData(db)
   await ensureQualityData(db)
+  await ensureCancellationData(db)
   const server = await startBenchServer(env, 8098)
   try {
     const cookie = await signIn(server.url, ADMIN, BENCH_PASSWORD)

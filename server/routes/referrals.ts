@@ -11,6 +11,8 @@ import {
   type UpdateReferralInput,
 } from '../../shared/schemas/referrals'
 import { createResultSchema, type CreateResultInput } from '../../shared/schemas/results'
+import { cancelOperationSchema, type CancelOperationInput } from '../../shared/schemas/cancellations'
+import { cancelPlannedOperation } from '../services/cancellations'
 import { isAnalyte } from '../../shared/pathway'
 import { createReferral, updateReferral } from '../services/referrals'
 import { referralDetail } from '../services/referralDetail'
@@ -49,6 +51,12 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
   api.post('/:id/transitions', { access: ['nurse', 'doctor', 'surgeon'] }, validate(transitionSchema), async (req, res) => {
     const b = req.body as TransitionInput
     res.json(await moveReferral(sequelize, viewerOf(req), idParam(req), { to: b.to, reason: b.reason, version: b.version }))
+  })
+
+  // Surgeons may cancel their own patients' operations (the service checks whose), as they may postpone them.
+  api.post('/:id/cancellation', { access: ['nurse', 'doctor', 'surgeon'] }, validate(cancelOperationSchema), async (req, res) => {
+    const b = req.body as CancelOperationInput
+    res.json(await cancelPlannedOperation(sequelize, viewerOf(req), idParam(req), { version: b.version, reason: b.reason, note: b.note }))
   })
 
   api.post('/:id/results', { access: CLINICAL_WRITERS }, validate(createResultSchema), async (req, res) => {

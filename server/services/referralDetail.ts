@@ -1,6 +1,8 @@
 import { Patient, Procedure, Referral, Result, StageTransition, SurgeryDateChange, User } from '../models/index'
 import { STAGE_LABELS, allowedMoves, daysBetween, isReadOnly, nextAction, referralFlags } from '../../shared/pathway'
 import { DATE_CHANGE_REASON_LABELS } from '../../shared/schemas/referrals'
+import { CANCELLATION_REASON_LABELS, type CancellationReason } from '../../shared/schemas/cancellations'
+import type { DateChangeView } from '../../shared/pathway/dateChanges'
 import { recordAudit } from './audit'
 import { toPatientView } from './patients'
 import { toProcedureView } from './procedures'
@@ -33,6 +35,13 @@ function latestByAnalyte(results: ResultView[]): Record<string, ResultView> {
   const out: Record<string, ResultView> = {}
   for (const r of results) out[r.analyte] ??= r
   return out
+}
+
+function toDateChangeView(c: SurgeryDateChange): DateChangeView {
+  const by = (c as SurgeryDateChange & { changedByUser?: User | null }).changedByUser
+  const kind = c.kind === 'cancelled' ? 'cancelled' : 'moved'
+  const reasonLabel = kind === 'cancelled' ? CANCELLATION_REASON_LABELS[c.reason as CancellationReason] ?? DATE_CHANGE_REASON_LABELS[c.reason] : DATE_CHANGE_REASON_LABELS[c.reason]
+  return { kind, fromDate: c.fromDate, toDate: c.toDate, reason: c.reason, reasonLabel, note: c.note, changedAt: c.changedAt.toISOString(), changedBy: by ? { id: by.id, name: by.name } : null }
 }
 
 /**
@@ -90,10 +99,9 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     dateChangeRequestedAt: isoOrNull(r.dateChangeRequestedAt),
     listingDate: r.listingDate ?? null,
     // Who moved the surgery date, when and why: the listing-to-surgery story the quality report counts.
-    dateChanges: dateChanges.map((c) => {
-      const by = (c as SurgeryDateChange & { changedByUser?: User | null }).changedByUser
-      return { fromDate: c.fromDate, toDate: c.toDate, reason: c.reason, reasonLabel: DATE_CHANGE_REASON_LABELS[c.reason], note: c.note, changedAt: c.changedAt.toISOString(), changedBy: by ? { id: by.id, name: by.name } : null }
-    }),
+    dateChanges: dateChanges.map(toDateChangeView),
+    // The latest history row is a cancellation until a new date rebooks the operation.
+    surgeryCancelled: dateChanges.length > 0 && dateChanges[dateChanges.length - 1]!.kind === 'cancelled' ? toDateChangeView(dateChanges[dateChanges.length - 1]!) : null,
     allowedMoves: allowedMoves(r.stage, viewer.role),
     timeline: timelineOf(transitions as TransitionRow[], results),
     createdBy: r.createdBy,

@@ -1,7 +1,7 @@
 import type { AppointmentKind, AppointmentStatus } from '@shared/appointments'
 import type { AllowedMove, Priority, Stage, WorklistFlag } from '@shared/pathway'
 import type { IronStatus, Sex } from '@shared/clinical'
-import type { DateChangeReason } from '@shared/schemas/referrals'
+import type { DateChangeView } from '@shared/pathway/dateChanges'
 
 /**
  * Shapes the pathway API answers with (server/services/worklist.ts, referralDetail.ts,
@@ -135,7 +135,9 @@ export interface ReferralDetail {
   dateChangeRequestedAt: string | null
   /** The decision to operate. */
   listingDate: string | null
-  dateChanges: { fromDate: string; toDate: string; reason: DateChangeReason; reasonLabel: string; note: string | null; changedAt: string; changedBy: { id: number; name: string } | null }[]
+  dateChanges: DateChangeView[]
+  /** Set while the planned operation stands cancelled (until a new date rebooks it). */
+  surgeryCancelled: DateChangeView | null
   allowedMoves: AllowedMove[]
   timeline: TimelineItem[]
 }

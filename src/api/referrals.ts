@@ -1,5 +1,6 @@
 import type { CreateReferralInput, TransitionInput, UpdateReferralInput } from '@shared/schemas/referrals'
 import type { CreateResultInput } from '@shared/schemas/results'
+import type { CancelOperationInput } from '@shared/schemas/cancellations'
 import { api } from './client'
 import type { ReferralDetail, ResultView, Screening } from './pathwayTypes'
 
@@ -14,6 +15,10 @@ export function createReferral(input: CreateReferralInput): Promise<ReferralDeta
 
 export function updateReferral(id: number, input: UpdateReferralInput): Promise<ReferralDetail> {
   return api.patch<ReferralDetail>(`/referrals/${id}`, input)
+}
+
+export function cancelPlannedOperation(id: number, input: CancelOperationInput): Promise<ReferralDetail> {
+  return api.post<ReferralDetail>(`/referrals/${id}/cancellation`, input)
 }
 
 export function moveReferral(id: number, input: TransitionInput): Promise<ReferralDetail> {

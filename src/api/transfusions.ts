@@ -21,3 +21,7 @@ export function recordTransfusion(id: number, input: TransfusionPayload): Promis
 export function voidTransfusion(id: number, transfusionId: number, reason: string): Promise<TransfusionWrite> {
   return api.post<TransfusionWrite>(`${base(id)}/${transfusionId}/void`, { reason })
 }
+
+export function editTransfusion(id: number, transfusionId: number, input: TransfusionPayload & { changeReason: string }): Promise<TransfusionWrite> {
+  return api.put<TransfusionWrite>(`${base(id)}/${transfusionId}`, input)
+}

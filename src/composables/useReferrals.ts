@@ -2,7 +2,8 @@ import { computed, toValue, type MaybeRefOrGetter } from 'vue'
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
 import type { CreateReferralInput, TransitionInput, UpdateReferralInput } from '@shared/schemas/referrals'
 import type { CreateResultInput } from '@shared/schemas/results'
-import { addResult, createReferral, getReferral, moveReferral, updateReferral } from '@/api/referrals'
+import type { CancelOperationInput } from '@shared/schemas/cancellations'
+import { addResult, cancelPlannedOperation, createReferral, getReferral, moveReferral, updateReferral } from '@/api/referrals'
 import { fetchWorklist, type WorklistFilters } from '@/api/worklist'
 
 /** One key family for episodes: the worklist pages and each episode's detail sit under it. */
@@ -79,6 +80,15 @@ export function useUpdateReferralMutation() {
   const invalidate = useInvalidateReferrals()
   return useMutation({
     mutationFn: ({ id, input }: { id: number; input: UpdateReferralInput }) => updateReferral(id, input),
+    onSettled: invalidate,
+  })
+}
+
+/** Cancelling the planned operation; a stale version refetches the episode as a move does. */
+export function useCancelOperationMutation() {
+  const invalidate = useInvalidateReferrals()
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: CancelOperationInput }) => cancelPlannedOperation(id, input),
     onSettled: invalidate,
   })
 }

@@ -1,6 +1,6 @@
 import { computed, toValue, type MaybeRefOrGetter } from 'vue'
 import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
-import { listTransfusions, recordTransfusion, voidTransfusion, type TransfusionPayload } from '@/api/transfusions'
+import { editTransfusion, listTransfusions, recordTransfusion, voidTransfusion, type TransfusionPayload } from '@/api/transfusions'
 import { referralKeys } from './useReferrals'
 import { retryUnlessRefused } from './useClinic'
 
@@ -25,6 +25,14 @@ export function useVoidTransfusionMutation() {
   const queryClient = useQueryClient()
   return useMutation({
     mutationFn: ({ id, transfusionId, reason }: { id: number; transfusionId: number; reason: string }) => voidTransfusion(id, transfusionId, reason),
+    onSettled: (_d, _e, v) => queryClient.invalidateQueries({ queryKey: referralKeys.detail(v.id) }),
+  })
+}
+
+export function useEditTransfusionMutation() {
+  const queryClient = useQueryClient()
+  return useMutation({
+    mutationFn: ({ id, transfusionId, input }: { id: number; transfusionId: number; input: TransfusionPayload & { changeReason: string } }) => editTransfusion(id, transfusionId, input),
     onSettled: (_d, _e, v) => queryClient.invalidateQueries({ queryKey: referralKeys.detail(v.id) }),
   })
 }

@@ -8,6 +8,8 @@ export const AUDIT_ENTITIES = [
   'session', 'request',
   // The transfusion record and the quality report's national-audit export.
   'transfusion', 'transfusions', 'national-audit-export',
+  // A cancelled planned operation (the surgery-date history).
+  'planned-operation',
 ]
 export const AUDIT_ACTIONS = ['view', 'create', 'update', 'transition', 'move', 'cancel', 'export', 'download', 'import', 'reverse', 'void',
   'sign-in', 'sign-out', 'sign-in-failed', 'sign-in-locked-out', 'sign-in-refused', 'forbidden', 'csrf-refused', 'change-password', 'reset-password']

@@ -38,7 +38,7 @@ describe('GET /api/reports/quality — each measure against the hand count (fixt
 
   it('when counted for 2025, then Q5 (operated 2024-12-15) is left out and the ids are those the brief names', () => {
     expect(Object.keys(m).sort()).toEqual([
-      'anaemic-on-day-of-surgery', 'iron-before-surgery', 'median-pre-transfusion-hb', 'post-operative-iron', 'postponed-for-anaemia',
+      'anaemic-on-day-of-surgery', 'cancelled-for-anaemia', 'crossmatch-against-schedule', 'iron-before-surgery', 'median-pre-transfusion-hb', 'post-operative-iron', 'postponed-for-anaemia',
       'reassessed-after-each-unit', 'screened-28-days-before', 'screened-in-window-14-45', 'single-unit-red-cell-transfusions',
       'tranexamic-acid', 'transfused', 'transfusion-information', 'units-per-100-operated',
     ])

@@ -49,6 +49,7 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/referrals/:id', allow: [...CLINICAL] },
   { method: 'PATCH', path: '/api/referrals/:id', allow: ['nurse', 'doctor'] },
   { method: 'POST', path: '/api/referrals/:id/transitions', allow: ['nurse', 'doctor', 'surgeon'] },
+  { method: 'POST', path: '/api/referrals/:id/cancellation', allow: ['nurse', 'doctor', 'surgeon'] },
   { method: 'POST', path: '/api/referrals/:id/results', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/referrals/:id/results', allow: [...CLINICAL] },
   { method: 'GET', path: '/api/worklist', allow: [...CLINICAL] },

@@ -9,6 +9,7 @@ import { getClinicSettings } from '../clinicSettings'
 import { num, pct, round1, select, whereFor, type ReportFilters } from './filters'
 import { groupedMedian } from './haemoglobin'
 import { EPISODE_FACTS_SQL, PRE_HB_SQL } from './qualitySql'
+import { mergeExtras, qualityExtras } from './qualityExtras'
 
 // Anaemia is judged as screening judges it (clinic criteria, strict "<"), as in the transfusion report.
 const ANAEMIC = (col: string) => `(${col} < IF(x.sex = 'male', :maleGL, :femaleGL))`
@@ -27,6 +28,9 @@ const COUNTS: Record<QualityMeasureId, [string, string]> = {
   transfused: ['x.rbcUnits > 0', '1'],
   'single-unit-red-cell-transfusions': ['x.rbcSingle', 'x.rbcRows'],
   'postponed-for-anaemia': ['x.postponementsForAnaemia > 0', '1'],
+  // Counted by their own query (qualityExtras.ts) and added to the groups below.
+  'cancelled-for-anaemia': ['0', '0'],
+  'crossmatch-against-schedule': ['0', '0'],
 }
 
 const SQL = (where: string) => `
@@ -51,14 +55,16 @@ export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Pro
   const threshold = (sex: 'male' | 'female') => classifyAnaemia({ hbGL: 100, sex, criteria: settings.anaemiaCriteria }).thresholdGL
   const w = whereFor(f, 'surgery')
   const replacements = { ...w.replacements, maleGL: threshold('male'), femaleGL: threshold('female'), txaLossMl: TXA_EXPECTED_LOSS_ML }
-  const [groupRows, preHb] = await Promise.all([
+  const [groupRows, preHb, extras] = await Promise.all([
     select<Record<string, unknown>>(sequelize, SQL(w.sql), replacements),
     select<{ value: unknown; n: unknown }>(sequelize, PRE_HB_SQL(w.sql), w.replacements),
+    qualityExtras(sequelize, f),
   ])
   const groups = groupRows.map((g) => ({
     procedureId: num(g.procedureId)!, surgeonId: num(g.surgeonId)!, month: String(g.month),
     sums: { operated: num(g.operated) ?? 0, rbcUnits: num(g.rbcUnits) ?? 0, n: QUALITY_MEASURE_IDS.map((_, i) => num(g[`n${i}`]) ?? 0), d: QUALITY_MEASURE_IDS.map((_, i) => num(g[`d${i}`]) ?? 0) },
   }))
+  mergeExtras(groups, extras, QUALITY_MEASURE_IDS, empty)
   const total = empty()
   for (const g of groups) add(total, g.sums)
 
