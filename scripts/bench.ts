@@ -39,6 +39,11 @@ async function main(): Promise<void> {
   })
   try {
     const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1', ADMIN_SECOND_FACTOR_REQUIRED: 'false' }
+    if (process.env.BENCH_SERVER !== 'tsx') {
+      const out = path.join(benchDir, 'dist-server')
+      if (spawnSync('bash', ['scripts/build-server.sh', out], { cwd: repoRoot, stdio: 'inherit' }).status !== 0) throw new Error('server build failed')
+      env.BENCH_SERVER_ENTRY = path.join(out, 'server', 'index.js')
+    }
     await prepareDatabase(env, { seedDemo: false })
     const t0 = Date.now()
     const data = await loadBenchData({ host: '127.0.0.1', port: stack.mariadb.port, user: env.DB_USER!, password: env.DB_PASSWORD!, database: env.DB_NAME! })

@@ -1,7 +1,8 @@
 /**
  * npm start: private MariaDB (.data/), migrations, demo data when empty, maildev, client build,
  * then the server. Ctrl-C stops everything it started and shuts MariaDB down cleanly.
- * `--dev` (npm run dev) skips the build and runs the server under `tsx watch` beside Vite's
+ * Production runs the compiled server (dist-server/) with plain node.
+ * `--dev` (npm run dev) skips the builds and runs the server under `tsx watch` beside Vite's
  * dev server (http://127.0.0.1:5173, which proxies /api to the server).
  */
 import { spawn, type ChildProcess } from 'node:child_process'
@@ -80,6 +81,12 @@ async function main(): Promise<void> {
     }
     // The demo takes laboratory results and theatre bookings over MLLP (npm run hl7:send).
     env.HL7_MLLP_ENABLED ||= 'true'
+    if (!dev) {
+      // Production runs the compiled server, and its migrations, with plain node.
+      console.log('[start] compiling the server...')
+      await run('bash', ['scripts/build-server.sh'], env)
+      await run(process.execPath, ['dist-server/server/migrateMain.js'], env)
+    }
     const seeded = await prepareDatabase(env, { seedDemo: true })
     console.log(seeded ? '[start] loaded the demo scenario (invented data)' : '[start] database already has data; demo not reloaded')
     if (dev) {
@@ -88,8 +95,9 @@ async function main(): Promise<void> {
       console.log('[start] building the client...')
       await run(path.join(repoRoot, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], env)
     }
-    const serverArgs = dev ? ['watch', 'server/index.ts'] : ['server/index.ts']
-    server = spawn(path.join(repoRoot, 'node_modules/.bin/tsx'), serverArgs, { cwd: repoRoot, env, stdio: 'inherit' })
+    server = dev
+      ? spawn(path.join(repoRoot, 'node_modules/.bin/tsx'), ['watch', 'server/index.ts'], { cwd: repoRoot, env, stdio: 'inherit' })
+      : spawn(process.execPath, ['dist-server/server/index.js'], { cwd: repoRoot, env, stdio: 'inherit' })
     server.on('exit', (code) => {
       if (!stopping) {
         console.error(`[start] the server exited (${code}); stopping the rest`)

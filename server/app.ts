@@ -51,11 +51,17 @@ import { appointmentLetterRoutes, letterDownloadRoutes, letterRoutes } from './r
 import { fhirExportRoutes } from './routes/fhirExport'
 import { importRoutes } from './routes/imports'
 import { interfaceRoutes } from './routes/interfaces'
+import type { Logger } from 'pino'
+import { createLogger, httpLogger } from './observability/logger'
+import { createMetrics, type AppMetrics } from './observability/metrics'
+import { metricsRoute } from './observability/metricsRoute'
 
 export const SESSION_COOKIE = 'ferrolane.sid'
 
 export interface FerrolaneApp {
   app: Express
+  logger: Logger
+  metrics: AppMetrics
   routes: RouteSpec[]
   sessionStore: MariaDbSessionStore
 }
@@ -84,7 +90,7 @@ function contentSecurityPolicy(config: Config) {
 }
 
 /** Builds the whole app without listening, so tests can drive it with Supertest. */
-export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
+export function createApp(config: Config, sequelize: Sequelize, opts: { logger?: Logger } = {}): FerrolaneApp {
   initModels(sequelize)
   setViewAuditWindow(config.auditViewWindowMinutes)
   setClinicTimeZone(config.clinic.timeZone)
@@ -95,6 +101,12 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
   app.disable('x-powered-by')
   app.set('trust proxy', config.trustProxy)
   app.use(requestId)
+  const logger = opts.logger ?? createLogger(config.logLevel)
+  const metrics = createMetrics(sequelize, config.db.poolMax)
+  app.locals.metrics = metrics
+  app.use(httpLogger(logger))
+  app.use(metrics.observe)
+  app.get('/metrics', metricsRoute(config, metrics))
   app.use(contentSecurityPolicy(config))
 
   const sessionStore = new MariaDbSessionStore(config.session.idleMinutes * 60_000)
@@ -147,5 +159,5 @@ export function createApp(config: Config, sequelize: Sequelize): FerrolaneApp {
     app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile('index.html', { root: staticDir }))
   }
   app.use(errorHandler)
-  return { app, routes: routers.flatMap((r) => r.specs), sessionStore }
+  return { app, logger, metrics, routes: routers.flatMap((r) => r.specs), sessionStore }
 }

@@ -34,6 +34,8 @@ export interface Config {
     /** TEMP_PASSWORD_HOURS: a temporary password from an administrator stops working after this */ temporaryHours: number
   }
   /** TRUST_PROXY: hops of reverse proxy to trust for the client address */ trustProxy: number
+  /** LOG_LEVEL: pino's level for the JSON log on stdout (silent in tests unless set) */ logLevel: LogLevel
+  /** METRICS_TOKEN: bearer token for /metrics from other machines; empty: loopback only */ metricsToken: string | null
   login: {
     /** LOGIN_MAX_FAILURES_ACCOUNT */ maxFailuresPerAccount: number
     /** LOGIN_MAX_FAILURES_ADDRESS */ maxFailuresPerAddress: number
@@ -180,6 +182,23 @@ function localSignIn(env: Env): LocalSignInMode {
   return raw as LocalSignInMode
 }
 
+const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const
+export type LogLevel = (typeof LOG_LEVELS)[number]
+
+function logLevel(env: Env, nodeEnv: Config['env']): LogLevel {
+  const raw = env.LOG_LEVEL || (nodeEnv === 'test' ? 'silent' : 'info')
+  if (!(LOG_LEVELS as readonly string[]).includes(raw)) throw new Error(`Configuration: LOG_LEVEL must be one of ${LOG_LEVELS.join(', ')}`)
+  return raw as LogLevel
+}
+
+// A scraper sends it on every request; a short one could be guessed.
+function metricsToken(env: Env): string | null {
+  const raw = env.METRICS_TOKEN || ''
+  if (!raw) return null
+  if (raw.length < 24) throw new Error('Configuration: METRICS_TOKEN must be at least 24 characters (or empty for loopback-only metrics)')
+  return raw
+}
+
 export function loadConfig(env: Env = process.env): Config {
   const nodeEnv = env.NODE_ENV === 'production' || env.NODE_ENV === 'test' ? env.NODE_ENV : 'development'
   const secret = env.SESSION_SECRET ?? (nodeEnv === 'production' ? '' : 'ferrolane-local-development-secret')
@@ -215,6 +234,8 @@ export function loadConfig(env: Env = process.env): Config {
       temporaryHours: int(env, 'TEMP_PASSWORD_HOURS', 72, 1, 24 * 30),
     },
     trustProxy: int(env, 'TRUST_PROXY', 0, 0, 10),
+    logLevel: logLevel(env, nodeEnv),
+    metricsToken: metricsToken(env),
     login: {
       maxFailuresPerAccount: int(env, 'LOGIN_MAX_FAILURES_ACCOUNT', 5, 1, 1000),
       maxFailuresPerAddress: int(env, 'LOGIN_MAX_FAILURES_ADDRESS', 30, 1, 10000),

@@ -4,6 +4,10 @@ import { createSequelize } from './db'
 import { createApp } from './app'
 import { OutboxWorker } from './services/outboxWorker'
 import { productionProblems } from './productionChecks'
+import { createLogger } from './observability/logger'
+
+// Until the configuration is read, everything is logged at info; then at LOG_LEVEL.
+const log = createLogger('info')
 
 /**
  * The only place that listens. A mistake nobody caught (an unhandled rejection, an uncaught
@@ -13,11 +17,11 @@ import { productionProblems } from './productionChecks'
  * the outbox worker stops, the pool closes and the process exits 0.
  */
 process.on('unhandledRejection', (reason) => {
-  console.error('Ferrolane: unhandled promise rejection; exiting so the supervisor restarts the server', reason)
+  log.fatal({ err: reason }, 'unhandled promise rejection; exiting so the supervisor restarts the server')
   process.exit(1)
 })
 process.on('uncaughtException', (err) => {
-  console.error('Ferrolane: uncaught exception; exiting so the supervisor restarts the server', err)
+  log.fatal({ err }, 'uncaught exception; exiting so the supervisor restarts the server')
   process.exit(1)
 })
 
@@ -43,44 +47,45 @@ import { MllpListener } from './services/hl7/listener'
 
 async function main(): Promise<void> {
   const config = loadConfig()
+  log.level = config.logLevel
   const sequelize = createSequelize(config)
-  const { app, sessionStore } = createApp(config, sequelize)
+  const { app, sessionStore } = createApp(config, sequelize, { logger: log })
   if (config.env === 'production' && !config.demo) {
     // A real hospital's server refuses to start on development or demo settings.
     const problems = await productionProblems(config)
     if (problems.length) {
-      console.error(`Ferrolane will not start in production:\n${problems.map((p) => `  - ${p}`).join('\n')}\n(npm start runs the demo: FERROLANE_DEMO=true.)`)
+      log.fatal({ problems }, `Ferrolane will not start in production:\n${problems.map((p) => `  - ${p}`).join('\n')}\n(npm start runs the demo: FERROLANE_DEMO=true.)`)
       await sequelize.close()
       process.exit(1)
     }
   } else if (config.env === 'production') {
-    console.warn('Ferrolane is running the DEMO (FERROLANE_DEMO=true): invented data and public passwords. Never use this for patients.')
+    log.warn('Ferrolane is running the DEMO (FERROLANE_DEMO=true): invented data and public passwords. Never use this for patients.')
   }
   const server = app.listen(config.port, config.host, () => {
-    console.log(`Ferrolane listening on http://${config.host}:${config.port}`)
+    log.info({ host: config.host, port: config.port }, `Ferrolane listening on http://${config.host}:${config.port}`)
   })
   // Patient e-mails leave from the outbox in this process; several processes may run it side by side.
-  const outbox = new OutboxWorker({ sequelize, config })
+  const outbox = new OutboxWorker({ sequelize, config, log: log.child({ component: 'outbox' }) })
   outbox.start()
   // Laboratory results, theatre bookings and demographics over HL7 v2 (MLLP), in this process.
-  const mllp = config.hl7.enabled ? new MllpListener(sequelize, config, (m) => console.error(m)) : null
+  const mllp = config.hl7.enabled ? new MllpListener(sequelize, config, (m, err) => log.error({ component: 'hl7', ...(err === undefined ? {} : { err }) }, m)) : null
   if (mllp) {
     const mllpPort = await mllp.start()
-    console.log(`HL7 MLLP listener on ${config.hl7.host}:${mllpPort}`)
+    log.info({ port: mllpPort }, `HL7 MLLP listener on ${config.hl7.host}:${mllpPort}`)
   }
   const sweep = setInterval(() => void sessionStore.sweep().catch(() => {}), 10 * 60_000)
   let stopping = false
   const stop = async (signal: string) => {
     if (stopping) return
     stopping = true
-    console.log(`Ferrolane stopping (${signal}): finishing requests in flight (at most ${config.shutdownGraceSeconds} s)`)
+    log.info(`Ferrolane stopping (${signal}): finishing requests in flight (at most ${config.shutdownGraceSeconds} s)`)
     clearInterval(sweep)
-    await mllp?.stop().catch((err) => console.error('Ferrolane: stopping the MLLP listener', err))
+    await mllp?.stop().catch((err) => log.error({ err }, 'stopping the MLLP listener failed'))
     const finished = await drain(server, config.shutdownGraceSeconds * 1000)
-    if (!finished) console.error('Ferrolane: requests still running after the grace period were cut off')
-    await outbox.stop().catch((err) => console.error('Ferrolane: stopping the outbox worker', err))
-    await sequelize.close().catch((err) => console.error('Ferrolane: closing the database pool', err))
-    console.log('Ferrolane stopped')
+    if (!finished) log.error('requests still running after the grace period were cut off')
+    await outbox.stop().catch((err) => log.error({ err }, 'stopping the outbox worker failed'))
+    await sequelize.close().catch((err) => log.error({ err }, 'closing the database pool failed'))
+    log.info('Ferrolane stopped')
     process.exit(finished ? 0 : 1)
   }
   process.on('SIGINT', () => void stop('SIGINT'))
@@ -88,6 +93,7 @@ async function main(): Promise<void> {
 }
 
 main().catch((err) => {
-  console.error(err)
+  // A configuration mistake is written for the operator; its text holds no patient data.
+  log.fatal({ err, reason: err instanceof Error && err.message.startsWith('Configuration:') ? err.message : undefined }, 'Ferrolane could not start')
   process.exit(1)
 })

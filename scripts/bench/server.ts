@@ -7,9 +7,12 @@ export interface BenchServer { url: string; pid: number; stop(): Promise<void> }
 
 export async function startBenchServer(env: NodeJS.ProcessEnv, port: number): Promise<BenchServer> {
   const url = `http://127.0.0.1:${port}`
-  // node --import tsx (not the tsx CLI) so the pid measured is the server itself.
+  // The compiled server as production runs it (BENCH_SERVER_ENTRY, set by bench.ts), or with
+  // BENCH_SERVER=tsx the TypeScript under `node --import tsx` (not the tsx CLI, so the pid
+  // measured is the server itself), to compare the two.
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server to look for where time goes.
-  const child: ChildProcess = spawn(process.execPath, [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), '--import', 'tsx', 'server/index.ts'], {
+  const entry = env.BENCH_SERVER_ENTRY ? [env.BENCH_SERVER_ENTRY] : ['--import', 'tsx', 'server/index.ts']
+  const child: ChildProcess = spawn(process.execPath, [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), ...entry], {
     cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
   })
   for (let i = 0; ; i++) {

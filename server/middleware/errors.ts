@@ -1,47 +1,41 @@
 import type { ErrorRequestHandler, Request, RequestHandler } from 'express'
 import { ValidationError } from 'yup'
+import { BaseError } from 'sequelize'
 import { AppError, NotFound } from '../errors'
 import { isDatabaseUnavailable, RETRY_AFTER_SECONDS } from '../dbUnavailable'
 import { toInvalid } from './validate'
 import { recordSecurityEvent } from '../services/securityEvents'
 import { actorOf } from '../routes/context'
+import type { AppMetrics } from '../observability/metrics'
 
 /**
- * What an unexpected error may put in the log: its class, its codes and where it was thrown.
+ * An unexpected error goes to the log as its class, its codes and where it was thrown (safeError).
  * Never its message, SQL or parameters: a database error carries the values of the statement
  * that failed, and those are patient data (ASVS 7.1.1).
  */
-export function errorLogLine(err: unknown, requestId: string | undefined): Record<string, unknown> {
-  const e = (err ?? {}) as { name?: string; code?: unknown; stack?: string; original?: { code?: unknown; errno?: unknown; sqlState?: unknown } }
-  const frames = (e.stack ?? '').split('\n').slice(1, 6).map((line) => line.trim())
-  return {
-    level: 'error',
-    msg: 'unexpected error',
-    requestId: requestId ?? null,
-    errorClass: (err as object | null)?.constructor?.name ?? typeof err,
-    name: typeof e.name === 'string' ? e.name : null,
-    code: typeof e.code === 'string' || typeof e.code === 'number' ? e.code : null,
-    dbCode: typeof e.original?.code === 'string' ? e.original.code : null,
-    dbErrno: typeof e.original?.errno === 'number' ? e.original.errno : null,
-    frames,
-  }
+function logUnexpected(req: Request, err: unknown, msg: string): void {
+  req.log.error({ requestId: req.id, err }, msg)
+}
+
+function countDatabaseError(req: Request, kind: 'unavailable' | 'query'): void {
+  ;(req.app.locals.metrics as AppMetrics | undefined)?.databaseError(kind)
 }
 
 /** A 403 (a role refusal or a CSRF refusal) is a security event: it goes to the audit trail. */
 async function recordRefusal(req: Request, e: AppError): Promise<void> {
   const action = e.code === 'csrf_invalid' ? 'csrf-refused' : 'forbidden'
   await recordSecurityEvent(actorOf(req), action, `${req.method} ${req.baseUrl}${req.path}`, { code: e.code, route: `${req.method} ${req.originalUrl.split('?')[0]}`.slice(0, 300) })
-    .catch((auditErr: unknown) => console.error(JSON.stringify(errorLogLine(auditErr, req.id))))
+    .catch((auditErr: unknown) => logUnexpected(req, auditErr, 'could not record a refusal in the audit trail'))
 }
 
 // An outage answers every request with a 503; one log line every few seconds says so without
 // flooding the log.
 let outageLoggedAt = 0
 let outageUnlogged = 0
-function logOutage(requestId: string, err: Error): void {
+function logOutage(req: Request, err: Error): void {
   outageUnlogged += 1
   if (Date.now() - outageLoggedAt < RETRY_AFTER_SECONDS * 1000) return
-  console.error(`[request ${requestId}] database unavailable (${outageUnlogged} request(s) answered 503 since the last line): ${err.name}: ${err.message}`)
+  req.log.error({ requestId: req.id, err, answered503: outageUnlogged }, 'database unavailable: requests answered 503 since the last such line')
   outageLoggedAt = Date.now()
   outageUnlogged = 0
 }
@@ -73,7 +67,8 @@ export const errorHandler: ErrorRequestHandler = async (err, req, res, next) => 
     return
   }
   if (isDatabaseUnavailable(err)) {
-    logOutage(req.id, err as Error)
+    countDatabaseError(req, 'unavailable')
+    logOutage(req, err as Error)
     res.set('Retry-After', String(RETRY_AFTER_SECONDS))
     res.status(503).json({ error: { code: 'unavailable', message: 'Ferrolane cannot reach its database just now; try again in a few seconds' } })
     return
@@ -84,6 +79,7 @@ export const errorHandler: ErrorRequestHandler = async (err, req, res, next) => 
     res.status(status).json({ error: { code, message: BODY_ERRORS[type ?? ''] ?? 'The request could not be read' } })
     return
   }
-  console.error(JSON.stringify(errorLogLine(err, req.id)))
+  if (err instanceof BaseError) countDatabaseError(req, 'query')
+  logUnexpected(req, err, 'unexpected error')
   res.status(500).json({ error: { code: 'internal', message: `Something went wrong on our side (reference ${req.id})` } })
 }

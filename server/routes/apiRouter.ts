@@ -20,7 +20,13 @@ export class ApiRouter {
   private add(method: RouteSpec['method'], path: string, opts: AccessOptions, handlers: RequestHandler[]): this {
     this.specs.push({ method, path: this.prefix + path, access: opts.access })
     const verb = method.toLowerCase() as 'get' | 'post' | 'patch' | 'put' | 'delete'
-    this.router[verb](path, authorize(opts), ...handlers)
+    // The pattern, not the URL, names the route in the log and the metrics (bounded, no patient data).
+    const pattern = `${method} ${this.prefix + path}`
+    const stamp: RequestHandler = (_req, res, next) => {
+      res.locals.routePattern = pattern
+      next()
+    }
+    this.router[verb](path, stamp, authorize(opts), ...handlers)
     return this
   }
 

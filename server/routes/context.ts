@@ -12,7 +12,7 @@ export interface AppContext {
 }
 
 export function actorOf(req: Request): Actor {
-  return { userId: req.user?.id ?? null, requestId: req.id, ip: clientAddress(req), refetch: req.get('X-Ferrolane-Refetch') === '1' }
+  return { userId: req.user?.id ?? null, requestId: String(req.id), ip: clientAddress(req), refetch: req.get('X-Ferrolane-Refetch') === '1' }
 }
 
 export function signedInActor(req: Request): Actor & { userId: number } {

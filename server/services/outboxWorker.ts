@@ -1,3 +1,4 @@
+import type { Logger } from 'pino'
 import type { InferAttributes } from 'sequelize'
 import { hostname } from 'node:os'
 import { randomBytes } from 'node:crypto'
@@ -21,6 +22,8 @@ export interface WorkerOptions {
   workerId?: string
   transport?: Transporter
   batchSize?: number
+  /** Where a failed pass is reported (class and codes only: see observability/logger). */
+  log?: Pick<Logger, 'error'>
 }
 
 /** Longest wait between retries, however many attempts have failed. */
@@ -141,7 +144,7 @@ export class OutboxWorker {
     const tick = () => {
       if (this.stopped) return
       this.running = this.drain()
-        .catch((err) => console.error('[outbox] pass failed; will try again', err))
+        .catch((err) => this.opts.log?.error({ err }, 'outbox pass failed; will try again'))
         .finally(() => {
           if (!this.stopped) this.timer = setTimeout(tick, this.config.outbox.pollMs)
         })

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { spawn } from 'node:child_process'
+import { serverCommand } from '../helpers/serverProcess'
 import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { makeStaff } from '../helpers/factories'
 import { loadConfig } from '../../server/config'
@@ -26,7 +27,8 @@ const GOOD = {
 /** Starts the real server process and waits for it to listen or to exit. */
 function startServer(env: Record<string, string>): Promise<{ code: number | null; out: string }> {
   return new Promise((resolve) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] })
+    const server = serverCommand()
+    const child = spawn(server.cmd, server.args, { cwd: server.cwd, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] })
     let out = ''
     const onData = (b: Buffer) => {
       out += b.toString()

@@ -1,11 +1,10 @@
 import { describe, expect, it } from 'vitest'
 import { spawn, type ChildProcess } from 'node:child_process'
 import { connect, createServer, type Socket } from 'node:net'
-import path from 'node:path'
+import { serverCommand } from '../helpers/serverProcess'
 
-// Issue #12, point 6: the real server process (server/index.ts under tsx, on the test database)
+// Issue #12, point 6: the real server process (the compiled server under plain node, on the test database)
 // stops on SIGTERM without cutting off a request in flight, and exits.
-const root = path.resolve(import.meta.dirname, '..', '..')
 
 function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -21,9 +20,10 @@ interface Running { child: ChildProcess; port: number; exited: Promise<number | 
 async function startServer(env: Record<string, string> = {}): Promise<Running> {
   const port = await freePort()
   let out = ''
-  const child = spawn(path.join(root, 'node_modules/.bin/tsx'), ['server/index.ts'], {
-    cwd: root,
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', STATIC_DIR: '', OUTBOX_POLL_MS: '3600000', ...env },
+  const server = serverCommand()
+  const child = spawn(server.cmd, server.args, {
+    cwd: server.cwd,
+    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', STATIC_DIR: '', OUTBOX_POLL_MS: '3600000', LOG_LEVEL: 'info', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   })
   child.stdout!.on('data', (d: Buffer) => { out += d.toString() })

@@ -9,7 +9,8 @@ export class Client {
   readonly agent: Agent
   csrf = ''
 
-  constructor(app: Express) {
+  // An Express app (in process) or a base URL (a server process the test started).
+  constructor(app: Express | string) {
     this.agent = request.agent(app)
   }
 

@@ -34,12 +34,12 @@ export class MllpListener {
   private readonly sockets = new Set<net.Socket>()
   private sweep: NodeJS.Timeout | null = null
 
-  constructor(private readonly sequelize: Sequelize, private readonly config: Config, private readonly log: (msg: string) => void = () => {}) {}
+  constructor(private readonly sequelize: Sequelize, private readonly config: Config, private readonly log: (msg: string, err?: unknown) => void = () => {}) {}
 
   async start(): Promise<number> {
     const server = net.createServer((socket) => this.accept(socket))
     server.maxConnections = this.config.hl7.maxConnections
-    server.on('error', (err) => this.log(`[hl7] listener error: ${err.message}`))
+    server.on('error', (err) => this.log('[hl7] listener error', err))
     await new Promise<void>((resolve, reject) => {
       server.once('error', reject)
       server.listen(this.config.hl7.port, this.config.hl7.host, () => {
@@ -49,7 +49,7 @@ export class MllpListener {
     })
     this.server = server
     running = this
-    const sweep = () => void deleteExpired(this.config.hl7.retentionDays).catch((err: Error) => this.log(`[hl7] retention sweep failed: ${err.message}`))
+    const sweep = () => void deleteExpired(this.config.hl7.retentionDays).catch((err: Error) => this.log('[hl7] retention sweep failed', err))
     sweep()
     this.sweep = setInterval(sweep, 60 * 60_000)
     this.sweep.unref()
@@ -117,7 +117,7 @@ export class MllpListener {
           const ack = await receive(this.sequelize, this.config, event.message)
           if (!socket.destroyed) conn.send(Hl7Message.parse(ack))
         } catch (err) {
-          this.log(`[hl7] message could not be processed: ${(err as Error).message}`)
+          this.log('[hl7] message could not be processed', err)
           // Nothing was stored (the transaction rolled back): AE tells the sender to send it again.
           const problem = new Hl7Problem('AE', 'internal', 'the message could not be processed now; nothing was stored; send it again later')
           if (!socket.destroyed) conn.send(Hl7Message.parse(buildAck(event.message, 'AE', problem)))
@@ -137,7 +137,7 @@ export class MllpListener {
   /** Whatever fails while answering closes that one connection (the sender will resend); the queue and the process go on. */
   private lost(socket: net.Socket): (err: unknown) => void {
     return (err) => {
-      this.log(`[hl7] connection closed after an error: ${(err as Error).message}`)
+      this.log('[hl7] connection closed after an error', err)
       socket.destroy()
     }
   }

@@ -1,0 +1,7 @@
+#!/usr/bin/env bash
+# npm run restore: see scripts/restore.ts. The MariaDB client tools come with Debian's mariadb-client.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+source scripts/lib/system.sh
+command -v mariadb-dump >/dev/null 2>&1 || apt_install mariadb-client
+exec node_modules/.bin/tsx scripts/restore.ts "$@"

@@ -1,0 +1,72 @@
+import { pino, type DestinationStream, type Logger } from 'pino'
+import { pinoHttp } from 'pino-http'
+import type { IncomingMessage, ServerResponse } from 'node:http'
+import type { Request, Response } from 'express'
+import type { LogLevel } from '../config'
+
+/**
+ * Ferrolane's log: one JSON object per line on stdout (systemd's journal or any collector reads
+ * it). What may be in it is fixed here and nowhere else: the request id, the signed-in user's id,
+ * the route *pattern* (`GET /api/patients/:id`, never the raw URL, whose query may hold a name or
+ * a hospital number), the status and the time taken. Never a request body, header, cookie, query
+ * string, SQL statement or parameter: those carry patient data.
+ */
+export function createLogger(level: LogLevel, destination?: DestinationStream): Logger {
+  return pino(
+    {
+      level,
+      base: { service: 'ferrolane', pid: process.pid },
+      timestamp: pino.stdTimeFunctions.isoTime,
+      // A stray `err` passed to the logger is reduced to its class and codes (see safeError).
+      serializers: { err: safeError, error: safeError },
+    },
+    destination,
+  )
+}
+
+/** An error's class, codes and first stack frames. Its message is left out: a database error's message holds the SQL and its values. */
+export function safeError(err: unknown): Record<string, unknown> {
+  const e = (err ?? {}) as { name?: unknown; code?: unknown; stack?: string; original?: { code?: unknown; errno?: unknown } }
+  return {
+    errorClass: (err as object | null)?.constructor?.name ?? typeof err,
+    name: typeof e.name === 'string' ? e.name : null,
+    code: typeof e.code === 'string' || typeof e.code === 'number' ? e.code : null,
+    dbCode: typeof e.original?.code === 'string' ? e.original.code : null,
+    dbErrno: typeof e.original?.errno === 'number' ? e.original.errno : null,
+    frames: (typeof e.stack === 'string' ? e.stack : '').split('\n').slice(1, 6).map((line) => line.trim()),
+  }
+}
+
+/** The route pattern ApiRouter stamped on the response, or a fixed word: labels stay few. */
+export function routeLabel(req: IncomingMessage, res: ServerResponse): string {
+  const stamped = (res as Response).locals?.routePattern as string | undefined
+  if (stamped) return stamped
+  const url = req.url ?? ''
+  if (url === '/metrics' || url.startsWith('/metrics?')) return 'GET /metrics'
+  return url.startsWith('/api/') || url === '/api' ? 'unmatched /api' : 'client files'
+}
+
+// Load balancers ask for these every few seconds; a line each would bury everything else.
+const QUIET = /^\/(api\/health(\/ready)?|metrics)(\?|$)/
+
+/** One line per finished request, at info (warn for 4xx, error for 5xx). */
+export function httpLogger(logger: Logger) {
+  return pinoHttp({
+    logger,
+    genReqId: (req) => (req as Request).id,
+    wrapSerializers: false,
+    serializers: {
+      req: (req: IncomingMessage & { id?: string }) => ({ id: req.id, method: req.method }),
+      res: (res: ServerResponse) => ({ statusCode: res.statusCode }),
+      err: safeError,
+    },
+    // Read when the response has finished (before that the route is not known yet).
+    customProps: (req, res) =>
+      res.headersSent ? { route: routeLabel(req, res), userId: (req as Request).user?.id ?? null } : {},
+    customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+    customSuccessMessage: () => 'request finished',
+    customErrorMessage: () => 'request failed',
+    customAttributeKeys: { responseTime: 'ms' },
+    autoLogging: { ignore: (req) => QUIET.test(req.url ?? '') && req.method === 'GET' },
+  })
+}
