@@ -51,7 +51,7 @@ async function setHidden(page: Page, hidden: boolean): Promise<void> {
     const h = ${hidden}
     Object.defineProperty(document, 'visibilityState', { configurable: true, get: () => (h ? 'hidden' : 'visible') })
     Object.defineProperty(document, 'hidden', { configurable: true, get: () => h })
-    document.dispatchEvent(new Event('visibilitychange'))
+    document.dispatchEvent(new Event('visibilitychange', { bubbles: true })) // TanStack Query listens on window
   })()`)
 }
 
