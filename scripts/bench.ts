@@ -1,7 +1,7 @@
 /**
  * npm run bench: builds the client into .bench-data/ and prints one JSON line per figure.
  * Its own MariaDB (.bench-data/, port 3410) holds the bench database, loaded once and kept.
- * `npm run bench -- bundle`, `-- worklist`, `-- reports`, `-- imports` or `-- hl7` runs one part.
+ * `npm run bench -- bundle`, `-- worklist`, `-- reports`, `-- imports`, `-- hl7` or `-- polls` runs one part.
  * BENCH_DATA_DIR (default .bench-data) and BENCH_DB_PORT let two benches run side by side.
  */
 import { spawnSync } from 'node:child_process'
@@ -15,6 +15,7 @@ import { benchWorklist } from './bench/worklist'
 import { benchReports } from './bench/reports'
 import { benchImports } from './bench/imports'
 import { benchHl7 } from './bench/hl7'
+import { benchPolls } from './bench/polls'
 
 const benchDir = path.resolve(repoRoot, process.env.BENCH_DATA_DIR || '.bench-data')
 const only = process.argv.slice(2)
@@ -26,12 +27,11 @@ function buildClient(outDir: string): void {
 }
 
 async function main(): Promise<void> {
-  if (wants('bundle')) {
-    const dist = path.join(benchDir, 'dist')
-    buildClient(dist)
-    console.log(JSON.stringify(bundleReport(dist)))
-  }
-  if (!wants('worklist') && !wants('reports') && !wants('imports') && !wants('hl7')) return
+  const dist = path.join(benchDir, 'dist')
+  // The browser bench serves the built client, so it builds it too when run on its own.
+  if (wants('bundle') || (wants('polls') && !process.env.BENCH_POLL_DIST)) buildClient(dist)
+  if (wants('bundle')) console.log(JSON.stringify(bundleReport(dist)))
+  if (!['worklist', 'reports', 'imports', 'hl7', 'polls'].some(wants)) return
   const stack = await startStack({
     label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
     dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
@@ -53,6 +53,7 @@ async function main(): Promise<void> {
     if (wants('reports')) console.log(JSON.stringify(await benchReports(env)))
     if (wants('imports')) console.log(JSON.stringify(await benchImports(env, data.nurseEmail, benchDir)))
     if (wants('hl7')) console.log(JSON.stringify(await benchHl7(env)))
+    if (wants('polls')) console.log(JSON.stringify(await benchPolls(env, dist)))
   } finally {
     await stack.stop()
   }

@@ -6,7 +6,7 @@ import ConfirmationService from 'primevue/confirmationservice'
 import App from './App.vue'
 import { queryClient } from './api/queryClient'
 import { installGuards, router } from './router'
-import { FerrolanePreset } from './theme/preset'
+import { SignInPreset } from './theme/signInTheme'
 import './theme/global.css'
 
 const app = createApp(App)
@@ -18,7 +18,8 @@ app.use(router)
 app.use(VueQueryPlugin, { queryClient })
 app.use(PrimeVue, {
   theme: {
-    preset: FerrolanePreset,
+    // Only the sign-in page's tokens; the router loads the whole theme for every other screen.
+    preset: SignInPreset,
     options: {
       // Light only until a dark scheme is designed; this class is never set.
       darkModeSelector: '.fl-dark',

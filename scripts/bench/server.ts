@@ -5,7 +5,8 @@ import { repoRoot } from '../lib/stack'
 
 export interface BenchServer { url: string; pid: number; stop(): Promise<void> }
 
-export async function startBenchServer(env: NodeJS.ProcessEnv, port: number): Promise<BenchServer> {
+/** `staticDir`: a built client to serve as well (the browser benches); none by default. */
+export async function startBenchServer(env: NodeJS.ProcessEnv, port: number, staticDir = ''): Promise<BenchServer> {
   const url = `http://127.0.0.1:${port}`
   // The compiled server as production runs it (BENCH_SERVER_ENTRY, set by bench.ts), or with
   // BENCH_SERVER=tsx the TypeScript under `node --import tsx` (not the tsx CLI, so the pid
@@ -13,11 +14,15 @@ export async function startBenchServer(env: NodeJS.ProcessEnv, port: number): Pr
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server to look for where time goes.
   const entry = env.BENCH_SERVER_ENTRY ? [env.BENCH_SERVER_ENTRY] : ['--import', 'tsx', 'server/index.ts']
   const child: ChildProcess = spawn(process.execPath, [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), ...entry], {
-    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: '' }, stdio: ['ignore', 'ignore', 'inherit'],
+    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: staticDir }, stdio: ['ignore', 'ignore', 'inherit'],
   })
   for (let i = 0; ; i++) {
     try { if ((await fetch(`${url}/api/health`)).ok) break } catch { /* starting */ }
-    if (i > 120) throw new Error('bench server did not start')
+    // A busy shared machine can take a minute; a server that never answers is not left running.
+    if (i > 240) {
+      child.kill('SIGTERM')
+      throw new Error('bench server did not start')
+    }
     await new Promise((r) => setTimeout(r, 250))
   }
   return {

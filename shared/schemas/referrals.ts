@@ -100,3 +100,7 @@ export const worklistQuerySchema = yup.object({
   return !v.from || !v.to || v.from <= v.to || this.createError({ path: 'to', message: 'to must be on or after from' })
 })
 export type WorklistQuery = yup.InferType<typeof worklistQuerySchema>
+
+/** GET /api/worklist/counts: the worklist's filters without sorting or paging; `flag` names the tiles. */
+export const worklistCountsQuerySchema = worklistQuerySchema.omit(['sort', 'page', 'pageSize'])
+export type WorklistCountsQuery = yup.InferType<typeof worklistCountsQuerySchema>

@@ -58,6 +58,16 @@ async function toApiError(response: Response): Promise<ApiError> {
   return new ApiError(response.status, `http_${response.status}`, message, {}, {}, retryAfterMs)
 }
 
+/**
+ * The last ETag seen per polled path. Answers carry `Cache-Control: no-store`, so the browser keeps
+ * no copy and never revalidates by itself: the poll sends If-None-Match and, on a 304, keeps the
+ * data its query already holds. Only tags are kept here, never patient data.
+ */
+const etags = new Map<string, string>()
+const MAX_ETAGS = 200
+/** The answer was 304 Not Modified: the caller's copy is still current. */
+const NOT_MODIFIED = Symbol('not-modified')
+
 async function send<T>(method: Method, path: string, body?: unknown, extra: Record<string, string> = {}): Promise<T> {
   const headers: Record<string, string> = { Accept: 'application/json', ...extra }
   // A FormData body (file upload) sets its own multipart Content-Type with the boundary.
@@ -77,9 +87,32 @@ async function send<T>(method: Method, path: string, body?: unknown, extra: Reco
     throw new ApiError(0, 'network_error', 'Ferrolane cannot reach the server. Check the connection and try again.')
   }
 
+  if (response.status === 304) return NOT_MODIFIED as T
   if (!response.ok) throw await toApiError(response)
   if (response.status === 204) return undefined as T
+  const etag = method === 'GET' ? response.headers.get('ETag') : null
+  if (etag) {
+    etags.delete(path) // re-inserted last, so the oldest tags are the ones dropped
+    if (etags.size >= MAX_ETAGS) etags.delete(etags.keys().next().value!)
+    etags.set(path, etag)
+  }
   return (await response.json()) as T
+}
+
+/**
+ * A poll: asks only "has this changed?" when the caller still holds the previous answer, and
+ * returns that same answer on a 304 (TanStack Query then keeps its data and re-renders nothing).
+ */
+async function getIfChanged<T>(path: string, previous: T | undefined, refetch: boolean): Promise<T> {
+  const extra: Record<string, string> = refetch ? { 'X-Ferrolane-Refetch': '1' } : {}
+  const etag = previous === undefined ? undefined : etags.get(path)
+  if (etag) extra['If-None-Match'] = etag
+  const answer = await request<T | typeof NOT_MODIFIED>('GET', path, undefined, extra)
+  if (answer !== NOT_MODIFIED) return answer
+  if (previous !== undefined) return previous
+  // Not asked conditionally, so a 304 cannot come; ask again in full rather than return nothing.
+  etags.delete(path)
+  return request<T>('GET', path, undefined, refetch ? { 'X-Ferrolane-Refetch': '1' } : undefined)
 }
 
 async function request<T>(method: Method, path: string, body?: unknown, extra?: Record<string, string>): Promise<T> {
@@ -114,6 +147,8 @@ export const api = {
    */
   get: <T>(path: string, opts: { refetch?: boolean } = {}) =>
     request<T>('GET', path, undefined, opts.refetch ? { 'X-Ferrolane-Refetch': '1' } : undefined),
+  /** A polled read: conditional on the ETag of `previous`, the data the screen already shows. */
+  poll: <T>(path: string, previous: T | undefined, opts: { refetch?: boolean } = {}) => getIfChanged<T>(path, previous, opts.refetch ?? false),
   post: <T>(path: string, body?: unknown) => request<T>('POST', path, body ?? {}),
   patch: <T>(path: string, body: unknown) => request<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => request<T>('PUT', path, body),

@@ -9,7 +9,7 @@ import { isDatabaseUnavailable, retryDelayMs, shouldRetryRead } from './retryPol
  */
 export const queryClient = new QueryClient({
   mutationCache: new MutationCache({
-    // Imported on first use: the sign-in page's script stays within its 200 kB budget.
+    // Imported on first use: the sign-in page's script stays within its 120 kB budget.
     onError: (error) => {
       if (isDatabaseUnavailable(error)) void import('@/stores/outage').then((m) => m.useOutageStore().writeFailed())
     },

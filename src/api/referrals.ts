@@ -5,8 +5,9 @@ import { api } from './client'
 import type { ReferralDetail, ResultView, Screening } from './pathwayTypes'
 
 /** `refetch`: the episode is already on screen (a poll); opening it is audited every time, polls are not. */
-export function getReferral(id: number, opts: { refetch?: boolean } = {}): Promise<ReferralDetail> {
-  return api.get<ReferralDetail>(`/referrals/${id}`, opts)
+export function getReferral(id: number, opts: { refetch?: boolean; previous?: ReferralDetail } = {}): Promise<ReferralDetail> {
+  // Conditional on the copy on screen: a poll that finds nothing new is a 304 with no body.
+  return api.poll<ReferralDetail>(`/referrals/${id}`, opts.previous, { refetch: opts.refetch })
 }
 
 export function createReferral(input: CreateReferralInput): Promise<ReferralDetail> {

@@ -2,6 +2,7 @@ import type { Priority, Stage, WorklistFlag } from '@shared/pathway'
 import type { WorklistSort } from '@shared/schemas/referrals'
 import { api } from './client'
 import type { WorklistPage } from './pathwayTypes'
+import type { WorklistCounts } from '@shared/pathway/views'
 
 /** What the worklist can be narrowed by; every key maps to one query parameter of GET /api/worklist. */
 export interface WorklistFilters {
@@ -30,7 +31,17 @@ export function worklistSearchParams(filters: WorklistFilters): URLSearchParams 
   return params
 }
 
-export function fetchWorklist(filters: WorklistFilters): Promise<WorklistPage> {
+/** `previous`: the page on screen, so a poll that finds nothing new is a 304 with no body. */
+export function fetchWorklist(filters: WorklistFilters, previous?: WorklistPage): Promise<WorklistPage> {
   const query = worklistSearchParams(filters).toString()
-  return api.get<WorklistPage>(`/worklist${query ? `?${query}` : ''}`)
+  return api.poll<WorklistPage>(`/worklist${query ? `?${query}` : ''}`, previous)
+}
+
+/** What the count tiles narrow by: the worklist's filters, without sorting or paging. */
+export type WorklistCountFilters = Omit<WorklistFilters, 'sort' | 'page' | 'pageSize'>
+
+/** Every count tile of a home screen in one request (GET /api/worklist/counts). */
+export function fetchWorklistCounts(filters: WorklistCountFilters, previous?: WorklistCounts): Promise<WorklistCounts> {
+  const query = worklistSearchParams(filters).toString()
+  return api.poll<WorklistCounts>(`/worklist/counts${query ? `?${query}` : ''}`, previous)
 }

@@ -4,7 +4,9 @@ import type { CreateReferralInput, TransitionInput, UpdateReferralInput } from '
 import type { CreateResultInput } from '@shared/schemas/results'
 import type { CancelOperationInput } from '@shared/schemas/cancellations'
 import { addResult, cancelPlannedOperation, createReferral, getReferral, moveReferral, updateReferral } from '@/api/referrals'
-import { fetchWorklist, type WorklistFilters } from '@/api/worklist'
+import { fetchWorklist, fetchWorklistCounts, type WorklistCountFilters, type WorklistFilters } from '@/api/worklist'
+import type { WorklistCounts } from '@shared/pathway/views'
+import type { ReferralDetail, WorklistPage } from '@/api/pathwayTypes'
 
 /** One key family for episodes: the worklist pages and each episode's detail sit under it. */
 export const referralKeys = {
@@ -13,20 +15,36 @@ export const referralKeys = {
   list: (filters: WorklistFilters) => [...referralKeys.lists(), filters] as const,
   details: () => [...referralKeys.all, 'detail'] as const,
   detail: (id: number) => [...referralKeys.details(), id] as const,
+  counts: (filters: WorklistCountFilters) => [...referralKeys.all, 'counts', filters] as const,
 }
 
 // Colleagues change the same episodes all day: poll well inside the 15 s the clinic expects.
+// Polls are conditional (a 304 when nothing changed) and stop while the tab is hidden; coming
+// back to the tab refetches at once.
 const WORKLIST_POLL_MS = 8_000
 const DETAIL_POLL_MS = 12_000
+const POLLING = { refetchIntervalInBackground: false, refetchOnWindowFocus: true } as const
 
 /** One page of the worklist; the previous page stays on screen while the next one loads. */
 export function useWorklistQuery(filters: MaybeRefOrGetter<WorklistFilters>) {
+  const queryClient = useQueryClient()
   return useQuery({
     queryKey: computed(() => referralKeys.list(toValue(filters))),
-    queryFn: () => fetchWorklist(toValue(filters)),
+    queryFn: ({ queryKey }) => fetchWorklist(toValue(filters), queryClient.getQueryData<WorklistPage>(queryKey)),
     placeholderData: keepPreviousData,
     refetchInterval: WORKLIST_POLL_MS,
-    refetchOnWindowFocus: true,
+    ...POLLING,
+  })
+}
+
+/** The count tiles of a home screen; every tile with the same filters shares this one request. */
+export function useWorklistCountsQuery(filters: MaybeRefOrGetter<WorklistCountFilters> = {}) {
+  const queryClient = useQueryClient()
+  return useQuery({
+    queryKey: computed(() => referralKeys.counts(toValue(filters))),
+    queryFn: ({ queryKey }) => fetchWorklistCounts(toValue(filters), queryClient.getQueryData<WorklistCounts>(queryKey)),
+    refetchInterval: WORKLIST_POLL_MS,
+    ...POLLING,
   })
 }
 
@@ -34,16 +52,17 @@ export function useReferralQuery(id: MaybeRefOrGetter<number>) {
   // The first read of an episode by this screen is a person opening it (always audited); later
   // reads of the same episode are polls and refetches, marked so the audit counts them once.
   let opened: number | null = null
+  const queryClient = useQueryClient()
   return useQuery({
     queryKey: computed(() => referralKeys.detail(toValue(id))),
-    queryFn: () => {
+    queryFn: ({ queryKey }) => {
       const current = toValue(id)
       const refetch = opened === current
       opened = current
-      return getReferral(current, { refetch })
+      return getReferral(current, { refetch, previous: queryClient.getQueryData<ReferralDetail>(queryKey) })
     },
     refetchInterval: DETAIL_POLL_MS,
-    refetchOnWindowFocus: true,
+    ...POLLING,
   })
 }
 

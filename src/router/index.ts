@@ -48,10 +48,30 @@ export function safeRedirect(value: unknown): string | null {
   return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') ? value : null
 }
 
+// Screens drawn with the sign-in page's small theme (main.ts); all others wait for the whole one.
+const SIGN_IN_PAGES = new Set<unknown>(['sign-in', 'sign-in-refused'])
+let fullTheme: Promise<void> | null = null
+
+function loadFullThemeOnce(): Promise<void> {
+  fullTheme ??= import('@/theme/fullTheme')
+    .then((m) => m.applyFullTheme())
+    .catch((error: unknown) => {
+      fullTheme = null // a failed download (network) is tried again on the next navigation
+      throw error
+    })
+  return fullTheme
+}
+
 export function installGuards(pinia: Pinia): void {
   const session = useSessionStore(pinia)
 
-  router.beforeEach(async (to: RouteLocationNormalized): Promise<RouteLocationRaw | true> => {
+  router.beforeEach(async (to) => {
+    const decision = await decide(to)
+    if (decision === true && !SIGN_IN_PAGES.has(to.name)) await loadFullThemeOnce()
+    return decision
+  })
+
+  async function decide(to: RouteLocationNormalized): Promise<RouteLocationRaw | true> {
     await loadSessionOnce(session)
     const user = session.user
 
@@ -66,7 +86,7 @@ export function installGuards(pinia: Pinia): void {
     if (to.name === 'home') return homeRouteFor(user.role)
     if (to.meta.roles && !to.meta.roles.includes(user.role)) return { name: 'forbidden', query: { from: to.fullPath } }
     return true
-  })
+  }
 
   // A call failed because the session ended or a new password is due: send the person where
   // they can act on it. Ignored when no one was signed in (a wrong password also answers 401).

@@ -1,5 +1,3 @@
-import { definePreset } from '@primeuix/themes'
-import Aura from '@primeuix/themes/aura'
 import { ferroTeal, severity } from './palette'
 
 type Tone = keyof typeof severity
@@ -43,8 +41,9 @@ function solidButton(colour: string) {
  * Ferrolane's theme: Aura's structure with our own palette (deep teal primary, slate
  * surfaces, amber for attention, red only for alerts), tighter shapes and a compact scale.
  * Only a light scheme for now; dark mode is switched off (see main.ts) until it is designed.
+ * These are the overrides only; signInTheme.ts and fullTheme.ts lay them over Aura.
  */
-export const FerrolanePreset = definePreset(Aura, {
+export const ferrolaneOverrides = {
   primitive: {
     ferro: ferroTeal,
     borderRadius: { none: '0', xs: '2px', sm: '3px', md: '4px', lg: '6px', xl: '8px' },
@@ -144,4 +143,4 @@ export const FerrolanePreset = definePreset(Aura, {
       },
     },
   },
-})
+}

@@ -53,6 +53,7 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'POST', path: '/api/referrals/:id/results', allow: ['nurse', 'doctor'] },
   { method: 'GET', path: '/api/referrals/:id/results', allow: [...CLINICAL] },
   { method: 'GET', path: '/api/worklist', allow: [...CLINICAL] },
+  { method: 'GET', path: '/api/worklist/counts', allow: [...CLINICAL] },
   // Anaemia clinic and theatre readiness: doctors review and prescribe; nurses and doctors record
   // doses; only the operating surgeon answers the readiness projection; admins keep formulary and thresholds.
   { method: 'GET', path: '/api/referrals/:id/reviews', allow: [...CLINICAL] },
