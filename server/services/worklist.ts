@@ -16,7 +16,7 @@ import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals
 import type { AppointmentKind, AppointmentStatus } from '../../shared/appointments'
 import { Forbidden } from '../errors'
 import { isoOrNull, type Viewer } from './viewer'
-import { cachedCount } from './worklistCounts'
+import { cachedCount, type WorklistSource } from './worklistCounts'
 import { zoneOffsetMs } from '../../shared/appointments/time'
 import { clinicTimeZone, clinicToday } from './clinicDay'
 
@@ -152,7 +152,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
        LIMIT :limit OFFSET :offset`,
       { type: QueryTypes.SELECT, replacements: { ...params, limit: pageSize, offset: (page - 1) * pageSize } },
     ),
-    cachedCount(`${countFrom} ${whereSql} ${JSON.stringify(params)}`, async () => {
+    cachedCount(`${countFrom} ${whereSql} ${JSON.stringify(params)}`, countSources(terms.length > 0, Boolean(q.procedureCode)), async () => {
       const r = await sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total ${countFrom} ${whereSql}`, { type: QueryTypes.SELECT, replacements: params })
       return Number(r[0]?.total ?? 0)
     }),
@@ -164,6 +164,11 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
     page,
     pageSize,
   }
+}
+
+/** The tables a total reads, so a change to one of them forgets only the totals it can move. */
+function countSources(search: boolean, byProcedure: boolean): WorklistSource[] {
+  return ['referral', ...(search ? ['patient' as const] : []), ...(byProcedure ? ['procedure' as const] : [])]
 }
 
 export interface NextAppointment { kind: AppointmentKind; startsAt: string; status: AppointmentStatus }
