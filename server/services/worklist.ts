@@ -1,4 +1,4 @@
-import { QueryTypes, type Sequelize } from 'sequelize'
+import type { Sequelize } from 'sequelize'
 import {
   PRE_OPERATIVE_STAGES,
   PRIORITIES,
@@ -17,6 +17,7 @@ import type { AppointmentKind, AppointmentStatus } from '../../shared/appointmen
 import { Forbidden } from '../errors'
 import { isoOrNull, type Viewer } from './viewer'
 import { cachedCount, type WorklistSource } from './worklistCounts'
+import { rawSelect } from './rawRead'
 import { zoneOffsetMs } from '../../shared/appointments/time'
 import { clinicTimeZone, clinicToday } from './clinicDay'
 
@@ -134,7 +135,8 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   // Foreign keys guarantee the joined rows exist, so the count reads referrals (and any search).
   const countFrom = `FROM referrals r ${searchJoins}`
   const [rows, total] = await Promise.all([
-    sequelize.query<WorklistSqlRow>(
+    rawSelect<WorklistSqlRow>(
+      sequelize,
       `SELECT ${straight} r.id, r.version, r.stage, r.priority, r.planned_surgery_date AS plannedSurgeryDate,
          r.latest_hb_gl AS latestHbGL, r.latest_hb_at AS latestHbAt, r.iron_status AS ironStatus, r.anaemic,
          r.proposed_stage AS proposedStage, r.recheck_due_date AS recheckDueDate,
@@ -150,10 +152,10 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
        ${whereSql}
        ORDER BY ${SORT_SQL[sort]}
        LIMIT :limit OFFSET :offset`,
-      { type: QueryTypes.SELECT, replacements: { ...params, limit: pageSize, offset: (page - 1) * pageSize } },
+      { ...params, limit: pageSize, offset: (page - 1) * pageSize },
     ),
     cachedCount(`${countFrom} ${whereSql} ${JSON.stringify(params)}`, countSources(terms.length > 0, Boolean(q.procedureCode)), async () => {
-      const r = await sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total ${countFrom} ${whereSql}`, { type: QueryTypes.SELECT, replacements: params })
+      const r = await rawSelect<{ total: number | bigint }>(sequelize, `SELECT COUNT(*) AS total ${countFrom} ${whereSql}`, params)
       return Number(r[0]?.total ?? 0)
     }),
   ])
@@ -180,11 +182,12 @@ export interface NextAppointment { kind: AppointmentKind; startsAt: string; stat
 async function nextAppointments(sequelize: Sequelize, referralIds: number[]): Promise<Map<number, NextAppointment>> {
   const out = new Map<number, NextAppointment>()
   if (!referralIds.length) return out
-  const rows = await sequelize.query<{ referralId: number; kind: AppointmentKind; startsAt: Date | string; status: AppointmentStatus }>(
+  const rows = await rawSelect<{ referralId: number; kind: AppointmentKind; startsAt: Date | string; status: AppointmentStatus }>(
+    sequelize,
     `SELECT referral_id AS referralId, kind, starts_at AS startsAt, status FROM appointments
      WHERE referral_id IN (:ids) AND status <> 'cancelled' AND starts_at >= :now
      ORDER BY referral_id, starts_at, id`,
-    { type: QueryTypes.SELECT, replacements: { ids: referralIds, now: new Date() } },
+    { ids: referralIds, now: new Date() },
   )
   // Rows come soonest first per episode, so the first one seen is the next visit.
   for (const r of rows) if (!out.has(r.referralId)) out.set(r.referralId, { kind: r.kind, startsAt: isoOrNull(r.startsAt)!, status: r.status })
