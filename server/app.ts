@@ -19,7 +19,6 @@ import { absoluteSessionLifetime } from './middleware/sessionLifetime'
 import { setPasswordCost } from './services/passwords'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import type { ApiRouter, RouteSpec } from './routes/apiRouter'
-import { forgetCountsOnEveryWrite } from './services/worklistCounts'
 import { setViewAuditWindow } from './services/audit'
 import type { AppContext } from './routes/context'
 import { healthRoutes } from './routes/health'
@@ -95,7 +94,6 @@ export function createApp(config: Config, sequelize: Sequelize, opts: { logger?:
   setViewAuditWindow(config.auditViewWindowMinutes)
   setClinicTimeZone(config.clinic.timeZone)
   setPasswordCost(config.passwords.scryptLog2N)
-  forgetCountsOnEveryWrite(sequelize)
   const ctx: AppContext = { config, sequelize }
   const app = express()
   app.disable('x-powered-by')

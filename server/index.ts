@@ -43,7 +43,6 @@ function drain(server: Server, graceMs: number): Promise<boolean> {
     })
   })
 }
-import { MllpListener } from './services/hl7/listener'
 
 async function main(): Promise<void> {
   const config = loadConfig()
@@ -68,7 +67,8 @@ async function main(): Promise<void> {
   const outbox = new OutboxWorker({ sequelize, config, log: log.child({ component: 'outbox' }) })
   outbox.start()
   // Laboratory results, theatre bookings and demographics over HL7 v2 (MLLP), in this process.
-  const mllp = config.hl7.enabled ? new MllpListener(sequelize, config, (m, err) => log.error({ component: 'hl7', ...(err === undefined ? {} : { err }) }, m)) : null
+  // Loaded only when switched on: the HL7 library is not needed by a server without the listener.
+  const mllp = config.hl7.enabled ? new (await import('./services/hl7/listener')).MllpListener(sequelize, config, (m, err) => log.error({ component: 'hl7', ...(err === undefined ? {} : { err }) }, m)) : null
   if (mllp) {
     const mllpPort = await mllp.start()
     log.info({ port: mllpPort }, `HL7 MLLP listener on ${config.hl7.host}:${mllpPort}`)

@@ -110,5 +110,12 @@ export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, d
   // 1,000 rows against 5,000 codes: well under a second, and linear work (rows + codes).
   const matchingMet = matching.ms < 1000 && matching.normalisations <= matching.rows + matching.codes + 10
   const met = matchingMet && runs.every((r) => r.previewMs < MAX_SECONDS * 1000 && r.commitMs < MAX_SECONDS * 1000)
-  return { bench: 'imports', runs, codeMatching: matching, targets: { maxSeconds: MAX_SECONDS, codeMatchingMs: 1000 }, met }
+  // Issue 19: 100 000 rows previewed and committed within 5 s each, 25 000 reversed within 3 s.
+  const big = runs.find((r) => r.rows === 100_000)
+  const small = runs.find((r) => r.rows === 25_000)
+  const issue19 = {
+    targets: { previewMs: 5000, commitMs: 5000, reverse25kMs: 3000 },
+    met: { preview: !!big && big.previewMs <= 5000, commit: !!big && big.commitMs <= 5000, reverse: !!small && small.reverseMs < 3000 },
+  }
+  return { bench: 'imports', runs, codeMatching: matching, targets: { maxSeconds: MAX_SECONDS, codeMatchingMs: 1000 }, met, issue19 }
 }

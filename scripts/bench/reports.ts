@@ -94,7 +94,11 @@ export async function benchReports(env: NodeJS.ProcessEnv) {
       ms.sort((a, b) => a - b)
       timings[name] = { medianMs: Math.round(ms[2]!), maxMs: Math.round(ms[4]!) }
     }
-    return { bench: 'reports', referrals: 25_000, timings, targetMs: 1000, met: Object.values(timings).every((t) => t.maxMs < 1000) }
+    return {
+      bench: 'reports', referrals: 25_000, timings, targetMs: 1000, met: Object.values(timings).every((t) => t.maxMs < 1000),
+      // Issue 19: every report's median within 150 ms (a new key, so the ones above stay comparable).
+      issue19: { targetMedianMs: 150, met: Object.values(timings).every((t) => t.medianMs <= 150) },
+    }
   } finally {
     await server.stop()
   }

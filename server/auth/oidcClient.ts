@@ -4,7 +4,7 @@
  * three plus the ID token's signature, issuer, audience and expiry. Nothing here knows which
  * provider answers.
  */
-import * as client from 'openid-client'
+import type * as client from 'openid-client'
 import type { OidcConfig } from '../config'
 
 /** What /start keeps in the session until the provider sends the browser back. */
@@ -25,6 +25,9 @@ export interface DirectoryIdentity {
 }
 
 // A plain-http issuer is accepted only on loopback: the local fake provider, never a real directory.
+// Loaded on the first directory sign-in: a server with password sign-in only never needs it.
+const openid = () => import('openid-client')
+
 function isLoopback(issuer: URL): boolean {
   return ['127.0.0.1', 'localhost', '[::1]'].includes(issuer.hostname)
 }
@@ -36,13 +39,13 @@ function configurationFor(oidc: OidcConfig): Promise<client.Configuration> {
   let found = discovered.get(key)
   if (!found) {
     const issuer = new URL(oidc.issuer)
-    found = client.discovery(
+    found = openid().then((lib) => lib.discovery(
       issuer,
       oidc.clientId,
       undefined,
-      client.ClientSecretBasic(oidc.clientSecret),
-      issuer.protocol === 'http:' && isLoopback(issuer) ? { execute: [client.allowInsecureRequests], timeout: 10 } : { timeout: 10 },
-    )
+      lib.ClientSecretBasic(oidc.clientSecret),
+      issuer.protocol === 'http:' && isLoopback(issuer) ? { execute: [lib.allowInsecureRequests], timeout: 10 } : { timeout: 10 },
+    ))
     // A provider that was down is asked again next time instead of failing forever.
     found.catch(() => discovered.delete(key))
     discovered.set(key, found)
@@ -52,6 +55,7 @@ function configurationFor(oidc: OidcConfig): Promise<client.Configuration> {
 
 export async function authorizationUrl(oidc: OidcConfig): Promise<{ url: string; pending: PendingDirectorySignIn }> {
   const config = await configurationFor(oidc)
+  const client = await openid()
   const pending: PendingDirectorySignIn = {
     state: client.randomState(),
     nonce: client.randomNonce(),
@@ -79,6 +83,7 @@ function groupsFrom(value: unknown): string[] {
 /** Exchanges the code; throws when state, nonce, PKCE, the code or the ID token do not check out. */
 export async function finishSignIn(oidc: OidcConfig, pending: PendingDirectorySignIn, query: string): Promise<DirectoryIdentity> {
   const config = await configurationFor(oidc)
+  const client = await openid()
   // Built from the configured redirect URI, not the Host header, so it matches what was registered.
   const currentUrl = new URL(oidc.redirectUri)
   currentUrl.search = query
@@ -105,5 +110,6 @@ export async function finishSignIn(oidc: OidcConfig, pending: PendingDirectorySi
 export async function endSessionUrl(oidc: OidcConfig, idToken: string): Promise<string | null> {
   const config = await configurationFor(oidc)
   if (!config.serverMetadata().end_session_endpoint) return null
+  const client = await openid()
   return client.buildEndSessionUrl(config, { id_token_hint: idToken, post_logout_redirect_uri: oidc.postLogoutRedirectUri }).href
 }

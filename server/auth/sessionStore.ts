@@ -1,6 +1,7 @@
 import session from 'express-session'
-import { Op, QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import { SessionRow } from '../models/index'
+import { rawSelect } from '../services/rawRead'
 
 const TOUCH_EVERY_MS = 60_000
 
@@ -29,11 +30,8 @@ export class MariaDbSessionStore extends session.Store {
   }
 
   override get(sid: string, cb: Callback): void {
-    // Runs on every request: a plain typed query, without building a model instance.
-    SessionRow.sequelize!.query<{ data: string }>('SELECT data FROM sessions WHERE sid = ? AND expires_at > ?', {
-      replacements: [sid, new Date()],
-      type: QueryTypes.SELECT,
-    })
+    // Runs on every request: straight through the driver, without Sequelize's query path.
+    rawSelect<{ data: string }>(SessionRow.sequelize!, 'SELECT data FROM sessions WHERE sid = :sid AND expires_at > :now', { sid, now: new Date() })
       .then((rows) => cb(null, rows[0] ? (JSON.parse(rows[0].data) as session.SessionData) : null))
       .catch((err) => cb(err))
   }

@@ -3,7 +3,6 @@ import multer from 'multer'
 import { readFile, rm } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
 import path from 'node:path'
-import { fileTypeFromFile } from 'file-type'
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { viewerOf } from './pathwayContext'
@@ -13,8 +12,9 @@ import { ValidationError } from 'yup'
 import { MAX_CSV_BYTES, MAX_FHIR_BYTES, type ColumnMapping } from '../../shared/imports'
 import { asColumnMapping, columnMappingSchema, fhirImportQuerySchema, labImportFieldsSchema, reversalSchema, saveMappingSchema, sourceNameField, type ReversalInput } from '../../shared/schemas/imports'
 import type { Role } from '../../shared/roles'
-import { importLabCsv } from '../services/imports/labCsv'
-import { importFhirBundle } from '../services/imports/fhir'
+// The CSV parser, the FHIR checks and file-type sniffing load on the first upload, not at boot.
+const labCsv = () => import('../services/imports/labCsv')
+const fhirImport = () => import('../services/imports/fhir')
 import { getBatch, listBatches, reverseBatch } from '../services/imports/batches'
 import { listMappings, mappingFor, saveMapping } from '../services/imports/mappings'
 import { AppError, Invalid } from '../errors'
@@ -56,6 +56,7 @@ async function assertCsv(file: Express.Multer.File): Promise<void> {
   const refuse = (why: string) => new AppError('unsupported_type', `${why}; upload the laboratory export as a CSV text file`, 415, { file: 'must be a CSV file' })
   if (!CSV_NAME.test(file.originalname) && !CSV_TYPES.slice(0, 5).includes(file.mimetype)) throw refuse(`"${file.originalname}" is not a .csv file`)
   if (!CSV_TYPES.includes(file.mimetype)) throw refuse(`the file was sent as ${file.mimetype}`)
+  const { fileTypeFromFile } = await import('file-type')
   const detected = await fileTypeFromFile(file.path)
   if (detected) throw refuse(`the file's content is ${detected.mime} (${detected.ext}), not text`)
   const head = (await readFile(file.path)).subarray(0, 64 * 1024)
@@ -77,6 +78,7 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
       if (!file) throw new Invalid('file is required (the laboratory CSV, in the multipart field "file")', { file: 'is required' })
       await assertCsv(file)
       const mapping = fields.mapping ? await mappingFromField(fields.mapping) : (await mappingFor(fields.source)).mapping
+      const { importLabCsv } = await labCsv()
       const out = await importLabCsv(sequelize, viewerOf(req), { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' }, config.clinic.timeZone, config.imports.maxCsvRows)
       res.status(out.batchId ? 201 : 200).json(out)
     } finally {
@@ -92,6 +94,7 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
       bundle = parseJsonText(req.file.buffer.toString('utf8'), () => new Invalid('The file is not valid JSON (a FHIR R4 Bundle was expected)', { file: 'is not valid JSON' }))
     }
     screenKeys(bundle)
+    const { importFhirBundle } = await fhirImport()
     const out = await importFhirBundle(sequelize, viewerOf(req), bundle, { commit: q.commit === 'true', storeValid: q.storeValid === 'true', sourceName: q.source })
     res.status(out.batchId ? 201 : 200).json(out)
   })

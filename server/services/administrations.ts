@@ -13,6 +13,7 @@ import { recordMove } from './transitions'
 import { currentBody } from './patients'
 import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
+import { worklistChanged } from './worklistCounts'
 
 
 export function toAdministrationView(a: Administration & { giver?: User | null }) {
@@ -70,6 +71,7 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
       version = await recordMove(t, viewer, r, 'treating', `Iron given: ${input.doseMg} mg ${product.name} (batch ${input.batchNumber})`)
     }
     const recheckDueDate = addDays(givenAt.toISOString().slice(0, 10), settings.recheckDaysAfterLastDose)
+    worklistChanged('referral', t)
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
     const view = toAdministrationView(a)
     await recordAudit(t, viewer, { action: 'create', entity: 'administration', entityId: a.id, patientId: r.patientId, after: { ...view, recheckDueDate } })

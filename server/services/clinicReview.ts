@@ -7,6 +7,7 @@ import { recordAudit } from './audit'
 import { loadReferral } from './episode'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { RuleRefused } from '../errors'
+import { worklistChanged } from './worklistCounts'
 
 export function toReviewView(r: ClinicReview & { reviewer?: User | null }) {
   return {
@@ -30,6 +31,7 @@ export async function recordReview(sequelize: Sequelize, viewer: Viewer, referra
       { referralId, diagnosis: input.diagnosis as ReviewInput['diagnosis'] & ClinicReview['diagnosis'], notes: input.notes ?? null, plan: input.plan, reviewedBy: viewer.userId, reviewedAt: new Date() },
       { transaction: t },
     )
+    worklistChanged('referral', t)
     const [count] = await Referral.update(
       { cardiovascularDisease: input.cardiovascularDisease ?? false, version: r.version + 1 },
       { where: { id: referralId, version: r.version }, transaction: t },

@@ -7,6 +7,7 @@ import { recordAudit, changedFields, type Actor } from './audit'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Conflict, Forbidden, Invalid, NotFound } from '../errors'
 import { clinicToday } from './clinicDay'
+import { worklistChanged } from './worklistCounts'
 
 export interface PatientView {
   id: number
@@ -83,6 +84,7 @@ export async function createPatient(sequelize: Sequelize, actor: Actor, input: C
   try {
     assertMeasuredAfterBirth(input.measuredAt, input.dateOfBirth)
     return await sequelize.transaction(async (t) => {
+      worklistChanged('patient', t)
       const p = await Patient.create(
         {
           mrn: input.mrn,
@@ -152,6 +154,7 @@ export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: nu
         if (input[k] !== undefined) changes[k] = input[k] as never
       }
       if (input.sex !== undefined) changes.sex = input.sex as Sex
+      worklistChanged('patient', t)
       const [count] = await Patient.update({ ...changes, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
       if (count !== 1) throw staleVersion('This patient')
       // Only a changed figure is a new measurement; re-sending the same weight is not.

@@ -14,6 +14,7 @@ import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
 import { findProduct, toIronProduct, FORMULARY_CAUTION } from './formulary'
 import { clinical, isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Invalid, RuleRefused } from '../errors'
+import { worklistChanged } from './worklistCounts'
 
 export const PHOSPHATE_SOURCE = 'Ferinject SmPC 4.4; MHRA Drug Safety Update 2020: check serum phosphate before repeated high doses (hypophosphataemia, osteomalacia)'
 
@@ -127,6 +128,7 @@ export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId
       cautions: (input.cautions ?? null) as CautionAnswers | null, overrideReason: input.overrideReason ?? null, status: 'active',
       prescribedBy: viewer.userId, prescribedAt: new Date(),
     }, { transaction: t })
+    worklistChanged('referral', t)
     const [count] = await Referral.update(
       { treatmentOrderedAt: new Date(), treatmentGivenAt: null, version: locked.version + 1 },
       { where: { id: referralId, version: locked.version }, transaction: t },

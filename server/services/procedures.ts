@@ -4,6 +4,7 @@ import type { CreateProcedureInput, UpdateProcedureInput } from '../../shared/sc
 import type { BloodOrder } from '../../shared/pathway'
 import { recordAudit, changedFields, type Actor } from './audit'
 import { Conflict, NotFound } from '../errors'
+import { worklistChanged } from './worklistCounts'
 
 export interface ProcedureView {
   code: string
@@ -77,6 +78,7 @@ export async function updateProcedure(sequelize: Sequelize, actor: Actor, code: 
     const before = toProcedureView(p)
     const keys = ['name', 'specialty', 'expectedBloodLossMl', 'transfusionRate', 'usualBloodOrder', 'usualUnits', 'source', 'active'] as const
     for (const k of keys) if (input[k] !== undefined) p.set(k, input[k] as never)
+    worklistChanged('procedure', t)
     await p.save({ transaction: t })
     const after = toProcedureView(p)
     await recordAudit(t, actor, { action: 'update', entity: 'procedure', entityId: code, ...changedFields(before, after) })

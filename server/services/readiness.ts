@@ -10,6 +10,7 @@ import { isoOrNull, type Viewer } from './viewer'
 import { AppError, Forbidden, Invalid } from '../errors'
 import { clinicTimeZone, clinicToday } from './clinicDay'
 import { LIMITS, windowTooLong } from '../../shared/limits'
+import { worklistChanged } from './worklistCounts'
 
 export interface BoardQuery { from?: string; to?: string; procedureCode?: string; surgeonId?: number }
 
@@ -88,6 +89,7 @@ export async function recordReadinessAction(sequelize: Sequelize, viewer: Viewer
   return sequelize.transaction(async (t) => {
     const action = input.action === 'acknowledge' ? 'acknowledged' as const : 'date-change-requested' as const
     const review = await ReadinessReview.create({ referralId, surgeonId: viewer.userId, action, reason: input.reason ?? null, projection, at: new Date() }, { transaction: t })
+    worklistChanged('referral', t)
     await Referral.update({ dateChangeRequestedAt: action === 'date-change-requested' ? new Date() : null }, { where: { id: referralId }, transaction: t })
     await recordAudit(t, viewer, {
       action, entity: 'readiness', entityId: review.id, patientId: r.patientId,

@@ -8,6 +8,7 @@ import { isActiveSurgeon } from './staff'
 import { staleVersion, type Viewer } from './viewer'
 import { referralDetail } from './referralDetail'
 import { Invalid, NotFound, RuleRefused } from '../errors'
+import { worklistChanged } from './worklistCounts'
 
 async function procedureIdFor(code: string): Promise<number> {
   const p = await findActiveProcedure(code)
@@ -44,6 +45,7 @@ export async function createReferral(sequelize: Sequelize, viewer: Viewer, input
   const procedureId = await procedureIdFor(input.procedureCode)
   await requireSurgeon(input.surgeonId)
   const id = await sequelize.transaction(async (t) => {
+    worklistChanged('referral', t)
     const r = await Referral.create(
       {
         patientId: patient.id,
@@ -100,6 +102,7 @@ export async function updateReferral(sequelize: Sequelize, viewer: Viewer, id: n
       ...(input.declinesTransfusion !== undefined ? { declinesTransfusion: input.declinesTransfusion } : {}),
       ...(input.listingDate !== undefined ? { listingDate: input.listingDate } : {}),
     }
+    worklistChanged('referral', t)
     const [count] = await Referral.update({ ...changes, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
     if (count !== 1) throw staleVersion('This referral')
     if (moves) {

@@ -5,6 +5,7 @@ import { STAGE_LABELS } from '../../shared/pathway'
 import { Referral, Result } from '../models/index'
 import { screenableSql, SCREENABLE_WHERE } from '../models/result'
 import { isoOrNull } from './viewer'
+import { worklistChanged } from './worklistCounts'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {
@@ -22,6 +23,7 @@ export async function latestValues(referralId: number, t?: Transaction): Promise
 export async function refreshScreening(referral: Referral, sex: Sex, t: Transaction): Promise<ScreeningColumns> {
   const next = screeningOutcome(await latestValues(referral.id, t), sex, referral.anaemiaCriteria)
   // Derived data, not an edit: the referral's version (the optimistic lock on decisions) stays.
+  worklistChanged('referral', t)
   await Referral.update(next, { where: { id: referral.id }, transaction: t })
   return next
 }
@@ -60,6 +62,7 @@ export async function refreshScreeningMany(sequelize: Sequelize, referralIds: re
     })
     if (!selects.length) continue
     // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.
+    worklistChanged('referral', t)
     await sequelize.query(
       `UPDATE referrals r JOIN (${selects.join(' UNION ALL ')}) v ON v.id = r.id
        SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,

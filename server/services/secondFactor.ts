@@ -6,7 +6,6 @@
 import { createHash, randomBytes } from 'node:crypto'
 import type { Sequelize } from 'sequelize'
 import * as OTPAuth from 'otpauth'
-import QRCode from 'qrcode'
 import { RecoveryCode, User } from '../models/index'
 import { recordAudit, type Actor } from './audit'
 import { Invalid, NotFound } from '../errors'
@@ -48,6 +47,8 @@ export async function secondFactorStatus(userId: number): Promise<{ enabled: boo
 export async function beginEnrolment(email: string): Promise<SecondFactorEnrolment> {
   const secret = new OTPAuth.Secret({ size: 20 }).base32
   const uri = totpFor(secret, email).toString()
+  // Loaded on the first enrolment, which most staff make once.
+  const { default: QRCode } = await import('qrcode')
   const svg = await QRCode.toString(uri, { type: 'svg', errorCorrectionLevel: 'M', margin: 2 })
   return { secret, qrCodeDataUrl: `data:image/svg+xml;base64,${Buffer.from(svg).toString('base64')}` }
 }

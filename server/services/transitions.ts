@@ -6,6 +6,7 @@ import { recordAudit } from './audit'
 import { referralDetail } from './referralDetail'
 import { assertMaySeeReferral, staleVersion, type Viewer } from './viewer'
 import { Forbidden, NotFound, RuleRefused } from '../errors'
+import { worklistChanged } from './worklistCounts'
 
 /**
  * Moves an episode to another stage, enforcing the pathway table in shared/pathway. The checks
@@ -67,6 +68,7 @@ async function assertFollowUpRecorded(t: Transaction, referralId: number): Promi
  * moveReferral checks the pathway table; a recorded iron dose moves the episode to treating.
  */
 export async function recordMove(t: Transaction, viewer: Viewer, r: Referral, to: Stage, reason: string | null): Promise<number> {
+  worklistChanged('referral', t)
   const [count] = await Referral.update({ stage: to, version: r.version + 1 }, { where: { id: r.id, version: r.version }, transaction: t })
   if (count !== 1) throw staleVersion('This referral')
   const row = await StageTransition.create({ referralId: r.id, fromStage: r.stage, toStage: to, reason, userId: viewer.userId }, { transaction: t })

@@ -1,10 +1,11 @@
-import { QueryTypes, type Sequelize } from 'sequelize'
+import type { Sequelize } from 'sequelize'
 import { PRIORITIES, STAGES, STAGE_LABELS, daysBetween, nextAction, referralFlags, type Stage } from '../../shared/pathway'
 import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals'
 import type { AppointmentKind, AppointmentStatus } from '../../shared/appointments'
 import { isoOrNull, type Viewer } from './viewer'
 import { clinicTimeZone } from './clinicDay'
 import { BY_DATE, countWorklist, quoted, worklistFilter } from './worklistFilter'
+import { rawSelect } from './rawRead'
 
 const byDate = BY_DATE
 // Every order ends in r.id so pages never overlap or skip rows that tie.
@@ -72,7 +73,8 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   const page = q.page ?? 1
   const pageSize = q.pageSize ?? 25
   const [rows, total] = await Promise.all([
-    sequelize.query<WorklistSqlRow>(
+    rawSelect<WorklistSqlRow>(
+      sequelize,
       `SELECT ${straight} r.id, r.version, r.stage, r.priority, r.planned_surgery_date AS plannedSurgeryDate,
          r.latest_hb_gl AS latestHbGL, r.latest_hb_at AS latestHbAt, r.iron_status AS ironStatus, r.anaemic,
          r.proposed_stage AS proposedStage, r.recheck_due_date AS recheckDueDate,
@@ -88,7 +90,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
        ${whereSql}
        ORDER BY ${SORT_SQL[sort]}
        LIMIT :limit OFFSET :offset`,
-      { type: QueryTypes.SELECT, replacements: { ...params, limit: pageSize, offset: (page - 1) * pageSize } },
+      { ...params, limit: pageSize, offset: (page - 1) * pageSize },
     ),
     countWorklist(sequelize, filter),
   ])
@@ -101,6 +103,11 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   }
 }
 
+/** The tables a total reads, so a change to one of them forgets only the totals it can move. */
+function countSources(search: boolean, byProcedure: boolean): WorklistSource[] {
+  return ['referral', ...(search ? ['patient' as const] : []), ...(byProcedure ? ['procedure' as const] : [])]
+}
+
 export interface NextAppointment { kind: AppointmentKind; startsAt: string; status: AppointmentStatus }
 
 /**
@@ -110,11 +117,12 @@ export interface NextAppointment { kind: AppointmentKind; startsAt: string; stat
 async function nextAppointments(sequelize: Sequelize, referralIds: number[]): Promise<Map<number, NextAppointment>> {
   const out = new Map<number, NextAppointment>()
   if (!referralIds.length) return out
-  const rows = await sequelize.query<{ referralId: number; kind: AppointmentKind; startsAt: Date | string; status: AppointmentStatus }>(
+  const rows = await rawSelect<{ referralId: number; kind: AppointmentKind; startsAt: Date | string; status: AppointmentStatus }>(
+    sequelize,
     `SELECT referral_id AS referralId, kind, starts_at AS startsAt, status FROM appointments
      WHERE referral_id IN (:ids) AND status <> 'cancelled' AND starts_at >= :now
      ORDER BY referral_id, starts_at, id`,
-    { type: QueryTypes.SELECT, replacements: { ids: referralIds, now: new Date() } },
+    { ids: referralIds, now: new Date() },
   )
   // Rows come soonest first per episode, so the first one seen is the next visit.
   for (const r of rows) if (!out.has(r.referralId)) out.set(r.referralId, { kind: r.kind, startsAt: isoOrNull(r.startsAt)!, status: r.status })

@@ -1,10 +1,11 @@
-import { QueryTypes, type Sequelize } from 'sequelize'
+import type { Sequelize } from 'sequelize'
 import { PRE_OPERATIVE_STAGES, SURGERY_SOON_DAYS, addDays, type WorklistFlag } from '../../shared/pathway'
 import type { WorklistQuery } from '../../shared/schemas/referrals'
 import { zoneOffsetMs } from '../../shared/appointments/time'
 import { Forbidden } from '../errors'
 import type { Viewer } from './viewer'
-import { cachedCount } from './worklistCounts'
+import { cachedCount, type WorklistSource } from './worklistCounts'
+import { rawSelect } from './rawRead'
 import { clinicTimeZone, clinicToday } from './clinicDay'
 
 export const quoted = (xs: readonly string[]) => xs.map((x) => `'${x}'`).join(',')
@@ -79,8 +80,13 @@ export function worklistFilter(viewer: Viewer, q: WorklistFilterQuery): Worklist
 export function countWorklist(sequelize: Sequelize, f: WorklistFilter): Promise<number> {
   // Foreign keys guarantee the joined rows exist, so the count reads referrals (and any search).
   const countFrom = `FROM referrals r ${f.searchJoins}`
-  return cachedCount(`${countFrom} ${f.whereSql} ${JSON.stringify(f.params)}`, async () => {
-    const r = await sequelize.query<{ total: number | bigint }>(`SELECT COUNT(*) AS total ${countFrom} ${f.whereSql}`, { type: QueryTypes.SELECT, replacements: f.params })
+  return cachedCount(`${countFrom} ${f.whereSql} ${JSON.stringify(f.params)}`, countSources(f.searched, 'procedureCode' in f.params), async () => {
+    const r = await rawSelect<{ total: number | bigint }>(sequelize, `SELECT COUNT(*) AS total ${countFrom} ${f.whereSql}`, f.params)
     return Number(r[0]?.total ?? 0)
   })
+}
+
+/** What a total is counted from, so a write to any of them forgets it (worklistCounts.ts). */
+function countSources(search: boolean, byProcedure: boolean): WorklistSource[] {
+  return ['referral', ...(search ? ['patient' as const] : []), ...(byProcedure ? ['procedure' as const] : [])]
 }

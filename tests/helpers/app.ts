@@ -3,6 +3,7 @@ import { loadConfig, type Config } from '../../server/config'
 import { createSequelize } from '../../server/db'
 import { createApp, type FerrolaneApp } from '../../server/app'
 import { initModels } from '../../server/models/index'
+import { forgetWorklistCounts } from '../../server/services/worklistCounts'
 
 export interface TestApp extends FerrolaneApp {
   config: Config
@@ -32,6 +33,8 @@ export async function cleanDatabase(sequelize: Sequelize): Promise<void> {
     { type: QueryTypes.SELECT },
   )
   await clearAuditTrail(sequelize)
+  // Written behind the services' back, so the cached worklist totals are forgotten by hand.
+  forgetWorklistCounts()
   // One transaction pins one connection, so the foreign-key switch applies to every DELETE.
   await sequelize.transaction(async (transaction) => {
     await sequelize.query('SET FOREIGN_KEY_CHECKS = 0', { type: QueryTypes.RAW, transaction })

@@ -2,6 +2,7 @@ import { Patient, PatientMeasurement, Procedure, Referral, StageTransition } fro
 import { addDays, todayIso, type Stage } from '../../shared/pathway'
 import type { Sex } from '../../shared/clinical'
 import type { Client } from './agent'
+import { forgetWorklistCounts } from '../../server/services/worklistCounts'
 
 let n = 0
 const next = () => ++n
@@ -76,6 +77,8 @@ export async function makeReferral(ids: { patientId: number; procedureId: number
     createdBy: null,
   })
   await StageTransition.create({ referralId: r.id, fromStage: null, toStage: 'referred', reason: null, userId: null })
+  // Written behind the services' back, so the cached worklist totals are forgotten by hand.
+  forgetWorklistCounts()
   return r
 }
 

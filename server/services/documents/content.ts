@@ -1,4 +1,3 @@
-import { fileTypeFromBuffer } from 'file-type'
 import { AppError, Invalid } from '../../errors'
 import { UPLOAD_MEDIA_TYPES, UPLOAD_TYPES_TEXT, type UploadMediaType } from '../../../shared/schemas/documents'
 
@@ -44,6 +43,8 @@ function nameClaim(originalName: string): string {
  */
 export async function mediaTypeOf(bytes: Buffer, originalName: string): Promise<UploadMediaType> {
   if (bytes.length === 0) throw new Invalid('The file is empty', { file: 'is empty (0 bytes)' })
+  // Loaded on the first upload (file-type's signature tables are several MB).
+  const { fileTypeFromBuffer } = await import('file-type')
   const found = await fileTypeFromBuffer(bytes)
   if (found && found.mime in UPLOAD_MEDIA_TYPES) return found.mime as UploadMediaType
   const claim = nameClaim(originalName)

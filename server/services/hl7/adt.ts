@@ -7,6 +7,7 @@ import { changedFields, recordAudit, type Actor } from '../audit'
 import { refreshScreening } from '../screening'
 import { Hl7Problem } from './ack'
 import { mrnFromPid } from './oruRead'
+import { worklistChanged } from '../worklistCounts'
 
 /** PID-8 administrative sex (HL7 v2 table 0001, from memory): the two the clinical thresholds use. */
 const SEX: Record<string, 'female' | 'male'> = { F: 'female', M: 'male' }
@@ -33,6 +34,7 @@ export async function storeAdt(config: Config, msg: Hl7Message, ctx: { messageId
   const after = { givenName: given.slice(0, 80) || before.givenName, familyName: family.slice(0, 80) || before.familyName, dateOfBirth: dob, sex }
   const diff = changedFields(before, after)
   if (!Object.keys(diff.after).length) return []
+  worklistChanged('patient', t)
   await patient.update({ ...after, version: patient.version + 1 }, { transaction: t })
   const changes: Hl7Change[] = [{ kind: 'patient-updated', patientId: patient.id, detail: Object.keys(diff.after).join(', ') }]
   await recordAudit(t, ctx.actor, { action: 'hl7-demographics', entity: 'patient', entityId: patient.id, patientId: patient.id, before: diff.before, after: { ...diff.after, hl7MessageId: ctx.messageId } })

@@ -6,6 +6,7 @@ import { Patient, Referral } from '../../models/index'
 import { recordAudit, type Actor } from '../audit'
 import { Hl7Problem } from './ack'
 import { mrnFromPid } from './oruRead'
+import { worklistChanged } from '../worklistCounts'
 
 // Stages after which an episode takes no booking (as for results: closed and withdrawn ones).
 const ENDED = ['closed', 'withdrawn']
@@ -51,6 +52,7 @@ export async function storeSiu(config: Config, msg: Hl7Message, event: string, c
   if (event === 'S15') {
     history.push({ ...entry, from, to: null })
     // The date column cannot be empty: the last booked date stays, flagged, until a new booking.
+    worklistChanged('referral', t)
     await referral.update({ surgeryDateHistory: history, dateChangeRequestedAt: new Date(), version: referral.version + 1 }, { transaction: t })
     changes.push({ kind: 'surgery-cancelled', referralId: referral.id, detail: `${from} cancelled${reason ? `: ${reason}` : ''}` })
   } else {
@@ -59,6 +61,7 @@ export async function storeSiu(config: Config, msg: Hl7Message, event: string, c
     if (to === from && referral.placerAppointmentId === placer) return []
     const moved = to !== from
     if (moved) history.push({ ...entry, from, to })
+    worklistChanged('referral', t)
     await referral.update({
       plannedSurgeryDate: to, placerAppointmentId: placer, surgeryDateHistory: history, version: referral.version + 1,
       ...(moved && event !== 'S12' ? { dateChangeRequestedAt: new Date() } : {}),
