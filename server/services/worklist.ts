@@ -103,11 +103,6 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   }
 }
 
-/** The tables a total reads, so a change to one of them forgets only the totals it can move. */
-function countSources(search: boolean, byProcedure: boolean): WorklistSource[] {
-  return ['referral', ...(search ? ['patient' as const] : []), ...(byProcedure ? ['procedure' as const] : [])]
-}
-
 export interface NextAppointment { kind: AppointmentKind; startsAt: string; status: AppointmentStatus }
 
 /**

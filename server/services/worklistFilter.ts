@@ -86,7 +86,7 @@ export function countWorklist(sequelize: Sequelize, f: WorklistFilter): Promise<
   })
 }
 
-/** What a total is counted from, so a write to any of them forgets it (worklistCounts.ts). */
+/** The tables a total reads, so a change to one of them forgets only the totals it can move. */
 function countSources(search: boolean, byProcedure: boolean): WorklistSource[] {
   return ['referral', ...(search ? ['patient' as const] : []), ...(byProcedure ? ['procedure' as const] : [])]
 }
