@@ -31,6 +31,9 @@ export class Result extends Model<InferAttributes<Result>, InferCreationAttribut
   declare voidedAt: CreationOptional<Date | null>
   declare voidReason: CreationOptional<string | null>
   declare hl7MessageId: CreationOptional<number | null>
+  /** The laboratory's reference range (OBX-7) and abnormal flags (OBX-8), as sent; null when none came. */
+  declare referenceRange: CreationOptional<string | null>
+  declare abnormalFlags: CreationOptional<string | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -55,6 +58,8 @@ export function initResult(sequelize: Sequelize): void {
       voidedAt: { type: DataTypes.DATE, allowNull: true },
       voidReason: { type: DataTypes.STRING(200), allowNull: true },
       hl7MessageId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      referenceRange: { type: DataTypes.STRING(60), allowNull: true },
+      abnormalFlags: { type: DataTypes.STRING(20), allowNull: true },
       createdAt: DataTypes.DATE,
     },
     { sequelize, tableName: 'results', updatedAt: false },

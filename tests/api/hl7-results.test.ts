@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { makeStaff } from '../helpers/factories'
+import { Client } from '../helpers/agent'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { ackCode, ackError, oru, send } from '../helpers/hl7'
 import { AuditEntry, Hl7MessageRow, ImportMapping, Referral, Result } from '../../server/models/index'
@@ -46,6 +47,24 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await AuditEntry.count({ where: { action: 'hl7-results', entityId: String(referralId) } })).toBe(1)
     const msg = (await Hl7MessageRow.findOne({ raw: true }))!
     expect(msg).toMatchObject({ outcome: 'stored', ackCode: 'AA', messageType: 'ORU^R01', patientMrn: 'HL70001', needsAttention: 0 })
+  })
+
+  it("when OBX-7 (reference range) and OBX-8 (abnormal flags) are sent, then they are kept on the result row and the episode's results show them; a correction carries its own", async () => {
+    const at = new Date(Date.now() - 5 * 3600_000)
+    const [ack] = await send(port, oru({ mrn: 'HL70001', at, obx: [{ value: '98', range: '120-150', flag: 'L' }, { code: '2276-4', value: '8', unit: 'ug/L', range: '30-400', flag: 'L~A' }] }))
+    expect(ackCode(ack!)).toBe('AA')
+    expect((await live()).map((r) => [r.analyte, r.referenceRange, r.abnormalFlags])).toEqual([['hb', '120-150', 'L'], ['ferritin', '30-400', 'L~A']])
+    const n = await makeStaff('nurse')
+    const nurse = await new Client(t.app).mustSignIn(n.email, n.password)
+    const episode = await nurse.get(`/api/referrals/${referralId}`).expect(200)
+    expect(episode.body.latestResults.hb).toMatchObject({ value: 98, referenceRange: '120-150', abnormalFlags: 'L' })
+    expect(episode.body.latestResults.ferritin).toMatchObject({ referenceRange: '30-400', abnormalFlags: 'L~A' })
+    await send(port, oru({ mrn: 'HL70001', at, obx: [{ value: '131', range: '120-150', flag: 'N', status: 'C' }] }))
+    const hb = (await live()).find((r) => r.analyte === 'hb')!
+    expect(hb).toMatchObject({ valueCanonical: 131, status: 'corrected', referenceRange: '120-150', abnormalFlags: 'N' })
+    // No range or flag sent: nothing stored, not an empty string.
+    await send(port, oru({ mrn: 'HL70001', obx: [{ code: '1988-5', value: '3', unit: 'mg/L' }] }))
+    expect((await live()).find((r) => r.analyte === 'crp')).toMatchObject({ referenceRange: null, abnormalFlags: null })
   })
 
   it('when every supported version sends a result, then each is taken (2.3, 2.3.1, 2.4, 2.5, 2.5.1)', async () => {

@@ -52,13 +52,14 @@ async function applyObx(sequelize: Sequelize, o: ObxReading, ctx: { referralId: 
   if (same) {
     const unchanged = same.voidedAt === null && (same.status === status || (status === 'final' && same.status === 'corrected')) && same.comparator === o.comparator
     if (unchanged) return changes
-    await same.update({ status, comparator: o.comparator, voidedAt: null, voidReason: null }, { transaction: t })
+    await same.update({ status, comparator: o.comparator, voidedAt: null, voidReason: null, referenceRange: o.range || null, abnormalFlags: o.flags || null }, { transaction: t })
     note(status === 'corrected' ? 'result-corrected' : 'result-promoted', same.id)
     return changes
   }
   const created = await Result.create({
     ...sample, patientId: ctx.patientId, valueCanonical: r.valueCanonical, unitCanonical: ANALYTE_DEFS[r.analyte].canonicalUnit,
     valueReported: r.value, unitReported: r.unit, enteredBy: null, source: 'hl7', derivedFrom: null, status, comparator: o.comparator, hl7MessageId: ctx.messageId,
+    referenceRange: o.range || null, abnormalFlags: o.flags || null,
   }, { transaction: t })
   note(status === 'corrected' ? 'result-corrected' : 'result-added', created.id, `${o.comparator ?? ''}${r.value} ${r.unit}${status === 'preliminary' ? ' (preliminary)' : ''}`)
   return changes
