@@ -70,7 +70,7 @@ export async function deriveTsat(base: { referralId: number; patientId: number; 
   )
 }
 
-export async function deriveEgfr(creatinine: Result, patient: Patient, t: Transaction): Promise<Result | null> {
+export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dateOfBirth' | 'sex'>, t: Transaction): Promise<Result | null> {
   const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient))
   if (egfr === null) return null
   const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }

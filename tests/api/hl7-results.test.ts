@@ -4,9 +4,10 @@ import { makeStaff } from '../helpers/factories'
 import { Client } from '../helpers/agent'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { ackCode, ackError, oru, send } from '../helpers/hl7'
-import { AuditEntry, Hl7MessageRow, ImportMapping, Referral, Result } from '../../server/models/index'
+import { AuditEntry, Hl7MessageRow, Referral, Result } from '../../server/models/index'
 import { MllpListener } from '../../server/services/hl7/listener'
 import { reprocess } from '../../server/services/hl7/inbox'
+import { saveMapping } from '../../server/services/imports/mappings'
 import { addDays, todayIso } from '../../shared/pathway'
 
 let t: TestApp
@@ -144,8 +145,12 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await live()).toMatchObject([{ valueCanonical: 98, unitCanonical: 'g/L', valueReported: 9.8, unitReported: 'g/dL' }])
   })
 
-  it("when a laboratory sends its own code, then the CSV import's saved mapping for that sending facility (MSH-4) is used", async () => {
-    await ImportMapping.create({ sourceName: 'KVH-PATH', mapping: { columns: { mrn: 'mrn', code: 'test_code', value: 'value', unit: 'unit', takenAt: 'taken_at' }, delimiter: ',', dateOrder: 'iso', codes: { ZZHB1: 'hb' } }, updatedBy: null })
+  it("when a laboratory sends its own code, then the CSV import's saved mapping for that sending facility (MSH-4) is used, from the next message after it is saved", async () => {
+    // The listener keeps each sender's codes between messages: a save must reach the very next one.
+    const [before] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: 'ZZHB1', system: 'L', value: '131' }] }))
+    expect(ackCode(before!)).toBe('AE')
+    const n = await makeStaff('nurse')
+    await saveMapping(t.sequelize, { userId: n.id, role: 'nurse', requestId: 'test', ip: null }, 'KVH-PATH', { columns: { mrn: 'mrn', code: 'test_code', value: 'value', unit: 'unit', takenAt: 'taken_at' }, delimiter: ',', dateOrder: 'iso', codes: { ZZHB1: 'hb' } })
     const [ok] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: 'ZZHB1', system: 'L', value: '131' }] }))
     expect(ackCode(ok!)).toBe('AA')
     const [other] = await send(port, oru({ mrn: 'HL70001', facility: 'ELSEWHERE', obx: [{ code: 'ZZHB1', system: 'L', value: '132' }] }))
