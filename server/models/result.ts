@@ -75,3 +75,15 @@ export function screenableSql(alias = ''): string {
   return `${a}voided_at IS NULL AND ${a}comparator IS NULL AND ${a}status <> 'preliminary'`
 }
 export const SCREENABLE_WHERE = { voidedAt: null, comparator: null, status: ['final', 'corrected'] }
+
+/**
+ * The rows that stand as the laboratory's final word, for every reader that counts or shows
+ * results as final (reports, letters, exports, prescribing checks): not voided (OBX-11 X, or
+ * replaced by a correction) and not preliminary (OBX-11 P). A value beyond a limit ("<5") still
+ * counts here as reported; only the screening thresholds leave it out (SCREENABLE_WHERE).
+ */
+export function finalSql(alias = ''): string {
+  const a = alias ? `${alias}.` : ''
+  return `${a}voided_at IS NULL AND ${a}status <> 'preliminary'`
+}
+export const FINAL_WHERE = { voidedAt: null, status: ['final', 'corrected'] }

@@ -68,6 +68,27 @@ describe('ORU^R01 results over MLLP', () => {
     expect((await live()).find((r) => r.analyte === 'crp')).toMatchObject({ referenceRange: null, abnormalFlags: null })
   })
 
+  it('when a newer preliminary Hb arrives and a newer final one is deleted by the laboratory, then the screening, the worklist row, the readiness board and the episode still rest on the final 98 g/L', async () => {
+    const h = 3600_000
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '98', at: new Date(Date.now() - 48 * h) }] })))[0]!)).toBe('AA')
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '141', status: 'P', at: new Date(Date.now() - 24 * h) }] })))[0]!)).toBe('AA')
+    const gone = new Date(Date.now() - 12 * h)
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '152', at: gone }] })))[0]!)).toBe('AA')
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '', status: 'X', at: gone }] })))[0]!)).toBe('AA')
+    expect(await referral()).toMatchObject({ latestHbGL: 98, anaemic: 1 })
+    const n = await makeStaff('nurse')
+    const nurse = await new Client(t.app).mustSignIn(n.email, n.password)
+    const row = (await nurse.get('/api/worklist').expect(200)).body.rows.find((r: { id: number }) => r.id === referralId)
+    expect(row).toMatchObject({ latestHbGL: 98 })
+    const board = (await nurse.get('/api/readiness').expect(200)).body.rows.find((r: { id: number }) => r.id === referralId)
+    expect(board.planningHbGL).toBe(98)
+    const episode = (await nurse.get(`/api/referrals/${referralId}`).expect(200)).body
+    expect(episode.screening).toMatchObject({ latestHbGL: 98 })
+    // The episode's table shows the preliminary value as preliminary, never the deleted one.
+    expect(episode.latestResults.hb).toMatchObject({ value: 141, status: 'preliminary' })
+    expect(JSON.stringify(episode.latestResults)).not.toContain('152')
+  })
+
   it('when every supported version sends a result, then each is taken (2.3, 2.3.1, 2.4, 2.5, 2.5.1)', async () => {
     const versions = ['2.3', '2.3.1', '2.4', '2.5', '2.5.1']
     const acks = await send(port, ...versions.map((version, i) => oru({ mrn: 'HL70001', version, obx: [{ value: String(100 + i), at: new Date(Date.now() - (i + 2) * 3600_000) }] })))

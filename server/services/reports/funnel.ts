@@ -1,6 +1,10 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, pct, select, whereFor, type ReportFilters } from './filters'
+import { finalSql } from '../../models/result'
+
+// Voided and preliminary Hb values do not count in any figure.
+const COUNTED = finalSql('h')
 
 // Each step is one indexed lookup per referral in the period; all counted in one pass.
 const SQL = (where: string) => `
@@ -8,13 +12,13 @@ SELECT COUNT(*) AS referred,
   SUM(x.first_hb_at IS NOT NULL) AS screened,
   SUM(x.anaemic_or_deficient) AS anaemicOrDeficient,
   SUM(x.first_dose_at IS NOT NULL) AS treated,
-  SUM(x.first_dose_at IS NOT NULL AND EXISTS (SELECT 1 FROM results h WHERE h.referral_id = x.id AND h.analyte = 'hb' AND h.taken_at > x.first_dose_at)) AS rechecked,
+  SUM(x.first_dose_at IS NOT NULL AND EXISTS (SELECT 1 FROM results h WHERE h.referral_id = x.id AND h.analyte = 'hb' AND ${COUNTED} AND h.taken_at > x.first_dose_at)) AS rechecked,
   SUM(x.cleared) AS cleared,
   SUM(x.operated) AS operated,
   SUM(x.operated AND x.first_hb_at IS NOT NULL AND DATEDIFF(x.surgery_date, x.first_hb_at) >= 28) AS screenedEarly
 FROM (
   SELECT r.id,
-    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb') AS first_hb_at,
+    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS first_hb_at,
     (SELECT MIN(a.given_at) FROM administrations a WHERE a.referral_id = r.id) AS first_dose_at,
     (r.anaemic = 1 OR r.iron_status IN ('absolute-deficiency', 'iron-restricted')
       OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id = r.id)) AS anaemic_or_deficient,

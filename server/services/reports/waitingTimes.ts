@@ -1,6 +1,11 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, round1, select, whereFor, type ReportFilters } from './filters'
+import { finalSql } from '../../models/result'
+
+// Voided and preliminary Hb values do not count in any figure.
+const COUNTED = finalSql('h')
+
 
 const LEGS = [
   ['referralToScreening', 'Referral → first screening result', 'created_at', 'first_hb_at'],
@@ -15,7 +20,7 @@ const LEGS = [
 const SQL = (where: string) => `
 WITH x AS (
   SELECT r.created_at,
-    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb') AS first_hb_at,
+    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS first_hb_at,
     (SELECT MIN(st.at) FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage = 'clinic') AS clinic_at,
     (SELECT MIN(a.given_at) FROM administrations a WHERE a.referral_id = r.id) AS first_dose_at,
     o.surgery_date
