@@ -18,6 +18,7 @@ let nurse: StaffFixture
 let admin: StaffFixture
 let procedureId: number
 let surgeonId: number
+let referralId: number
 
 beforeAll(async () => {
   served = await serveBuiltApp()
@@ -29,7 +30,7 @@ beforeAll(async () => {
   surgeonId = (await makeStaff('surgeon')).id
   procedureId = (await makeProcedure()).id
   const p = await makePatient({ mrn: 'HLB0001', givenName: 'Morwenna', familyName: 'Penhallow', sex: 'female' })
-  await makeReferral({ patientId: p.id, procedureId, surgeonId }, { plannedSurgeryDate: addDays(todayIso(), 10) })
+  referralId = (await makeReferral({ patientId: p.id, procedureId, surgeonId }, { plannedSurgeryDate: addDays(todayIso(), 10) })).id
   browser = await launchBrowser()
   page = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 } })).newPage()
 })
@@ -49,12 +50,19 @@ describe('a result sent over MLLP reaches an open worklist', () => {
     await expect.poll(async () => (await row().textContent()) ?? '').toContain('Penhallow')
     await page.evaluate(() => { (globalThis as unknown as { flMarker?: string }).flMarker = 'not reloaded' })
     expect((await row().textContent()) ?? '').not.toContain('104')
-    const [ack] = await send(port, oru({ mrn: 'HLB0001', obx: [{ value: '104' }] }))
+    const [ack] = await send(port, oru({ mrn: 'HLB0001', obx: [{ value: '104', range: '120-150', flag: 'L' }] }))
     expect(ackCode(ack!)).toBe('AA')
     await expect.poll(async () => (await row().textContent()) ?? '', { timeout: 25_000, interval: 500 }).toContain('104')
     expect(await page.evaluate(() => (globalThis as unknown as { flMarker?: string }).flMarker)).toBe('not reloaded')
     await page.screenshot({ path: '/tmp/hl7-e2e-worklist.png', fullPage: true })
-  }, 60_000)
+    // The episode shows the laboratory's own range (OBX-7) and flag (OBX-8) beside the value.
+    await page.goto(`${served.baseUrl}/referrals/${referralId}`)
+    const hb = page.getByTestId('results-table').locator('tr[data-analyte="hb"]')
+    await expect.poll(async () => (await hb.textContent()) ?? '').toContain('120-150')
+    expect(await hb.getByTestId('result-range').textContent()).toMatch(/120-150\s*low/)
+    expect(await seriousViolations(page)).toEqual([])
+    await page.screenshot({ path: '/tmp/hl7-e2e-episode-range.png', fullPage: true })
+  }, 90_000)
 })
 
 describe('the Interfaces screen', () => {

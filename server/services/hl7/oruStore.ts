@@ -1,8 +1,8 @@
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
-import { Referral, Result } from '../../models/index'
+import { Patient, Referral, Result } from '../../models/index'
+import { SCREENING_ANALYTES } from '../../../shared/clinic/screening'
 import { recordAudit, type Actor } from '../audit'
-import { findPatients } from '../imports/match'
 import { deriveEgfr, deriveTsat } from '../results'
 import { refreshScreening, screeningView } from '../screening'
 import { Hl7Problem } from './ack'
@@ -76,27 +76,56 @@ async function applyObx(sequelize: Sequelize, o: ObxReading, ctx: { referralId: 
  * locked, values derived (TSAT, eGFR) and the episode re-screened in the message's transaction,
  * with one audit row per episode naming the message.
  */
+/**
+ * The patient's newest open episode, locked, with what the rules need of the patient, in one
+ * read; only when there is none does a second read tell an unknown patient from one with no
+ * open episode.
+ */
+async function openEpisode(mrn: string, t: Transaction): Promise<Referral & { patient: Patient }> {
+  const r = (await Referral.findOne({
+    where: { stage: { [Op.notIn]: ENDED } },
+    include: [{ model: Patient, as: 'patient', where: { mrn }, attributes: ['id', 'dateOfBirth', 'sex'] }],
+    order: [['id', 'DESC']], transaction: t, lock: t.LOCK.UPDATE,
+  })) as (Referral & { patient: Patient }) | null
+  if (r) return r
+  if (!(await Patient.count({ where: { mrn }, transaction: t }))) throw new Hl7Problem('AE', 'unknown-mrn', `no patient has MRN ${mrn}`, '204', { segment: 'PID', field: 3 })
+  throw new Hl7Problem('AE', 'no-open-referral', `patient ${mrn} has no open episode`, '204', { segment: 'PID', field: 3 })
+}
+
+/** Whether a change can move the screening: anything but adding a value the screening never reads. */
+function movesScreening(o: ObxReading, changes: Change[]): boolean {
+  if (changes.some((c) => c.kind !== 'result-added')) return true
+  // Preliminary values and values beyond a limit are never screened; nor are tests outside the screening set.
+  return changes.length > 0 && o.action !== 'preliminary' && o.comparator === null && (SCREENING_ANALYTES as readonly string[]).includes(o.reading.analyte)
+}
+
+/**
+ * Stores an ORU^R01's results through the same rules as a typed-in result: the referral row is
+ * locked, values derived (TSAT, eGFR) and the episode re-screened in the message's transaction,
+ * with one audit row per episode naming the message.
+ */
 export async function storeOru(sequelize: Sequelize, groups: OruGroup[], ctx: { messageId: number; controlId: string; actor: Actor }, t: Transaction): Promise<Change[]> {
-  const patients = await findPatients(sequelize, [...new Set(groups.map((g) => g.mrn))], t)
   const all: Change[] = []
   for (const g of groups) {
-    const p = patients.get(g.mrn.toUpperCase())
-    if (!p) throw new Hl7Problem('AE', 'unknown-mrn', `no patient has MRN ${g.mrn}`, '204', { segment: 'PID', field: 3 })
-    const referral = p.referralId == null ? null : await Referral.findByPk(p.referralId, { transaction: t, lock: t.LOCK.UPDATE })
-    // Checked again under the lock: the episode may have been closed since the patient was looked up.
-    if (!referral || ENDED.includes(referral.stage)) throw new Hl7Problem('AE', 'no-open-referral', `patient ${g.mrn} has no open episode`, '204', { segment: 'PID', field: 3 })
-    const early = g.obx.find((o) => o.action !== 'void' && o.reading.takenAt.toISOString().slice(0, 10) < p.dob)
+    const referral = await openEpisode(g.mrn, t)
+    const patient = referral.patient
+    const early = g.obx.find((o) => o.action !== 'void' && o.reading.takenAt.toISOString().slice(0, 10) < patient.dateOfBirth)
     if (early) throw new Hl7Problem('AE', 'bad-date', 'time taken is before the date of birth', '102', { segment: 'OBX', seq: early.seq, field: 14 })
-    const patient = { id: p.patientId, dateOfBirth: p.dob, sex: p.sex }
     const before = screeningView(referral, patient.sex)
     const changes: Change[] = []
-    for (const o of g.obx) changes.push(...(await applyObx(sequelize, o, { referralId: referral.id, patientId: patient.id, messageId: ctx.messageId, controlId: ctx.controlId }, t)))
+    let rescreen = false
+    for (const o of g.obx) {
+      const done = await applyObx(sequelize, o, { referralId: referral.id, patientId: patient.id, messageId: ctx.messageId, controlId: ctx.controlId }, t)
+      rescreen ||= movesScreening(o, done)
+      changes.push(...done)
+    }
     if (!changes.length) continue
     const usable = g.obx.filter((o) => o.action === 'final' || o.action === 'corrected')
     const samples = new Set(usable.filter((o) => ['iron', 'tibc', 'transferrin'].includes(o.reading.analyte)).map((o) => o.reading.takenAt.getTime()))
     for (const at of samples) {
       const tsat = await deriveTsat({ referralId: referral.id, patientId: patient.id, takenAt: new Date(at), enteredBy: null }, t)
       if (tsat) changes.push({ kind: 'derived', resultId: tsat.id, referralId: referral.id, analyte: 'tsat' })
+      if (tsat) rescreen = true
     }
     for (const c of changes.filter((x) => x.analyte === 'creatinine' && x.kind !== 'result-voided')) {
       const row = await Result.findByPk(c.resultId, { transaction: t })
@@ -104,7 +133,7 @@ export async function storeOru(sequelize: Sequelize, groups: OruGroup[], ctx: { 
       if (egfr) changes.push({ kind: 'derived', resultId: egfr.id, referralId: referral.id, analyte: 'egfr' })
     }
     // The columns just written are the only ones that changed: set them here rather than read the row again.
-    referral.set(await refreshScreening(referral, patient.sex, t), { raw: true })
+    if (rescreen) referral.set(await refreshScreening(referral, patient.sex, t), { raw: true })
     await recordAudit(t, ctx.actor, {
       action: 'hl7-results', entity: 'referral', entityId: referral.id, patientId: patient.id,
       before: { screening: before }, after: { hl7MessageId: ctx.messageId, controlId: ctx.controlId, changes, screening: screeningView(referral, patient.sex) },
