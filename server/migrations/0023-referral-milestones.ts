@@ -1,9 +1,11 @@
 import { QueryTypes, type QueryInterface } from 'sequelize'
 
 /** Each milestone computed from scratch for one episode (`id` = the referral's id expression). */
+// Voided and preliminary values are not results yet (finalSql in server/models/result.ts).
+const COUNTED_HB = `h.analyte = 'hb' AND h.voided_at IS NULL AND h.status <> 'preliminary'`
 const HB = (id: string) => ({
-  first_hb_at: `(SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = ${id} AND h.analyte = 'hb')`,
-  last_hb_at: `(SELECT MAX(h.taken_at) FROM results h WHERE h.referral_id = ${id} AND h.analyte = 'hb')`,
+  first_hb_at: `(SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = ${id} AND ${COUNTED_HB})`,
+  last_hb_at: `(SELECT MAX(h.taken_at) FROM results h WHERE h.referral_id = ${id} AND ${COUNTED_HB})`,
 })
 const DOSE = (id: string) => ({ first_dose_at: `(SELECT MIN(a.given_at) FROM administrations a WHERE a.referral_id = ${id})` })
 const MOVES = (id: string) => ({
@@ -22,7 +24,7 @@ const COLUMNS = Object.keys(ALL('r.id'))
  */
 export const MILESTONES_FROM_SCRATCH_SQL = `SELECT r.id AS referral_id, ${Object.entries(ALL('r.id')).map(([k, v]) => `${v} AS ${k}`).join(', ')}
   FROM referrals r
-  WHERE EXISTS (SELECT 1 FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb') OR EXISTS (SELECT 1 FROM administrations a WHERE a.referral_id = r.id)
+  WHERE EXISTS (SELECT 1 FROM results h WHERE h.referral_id = r.id AND ${COUNTED_HB}) OR EXISTS (SELECT 1 FROM administrations a WHERE a.referral_id = r.id)
     OR EXISTS (SELECT 1 FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage IN ('clinic', 'cleared', 'operated'))
     OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id = r.id)`
 
@@ -54,7 +56,7 @@ function triggersFor(table: string, short: string, cols: (id: string) => Record<
 
 const HB_INSERT: Trigger = {
   name: 'results_milestones_insert',
-  sql: `CREATE TRIGGER results_milestones_insert AFTER INSERT ON results FOR EACH ROW BEGIN IF NEW.analyte = 'hb' THEN
+  sql: `CREATE TRIGGER results_milestones_insert AFTER INSERT ON results FOR EACH ROW BEGIN IF NEW.analyte = 'hb' AND NEW.voided_at IS NULL AND NEW.status <> 'preliminary' THEN
     INSERT INTO referral_milestones (referral_id, first_hb_at, last_hb_at) VALUES (NEW.referral_id, NEW.taken_at, NEW.taken_at)
     ON DUPLICATE KEY UPDATE first_hb_at = LEAST(COALESCE(first_hb_at, NEW.taken_at), NEW.taken_at), last_hb_at = GREATEST(COALESCE(last_hb_at, NEW.taken_at), NEW.taken_at);
   END IF; END`,

@@ -15,6 +15,7 @@ import * as m0014 from './0014-security'
 import * as m0015 from './0015-directory-sign-in'
 import * as m0017 from './0017-dosing-table-choice'
 import * as m0018 from './0018-operation-cancellations'
+import * as m0019 from './0019-result-range-flags'
 import * as m0023 from './0023-referral-milestones'
 
 export interface Migration {
@@ -41,5 +42,6 @@ export const migrations: Migration[] = [
   { name: '0015-directory-sign-in', ...m0015 },
   { name: '0017-dosing-table-choice', ...m0017 },
   { name: '0018-operation-cancellations', ...m0018 },
+  { name: '0019-result-range-flags', ...m0019 },
   { name: '0023-referral-milestones', ...m0023 },
 ]

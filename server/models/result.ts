@@ -31,6 +31,9 @@ export class Result extends Model<InferAttributes<Result>, InferCreationAttribut
   declare voidedAt: CreationOptional<Date | null>
   declare voidReason: CreationOptional<string | null>
   declare hl7MessageId: CreationOptional<number | null>
+  /** The laboratory's reference range (OBX-7) and abnormal flags (OBX-8), as sent; null when none came. */
+  declare referenceRange: CreationOptional<string | null>
+  declare abnormalFlags: CreationOptional<string | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -55,6 +58,8 @@ export function initResult(sequelize: Sequelize): void {
       voidedAt: { type: DataTypes.DATE, allowNull: true },
       voidReason: { type: DataTypes.STRING(200), allowNull: true },
       hl7MessageId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      referenceRange: { type: DataTypes.STRING(60), allowNull: true },
+      abnormalFlags: { type: DataTypes.STRING(20), allowNull: true },
       createdAt: DataTypes.DATE,
     },
     { sequelize, tableName: 'results', updatedAt: false },
@@ -70,3 +75,15 @@ export function screenableSql(alias = ''): string {
   return `${a}voided_at IS NULL AND ${a}comparator IS NULL AND ${a}status <> 'preliminary'`
 }
 export const SCREENABLE_WHERE = { voidedAt: null, comparator: null, status: ['final', 'corrected'] }
+
+/**
+ * The rows that stand as the laboratory's final word, for every reader that counts or shows
+ * results as final (reports, letters, exports, prescribing checks): not voided (OBX-11 X, or
+ * replaced by a correction) and not preliminary (OBX-11 P). A value beyond a limit ("<5") still
+ * counts here as reported; only the screening thresholds leave it out (SCREENABLE_WHERE).
+ */
+export function finalSql(alias = ''): string {
+  const a = alias ? `${alias}.` : ''
+  return `${a}voided_at IS NULL AND ${a}status <> 'preliminary'`
+}
+export const FINAL_WHERE = { voidedAt: null, status: ['final', 'corrected'] }

@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize'
 import { Op } from 'sequelize'
 import { Administration, Prescription, Referral, Result, User } from '../models/index'
+import { FINAL_WHERE } from '../models/result'
 import { ironDosePlan, IronPlanRefusal, type IronDosePlan, type IronProduct } from '../../shared/clinical'
 import { checkDosesAgainstCaps } from '../../shared/clinic/doseCheck'
 import { IV_IRON_CAUTIONS, positiveCautions, type CautionAnswers } from '../../shared/clinic/cautions'
@@ -28,7 +29,7 @@ async function phosphateNeeded(r: LoadedReferral, product: IronProduct): Promise
   const courseIds = (await Prescription.findAll({ where: { referralId: referralIds, productCode: product.code }, attributes: ['id'], raw: true })).map((x) => x.id)
   const last = courseIds.length ? await Administration.findOne({ where: { prescriptionId: courseIds }, order: [['givenAt', 'DESC']] }) : null
   if (!last) return { needed: false, message: '' }
-  const phosphate = await Result.findOne({ where: { referralId: r.id, analyte: 'phosphate', takenAt: { [Op.gt]: last.givenAt } } })
+  const phosphate = await Result.findOne({ where: { referralId: r.id, analyte: 'phosphate', takenAt: { [Op.gt]: last.givenAt }, ...FINAL_WHERE } })
   if (phosphate) return { needed: false, message: '' }
   return { needed: true, message: `A repeat course of ${product.name}: record a serum phosphate taken since the last dose (${last.givenAt.toISOString().slice(0, 10)}) first (${PHOSPHATE_SOURCE}).` }
 }

@@ -28,6 +28,9 @@ export interface ResultView {
   comparator: string | null
   voidedAt: string | null
   voidReason: string | null
+  /** The laboratory's reference range (OBX-7) and abnormal flags (OBX-8) as sent; null for values typed in. */
+  referenceRange: string | null
+  abnormalFlags: string | null
 }
 
 export function toResultView(r: Result & { enteredByUser?: User | null }): ResultView {
@@ -47,6 +50,8 @@ export function toResultView(r: Result & { enteredByUser?: User | null }): Resul
     comparator: r.comparator ?? null,
     voidedAt: isoOrNull(r.voidedAt ?? null),
     voidReason: r.voidReason ?? null,
+    referenceRange: r.referenceRange ?? null,
+    abnormalFlags: r.abnormalFlags ?? null,
   }
 }
 
@@ -65,7 +70,7 @@ export async function deriveTsat(base: { referralId: number; patientId: number; 
   )
 }
 
-export async function deriveEgfr(creatinine: Result, patient: Patient, t: Transaction): Promise<Result | null> {
+export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dateOfBirth' | 'sex'>, t: Transaction): Promise<Result | null> {
   const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient))
   if (egfr === null) return null
   const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }

@@ -49,6 +49,13 @@ export interface Hl7Overview {
   listener: Hl7ListenerState
   perHour: { hour: string; count: number }[]
   attention: number
+  /** The last 24 hours by outcome, and by error code for those not stored (no patient data). */
+  outcomes: { outcome: Hl7Outcome; count: number }[]
+  errorCodes: { code: string; count: number }[]
 }
 
-export interface Hl7MessagePage { items: Hl7MessageSummary[]; total: number }
+/**
+ * `patientDetail` false: the reader holds no clinical role, so each item's `patientMrn` and
+ * `errorText` are null (the error code stays) and the search matched control ids only.
+ */
+export interface Hl7MessagePage { items: Hl7MessageSummary[]; total: number; patientDetail: boolean }

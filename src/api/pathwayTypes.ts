@@ -54,6 +54,9 @@ export interface ResultView {
   comparator: string | null
   voidedAt: string | null
   voidReason: string | null
+  /** The laboratory's reference range (OBX-7) and abnormal flags (OBX-8) as sent; null for values typed in. */
+  referenceRange: string | null
+  abnormalFlags: string | null
 }
 
 export interface TransitionItem {

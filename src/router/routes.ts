@@ -1,5 +1,6 @@
 import type { RouteRecordRaw } from 'vue-router'
 import { ROLES } from '@shared/roles'
+import { HL7_ACCESS } from '@shared/hl7/access'
 import { ROLE_HOMES } from './homes'
 
 // Administrators read no patient record (tests/api/roleMatrix.data.ts); the server checks again.
@@ -112,7 +113,7 @@ export const routes: RouteRecordRaw[] = [
     path: '/admin/interfaces',
     name: 'interfaces',
     component: () => import('@/views/AdminInterfacesView.vue'),
-    meta: { roles: ['admin', 'nurse'], title: 'Interfaces', wide: true, nav: { label: 'Interfaces', icon: 'pi pi-arrow-right-arrow-left', order: 29 } },
+    meta: { roles: [...HL7_ACCESS.overview], title: 'Interfaces', wide: true, nav: { label: 'Interfaces', icon: 'pi pi-arrow-right-arrow-left', order: 29 } },
   },
   {
     path: '/worklist',

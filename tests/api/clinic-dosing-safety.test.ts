@@ -152,6 +152,11 @@ describe('recording a dose re-checks the caps and the prescribed total', () => {
     expect(refused.status).toBe(422)
     expect(refused.body.error.code).toBe('phosphate_required')
     expect(refused.body.error.message).toMatch(/Ferinject SmPC 4\.4; MHRA Drug Safety Update 2020/)
+    // A voided or a preliminary phosphate is not the laboratory's final word: still refused.
+    const phosphate = { referralId: referral.id, patientId: patient.id, analyte: 'phosphate' as const, unitCanonical: 'mmol/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
+    await Result.create({ ...phosphate, valueCanonical: 0.8, takenAt: new Date(Date.now() - 2 * 86_400_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' })
+    await Result.create({ ...phosphate, valueCanonical: 0.85, takenAt: new Date(Date.now() - 3 * 86_400_000), status: 'preliminary' })
+    expect((await prescribe(referral.id, {})).body.error?.code).toBe('phosphate_required')
     await Result.create({ referralId: referral.id, patientId: patient.id, analyte: 'phosphate', valueCanonical: 0.9, unitCanonical: 'mmol/L', valueReported: 0.9, unitReported: 'mmol/L', takenAt: new Date(Date.now() - 86_400_000), enteredBy: null, derivedFrom: null })
     const saved = await prescribe(referral.id, {})
     expect(saved.status, JSON.stringify(saved.body)).toBe(201)

@@ -5,7 +5,7 @@ import { Client } from '../helpers/agent'
 import { makeStaff } from '../helpers/factories'
 import { loadStarterFormulary } from '../helpers/clinicFactories'
 import { fullEpisode } from '../helpers/documentFixtures'
-import { AuditEntry, Patient } from '../../server/models/index'
+import { AuditEntry, Patient, Result } from '../../server/models/index'
 
 // The published FHIR R4 JSON schema (hl7.org/fhir/R4/fhir.schema.json) as shipped by the
 // validator package; compiled once for this file because it is large.
@@ -121,5 +121,20 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
   it("when a surgeon asks for another surgeon's patient, then 403; an unknown episode is 404", async () => {
     expect((await otherSurgeon.get(`/api/referrals/${ep.referral.id}/fhir`)).status).toBe(403)
     expect((await doctor.get('/api/referrals/999999/fhir')).status).toBe(404)
+  })
+
+  it('when the episode also holds a voided and a preliminary Hb, then neither is exported; a corrected value is exported with status corrected', async () => {
+    const base = { referralId: ep.referral.id, patientId: ep.referral.patientId, analyte: 'hb' as const, unitCanonical: 'g/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
+    await Result.create({ ...base, valueCanonical: 71.5, takenAt: new Date(Date.now() - 3 * 3600_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' })
+    await Result.create({ ...base, valueCanonical: 72.5, takenAt: new Date(Date.now() - 2 * 3600_000), status: 'preliminary' })
+    const corrected = await Result.create({ ...base, valueCanonical: 73.5, takenAt: new Date(Date.now() - 3600_000), status: 'corrected' })
+    const again = (await doctor.get(`/api/referrals/${ep.referral.id}/fhir`).expect(200)).body as typeof bundle
+    const obs = again.entry.filter((e) => e.resource.resourceType === 'Observation').map((e) => e.resource)
+    const values = obs.map((o) => o.valueQuantity.value)
+    expect(values).not.toContain(71.5)
+    expect(values).not.toContain(72.5)
+    expect(obs).toHaveLength(ofType('Observation').length + 1)
+    expect(obs.find((o) => o.id === `observation-${corrected.id}`)).toMatchObject({ status: 'corrected', valueQuantity: { value: 73.5 } })
+    await Result.destroy({ where: { id: corrected.id } })
   })
 })

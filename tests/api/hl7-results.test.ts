@@ -1,11 +1,13 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { makeStaff } from '../helpers/factories'
+import { Client } from '../helpers/agent'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { ackCode, ackError, oru, send } from '../helpers/hl7'
-import { AuditEntry, Hl7MessageRow, ImportMapping, Referral, Result } from '../../server/models/index'
+import { AuditEntry, Hl7MessageRow, Referral, Result } from '../../server/models/index'
 import { MllpListener } from '../../server/services/hl7/listener'
 import { reprocess } from '../../server/services/hl7/inbox'
+import { saveMapping } from '../../server/services/imports/mappings'
 import { addDays, todayIso } from '../../shared/pathway'
 
 let t: TestApp
@@ -46,6 +48,45 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await AuditEntry.count({ where: { action: 'hl7-results', entityId: String(referralId) } })).toBe(1)
     const msg = (await Hl7MessageRow.findOne({ raw: true }))!
     expect(msg).toMatchObject({ outcome: 'stored', ackCode: 'AA', messageType: 'ORU^R01', patientMrn: 'HL70001', needsAttention: 0 })
+  })
+
+  it("when OBX-7 (reference range) and OBX-8 (abnormal flags) are sent, then they are kept on the result row and the episode's results show them; a correction carries its own", async () => {
+    const at = new Date(Date.now() - 5 * 3600_000)
+    const [ack] = await send(port, oru({ mrn: 'HL70001', at, obx: [{ value: '98', range: '120-150', flag: 'L' }, { code: '2276-4', value: '8', unit: 'ug/L', range: '30-400', flag: 'L~A' }] }))
+    expect(ackCode(ack!)).toBe('AA')
+    expect((await live()).map((r) => [r.analyte, r.referenceRange, r.abnormalFlags])).toEqual([['hb', '120-150', 'L'], ['ferritin', '30-400', 'L~A']])
+    const n = await makeStaff('nurse')
+    const nurse = await new Client(t.app).mustSignIn(n.email, n.password)
+    const episode = await nurse.get(`/api/referrals/${referralId}`).expect(200)
+    expect(episode.body.latestResults.hb).toMatchObject({ value: 98, referenceRange: '120-150', abnormalFlags: 'L' })
+    expect(episode.body.latestResults.ferritin).toMatchObject({ referenceRange: '30-400', abnormalFlags: 'L~A' })
+    await send(port, oru({ mrn: 'HL70001', at, obx: [{ value: '131', range: '120-150', flag: 'N', status: 'C' }] }))
+    const hb = (await live()).find((r) => r.analyte === 'hb')!
+    expect(hb).toMatchObject({ valueCanonical: 131, status: 'corrected', referenceRange: '120-150', abnormalFlags: 'N' })
+    // No range or flag sent: nothing stored, not an empty string.
+    await send(port, oru({ mrn: 'HL70001', obx: [{ code: '1988-5', value: '3', unit: 'mg/L' }] }))
+    expect((await live()).find((r) => r.analyte === 'crp')).toMatchObject({ referenceRange: null, abnormalFlags: null })
+  })
+
+  it('when a newer preliminary Hb arrives and a newer final one is deleted by the laboratory, then the screening, the worklist row, the readiness board and the episode still rest on the final 98 g/L', async () => {
+    const h = 3600_000
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '98', at: new Date(Date.now() - 48 * h) }] })))[0]!)).toBe('AA')
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '141', status: 'P', at: new Date(Date.now() - 24 * h) }] })))[0]!)).toBe('AA')
+    const gone = new Date(Date.now() - 12 * h)
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '152', at: gone }] })))[0]!)).toBe('AA')
+    expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '', status: 'X', at: gone }] })))[0]!)).toBe('AA')
+    expect(await referral()).toMatchObject({ latestHbGL: 98, anaemic: 1 })
+    const n = await makeStaff('nurse')
+    const nurse = await new Client(t.app).mustSignIn(n.email, n.password)
+    const row = (await nurse.get('/api/worklist').expect(200)).body.rows.find((r: { id: number }) => r.id === referralId)
+    expect(row).toMatchObject({ latestHbGL: 98 })
+    const board = (await nurse.get('/api/readiness').expect(200)).body.rows.find((r: { id: number }) => r.id === referralId)
+    expect(board.planningHbGL).toBe(98)
+    const episode = (await nurse.get(`/api/referrals/${referralId}`).expect(200)).body
+    expect(episode.screening).toMatchObject({ latestHbGL: 98 })
+    // The episode's table shows the preliminary value as preliminary, never the deleted one.
+    expect(episode.latestResults.hb).toMatchObject({ value: 141, status: 'preliminary' })
+    expect(JSON.stringify(episode.latestResults)).not.toContain('152')
   })
 
   it('when every supported version sends a result, then each is taken (2.3, 2.3.1, 2.4, 2.5, 2.5.1)', async () => {
@@ -125,8 +166,12 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await live()).toMatchObject([{ valueCanonical: 98, unitCanonical: 'g/L', valueReported: 9.8, unitReported: 'g/dL' }])
   })
 
-  it("when a laboratory sends its own code, then the CSV import's saved mapping for that sending facility (MSH-4) is used", async () => {
-    await ImportMapping.create({ sourceName: 'KVH-PATH', mapping: { columns: { mrn: 'mrn', code: 'test_code', value: 'value', unit: 'unit', takenAt: 'taken_at' }, delimiter: ',', dateOrder: 'iso', codes: { ZZHB1: 'hb' } }, updatedBy: null })
+  it("when a laboratory sends its own code, then the CSV import's saved mapping for that sending facility (MSH-4) is used, from the next message after it is saved", async () => {
+    // The listener keeps each sender's codes between messages: a save must reach the very next one.
+    const [before] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: 'ZZHB1', system: 'L', value: '131' }] }))
+    expect(ackCode(before!)).toBe('AE')
+    const n = await makeStaff('nurse')
+    await saveMapping(t.sequelize, { userId: n.id, role: 'nurse', requestId: 'test', ip: null }, 'KVH-PATH', { columns: { mrn: 'mrn', code: 'test_code', value: 'value', unit: 'unit', takenAt: 'taken_at' }, delimiter: ',', dateOrder: 'iso', codes: { ZZHB1: 'hb' } })
     const [ok] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: 'ZZHB1', system: 'L', value: '131' }] }))
     expect(ackCode(ok!)).toBe('AA')
     const [other] = await send(port, oru({ mrn: 'HL70001', facility: 'ELSEWHERE', obx: [{ code: 'ZZHB1', system: 'L', value: '132' }] }))

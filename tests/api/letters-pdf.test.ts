@@ -4,7 +4,7 @@ import { Client } from '../helpers/agent'
 import { makeStaff } from '../helpers/factories'
 import { loadStarterFormulary } from '../helpers/clinicFactories'
 import { binary, fullEpisode, pdfText, privateUploadDir, storedFiles } from '../helpers/documentFixtures'
-import { EpisodeDocument, Letter, Referral } from '../../server/models/index'
+import { EpisodeDocument, Letter, Referral, Result } from '../../server/models/index'
 import { KIND_INFO } from '../../shared/appointments'
 
 const uploadDir = privateUploadDir()
@@ -73,6 +73,23 @@ describe('the letter to the family doctor', () => {
     expect((await surgeon.post(`/api/referrals/${ep.referral.id}/letters`)).status).toBe(403)
     expect(storedFiles(uploadDir)).toEqual(files)
     expect(await Letter.count()).toBe(1)
+  })
+
+  it('when a newer Hb was voided by the laboratory and a newer one is only preliminary, then the letter still states the final 121 g/L', async () => {
+    const base = { referralId: ep.referral.id, patientId: ep.referral.patientId, analyte: 'hb' as const, unitCanonical: 'g/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
+    const added = [
+      await Result.create({ ...base, valueCanonical: 66, takenAt: new Date(Date.now() - 2 * 3600_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' }),
+      await Result.create({ ...base, valueCanonical: 67, takenAt: new Date(Date.now() - 3600_000), status: 'preliminary' }),
+    ]
+    try {
+      const res = await doctor.post(`/api/referrals/${ep.referral.id}/letters`).expect(201)
+      const pdf = await doctor.get(`/api/letters/${res.body.id}`).buffer(true).parse(binary).expect(200)
+      const text = await pdfText(pdf.body as Buffer)
+      expect(text).toMatch(/121 g\/L \(12\.1 g\/dL\)/)
+      expect(text).not.toMatch(/\b6[67] g\/L/)
+    } finally {
+      await Result.destroy({ where: { id: added.map((r) => r.id) } })
+    }
   })
 })
 

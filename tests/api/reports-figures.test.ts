@@ -3,6 +3,8 @@ import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { makeStaff } from '../helpers/factories'
 import { makeReportFixture, type ReportFixture } from './reports-fixture'
+import { REPORT_NAMES } from '../../shared/reports'
+import { Referral, Result } from '../../server/models/index'
 
 let t: TestApp
 let f: ReportFixture
@@ -134,5 +136,36 @@ describe('report names and dates', () => {
     const bad = await asAdmin.get('/api/reports/funnel?from=2025-13')
     expect(bad.status).toBe(400)
     expect(bad.body.error.fields).toHaveProperty('from')
+  })
+})
+
+describe('voided and preliminary results in the reports', () => {
+  it('when voided and preliminary Hb values are added to the episodes, then no report figure changes', async () => {
+    const before = Object.fromEntries(await Promise.all(REPORT_NAMES.map(async (n) => [n, (await report(n)).tables] as const)))
+    const add = async (referralId: number, day: string, hbGL: number, o: { voided?: boolean; preliminary?: boolean }) => {
+      const r = (await Referral.findByPk(referralId, { raw: true }))!
+      return Result.create({
+        referralId, patientId: r.patientId, analyte: 'hb', valueCanonical: hbGL, unitCanonical: 'g/L', valueReported: hbGL, unitReported: 'g/L', takenAt: new Date(`${day}T09:00:00.000Z`),
+        enteredBy: null, derivedFrom: null, source: 'hl7', ...(o.preliminary ? { status: 'preliminary' as const } : {}), ...(o.voided ? { voidedAt: new Date(), voidReason: 'deleted by the laboratory' } : {}),
+      })
+    }
+    const [e1, e2, , e4] = f.ids
+    const added = [
+      // E4 was never screened: either would make it "screened" and give it a first Hb.
+      await add(e4!, '2025-06-02', 100, { voided: true }),
+      await add(e4!, '2025-06-03', 101, { preliminary: true }),
+      // Before E1's first Hb (03-03): either would move its first Hb, its waiting time and its screening bin.
+      await add(e1!, '2025-03-02', 90, { preliminary: true }),
+      await add(e1!, '2025-03-02', 91, { voided: true }),
+      // The day before E1's and E2's surgery: either would become the surgery-day Hb and the re-check after the dose.
+      await add(e1!, '2025-04-09', 80, { voided: true }),
+      await add(e2!, '2025-04-04', 150, { preliminary: true }),
+    ]
+    try {
+      const after = Object.fromEntries(await Promise.all(REPORT_NAMES.map(async (n) => [n, (await report(n)).tables] as const)))
+      expect(after).toEqual(before)
+    } finally {
+      await Result.destroy({ where: { id: added.map((r) => r.id) } })
+    }
   })
 })

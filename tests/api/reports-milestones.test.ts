@@ -79,7 +79,13 @@ describe('referral milestones kept by triggers', () => {
 
   it('when a result is voided or moved to another episode, then both episodes match', async () => {
     await exec("UPDATE results SET voided_at = NOW(), void_reason = 'test' WHERE referral_id = ? ORDER BY taken_at LIMIT 1", [ids[0]])
-    await expectSameAsFromScratch()
+    // A voided value no longer counts: the first Hb is the next one (600 h ago voided, 300 h left).
+    expect((await expectSameAsFromScratch()).find((r) => r.referralId === ids[0])?.firstHbAt).toBe(ms(300))
+    const earliestStanding = "SELECT id FROM (SELECT id FROM results WHERE referral_id = ? AND analyte = 'hb' AND voided_at IS NULL ORDER BY taken_at LIMIT 1) e"
+    await exec(`UPDATE results SET status = 'preliminary' WHERE id = (${earliestStanding})`, [ids[0]])
+    expect((await expectSameAsFromScratch()).find((r) => r.referralId === ids[0])?.firstHbAt).toBe(ms(50))
+    await exec(`UPDATE results SET status = 'final' WHERE id = (${earliestStanding})`, [ids[0]])
+    expect((await expectSameAsFromScratch()).find((r) => r.referralId === ids[0])?.firstHbAt).toBe(ms(300))
     await exec('UPDATE results SET referral_id = ? WHERE referral_id = ? ORDER BY taken_at LIMIT 1', [ids[2], ids[0]])
     await expectSameAsFromScratch()
   })

@@ -5,7 +5,7 @@ import { makeStaff } from '../helpers/factories'
 import { makeQualityFixture, type QualityFixture } from './quality-fixture'
 import { parseCsv } from './reports-fixture'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
-import { AuditEntry, Outcome } from '../../server/models/index'
+import { AuditEntry, Outcome, Referral, Result } from '../../server/models/index'
 
 let t: TestApp
 let f: QualityFixture
@@ -172,5 +172,29 @@ describe('GET /api/reports/quality/national-audit and the measures CSV', () => {
     expect(row.procedureCode).toBe("'=1+1")
     // The surgeon's export holds only their own episodes (Q1, Q2 and this one).
     expect(parseCsv(res.text)).toHaveLength(3)
+  })
+})
+
+describe('voided and preliminary results in the quality measures', () => {
+  it('when every operated episode also holds a voided and a preliminary Hb, then no measure, split or trend changes', async () => {
+    const before = await quality(asAdmin)
+    const outcomes = await Outcome.findAll({ raw: true })
+    const added: number[] = []
+    for (const o of outcomes) {
+      const r = (await Referral.findByPk(o.referralId, { raw: true }))!
+      const surgery = new Date(`${o.surgeryDate}T09:00:00.000Z`).getTime()
+      const base = { referralId: r.id, patientId: r.patientId, analyte: 'hb' as const, unitCanonical: 'g/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
+      // 20 days before surgery (in the 14–45-day window, ≥ 28 days fails) and the day before: each would
+      // change "screened in window", the first Hb and the surgery-day Hb if it counted.
+      added.push((await Result.create({ ...base, valueCanonical: 60, takenAt: new Date(surgery - 20 * 86_400_000), status: 'preliminary' })).id)
+      added.push((await Result.create({ ...base, valueCanonical: 61, takenAt: new Date(surgery - 86_400_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' })).id)
+      added.push((await Result.create({ ...base, valueCanonical: 62, takenAt: new Date(surgery - 400 * 86_400_000), status: 'preliminary' })).id)
+    }
+    try {
+      expect(added.length).toBeGreaterThan(0)
+      expect(await quality(asAdmin)).toEqual(before)
+    } finally {
+      await Result.destroy({ where: { id: added } })
+    }
   })
 })

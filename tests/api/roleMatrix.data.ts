@@ -124,9 +124,11 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/imports', allow: ['admin', 'nurse', 'doctor'] },
   { method: 'GET', path: '/api/imports/:id', allow: ['admin', 'nurse', 'doctor'] },
   { method: 'POST', path: '/api/imports/:id/reversal', allow: ['nurse', 'doctor'] },
-  // HL7 interfaces: admins run them; nurses clear the attention queue after registering a patient.
+  // HL7 interfaces (shared/hl7/access.ts): admins run them and see the listener, counts, outcomes
+  // and error codes, never a patient (the list leaves out MRN and error text for them); nurses
+  // read a message segment by segment and clear the attention queue after registering a patient.
   { method: 'GET', path: '/api/interfaces/hl7', allow: ['admin', 'nurse'] },
   { method: 'GET', path: '/api/interfaces/hl7/messages', allow: ['admin', 'nurse'] },
-  { method: 'GET', path: '/api/interfaces/hl7/messages/:id', allow: ['admin', 'nurse'] },
-  { method: 'POST', path: '/api/interfaces/hl7/messages/:id/reprocess', allow: ['admin', 'nurse'] },
+  { method: 'GET', path: '/api/interfaces/hl7/messages/:id', allow: ['nurse'] },
+  { method: 'POST', path: '/api/interfaces/hl7/messages/:id/reprocess', allow: ['nurse'] },
 ]

@@ -1,6 +1,7 @@
 import { createHash, randomUUID } from 'node:crypto'
 import type { Config } from '../../config'
 import { Administration, Appointment, IronProductRow, Prescription, Result } from '../../models/index'
+import { FINAL_WHERE } from '../../models/result'
 import { KIND_INFO } from '../../../shared/appointments'
 import { recordAudit } from '../audit'
 import { loadReferral } from '../episode'
@@ -29,7 +30,8 @@ export async function exportEpisodeBundle(config: Config, viewer: Viewer, referr
   const r = await loadReferral(viewer, referralId)
   const [results, doses, appointments] = await Promise.all([
     // Not raw: the JSON column (derivedFrom) is parsed only through the model.
-    Result.findAll({ where: { referralId }, order: [['takenAt', 'ASC'], ['id', 'ASC']] }),
+    // Observations are exported as final: voided and preliminary values stay out of the hand-over.
+    Result.findAll({ where: { referralId, ...FINAL_WHERE }, order: [['takenAt', 'ASC'], ['id', 'ASC']] }),
     Administration.findAll({ where: { referralId }, order: [['givenAt', 'ASC'], ['id', 'ASC']], raw: true }),
     Appointment.findAll({ where: { referralId }, order: [['startsAt', 'ASC'], ['id', 'ASC']], raw: true }),
   ])

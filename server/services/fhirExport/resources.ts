@@ -9,7 +9,7 @@ import { LOINC_SYSTEM, UCUM_SYSTEM, loincValue } from '../../../shared/fhir/loin
 type Json = Record<string, unknown>
 
 export interface PatientFacts { id: number; mrn: string; givenName: string; familyName: string; dateOfBirth: string; sex: 'female' | 'male' }
-export interface ResultFacts { id: number; analyte: StoredAnalyte; valueCanonical: number; unitCanonical: string; takenAt: Date; createdAt: Date; derivedFrom: number[] | null; source: string }
+export interface ResultFacts { id: number; analyte: StoredAnalyte; valueCanonical: number; unitCanonical: string; takenAt: Date; createdAt: Date; derivedFrom: number[] | null; source: string; status?: string }
 export interface DoseFacts { id: number; doseMg: number; givenAt: Date; productName: string; route: 'iv' | 'oral'; batchNumber: string }
 export interface AppointmentFacts { id: number; kindLabel: string; status: AppointmentStatus; startsAt: Date; endsAt: Date; durationMin: number; location: string; cancelReason: string | null }
 
@@ -46,7 +46,8 @@ export function observationResource(r: ResultFacts, patientUrl: string, urlOf: U
   return {
     resourceType: 'Observation',
     id: `observation-${r.id}`,
-    status: 'final',
+    // FHIR R4 Observation.status: a value the laboratory corrected says so.
+    status: r.status === 'corrected' ? 'corrected' : 'final',
     category: [{ coding: [{ system: OBS_CATEGORY, code: 'laboratory', display: 'Laboratory' }] }],
     code: { coding: [{ system: LOINC_SYSTEM, code: entry.code, display: entry.display }], text: entry.display },
     subject: { reference: patientUrl },

@@ -3,7 +3,7 @@ import { UniqueConstraintError, type Sequelize, type Transaction } from 'sequeli
 import { SUPPORTED_VERSIONS, type Hl7Outcome } from '../../../shared/hl7'
 import type { Config } from '../../config'
 import { Hl7MessageRow } from '../../models/index'
-import { mappingFor } from '../imports/mappings'
+import { codesFor } from '../imports/mappings'
 import type { Actor } from '../audit'
 import { buildAck, Hl7Problem, type AckCode } from './ack'
 import { readOru } from './oruRead'
@@ -35,7 +35,7 @@ async function apply(sequelize: Sequelize, config: Config, msg: Hl7Message, h: H
   const actor: Actor = { userId: null, requestId: `hl7:${messageId}`, ip: null }
   if (h.type === 'ORU^R01') {
     // Local codes are the laboratory's own: the CSV import's saved mapping for that source (MSH-4).
-    const codes = (await mappingFor(h.sendingFacility || h.sendingApp)).mapping.codes
+    const codes = await codesFor(h.sendingFacility || h.sendingApp)
     const groups = readOru(msg, { authority: config.hl7.assigningAuthority, codes, timeZone: config.clinic.timeZone, now: Date.now() })
     return storeOru(sequelize, groups, { messageId, controlId: h.controlId, actor }, t)
   }
@@ -74,8 +74,8 @@ export async function receive(sequelize: Sequelize, config: Config, msg: Hl7Mess
     if (!h.controlId) return buildAck(msg, 'AR', problem)
     return record(msg, h, raw, receivedAt, 'rejected', 'AR', problem)
   }
-  const earlier = await Hl7MessageRow.findOne({ where: { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }, attributes: ['ack'], raw: true })
-  if (earlier) return earlier.ack
+  // A control id already answered is found by the unique key when its row is inserted (storeOnce):
+  // no separate look-up for every new message.
   for (let attempt = 1; ; attempt++) {
     try {
       return await storeOnce(sequelize, config, msg, h, raw, receivedAt)

@@ -7,10 +7,10 @@ import { recordAudit } from '../audit'
 import type { Viewer } from '../viewer'
 import { reprocess } from './inbox'
 import { listenerState } from './listener'
-import { attentionCount, messageDetail, perHour } from './messages'
+import { attentionCount, messageDetail, outcomeCounts, perHour } from './messages'
 
 export async function hl7Overview(sequelize: Sequelize, config: Config): Promise<Hl7Overview> {
-  return { listener: listenerState(config), perHour: await perHour(sequelize), attention: await attentionCount() }
+  return { listener: listenerState(config), perHour: await perHour(sequelize), attention: await attentionCount(), ...(await outcomeCounts(sequelize)) }
 }
 
 /** A message holds patient data: reading it is audited like reading the episode. */

@@ -1,6 +1,6 @@
 import { Op, QueryTypes, type Sequelize, type WhereOptions } from 'sequelize'
 import { Hl7Message } from '@medplum/core'
-import type { Hl7MessageDetail, Hl7MessagePage, Hl7MessageSummary, Hl7Outcome } from '../../../shared/hl7'
+import type { Hl7MessageDetail, Hl7MessagePage, Hl7MessageSummary, Hl7Outcome, Hl7Overview } from '../../../shared/hl7'
 import { Hl7MessageRow } from '../../models/index'
 import { NotFound } from '../../errors'
 import { isoOrNull } from '../viewer'
@@ -15,10 +15,19 @@ function summary(r: Hl7MessageRow): Hl7MessageSummary {
 
 export interface MessageQuery { q?: string; outcome?: Hl7Outcome; type?: string; attention?: boolean; limit: number; offset: number }
 
-/** Messages newest first; `q` finds a control id, an MRN or any text of the raw message. */
-export async function listMessages(query: MessageQuery): Promise<Hl7MessagePage> {
+/** What a reader without a clinical role gets: no hospital number, no error text (it may name the patient). */
+function withoutPatient(s: Hl7MessageSummary): Hl7MessageSummary {
+  return { ...s, patientMrn: null, errorText: null }
+}
+
+/**
+ * Messages newest first. With `patientDetail`, `q` finds a control id, an MRN or any text of
+ * the raw message; without it, a control id only, so a search cannot tell who has a message.
+ */
+export async function listMessages(query: MessageQuery, patientDetail: boolean): Promise<Hl7MessagePage> {
   const where: WhereOptions[] = []
-  if (query.q) {
+  if (query.q && !patientDetail) where.push({ controlId: query.q })
+  else if (query.q) {
     const like = `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
     where.push({ [Op.or]: [{ controlId: query.q }, { patientMrn: query.q }, { raw: { [Op.like]: like } }] })
   }
@@ -29,7 +38,8 @@ export async function listMessages(query: MessageQuery): Promise<Hl7MessagePage>
     where: { [Op.and]: where }, order: [['receivedAt', 'DESC'], ['id', 'DESC']], limit: query.limit, offset: query.offset,
     attributes: { exclude: ['raw', 'ack', 'changes'] },
   })
-  return { items: rows.map(summary), total: count }
+  const items = rows.map(summary)
+  return { items: patientDetail ? items : items.map(withoutPatient), total: count, patientDetail }
 }
 
 export async function messageDetail(id: number): Promise<Hl7MessageDetail> {
@@ -56,6 +66,20 @@ export async function perHour(sequelize: Sequelize): Promise<{ hour: string; cou
     { type: QueryTypes.SELECT, replacements: [new Date(Date.now() - 24 * 3600_000)] },
   )
   return rows.map((r) => ({ hour: r.hour, count: Number(r.count) }))
+}
+
+/** The last 24 hours by outcome and by error code: how the interface is doing, with no patient in it. */
+export async function outcomeCounts(sequelize: Sequelize): Promise<Pick<Hl7Overview, 'outcomes' | 'errorCodes'>> {
+  const since = new Date(Date.now() - 24 * 3600_000)
+  const outcomes = await sequelize.query<{ outcome: Hl7Outcome; count: number }>(
+    'SELECT outcome, COUNT(*) AS count FROM hl7_messages WHERE received_at >= ? GROUP BY outcome ORDER BY outcome',
+    { type: QueryTypes.SELECT, replacements: [since] },
+  )
+  const codes = await sequelize.query<{ code: string; count: number }>(
+    'SELECT error_code AS code, COUNT(*) AS count FROM hl7_messages WHERE received_at >= ? AND error_code IS NOT NULL GROUP BY error_code ORDER BY count DESC, code LIMIT 20',
+    { type: QueryTypes.SELECT, replacements: [since] },
+  )
+  return { outcomes: outcomes.map((o) => ({ outcome: o.outcome, count: Number(o.count) })), errorCodes: codes.map((c) => ({ code: c.code, count: Number(c.count) })) }
 }
 
 export async function attentionCount(): Promise<number> {

@@ -56,7 +56,10 @@ function readObx(obx: Hl7Segment, obrTakenAt: string, ctx: { codes: Record<strin
   if (!value) throw new Hl7Problem('AE', 'implausible-value', `OBX-5 value "${obx.getField(5)?.toString() ?? ''}" is not a number`, '102', where(5))
   const checked = checkReading({ mrn: '', analyte, unit, value: value.value, takenAt }, ctx.now)
   if (!checked.ok) throw new Hl7Problem('AE', checked.code, checked.reason, checked.code === 'unknown-unit' ? '103' : '102', where(checked.code === 'unknown-unit' ? 6 : checked.code === 'bad-date' ? 14 : 5))
-  return { seq: ctx.seq, action, reading: checked.reading, comparator: value.comparator, range: obx.getComponent(7, 1), flags: obx.getComponent(8, 1) }
+  // OBX-7 and OBX-8 are kept as the laboratory sent them (OBX-8 may repeat: "L~A"), cut to their columns.
+  const range = (obx.getField(7)?.toString() ?? '').trim().slice(0, 60)
+  const flags = (obx.getField(8)?.toString() ?? '').trim().slice(0, 20)
+  return { seq: ctx.seq, action, reading: checked.reading, comparator: value.comparator, range, flags }
 }
 
 /**

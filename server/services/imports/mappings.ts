@@ -16,7 +16,24 @@ export async function mappingFor(sourceName: string): Promise<MappingView> {
   return { sourceName, mapping: row.mapping, saved: true, updatedAt: isoOrNull(row.updatedAt) }
 }
 
+/**
+ * The local codes of a sending laboratory, for the HL7 listener: read once per sender, not once
+ * per message. A save in this process forgets the entry at once; the time limit covers a
+ * mapping changed from outside the server (a seed run).
+ */
+const CODES_TTL_MS = 30_000
+const codesCache = new Map<string, { codes: Record<string, string>; until: number }>()
+
+export async function codesFor(sourceName: string): Promise<Record<string, string>> {
+  const hit = codesCache.get(sourceName)
+  if (hit && hit.until > Date.now()) return hit.codes
+  const codes = (await mappingFor(sourceName)).mapping.codes
+  codesCache.set(sourceName, { codes, until: Date.now() + CODES_TTL_MS })
+  return codes
+}
+
 export async function saveMapping(sequelize: Sequelize, viewer: Viewer, sourceName: string, mapping: ColumnMapping): Promise<MappingView> {
+  codesCache.delete(sourceName)
   await sequelize.transaction(async (t) => {
     const row = await ImportMapping.findOne({ where: { sourceName }, transaction: t, lock: t.LOCK.UPDATE })
     if (row) {
@@ -28,5 +45,7 @@ export async function saveMapping(sequelize: Sequelize, viewer: Viewer, sourceNa
       await recordAudit(t, viewer, { action: 'create', entity: 'import_mapping', entityId: created.id, after: { sourceName, mapping } })
     }
   })
+  // Again after the commit: a message read between the first delete and the commit cached the old codes.
+  codesCache.delete(sourceName)
   return mappingFor(sourceName)
 }

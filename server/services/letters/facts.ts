@@ -1,4 +1,5 @@
 import { Administration, ClinicReview, IronProductRow, Prescription, Result, User } from '../../models/index'
+import { FINAL_WHERE } from '../../models/result'
 import { DIAGNOSIS_LABELS } from '../../../shared/clinic/diagnoses'
 import { VERDICT_LABELS } from '../../../shared/clinic/readiness'
 import { AppError } from '../../errors'
@@ -19,7 +20,8 @@ export interface LetterFacts {
 }
 
 async function latest(referralId: number, analyte: string): Promise<LatestResult | null> {
-  const r = await Result.findOne({ where: { referralId, analyte }, order: [['takenAt', 'DESC'], ['id', 'DESC']], raw: true })
+  // A letter states the laboratory's final values only: never a voided or preliminary one.
+  const r = await Result.findOne({ where: { referralId, analyte, ...FINAL_WHERE }, order: [['takenAt', 'DESC'], ['id', 'DESC']], raw: true })
   return r ? { value: r.valueCanonical, unit: r.unitCanonical, takenAt: r.takenAt } : null
 }
 

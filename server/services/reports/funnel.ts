@@ -2,6 +2,9 @@ import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, pct, select, whereFor, type ReportFilters } from './filters'
 
+// Voided and preliminary Hb values do not count in any figure: referral_milestones (migration
+// 0023) keeps the first and last final Hb only.
+
 // Each episode's milestones are one primary-key read of referral_milestones (migration 0023,
 // kept by triggers in the same transaction as every write); all steps counted in one pass.
 // "Re-checked" = an Hb taken after the first dose, i.e. the last Hb is later than that dose.

@@ -1,3 +1,8 @@
+import { finalSql } from '../../models/result'
+
+// Voided and preliminary Hb values do not count in any figure.
+const COUNTED = finalSql('h')
+
 /**
  * One row per operated episode in the period with every fact a quality measure needs. Each
  * lookup is an indexed probe per episode; the transfusion facts come from one grouped pass.
@@ -12,11 +17,11 @@ SELECT r.id, r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, p.code AS
   (p.expected_blood_loss_ml IS NOT NULL AND p.expected_blood_loss_ml >= :txaLossMl) AS moderateLoss,
   o.tranexamic_acid_given AS txaGiven, o.cell_salvage_used AS cellSalvageUsed, o.cell_salvage_returned_ml AS cellSalvageMl,
   o.transfusion_information_given AS infoOnRecord, o.transfusion_consent AS consent, o.post_operative_iron_given AS postOpIron,
-  (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb') AS firstHbAt,
-  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' ORDER BY h.taken_at, h.id LIMIT 1) AS firstHbGL,
-  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND h.taken_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY)
+  (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS firstHbAt,
+  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED} ORDER BY h.taken_at, h.id LIMIT 1) AS firstHbGL,
+  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED} AND h.taken_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY)
      ORDER BY h.taken_at DESC, h.id DESC LIMIT 1) AS surgeryDayHbGL,
-  EXISTS (SELECT 1 FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb'
+  EXISTS (SELECT 1 FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}
      AND h.taken_at >= DATE_SUB(o.surgery_date, INTERVAL 45 DAY) AND h.taken_at < DATE_SUB(o.surgery_date, INTERVAL 13 DAY)) AS screenedInWindow,
   (r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id = r.id)) AS ironDeficient,
   EXISTS (SELECT 1 FROM administrations a WHERE a.referral_id = r.id AND a.given_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY)) AS ironBefore,

@@ -2,6 +2,10 @@ import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, round1, select, whereFor, type ReportFilters } from './filters'
 
+// Voided and preliminary Hb values do not count in any figure: referral_milestones (migration
+// 0023) keeps the first and last final Hb only.
+
+
 const LEGS = [
   ['referralToScreening', 'Referral → first screening result', 'created_at', 'first_hb_at'],
   ['screeningToClinic', 'First screening result → clinic', 'first_hb_at', 'clinic_at'],
