@@ -1,6 +1,6 @@
 import {
-  allowableBloodLoss, bmi, bsaMosteller, classifyAnaemia, estimatedBloodVolume, hbAfterIsovolaemicLoss, isIronDeficient,
-  oxygenContent, oxygenDelivery, projectHb, redCellTransfusionNeed, HCT_FROM_HB_ASSUMPTION, WEIGHT_BASED_ML_PER_KG,
+  allowableBloodLoss, bsaMosteller, classifyAnaemia, hbAfterIsovolaemicLoss, isIronDeficient, patientBloodVolume,
+  oxygenContent, oxygenDelivery, projectHb, redCellTransfusionNeed, HCT_FROM_HB_ASSUMPTION,
   type HbMeasurement, type IronStatus, type Sex,
 } from '../clinical'
 import type { ClinicSettings } from './settings'
@@ -70,14 +70,14 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const cautions: string[] = [DECISION_SUPPORT_CAUTION]
   const methods: Record<string, string> = {}
 
-  const bvMethod = input.heightCm ? 'nadler' : 'weight'
-  const ebv = estimatedBloodVolume({ sex: input.sex, heightCm: input.heightCm ?? undefined, weightKg: input.weightKg, method: bvMethod })
-  methods.bloodVolume = bvMethod === 'nadler'
-    ? 'Nadler 1962 (Surgery 51:224), from height, weight and sex'
-    : `Weight-based ${WEIGHT_BASED_ML_PER_KG[input.sex]} mL/kg (height missing)`
-  if (bvMethod === 'weight') assumptions.push(`Height is not recorded, so blood volume is weight-based (${WEIGHT_BASED_ML_PER_KG[input.sex]} mL/kg) instead of Nadler.`)
-  if (input.heightCm && bmi({ heightCm: input.heightCm, weightKg: input.weightKg }) >= 35) {
-    cautions.push('BMI 35 or more: weight-based and Nadler estimates overstate blood volume in obesity, so the tolerable loss may be smaller than shown.')
+  // Nadler below BMI 30, Lemmens 2006 at or above it; without a height this throws
+  // BloodVolumeRefusal (the server answers 422 naming height) rather than use 70 mL/kg of actual
+  // weight, which overstates blood volume in obesity by up to half.
+  const bv = patientBloodVolume({ sex: input.sex, heightCm: input.heightCm, weightKg: input.weightKg })
+  const ebv = bv.ml
+  methods.bloodVolume = bv.methodName
+  if (bv.method === 'lemmens') {
+    cautions.push(`BMI ${Math.round(bv.bmi)}: blood volume is estimated for lean mass (Lemmens 2006), because fat holds little blood; the allowable loss is smaller than weight-based figures would suggest.`)
   }
 
   const triggerHbGL = input.cardiovascularDisease ? settings.cardiovascularTriggerGL : settings.transfusionTriggerGL
@@ -120,15 +120,14 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     gross: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'gross' }),
     logarithmic: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'logarithmic' }),
   }
-  methods.allowableBloodLoss = 'Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger'
+  methods.allowableBloodLoss = `Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger, with blood volume by ${bv.method === 'lemmens' ? 'Lemmens 2006' : 'Nadler 1962'}`
 
-  const bsa = input.heightCm ? bsaMosteller({ heightCm: input.heightCm, weightKg: input.weightKg }) : null
+  // A height is on record here: patientBloodVolume refuses the projection without one.
+  const bsa = bsaMosteller({ heightCm: input.heightCm!, weightKg: input.weightKg })
   let co = input.cardiacOutputLMin
   if (co == null) {
-    co = bsa ? settings.defaultCardiacIndexLMinM2 * bsa : 5
-    assumptions.push(bsa
-      ? `Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface area ${r2(bsa)} m² (Mosteller); edit it to recompute.`
-      : 'Cardiac output 5 L/min (resting adult, common practice; height missing for body surface area); edit it to recompute.')
+    co = settings.defaultCardiacIndexLMinM2 * bsa
+    assumptions.push(`Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface area ${r2(bsa)} m² (Mosteller); edit it to recompute.`)
   }
   const point = (hbGL: number): OxygenPoint => {
     const cao2 = oxygenContent({ hbGL, so2: input.saO2, po2MmHg: input.paO2MmHg })
