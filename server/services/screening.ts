@@ -1,6 +1,7 @@
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { classifyAnaemia, IRON_STATUS_CRITERIA, type AnaemiaCriteria, type Sex } from '../../shared/clinical'
-import { SCREENING_ANALYTES, latestFromRows, screeningOutcome, type LatestValues, type ScreeningColumns } from '../../shared/clinic/screening'
+import { SCREENING_ANALYTES, ironStudiesFromRows, latestFromRows, screeningOutcome, type LatestValues, type ScreeningColumns } from '../../shared/clinic/screening'
+import type { IronStudies } from '../../shared/clinic/ironStudies'
 import { STAGE_LABELS } from '../../shared/pathway'
 import { Referral, Result } from '../models/index'
 import { screenableSql, SCREENABLE_WHERE } from '../models/result'
@@ -8,14 +9,22 @@ import { isoOrNull } from './viewer'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {
-  const rows = await Result.findAll({
+  return latestFromRows(await screeningRows(referralId, t))
+}
+
+/** The latest ferritin, TSAT and CRP with their sample times, for the verdict's age rule. */
+export async function latestIronStudies(referralId: number, t?: Transaction): Promise<IronStudies> {
+  return ironStudiesFromRows(await screeningRows(referralId, t))
+}
+
+async function screeningRows(referralId: number, t?: Transaction) {
+  return Result.findAll({
     where: { referralId, analyte: { [Op.in]: [...SCREENING_ANALYTES] }, ...SCREENABLE_WHERE },
     order: [['takenAt', 'DESC'], ['id', 'DESC']],
     attributes: ['analyte', 'valueCanonical', 'takenAt'],
     transaction: t,
     raw: true,
   })
-  return latestFromRows(rows)
 }
 
 /** Re-derives the outcome and stores it on the referral row (the worklist reads it from there). */

@@ -1,5 +1,6 @@
 import type { IronStatus } from '../clinical'
 import { dateInZone, daysBetween } from '../pathway/dates'
+import { recentIronStatus, type IronStudies, type RecentIronStatus } from './ironStudies'
 import { FALLING_HB_MARGIN_GL, NON_RESPONSE, RECHECK_MIN_DAYS_AFTER_DOSE } from './rules'
 
 export interface MeasuredHb { takenAt: Date | string; hbGL: number }
@@ -19,16 +20,24 @@ export interface EvidenceInput {
   timeZone: string
   hb: MeasuredHb[]
   ironStatus: IronStatus | null
+  /**
+   * The iron studies with their sample times. When given, iron status is judged on the recent
+   * ones only (recentIronStatus), and `ironStatus` above is not used for the evidence.
+   */
+  ironStudies?: IronStudies
+  ironStudiesMaxAgeDays?: number
   treatment: TreatmentGiven | null
   resultMaxAgeDays: number
 }
 
-export type MissingEvidence = 'recent-hb' | 'iron-studies' | 'tsat-or-crp' | 'recheck-after-iron'
+export type MissingEvidence = 'recent-hb' | 'iron-studies' | 'recent-iron-studies' | 'tsat-or-crp' | 'recheck-after-iron'
 
 export interface Evidence {
   latest: { hbGL: number; date: string; ageDays: number } | null
   hbRecent: boolean
   ironKnown: boolean
+  /** Iron-study values left out as too old (empty when none, or when no dates were given). */
+  ironStudiesTooOld: RecentIronStatus['tooOld']
   /** Latest Hb before the first dose, and the latest taken long enough after the last dose. */
   baseline: { hbGL: number; date: string } | null
   recheck: { hbGL: number; date: string; daysAfterFirstDose: number } | null
@@ -51,7 +60,10 @@ export function gatherEvidence(e: EvidenceInput): Evidence {
   const last = days[days.length - 1]
   const latest = last ? { hbGL: last.hbGL, date: last.date, ageDays: daysBetween(last.date, e.today) } : null
   const hbRecent = latest !== null && latest.ageDays <= e.resultMaxAgeDays
-  const ironKnown = e.ironStatus !== null && e.ironStatus !== 'indeterminate'
+  const iron: Pick<RecentIronStatus, 'status' | 'need' | 'tooOld'> = e.ironStudies
+    ? recentIronStatus(e.ironStudies, e.today, e.timeZone, e.ironStudiesMaxAgeDays ?? e.resultMaxAgeDays)
+    : { status: e.ironStatus, tooOld: [], need: e.ironStatus === null ? 'iron-studies' : e.ironStatus === 'indeterminate' ? 'tsat-or-crp' : 'ok' }
+  const ironKnown = iron.need === 'ok'
 
   let baseline: Evidence['baseline'] = null
   let recheck: Evidence['recheck'] = null
@@ -81,8 +93,7 @@ export function gatherEvidence(e: EvidenceInput): Evidence {
 
   const missing: MissingEvidence[] = []
   if (!hbRecent) missing.push('recent-hb')
-  if (e.ironStatus === null) missing.push('iron-studies')
-  else if (e.ironStatus === 'indeterminate') missing.push('tsat-or-crp')
+  if (iron.need !== 'ok') missing.push(iron.need)
   if (e.treatment && !recheck) missing.push('recheck-after-iron')
-  return { latest, hbRecent, ironKnown, baseline, recheck, nonResponse, falling, missing }
+  return { latest, hbRecent, ironKnown, ironStudiesTooOld: iron.tooOld, baseline, recheck, nonResponse, falling, missing }
 }

@@ -7,6 +7,7 @@ import type { ClinicSettings } from './settings'
 import { TRIGGER_SOURCES } from './settings'
 import { readinessVerdict, type ReadinessVerdict } from './verdict'
 import { gatherEvidence, type Evidence, type TreatmentGiven } from './evidence'
+import type { IronStudies } from './ironStudies'
 import { decideBloodOrder, type BloodOrderDecision } from './bloodOrder'
 import { DECISION_SUPPORT_CAUTION } from './readiness'
 
@@ -25,6 +26,11 @@ export interface ProjectionInputs {
   priority: string
   cardiovascularDisease: boolean
   ironStatus: IronStatus | null
+  /**
+   * The latest ferritin, TSAT and CRP with their sample times. The server always sends them, so
+   * the verdict judges iron status on recent studies only; without them `ironStatus` is used.
+   */
+  ironStudies?: IronStudies
   /** Recorded on the episode: positive red-cell antibody screen (null: not recorded). */
   antibodiesPositive: boolean | null
   declinesTransfusion: boolean
@@ -37,7 +43,7 @@ export interface ProjectionInputs {
 export interface OxygenPoint { hbGL: number; cao2MlDl: number; do2MlMin: number }
 
 export interface Projection {
-  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL' | 'resultMaxAgeDays'> }
+  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL' | 'resultMaxAgeDays' | 'ironStudiesMaxAgeDays'> }
   methods: Record<string, string>
   bloodVolumeMl: number
   triggerHbGL: number
@@ -87,6 +93,7 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const evidence = gatherEvidence({
     today: input.today, timeZone: input.timeZone, hb: measured, ironStatus: input.ironStatus,
     treatment: input.treatment, resultMaxAgeDays: settings.resultMaxAgeDays,
+    ...(input.ironStudies ? { ironStudies: input.ironStudies, ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays } : {}),
   })
   const currentHbGL = evidence.latest?.hbGL ?? measured[measured.length - 1]!.hbGL
   const target = input.plannedSurgeryDate > input.today ? input.plannedSurgeryDate : input.today
@@ -152,6 +159,7 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const readiness = readinessVerdict({
     evidence,
     resultMaxAgeDays: settings.resultMaxAgeDays,
+    ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays,
     thresholdGL: rule.thresholdGL,
     projectedSurgeryHbGL: r1(surgeryHb),
     projectionAssumesRise: assumesRise,
@@ -167,7 +175,7 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   return {
     inputs: {
       ...input, cardiacOutputLMin: r2(co), triggerHbGL,
-      settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL, resultMaxAgeDays: settings.resultMaxAgeDays },
+      settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL, resultMaxAgeDays: settings.resultMaxAgeDays, ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays },
     },
     methods,
     bloodVolumeMl: r0(ebv),

@@ -17,6 +17,7 @@ export const READINESS_FLAG_LOOK: Record<ReadinessFlag, { icon: string; tone: To
   'red-cell-antibodies': { icon: 'pi pi-exclamation-circle', tone: 'danger' },
   'declines-transfusion': { icon: 'pi pi-ban', tone: 'warn' },
   'result-too-old': { icon: 'pi pi-history', tone: 'warn' },
+  'iron-studies-too-old': { icon: 'pi pi-history', tone: 'warn' },
 }
 
 /** Each stage shows its label with an icon and a tone, never the colour alone. */
