@@ -5,6 +5,7 @@ import { DEFAULT_CLINIC_SETTINGS } from '../../shared/clinic/settings'
 import { currentBody } from '../../server/services/patients'
 import { loadReferral } from '../../server/services/episode'
 import { projectionForReferral } from '../../server/services/projection'
+import { refreshIronResponse } from '../../server/services/ironResponse'
 import { STARTER_FORMULARY, starterFormularyRows } from '../formulary'
 
 const FCM = STARTER_FORMULARY.find((p) => p.code === 'ferric-carboxymaltose')!
@@ -43,6 +44,8 @@ export async function loadDemoTreatments(t: Transaction, doctorId: number, nurse
       }, { transaction: t })
     }
   }
+  // The worklist's response flags follow from these doses and the Hb results after them.
+  await refreshIronResponse(Referral.sequelize!, treated.map((r) => r.id), t)
 }
 
 /** One surgeon has looked at an anaemic patient close to surgery and asked for the date to move. */

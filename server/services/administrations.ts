@@ -11,6 +11,7 @@ import { loadReferral } from './episode'
 import { findProduct, toIronProduct } from './formulary'
 import { recordMove } from './transitions'
 import { currentBody } from './patients'
+import { refreshIronResponse } from './ironResponse'
 import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 
@@ -71,6 +72,7 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     }
     const recheckDueDate = addDays(givenAt.toISOString().slice(0, 10), settings.recheckDaysAfterLastDose)
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
+    await refreshIronResponse(sequelize, [referralId], t)
     const view = toAdministrationView(a)
     await recordAudit(t, viewer, { action: 'create', entity: 'administration', entityId: a.id, patientId: r.patientId, after: { ...view, recheckDueDate } })
     return { administration: view, recheckDueDate, stage: moves ? 'treating' : r.stage, version }

@@ -6,6 +6,7 @@ import { STAGE_LABELS } from '../../shared/pathway'
 import { Referral, Result } from '../models/index'
 import { screenableSql, SCREENABLE_WHERE } from '../models/result'
 import { isoOrNull } from './viewer'
+import { refreshIronResponse } from './ironResponse'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {
@@ -32,6 +33,7 @@ export async function refreshScreening(referral: Referral, sex: Sex, t: Transact
   const next = screeningOutcome(await latestValues(referral.id, t), sex, referral.anaemiaCriteria)
   // Derived data, not an edit: the referral's version (the optimistic lock on decisions) stays.
   await Referral.update(next, { where: { id: referral.id }, transaction: t })
+  await refreshIronResponse(Referral.sequelize!, [referral.id], t)
   return next
 }
 
@@ -75,6 +77,7 @@ export async function refreshScreeningMany(sequelize: Sequelize, referralIds: re
            r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?`,
       { type: QueryTypes.UPDATE, replacements: [...values, new Date()], transaction: t },
     )
+    await refreshIronResponse(sequelize, ids, t)
     updated += refs.length
   }
   return updated

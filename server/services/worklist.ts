@@ -36,6 +36,8 @@ const FLAG_SQL: Record<WorklistFlag, string> = {
   'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR DATE(DATE_ADD(r.latest_hb_at, INTERVAL :zoneOffsetMin MINUTE)) < r.recheck_due_date))`,
   'treatment-not-given': `(r.treatment_ordered_at IS NOT NULL AND r.treatment_given_at IS NULL AND r.stage IN ${PRE_OP})`,
   'date-change-requested': `(r.date_change_requested_at IS NOT NULL AND r.stage IN ${PRE_OP})`,
+  'no-response-to-iron': `(r.no_response_to_iron = 1 AND r.stage IN ${PRE_OP})`,
+  'hb-falling': `(r.hb_falling_after_iron = 1 AND r.stage IN ${PRE_OP})`,
 }
 
 const byDate = 'r.planned_surgery_date'
@@ -78,6 +80,8 @@ interface WorklistSqlRow {
   treatmentOrderedAt: Date | string | null
   treatmentGivenAt: Date | string | null
   dateChangeRequestedAt: Date | string | null
+  noResponseToIron: number | boolean
+  hbFallingAfterIron: number | boolean
   patientId: number
   mrn: string
   givenName: string
@@ -140,6 +144,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
          r.proposed_stage AS proposedStage, r.recheck_due_date AS recheckDueDate,
          r.treatment_ordered_at AS treatmentOrderedAt, r.treatment_given_at AS treatmentGivenAt,
          r.date_change_requested_at AS dateChangeRequestedAt,
+         r.no_response_to_iron AS noResponseToIron, r.hb_falling_after_iron AS hbFallingAfterIron,
          pa.id AS patientId, pa.mrn, pa.given_name AS givenName, pa.family_name AS familyName,
          pa.date_of_birth AS dateOfBirth, pa.sex,
          pr.code AS procedureCode, pr.name AS procedureName, u.id AS surgeonId, u.name AS surgeonName

@@ -2,7 +2,7 @@ import { PRE_OPERATIVE_STAGES, type Stage } from './stages'
 import { dateInZone, daysBetween } from './dates'
 
 /** Worklist flags: conditions the service wants to see before they become problems. */
-export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given', 'date-change-requested'] as const
+export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given', 'date-change-requested', 'no-response-to-iron', 'hb-falling'] as const
 export type WorklistFlag = (typeof WORKLIST_FLAGS)[number]
 
 export function isWorklistFlag(value: unknown): value is WorklistFlag {
@@ -15,6 +15,8 @@ export const FLAG_LABELS: Record<WorklistFlag, string> = {
   'recheck-overdue': 'Re-check overdue',
   'treatment-not-given': 'Treatment ordered, not given',
   'date-change-requested': 'Surgeon asks to move the date',
+  'no-response-to-iron': 'No response to IV iron',
+  'hb-falling': 'Hb falling after iron',
 }
 
 /**
@@ -36,6 +38,13 @@ export interface FlagInput {
   treatmentGivenAt: Date | string | null
   /** The operating surgeon asked for the date to move (readiness review). */
   dateChangeRequestedAt?: Date | string | null
+  /**
+   * Kept on the referral row from measured Hb and doses (ironResponse in shared/clinic/evidence.ts:
+   * a rise under 10 g/L by 4 weeks after IV iron; a fall of 5 g/L or more below the value before
+   * treatment), the same rules the readiness verdict gives as reasons.
+   */
+  noResponseToIron?: boolean | number | null
+  hbFallingAfterIron?: boolean | number | null
 }
 
 /**
@@ -62,5 +71,7 @@ export function referralFlags(r: FlagInput, todayIso: string, timeZone: string):
   }
   if (r.treatmentOrderedAt != null && r.treatmentGivenAt == null) flags.push('treatment-not-given')
   if (r.dateChangeRequestedAt != null) flags.push('date-change-requested')
+  if (r.noResponseToIron) flags.push('no-response-to-iron')
+  if (r.hbFallingAfterIron) flags.push('hb-falling')
   return flags
 }

@@ -41,6 +41,8 @@ const FLAG_ICONS: Partial<Record<WorklistFlag, string>> = {
   'recheck-overdue': 'pi pi-clock',
   'treatment-not-given': 'pi pi-hourglass',
   'date-change-requested': 'pi pi-calendar-clock',
+  'no-response-to-iron': 'pi pi-minus-circle',
+  'hb-falling': 'pi pi-arrow-down-right',
 }
 
 export function flagIcon(flag: WorklistFlag): string {
