@@ -1,6 +1,8 @@
 import type { Sequelize } from 'sequelize'
 import { Administration, Prescription, Referral, User } from '../models/index'
-import { addDays, ageOn, findMove, isReadOnly } from '../../shared/pathway'
+import { ageOn, dateInZone, findMove, isReadOnly } from '../../shared/pathway'
+import { recheckDueOn } from '../../shared/clinic/recheck'
+import { clinicTimeZone } from './clinicDay'
 import { ADULT_AGE_YEARS } from '../../shared/clinical'
 import { checkGivenDose } from '../../shared/clinic/doseCheck'
 import type { AdministrationInput } from '../../shared/schemas/clinic'
@@ -44,7 +46,7 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     const weight = body.weightKg ?? p.weightKg
     const earlier = await Administration.findAll({ where: { referralId }, attributes: ['doseMg', 'givenAt', 'prescriptionId'], transaction: t })
     const violations = checkGivenDose({
-      product, weightKg: weight, paediatric: ageOn(r.patient.dateOfBirth, givenAt.toISOString().slice(0, 10)) < ADULT_AGE_YEARS,
+      product, weightKg: weight, paediatric: ageOn(r.patient.dateOfBirth, dateInZone(givenAt, clinicTimeZone())) < ADULT_AGE_YEARS,
       doseMg: input.doseMg, givenAt, earlier: earlier.map((d) => ({ doseMg: d.doseMg, givenAt: d.givenAt })),
       givenOnPrescriptionMg: earlier.filter((d) => d.prescriptionId === p.id).reduce((sum, d) => sum + d.doseMg, 0),
       prescribedTotalMg: p.totalMg,
@@ -70,7 +72,7 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     if (moves) {
       version = await recordMove(t, viewer, r, 'treating', `Iron given: ${input.doseMg} mg ${product.name} (batch ${input.batchNumber})`)
     }
-    const recheckDueDate = addDays(givenAt.toISOString().slice(0, 10), settings.recheckDaysAfterLastDose)
+    const recheckDueDate = recheckDueOn(givenAt, clinicTimeZone(), settings.recheckDaysAfterLastDose)
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
     await refreshIronResponse(sequelize, [referralId], t)
     const view = toAdministrationView(a)

@@ -5,6 +5,7 @@ import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { loadStarterFormulary, makeEpisode } from '../helpers/clinicFactories'
 import { Referral } from '../../server/models/index'
 import { addDays, todayIso } from '../../shared/pathway'
+import { clinicTimeZone, setClinicTimeZone } from '../../server/services/clinicDay'
 
 // Non-response: a rise under 10 g/L by 4 weeks after IV iron (common practice, clinical
 // reference §11); falling: 5 g/L or more below the value before treatment (common practice).
@@ -89,5 +90,28 @@ describe('worklist flags from the measured response to iron', () => {
       prescriptionId: rx.body.prescription.id, doseMg: 1000, givenAt: daysAgo(33).toISOString(), batchNumber: 'B-7782', reaction: 'none',
     }).expect(201)
     expect((await worklist('no-response-to-iron')).rows.map((r) => r.id)).toEqual([ep.referral.id])
+  })
+})
+
+describe('one "today" for the re-check date', () => {
+  it('when the clinic is in Auckland and a dose is given at 10:00 there (22:00 UTC the day before), then the re-check is due 28 days after the Auckland day', async () => {
+    const zone = clinicTimeZone()
+    setClinicTimeZone('Pacific/Auckland')
+    try {
+      const ep = await makeEpisode({ surgeonId: surgeon.id, weightKg: 70, hb: [{ hbGL: 100, takenAt: daysAgo(3) }], referral: { plannedSurgeryDate: addDays(todayIso(), 40) } })
+      const version = (await Referral.findByPk(ep.referral.id))!.version
+      const rx = await doctor.post(`/api/referrals/${ep.referral.id}/prescriptions`, { productCode: 'ferric-carboxymaltose', firstDoseDate: todayIso(), cautions: noCautions, version })
+      expect(rx.status, JSON.stringify(rx.body)).toBe(201)
+      // Two days ago at 22:00 UTC is 10:00 or 11:00 the next morning in Auckland (UTC+12/+13).
+      const givenAt = new Date(`${addDays(new Date().toISOString().slice(0, 10), -2)}T22:00:00Z`)
+      const res = await doctor.post(`/api/referrals/${ep.referral.id}/administrations`, {
+        prescriptionId: rx.body.prescription.id, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-7783', reaction: 'none',
+      })
+      expect(res.status, JSON.stringify(res.body)).toBe(201)
+      const aucklandDay = addDays(givenAt.toISOString().slice(0, 10), 1)
+      expect(res.body.recheckDueDate).toBe(addDays(aucklandDay, 28)) // ferric carboxymaltose product information: Hb reassessed ≥ 4 weeks after the last dose
+    } finally {
+      setClinicTimeZone(zone)
+    }
   })
 })
