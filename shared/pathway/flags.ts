@@ -21,11 +21,13 @@ export const FLAG_LABELS: Record<WorklistFlag, string> = {
 
 /**
  * Screening should be done at least 28 days before surgery, so an anaemic patient inside that
- * window is the case the clinic must act on first. Origin: the NATA 2011 guideline (Goodnough
- * et al., Br J Anaesth 2011;106:13–22) asks for Hb at least 28 days before scheduled surgery —
- * from memory, not checked against the paper; it was once attributed here to Muñoz 2017, which
- * was not confirmed either (clinical reference §11).
+ * window is the case the clinic must act on first. Origin, checked with the search tool against
+ * the PubMed abstract (PMID 21148637): the NATA guidelines (Goodnough et al., Br J Anaesth
+ * 2011;106:13–22) recommend an Hb 28 days before scheduled elective orthopaedic surgery where
+ * possible (grade 1C). Ferrolane applies it to every operation (local policy). It is not from
+ * the Muñoz 2017 consensus, to which it was once attributed here.
  */
+export const SURGERY_SOON_BASIS = 'NATA guidelines (Goodnough et al., Br J Anaesth 2011;106:13–22): an Hb 28 days before elective orthopaedic surgery where possible; applied to every operation by local policy'
 export const SURGERY_SOON_DAYS = 28
 
 export interface FlagInput {
