@@ -20,7 +20,8 @@ export interface EpisodeSpec {
   patient?: Partial<PatientOverrides>
   /**
    * Iron studies stored as results. By default they match the referral's iron status (ferritin
-   * 15 µg/L for absolute deficiency; ferritin 150 µg/L with TSAT 25 % for replete), taken now,
+   * 15 µg/L for absolute deficiency; ferritin 150 µg/L with TSAT 25 % for replete; ferritin 50 µg/L
+   * alone for indeterminate), taken now,
    * so the verdict, which reads the dated results, agrees with the stored status. null: none.
    */
   iron?: { ferritinUgL: number; tsatPct?: number; crpMgL?: number; takenAt?: Date } | null
@@ -29,6 +30,7 @@ export interface EpisodeSpec {
 const IRON_FOR_STATUS: Record<string, EpisodeSpec['iron']> = {
   'absolute-deficiency': { ferritinUgL: 15 },
   replete: { ferritinUgL: 150, tsatPct: 25 },
+  indeterminate: { ferritinUgL: 50 },
 }
 
 /** A patient, an operation and a referral with Hb results, straight in the database. */
