@@ -1,7 +1,8 @@
 import type { Transaction } from 'sequelize'
 import { Appointment, AppointmentEvent, AppointmentTask, InfusionSession, OutboxMessage, Patient, Referral, User } from '../../server/models/index'
 import { zonedToUtc, type AppointmentKind, type AppointmentStatus } from '../../shared/appointments'
-import { addDays, todayIso } from '../../shared/pathway'
+import { addDays } from '../../shared/pathway'
+import { clinicToday } from '../../server/services/clinicDay'
 import { snapshotOf } from '../../server/services/appointmentView'
 import { subjectFor } from '../../server/mail/templates/content'
 import { DEMO_HOSPITAL } from './hospital'
@@ -14,7 +15,7 @@ const DAY_MS = 86_400_000
 function sessionDates(): string[] {
   const out: string[] = []
   for (let i = 1; i <= 28; i++) {
-    const d = addDays(todayIso(), i)
+    const d = addDays(clinicToday(), i)
     const weekday = new Date(`${d}T12:00:00Z`).getUTCDay()
     if (weekday === 2 || weekday === 4) out.push(d)
   }
@@ -24,11 +25,11 @@ function sessionDates(): string[] {
 interface DemoVisit { family: string; kind: AppointmentKind; date: string | 'session1' | 'session2'; time: string; minutes: number; place: string; status: AppointmentStatus; rebookNote?: string }
 
 const VISITS: DemoVisit[] = [
-  { family: 'Hawthornley', kind: 'anaemia-clinic', date: addDays(todayIso(), 3), time: '10:00', minutes: 30, place: 'Anaemia Clinic, Outpatients B (demo)', status: 'booked' },
-  { family: 'Brackenmoor', kind: 'anaemia-clinic', date: addDays(todayIso(), 5), time: '14:00', minutes: 30, place: 'Anaemia Clinic, Outpatients B (demo)', status: 'confirmed' },
+  { family: 'Hawthornley', kind: 'anaemia-clinic', date: addDays(clinicToday(), 3), time: '10:00', minutes: 30, place: 'Anaemia Clinic, Outpatients B (demo)', status: 'booked' },
+  { family: 'Brackenmoor', kind: 'anaemia-clinic', date: addDays(clinicToday(), 5), time: '14:00', minutes: 30, place: 'Anaemia Clinic, Outpatients B (demo)', status: 'confirmed' },
   { family: 'Wychwood', kind: 'iron-infusion', date: 'session1', time: '09:30', minutes: 60, place: UNIT, status: 'booked' },
   { family: 'Furzebank', kind: 'iron-infusion', date: 'session2', time: '10:30', minutes: 60, place: UNIT, status: 'rebook-requested', rebookNote: 'Could it be an afternoon? I work mornings that week.' },
-  { family: 'Rushmere', kind: 'recheck-bloods', date: addDays(todayIso(), 8), time: '08:45', minutes: 15, place: 'Phlebotomy, Level 0 (demo)', status: 'booked' },
+  { family: 'Rushmere', kind: 'recheck-bloods', date: addDays(clinicToday(), 8), time: '08:45', minutes: 15, place: 'Phlebotomy, Level 0 (demo)', status: 'booked' },
 ]
 
 /**

@@ -5,6 +5,9 @@ import { DEFAULT_CLINIC_SETTINGS } from '../../shared/clinic/settings'
 import { currentBody } from '../../server/services/patients'
 import { loadReferral } from '../../server/services/episode'
 import { projectionForReferral } from '../../server/services/projection'
+import { refreshIronResponse } from '../../server/services/ironResponse'
+import { clinicTimeZone } from '../../server/services/clinicDay'
+import { dateInZone } from '../../shared/pathway'
 import { STARTER_FORMULARY, starterFormularyRows } from '../formulary'
 
 const FCM = STARTER_FORMULARY.find((p) => p.code === 'ferric-carboxymaltose')!
@@ -32,7 +35,7 @@ export async function loadDemoTreatments(t: Transaction, doctorId: number, nurse
     const orderedAt = r.treatmentOrderedAt!
     const p = await Prescription.create({
       referralId: r.id, productCode: 'ferric-carboxymaltose', route: 'iv', weightKg: body.weightKg, hbGL: firstHb.valueCanonical,
-      targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL, deficitMg: deficit, totalMg: dose, firstDoseDate: orderedAt.toISOString().slice(0, 10),
+      targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL, deficitMg: deficit, totalMg: dose, firstDoseDate: dateInZone(orderedAt, clinicTimeZone()),
       plan: { doses: [{ number: 1, doseMg: dose, dayOffset: 0, cappedBy: [] }], warnings: [], oralSchedule: null },
       cautions: NO_CAUTIONS, overrideReason: null, status: r.treatmentGivenAt ? 'completed' : 'active', prescribedBy: doctorId, prescribedAt: orderedAt,
     }, { transaction: t })
@@ -43,6 +46,8 @@ export async function loadDemoTreatments(t: Transaction, doctorId: number, nurse
       }, { transaction: t })
     }
   }
+  // The worklist's response flags follow from these doses and the Hb results after them.
+  await refreshIronResponse(Referral.sequelize!, treated.map((r) => r.id), t)
 }
 
 /** One surgeon has looked at an anaemic patient close to surgery and asked for the date to move. */

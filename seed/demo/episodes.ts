@@ -2,7 +2,8 @@ import type { Transaction } from 'sequelize'
 import { Patient, PatientMeasurement, Procedure, Referral, Result, StageTransition, User } from '../../server/models/index'
 import { screeningOutcome } from '../../shared/clinic/screening'
 import { egfrCkdEpi2021 } from '../../shared/clinical'
-import { DEFAULT_ANAEMIA_CRITERIA, addDays, findMove, todayIso, type Stage } from '../../shared/pathway'
+import { DEFAULT_ANAEMIA_CRITERIA, addDays, findMove, type Stage } from '../../shared/pathway'
+import { clinicToday } from '../../server/services/clinicDay'
 import { DEMO_EPISODES, type DemoEpisode } from './patients'
 import { DEMO_PROCEDURES } from './procedures'
 
@@ -33,7 +34,8 @@ export async function loadDemoEpisodes(t: Transaction): Promise<void> {
   const procId = new Map(procedures.map((p) => [p.code, p.id]))
   const users = await userIds(t)
   const now = Date.now()
-  const today = todayIso()
+  // The clinic's calendar day, so surgery and re-check dates match the flags' "today".
+  const today = clinicToday()
   for (const [i, e] of DEMO_EPISODES.entries()) {
     const referredAt = now - e.referredDaysAgo * DAY
     const at = (day: number) => new Date(Math.min(referredAt + day * DAY, now - (DEMO_EPISODES.length - i) * 60_000))

@@ -3,6 +3,8 @@ import { Outcome, Patient, Procedure, Referral, StageTransition, SurgeryDateChan
 import { transfusionThreshold } from '../../shared/transfusion/rules'
 import { addDays } from '../../shared/pathway'
 import type { Complication } from '../../shared/schemas/outcomes'
+import { clinicTimeZone } from '../../server/services/clinicDay'
+import { dateInZone } from '../../shared/pathway/dates'
 
 /**
  * Invented post-operative records for the demo episodes that have had surgery (by family name).
@@ -46,7 +48,7 @@ export async function loadDemoOutcomes(t: Transaction): Promise<void> {
     const referral = patient && (await Referral.findOne({ where: { patientId: patient.id }, transaction: t }))
     const operated = referral && (await StageTransition.findOne({ where: { referralId: referral.id, toStage: 'operated' }, transaction: t }))
     if (!referral || !operated) throw new Error(`Demo data: ${family} has no operated episode`)
-    const surgeryDate = operated.at.toISOString().slice(0, 10)
+    const surgeryDate = dateInZone(operated.at, clinicTimeZone())
     const f = o.followUp
     await Outcome.create({
       referralId: referral.id, surgeryDate, bloodLossMl: o.lossMl, unitsTransfusedIntraOp: o.intra, unitsTransfusedPostOp: o.post,

@@ -54,15 +54,16 @@ export const DEMO_EPISODES: DemoEpisode[] = [
   { given: 'Nils', family: 'Brackenmoor', sex: 'male', age: 64, kg: 101, cm: 185, op: 'RTHR', surgeon: 'calder', referredDaysAgo: 15, surgeryInDays: 45, hb: [[3, 122]], iron: ID, path: ['screened', 'clinic'] },
   { given: 'Opal', family: 'Sedgewater', sex: 'female', age: 73, kg: 58, cm: 152, op: 'THR', surgeon: 'mensah', referredDaysAgo: 14, surgeryInDays: 52, hb: [[2, 126]], iron: INFLAMED, path: ['screened', 'clinic'] },
   { given: 'Piers', family: 'Furzebank', sex: 'male', age: 57, kg: 86, cm: 177, op: 'SPFM', surgeon: 'whitlow', referredDaysAgo: 13, surgeryInDays: 26, hb: [[3, 119]], iron: ID, path: ['screened', 'clinic'] },
-  // Iron therapy under way: one not yet given, one re-check overdue.
+  // Iron therapy under way: one not yet given, one re-check overdue, one whose Hb fell after iron
+  // (Mallowcroft) and one with no response to IV iron by 4 weeks (Foxglover).
   { given: 'Quinn', family: 'Rushmere', sex: 'female', age: 66, kg: 70, cm: 164, op: 'TKR', surgeon: 'calder', referredDaysAgo: 30, surgeryInDays: 25, hb: [[3, 109]], iron: ID, path: ['screened', 'clinic', 'treating'], recheckInDays: 8 },
   { given: 'Rowan', family: 'Wychwood', sex: 'male', age: 70, kg: 77, cm: 174, op: 'RCYS', surgeon: 'mensah', referredDaysAgo: 24, surgeryInDays: 20, priority: 'cancer', hb: [[2, 104]], iron: ID, path: ['screened', 'clinic', 'treating'], notGiven: true },
   { given: 'Saffron', family: 'Eldergrove', sex: 'female', age: 54, kg: 64, cm: 169, op: 'TAH', surgeon: 'whitlow', referredDaysAgo: 45, surgeryInDays: 17, hb: [[3, 101]], iron: ID, path: ['screened', 'clinic', 'treating'], recheckInDays: -4 },
-  { given: 'Tobias', family: 'Mallowcroft', sex: 'male', age: 75, kg: 84, cm: 171, op: 'CABG', surgeon: 'calder', referredDaysAgo: 28, surgeryInDays: 34, hb: [[3, 116]], iron: INFLAMED, path: ['screened', 'clinic', 'treating'], recheckInDays: 5 },
+  { given: 'Tobias', family: 'Mallowcroft', sex: 'male', age: 75, kg: 84, cm: 171, op: 'CABG', surgeon: 'calder', referredDaysAgo: 28, surgeryInDays: 34, hb: [[3, 116], [26, 109]], iron: INFLAMED, path: ['screened', 'clinic', 'treating'], recheckInDays: 5 },
   { given: 'Ursula', family: 'Tansyford', sex: 'female', age: 62, kg: 93, cm: 167, op: 'LIVR', surgeon: 'mensah', referredDaysAgo: 26, surgeryInDays: 29, priority: 'cancer', hb: [[2, 111]], iron: ID, path: ['screened', 'clinic', 'treating'], recheckInDays: 2 },
   // Awaiting re-check bloods, some already back.
   { given: 'Victor', family: 'Hollowell', sex: 'male', age: 68, kg: 80, cm: 176, op: 'THR', surgeon: 'whitlow', referredDaysAgo: 42, surgeryInDays: 12, hb: [[3, 112], [38, 127]], iron: ID, path: ['screened', 'clinic', 'treating', 'recheck'], recheckInDays: -5 },
-  { given: 'Wren', family: 'Foxglover', sex: 'female', age: 59, kg: 61, cm: 159, op: 'TKR', surgeon: 'calder', referredDaysAgo: 40, surgeryInDays: 18, hb: [[2, 106]], iron: ID, path: ['screened', 'clinic', 'treating', 'recheck'], recheckInDays: 1 },
+  { given: 'Wren', family: 'Foxglover', sex: 'female', age: 59, kg: 61, cm: 159, op: 'TKR', surgeon: 'calder', referredDaysAgo: 40, surgeryInDays: 18, hb: [[2, 106], [38, 109]], iron: ID, path: ['screened', 'clinic', 'treating', 'recheck'], recheckInDays: 1 },
   { given: 'Xavier', family: 'Burdock', sex: 'male', age: 81, kg: 69, cm: 168, op: 'OCOL', surgeon: 'mensah', referredDaysAgo: 39, surgeryInDays: 10, priority: 'cancer', hb: [[3, 103], [35, 118]], iron: ID, path: ['screened', 'clinic', 'treating', 'recheck'], recheckInDays: -6 },
   { given: 'Yara', family: 'Meadowsweet', sex: 'female', age: 67, kg: 75, cm: 163, op: 'SPFM', surgeon: 'whitlow', referredDaysAgo: 44, surgeryInDays: 23, hb: [[2, 115], [40, 133]], iron: ID, path: ['screened', 'clinic', 'treating', 'recheck'], recheckInDays: -5 },
   // Fit for theatre: straight from screening, or after treatment.

@@ -13,6 +13,7 @@ import * as m0012 from './0012-transfusions'
 import * as m0013 from './0013-hl7'
 import * as m0014 from './0014-security'
 import * as m0015 from './0015-directory-sign-in'
+import * as m0016 from './0016-iron-response-flags'
 import * as m0017 from './0017-dosing-table-choice'
 import * as m0018 from './0018-operation-cancellations'
 import * as m0019 from './0019-result-range-flags'
@@ -40,6 +41,7 @@ export const migrations: Migration[] = [
   { name: '0013-hl7', ...m0013 },
   { name: '0014-security', ...m0014 },
   { name: '0015-directory-sign-in', ...m0015 },
+  { name: '0016-iron-response-flags', ...m0016 },
   { name: '0017-dosing-table-choice', ...m0017 },
   { name: '0018-operation-cancellations', ...m0018 },
   { name: '0019-result-range-flags', ...m0019 },

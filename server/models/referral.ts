@@ -35,6 +35,9 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   /** Positive red-cell antibody screen; null until recorded. */
   declare redCellAntibodies: CreationOptional<boolean | null>
   declare declinesTransfusion: CreationOptional<boolean>
+  /** Worklist flags from measured Hb after iron (services/ironResponse.ts keeps them). */
+  declare noResponseToIron: CreationOptional<boolean>
+  declare hbFallingAfterIron: CreationOptional<boolean>
   /** The decision to operate (listing for surgery); screening lead time is measured from it too. */
   declare listingDate: CreationOptional<string | null>
   /** The theatre system's placer appointment id (HL7 SIU SCH-1/SCH-2) of the booked operation. */
@@ -72,6 +75,8 @@ export function initReferral(sequelize: Sequelize): void {
       dateChangeRequestedAt: { type: DataTypes.DATE, allowNull: true },
       redCellAntibodies: { type: DataTypes.BOOLEAN, allowNull: true },
       declinesTransfusion: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      noResponseToIron: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      hbFallingAfterIron: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       listingDate: { type: DataTypes.DATEONLY, allowNull: true },
       placerAppointmentId: { type: DataTypes.STRING(80), allowNull: true },
       surgeryDateHistory: { type: DataTypes.JSON, allowNull: true },

@@ -16,6 +16,7 @@ export function clinicSettingsRoutes({ sequelize }: AppContext): ApiRouter {
       anaemiaCriteria: b.anaemiaCriteria, transfusionTriggerGL: b.transfusionTriggerGL, cardiovascularTriggerGL: b.cardiovascularTriggerGL,
       ironTargetHbGL: b.ironTargetHbGL, recheckDaysAfterLastDose: b.recheckDaysAfterLastDose, defaultSaO2: b.defaultSaO2,
       defaultPaO2MmHg: b.defaultPaO2MmHg, defaultCardiacIndexLMinM2: b.defaultCardiacIndexLMinM2, weightMaxAgeDays: b.weightMaxAgeDays,
+      resultMaxAgeDays: b.resultMaxAgeDays, ironStudiesMaxAgeDays: b.ironStudiesMaxAgeDays,
     }))
   })
   return api

@@ -1,6 +1,8 @@
 import type { Sequelize } from 'sequelize'
 import { Administration, Prescription, Referral, User } from '../models/index'
-import { addDays, ageOn, findMove, isReadOnly } from '../../shared/pathway'
+import { ageOn, dateInZone, findMove, isReadOnly } from '../../shared/pathway'
+import { recheckDueOn } from '../../shared/clinic/recheck'
+import { clinicTimeZone } from './clinicDay'
 import { ADULT_AGE_YEARS } from '../../shared/clinical'
 import { checkGivenDose } from '../../shared/clinic/doseCheck'
 import type { AdministrationInput } from '../../shared/schemas/clinic'
@@ -11,6 +13,7 @@ import { loadReferral } from './episode'
 import { findProduct, toIronProduct } from './formulary'
 import { recordMove } from './transitions'
 import { currentBody } from './patients'
+import { refreshIronResponse } from './ironResponse'
 import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
@@ -44,7 +47,7 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     const weight = body.weightKg ?? p.weightKg
     const earlier = await Administration.findAll({ where: { referralId }, attributes: ['doseMg', 'givenAt', 'prescriptionId'], transaction: t })
     const violations = checkGivenDose({
-      product, weightKg: weight, paediatric: ageOn(r.patient.dateOfBirth, givenAt.toISOString().slice(0, 10)) < ADULT_AGE_YEARS,
+      product, weightKg: weight, paediatric: ageOn(r.patient.dateOfBirth, dateInZone(givenAt, clinicTimeZone())) < ADULT_AGE_YEARS,
       doseMg: input.doseMg, givenAt, earlier: earlier.map((d) => ({ doseMg: d.doseMg, givenAt: d.givenAt })),
       givenOnPrescriptionMg: earlier.filter((d) => d.prescriptionId === p.id).reduce((sum, d) => sum + d.doseMg, 0),
       prescribedTotalMg: p.totalMg,
@@ -70,9 +73,10 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
     if (moves) {
       version = await recordMove(t, viewer, r, 'treating', `Iron given: ${input.doseMg} mg ${product.name} (batch ${input.batchNumber})`)
     }
-    const recheckDueDate = addDays(givenAt.toISOString().slice(0, 10), settings.recheckDaysAfterLastDose)
+    const recheckDueDate = recheckDueOn(givenAt, clinicTimeZone(), settings.recheckDaysAfterLastDose)
     worklistChanged('referral', t)
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
+    await refreshIronResponse(sequelize, [referralId], t)
     const view = toAdministrationView(a)
     await recordAudit(t, viewer, { action: 'create', entity: 'administration', entityId: a.id, patientId: r.patientId, after: { ...view, recheckDueDate } })
     return { administration: view, recheckDueDate, stage: moves ? 'treating' : r.stage, version }

@@ -3,6 +3,7 @@ import { BloodVolumeRefusal, ClinicalInputError } from '../../shared/clinical'
 import { buildProjection, type Projection } from '../../shared/clinic/projection'
 import type { IronStatus } from '../../shared/clinical'
 import { getClinicSettings } from './clinicSettings'
+import { latestIronStudies } from './screening'
 import { recordAudit } from './audit'
 import { clinicalFacts, loadReferral, type LoadedReferral } from './episode'
 import { Prescription } from '../models/index'
@@ -17,7 +18,7 @@ export interface ProjectionOptions { cardiacOutputLMin?: number }
  * invent: a missing weight, Hb or usual blood loss is a 422 that names it.
  */
 export async function projectionForReferral(r: LoadedReferral, opts: ProjectionOptions = {}): Promise<Projection> {
-  const [facts, settings] = await Promise.all([clinicalFacts(r), getClinicSettings()])
+  const [facts, settings, ironStudies] = await Promise.all([clinicalFacts(r), getClinicSettings(), latestIronStudies(r.id)])
   const missing: Record<string, string> = {}
   if (facts.body.weightKg == null) missing.weightKg = "the patient's weight is not recorded"
   if (facts.body.heightCm == null) missing.height = new BloodVolumeRefusal().message
@@ -54,6 +55,7 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
       priority: r.priority,
       cardiovascularDisease: Boolean(r.cardiovascularDisease),
       ironStatus: (r.ironStatus as IronStatus | null) ?? null,
+      ironStudies,
       antibodiesPositive: r.redCellAntibodies ?? null,
       declinesTransfusion: Boolean(r.declinesTransfusion),
       saO2: settings.defaultSaO2,

@@ -1,22 +1,32 @@
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { classifyAnaemia, IRON_STATUS_CRITERIA, type AnaemiaCriteria, type Sex } from '../../shared/clinical'
-import { SCREENING_ANALYTES, latestFromRows, screeningOutcome, type LatestValues, type ScreeningColumns } from '../../shared/clinic/screening'
+import { SCREENING_ANALYTES, ironStudiesFromRows, latestFromRows, screeningOutcome, type LatestValues, type ScreeningColumns } from '../../shared/clinic/screening'
+import type { IronStudies } from '../../shared/clinic/ironStudies'
 import { STAGE_LABELS } from '../../shared/pathway'
 import { Referral, Result } from '../models/index'
 import { screenableSql, SCREENABLE_WHERE } from '../models/result'
 import { isoOrNull } from './viewer'
 import { worklistChanged } from './worklistCounts'
+import { refreshIronResponse } from './ironResponse'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {
-  const rows = await Result.findAll({
+  return latestFromRows(await screeningRows(referralId, t))
+}
+
+/** The latest ferritin, TSAT and CRP with their sample times, for the verdict's age rule. */
+export async function latestIronStudies(referralId: number, t?: Transaction): Promise<IronStudies> {
+  return ironStudiesFromRows(await screeningRows(referralId, t))
+}
+
+async function screeningRows(referralId: number, t?: Transaction) {
+  return Result.findAll({
     where: { referralId, analyte: { [Op.in]: [...SCREENING_ANALYTES] }, ...SCREENABLE_WHERE },
     order: [['takenAt', 'DESC'], ['id', 'DESC']],
     attributes: ['analyte', 'valueCanonical', 'takenAt'],
     transaction: t,
     raw: true,
   })
-  return latestFromRows(rows)
 }
 
 /** Re-derives the outcome and stores it on the referral row (the worklist reads it from there). */
@@ -25,6 +35,7 @@ export async function refreshScreening(referral: Referral, sex: Sex, t: Transact
   // Derived data, not an edit: the referral's version (the optimistic lock on decisions) stays.
   worklistChanged('referral', t)
   await Referral.update(next, { where: { id: referral.id }, transaction: t })
+  await refreshIronResponse(Referral.sequelize!, [referral.id], t)
   return next
 }
 
@@ -69,6 +80,7 @@ export async function refreshScreeningMany(sequelize: Sequelize, referralIds: re
            r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?`,
       { type: QueryTypes.UPDATE, replacements: [...values, new Date()], transaction: t },
     )
+    await refreshIronResponse(sequelize, ids, t)
     updated += refs.length
   }
   return updated

@@ -45,6 +45,8 @@ interface WorklistSqlRow {
   treatmentOrderedAt: Date | string | null
   treatmentGivenAt: Date | string | null
   dateChangeRequestedAt: Date | string | null
+  noResponseToIron: number | boolean
+  hbFallingAfterIron: number | boolean
   patientId: number
   mrn: string
   givenName: string
@@ -80,6 +82,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
          r.proposed_stage AS proposedStage, r.recheck_due_date AS recheckDueDate,
          r.treatment_ordered_at AS treatmentOrderedAt, r.treatment_given_at AS treatmentGivenAt,
          r.date_change_requested_at AS dateChangeRequestedAt,
+         r.no_response_to_iron AS noResponseToIron, r.hb_falling_after_iron AS hbFallingAfterIron,
          pa.id AS patientId, pa.mrn, pa.given_name AS givenName, pa.family_name AS familyName,
          pa.date_of_birth AS dateOfBirth, pa.sex,
          pr.code AS procedureCode, pr.name AS procedureName, u.id AS surgeonId, u.name AS surgeonName

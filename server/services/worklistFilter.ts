@@ -25,6 +25,8 @@ const FLAG_SQL: Record<WorklistFlag, string> = {
   'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR DATE(DATE_ADD(r.latest_hb_at, INTERVAL :zoneOffsetMin MINUTE)) < r.recheck_due_date))`,
   'treatment-not-given': `(r.treatment_ordered_at IS NOT NULL AND r.treatment_given_at IS NULL AND r.stage IN ${PRE_OP})`,
   'date-change-requested': `(r.date_change_requested_at IS NOT NULL AND r.stage IN ${PRE_OP})`,
+  'no-response-to-iron': `(r.no_response_to_iron = 1 AND r.stage IN ${PRE_OP})`,
+  'hb-falling': `(r.hb_falling_after_iron = 1 AND r.stage IN ${PRE_OP})`,
 }
 
 const likePrefix = (s: string) => `${s.replace(/[\\%_]/g, (c) => `\\${c}`)}%`

@@ -1,12 +1,13 @@
 import {
-  allowableBloodLoss, bmi, bsaMosteller, classifyAnaemia, estimatedBloodVolume, hbAfterIsovolaemicLoss, isIronDeficient,
-  oxygenContent, oxygenDelivery, projectHb, redCellTransfusionNeed, HCT_FROM_HB_ASSUMPTION, WEIGHT_BASED_ML_PER_KG,
+  allowableBloodLoss, bsaMosteller, classifyAnaemia, hbAfterIsovolaemicLoss, isIronDeficient, patientBloodVolume,
+  oxygenContent, oxygenDelivery, projectHb, redCellTransfusionNeed, HCT_FROM_HB_ASSUMPTION,
   type HbMeasurement, type IronStatus, type Sex,
 } from '../clinical'
 import type { ClinicSettings } from './settings'
 import { TRIGGER_SOURCES } from './settings'
 import { readinessVerdict, type ReadinessVerdict } from './verdict'
 import { gatherEvidence, type Evidence, type TreatmentGiven } from './evidence'
+import type { IronStudies } from './ironStudies'
 import { decideBloodOrder, type BloodOrderDecision } from './bloodOrder'
 import { DECISION_SUPPORT_CAUTION } from './readiness'
 
@@ -25,6 +26,11 @@ export interface ProjectionInputs {
   priority: string
   cardiovascularDisease: boolean
   ironStatus: IronStatus | null
+  /**
+   * The latest ferritin, TSAT and CRP with their sample times. The server always sends them, so
+   * the verdict judges iron status on recent studies only; without them `ironStatus` is used.
+   */
+  ironStudies?: IronStudies
   /** Recorded on the episode: positive red-cell antibody screen (null: not recorded). */
   antibodiesPositive: boolean | null
   declinesTransfusion: boolean
@@ -37,7 +43,7 @@ export interface ProjectionInputs {
 export interface OxygenPoint { hbGL: number; cao2MlDl: number; do2MlMin: number }
 
 export interface Projection {
-  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL' | 'resultMaxAgeDays'> }
+  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL' | 'resultMaxAgeDays' | 'ironStudiesMaxAgeDays'> }
   methods: Record<string, string>
   bloodVolumeMl: number
   triggerHbGL: number
@@ -70,14 +76,14 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const cautions: string[] = [DECISION_SUPPORT_CAUTION]
   const methods: Record<string, string> = {}
 
-  const bvMethod = input.heightCm ? 'nadler' : 'weight'
-  const ebv = estimatedBloodVolume({ sex: input.sex, heightCm: input.heightCm ?? undefined, weightKg: input.weightKg, method: bvMethod })
-  methods.bloodVolume = bvMethod === 'nadler'
-    ? 'Nadler 1962 (Surgery 51:224), from height, weight and sex'
-    : `Weight-based ${WEIGHT_BASED_ML_PER_KG[input.sex]} mL/kg (height missing)`
-  if (bvMethod === 'weight') assumptions.push(`Height is not recorded, so blood volume is weight-based (${WEIGHT_BASED_ML_PER_KG[input.sex]} mL/kg) instead of Nadler.`)
-  if (input.heightCm && bmi({ heightCm: input.heightCm, weightKg: input.weightKg }) >= 35) {
-    cautions.push('BMI 35 or more: weight-based and Nadler estimates overstate blood volume in obesity, so the tolerable loss may be smaller than shown.')
+  // Nadler below BMI 30, Lemmens 2006 at or above it; without a height this throws
+  // BloodVolumeRefusal (the server answers 422 naming height) rather than use 70 mL/kg of actual
+  // weight, which overstates blood volume in obesity by up to half.
+  const bv = patientBloodVolume({ sex: input.sex, heightCm: input.heightCm, weightKg: input.weightKg })
+  const ebv = bv.ml
+  methods.bloodVolume = bv.methodName
+  if (bv.method === 'lemmens') {
+    cautions.push(`BMI ${Math.round(bv.bmi)}: blood volume is estimated for lean mass (Lemmens 2006), because fat holds little blood; the allowable loss is smaller than weight-based figures would suggest.`)
   }
 
   const triggerHbGL = input.cardiovascularDisease ? settings.cardiovascularTriggerGL : settings.transfusionTriggerGL
@@ -87,6 +93,7 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const evidence = gatherEvidence({
     today: input.today, timeZone: input.timeZone, hb: measured, ironStatus: input.ironStatus,
     treatment: input.treatment, resultMaxAgeDays: settings.resultMaxAgeDays,
+    ...(input.ironStudies ? { ironStudies: input.ironStudies, ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays } : {}),
   })
   const currentHbGL = evidence.latest?.hbGL ?? measured[measured.length - 1]!.hbGL
   const target = input.plannedSurgeryDate > input.today ? input.plannedSurgeryDate : input.today
@@ -120,15 +127,14 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     gross: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'gross' }),
     logarithmic: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'logarithmic' }),
   }
-  methods.allowableBloodLoss = 'Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger'
+  methods.allowableBloodLoss = `Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger, with blood volume by ${bv.method === 'lemmens' ? 'Lemmens 2006' : 'Nadler 1962'}`
 
-  const bsa = input.heightCm ? bsaMosteller({ heightCm: input.heightCm, weightKg: input.weightKg }) : null
+  // A height is on record here: patientBloodVolume refuses the projection without one.
+  const bsa = bsaMosteller({ heightCm: input.heightCm!, weightKg: input.weightKg })
   let co = input.cardiacOutputLMin
   if (co == null) {
-    co = bsa ? settings.defaultCardiacIndexLMinM2 * bsa : 5
-    assumptions.push(bsa
-      ? `Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface area ${r2(bsa)} m² (Mosteller); edit it to recompute.`
-      : 'Cardiac output 5 L/min (resting adult, common practice; height missing for body surface area); edit it to recompute.')
+    co = settings.defaultCardiacIndexLMinM2 * bsa
+    assumptions.push(`Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface area ${r2(bsa)} m² (Mosteller); edit it to recompute.`)
   }
   const point = (hbGL: number): OxygenPoint => {
     const cao2 = oxygenContent({ hbGL, so2: input.saO2, po2MmHg: input.paO2MmHg })
@@ -153,6 +159,7 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const readiness = readinessVerdict({
     evidence,
     resultMaxAgeDays: settings.resultMaxAgeDays,
+    ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays,
     thresholdGL: rule.thresholdGL,
     projectedSurgeryHbGL: r1(surgeryHb),
     projectionAssumesRise: assumesRise,
@@ -168,7 +175,7 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   return {
     inputs: {
       ...input, cardiacOutputLMin: r2(co), triggerHbGL,
-      settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL, resultMaxAgeDays: settings.resultMaxAgeDays },
+      settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL, resultMaxAgeDays: settings.resultMaxAgeDays, ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays },
     },
     methods,
     bloodVolumeMl: r0(ebv),

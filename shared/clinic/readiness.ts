@@ -17,7 +17,7 @@ export const VERDICT_LABELS: Record<Verdict, string> = {
 export type BloodOrderKind = 'group-and-screen' | 'crossmatch'
 
 /** Concerns the verdict raises beside its reasons; each is also shown as a tag. */
-export const READINESS_FLAGS = ['no-response-to-iron', 'hb-falling', 'red-cell-antibodies', 'declines-transfusion', 'result-too-old'] as const
+export const READINESS_FLAGS = ['no-response-to-iron', 'hb-falling', 'red-cell-antibodies', 'declines-transfusion', 'result-too-old', 'iron-studies-too-old'] as const
 export type ReadinessFlag = (typeof READINESS_FLAGS)[number]
 
 export const READINESS_FLAG_LABELS: Record<ReadinessFlag, string> = {
@@ -26,6 +26,7 @@ export const READINESS_FLAG_LABELS: Record<ReadinessFlag, string> = {
   'red-cell-antibodies': 'Red-cell antibodies',
   'declines-transfusion': 'Declines transfusion',
   'result-too-old': 'Latest Hb too old',
+  'iron-studies-too-old': 'Iron studies too old',
 }
 
 export const DECISION_SUPPORT_CAUTION =

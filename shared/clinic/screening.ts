@@ -3,6 +3,7 @@ import {
   type AnaemiaCriteria, type AnaemiaSeverity, type IronStatus, type Sex,
 } from '../clinical'
 import type { Stage } from '../pathway/stages'
+import type { IronStudies } from './ironStudies'
 
 /**
  * The screening outcome as a rule on data, one copy for the server's result entry, the
@@ -56,6 +57,15 @@ export function latestFromRows(rows: readonly { analyte: string; valueCanonical:
   for (const r of rows) {
     if (r.analyte === 'hb') out.hb ??= { value: r.valueCanonical, takenAt: r.takenAt }
     else if (r.analyte === 'ferritin' || r.analyte === 'tsat' || r.analyte === 'crp') out[r.analyte] ??= r.valueCanonical
+  }
+  return out
+}
+
+/** Latest ferritin, TSAT and CRP with their sample times, from rows ordered newest first. */
+export function ironStudiesFromRows(rows: readonly { analyte: string; valueCanonical: number; takenAt: Date }[]): IronStudies {
+  const out: IronStudies = {}
+  for (const r of rows) {
+    if (r.analyte === 'ferritin' || r.analyte === 'tsat' || r.analyte === 'crp') out[r.analyte] ??= { value: r.valueCanonical, takenAt: r.takenAt }
   }
   return out
 }

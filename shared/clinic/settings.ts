@@ -25,6 +25,11 @@ export interface ClinicSettings {
    * than 3 months, secondary source only).
    */
   resultMaxAgeDays: number
+  /**
+   * Ferritin, TSAT or CRP older than this no longer settles the iron status for the verdict
+   * (default 90 days, local policy, on the same basis as resultMaxAgeDays).
+   */
+  ironStudiesMaxAgeDays: number
 }
 
 export const DEFAULT_CLINIC_SETTINGS: ClinicSettings = {
@@ -38,6 +43,7 @@ export const DEFAULT_CLINIC_SETTINGS: ClinicSettings = {
   defaultCardiacIndexLMinM2: 3.0,
   weightMaxAgeDays: 90,
   resultMaxAgeDays: 90,
+  ironStudiesMaxAgeDays: 90,
 }
 
 export const TRIGGER_SOURCES = {

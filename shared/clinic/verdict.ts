@@ -8,6 +8,7 @@ export { DEFERRAL_HB_GL } from './rules'
 export interface VerdictInput {
   evidence: Evidence
   resultMaxAgeDays: number
+  ironStudiesMaxAgeDays: number
   /** The anaemia threshold for this patient (criteria and sex). */
   thresholdGL: number
   /** The projection, which may include an assumed rise after iron. */
@@ -47,6 +48,10 @@ function missingText(v: VerdictInput): string[] {
           : 'Needs a recent Hb: none is recorded.'
       case 'iron-studies':
         return 'Needs iron studies: ferritin with TSAT or CRP.'
+      case 'recent-iron-studies': {
+        const old = e.ironStudiesTooOld.map((o) => `${o.analyte === 'ferritin' ? 'ferritin' : o.analyte.toUpperCase()} of ${o.date} (${o.ageDays} days old)`).join(', ')
+        return `Needs recent iron studies: ${old || 'the iron studies on record are too old'}; iron studies count for ${v.ironStudiesMaxAgeDays} days (local policy), so the iron status is unresolved.`
+      }
       case 'tsat-or-crp':
         return 'Needs TSAT or CRP: ferritin alone leaves the iron status unresolved (a functional deficiency is not excluded).'
       case 'recheck-after-iron':
@@ -100,6 +105,7 @@ export function readinessVerdict(v: VerdictInput): ReadinessVerdict {
     reasons.push('Positive red-cell antibody screen: crossmatch is required and the laboratory needs extra time.')
   }
   if (e.latest && !e.hbRecent) flags.push('result-too-old')
+  if (e.missing.includes('recent-iron-studies')) flags.push('iron-studies-too-old')
   if (v.ironDeficientUntreated) reasons.push('Iron deficiency found at screening and no iron treatment is recorded.')
   if (e.nonResponse) {
     flags.push('no-response-to-iron')

@@ -2,7 +2,7 @@ import { PRE_OPERATIVE_STAGES, type Stage } from './stages'
 import { dateInZone, daysBetween } from './dates'
 
 /** Worklist flags: conditions the service wants to see before they become problems. */
-export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given', 'date-change-requested'] as const
+export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given', 'date-change-requested', 'no-response-to-iron', 'hb-falling'] as const
 export type WorklistFlag = (typeof WORKLIST_FLAGS)[number]
 
 export function isWorklistFlag(value: unknown): value is WorklistFlag {
@@ -15,15 +15,19 @@ export const FLAG_LABELS: Record<WorklistFlag, string> = {
   'recheck-overdue': 'Re-check overdue',
   'treatment-not-given': 'Treatment ordered, not given',
   'date-change-requested': 'Surgeon asks to move the date',
+  'no-response-to-iron': 'No response to IV iron',
+  'hb-falling': 'Hb falling after iron',
 }
 
 /**
  * Screening should be done at least 28 days before surgery, so an anaemic patient inside that
- * window is the case the clinic must act on first. Origin: the NATA 2011 guideline (Goodnough
- * et al., Br J Anaesth 2011;106:13–22) asks for Hb at least 28 days before scheduled surgery —
- * from memory, not checked against the paper; it was once attributed here to Muñoz 2017, which
- * was not confirmed either (clinical reference §11).
+ * window is the case the clinic must act on first. Origin, checked with the search tool against
+ * the PubMed abstract (PMID 21148637): the NATA guidelines (Goodnough et al., Br J Anaesth
+ * 2011;106:13–22) recommend an Hb 28 days before scheduled elective orthopaedic surgery where
+ * possible (grade 1C). Ferrolane applies it to every operation (local policy). It is not from
+ * the Muñoz 2017 consensus, to which it was once attributed here.
  */
+export const SURGERY_SOON_BASIS = 'NATA guidelines (Goodnough et al., Br J Anaesth 2011;106:13–22): an Hb 28 days before elective orthopaedic surgery where possible; applied to every operation by local policy'
 export const SURGERY_SOON_DAYS = 28
 
 export interface FlagInput {
@@ -36,6 +40,13 @@ export interface FlagInput {
   treatmentGivenAt: Date | string | null
   /** The operating surgeon asked for the date to move (readiness review). */
   dateChangeRequestedAt?: Date | string | null
+  /**
+   * Kept on the referral row from measured Hb and doses (ironResponse in shared/clinic/evidence.ts:
+   * a rise under 10 g/L by 4 weeks after IV iron; a fall of 5 g/L or more below the value before
+   * treatment), the same rules the readiness verdict gives as reasons.
+   */
+  noResponseToIron?: boolean | number | null
+  hbFallingAfterIron?: boolean | number | null
 }
 
 /**
@@ -62,5 +73,7 @@ export function referralFlags(r: FlagInput, todayIso: string, timeZone: string):
   }
   if (r.treatmentOrderedAt != null && r.treatmentGivenAt == null) flags.push('treatment-not-given')
   if (r.dateChangeRequestedAt != null) flags.push('date-change-requested')
+  if (r.noResponseToIron) flags.push('no-response-to-iron')
+  if (r.hbFallingAfterIron) flags.push('hb-falling')
   return flags
 }

@@ -4,7 +4,7 @@ export { STAGES, STAGE_LABELS, PRE_OPERATIVE_STAGES, READ_ONLY_STAGES, isStage, 
 export type { Stage } from './stages'
 export { TRANSITIONS, allowedMoves, canMove, findMove, isReadOnly } from './transitions'
 export type { Move, MoveRequirement, AllowedMove } from './transitions'
-export { WORKLIST_FLAGS, FLAG_LABELS, SURGERY_SOON_DAYS, isWorklistFlag, referralFlags } from './flags'
+export { WORKLIST_FLAGS, FLAG_LABELS, SURGERY_SOON_DAYS, SURGERY_SOON_BASIS, isWorklistFlag, referralFlags } from './flags'
 export type { WorklistFlag, FlagInput } from './flags'
 export { ANALYTES, ANALYTE_DEFS, DERIVED_UNITS, FOLATE_UG_L_PER_NMOL_L, isAnalyte, normaliseUnit, unitsFor, unitRule, implausibleValue, toCanonical } from './analytes'
 export type { Analyte, StoredAnalyte } from './analytes'

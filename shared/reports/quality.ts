@@ -71,7 +71,8 @@ export const MEASURES: Record<QualityMeasureId, MeasureDefinition> = {
     title: 'Screened at least 28 days before surgery',
     numerator: 'Of the denominator, episodes whose first Hb was taken 28 or more days before the surgery date',
     denominator: OPERATED,
-    source: 'Local policy: the clinic screens early enough to treat with iron before surgery',
+    // Checked with the search tool against the PubMed abstract of Goodnough et al. 2011 (PMID 21148637).
+    source: 'NATA guidelines (Goodnough et al., Br J Anaesth 2011;106:13–22): an Hb 28 days before scheduled elective orthopaedic surgery where possible (grade 1C); applied to every operation here by local policy',
   },
   'screened-in-window-14-45': {
     title: 'Anaemia screening 14–45 days before surgery',

@@ -13,6 +13,7 @@ export const clinicSettingsSchema = yup
     defaultCardiacIndexLMinM2: yup.number().typeError('Cardiac index must be in L/min/m²').min(1.5).max(6),
     weightMaxAgeDays: yup.number().typeError('Weight age must be a number of days').integer().min(7).max(365),
     resultMaxAgeDays: yup.number().typeError('Result age must be a whole number of days').integer('Result age must be a whole number of days').min(7, 'Result age must be at least 7 days').max(365, 'Result age must be at most 365 days'),
+    ironStudiesMaxAgeDays: yup.number().typeError('Iron studies age must be a whole number of days').integer('Iron studies age must be a whole number of days').min(7, 'Iron studies age must be at least 7 days').max(365, 'Iron studies age must be at most 365 days'),
   })
   .noUnknown(true, 'Unknown setting: ${unknown}')
   // Unknown keys are stripped before noUnknown sees them: an empty edit must not count as a change.

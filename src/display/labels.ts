@@ -17,6 +17,7 @@ export const READINESS_FLAG_LOOK: Record<ReadinessFlag, { icon: string; tone: To
   'red-cell-antibodies': { icon: 'pi pi-exclamation-circle', tone: 'danger' },
   'declines-transfusion': { icon: 'pi pi-ban', tone: 'warn' },
   'result-too-old': { icon: 'pi pi-history', tone: 'warn' },
+  'iron-studies-too-old': { icon: 'pi pi-history', tone: 'warn' },
 }
 
 /** Each stage shows its label with an icon and a tone, never the colour alone. */
@@ -40,6 +41,8 @@ const FLAG_ICONS: Partial<Record<WorklistFlag, string>> = {
   'recheck-overdue': 'pi pi-clock',
   'treatment-not-given': 'pi pi-hourglass',
   'date-change-requested': 'pi pi-calendar-clock',
+  'no-response-to-iron': 'pi pi-minus-circle',
+  'hb-falling': 'pi pi-arrow-down-right',
 }
 
 export function flagIcon(flag: WorklistFlag): string {

@@ -31,6 +31,42 @@ beforeEach(async () => {
 const inDays = (d: number) => addDays(todayIso(), d)
 
 describe('GET /api/referrals/:id/projection', () => {
+  it('when the iron studies on record are 150 days old, then the verdict is "results needed", naming recent iron studies, and a nurse sees the same', async () => {
+    const { referral } = await makeEpisode({
+      surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 140 }], expectedBloodLossMl: 500,
+      referral: { anaemic: false, ironStatus: 'replete', plannedSurgeryDate: inDays(30) },
+      iron: { ferritinUgL: 150, tsatPct: 25, takenAt: new Date(Date.now() - 150 * 86_400_000) },
+    })
+    for (const who of [asSurgeon, asNurse]) {
+      const res = await who.get(`/api/referrals/${referral.id}/projection`)
+      expect(res.status, JSON.stringify(res.body)).toBe(200)
+      expect(res.body.readiness.verdict).toBe('results-needed')
+      expect(res.body.readiness.missing.join(' ')).toMatch(/^Needs recent iron studies: ferritin of \d{4}-\d{2}-\d{2} \(1(49|50|51) days old\), TSAT/)
+      expect(res.body.readiness.flags).toContain('iron-studies-too-old')
+    }
+    // The admin's setting widens the window, and the same studies count again.
+    const a = await makeStaff('admin')
+    const asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
+    expect((await asAdmin.patch('/api/settings/clinic').send({ ironStudiesMaxAgeDays: 200 })).status).toBe(200)
+    expect((await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body.readiness.verdict).toBe('ready')
+  })
+
+  it('when the admin sets Hb results to count for 30 days, then the setting is kept and a 45-day-old Hb no longer clears the patient', async () => {
+    const { referral } = await makeEpisode({
+      surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 140, takenAt: new Date(Date.now() - 45 * 86_400_000) }], expectedBloodLossMl: 500,
+      referral: { anaemic: false, ironStatus: 'replete', plannedSurgeryDate: inDays(30) },
+    })
+    expect((await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body.readiness.verdict).toBe('ready')
+    const a = await makeStaff('admin')
+    const asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
+    const saved = await asAdmin.patch('/api/settings/clinic').send({ resultMaxAgeDays: 30 })
+    expect(saved.status).toBe(200)
+    expect(saved.body.resultMaxAgeDays).toBe(30)
+    const res = await asSurgeon.get(`/api/referrals/${referral.id}/projection`)
+    expect(res.body.readiness.verdict).toBe('results-needed')
+    expect(res.body.readiness.missing[0]).toMatch(/^Needs a recent Hb/)
+  })
+
   it('when a man of 175 cm and 70 kg with Hb 130 g/L has a 1474 mL operation, then the figures match the published formulas', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 130 }], expectedBloodLossMl: 1474,

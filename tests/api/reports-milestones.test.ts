@@ -77,7 +77,7 @@ describe('referral milestones kept by triggers', () => {
     expect((await expectSameAsFromScratch()).find((r) => r.referralId === ids[0])?.firstHbAt).toBe(ms(600))
   })
 
-  it('when a result is voided or moved to another episode, then both episodes match', async () => {
+  it('when a result is voided, made preliminary or moved to another episode, then the first Hb skips it and both episodes match', async () => {
     await exec("UPDATE results SET voided_at = NOW(), void_reason = 'test' WHERE referral_id = ? ORDER BY taken_at LIMIT 1", [ids[0]])
     // A voided value no longer counts: the first Hb is the next one (600 h ago voided, 300 h left).
     expect((await expectSameAsFromScratch()).find((r) => r.referralId === ids[0])?.firstHbAt).toBe(ms(300))

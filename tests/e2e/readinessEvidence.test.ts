@@ -16,6 +16,8 @@ let doctor: StaffFixture
 let surgeon: StaffFixture
 let oldHbId = 0
 let oldHbName = ''
+let oldIronId = 0
+let noResponseName = ''
 let doctorPage: Page
 let surgeonPage: Page
 const DAY = 86_400_000
@@ -37,6 +39,19 @@ beforeAll(async () => {
     surgeonId: surgeon.id, sex: 'female', weightKg: 64, heightCm: 165, expectedBloodLossMl: 500, hb: [{ hbGL: 136 }],
     referral: { plannedSurgeryDate: addDays(todayIso(), 25), stage: 'screened', anaemic: false, ironStatus: 'indeterminate' },
   })
+  // Recent Hb 141 g/L, but the only iron studies are 150 days old.
+  const oldIron = await makeEpisode({
+    surgeonId: surgeon.id, sex: 'female', weightKg: 62, heightCm: 163, expectedBloodLossMl: 500, hb: [{ hbGL: 141 }],
+    referral: { plannedSurgeryDate: addDays(todayIso(), 30), stage: 'screened', anaemic: false, ironStatus: 'replete' },
+    iron: { ferritinUgL: 150, tsatPct: 25, takenAt: new Date(Date.now() - 150 * DAY) },
+  })
+  oldIronId = oldIron.referral.id
+  // The response flag as the server keeps it (the rule itself is covered by tests/api/pathway-iron-response.test.ts).
+  const noResponse = await makeEpisode({
+    surgeonId: surgeon.id, sex: 'male', weightKg: 75, heightCm: 175, hb: [{ hbGL: 104 }],
+    referral: { plannedSurgeryDate: addDays(todayIso(), 18), stage: 'recheck', anaemic: true, ironStatus: 'absolute-deficiency', noResponseToIron: true },
+  })
+  noResponseName = noResponse.patient.familyName
   browser = await launchBrowser()
   doctorPage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1360, height: 900 } })).newPage()
   surgeonPage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1360, height: 900 } })).newPage()
@@ -69,6 +84,26 @@ describe('a doctor reads why the patient is not yet ready and records the antibo
   })
 
   it('then the episode page with the evidence and blood plan facts passes axe', async () => {
+    expect(await seriousViolations(doctorPage)).toEqual([])
+  })
+})
+
+describe('a doctor reads that old iron studies do not count, and finds the non-responders', () => {
+  it('when the only iron studies are 150 days old, then the panel asks for recent iron studies and shows the concern', async () => {
+    await doctorPage.goto(`${served.baseUrl}/referrals/${oldIronId}?tab=readiness`)
+    await expect.poll(() => text(doctorPage, 'readiness-verdict')).toContain('Results needed')
+    expect(await text(doctorPage, 'readiness-needs')).toMatch(/Needs recent iron studies: ferritin of \d{4}-\d{2}-\d{2} \(1(49|50|51) days old\), TSAT .*iron studies count for 90 days \(local policy\)/)
+    expect(await text(doctorPage, 'readiness-concerns')).toContain('Iron studies too old')
+    await doctorPage.screenshot({ path: '/tmp/readiness-doctor-old-iron.png', fullPage: true })
+    expect(await seriousViolations(doctorPage)).toEqual([])
+  })
+
+  it('when the doctor filters the worklist by "No response to IV iron", then that patient is listed with the flag', async () => {
+    await doctorPage.goto(`${served.baseUrl}/worklist?flag=no-response-to-iron`)
+    const row = doctorPage.locator('tr', { hasText: noResponseName })
+    await expect.poll(async () => (await row.textContent()) ?? '').toContain('No response to IV iron')
+    expect(await doctorPage.locator('tbody tr').count()).toBe(1)
+    await doctorPage.screenshot({ path: '/tmp/worklist-no-response.png', fullPage: true })
     expect(await seriousViolations(doctorPage)).toEqual([])
   })
 })

@@ -51,6 +51,8 @@ export interface ReferralOverrides {
   recheckDueDate: string | null
   treatmentOrderedAt: Date | null
   treatmentGivenAt: Date | null
+  noResponseToIron: boolean
+  hbFallingAfterIron: boolean
 }
 
 /**
@@ -74,6 +76,8 @@ export async function makeReferral(ids: { patientId: number; procedureId: number
     recheckDueDate: o.recheckDueDate ?? null,
     treatmentOrderedAt: o.treatmentOrderedAt ?? null,
     treatmentGivenAt: o.treatmentGivenAt ?? null,
+    noResponseToIron: o.noResponseToIron ?? false,
+    hbFallingAfterIron: o.hbFallingAfterIron ?? false,
     createdBy: null,
   })
   await StageTransition.create({ referralId: r.id, fromStage: null, toStage: 'referred', reason: null, userId: null })

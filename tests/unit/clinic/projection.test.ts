@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { buildProjection, type ProjectionInputs } from '../../../shared/clinic/projection'
+import { BloodVolumeRefusal } from '../../../shared/clinical'
 import { DEFAULT_CLINIC_SETTINGS } from '../../../shared/clinic/settings'
 
 const TODAY = '2027-03-01'
@@ -79,26 +80,25 @@ describe('surgery-day projection, worked patients', () => {
     expect(p.assumptions.join(' ')).toMatch(/1000 mg of iron given against a calculated deficit of 1220 mg \(82 %\)/)
   })
 
-  it('when an untreated anaemic man without a height (80 kg, Hb 95, heart disease) has a routine CABG, then deferral is suggested and the 80 g/L trigger is used', () => {
+  it('when an untreated anaemic man (175 cm, 80 kg, Hb 95, heart disease) has a routine CABG, then deferral is suggested and the 80 g/L trigger is used', () => {
     const p = buildProjection({
       ...base,
       plannedSurgeryDate: '2027-04-12',
-      sex: 'male', heightCm: null, weightKg: 80,
+      sex: 'male', heightCm: 175, weightKg: 80,
       cardiovascularDisease: true,
       ironStatus: 'absolute-deficiency',
       hbMeasurements: [{ takenAt: '2027-02-20', hbGL: 95 }],
       procedure: { code: 'CABG', name: 'Coronary artery bypass graft', expectedBloodLossMl: 750, usualBloodOrder: 'crossmatch', usualUnits: 2, transfusionRate: null },
     } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
-    expect(p.bloodVolumeMl).toBe(5600) // weight-based 70 mL/kg (Morgan & Mikhail, reference §3)
-    expect(p.assumptions.join(' ')).toMatch(/Height is not recorded/)
+    expect(p.bloodVolumeMl).toBe(5146) // Nadler: 0.3669·1.75³ + 0.03219·80 + 0.6041 = 5.146 L (reference §3)
     expect(p.triggerHbGL).toBe(80) // AABB 2023 (Carson, JAMA): 8 g/dL with cardiovascular disease
-    expect(p.allowableBloodLossMl.logarithmic).toBe(962) // 5600·ln(95/80) = 962.4
-    expect(p.allowableBloodLossMl.gross).toBe(960) // 5600·15/87.5
-    // No height → cardiac output 5 L/min stated; CaO2 1.34·9.5·0.97 + 0.285 = 12.633; DO2 = 631.7
-    expect(p.oxygen.today.do2MlMin).toBe(632)
+    expect(p.allowableBloodLossMl.logarithmic).toBe(884) // 5146·ln(95/80) = 884.3
+    expect(p.allowableBloodLossMl.gross).toBe(882) // 5146·15/87.5 = 882.1
+    // Cardiac output 3.0 × Mosteller √(175·80/3600) = 5.916 L/min; CaO2 1.34·9.5·0.97 + 0.285 = 12.633; DO2 = 747.4
+    expect(p.oxygen.today.do2MlMin).toBe(747)
     expect(p.readiness.verdict).toBe('consider-deferral')
     expect(p.readiness.reasons.join(' ')).toMatch(/Iron deficiency found at screening/)
-    // 0 units by red-cell volume (tolerated 5600·(0.285 − 0.24) = 252 mL > expected), but the catalogue orders 2 for CABG.
+    // 0 units by red-cell volume (tolerated 5146·(0.285 − 0.24) = 232 mL > expected 199 mL), but the catalogue orders 2 for CABG.
     expect(p.bloodOrder).toMatchObject({ kind: 'crossmatch', units: 2, rule: 'catalogue-order' })
   })
 
@@ -126,5 +126,31 @@ describe('surgery-day projection, worked patients', () => {
     expect(high.allowableBloodLossMl.logarithmic).toBeGreaterThan(low.allowableBloodLossMl.logarithmic)
     expect(high.oxygen.surgeryDay.cao2MlDl).toBeGreaterThan(low.oxygen.surgeryDay.cao2MlDl)
     expect(high.cautions[0]).toMatch(/Decision support/)
+  })
+
+  const knee = { code: 'TKA', name: 'Total knee replacement', expectedBloodLossMl: 1474, usualBloodOrder: 'group-and-screen', usualUnits: 0, transfusionRate: null }
+
+  it('when a 150 kg man of 178 cm (BMI 47) is projected, then blood volume is about 7.16 L by Lemmens 2006, named on the figure, not 10.5 L by 70 mL/kg', () => {
+    const p = buildProjection({
+      ...base, plannedSurgeryDate: '2027-03-29', sex: 'male', heightCm: 178, weightKg: 150,
+      hbMeasurements: [{ takenAt: '2027-02-27', hbGL: 140 }], procedure: knee,
+    } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)
+    // Lemmens, Bernstein & Brodsky, Obes Surg 2006;16:773: 70/√(BMI/22) mL/kg; 150 kg, 178 cm → about 7.16 L
+    // (clinical reference §11, computed by hand from the formula, which is quoted from memory there).
+    expect(p.bloodVolumeMl).toBeGreaterThan(7100)
+    expect(p.bloodVolumeMl).toBeLessThan(7200)
+    expect(p.methods.bloodVolume).toMatch(/^Lemmens 2006/)
+    expect(p.methods.allowableBloodLoss).toMatch(/Lemmens 2006/)
+    expect(p.cautions.join(' ')).toMatch(/lean mass/)
+    // 7158·ln(140/70) = 4961 mL; by 70 mL/kg of actual weight it would have been 10500·ln 2 = 7278 mL.
+    expect(p.allowableBloodLossMl.logarithmic).toBeGreaterThan(4900)
+    expect(p.allowableBloodLossMl.logarithmic).toBeLessThan(5000)
+  })
+
+  it('when no height is recorded, then the projection is refused naming height instead of using actual weight', () => {
+    expect(() => buildProjection({
+      ...base, plannedSurgeryDate: '2027-03-29', sex: 'male', heightCm: null, weightKg: 150,
+      hbMeasurements: [{ takenAt: '2027-02-27', hbGL: 140 }], procedure: knee,
+    } satisfies ProjectionInputs, DEFAULT_CLINIC_SETTINGS)).toThrow(BloodVolumeRefusal)
   })
 })

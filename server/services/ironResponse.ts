@@ -1,0 +1,63 @@
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
+import { ironResponse, type MeasuredHb, type TreatmentGiven } from '../../shared/clinic/evidence'
+import { screenableSql } from '../models/result'
+import { worklistChanged } from './worklistCounts'
+import { clinicTimeZone } from './clinicDay'
+
+interface DoseRow { referralId: number; givenAt: Date | string; doseMg: number; route: 'iv' | 'oral' | null }
+interface HbRow { referralId: number; takenAt: Date | string; hbGL: number }
+
+/** The course given so far on one episode, as the verdict's evidence reads it. */
+function treatmentOf(doses: DoseRow[]): TreatmentGiven | null {
+  if (!doses.length) return null
+  return {
+    kind: doses[0]!.route ?? 'iv', firstDoseAt: doses[0]!.givenAt, lastDoseAt: doses[doses.length - 1]!.givenAt,
+    totalMg: doses.reduce((s, d) => s + d.doseMg, 0), deficitMg: null,
+  }
+}
+
+/**
+ * Keeps the two response flags on the referral row (no response to IV iron; Hb falling after
+ * iron), so the worklist can filter and count them with an index like every other flag. They
+ * follow from measured Hb and doses only (ironResponse in shared/clinic/evidence.ts, the same
+ * rule the verdict uses), so they change only when a result or a dose is written: every such
+ * write calls this in its own transaction.
+ */
+export async function refreshIronResponse(sequelize: Sequelize, referralIds: readonly number[], t: Transaction, chunk = 500): Promise<void> {
+  for (let i = 0; i < referralIds.length; i += chunk) {
+    const ids = referralIds.slice(i, i + chunk)
+    const doses = await sequelize.query<DoseRow>(
+      `SELECT a.referral_id AS referralId, a.given_at AS givenAt, a.dose_mg AS doseMg, p.route
+       FROM administrations a JOIN prescriptions p ON p.id = a.prescription_id
+       WHERE a.referral_id IN (:ids) ORDER BY a.referral_id, a.given_at, a.id`,
+      { type: QueryTypes.SELECT, replacements: { ids }, transaction: t },
+    )
+    const treated = [...new Set(doses.map((d) => d.referralId))]
+    const hb = treated.length
+      ? await sequelize.query<HbRow>(
+        `SELECT referral_id AS referralId, taken_at AS takenAt, value_canonical AS hbGL FROM results
+         WHERE referral_id IN (:treated) AND analyte = 'hb' AND ${screenableSql()} ORDER BY referral_id, taken_at, id`,
+        { type: QueryTypes.SELECT, replacements: { treated }, transaction: t },
+      )
+      : []
+    const groups = { none: [] as number[], noResponse: [] as number[], falling: [] as number[], both: [] as number[] }
+    for (const id of ids) {
+      const r = ironResponse(
+        hb.filter((h) => h.referralId === id).map((h): MeasuredHb => ({ takenAt: h.takenAt, hbGL: Number(h.hbGL) })),
+        treatmentOf(doses.filter((d) => d.referralId === id)),
+        clinicTimeZone(),
+      )
+      groups[r.nonResponse && r.falling ? 'both' : r.nonResponse ? 'noResponse' : r.falling ? 'falling' : 'none'].push(id)
+    }
+    const set: Record<keyof typeof groups, [number, number]> = { none: [0, 0], noResponse: [1, 0], falling: [0, 1], both: [1, 1] }
+    for (const [key, list] of Object.entries(groups) as [keyof typeof groups, number[]][]) {
+      if (!list.length) continue
+      // Derived data, not an edit: the version (the optimistic lock on decisions) stays.
+      worklistChanged('referral', t)
+      await sequelize.query(
+        'UPDATE referrals SET no_response_to_iron = :nr, hb_falling_after_iron = :fa WHERE id IN (:list)',
+        { type: QueryTypes.UPDATE, replacements: { nr: set[key][0], fa: set[key][1], list }, transaction: t },
+      )
+    }
+  }
+}
