@@ -7,6 +7,7 @@ import { recordAudit, changedFields, type Actor } from './audit'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Conflict, Forbidden, Invalid, NotFound } from '../errors'
 import { clinicToday } from './clinicDay'
+import { unitOfWork } from '../unitOfWork'
 
 export interface PatientView {
   id: number
@@ -82,7 +83,7 @@ async function appendMeasurement(t: Transaction, actor: Actor, patientId: number
 export async function createPatient(sequelize: Sequelize, actor: Actor, input: CreatePatientInput): Promise<PatientView> {
   try {
     assertMeasuredAfterBirth(input.measuredAt, input.dateOfBirth)
-    return await sequelize.transaction(async (t) => {
+    return await unitOfWork(sequelize, { idempotent: true }, async (t) => {
       const p = await Patient.create(
         {
           mrn: input.mrn,
@@ -141,7 +142,7 @@ export async function getPatient(viewer: Viewer, id: number) {
 
 export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: number, input: UpdatePatientInput): Promise<PatientView> {
   try {
-    return await sequelize.transaction(async (t) => {
+    return await unitOfWork(sequelize, { idempotent: true }, async (t) => {
       const p = await Patient.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
       if (!p) throw new NotFound('Patient')
       if (p.version !== input.version) throw staleVersion('This patient')
