@@ -38,10 +38,16 @@ function wsrepArgs(spec: NodeSpec, bootstrap: boolean): string[] {
     `--wsrep-cluster-address=gcomm://${bootstrap ? '' : peers}`,
     `--wsrep-node-name=${nodeLabel(spec.index)}`,
     '--wsrep-node-address=127.0.0.1',
-    `--wsrep-provider-options=gmcast.listen_addr=tcp://127.0.0.1:${me.group};ist.recv_addr=127.0.0.1:${me.ist};gcache.size=128M;evs.suspect_timeout=PT3S;evs.inactive_timeout=PT6S;evs.install_timeout=PT6S`,
+    `--wsrep-provider-options=gmcast.listen_addr=tcp://127.0.0.1:${me.group};ist.recv_addr=127.0.0.1:${me.ist};gcache.size=64M;evs.suspect_timeout=PT3S;evs.inactive_timeout=PT6S;evs.install_timeout=PT6S`,
     '--wsrep-sst-method=rsync',
+    // A node that rejoins takes its copy from the last standby (rsync blocks the donor's writes
+    // while it copies), falling back to any node (the trailing comma).
+    `--wsrep-sst-donor=${spec.ports.nodes.map((_, i) => i).filter((i) => i !== spec.index).reverse().map(nodeLabel).join(',')},`,
     `--wsrep-sst-receive-address=127.0.0.1:${me.sst}`,
     '--wsrep-slave-threads=2',
+    // One writer at a time (HAProxy), so ids stay consecutive as on a single server rather than
+    // interleaved per node (Galera's default); the demo loader relies on consecutive ids.
+    '--wsrep-auto-increment-control=OFF',
     // Reads wait until this node has applied every write the cluster committed before them, so a
     // request that follows a failover sees what the old writer acknowledged.
     '--wsrep-sync-wait=1',
@@ -49,6 +55,9 @@ function wsrepArgs(spec: NodeSpec, bootstrap: boolean): string[] {
     '--binlog-format=ROW',
     '--default-storage-engine=InnoDB',
     '--innodb-autoinc-lock-mode=2',
+    // Galera logs row events, so creating a trigger (the audit trail's append-only guard,
+    // migration 0014) needs this or SUPER; the app's account has neither otherwise.
+    '--log-bin-trust-function-creators=ON',
     '--innodb-buffer-pool-size=128M',
   ]
 }

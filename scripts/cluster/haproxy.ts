@@ -37,6 +37,8 @@ listen stats
 listen galera_writer
   mode tcp
   bind 127.0.0.1:${ports.dbWriter}
+  option redispatch
+  retries 3
   option httpchk GET /
   http-check expect status 200
   default-server inter 1s fall 2 rise 3 on-marked-down shutdown-sessions

@@ -68,7 +68,7 @@ async function main(): Promise<number> {
     topo = await startTopology({
       label: 'test-cluster', base: 4600, dataRoot: path.join(repoRoot, '.cluster-test-data'), fresh: true, seedDemo: true, staticDir: '',
       // Faster password hashing for the throw-away demo accounts; the outbox polled twice a second.
-      extraEnv: { PASSWORD_SCRYPT_LOG2N: '14', OUTBOX_POLL_MS: '500', LOGIN_MAX_FAILURES_ADDRESS: '100000', DB_POOL_MAX: '10' },
+      extraEnv: { PASSWORD_SCRYPT_LOG2N: '14', OUTBOX_POLL_MS: '500', LOGIN_MAX_FAILURES_ADDRESS: '10000', DB_POOL_MAX: '10' },
     })
     const t = topo
     console.log(`[test-cluster] topology up after ${Math.round((Date.now() - started) / 1000)} s; ${LOAD_SECONDS} s of load`)
@@ -164,7 +164,7 @@ async function main(): Promise<number> {
     check('CHECKSUM TABLE agrees on all three nodes for every table', differ.length === 0 && Object.keys(sums[0]).length > 20, differ.join(', ') || `${Object.keys(sums[0]).length} tables`)
 
     // E-mails: maildev against the outbox, including the race's messages.
-    const mails = (await (await fetch(`http://127.0.0.1:${t.ports.mailWeb}/email`)).json()) as { headers: Record<string, string> }[]
+    const mails = (await (await fetch(`http://127.0.0.1:${t.ports.mailWeb}/api/email`)).json()) as { headers: Record<string, string> }[]
     const received = mails.map((m) => Number(m.headers['x-ferrolane-outbox-id']))
     const sent = await onNode(t.nodeSocket(2), async (c) => ((await c.query("SELECT id FROM outbox_messages WHERE status = 'sent'")) as { id: number }[]).map((r) => Number(r.id)))
     const dupes = received.filter((id, i) => received.indexOf(id) !== i)

@@ -128,7 +128,9 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
     mkdirSync(logDir, { recursive: true })
     const startApp = async (i: number) => {
       const log = createWriteStream(path.join(logDir, `app${i + 1}.log`), { flags: 'a' })
-      const child = spawn(path.join(repoRoot, 'node_modules/.bin/tsx'), ['server/index.ts'], {
+      // node itself with tsx's loader, not the tsx command: the command runs the server in a child
+      // process, and a SIGKILL to the command would leave that server running.
+      const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
         cwd: repoRoot, env: { ...appEnv, PORT: String(ports.apps[i]) }, stdio: ['ignore', 'pipe', 'pipe'],
       })
       child.stdout!.pipe(log)
