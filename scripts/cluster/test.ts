@@ -164,9 +164,16 @@ async function main(): Promise<number> {
     check('CHECKSUM TABLE agrees on all three nodes for every table', differ.length === 0 && Object.keys(sums[0]).length > 20, differ.join(', ') || `${Object.keys(sums[0]).length} tables`)
 
     // E-mails: maildev against the outbox, including the race's messages.
-    const mails = (await (await fetch(`http://127.0.0.1:${t.ports.mailWeb}/api/email`)).json()) as { headers: Record<string, string> }[]
-    const received = mails.map((m) => Number(m.headers['x-ferrolane-outbox-id']))
     const sent = await onNode(t.nodeSocket(2), async (c) => ((await c.query("SELECT id FROM outbox_messages WHERE status = 'sent'")) as { id: number }[]).map((r) => Number(r.id)))
+    // maildev lists a message only once it has parsed and stored it: wait (at most 20 s) until it has
+    // as many as the outbox sent, then compare which ones.
+    let received: number[] = []
+    const listDeadline = Date.now() + 20_000
+    do {
+      if (received.length) await new Promise((r) => setTimeout(r, 1000))
+      const mails = (await (await fetch(`http://127.0.0.1:${t.ports.mailWeb}/api/email`)).json()) as { headers: Record<string, string> }[]
+      received = mails.map((m) => Number(m.headers['x-ferrolane-outbox-id']))
+    } while (received.length < sent.length && Date.now() < listDeadline)
     const dupes = received.filter((id, i) => received.indexOf(id) !== i)
     const lost = sent.filter((id) => !received.includes(id))
     const unrecorded = received.filter((id) => !sent.includes(id))

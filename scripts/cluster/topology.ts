@@ -89,13 +89,14 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
   }
 
   try {
+    // First, while the machine is quiet: the nodes' state transfers load it heavily.
+    maildev = await startMaildev({ smtpPort: ports.smtp, webPort: ports.mailWeb, label: opts.label })
     const first = bootstrapIndex(opts.dataRoot)
     console.log(`[${opts.label}] starting the cluster from ${nodeLabel(first)}`)
     nodes[first] = await startGaleraNode(spec(first), true)
     await ensureDatabase(nodes[first]!.socket, DB)
     for (let i = 0; i < NODE_COUNT; i += 1) if (i !== first) nodes[i] = await startGaleraNode(spec(i), false)
     for (let i = 0; i < NODE_COUNT; i += 1) agents.push(await startCheckAgent(ports.nodes[i].check, nodeSocket(spec(i).dataDir)))
-    maildev = await startMaildev({ smtpPort: ports.smtp, webPort: ports.mailWeb, label: opts.label })
     haproxy = await startHaproxy(ports, path.join(opts.dataRoot, 'haproxy'))
 
     const appEnv: NodeJS.ProcessEnv = {
