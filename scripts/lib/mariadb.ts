@@ -21,6 +21,12 @@ export interface MariaDbOptions {
    * lose the last second, which a throw-away database can afford for the speed.
    */
   durability?: 'full' | 'relaxed'
+  /** More server options (a Galera node's wsrep settings); appended after the defaults. */
+  extraArgs?: string[]
+  /** How long to wait for the server to answer; a node that joins by a full state transfer takes longer. */
+  readyTimeoutMs?: number
+  /** Runs after the data directory is initialised and before the server starts (ownership for a Galera joiner). */
+  beforeStart?: () => void
 }
 
 export interface MariaDbHandle {
@@ -39,6 +45,11 @@ function socketPath(dataDir: string): string {
 
 function runningAsRoot(): boolean {
   return typeof process.getuid === 'function' && process.getuid() === 0
+}
+
+/** The socket a server for this data directory listens on. */
+export function mariaDbSocket(dataDir: string): string {
+  return socketPath(dataDir)
 }
 
 export function findMariaDbd(): string | null {
@@ -93,6 +104,7 @@ export async function startMariaDb(opts: MariaDbOptions): Promise<MariaDbHandle>
   if (!mariadbd) throw new Error('mariadbd was not found: install Debian\'s mariadb-server (apt-get install mariadb-server)')
   mkdirSync(opts.dataDir, { recursive: true })
   initialise(opts.dataDir, opts.label)
+  opts.beforeStart?.()
   const socket = socketPath(opts.dataDir)
   const pidFile = path.join(opts.dataDir, 'mariadb.pid')
 
@@ -117,6 +129,7 @@ export async function startMariaDb(opts: MariaDbOptions): Promise<MariaDbHandle>
     '--innodb-buffer-pool-size=256M',
     `--innodb-flush-log-at-trx-commit=${opts.durability === 'relaxed' ? 2 : 1}`,
     '--max-connections=300',
+    ...(opts.extraArgs ?? []),
   ]
   if (runningAsRoot()) args.push('--user=root')
   // Its own process group: a Ctrl-C in the terminal reaches the start script, which then shuts
@@ -128,7 +141,7 @@ export async function startMariaDb(opts: MariaDbOptions): Promise<MariaDbHandle>
     await waitUntil(async () => {
       if (exited) throw new Error(`mariadbd exited at start; see ${path.join(opts.dataDir, 'mariadb.err')}`)
       return canConnect(socket)
-    }, 60_000, `MariaDB on port ${opts.port}`)
+    }, opts.readyTimeoutMs ?? 60_000, `MariaDB on port ${opts.port}`)
   } catch (err) {
     const log = path.join(opts.dataDir, 'mariadb.err')
     if (existsSync(log)) console.error(readFileSync(log, 'utf8').split('\n').slice(-15).join('\n'))

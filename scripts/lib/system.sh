@@ -51,3 +51,21 @@ ensure_node_modules() {
     echo "$want" > node_modules/.ferrolane-lock-sha256
   fi
 }
+
+# The cluster scripts only (npm run cluster, npm run test:cluster): npm start and npm test never
+# need these. galera-4 is the replication library; rsync carries a full state transfer to a
+# node that rejoins; haproxy routes the database and the app.
+ensure_galera() {
+  ensure_mariadb
+  local missing=()
+  [ -e /usr/lib/galera/libgalera_smm.so ] || [ -e /usr/lib/libgalera_smm.so ] || missing+=(galera-4)
+  command -v rsync >/dev/null 2>&1 || missing+=(rsync)
+  if [ "${#missing[@]}" -gt 0 ]; then apt_install "${missing[@]}"; fi
+}
+
+ensure_haproxy() {
+  if ! command -v haproxy >/dev/null 2>&1 && [ ! -x /usr/sbin/haproxy ]; then
+    apt_install haproxy
+  fi
+  # Debian's package may start its own haproxy service; Ferrolane's cluster scripts run their own.
+}

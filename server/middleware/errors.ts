@@ -4,6 +4,7 @@ import { BaseError } from 'sequelize'
 import { AppError, NotFound } from '../errors'
 import { isDatabaseUnavailable, RETRY_AFTER_SECONDS } from '../dbUnavailable'
 import { toInvalid } from './validate'
+import { isRetryableConflict } from '../unitOfWork'
 import { recordSecurityEvent } from '../services/securityEvents'
 import { actorOf } from '../routes/context'
 import type { AppMetrics } from '../observability/metrics'
@@ -71,6 +72,12 @@ export const errorHandler: ErrorRequestHandler = async (err, req, res, next) => 
     logOutage(req, err as Error)
     res.set('Retry-After', String(RETRY_AFTER_SECONDS))
     res.status(503).json({ error: { code: 'unavailable', message: 'Ferrolane cannot reach its database just now; try again in a few seconds' } })
+    return
+  }
+  // A deadlock or a lost cluster certification that was not (or no longer) retried: nothing of the
+  // request was saved, and sending it again is the whole remedy.
+  if (isRetryableConflict(err)) {
+    res.status(409).json({ error: { code: 'write_conflict', message: 'Another change to the same records was being saved at the same moment, so nothing was saved; please try again' } })
     return
   }
   const { status, type, expose } = err as { status?: number; type?: string; expose?: boolean }

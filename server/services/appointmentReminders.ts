@@ -3,6 +3,7 @@ import type { Config } from '../config'
 import { Appointment, Patient } from '../models/index'
 import { enqueueMessage } from './outbox'
 import { snapshotOf } from './appointmentView'
+import { unitOfWork } from '../unitOfWork'
 
 const DAY_MS = 86_400_000
 
@@ -32,7 +33,7 @@ export async function queueDueReminders(sequelize: Sequelize, config: Config, no
   })
   let queued = 0
   for (const { id } of due) {
-    const done = await sequelize.transaction(async (t) => {
+    const done = await unitOfWork(sequelize, { idempotent: true }, async (t) => {
       const a = await Appointment.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
       if (!a || !a.remindAt || a.remindAt > now || a.status === 'cancelled') return false
       const patient = await Patient.findByPk(a.patientId, { transaction: t, raw: true })

@@ -12,6 +12,7 @@ import { appointmentView, snapshotOf } from './appointmentView'
 import { assertNoDoubleBooking, takeInfusionChair } from './appointmentRules'
 import { reminderDueAt } from './appointmentReminders'
 import { enqueueMessage, messagesFor } from './outbox'
+import { unitOfWork } from '../unitOfWork'
 
 const auditable = (a: Appointment) => ({
   kind: a.kind, startsAt: a.startsAt.toISOString(), durationMin: a.durationMin, location: a.location,
@@ -40,7 +41,7 @@ export async function bookAppointment(sequelize: Sequelize, config: Config, view
   const kind = input.kind as AppointmentKind
   const startsAt = new Date(input.startsAt)
   const span = spanOf(startsAt, input.durationMin)
-  return sequelize.transaction(async (t) => {
+  return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const patient = await lockedPatient(t, referral.patientId)
     await assertNoDoubleBooking(t, patient.id, span, config.clinic.timeZone)
     const sessionId = KIND_INFO[kind].needsInfusionChair ? await takeInfusionChair(t, patient.id, span, input.durationMin, config.clinic.timeZone) : null
@@ -67,7 +68,7 @@ async function lockedAppointment(t: Transaction, viewer: Viewer, id: number): Pr
 }
 
 export async function moveAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: MoveAppointmentInput) {
-  return sequelize.transaction(async (t) => {
+  return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const a = await lockedAppointment(t, viewer, id)
     if (a.version !== input.version) throw staleVersion('This appointment')
     if (a.status === 'cancelled') throw new RuleRefused('This appointment is cancelled; book a new one instead', 'appointment_cancelled')
@@ -100,7 +101,7 @@ export async function moveAppointment(sequelize: Sequelize, config: Config, view
 }
 
 export async function cancelAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: CancelAppointmentInput) {
-  return sequelize.transaction(async (t) => {
+  return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const a = await lockedAppointment(t, viewer, id)
     if (a.status === 'cancelled') throw new Conflict('This appointment is already cancelled', 'already_cancelled')
     const before = auditable(a)

@@ -11,6 +11,7 @@ import { carriesReplyLink } from '../mail/snapshot'
 import { createMailTransport } from '../mail/transport'
 import { newReplyToken } from './appointmentTokens'
 import { queueDueReminders } from './appointmentReminders'
+import { unitOfWork } from '../unitOfWork'
 
 type Row = InferAttributes<OutboxMessage>
 export interface RunResult { claimed: number; sent: number; retried: number; failed: number; bounced: number; reminders: number }
@@ -30,10 +31,15 @@ export interface WorkerOptions {
 const MAX_BACKOFF_MS = 6 * 3_600_000
 
 /**
- * Sends the outbox. A claim is a short transaction: SELECT ... FOR UPDATE SKIP LOCKED picks due
- * rows that no other worker holds, and marks them 'sending' with a lease. Sending happens after
- * that commit; the outcome is written only if this worker still holds the claim. A worker that
- * dies mid-send leaves its rows 'sending' until the lease ends, then any worker takes them again.
+ * Sends the outbox. A claim is a compare-and-set per message: an UPDATE that takes the row only
+ * if it is still in the state this worker read (due, same attempt count), and whose affected-row
+ * count says whether this worker won. Row locks (FOR UPDATE SKIP LOCKED) would be local to one
+ * node of a Galera cluster; a write set is certified cluster-wide, so two workers connected to
+ * different nodes cannot both win: the loser's UPDATE matches no row, or loses certification
+ * (error 1213) and is tried again by unitOfWork, then matches no row.
+ * Sending happens after the claim; the outcome is written only if this worker still holds the
+ * claim. A worker that dies mid-send leaves its rows 'sending' until the lease ends, then any
+ * worker takes them again.
  */
 export class OutboxWorker {
   readonly workerId: string
@@ -53,22 +59,28 @@ export class OutboxWorker {
   async claim(now: Date): Promise<Row[]> {
     const { sequelize } = this.opts
     const lease = new Date(now.getTime() + this.config.outbox.leaseSeconds * 1000)
-    return sequelize.transaction(async (transaction) => {
-      const picked = await sequelize.query<{ id: number }>(
-        `SELECT o.id FROM outbox_messages o
-         WHERE ((o.status = 'queued' AND o.next_attempt_at <= ?) OR (o.status = 'sending' AND o.claimed_until < ?))
-           AND NOT EXISTS (SELECT 1 FROM outbox_messages e WHERE e.appointment_id = o.appointment_id AND e.id < o.id AND e.status IN ('queued', 'sending'))
-         ORDER BY o.id LIMIT ? FOR UPDATE SKIP LOCKED`,
-        { replacements: [now, now, this.opts.batchSize ?? 10], type: QueryTypes.SELECT, transaction },
-      )
-      if (!picked.length) return []
-      const ids = picked.map((r) => r.id)
-      await sequelize.query(
-        `UPDATE outbox_messages SET status = 'sending', claimed_by = ?, claimed_until = ?, attempts = attempts + 1, updated_at = ? WHERE id IN (?)`,
-        { replacements: [this.workerId, lease, now, ids], type: QueryTypes.UPDATE, transaction },
-      )
-      return OutboxMessage.findAll({ where: { id: ids }, order: [['id', 'ASC']], transaction, raw: true })
-    })
+    const due = await sequelize.query<{ id: number; attempts: number }>(
+      `SELECT o.id, o.attempts FROM outbox_messages o
+       WHERE ((o.status = 'queued' AND o.next_attempt_at <= ?) OR (o.status = 'sending' AND o.claimed_until < ?))
+         AND NOT EXISTS (SELECT 1 FROM outbox_messages e WHERE e.appointment_id = o.appointment_id AND e.id < o.id AND e.status IN ('queued', 'sending'))
+       ORDER BY o.id LIMIT ?`,
+      { replacements: [now, now, this.opts.batchSize ?? 10], type: QueryTypes.SELECT },
+    )
+    const won: number[] = []
+    for (const row of due) {
+      const changed = await unitOfWork(sequelize, { idempotent: true }, async (transaction) => {
+        const [, affected] = await sequelize.query(
+          `UPDATE outbox_messages SET status = 'sending', claimed_by = ?, claimed_until = ?, attempts = attempts + 1, updated_at = ?
+           WHERE id = ? AND attempts = ?
+             AND ((status = 'queued' AND next_attempt_at <= ?) OR (status = 'sending' AND claimed_until < ?))`,
+          { replacements: [this.workerId, lease, now, row.id, row.attempts, now, now], type: QueryTypes.UPDATE, transaction },
+        )
+        return affected
+      })
+      if (changed === 1) won.push(row.id)
+    }
+    if (!won.length) return []
+    return OutboxMessage.findAll({ where: { id: won, claimedBy: this.workerId }, order: [['id', 'ASC']], raw: true })
   }
 
   private async finish(id: number, changes: Partial<Row>): Promise<void> {

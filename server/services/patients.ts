@@ -8,6 +8,7 @@ import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Conflict, Forbidden, Invalid, NotFound } from '../errors'
 import { clinicToday } from './clinicDay'
 import { worklistChanged } from './worklistCounts'
+import { unitOfWork } from '../unitOfWork'
 
 export interface PatientView {
   id: number
@@ -83,7 +84,7 @@ async function appendMeasurement(t: Transaction, actor: Actor, patientId: number
 export async function createPatient(sequelize: Sequelize, actor: Actor, input: CreatePatientInput): Promise<PatientView> {
   try {
     assertMeasuredAfterBirth(input.measuredAt, input.dateOfBirth)
-    return await sequelize.transaction(async (t) => {
+    return await unitOfWork(sequelize, { idempotent: true }, async (t) => {
       worklistChanged('patient', t)
       const p = await Patient.create(
         {
@@ -143,7 +144,7 @@ export async function getPatient(viewer: Viewer, id: number) {
 
 export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: number, input: UpdatePatientInput): Promise<PatientView> {
   try {
-    return await sequelize.transaction(async (t) => {
+    return await unitOfWork(sequelize, { idempotent: true }, async (t) => {
       const p = await Patient.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
       if (!p) throw new NotFound('Patient')
       if (p.version !== input.version) throw staleVersion('This patient')

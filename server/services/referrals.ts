@@ -9,6 +9,7 @@ import { staleVersion, type Viewer } from './viewer'
 import { referralDetail } from './referralDetail'
 import { Invalid, NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
+import { unitOfWork } from '../unitOfWork'
 
 async function procedureIdFor(code: string): Promise<number> {
   const p = await findActiveProcedure(code)
@@ -44,7 +45,7 @@ export async function createReferral(sequelize: Sequelize, viewer: Viewer, input
   if (!patient) throw new Invalid('patientId does not match a registered patient', { patientId: 'must be a registered patient' })
   const procedureId = await procedureIdFor(input.procedureCode)
   await requireSurgeon(input.surgeonId)
-  const id = await sequelize.transaction(async (t) => {
+  const id = await unitOfWork(sequelize, { idempotent: true }, async (t) => {
     worklistChanged('referral', t)
     const r = await Referral.create(
       {
@@ -78,7 +79,7 @@ export async function createReferral(sequelize: Sequelize, viewer: Viewer, input
 export async function updateReferral(sequelize: Sequelize, viewer: Viewer, id: number, input: UpdateReferralInput) {
   const procedureId = input.procedureCode ? await procedureIdFor(input.procedureCode) : undefined
   if (input.surgeonId !== undefined) await requireSurgeon(input.surgeonId)
-  await sequelize.transaction(async (t) => {
+  await unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const r = await Referral.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
     if (!r) throw new NotFound('Referral')
     if (r.version !== input.version) throw staleVersion('This referral')

@@ -9,6 +9,7 @@ import { refreshScreening, screeningView } from './screening'
 import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer'
 import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
 import { clinicTimeZone } from './clinicDay'
+import { unitOfWork } from '../unitOfWork'
 
 export interface ResultView {
   id: number
@@ -89,7 +90,7 @@ export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dat
  */
 export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId: number, input: CreateResultInput) {
   const analyte = input.analyte as Analyte
-  return sequelize.transaction(async (t) => {
+  return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const referral = await Referral.findByPk(referralId, { transaction: t, lock: t.LOCK.UPDATE })
     if (!referral) throw new NotFound('Referral')
     if (isReadOnly(referral.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')

@@ -6,6 +6,7 @@ import type { SessionUser } from '../../shared/types'
 import { passwordAccepted } from './credentials'
 import { toSessionUser } from './users'
 import { TooMany } from '../errors'
+import { unitOfWork } from '../unitOfWork'
 
 /** Same words for an unknown e-mail and a wrong password: the answer must not reveal accounts. */
 export const BAD_CREDENTIALS = 'E-mail or password is not correct'
@@ -26,7 +27,7 @@ const addressBucket = (ip: string) => `address:${ip.slice(0, 200)}`
  */
 async function bump(bucket: string, windowStart: Date): Promise<number> {
   const sequelize = LoginFailure.sequelize!
-  return sequelize.transaction(async (transaction) => {
+  return unitOfWork(sequelize, { idempotent: true }, async (transaction) => {
     await sequelize.query(
       `INSERT INTO login_failures (bucket, failures, window_started_at) VALUES (?, 1, NOW())
        ON DUPLICATE KEY UPDATE

@@ -17,6 +17,8 @@ export interface MatrixEntry { method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELET
  */
 export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/health', allow: 'public' },
+  // Readiness for load balancers: database reachable, migrations current, cluster node synced.
+  { method: 'GET', path: '/api/health/ready', allow: 'public' },
   { method: 'GET', path: '/api/auth/csrf', allow: 'public' },
   { method: 'POST', path: '/api/auth/login', allow: 'public' },
   { method: 'POST', path: '/api/auth/logout', allow: 'signed-in' },
