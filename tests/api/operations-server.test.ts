@@ -59,9 +59,10 @@ afterAll(async () => {
 })
 
 describe('the compiled server under plain node', () => {
-  it('answers /api/health and signs a member of staff in', async () => {
+  it('answers /api/health and /api/health/ready and signs a member of staff in', async () => {
     const base = `http://127.0.0.1:${port}`
-    await request(base).get('/api/health').expect(200, { status: 'ok', db: 'up' })
+    await request(base).get('/api/health').expect(200, { status: 'ok' })
+    await request(base).get('/api/health/ready').expect(200, { status: 'ready', db: 'up', cluster: 'standalone', migrations: 'current' })
     const nurse = await makeStaff('nurse')
     const c = await new Client(base).mustSignIn(nurse.email, nurse.password)
     expect((await c.get('/api/auth/me')).status).toBe(200)
