@@ -88,6 +88,7 @@ export async function fullEpisode(surgeonId: number) {
     surgeonId, weightKg: 70, heightCm: 165, sex: 'female',
     hb: [{ hbGL: 104, takenAt: noon(d0) }, { hbGL: 121, takenAt: noon(addDays(d0, 25)) }],
     referral: { stage: 'treating', plannedSurgeryDate: addDays(todayIso(), 21), recheckDueDate: addDays(todayIso(), 7) },
+    iron: null, // this fixture stores its own iron studies below, with the sample's time
   })
   await Patient.update({ givenName: 'Isolde', familyName: `Fernsby${patient.id}`, gpPractice: 'Hollin Lane Surgery (invented)' }, { where: { id: patient.id } })
   const base = { referralId: referral.id, patientId: patient.id, takenAt: noon(d0), enteredBy: null }
