@@ -135,7 +135,9 @@ describe('memory stays bounded', () => {
     const live = () => { gc(); return process.memoryUsage().heapUsed }
     const before = live()
     let peak = before
-    const timer = setInterval(() => { peak = Math.max(peak, live()) }, 250)
+    // A full collection every second: often enough to catch 230 000 rows held at once (they would
+    // stay for many seconds), rarely enough not to starve the preview on a busy 2-core machine.
+    const timer = setInterval(() => { peak = Math.max(peak, live()) }, 1000)
     try {
       const res = await uploadCsv(c, content)
       expect(res.status, JSON.stringify(res.body).slice(0, 300)).toBe(200)
@@ -151,5 +153,5 @@ describe('memory stays bounded', () => {
     // object costs ~100+ bytes, common practice); reading by chunks of 1000 keeps it under 24 MB.
     expect(growthMb).toBeLessThan(24)
     expect(await Result.count()).toBe(0)
-  }, 120_000)
+  }, 300_000) // a memory check, not a timing one: generous, so only a real fault fails it
 })

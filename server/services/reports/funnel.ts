@@ -1,26 +1,33 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, pct, select, whereFor, type ReportFilters } from './filters'
+import { finalSql } from '../../models/result'
 
-// Voided and preliminary Hb values do not count in any figure: referral_milestones (migration
-// 0023) keeps the first and last final Hb only.
+// Voided and preliminary Hb values do not count in any figure.
+const COUNTED = finalSql('h')
 
-// Each episode's milestones are one primary-key read of referral_milestones (migration 0023,
-// kept by triggers in the same transaction as every write); all steps counted in one pass.
-// "Re-checked" = an Hb taken after the first dose, i.e. the last Hb is later than that dose.
+// Each step is one indexed lookup per referral in the period; all counted in one pass.
 const SQL = (where: string) => `
 SELECT COUNT(*) AS referred,
-  SUM(m.first_hb_at IS NOT NULL) AS screened,
-  SUM(r.anaemic = 1 OR r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR COALESCE(m.prescribed, 0) = 1) AS anaemicOrDeficient,
-  SUM(m.first_dose_at IS NOT NULL) AS treated,
-  SUM(m.first_dose_at IS NOT NULL AND m.last_hb_at > m.first_dose_at) AS rechecked,
-  SUM(COALESCE(m.cleared, 0)) AS cleared,
-  SUM(o.id IS NOT NULL OR COALESCE(m.operated, 0) = 1) AS operated,
-  SUM((o.id IS NOT NULL OR COALESCE(m.operated, 0) = 1) AND m.first_hb_at IS NOT NULL
-    AND DATEDIFF(COALESCE(o.surgery_date, r.planned_surgery_date), m.first_hb_at) >= 28) AS screenedEarly
-FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id
-  LEFT JOIN referral_milestones m ON m.referral_id = r.id
-WHERE ${where}`
+  SUM(x.first_hb_at IS NOT NULL) AS screened,
+  SUM(x.anaemic_or_deficient) AS anaemicOrDeficient,
+  SUM(x.first_dose_at IS NOT NULL) AS treated,
+  SUM(x.first_dose_at IS NOT NULL AND EXISTS (SELECT 1 FROM results h WHERE h.referral_id = x.id AND h.analyte = 'hb' AND ${COUNTED} AND h.taken_at > x.first_dose_at)) AS rechecked,
+  SUM(x.cleared) AS cleared,
+  SUM(x.operated) AS operated,
+  SUM(x.operated AND x.first_hb_at IS NOT NULL AND DATEDIFF(x.surgery_date, x.first_hb_at) >= 28) AS screenedEarly
+FROM (
+  SELECT r.id,
+    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS first_hb_at,
+    (SELECT MIN(a.given_at) FROM administrations a WHERE a.referral_id = r.id) AS first_dose_at,
+    (r.anaemic = 1 OR r.iron_status IN ('absolute-deficiency', 'iron-restricted')
+      OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id = r.id)) AS anaemic_or_deficient,
+    EXISTS (SELECT 1 FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage = 'cleared') AS cleared,
+    (o.id IS NOT NULL OR EXISTS (SELECT 1 FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage = 'operated')) AS operated,
+    COALESCE(o.surgery_date, r.planned_surgery_date) AS surgery_date
+  FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id
+  WHERE ${where}
+) x`
 
 const STEPS = [
   ['referred', 'Referred', 'Episodes referred'],

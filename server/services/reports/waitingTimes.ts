@@ -1,9 +1,10 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, round1, select, whereFor, type ReportFilters } from './filters'
+import { finalSql } from '../../models/result'
 
-// Voided and preliminary Hb values do not count in any figure: referral_milestones (migration
-// 0023) keeps the first and last final Hb only.
+// Voided and preliminary Hb values do not count in any figure.
+const COUNTED = finalSql('h')
 
 
 const LEGS = [
@@ -14,14 +15,16 @@ const LEGS = [
   ['referralToSurgery', 'Referral → surgery', 'created_at', 'surgery_date'],
 ] as const
 
-// One pass over the episodes, their milestones read by primary key (referral_milestones, kept
-// by triggers since migration 0023): each leg is a column of day counts (NULL where an end is missing),
+// One pass over the episodes: each leg is a column of day counts (NULL where an end is missing),
 // and MariaDB's PERCENTILE_CONT and COUNT skip the NULLs, so no leg is evaluated twice.
 const SQL = (where: string) => `
 WITH x AS (
-  SELECT r.created_at, m.first_hb_at, m.clinic_at, m.first_dose_at, o.surgery_date
+  SELECT r.created_at,
+    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS first_hb_at,
+    (SELECT MIN(st.at) FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage = 'clinic') AS clinic_at,
+    (SELECT MIN(a.given_at) FROM administrations a WHERE a.referral_id = r.id) AS first_dose_at,
+    o.surgery_date
   FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id
-    LEFT JOIN referral_milestones m ON m.referral_id = r.id
   WHERE ${where}
 ), d AS (
   SELECT ${LEGS.map(([key, , a, b]) => `DATEDIFF(${b}, ${a}) AS ${key}`).join(', ')} FROM x
