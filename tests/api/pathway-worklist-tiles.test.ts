@@ -68,10 +68,14 @@ describe('the count tiles in one request', () => {
   })
 
   it('when the whole clinic is counted, then the figures are the ones the fixture was built with', async () => {
-    // Built above: two without a screening Hb before surgery, two anaemic within 28 days, one re-check overdue.
+    // Built above: two without a screening Hb before surgery, two anaemic within 28 days, one re-check overdue;
+    // nobody has had iron and a re-check yet, so no response flag.
     expect(await counts(nurse)).toEqual({
       total: 7,
-      flags: { 'surgery-soon-anaemic': 2, 'no-screening-result': 3, 'recheck-overdue': 1, 'treatment-not-given': 1, 'date-change-requested': 0 },
+      flags: {
+        'surgery-soon-anaemic': 2, 'no-screening-result': 3, 'recheck-overdue': 1, 'treatment-not-given': 1, 'date-change-requested': 0,
+        'no-response-to-iron': 0, 'hb-falling': 0,
+      },
     })
   })
 
