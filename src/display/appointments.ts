@@ -1,18 +1,15 @@
 import { KIND_INFO, localDate, localTime, longDate, type AppointmentKind, type AppointmentStatus, type MessageStatus } from '@shared/appointments'
+import { useClinicZoneStore } from '@/stores/clinicZone'
 
-/**
- * The clinic's zone, from the server's CLINIC_TIME_ZONE (GET /api/clinic-profile, loaded by the
- * router before any signed-in screen). Staff may sit in another zone (or a laptop may be set
- * wrong), so times are always shown in this zone and say so. Until the profile arrives, the
- * server's own default.
- */
-let zone = { timeZone: 'Europe/London', label: 'UK time' }
+// The clinic's zone lives in its store (stores/clinicZone.ts); read there on each call, so a
+// template that shows a time redraws when the zone changes.
+const zone = () => useClinicZoneStore()
 
 export function setClinicZone(timeZone: string, label: string): void {
-  zone = { timeZone, label }
+  zone().setZone(timeZone, label)
 }
-export const clinicZone = (): string => zone.timeZone
-export const clinicZoneLabel = (): string => zone.label
+export const clinicZone = (): string => zone().timeZone
+export const clinicZoneLabel = (): string => zone().label
 
 export type Tone = 'done' | 'waiting' | 'attention' | 'refused' | 'neutral'
 
@@ -67,19 +64,19 @@ export const USUAL_PLACE: Record<AppointmentKind, string> = {
 
 export const kindOptions = (Object.keys(KIND_SHORT) as AppointmentKind[]).map((k) => ({ value: k, label: KIND_SHORT[k], hint: KIND_INFO[k].label }))
 
-export const clinicDate = (iso: string) => localDate(new Date(iso), zone.timeZone)
-export const clinicTime = (iso: string) => localTime(new Date(iso), zone.timeZone)
-export const clinicLongDate = (iso: string) => longDate(new Date(iso), zone.timeZone)
+export const clinicDate = (iso: string) => localDate(new Date(iso), zone().timeZone)
+export const clinicTime = (iso: string) => localTime(new Date(iso), zone().timeZone)
+export const clinicLongDate = (iso: string) => longDate(new Date(iso), zone().timeZone)
 
 /** 'Tue 14 Jul 2026' in the clinic's calendar, for compact cells. */
 export function clinicShortDate(iso: string): string {
-  return new Intl.DateTimeFormat('en-GB', { timeZone: zone.timeZone, weekday: 'short', day: 'numeric', month: 'short', year: 'numeric' })
+  return new Intl.DateTimeFormat('en-GB', { timeZone: zone().timeZone, weekday: 'short', day: 'numeric', month: 'short', year: 'numeric' })
     .format(new Date(iso))
     .replace(',', '')
 }
 
 /** '09:30–10:30 UK time'. */
-export const clinicSpan = (startsAt: string, endsAt: string) => `${clinicTime(startsAt)}–${clinicTime(endsAt)} ${zone.label}`
+export const clinicSpan = (startsAt: string, endsAt: string) => `${clinicTime(startsAt)}–${clinicTime(endsAt)} ${zone().label}`
 
 /** The shared schema names API fields ("startsAt must be…"); staff read the form's words. */
 export function formWords(message: string | undefined): string {

@@ -3,10 +3,10 @@ import type { RouteLocationNormalized, RouteLocationRaw } from 'vue-router'
 import type { Pinia } from 'pinia'
 import { setAuthFailureHandler } from '@/api/client'
 import { queryClient } from '@/api/queryClient'
-import { meQueryOptions } from '@/features/auth/composables/useAuth'
+import { fetchMe } from '@/api/auth'
 import { useSessionStore } from '@/stores/session'
 import { getClinicProfile } from '@/api/clinicProfile'
-import { setClinicZone } from '@/display/appointments'
+import { useClinicZoneStore } from '@/stores/clinicZone'
 import { homeRouteFor } from './homes'
 import { routes } from './routes'
 import './meta'
@@ -21,8 +21,7 @@ export const router = createRouter({
 let sessionLoaded: Promise<void> | null = null
 
 function loadSessionOnce(session: ReturnType<typeof useSessionStore>): Promise<void> {
-  sessionLoaded ??= queryClient
-    .fetchQuery({ ...meQueryOptions(), retry: false })
+  sessionLoaded ??= fetchMe()
     .then((user) => session.setUser(user))
     .catch(() => {
       // Server unreachable: treat as signed out, and ask again on the next navigation.
@@ -36,16 +35,11 @@ function loadSessionOnce(session: ReturnType<typeof useSessionStore>): Promise<v
 // public). A failure keeps the default and is asked again on the next navigation.
 let profileLoaded: Promise<void> | null = null
 
-function loadClinicProfileOnce(): Promise<void> {
+function loadClinicProfileOnce(zone: ReturnType<typeof useClinicZoneStore>): Promise<void> {
   profileLoaded ??= getClinicProfile()
-    .then((p) => setClinicZone(p.timeZone, p.zoneLabel))
+    .then((p) => zone.setZone(p.timeZone, p.zoneLabel))
     .catch(() => { profileLoaded = null })
   return profileLoaded
-}
-
-/** Only same-site paths, so a crafted link cannot bounce a user to another origin. */
-export function safeRedirect(value: unknown): string | null {
-  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') ? value : null
 }
 
 // Screens drawn with the sign-in page's small theme (main.ts); all others wait for the whole one.
@@ -64,6 +58,7 @@ function loadFullThemeOnce(): Promise<void> {
 
 export function installGuards(pinia: Pinia): void {
   const session = useSessionStore(pinia)
+  const clinicZone = useClinicZoneStore(pinia)
 
   router.beforeEach(async (to) => {
     const decision = await decide(to)
@@ -82,7 +77,7 @@ export function installGuards(pinia: Pinia): void {
     // Before the clinic profile: that call is closed until the password or authenticator is set up.
     if (user.mustChangePassword && to.name !== 'change-password') return { name: 'change-password' }
     if (user.secondFactorEnrolmentRequired && to.name !== 'second-factor') return { name: 'second-factor' }
-    if (!user.mustChangePassword && !user.secondFactorEnrolmentRequired) await loadClinicProfileOnce()
+    if (!user.mustChangePassword && !user.secondFactorEnrolmentRequired) await loadClinicProfileOnce(clinicZone)
     if (to.name === 'home') return homeRouteFor(user.role)
     if (to.meta.roles && !to.meta.roles.includes(user.role)) return { name: 'forbidden', query: { from: to.fullPath } }
     return true

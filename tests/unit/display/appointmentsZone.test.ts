@@ -1,10 +1,13 @@
-import { afterEach, describe, expect, it } from 'vitest'
+import { afterEach, beforeEach, describe, expect, it } from 'vitest'
+import { createPinia, setActivePinia } from 'pinia'
 import { clinicLongDate, clinicShortDate, clinicSpan, clinicTime, clinicZone, setClinicZone } from '../../../src/display/appointments'
 
 // 2026-07-14T08:30Z: 09:30 in London (BST, UTC+1), 04:30 in New York (EDT, UTC−4), 18:30 in
 // Brisbane (AEST, UTC+10, no daylight saving). Offsets from the IANA tz database.
 const instant = '2026-07-14T08:30:00.000Z'
 
+// The zone is reactive state in a Pinia store; each test starts from a fresh one.
+beforeEach(() => setActivePinia(createPinia()))
 afterEach(() => setClinicZone('Europe/London', 'UK time'))
 
 describe('staff screens show times in the clinic zone the server names', () => {

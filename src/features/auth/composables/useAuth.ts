@@ -2,27 +2,21 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
 import { useRouter } from 'vue-router'
 import type { ChangePasswordInput, LoginInput } from '@shared/schemas/auth'
 import {
-  changePassword, confirmSecondFactorEnrolment, fetchMe, fetchProviders, fetchSecondFactorStatus, login, loginSecondFactor, logout,
+  changePassword, confirmSecondFactorEnrolment, fetchProviders, fetchSecondFactorStatus, login, loginSecondFactor, logout,
   startSecondFactorEnrolment, type SignInStep,
 } from '@/api/auth'
 import { useSessionStore } from '@/stores/session'
 
+// The signed-in user is not cached here: it lives in the session store (Pinia) alone, set by the
+// router's first check and by sign-in, so no copy in the query cache has to be kept in step.
 export const authKeys = {
   all: ['auth'] as const,
-  me: () => [...authKeys.all, 'me'] as const,
   providers: () => [...authKeys.all, 'providers'] as const,
 }
 
 /** The ways to sign in (directory and/or local form); fixed by the server's configuration. */
 export function useProvidersQuery() {
   return useQuery({ queryKey: authKeys.providers(), queryFn: fetchProviders, staleTime: Infinity })
-}
-
-/** Shared by the router guard (fetchQuery) and components (useQuery). */
-export const meQueryOptions = () => ({ queryKey: authKeys.me(), queryFn: fetchMe })
-
-export function useMeQuery() {
-  return useQuery(meQueryOptions())
 }
 
 function useSignInStep<T>(step: (input: T) => Promise<SignInStep>) {
@@ -34,7 +28,6 @@ function useSignInStep<T>(step: (input: T) => Promise<SignInStep>) {
       if (result === 'second-factor') return
       // Data cached under someone else's session must not leak into this one.
       queryClient.removeQueries()
-      queryClient.setQueryData(authKeys.me(), result)
       session.setUser(result)
     },
   })
