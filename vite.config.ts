@@ -19,7 +19,11 @@ export default defineConfig({
     projects: [
       // Pure functions, but the property tests run thousands of cases: on a shared, busy machine
       // Vitest's default 5 s is a timing dependency, not a check.
-      { extends: true, test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', testTimeout: 30000 } },
+      // Component tests sit beside their components (src/**/*.test.ts) and choose a DOM (jsdom) per file.
+      {
+        extends: true,
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts', 'src/**/*.test.ts'], environment: 'node', testTimeout: 30000 },
+      },
       {
         extends: true,
         test: {
