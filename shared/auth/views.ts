@@ -39,3 +39,6 @@ export interface SecondFactorStatus { enabled: boolean; recoveryCodesLeft: numbe
 
 /** POST /api/auth/password: every other session ended; this one continues under a new token. */
 export interface PasswordChanged { user: SessionUser; csrfToken: string }
+
+/** GET /api/auth/csrf: the token every write sends back in its X-CSRF-Token header. */
+export interface CsrfTokenAnswer { csrfToken: string }
