@@ -34,7 +34,12 @@ export function toAdministrationView(a: Administration & { giver?: User | null }
  * pathway table allows this role that move, and the re-check is scheduled
  * the clinic's configured number of days after this (the latest) dose.
  */
-export async function recordAdministration(sequelize: Sequelize, viewer: Viewer, referralId: number, input: AdministrationInput): Promise<RecordedAdministration> {
+export async function recordAdministration(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: AdministrationInput,
+): Promise<RecordedAdministration> {
   const settings = await getClinicSettings()
   return sequelize.transaction(async (t) => {
     const r = await loadReferral(viewer, referralId, t, true)

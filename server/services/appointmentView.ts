@@ -8,7 +8,10 @@ import { isoOrNull } from './viewer'
 type AppointmentRow = InferAttributes<Appointment>
 
 /** The appointment as the API returns it; events and messages when the caller loaded them. */
-export function appointmentView(a: AppointmentRow, extra: { events?: InferAttributes<AppointmentEvent>[]; messages?: InferAttributes<OutboxMessage>[] } = {}): AppointmentView {
+export function appointmentView(
+  a: AppointmentRow,
+  extra: { events?: InferAttributes<AppointmentEvent>[]; messages?: InferAttributes<OutboxMessage>[] } = {},
+): AppointmentView {
   return {
     id: a.id,
     referralId: a.referralId,

@@ -35,7 +35,12 @@ async function lockedPatient(t: Transaction, patientId: number): Promise<Patient
   return p
 }
 
-export async function bookAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, input: CreateAppointmentInput): Promise<BookingResult> {
+export async function bookAppointment(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  input: CreateAppointmentInput,
+): Promise<BookingResult> {
   const referral = await Referral.findByPk(input.referralId, { raw: true })
   if (!referral) throw new Invalid('referralId does not match an episode', { referralId: 'must be an existing referral' })
   assertMaySeeReferral(viewer, referral.surgeonId)
@@ -69,7 +74,13 @@ async function lockedAppointment(t: Transaction, viewer: Viewer, id: number): Pr
   return a
 }
 
-export async function moveAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: MoveAppointmentInput): Promise<BookingResult> {
+export async function moveAppointment(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  id: number,
+  input: MoveAppointmentInput,
+): Promise<BookingResult> {
   return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const a = await lockedAppointment(t, viewer, id)
     if (a.version !== input.version) throw staleVersion('This appointment')
@@ -102,7 +113,13 @@ export async function moveAppointment(sequelize: Sequelize, config: Config, view
   })
 }
 
-export async function cancelAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: CancelAppointmentInput): Promise<BookingResult> {
+export async function cancelAppointment(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  id: number,
+  input: CancelAppointmentInput,
+): Promise<BookingResult> {
   return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const a = await lockedAppointment(t, viewer, id)
     if (a.status === 'cancelled') throw new Conflict('This appointment is already cancelled', 'already_cancelled')

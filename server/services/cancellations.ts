@@ -17,7 +17,12 @@ const NO_PLANNED_OPERATION = new Set(['operated', 'withdrawn', 'closed'])
  * the episode as the one that was cancelled; setting a new date (a move with its own reason)
  * rebooks it. Cancellations for anaemia are counted by the quality report.
  */
-export async function cancelPlannedOperation(sequelize: Sequelize, viewer: Viewer, id: number, input: CancelOperationInput): Promise<ReferralDetail> {
+export async function cancelPlannedOperation(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  id: number,
+  input: CancelOperationInput,
+): Promise<ReferralDetail> {
   await sequelize.transaction(async (t) => {
     const r = await loadReferral(viewer, id, t, true)
     if (r.version !== input.version) throw staleVersion('This referral')

@@ -51,7 +51,12 @@ function instants(date: string, startTime: string, endTime: string, tz: string) 
   return { startsAt, endsAt }
 }
 
-export async function createInfusionSession(sequelize: Sequelize, config: Config, viewer: Viewer, input: CreateInfusionSessionInput): Promise<InfusionSessionView> {
+export async function createInfusionSession(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  input: CreateInfusionSessionInput,
+): Promise<InfusionSessionView> {
   const tz = config.clinic.timeZone
   const times = instants(input.date, input.startTime, input.endTime, tz)
   const row = await sequelize.transaction(async (t) => {
@@ -66,7 +71,13 @@ export async function createInfusionSession(sequelize: Sequelize, config: Config
  * Chairs may not drop below the most patients booked at once, and booked patients must still
  * fit inside the session's new hours; otherwise someone would lose a chair without being told.
  */
-export async function updateInfusionSession(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: UpdateInfusionSessionInput): Promise<InfusionSessionView> {
+export async function updateInfusionSession(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  id: number,
+  input: UpdateInfusionSessionInput,
+): Promise<InfusionSessionView> {
   const tz = config.clinic.timeZone
   const row = await sequelize.transaction(async (t) => {
     const s = await InfusionSession.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })

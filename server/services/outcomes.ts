@@ -15,7 +15,9 @@ function toOutcomeView(o: Outcome): OutcomeView {
     id: o.id, referralId: o.referralId, surgeryDate: o.surgeryDate, bloodLossMl: o.bloodLossMl,
     unitsTransfusedIntraOp: o.unitsTransfusedIntraOp, unitsTransfusedPostOp: o.unitsTransfusedPostOp, unitsCrossmatched: o.unitsCrossmatched,
     lowestHbGL: o.lowestHbGL, dischargeHbGL: o.dischargeHbGL, lengthOfStayDays: o.lengthOfStayDays, complications: o.complications,
-    tranexamicAcidGiven: o.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: o.tranexamicAcidDoseMg ?? null, tranexamicAcidTiming: (o.tranexamicAcidTiming as TxaTiming | null) ?? null,
+    tranexamicAcidGiven: o.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: o.tranexamicAcidDoseMg ?? null,
+    // Stored only after the outcome schema accepted it as one of TXA_TIMINGS.
+    tranexamicAcidTiming: (o.tranexamicAcidTiming as TxaTiming | null) ?? null,
     cellSalvageUsed: o.cellSalvageUsed ?? null, cellSalvageReturnedMl: o.cellSalvageReturnedMl ?? null,
     transfusionInformationGiven: o.transfusionInformationGiven ?? null, transfusionConsent: o.transfusionConsent ?? null, postOperativeIronGiven: o.postOperativeIronGiven ?? null,
     followUp: o.followUpAt == null ? null : {
@@ -80,7 +82,12 @@ export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referr
 }
 
 /** The follow-up after discharge: needs the post-operative record first. */
-export async function recordFollowUp(sequelize: Sequelize, viewer: Viewer, referralId: number, input: FollowUpInput): Promise<FollowUpRecorded> {
+export async function recordFollowUp(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: FollowUpInput,
+): Promise<FollowUpRecorded> {
   return sequelize.transaction(async (t) => {
     const r = await lockForWrite(t, viewer, referralId, input.version)
     const o = await Outcome.findOne({ where: { referralId }, transaction: t })

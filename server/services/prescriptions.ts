@@ -92,7 +92,12 @@ export function toPrescriptionView(p: Prescription & { prescriber?: User | null 
 }
 
 /** Saves a prescription after re-computing it and re-checking every dose against the caps. */
-export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId: number, input: PrescriptionInput): Promise<RecordedPrescription> {
+export async function prescribe(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: PrescriptionInput,
+): Promise<RecordedPrescription> {
   const r = await loadReferral(viewer, referralId)
   if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
   const computed = await doseInputs(r, input)

@@ -84,7 +84,12 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery): Promise<Rea
  * The operating surgeon acknowledges the plan or asks for the date to move. The projection is
  * stored as it was at that moment, so later results never rewrite what the surgeon saw.
  */
-export async function recordReadinessAction(sequelize: Sequelize, viewer: Viewer, referralId: number, input: ReadinessActionInput): Promise<ReadinessAnswer> {
+export async function recordReadinessAction(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: ReadinessActionInput,
+): Promise<ReadinessAnswer> {
   const r = await loadReferral(viewer, referralId)
   if (r.surgeonId !== viewer.userId) throw new Forbidden('Only the operating surgeon can answer for this episode', 'not_your_patient')
   const projection = await projectionForReferral(r)
@@ -105,5 +110,8 @@ export async function listReadinessReviews(viewer: Viewer, referralId: number): 
   const r = await loadReferral(viewer, referralId)
   await recordAudit(null, viewer, { action: 'view', entity: 'readiness-reviews', entityId: referralId, patientId: r.patientId })
   const rows = await ReadinessReview.findAll({ where: { referralId }, order: [['at', 'DESC']] })
-  return rows.map((r) => ({ id: r.id, action: r.action, reason: r.reason, at: isoOrNull(r.at)!, surgeonId: r.surgeonId, projection: r.projection as Projection }))
+  // The column holds the Projection recordReadinessAction stored, exactly as the surgeon saw it.
+  return rows.map((r) => ({
+    id: r.id, action: r.action, reason: r.reason, at: isoOrNull(r.at)!, surgeonId: r.surgeonId, projection: r.projection as Projection,
+  }))
 }

@@ -77,7 +77,12 @@ export async function createReferral(sequelize: Sequelize, viewer: Viewer, input
   return referralDetail(viewer, id)
 }
 
-export async function updateReferral(sequelize: Sequelize, viewer: Viewer, id: number, input: UpdateReferralInput): Promise<ReferralDetail> {
+export async function updateReferral(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  id: number,
+  input: UpdateReferralInput,
+): Promise<ReferralDetail> {
   const procedureId = input.procedureCode ? await procedureIdFor(input.procedureCode) : undefined
   if (input.surgeonId !== undefined) await requireSurgeon(input.surgeonId)
   await unitOfWork(sequelize, { idempotent: true }, async (t) => {

@@ -60,7 +60,12 @@ async function loadUser(id: number): Promise<UserRow> {
   return u
 }
 
-export async function createStaff(sequelize: Sequelize, actor: Actor, input: CreateUserInput, temporaryHours: number): Promise<CreatedUser> {
+export async function createStaff(
+  sequelize: Sequelize,
+  actor: Actor,
+  input: CreateUserInput,
+  temporaryHours: number,
+): Promise<CreatedUser> {
   const password = temporaryPassword()
   const passwordHash = await hashPassword(password)
   try {
@@ -102,7 +107,12 @@ export async function updateStaff(sequelize: Sequelize, actor: Actor, id: number
   })
 }
 
-export async function resetStaffPassword(sequelize: Sequelize, actor: Actor, id: number, temporaryHours: number): Promise<TemporaryPassword> {
+export async function resetStaffPassword(
+  sequelize: Sequelize,
+  actor: Actor,
+  id: number,
+  temporaryHours: number,
+): Promise<TemporaryPassword> {
   const password = temporaryPassword()
   const passwordHash = await hashPassword(password)
   return sequelize.transaction(async (t) => {

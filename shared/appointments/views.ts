@@ -22,7 +22,14 @@ export interface AppointmentEventView {
 }
 
 /** How one patient e-mail about an appointment went. */
-export interface MessageStatusView { id: number; kind: MessageKind; status: MessageStatus; attempts: number; sentAt: string | null; lastError: string | null }
+export interface MessageStatusView {
+  id: number
+  kind: MessageKind
+  status: MessageStatus
+  attempts: number
+  sentAt: string | null
+  lastError: string | null
+}
 
 /** The appointment as the API returns it; events and messages when the caller loaded them. */
 export interface AppointmentView {

@@ -34,7 +34,12 @@ async function storeLetter(
 }
 
 /** Writes the family-doctor letter from the episode as it is now and keeps the PDF on the episode. */
-export async function writeFamilyDoctorLetter(sequelize: Sequelize, config: Config, viewer: Viewer, referralId: number): Promise<WrittenLetter> {
+export async function writeFamilyDoctorLetter(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  referralId: number,
+): Promise<WrittenLetter> {
   const r = await referralForAttaching(viewer, referralId)
   const clinic = clinicContact(config)
   const now = new Date()
@@ -48,7 +53,12 @@ export async function writeFamilyDoctorLetter(sequelize: Sequelize, config: Conf
 }
 
 /** A printed letter to the patient about one appointment, in the appointment e-mail's words. */
-export async function writeAppointmentLetter(sequelize: Sequelize, config: Config, viewer: Viewer, appointmentId: number): Promise<WrittenLetter> {
+export async function writeAppointmentLetter(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  appointmentId: number,
+): Promise<WrittenLetter> {
   const a = await Appointment.findByPk(appointmentId, { raw: true })
   if (!a) throw new NotFound('Appointment')
   const r = await referralForAttaching(viewer, a.referralId)
