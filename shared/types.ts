@@ -22,3 +22,8 @@ export interface StaffAccount extends SessionUser {
 export interface ApiErrorBody {
   error: { code: string; message: string; fields?: Record<string, string>; details?: Record<string, unknown> }
 }
+
+/** Every list answer of the API: `{ rows: [...] }`, so a list can gain paging without a breaking change. */
+export interface Rows<T> {
+  rows: T[]
+}

@@ -1,6 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
+import type { Reaction } from '../../shared/clinic/views'
 
-export type Reaction = 'none' | 'mild' | 'moderate' | 'severe'
+export type { Reaction }
 
 /** A dose actually given: what, when, which batch, and any reaction. */
 export class Administration extends Model<InferAttributes<Administration>, InferCreationAttributes<Administration>> {

@@ -1,6 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
-
-export type AppointmentEventKind = 'booked' | 'moved' | 'cancelled' | 'confirmed' | 'rebook-requested'
+import type { AppointmentEventKind } from '../../shared/appointments/views'
 
 /** The history of one appointment: each booking, move, cancellation and patient reply. */
 export class AppointmentEvent extends Model<InferAttributes<AppointmentEvent>, InferCreationAttributes<AppointmentEvent>> {

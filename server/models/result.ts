@@ -1,11 +1,11 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
 import type { StoredAnalyte } from '../../shared/pathway'
+import type { ResultStatus } from '../../shared/pathway/views'
 
 /** How a result arrived: typed in, derived by the server, or imported (CSV or FHIR batch). */
 export type ResultSource = 'manual' | 'derived' | 'lab-csv' | 'fhir' | 'hl7'
 
-/** A laboratory's status for the value (HL7 v2 OBX-11): only final and corrected values are screened. */
-export type ResultStatus = 'final' | 'corrected' | 'preliminary'
+export type { ResultStatus }
 
 /** A laboratory value: stored canonical, with what was reported kept beside it. */
 export class Result extends Model<InferAttributes<Result>, InferCreationAttributes<Result>> {

@@ -12,7 +12,7 @@ import { recordSecurityEvent } from '../services/securityEvents'
 import { AppError, Forbidden } from '../errors'
 import { hasSecondFactor } from '../services/secondFactor'
 import { endSessionUrl as providerEndSessionUrl } from '../auth/oidcClient'
-import type { SignInAnswer, SignOutAnswer } from '../../shared/auth/views'
+import type { CsrfTokenAnswer, PasswordChanged, SignInAnswer, SignOutAnswer } from '../../shared/auth/views'
 import type { SessionUser } from '../../shared/types'
 
 /** passport regenerates the session id in req.login, so a fixated id is worthless. */
@@ -32,7 +32,8 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
   const api = new ApiRouter('/api/auth')
 
   api.get('/csrf', { access: 'public' }, (req, res) => {
-    res.json({ csrfToken: csrfTokenFor(req) })
+    const answer: CsrfTokenAnswer = { csrfToken: csrfTokenFor(req) }
+    res.json(answer)
   })
 
   api.post('/login', { access: 'public' }, validate(loginSchema), async (req, res, next) => {
@@ -91,7 +92,8 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
     // this one under a new id, so a session id seen before the change is worthless (ASVS 3.3.3).
     await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
     markSignedIn(req)
-    res.json({ user, csrfToken: csrfTokenFor(req) })
+    const answer: PasswordChanged = { user, csrfToken: csrfTokenFor(req) }
+    res.json(answer)
   })
 
   return api

@@ -1,6 +1,7 @@
 import { ApiRouter } from './apiRouter'
 import type { AppContext } from './context'
 import { zoneName, zoneShortName } from '../../shared/appointments/time'
+import type { ClinicProfile } from '../../shared/settings/views'
 
 /**
  * Facts about the clinic the client needs to show times the way patients read them: the zone
@@ -10,7 +11,8 @@ export function clinicProfileRoutes({ config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/clinic-profile')
   api.get('', { access: 'signed-in' }, (_req, res) => {
     const { name, service, phone, timeZone } = config.clinic
-    res.json({ name, service, phone, timeZone, zoneLabel: zoneShortName(timeZone), zoneName: zoneName(timeZone) })
+    const profile: ClinicProfile = { name, service, phone, timeZone, zoneLabel: zoneShortName(timeZone), zoneName: zoneName(timeZone) }
+    res.json(profile)
   })
   return api
 }

@@ -7,6 +7,7 @@ import { ADULT_AGE_YEARS } from '../../shared/clinical'
 import { checkGivenDose } from '../../shared/clinic/doseCheck'
 import type { AdministrationInput } from '../../shared/schemas/clinic'
 import type { Reaction } from '../models/administration'
+import type { AdministrationView, RecordedAdministration } from '../../shared/clinic/views'
 import { recordAudit } from './audit'
 import { getClinicSettings } from './clinicSettings'
 import { loadReferral } from './episode'
@@ -19,9 +20,9 @@ import { NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
 
 
-export function toAdministrationView(a: Administration & { giver?: User | null }) {
+export function toAdministrationView(a: Administration & { giver?: User | null }): AdministrationView {
   return {
-    id: a.id, prescriptionId: a.prescriptionId, doseMg: a.doseMg, givenAt: isoOrNull(a.givenAt), batchNumber: a.batchNumber,
+    id: a.id, prescriptionId: a.prescriptionId, doseMg: a.doseMg, givenAt: isoOrNull(a.givenAt)!, batchNumber: a.batchNumber,
     reaction: a.reaction, reactionNotes: a.reactionNotes, overrideReason: a.overrideReason ?? null, giver: a.giver ? { id: a.giver.id, name: a.giver.name } : null,
   }
 }
@@ -33,7 +34,12 @@ export function toAdministrationView(a: Administration & { giver?: User | null }
  * pathway table allows this role that move, and the re-check is scheduled
  * the clinic's configured number of days after this (the latest) dose.
  */
-export async function recordAdministration(sequelize: Sequelize, viewer: Viewer, referralId: number, input: AdministrationInput) {
+export async function recordAdministration(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: AdministrationInput,
+): Promise<RecordedAdministration> {
   const settings = await getClinicSettings()
   return sequelize.transaction(async (t) => {
     const r = await loadReferral(viewer, referralId, t, true)
@@ -83,7 +89,7 @@ export async function recordAdministration(sequelize: Sequelize, viewer: Viewer,
   })
 }
 
-export async function listAdministrations(viewer: Viewer, referralId: number) {
+export async function listAdministrations(viewer: Viewer, referralId: number): Promise<AdministrationView[]> {
   const r = await loadReferral(viewer, referralId)
   await recordAudit(null, viewer, { action: 'view', entity: 'administrations', entityId: referralId, patientId: r.patientId })
   const rows = await Administration.findAll({ where: { referralId }, include: [{ model: User, as: 'giver', attributes: ['id', 'name'] }], order: [['givenAt', 'DESC']] })

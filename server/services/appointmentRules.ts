@@ -1,3 +1,4 @@
+import type { SlotSuggestion } from '../../shared/appointments/views'
 import { Op, type Transaction } from 'sequelize'
 import { Appointment, InfusionSession } from '../models/index'
 import { freeSlots, localDate, localTime, peakOverlap, type SessionLoad, type Span } from '../../shared/appointments'
@@ -47,7 +48,14 @@ async function sessionLoads(t: Transaction, sessions: InfusionSession[], exclude
 }
 
 /** The next free chairs from the wanted time on, to offer with a refusal. */
-async function suggestions(t: Transaction, patientId: number, wanted: Span, durationMin: number, timeZone: string, excludeId?: number) {
+async function suggestions(
+  t: Transaction,
+  patientId: number,
+  wanted: Span,
+  durationMin: number,
+  timeZone: string,
+  excludeId?: number,
+): Promise<SlotSuggestion[]> {
   const sessions = await InfusionSession.findAll({
     where: { endsAt: { [Op.gt]: new Date(wanted.startMs) }, startsAt: { [Op.lt]: new Date(wanted.startMs + SUGGEST_WEEKS * 7 * 86_400_000) } },
     order: [['startsAt', 'ASC']],

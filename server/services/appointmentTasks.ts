@@ -3,13 +3,15 @@ import type { Sequelize } from 'sequelize'
 import { Appointment, AppointmentTask, Patient } from '../models/index'
 import { KIND_INFO } from '../../shared/appointments'
 import type { TaskQuery } from '../../shared/schemas/appointments'
+import type { CompletedTask, PatientTask } from '../../shared/appointments/views'
+import type { Rows } from '../../shared/types'
 import { Conflict, NotFound } from '../errors'
 import { recordAudit } from './audit'
 import type { Viewer } from './viewer'
 import { isoOrNull } from './viewer'
 
 /** Patients' requests waiting for a nurse, oldest first so nobody waits longest by accident. */
-export async function listTasks(q: TaskQuery) {
+export async function listTasks(q: TaskQuery): Promise<Rows<PatientTask>> {
   const rows = await AppointmentTask.findAll({
     where: { status: q.status },
     include: [
@@ -35,7 +37,7 @@ export async function listTasks(q: TaskQuery) {
   }
 }
 
-export async function completeTask(sequelize: Sequelize, viewer: Viewer, id: number) {
+export async function completeTask(sequelize: Sequelize, viewer: Viewer, id: number): Promise<CompletedTask> {
   await sequelize.transaction(async (t) => {
     const task = await AppointmentTask.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
     if (!task) throw new NotFound('Task')
@@ -43,5 +45,5 @@ export async function completeTask(sequelize: Sequelize, viewer: Viewer, id: num
     await task.update({ status: 'done', doneAt: new Date(), doneBy: viewer.userId }, { transaction: t })
     await recordAudit(t, viewer, { action: 'complete', entity: 'appointment-task', entityId: id, patientId: task.patientId, after: { status: 'done' } })
   })
-  return { id, status: 'done' as const }
+  return { id, status: 'done' }
 }

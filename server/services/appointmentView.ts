@@ -1,15 +1,17 @@
 import type { InferAttributes } from 'sequelize'
 import type { Appointment, AppointmentEvent, OutboxMessage, Patient } from '../models/index'
-import { KIND_INFO, APPOINTMENT_STATUS_LABELS, type AppointmentStatus, type MessageKind } from '../../shared/appointments'
+import { KIND_INFO, APPOINTMENT_STATUS_LABELS, type AppointmentStatus } from '../../shared/appointments'
 import type { AppointmentSnapshot } from '../mail/snapshot'
+import type { AppointmentView, MessageStatusView } from '../../shared/appointments/views'
 import { isoOrNull } from './viewer'
 
 type AppointmentRow = InferAttributes<Appointment>
 
-export interface MessageStatusView { id: number; kind: MessageKind; status: string; attempts: number; sentAt: string | null; lastError: string | null }
-
 /** The appointment as the API returns it; events and messages when the caller loaded them. */
-export function appointmentView(a: AppointmentRow, extra: { events?: InferAttributes<AppointmentEvent>[]; messages?: InferAttributes<OutboxMessage>[] } = {}) {
+export function appointmentView(
+  a: AppointmentRow,
+  extra: { events?: InferAttributes<AppointmentEvent>[]; messages?: InferAttributes<OutboxMessage>[] } = {},
+): AppointmentView {
   return {
     id: a.id,
     referralId: a.referralId,
@@ -40,7 +42,6 @@ export function appointmentView(a: AppointmentRow, extra: { events?: InferAttrib
     ...(extra.messages ? { messages: extra.messages.map(messageStatusView) } : {}),
   }
 }
-export type AppointmentView = ReturnType<typeof appointmentView>
 
 export function messageStatusView(m: InferAttributes<OutboxMessage>): MessageStatusView {
   return { id: m.id, kind: m.kind, status: m.status, attempts: m.attempts, sentAt: isoOrNull(m.sentAt), lastError: m.lastError ?? null }

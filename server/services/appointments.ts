@@ -1,3 +1,5 @@
+import type { AppointmentView, BookingResult } from '../../shared/appointments/views'
+import type { Rows } from '../../shared/types'
 import type { InferAttributes } from 'sequelize'
 import type { Sequelize, Transaction } from 'sequelize'
 import type { Config } from '../config'
@@ -33,7 +35,12 @@ async function lockedPatient(t: Transaction, patientId: number): Promise<Patient
   return p
 }
 
-export async function bookAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, input: CreateAppointmentInput) {
+export async function bookAppointment(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  input: CreateAppointmentInput,
+): Promise<BookingResult> {
   const referral = await Referral.findByPk(input.referralId, { raw: true })
   if (!referral) throw new Invalid('referralId does not match an episode', { referralId: 'must be an existing referral' })
   assertMaySeeReferral(viewer, referral.surgeonId)
@@ -67,7 +74,13 @@ async function lockedAppointment(t: Transaction, viewer: Viewer, id: number): Pr
   return a
 }
 
-export async function moveAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: MoveAppointmentInput) {
+export async function moveAppointment(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  id: number,
+  input: MoveAppointmentInput,
+): Promise<BookingResult> {
   return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const a = await lockedAppointment(t, viewer, id)
     if (a.version !== input.version) throw staleVersion('This appointment')
@@ -100,7 +113,13 @@ export async function moveAppointment(sequelize: Sequelize, config: Config, view
   })
 }
 
-export async function cancelAppointment(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: CancelAppointmentInput) {
+export async function cancelAppointment(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  id: number,
+  input: CancelAppointmentInput,
+): Promise<BookingResult> {
   return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const a = await lockedAppointment(t, viewer, id)
     if (a.status === 'cancelled') throw new Conflict('This appointment is already cancelled', 'already_cancelled')
@@ -117,7 +136,7 @@ export async function cancelAppointment(sequelize: Sequelize, config: Config, vi
   })
 }
 
-async function withHistory(rows: InferAttributes<Appointment>[]) {
+async function withHistory(rows: InferAttributes<Appointment>[]): Promise<AppointmentView[]> {
   const ids = rows.map((r) => r.id)
   const [events, messages] = await Promise.all([
     ids.length ? AppointmentEvent.findAll({ where: { appointmentId: ids }, order: [['at', 'ASC'], ['id', 'ASC']], raw: true }) : [],
@@ -126,7 +145,7 @@ async function withHistory(rows: InferAttributes<Appointment>[]) {
   return rows.map((r) => appointmentView(r, { events: events.filter((e) => e.appointmentId === r.id), messages: messages.filter((m) => m.appointmentId === r.id) }))
 }
 
-export async function listReferralAppointments(viewer: Viewer, referralId: number) {
+export async function listReferralAppointments(viewer: Viewer, referralId: number): Promise<Rows<AppointmentView>> {
   const referral = await Referral.findByPk(referralId, { raw: true })
   if (!referral) throw new NotFound('Referral')
   assertMaySeeReferral(viewer, referral.surgeonId)
@@ -135,7 +154,7 @@ export async function listReferralAppointments(viewer: Viewer, referralId: numbe
   return { rows: await withHistory(rows) }
 }
 
-export async function getAppointment(viewer: Viewer, id: number) {
+export async function getAppointment(viewer: Viewer, id: number): Promise<AppointmentView> {
   const a = await Appointment.findByPk(id, { raw: true })
   if (!a) throw new NotFound('Appointment')
   const referral = await Referral.findByPk(a.referralId, { raw: true })

@@ -1,3 +1,4 @@
+import type { AuditPage, AuditRow } from '../../shared/audit/views'
 import { Op, type WhereOptions } from 'sequelize'
 import { AuditEntry, Patient, User } from '../models/index'
 import { recordAudit, type Actor } from './audit'
@@ -50,10 +51,11 @@ function whereOf(q: AuditQuery): WhereOptions {
   return where as WhereOptions
 }
 
-function toRow(e: AuditEntry & { user?: User | null }) {
+function toRow(e: AuditEntry & { user?: User | null }): AuditRow {
   return {
     id: Number(e.id), at: e.at.toISOString(), user: e.user ? { id: e.user.id, name: e.user.name } : null, action: e.action, entity: e.entity,
-    entityId: e.entityId, patientId: e.patientId, before: e.before, after: e.after, requestId: e.requestId,
+    entityId: e.entityId, patientId: e.patientId,
+    before: e.before as AuditRow['before'], after: e.after as AuditRow['after'], requestId: e.requestId,
   }
 }
 
@@ -61,7 +63,7 @@ function toRow(e: AuditEntry & { user?: User | null }) {
  * Searches the log, newest first. Reading the log is itself logged (after the search, so the
  * page shows the log as it was when asked).
  */
-export async function searchAudit(actor: Actor, q: AuditQuery, exportAll = false) {
+export async function searchAudit(actor: Actor, q: AuditQuery, exportAll = false): Promise<AuditPage> {
   const where = whereOf(q) as Record<string, unknown>
   // An administrator filters by MRN without reading the record: the id stays on the server.
   if (q.mrn !== null) {

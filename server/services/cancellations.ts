@@ -7,6 +7,7 @@ import { loadReferral } from './episode'
 import { referralDetail } from './referralDetail'
 import { staleVersion, type Viewer } from './viewer'
 import { RuleRefused } from '../errors'
+import type { ReferralDetail } from '../../shared/pathway/views'
 
 // Once the operation is done or the episode has left the pathway there is no planned operation to cancel.
 const NO_PLANNED_OPERATION = new Set(['operated', 'withdrawn', 'closed'])
@@ -16,7 +17,12 @@ const NO_PLANNED_OPERATION = new Set(['operated', 'withdrawn', 'closed'])
  * the episode as the one that was cancelled; setting a new date (a move with its own reason)
  * rebooks it. Cancellations for anaemia are counted by the quality report.
  */
-export async function cancelPlannedOperation(sequelize: Sequelize, viewer: Viewer, id: number, input: CancelOperationInput) {
+export async function cancelPlannedOperation(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  id: number,
+  input: CancelOperationInput,
+): Promise<ReferralDetail> {
   await sequelize.transaction(async (t) => {
     const r = await loadReferral(viewer, id, t, true)
     if (r.version !== input.version) throw staleVersion('This referral')

@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize'
 import { ClinicReview, Referral, User } from '../models/index'
 import { DIAGNOSIS_LABELS } from '../../shared/clinic/diagnoses'
 import type { ReviewInput } from '../../shared/schemas/clinic'
+import type { ClinicReviewView, RecordedReview } from '../../shared/clinic/views'
 import { isReadOnly } from '../../shared/pathway'
 import { recordAudit } from './audit'
 import { loadReferral } from './episode'
@@ -9,20 +10,20 @@ import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
 
-export function toReviewView(r: ClinicReview & { reviewer?: User | null }) {
+export function toReviewView(r: ClinicReview & { reviewer?: User | null }): ClinicReviewView {
   return {
     id: r.id,
     diagnosis: r.diagnosis,
     diagnosisLabel: DIAGNOSIS_LABELS[r.diagnosis],
     notes: r.notes,
     plan: r.plan,
-    reviewedAt: isoOrNull(r.reviewedAt),
+    reviewedAt: isoOrNull(r.reviewedAt)!,
     reviewer: r.reviewer ? { id: r.reviewer.id, name: r.reviewer.name } : null,
   }
 }
 
 /** A clinic doctor's review: working diagnosis, plan, and whether heart disease sets the 80 g/L trigger. */
-export async function recordReview(sequelize: Sequelize, viewer: Viewer, referralId: number, input: ReviewInput) {
+export async function recordReview(sequelize: Sequelize, viewer: Viewer, referralId: number, input: ReviewInput): Promise<RecordedReview> {
   return sequelize.transaction(async (t) => {
     const r = await loadReferral(viewer, referralId, t, true)
     if (r.version !== input.version) throw staleVersion('This referral')
@@ -46,7 +47,7 @@ export async function recordReview(sequelize: Sequelize, viewer: Viewer, referra
   })
 }
 
-export async function listReviews(viewer: Viewer, referralId: number) {
+export async function listReviews(viewer: Viewer, referralId: number): Promise<ClinicReviewView[]> {
   const r = await loadReferral(viewer, referralId)
   await recordAudit(null, viewer, { action: 'view', entity: 'clinic-reviews', entityId: referralId, patientId: r.patientId })
   const rows = await ClinicReview.findAll({ where: { referralId }, include: [{ model: User, as: 'reviewer', attributes: ['id', 'name'] }], order: [['reviewedAt', 'DESC']] })

@@ -5,6 +5,8 @@ import { Appointment, InfusionSession } from '../models/index'
 import { localDate, localTime, peakOverlap, zonedToUtc } from '../../shared/appointments'
 import type { CreateInfusionSessionInput, SessionRangeQuery, UpdateInfusionSessionInput } from '../../shared/schemas/appointments'
 import { addDays } from '../../shared/pathway'
+import type { InfusionSessionView } from '../../shared/appointments/views'
+import type { Rows } from '../../shared/types'
 import { Conflict, Invalid, NotFound } from '../errors'
 import { LIMITS, windowTooLong } from '../../shared/limits'
 import { recordAudit, changedFields } from './audit'
@@ -14,7 +16,7 @@ import { clinicToday } from './clinicDay'
 type Row = InferAttributes<InfusionSession>
 
 /** Sessions are entered and shown in the clinic's wall-clock time; stored as instants. */
-function view(s: Row, tz: string, booked: { startsAt: Date; endsAt: Date }[]) {
+function view(s: Row, tz: string, booked: { startsAt: Date; endsAt: Date }[]): InfusionSessionView {
   const span = (x: { startsAt: Date; endsAt: Date }) => ({ startMs: new Date(x.startsAt).getTime(), endMs: new Date(x.endsAt).getTime() })
   const peak = peakOverlap(booked.map(span), span(s))
   return {
@@ -29,7 +31,7 @@ async function bookingsOf(ids: number[]) {
   return Appointment.findAll({ where: { infusionSessionId: ids, status: { [Op.ne]: 'cancelled' } }, attributes: ['infusionSessionId', 'startsAt', 'endsAt'], raw: true })
 }
 
-export async function listInfusionSessions(config: Config, q: SessionRangeQuery) {
+export async function listInfusionSessions(config: Config, q: SessionRangeQuery): Promise<Rows<InfusionSessionView>> {
   const tz = config.clinic.timeZone
   const fromDay = q.from || clinicToday()
   const toDay = q.to || addDays(fromDay, 28)
@@ -49,7 +51,12 @@ function instants(date: string, startTime: string, endTime: string, tz: string) 
   return { startsAt, endsAt }
 }
 
-export async function createInfusionSession(sequelize: Sequelize, config: Config, viewer: Viewer, input: CreateInfusionSessionInput) {
+export async function createInfusionSession(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  input: CreateInfusionSessionInput,
+): Promise<InfusionSessionView> {
   const tz = config.clinic.timeZone
   const times = instants(input.date, input.startTime, input.endTime, tz)
   const row = await sequelize.transaction(async (t) => {
@@ -64,7 +71,13 @@ export async function createInfusionSession(sequelize: Sequelize, config: Config
  * Chairs may not drop below the most patients booked at once, and booked patients must still
  * fit inside the session's new hours; otherwise someone would lose a chair without being told.
  */
-export async function updateInfusionSession(sequelize: Sequelize, config: Config, viewer: Viewer, id: number, input: UpdateInfusionSessionInput) {
+export async function updateInfusionSession(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  id: number,
+  input: UpdateInfusionSessionInput,
+): Promise<InfusionSessionView> {
   const tz = config.clinic.timeZone
   const row = await sequelize.transaction(async (t) => {
     const s = await InfusionSession.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })

@@ -1,3 +1,5 @@
+import type { OutboxRow, QueuedMessage } from '../../shared/appointments/views'
+import type { Rows } from '../../shared/types'
 import type { InferAttributes } from 'sequelize'
 import { Op, type Transaction, type WhereOptions } from 'sequelize'
 import { OutboxMessage, Patient } from '../models/index'
@@ -21,7 +23,7 @@ export interface Enqueue {
  * Writes the message inside the caller's transaction: it exists exactly when the change it
  * reports was committed. Returns null when the patient has no e-mail address on file.
  */
-export async function enqueueMessage(t: Transaction, config: Config, m: Enqueue): Promise<{ id: number; status: string } | null> {
+export async function enqueueMessage(t: Transaction, config: Config, m: Enqueue): Promise<QueuedMessage | null> {
   if (!m.snapshot.email) return null
   const row = await OutboxMessage.create(
     {
@@ -41,7 +43,7 @@ export async function enqueueMessage(t: Transaction, config: Config, m: Enqueue)
 }
 
 /** What staff see of each patient message: who it went to, what it was and how it went. */
-export async function listOutbox(q: OutboxQuery) {
+export async function listOutbox(q: OutboxQuery): Promise<Rows<OutboxRow>> {
   const where: WhereOptions<OutboxMessage> = {}
   if (q.status) Object.assign(where, { status: q.status })
   if (q.referralId) Object.assign(where, { referralId: q.referralId })

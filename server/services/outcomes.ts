@@ -3,18 +3,21 @@ import { Outcome, Referral } from '../models/index'
 import { isReadOnly } from '../../shared/pathway'
 import type { FollowUpInput, OutcomeInput } from '../../shared/schemas/outcomes'
 import { outcomeWarnings } from '../../shared/reports/outcomeWarnings'
+import type { FollowUpRecorded, OutcomeRead, OutcomeView, TxaTiming } from '../../shared/outcomes/views'
 import { changedFields, recordAudit } from './audit'
 import { loadReferral, type LoadedReferral } from './episode'
 import { redCellUnitsByPhase } from './transfusionCounts'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 
-function toOutcomeView(o: Outcome) {
+function toOutcomeView(o: Outcome): OutcomeView {
   return {
     id: o.id, referralId: o.referralId, surgeryDate: o.surgeryDate, bloodLossMl: o.bloodLossMl,
     unitsTransfusedIntraOp: o.unitsTransfusedIntraOp, unitsTransfusedPostOp: o.unitsTransfusedPostOp, unitsCrossmatched: o.unitsCrossmatched,
     lowestHbGL: o.lowestHbGL, dischargeHbGL: o.dischargeHbGL, lengthOfStayDays: o.lengthOfStayDays, complications: o.complications,
-    tranexamicAcidGiven: o.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: o.tranexamicAcidDoseMg ?? null, tranexamicAcidTiming: o.tranexamicAcidTiming ?? null,
+    tranexamicAcidGiven: o.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: o.tranexamicAcidDoseMg ?? null,
+    // Stored only after the outcome schema accepted it as one of TXA_TIMINGS.
+    tranexamicAcidTiming: (o.tranexamicAcidTiming as TxaTiming | null) ?? null,
     cellSalvageUsed: o.cellSalvageUsed ?? null, cellSalvageReturnedMl: o.cellSalvageReturnedMl ?? null,
     transfusionInformationGiven: o.transfusionInformationGiven ?? null, transfusionConsent: o.transfusionConsent ?? null, postOperativeIronGiven: o.postOperativeIronGiven ?? null,
     followUp: o.followUpAt == null ? null : {
@@ -23,7 +26,6 @@ function toOutcomeView(o: Outcome) {
     },
   }
 }
-type OutcomeView = ReturnType<typeof toOutcomeView>
 
 /**
  * The checks every post-operative write makes, in the order moveReferral uses: a stale version
@@ -44,7 +46,7 @@ export async function bumpVersion(t: Transaction, r: Referral): Promise<number> 
 }
 
 /** Records (or corrects) the post-operative record; values outside the expected range are saved with warnings. */
-export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referralId: number, input: OutcomeInput) {
+export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referralId: number, input: OutcomeInput): Promise<OutcomeRead> {
   return sequelize.transaction(async (t) => {
     const r = await lockForWrite(t, viewer, referralId, input.version)
     if (input.surgeryDate < r.createdAt.toISOString().slice(0, 10)) {
@@ -80,7 +82,12 @@ export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referr
 }
 
 /** The follow-up after discharge: needs the post-operative record first. */
-export async function recordFollowUp(sequelize: Sequelize, viewer: Viewer, referralId: number, input: FollowUpInput) {
+export async function recordFollowUp(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: FollowUpInput,
+): Promise<FollowUpRecorded> {
   return sequelize.transaction(async (t) => {
     const r = await lockForWrite(t, viewer, referralId, input.version)
     const o = await Outcome.findOne({ where: { referralId }, transaction: t })
@@ -100,7 +107,7 @@ export async function recordFollowUp(sequelize: Sequelize, viewer: Viewer, refer
   })
 }
 
-export async function getOutcome(viewer: Viewer, referralId: number) {
+export async function getOutcome(viewer: Viewer, referralId: number): Promise<OutcomeRead> {
   const r = await loadReferral(viewer, referralId)
   const o = await Outcome.findOne({ where: { referralId } })
   if (!o) throw new NotFound('Post-operative record')

@@ -3,33 +3,13 @@ import { Patient, PatientMeasurement, Procedure, Referral } from '../models/inde
 import type { CreatePatientInput, UpdatePatientInput } from '../../shared/schemas/patients'
 import { ageOn, STAGE_LABELS } from '../../shared/pathway'
 import type { Sex } from '../../shared/clinical'
+import type { PatientRecord, PatientSummary, PatientView } from '../../shared/pathway/views'
 import { recordAudit, changedFields, type Actor } from './audit'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Conflict, Forbidden, Invalid, NotFound } from '../errors'
 import { clinicToday } from './clinicDay'
 import { worklistChanged } from './worklistCounts'
 import { unitOfWork } from '../unitOfWork'
-
-export interface PatientView {
-  id: number
-  mrn: string
-  givenName: string
-  familyName: string
-  dateOfBirth: string
-  ageYears: number
-  sex: Sex
-  email: string | null
-  phone: string | null
-  gpPractice: string | null
-  notes: string | null
-  heightCm: number | null
-  heightMeasuredAt: string | null
-  weightKg: number | null
-  weightMeasuredAt: string | null
-  version: number
-  createdAt: string
-  updatedAt: string
-}
 
 /** The latest height and the latest weight, each with the date it was measured. */
 export async function currentBody(patientId: number, t?: Transaction) {
@@ -120,7 +100,7 @@ async function assertMaySeePatient(viewer: Viewer, patientId: number): Promise<v
 }
 
 /** The patient's record with measurement history and episodes; the read itself is audited. */
-export async function getPatient(viewer: Viewer, id: number) {
+export async function getPatient(viewer: Viewer, id: number): Promise<PatientRecord> {
   const p = await Patient.findByPk(id)
   if (!p) throw new NotFound('Patient')
   await assertMaySeePatient(viewer, id)
@@ -174,7 +154,7 @@ export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: nu
 }
 
 /** Find-as-you-type for the referral form: by MRN or name prefix; surgeons see their own only. */
-export async function searchPatients(viewer: Viewer, q: string) {
+export async function searchPatients(viewer: Viewer, q: string): Promise<PatientSummary[]> {
   const like = `${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
   const own =
     viewer.role === 'surgeon'

@@ -7,6 +7,7 @@ import { checkDosesAgainstCaps } from '../../shared/clinic/doseCheck'
 import { IV_IRON_CAUTIONS, positiveCautions, type CautionAnswers } from '../../shared/clinic/cautions'
 import { DECISION_SUPPORT_CAUTION } from '../../shared/clinic/readiness'
 import type { DosePlanPreviewInput, PrescriptionInput } from '../../shared/schemas/clinic'
+import type { DosePlanPreview, PrescriptionView, RecordedPrescription } from '../../shared/clinic/views'
 import { ageOn, daysBetween, isReadOnly } from '../../shared/pathway'
 import { clinicToday } from './clinicDay'
 import { recordAudit } from './audit'
@@ -35,7 +36,7 @@ async function phosphateNeeded(r: LoadedReferral, product: IronProduct): Promise
 }
 
 /** The figures a dose is computed from; a missing one is a 422 that names it, never a default. */
-async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
+async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput): Promise<DosePlanPreview> {
   const [facts, settings, productRow] = await Promise.all([clinicalFacts(r), getClinicSettings(), findProduct(input.productCode)])
   if (facts.body.weightKg == null) throw new RuleRefused('Record the patient\'s weight before prescribing iron', 'weight_missing', { weightKg: 'is missing' })
   const latestHb = facts.hb[facts.hb.length - 1]
@@ -77,21 +78,26 @@ async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput) {
   }
 }
 
-export async function previewDosePlan(viewer: Viewer, referralId: number, input: DosePlanPreviewInput) {
+export async function previewDosePlan(viewer: Viewer, referralId: number, input: DosePlanPreviewInput): Promise<DosePlanPreview> {
   return doseInputs(await loadReferral(viewer, referralId), input)
 }
 
-export function toPrescriptionView(p: Prescription & { prescriber?: User | null }) {
+export function toPrescriptionView(p: Prescription & { prescriber?: User | null }): PrescriptionView {
   return {
     id: p.id, productCode: p.productCode, route: p.route, weightKg: p.weightKg, hbGL: p.hbGL, targetHbGL: p.targetHbGL,
     deficitMg: p.deficitMg, totalMg: p.totalMg, firstDoseDate: p.firstDoseDate, doses: p.plan.doses, warnings: p.plan.warnings,
     oralSchedule: p.plan.oralSchedule ?? null, cautions: p.cautions, overrideReason: p.overrideReason, status: p.status,
-    prescribedAt: isoOrNull(p.prescribedAt), prescriber: p.prescriber ? { id: p.prescriber.id, name: p.prescriber.name } : null,
+    prescribedAt: isoOrNull(p.prescribedAt)!, prescriber: p.prescriber ? { id: p.prescriber.id, name: p.prescriber.name } : null,
   }
 }
 
 /** Saves a prescription after re-computing it and re-checking every dose against the caps. */
-export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId: number, input: PrescriptionInput) {
+export async function prescribe(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: PrescriptionInput,
+): Promise<RecordedPrescription> {
   const r = await loadReferral(viewer, referralId)
   if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
   const computed = await doseInputs(r, input)
@@ -141,7 +147,7 @@ export async function prescribe(sequelize: Sequelize, viewer: Viewer, referralId
   })
 }
 
-export async function listPrescriptions(viewer: Viewer, referralId: number) {
+export async function listPrescriptions(viewer: Viewer, referralId: number): Promise<PrescriptionView[]> {
   const r = await loadReferral(viewer, referralId)
   await recordAudit(null, viewer, { action: 'view', entity: 'prescriptions', entityId: referralId, patientId: r.patientId })
   const rows = await Prescription.findAll({ where: { referralId }, include: [{ model: User, as: 'prescriber', attributes: ['id', 'name'] }], order: [['prescribedAt', 'DESC']] })

@@ -1,22 +1,10 @@
 import { UniqueConstraintError, type Sequelize } from 'sequelize'
 import { Procedure } from '../models/index'
 import type { CreateProcedureInput, UpdateProcedureInput } from '../../shared/schemas/procedures'
-import type { BloodOrder } from '../../shared/pathway'
+import type { ProcedureView } from '../../shared/pathway/views'
 import { recordAudit, changedFields, type Actor } from './audit'
 import { Conflict, NotFound } from '../errors'
 import { worklistChanged } from './worklistCounts'
-
-export interface ProcedureView {
-  code: string
-  name: string
-  specialty: string
-  expectedBloodLossMl: number | null
-  transfusionRate: number | null
-  usualBloodOrder: BloodOrder
-  usualUnits: number
-  source: string
-  active: boolean
-}
 
 export function toProcedureView(p: Procedure | ProcedureView): ProcedureView {
   return {

@@ -3,6 +3,8 @@ import { Patient, Procedure, ReadinessReview, Referral, User } from '../models/i
 import { PRE_OPERATIVE_STAGES, STAGE_LABELS, addDays, daysBetween, referralFlags, FLAG_LABELS } from '../../shared/pathway'
 import { READINESS_FLAG_LABELS, VERDICT_LABELS } from '../../shared/clinic/readiness'
 import type { ReadinessActionInput } from '../../shared/schemas/clinic'
+import type { Projection } from '../../shared/clinic/projection'
+import type { ReadinessAnswer, ReadinessReviewView, ReadinessRow } from '../../shared/clinic/views'
 import { recordAudit } from './audit'
 import { loadReferral, type LoadedReferral } from './episode'
 import { projectionForReferral } from './projection'
@@ -16,12 +18,12 @@ export interface BoardQuery { from?: string; to?: string; procedureCode?: string
 
 const BOARD_WEEKS = 8
 
-function reviewView(r: ReadinessReview | null) {
-  return r ? { action: r.action, reason: r.reason, at: isoOrNull(r.at) } : null
+function reviewView(r: ReadinessReview | null): ReadinessRow['lastReview'] {
+  return r ? { action: r.action, reason: r.reason, at: isoOrNull(r.at)! } : null
 }
 
 /** The readiness board: episodes with surgery in the window (default the next 8 weeks), each projected. */
-export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
+export async function readinessBoard(viewer: Viewer, q: BoardQuery): Promise<ReadinessRow[]> {
   const today = clinicToday()
   const from = q.from ?? today
   const to = q.to ?? addDays(from, BOARD_WEEKS * 7)
@@ -52,7 +54,7 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
   const latestReview = new Map<number, ReadinessReview>()
   for (const rv of reviews) if (!latestReview.has(rv.referralId)) latestReview.set(rv.referralId, rv)
 
-  return Promise.all(rows.map(async (r) => {
+  return Promise.all(rows.map(async (r): Promise<ReadinessRow> => {
     const flags = referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, today, clinicTimeZone())
     const base = {
       id: r.id, version: r.version, stage: r.stage, stageLabel: STAGE_LABELS[r.stage], priority: r.priority,
@@ -82,7 +84,12 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery) {
  * The operating surgeon acknowledges the plan or asks for the date to move. The projection is
  * stored as it was at that moment, so later results never rewrite what the surgeon saw.
  */
-export async function recordReadinessAction(sequelize: Sequelize, viewer: Viewer, referralId: number, input: ReadinessActionInput) {
+export async function recordReadinessAction(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: ReadinessActionInput,
+): Promise<ReadinessAnswer> {
   const r = await loadReferral(viewer, referralId)
   if (r.surgeonId !== viewer.userId) throw new Forbidden('Only the operating surgeon can answer for this episode', 'not_your_patient')
   const projection = await projectionForReferral(r)
@@ -95,13 +102,16 @@ export async function recordReadinessAction(sequelize: Sequelize, viewer: Viewer
       action, entity: 'readiness', entityId: review.id, patientId: r.patientId,
       after: { verdict: projection.readiness.verdict, reason: input.reason ?? null, predictedSurgeryHbGL: projection.predictedSurgeryHbGL },
     })
-    return { id: review.id, action, reason: review.reason, at: isoOrNull(review.at), projection }
+    return { id: review.id, action, reason: review.reason, at: isoOrNull(review.at)!, projection }
   })
 }
 
-export async function listReadinessReviews(viewer: Viewer, referralId: number) {
+export async function listReadinessReviews(viewer: Viewer, referralId: number): Promise<ReadinessReviewView[]> {
   const r = await loadReferral(viewer, referralId)
   await recordAudit(null, viewer, { action: 'view', entity: 'readiness-reviews', entityId: referralId, patientId: r.patientId })
   const rows = await ReadinessReview.findAll({ where: { referralId }, order: [['at', 'DESC']] })
-  return rows.map((r) => ({ id: r.id, action: r.action, reason: r.reason, at: isoOrNull(r.at), surgeonId: r.surgeonId, projection: r.projection }))
+  // The column holds the Projection recordReadinessAction stored, exactly as the surgeon saw it.
+  return rows.map((r) => ({
+    id: r.id, action: r.action, reason: r.reason, at: isoOrNull(r.at)!, surgeonId: r.surgeonId, projection: r.projection as Projection,
+  }))
 }

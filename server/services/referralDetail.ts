@@ -3,10 +3,11 @@ import { STAGE_LABELS, allowedMoves, daysBetween, isReadOnly, nextAction, referr
 import { DATE_CHANGE_REASON_LABELS } from '../../shared/schemas/referrals'
 import { CANCELLATION_REASON_LABELS, type CancellationReason } from '../../shared/schemas/cancellations'
 import type { DateChangeView } from '../../shared/pathway/dateChanges'
+import type { ReferralDetail, ResultView, TimelineItem } from '../../shared/pathway/views'
 import { recordAudit } from './audit'
 import { toPatientView } from './patients'
 import { toProcedureView } from './procedures'
-import { toResultView, type ResultView } from './results'
+import { toResultView } from './results'
 import { screeningView } from './screening'
 import { assertMaySeeReferral, isoOrNull, type Viewer } from './viewer'
 import { NotFound } from '../errors'
@@ -15,7 +16,7 @@ import { clinicTimeZone, clinicToday } from './clinicDay'
 type Loaded = Referral & { patient: Patient; procedure: Procedure; surgeon: User }
 type TransitionRow = StageTransition & { user?: User | null }
 
-function timelineOf(transitions: TransitionRow[], results: ResultView[]) {
+function timelineOf(transitions: TransitionRow[], results: ResultView[]): TimelineItem[] {
   const moves = transitions.map((s) => ({
     kind: 'transition' as const,
     at: isoOrNull(s.at)!,
@@ -49,7 +50,7 @@ function toDateChangeView(c: SurgeryDateChange): DateChangeView {
  * latest results, flags, the moves this caller may make and the timeline (newest first).
  * `audit: true` records the read (opening a record is audited; returning it after a write is not).
  */
-export async function referralDetail(viewer: Viewer, id: number, opts: { audit?: boolean } = {}) {
+export async function referralDetail(viewer: Viewer, id: number, opts: { audit?: boolean } = {}): Promise<ReferralDetail> {
   const r = (await Referral.findByPk(id, {
     include: [
       { model: Patient, as: 'patient' },

@@ -10,6 +10,7 @@ import { referralDetail } from './referralDetail'
 import { Invalid, NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
 import { unitOfWork } from '../unitOfWork'
+import type { ReferralDetail } from '../../shared/pathway/views'
 
 async function procedureIdFor(code: string): Promise<number> {
   const p = await findActiveProcedure(code)
@@ -40,7 +41,7 @@ function auditable(r: Referral) {
   }
 }
 
-export async function createReferral(sequelize: Sequelize, viewer: Viewer, input: CreateReferralInput) {
+export async function createReferral(sequelize: Sequelize, viewer: Viewer, input: CreateReferralInput): Promise<ReferralDetail> {
   const patient = await Patient.findByPk(input.patientId)
   if (!patient) throw new Invalid('patientId does not match a registered patient', { patientId: 'must be a registered patient' })
   const procedureId = await procedureIdFor(input.procedureCode)
@@ -76,7 +77,12 @@ export async function createReferral(sequelize: Sequelize, viewer: Viewer, input
   return referralDetail(viewer, id)
 }
 
-export async function updateReferral(sequelize: Sequelize, viewer: Viewer, id: number, input: UpdateReferralInput) {
+export async function updateReferral(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  id: number,
+  input: UpdateReferralInput,
+): Promise<ReferralDetail> {
   const procedureId = input.procedureCode ? await procedureIdFor(input.procedureCode) : undefined
   if (input.surgeonId !== undefined) await requireSurgeon(input.surgeonId)
   await unitOfWork(sequelize, { idempotent: true }, async (t) => {

@@ -2,6 +2,7 @@ import { Op, type Sequelize, type Transaction } from 'sequelize'
 import { egfrFromCreatinine, tsatFromSample } from '../../shared/clinic/derivations'
 import { DERIVED_UNITS, ANALYTE_DEFS, dateInZone, isReadOnly, toCanonical, type Analyte } from '../../shared/pathway'
 import type { CreateResultInput } from '../../shared/schemas/results'
+import type { AddedResult, ResultView } from '../../shared/pathway/views'
 import { Patient, Referral, Result, User } from '../models/index'
 import { SCREENABLE_WHERE } from '../models/result'
 import { recordAudit } from './audit'
@@ -10,29 +11,6 @@ import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer
 import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
 import { clinicTimeZone } from './clinicDay'
 import { unitOfWork } from '../unitOfWork'
-
-export interface ResultView {
-  id: number
-  analyte: string
-  value: number
-  unit: string
-  valueReported: number | null
-  unitReported: string | null
-  takenAt: string
-  source: string
-  derivedFrom: number[] | null
-  enteredBy: { id: number; name: string } | null
-  createdAt: string
-  /** final, corrected or preliminary (a laboratory feed's OBX-11); typed-in results are final. */
-  status: string
-  /** '<' etc. when the laboratory reported a value beyond a limit: the value is that limit. */
-  comparator: string | null
-  voidedAt: string | null
-  voidReason: string | null
-  /** The laboratory's reference range (OBX-7) and abnormal flags (OBX-8) as sent; null for values typed in. */
-  referenceRange: string | null
-  abnormalFlags: string | null
-}
 
 export function toResultView(r: Result & { enteredByUser?: User | null }): ResultView {
   return {
@@ -88,7 +66,7 @@ export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dat
  * transaction with its audit row. The referral row is locked so two results arriving at once
  * cannot leave a stale "latest Hb" behind.
  */
-export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId: number, input: CreateResultInput) {
+export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId: number, input: CreateResultInput): Promise<AddedResult> {
   const analyte = input.analyte as Analyte
   return unitOfWork(sequelize, { idempotent: true }, async (t) => {
     const referral = await Referral.findByPk(referralId, { transaction: t, lock: t.LOCK.UPDATE })

@@ -8,6 +8,7 @@ import { screenableSql, SCREENABLE_WHERE } from '../models/result'
 import { isoOrNull } from './viewer'
 import { worklistChanged } from './worklistCounts'
 import { refreshIronResponse } from './ironResponse'
+import type { ScreeningView } from '../../shared/pathway/views'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {
@@ -86,7 +87,7 @@ export async function refreshScreeningMany(sequelize: Sequelize, referralIds: re
   return updated
 }
 
-export function screeningView(r: Referral, sex: Sex) {
+export function screeningView(r: Referral, sex: Sex): ScreeningView {
   // The threshold depends only on criteria and sex; 130 stands in when no Hb exists yet.
   const rule = classifyAnaemia({ hbGL: r.latestHbGL ?? 130, sex, criteria: r.anaemiaCriteria })
   return {

@@ -1,7 +1,6 @@
 import { User } from '../models/index'
 import type { Role } from '../../shared/roles'
-
-export interface StaffOption { id: number; name: string; role: Role }
+import type { StaffOption } from '../../shared/pathway/views'
 
 /** Active staff for pickers (the referral form's surgeon list): names only, no contact details. */
 export async function listActiveStaff(role?: Role): Promise<StaffOption[]> {

@@ -2,7 +2,7 @@ import type { Sequelize, Transaction } from 'sequelize'
 import { Outcome, Transfusion } from '../models/index'
 import { addDays, isReadOnly } from '../../shared/pathway'
 import { aboveThreshold, defaultPhase, reassessedAfterEachUnit, transfusionThreshold, type Component, type Phase, type Threshold } from '../../shared/transfusion/rules'
-import type { TransfusionList, TransfusionView } from '../../shared/transfusion/views'
+import type { TransfusionList, TransfusionView, TransfusionWrite } from '../../shared/transfusion/views'
 import type { EditTransfusionInput, TransfusionInput } from '../../shared/schemas/transfusions'
 import { changedFields, recordAudit } from './audit'
 import { loadReferral, type LoadedReferral } from './episode'
@@ -73,7 +73,12 @@ export async function listTransfusions(viewer: Viewer, referralId: number): Prom
   return { transfusions: rows.map(toTransfusionView), threshold: thresholdOf(r), redCellUnits: await redCellUnitsByPhase(referralId) }
 }
 
-export async function recordTransfusion(sequelize: Sequelize, viewer: Viewer, referralId: number, input: TransfusionInput) {
+export async function recordTransfusion(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  input: TransfusionInput,
+): Promise<TransfusionWrite> {
   return sequelize.transaction(async (t) => {
     const { r, outcome } = await lockForTransfusion(t, viewer, referralId)
     const threshold = thresholdOf(r)
@@ -93,7 +98,13 @@ async function standingRow(t: Transaction, referralId: number, transfusionId: nu
   return row
 }
 
-export async function editTransfusion(sequelize: Sequelize, viewer: Viewer, referralId: number, transfusionId: number, input: EditTransfusionInput) {
+export async function editTransfusion(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  transfusionId: number,
+  input: EditTransfusionInput,
+): Promise<TransfusionWrite> {
   return sequelize.transaction(async (t) => {
     const { r, outcome } = await lockForTransfusion(t, viewer, referralId)
     const row = await standingRow(t, referralId, transfusionId)
@@ -109,7 +120,13 @@ export async function editTransfusion(sequelize: Sequelize, viewer: Viewer, refe
   })
 }
 
-export async function voidTransfusion(sequelize: Sequelize, viewer: Viewer, referralId: number, transfusionId: number, reason: string) {
+export async function voidTransfusion(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  referralId: number,
+  transfusionId: number,
+  reason: string,
+): Promise<TransfusionWrite> {
   return sequelize.transaction(async (t) => {
     const { r } = await lockForTransfusion(t, viewer, referralId)
     const row = await standingRow(t, referralId, transfusionId)

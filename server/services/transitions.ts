@@ -7,6 +7,7 @@ import { referralDetail } from './referralDetail'
 import { assertMaySeeReferral, staleVersion, type Viewer } from './viewer'
 import { Forbidden, NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
+import type { ReferralDetail } from '../../shared/pathway/views'
 
 /**
  * Moves an episode to another stage, enforcing the pathway table in shared/pathway. The checks
@@ -14,7 +15,7 @@ import { worklistChanged } from './worklistCounts'
  * is no longer true), then a read-only episode, a move the pathway does not have, a role that
  * may not make it, a missing reason, a missing result, and a missing follow-up after surgery.
  */
-export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: number, input: TransitionInput) {
+export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: number, input: TransitionInput): Promise<ReferralDetail> {
   const to = input.to as Stage
   const reason = input.reason ?? null
   await sequelize.transaction(async (t) => {

@@ -1,3 +1,4 @@
+import type { CreatedUser, TemporaryPassword } from '../../shared/users/views'
 import { UniqueConstraintError, type Sequelize } from 'sequelize'
 import { User, SessionRow } from '../models/index'
 import type { SessionUser, StaffAccount } from '../../shared/types'
@@ -59,7 +60,12 @@ async function loadUser(id: number): Promise<UserRow> {
   return u
 }
 
-export async function createStaff(sequelize: Sequelize, actor: Actor, input: CreateUserInput, temporaryHours: number) {
+export async function createStaff(
+  sequelize: Sequelize,
+  actor: Actor,
+  input: CreateUserInput,
+  temporaryHours: number,
+): Promise<CreatedUser> {
   const password = temporaryPassword()
   const passwordHash = await hashPassword(password)
   try {
@@ -80,7 +86,7 @@ export async function createStaff(sequelize: Sequelize, actor: Actor, input: Cre
   }
 }
 
-export async function updateStaff(sequelize: Sequelize, actor: Actor, id: number, input: UpdateUserInput) {
+export async function updateStaff(sequelize: Sequelize, actor: Actor, id: number, input: UpdateUserInput): Promise<StaffAccount> {
   if (id === actor.userId && (input.active === false || (input.role && input.role !== 'admin'))) {
     // The last door out of the admin screen must not be closed from inside it.
     throw new RuleRefused('You cannot deactivate yourself or remove your own administrator role')
@@ -101,7 +107,12 @@ export async function updateStaff(sequelize: Sequelize, actor: Actor, id: number
   })
 }
 
-export async function resetStaffPassword(sequelize: Sequelize, actor: Actor, id: number, temporaryHours: number) {
+export async function resetStaffPassword(
+  sequelize: Sequelize,
+  actor: Actor,
+  id: number,
+  temporaryHours: number,
+): Promise<TemporaryPassword> {
   const password = temporaryPassword()
   const passwordHash = await hashPassword(password)
   return sequelize.transaction(async (t) => {

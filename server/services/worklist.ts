@@ -1,7 +1,9 @@
 import type { Sequelize } from 'sequelize'
-import { PRIORITIES, STAGES, STAGE_LABELS, daysBetween, nextAction, referralFlags, type Stage } from '../../shared/pathway'
+import { PRIORITIES, STAGES, STAGE_LABELS, daysBetween, nextAction, referralFlags, type Priority, type Stage } from '../../shared/pathway'
+import type { IronStatus, Sex } from '../../shared/clinical'
 import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals'
 import type { AppointmentKind, AppointmentStatus } from '../../shared/appointments'
+import type { NextAppointment, WorklistPage, WorklistRow } from '../../shared/pathway/views'
 import { isoOrNull, type Viewer } from './viewer'
 import { clinicTimeZone } from './clinicDay'
 import { BY_DATE, countWorklist, quoted, worklistFilter } from './worklistFilter'
@@ -34,11 +36,11 @@ interface WorklistSqlRow {
   id: number
   version: number
   stage: Stage
-  priority: string
+  priority: Priority
   plannedSurgeryDate: string
   latestHbGL: number | null
   latestHbAt: Date | string | null
-  ironStatus: string | null
+  ironStatus: IronStatus | null
   anaemic: number | boolean | null
   proposedStage: Stage | null
   recheckDueDate: string | null
@@ -52,7 +54,7 @@ interface WorklistSqlRow {
   givenName: string
   familyName: string
   dateOfBirth: string
-  sex: string
+  sex: Sex
   procedureCode: string
   procedureName: string
   surgeonId: number
@@ -64,7 +66,7 @@ interface WorklistSqlRow {
  * operation and surgeon) plus a COUNT with the same filter. Surgeons see only their own
  * patients; asking for another surgeon's list is refused rather than silently narrowed.
  */
-export async function worklist(sequelize: Sequelize, viewer: Viewer, q: WorklistQuery) {
+export async function worklist(sequelize: Sequelize, viewer: Viewer, q: WorklistQuery): Promise<WorklistPage> {
   const filter = worklistFilter(viewer, q)
   const { today, whereSql, searchJoins, params } = filter
   const sort = (q.sort ?? 'plannedSurgeryDate') as WorklistSort
@@ -106,8 +108,6 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
   }
 }
 
-export interface NextAppointment { kind: AppointmentKind; startsAt: string; status: AppointmentStatus }
-
 /**
  * Each episode's next visit that is still on, for the page's rows only: one query over the
  * (referral_id, starts_at) index, not one per row, so the worklist stays one round trip wider.
@@ -127,7 +127,7 @@ async function nextAppointments(sequelize: Sequelize, referralIds: number[]): Pr
   return out
 }
 
-function toWorklistRow(row: WorklistSqlRow, today: string) {
+function toWorklistRow(row: WorklistSqlRow, today: string): Omit<WorklistRow, 'nextAppointment'> {
   const anaemic = row.anaemic == null ? null : Boolean(row.anaemic)
   return {
     id: row.id,

@@ -36,3 +36,9 @@ export interface SecondFactorEnrolled { recoveryCodes: string[] }
 
 /** GET /api/auth/second-factor */
 export interface SecondFactorStatus { enabled: boolean; recoveryCodesLeft: number; required: boolean }
+
+/** POST /api/auth/password: every other session ended; this one continues under a new token. */
+export interface PasswordChanged { user: SessionUser; csrfToken: string }
+
+/** GET /api/auth/csrf: the token every write sends back in its X-CSRF-Token header. */
+export interface CsrfTokenAnswer { csrfToken: string }

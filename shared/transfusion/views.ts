@@ -31,3 +31,6 @@ export interface TransfusionList {
   /** Red-cell units by phase, as the post-operative record shows them (voided rows left out). */
   redCellUnits: { beforeSurgery: number; duringSurgery: number; afterSurgery: number }
 }
+
+/** POST, PUT and void of one transfusion: the row and the episode's red-cell units by phase after it. */
+export interface TransfusionWrite { transfusion: TransfusionView; redCellUnits: TransfusionList['redCellUnits'] }

@@ -1,11 +1,7 @@
+import type { AuditPage } from '@shared/audit/views'
 import { api } from './client'
 
 export interface AuditFilters { userId?: number; patientId?: number; mrn?: string; entity?: string; action?: string; from?: string; to?: string; page?: number }
-export interface AuditRow {
-  id: number; at: string; user: { id: number; name: string } | null; action: string; entity: string; entityId: string | null
-  patientId: number | null; before: Record<string, unknown> | null; after: Record<string, unknown> | null; requestId: string | null
-}
-export interface AuditPage { rows: AuditRow[]; total: number; page: number; pageSize: number }
 
 export function auditParams(filters: AuditFilters): URLSearchParams {
   const p = new URLSearchParams()

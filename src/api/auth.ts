@@ -1,5 +1,7 @@
 import type { SessionUser } from '@shared/types'
-import type { SecondFactorEnrolled, SecondFactorEnrolment, SecondFactorStatus, SignInAnswer, SignInProviders, SignOutAnswer } from '@shared/auth/views'
+import type {
+  PasswordChanged, SecondFactorEnrolled, SecondFactorEnrolment, SecondFactorStatus, SignInAnswer, SignInProviders, SignOutAnswer,
+} from '@shared/auth/views'
 import type { ChangePasswordInput, LoginInput } from '@shared/schemas/auth'
 import { api, isApiError, setCsrfToken } from './client'
 
@@ -58,7 +60,7 @@ export async function logout(): Promise<string | null> {
 }
 
 export async function changePassword(input: ChangePasswordInput): Promise<SessionUser> {
-  const { user, csrfToken } = await api.post<{ user: SessionUser; csrfToken: string }>('/auth/password', input)
+  const { user, csrfToken } = await api.post<PasswordChanged>('/auth/password', input)
   // A password change ends every session and opens a new one, with its own token.
   setCsrfToken(csrfToken)
   return user

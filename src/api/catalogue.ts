@@ -1,16 +1,17 @@
 import type { CreateProcedureInput, UpdateProcedureInput } from '@shared/schemas/procedures'
+import type { Rows } from '@shared/types'
 import { api } from './client'
-import type { Procedure } from './pathwayTypes'
+import type { ProcedureView } from '@shared/pathway/views'
 
 /** The whole operations catalogue, retired operations included (the admin page). */
-export async function listAllProcedures(): Promise<Procedure[]> {
-  return (await api.get<{ rows: Procedure[] }>('/procedures?includeInactive=1')).rows
+export async function listAllProcedures(): Promise<ProcedureView[]> {
+  return (await api.get<Rows<ProcedureView>>('/procedures?includeInactive=1')).rows
 }
 
-export function createProcedure(input: CreateProcedureInput): Promise<Procedure> {
-  return api.post<Procedure>('/procedures', input)
+export function createProcedure(input: CreateProcedureInput): Promise<ProcedureView> {
+  return api.post<ProcedureView>('/procedures', input)
 }
 
-export function updateProcedure(code: string, changes: UpdateProcedureInput): Promise<Procedure> {
-  return api.patch<Procedure>(`/procedures/${encodeURIComponent(code)}`, changes)
+export function updateProcedure(code: string, changes: UpdateProcedureInput): Promise<ProcedureView> {
+  return api.patch<ProcedureView>(`/procedures/${encodeURIComponent(code)}`, changes)
 }

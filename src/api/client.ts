@@ -1,3 +1,4 @@
+import type { CsrfTokenAnswer } from '@shared/auth/views'
 import type { ApiErrorBody } from '@shared/types'
 import { parseRetryAfter } from './retryAfter'
 
@@ -39,7 +40,7 @@ export function setCsrfToken(token: string | null): void {
 
 async function ensureCsrfToken(): Promise<string> {
   if (!csrfToken) {
-    const { csrfToken: fresh } = await send<{ csrfToken: string }>('GET', '/auth/csrf')
+    const { csrfToken: fresh } = await send<CsrfTokenAnswer>('GET', '/auth/csrf')
     csrfToken = fresh
   }
   return csrfToken

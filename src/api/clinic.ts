@@ -1,16 +1,19 @@
 import type { AdministrationInput, DosePlanPreviewInput, PrescriptionInput, ReadinessActionInput, ReviewInput } from '@shared/schemas/clinic'
-import { api } from './client'
+import type { Projection } from '@shared/clinic/projection'
 import type {
-  AdministrationView, ClinicReview, DosePlanPreview, PrescriptionView, Projection, ReadinessReview, RecordedAdministration,
-} from './clinicTypes'
+  AdministrationView, ClinicReviewView, DosePlanPreview, PrescriptionView, ReadinessAnswer, ReadinessReviewView, RecordedAdministration,
+  RecordedPrescription, RecordedReview,
+} from '@shared/clinic/views'
+import type { Rows } from '@shared/types'
+import { api } from './client'
 
 const base = (id: number) => `/referrals/${id}`
 
-export async function listReviews(id: number): Promise<ClinicReview[]> {
-  return (await api.get<{ rows: ClinicReview[] }>(`${base(id)}/reviews`)).rows
+export async function listReviews(id: number): Promise<ClinicReviewView[]> {
+  return (await api.get<Rows<ClinicReviewView>>(`${base(id)}/reviews`)).rows
 }
 
-export function recordReview(id: number, input: ReviewInput): Promise<{ review: ClinicReview; version: number }> {
+export function recordReview(id: number, input: ReviewInput): Promise<RecordedReview> {
   return api.post(`${base(id)}/reviews`, input)
 }
 
@@ -19,15 +22,15 @@ export function previewDosePlan(id: number, input: DosePlanPreviewInput): Promis
 }
 
 export async function listPrescriptions(id: number): Promise<PrescriptionView[]> {
-  return (await api.get<{ rows: PrescriptionView[] }>(`${base(id)}/prescriptions`)).rows
+  return (await api.get<Rows<PrescriptionView>>(`${base(id)}/prescriptions`)).rows
 }
 
-export function prescribe(id: number, input: PrescriptionInput): Promise<{ prescription: PrescriptionView; version: number }> {
+export function prescribe(id: number, input: PrescriptionInput): Promise<RecordedPrescription> {
   return api.post(`${base(id)}/prescriptions`, input)
 }
 
 export async function listAdministrations(id: number): Promise<AdministrationView[]> {
-  return (await api.get<{ rows: AdministrationView[] }>(`${base(id)}/administrations`)).rows
+  return (await api.get<Rows<AdministrationView>>(`${base(id)}/administrations`)).rows
 }
 
 export function recordAdministration(id: number, input: AdministrationInput): Promise<RecordedAdministration> {
@@ -39,10 +42,10 @@ export function getProjection(id: number, cardiacOutputLMin?: number | null): Pr
   return api.get<Projection>(`${base(id)}/projection${q}`)
 }
 
-export async function listReadinessReviews(id: number): Promise<ReadinessReview[]> {
-  return (await api.get<{ rows: ReadinessReview[] }>(`${base(id)}/readiness`)).rows
+export async function listReadinessReviews(id: number): Promise<ReadinessReviewView[]> {
+  return (await api.get<Rows<ReadinessReviewView>>(`${base(id)}/readiness`)).rows
 }
 
-export function recordReadinessAction(id: number, input: ReadinessActionInput): Promise<Omit<ReadinessReview, 'surgeonId'>> {
+export function recordReadinessAction(id: number, input: ReadinessActionInput): Promise<ReadinessAnswer> {
   return api.post(`${base(id)}/readiness`, input)
 }

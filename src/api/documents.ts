@@ -1,24 +1,8 @@
-import type { DocumentKind, UploadKind } from '@shared/schemas/documents'
+import type { UploadKind } from '@shared/schemas/documents'
+import type { DocumentList, DocumentView, WrittenLetter } from '@shared/documents/views'
 import { api } from './client'
 
-/** As server/services/documents/index.ts returns it. */
-export interface DocumentView {
-  id: number
-  referralId: number
-  kind: DocumentKind
-  kindLabel: string
-  title: string
-  originalName: string
-  mediaType: string
-  sizeBytes: number
-  sha256: string
-  uploadedBy: { id: number; name: string } | null
-  uploadedAt: string
-  /** Set when the document is a letter the clinic wrote. */
-  letterId: number | null
-}
-
-export const listDocuments = (referralId: number) => api.get<{ rows: DocumentView[]; readOnly: boolean }>(`/referrals/${referralId}/documents`)
+export const listDocuments = (referralId: number) => api.get<DocumentList>(`/referrals/${referralId}/documents`)
 
 export function uploadDocument(referralId: number, input: { kind: UploadKind; title: string; file: File }): Promise<DocumentView> {
   const form = new FormData()
@@ -28,7 +12,7 @@ export function uploadDocument(referralId: number, input: { kind: UploadKind; ti
   return api.postForm<DocumentView>(`/referrals/${referralId}/documents`, form)
 }
 
-export const writeFamilyDoctorLetter = (referralId: number) => api.post<{ id: number; documentId: number }>(`/referrals/${referralId}/letters`)
+export const writeFamilyDoctorLetter = (referralId: number) => api.post<WrittenLetter>(`/referrals/${referralId}/letters`)
 
 /** Plain links: the browser downloads with the session cookie (GET needs no CSRF token). */
 export const documentUrl = (id: number) => `/api/documents/${id}`

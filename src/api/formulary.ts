@@ -1,10 +1,11 @@
+import type { Rows } from '@shared/types'
 import type { CreateIronProductInput, UpdateIronProductInput } from '@shared/schemas/formulary'
 import type { DosingTableInput } from '@shared/schemas/dosingTable'
 import { api } from './client'
-import type { FormularyEntry } from './clinicTypes'
+import type { FormularyEntry } from '@shared/formulary/views'
 
 export async function listFormulary(includeInactive = false): Promise<FormularyEntry[]> {
-  return (await api.get<{ rows: FormularyEntry[] }>(`/formulary${includeInactive ? '?includeInactive=1' : ''}`)).rows
+  return (await api.get<Rows<FormularyEntry>>(`/formulary${includeInactive ? '?includeInactive=1' : ''}`)).rows
 }
 
 export function createIronProduct(input: CreateIronProductInput): Promise<FormularyEntry> {

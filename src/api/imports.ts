@@ -1,8 +1,7 @@
 import type { ColumnMapping } from '@shared/imports/mapping'
-import type { AcceptedRowView, BatchView, FhirEntryResult, FhirImportResult, ImportSummary, MappingView } from '@shared/imports/views'
+import type { Rows } from '@shared/types'
+import type { BatchView, FhirImportResult, ImportSummary, MappingView } from '@shared/imports/views'
 import { api } from './client'
-
-export type { AcceptedRowView, BatchView, FhirEntryResult, FhirImportResult, ImportSummary, MappingView }
 
 export interface LabUpload { file: File; source: string; mapping: ColumnMapping; commit: boolean }
 
@@ -25,9 +24,9 @@ export function uploadFhirBundle(input: FhirUpload): Promise<FhirImportResult> {
 }
 
 const source = (name: string) => encodeURIComponent(name)
-export const listMappings = () => api.get<{ rows: MappingView[] }>('/imports/mappings')
+export const listMappings = () => api.get<Rows<MappingView>>('/imports/mappings')
 export const getMapping = (name: string) => api.get<MappingView>(`/imports/mappings/${source(name)}`)
 export const saveMapping = (name: string, mapping: ColumnMapping) => api.put<MappingView>(`/imports/mappings/${source(name)}`, { mapping })
 
-export const listBatches = () => api.get<{ rows: BatchView[] }>('/imports')
+export const listBatches = () => api.get<Rows<BatchView>>('/imports')
 export const reverseBatch = (id: number, reason: string) => api.post<BatchView>(`/imports/${id}/reversal`, { reason })

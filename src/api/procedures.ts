@@ -1,8 +1,9 @@
 import { api } from './client'
-import type { Procedure } from './pathwayTypes'
+import type { Rows } from '@shared/types'
+import type { ProcedureView } from '@shared/pathway/views'
 
 /** The operations catalogue (active operations only). */
-export async function listProcedures(): Promise<Procedure[]> {
-  const { rows } = await api.get<{ rows: Procedure[] }>('/procedures')
+export async function listProcedures(): Promise<ProcedureView[]> {
+  const { rows } = await api.get<Rows<ProcedureView>>('/procedures')
   return rows
 }

@@ -1,5 +1,6 @@
 import { api } from './client'
-import type { ReadinessRow } from './clinicTypes'
+import type { ReadinessRow } from '@shared/clinic/views'
+import type { Rows } from '@shared/types'
 
 /** What the readiness board can be narrowed by; each key is one query parameter of GET /api/readiness. */
 export interface ReadinessFilters {
@@ -19,5 +20,5 @@ export function readinessSearchParams(filters: ReadinessFilters): URLSearchParam
 
 export async function fetchReadinessBoard(filters: ReadinessFilters): Promise<ReadinessRow[]> {
   const query = readinessSearchParams(filters).toString()
-  return (await api.get<{ rows: ReadinessRow[] }>(`/readiness${query ? `?${query}` : ''}`)).rows
+  return (await api.get<Rows<ReadinessRow>>(`/readiness${query ? `?${query}` : ''}`)).rows
 }

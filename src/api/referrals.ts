@@ -2,7 +2,7 @@ import type { CreateReferralInput, TransitionInput, UpdateReferralInput } from '
 import type { CreateResultInput } from '@shared/schemas/results'
 import type { CancelOperationInput } from '@shared/schemas/cancellations'
 import { api } from './client'
-import type { ReferralDetail, ResultView, Screening } from './pathwayTypes'
+import type { AddedResult, ReferralDetail } from '@shared/pathway/views'
 
 /** `refetch`: the episode is already on screen (a poll); opening it is audited every time, polls are not. */
 export function getReferral(id: number, opts: { refetch?: boolean; previous?: ReferralDetail } = {}): Promise<ReferralDetail> {
@@ -24,13 +24,6 @@ export function cancelPlannedOperation(id: number, input: CancelOperationInput):
 
 export function moveReferral(id: number, input: TransitionInput): Promise<ReferralDetail> {
   return api.post<ReferralDetail>(`/referrals/${id}/transitions`, input)
-}
-
-export interface AddedResult {
-  result: ResultView
-  derived: ResultView[]
-  screening: Screening
-  referral: { id: number; version: number; stage: string }
 }
 
 export function addResult(id: number, input: CreateResultInput): Promise<AddedResult> {

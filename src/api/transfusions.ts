@@ -1,4 +1,4 @@
-import type { TransfusionList, TransfusionView } from '@shared/transfusion/views'
+import type { TransfusionList, TransfusionWrite } from '@shared/transfusion/views'
 import { api } from './client'
 
 /** The transfusion as sent: givenAt as an ISO string. */
@@ -6,7 +6,6 @@ export interface TransfusionPayload {
   givenAt: string; phase?: string; component: string; units: number; preTransfusionHbGL: number | null; reassessedBeforeNext: boolean
   postTransfusionHbGL: number | null; informationGiven: boolean; productCodes: string[]; reason: string | null
 }
-export interface TransfusionWrite { transfusion: TransfusionView; redCellUnits: TransfusionList['redCellUnits'] }
 
 const base = (id: number) => `/referrals/${id}/transfusions`
 

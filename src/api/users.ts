@@ -1,15 +1,11 @@
-import type { StaffAccount } from '@shared/types'
+import type { Rows, StaffAccount } from '@shared/types'
 import type { CreateUserInput, UpdateUserInput } from '@shared/schemas/users'
+import type { CreatedUser, TemporaryPassword } from '@shared/users/views'
 import { api } from './client'
 
 export async function listUsers(): Promise<StaffAccount[]> {
-  const { rows } = await api.get<{ rows: StaffAccount[] }>('/users')
+  const { rows } = await api.get<Rows<StaffAccount>>('/users')
   return rows
-}
-
-export interface CreatedUser {
-  user: StaffAccount
-  temporaryPassword: string
 }
 
 export function createUser(input: CreateUserInput): Promise<CreatedUser> {
@@ -20,6 +16,6 @@ export function updateUser(id: number, changes: UpdateUserInput): Promise<StaffA
   return api.patch<StaffAccount>(`/users/${id}`, changes)
 }
 
-export function resetUserPassword(id: number): Promise<{ temporaryPassword: string }> {
-  return api.post<{ temporaryPassword: string }>(`/users/${id}/reset-password`)
+export function resetUserPassword(id: number): Promise<TemporaryPassword> {
+  return api.post<TemporaryPassword>(`/users/${id}/reset-password`)
 }

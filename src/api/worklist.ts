@@ -1,7 +1,7 @@
 import type { Priority, Stage, WorklistFlag } from '@shared/pathway'
 import type { WorklistSort } from '@shared/schemas/referrals'
 import { api } from './client'
-import type { WorklistPage } from './pathwayTypes'
+import type { WorklistPage } from '@shared/pathway/views'
 import type { WorklistCounts } from '@shared/pathway/views'
 
 /** What the worklist can be narrowed by; every key maps to one query parameter of GET /api/worklist. */

@@ -4,6 +4,7 @@ import type { Config } from '../../config'
 import { EpisodeDocument, Letter, Referral, User } from '../../models/index'
 import { isReadOnly } from '../../../shared/pathway'
 import { DOCUMENT_KIND_LABELS, type DocumentKind, type UploadKind } from '../../../shared/schemas/documents'
+import type { DocumentList, DocumentView } from '../../../shared/documents/views'
 import { recordAudit } from '../audit'
 import { loadReferral, type LoadedReferral } from '../episode'
 import { assertMaySeeReferral, isoOrNull, type Viewer } from '../viewer'
@@ -13,14 +14,13 @@ import { readStored, storeThenRecord } from './storage'
 
 type DocumentRow = EpisodeDocument & { uploader?: User | null }
 
-function toDocumentView(d: DocumentRow, letterId: number | null = null) {
+function toDocumentView(d: DocumentRow, letterId: number | null = null): DocumentView {
   return {
     id: d.id, referralId: d.referralId, kind: d.kind, kindLabel: DOCUMENT_KIND_LABELS[d.kind], title: d.title,
     originalName: d.originalName, mediaType: d.mediaType, sizeBytes: d.sizeBytes, sha256: d.sha256,
     uploadedBy: d.uploader ? { id: d.uploader.id, name: d.uploader.name } : null, uploadedAt: isoOrNull(d.uploadedAt)!, letterId,
   }
 }
-export type DocumentView = ReturnType<typeof toDocumentView>
 
 /** Documents are added only to open episodes; a closed one is a record that no longer changes. */
 export async function referralForAttaching(viewer: Viewer, referralId: number, t?: Transaction): Promise<LoadedReferral> {
@@ -64,7 +64,7 @@ export async function uploadDocument(sequelize: Sequelize, config: Config, viewe
   return saveDocument(sequelize, config, viewer, referralId, { kind: input.kind, title: input.title, originalName, mediaType, bytes: input.bytes }, async (_t, d) => toDocumentView(d))
 }
 
-export async function listDocuments(viewer: Viewer, referralId: number) {
+export async function listDocuments(viewer: Viewer, referralId: number): Promise<DocumentList> {
   const r = await loadReferral(viewer, referralId)
   const [rows, letters] = await Promise.all([
     EpisodeDocument.findAll({ where: { referralId }, include: [{ model: User, as: 'uploader', attributes: ['id', 'name'] }], order: [['uploadedAt', 'DESC'], ['id', 'DESC']] }),

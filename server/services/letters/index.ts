@@ -8,6 +8,7 @@ import { messageContent } from '../../mail/templates/content'
 import { snapshotOf } from '../appointmentView'
 import { openDocument, referralForAttaching, saveDocument } from '../documents/index'
 import type { LoadedReferral } from '../episode'
+import type { WrittenLetter } from '../../../shared/documents/views'
 import type { Viewer } from '../viewer'
 import { NotFound } from '../../errors'
 import { appointmentLetter } from './appointment'
@@ -23,7 +24,7 @@ async function authorOf(viewer: Viewer) {
 async function storeLetter(
   sequelize: Sequelize, config: Config, viewer: Viewer, r: LoadedReferral, content: LetterContent,
   letter: { title: string; fileName: string; recipient: 'family-doctor' | 'patient'; appointmentId: number | null; subject: string },
-) {
+): Promise<WrittenLetter> {
   const author = await authorOf(viewer)
   const bytes = await renderLetterPdf(content, { author: author.name, subject: letter.subject })
   return saveDocument(sequelize, config, viewer, r.id, { kind: 'letter', title: letter.title, originalName: letter.fileName, mediaType: 'application/pdf', bytes }, async (t, d) => {
@@ -33,7 +34,12 @@ async function storeLetter(
 }
 
 /** Writes the family-doctor letter from the episode as it is now and keeps the PDF on the episode. */
-export async function writeFamilyDoctorLetter(sequelize: Sequelize, config: Config, viewer: Viewer, referralId: number) {
+export async function writeFamilyDoctorLetter(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  referralId: number,
+): Promise<WrittenLetter> {
   const r = await referralForAttaching(viewer, referralId)
   const clinic = clinicContact(config)
   const now = new Date()
@@ -47,7 +53,12 @@ export async function writeFamilyDoctorLetter(sequelize: Sequelize, config: Conf
 }
 
 /** A printed letter to the patient about one appointment, in the appointment e-mail's words. */
-export async function writeAppointmentLetter(sequelize: Sequelize, config: Config, viewer: Viewer, appointmentId: number) {
+export async function writeAppointmentLetter(
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  appointmentId: number,
+): Promise<WrittenLetter> {
   const a = await Appointment.findByPk(appointmentId, { raw: true })
   if (!a) throw new NotFound('Appointment')
   const r = await referralForAttaching(viewer, a.referralId)

@@ -6,7 +6,7 @@ import type { CancelOperationInput } from '@shared/schemas/cancellations'
 import { addResult, cancelPlannedOperation, createReferral, getReferral, moveReferral, updateReferral } from '@/api/referrals'
 import { fetchWorklist, fetchWorklistCounts, type WorklistCountFilters, type WorklistFilters } from '@/api/worklist'
 import type { WorklistCounts } from '@shared/pathway/views'
-import type { ReferralDetail, WorklistPage } from '@/api/pathwayTypes'
+import type { ReferralDetail, WorklistPage } from '@shared/pathway/views'
 
 /** One key family for episodes: the worklist pages and each episode's detail sit under it. */
 export const referralKeys = {

@@ -1,27 +1,35 @@
-import type { IronDosePlan } from '@shared/clinical/ironPlan'
-import type { IronProduct } from '@shared/clinical/ironProduct'
-import type { CautionAnswers } from '@shared/clinic/cautions'
-import type { Diagnosis } from '@shared/clinic/diagnoses'
-import type { Projection } from '@shared/clinic/projection'
-import type { ReadinessFlag } from '@shared/clinic/readiness'
-import type { BloodOrderKind, Verdict } from '@shared/clinic/readiness'
+import type { IronDose, IronDosePlan } from '../clinical/ironPlan'
+import type { IronProduct } from '../clinical/ironProduct'
+import type { Priority } from '../pathway/options'
+import type { Stage } from '../pathway/stages'
+import type { CautionAnswers, CautionKey } from './cautions'
+import type { Diagnosis } from './diagnoses'
+import type { Projection } from './projection'
+import type { BloodOrderKind, ReadinessFlag, Verdict } from './readiness'
 
-/**
- * Shapes the clinic and readiness API answers with (server/services/clinicReview.ts,
- * prescriptions.ts, administrations.ts, readiness.ts, formulary.ts). Typed here for the client.
+/*
+ * The clinic and readiness API's answers (server/services/clinicReview.ts, prescriptions.ts,
+ * administrations.ts, readiness.ts). The server's mappers declare these as their return types
+ * and the client imports them. GET /api/referrals/:id/projection answers a Projection.
  */
-export type { Projection }
 
-export interface ClinicReview {
+type Person = { id: number; name: string } | null
+
+/** A clinic doctor's review of the episode. */
+export interface ClinicReviewView {
   id: number
   diagnosis: Diagnosis
   diagnosisLabel: string
   notes: string | null
   plan: string
   reviewedAt: string
-  reviewer: { id: number; name: string } | null
+  reviewer: Person
 }
 
+/** POST /api/referrals/:id/reviews: the review and the episode's new version. */
+export interface RecordedReview { review: ClinicReviewView; version: number }
+
+/** POST /api/referrals/:id/dose-plan: the plan a prescription would follow, not yet stored. */
 export interface DosePlanPreview {
   product: IronProduct
   productSource: string
@@ -34,9 +42,12 @@ export interface DosePlanPreview {
   phosphate: { needed: boolean; message: string }
   methods: { deficit: string; caps: string }
   cautions: string[]
-  cautionQuestions: { key: keyof CautionAnswers; question: string }[]
+  cautionQuestions: readonly { readonly key: CautionKey; readonly question: string }[]
 }
 
+export type PrescriptionStatus = 'active' | 'completed' | 'cancelled'
+
+/** An iron prescription as stored, with the plan's doses and warnings. */
 export interface PrescriptionView {
   id: number
   productCode: string
@@ -47,18 +58,22 @@ export interface PrescriptionView {
   deficitMg: number
   totalMg: number
   firstDoseDate: string
-  doses: { number: number; doseMg: number; dayOffset: number; date?: string; cappedBy: string[] }[]
+  doses: IronDose[]
   warnings: string[]
   oralSchedule: string | null
-  cautions: CautionAnswers
+  cautions: CautionAnswers | null
   overrideReason: string | null
-  status: 'active' | 'completed' | 'cancelled'
+  status: PrescriptionStatus
   prescribedAt: string
-  prescriber: { id: number; name: string } | null
+  prescriber: Person
 }
+
+/** POST /api/referrals/:id/prescriptions */
+export interface RecordedPrescription { prescription: PrescriptionView; version: number }
 
 export type Reaction = 'none' | 'mild' | 'moderate' | 'severe'
 
+/** One dose given. */
 export interface AdministrationView {
   id: number
   prescriptionId: number
@@ -69,32 +84,41 @@ export interface AdministrationView {
   reactionNotes: string | null
   /** Why a dose over a cap or the prescribed total was given anyway. */
   overrideReason: string | null
-  giver: { id: number; name: string } | null
+  giver: Person
 }
 
+/** POST /api/referrals/:id/administrations: the dose, the re-check it schedules and the episode's stage. */
 export interface RecordedAdministration {
   administration: AdministrationView
   recheckDueDate: string
-  stage: string
+  stage: Stage
   version: number
 }
 
-export interface ReadinessReview {
+export type ReadinessAction = 'acknowledged' | 'date-change-requested'
+
+/** POST /api/referrals/:id/readiness: the operating surgeon's answer. */
+export interface ReadinessAnswer {
   id: number
-  action: 'acknowledged' | 'date-change-requested'
+  action: ReadinessAction
   reason: string | null
   at: string
-  surgeonId: number
   /** The projection exactly as the surgeon saw it when answering. */
   projection: Projection
 }
 
+/** GET /api/referrals/:id/readiness: every answer, newest first. */
+export interface ReadinessReviewView extends ReadinessAnswer {
+  surgeonId: number | null
+}
+
+/** One episode of the readiness board (GET /api/readiness). */
 export interface ReadinessRow {
   id: number
   version: number
-  stage: string
+  stage: Stage
   stageLabel: string
-  priority: string
+  priority: Priority
   patient: { id: number; mrn: string; name: string }
   procedure: { code: string; name: string }
   surgeon: { id: number; name: string }
@@ -113,9 +137,7 @@ export interface ReadinessRow {
   /** Concerns beside the verdict (no response to iron, falling Hb, antibodies, declines transfusion). */
   concerns: { key: ReadinessFlag; label: string }[]
   openActions: string[]
-  lastReview: { action: ReadinessReview['action']; reason: string | null; at: string } | null
+  lastReview: { action: ReadinessAction; reason: string | null; at: string } | null
   /** Why no projection could be made (e.g. no weight), when verdict is null. */
   missing: string | null
 }
-
-export type { FormularyEntry } from '@shared/formulary/views'
