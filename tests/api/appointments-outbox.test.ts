@@ -113,7 +113,8 @@ describe('with two workers', () => {
     expect(await mail.to(f.email)).toHaveLength(1)
   })
 
-  it('when an earlier message to the same appointment is still waiting, then the later one waits too (a cancellation never overtakes its booking)', async () => {
+  it('when an earlier message to the same appointment is still waiting, then the later one waits too (a cancellation never overtakes ' +
+    'its booking)', async () => {
     const { body } = await book(summerDay())
     await stopRelay()
     await drainOutbox(opts())

@@ -59,7 +59,8 @@ describe('directory sign-in (OpenID Connect against the fake provider)', () => {
     expect(q.get('scope')).toBe('openid email profile groups')
   })
 
-  it('when a nurse in the nurses group signs in for the first time, then an account is created, the session id changes and it is audited', async () => {
+  it('when a nurse in the nurses group signs in for the first time, then an account is created, the session id changes and it is ' +
+    'audited', async () => {
     const rosa = person(['All-Staff', 'Anaemia-Nurses'], { name: 'Rosa Test' })
     people.push(rosa)
     const { c, browser, start, done } = await signInAs(rosa)

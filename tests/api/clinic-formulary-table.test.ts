@@ -48,7 +48,8 @@ describe('the formulary dosing-table editor (admin)', () => {
     expect(rows.find((r) => r.code === 'iron-sucrose')).toMatchObject({ dosedByTable: false, dosingTable: null })
   })
 
-  it('when an admin turns the table off, then the plan falls back to Ganzoni; turned on again, a 60 kg patient with Hb 95 g/L needs 1500 mg (Ferinject SmPC 4.2 Table 1)', async () => {
+  it('when an admin turns the table off, then the plan falls back to Ganzoni; turned on again, a 60 kg patient with Hb 95 g/L needs ' +
+    '1500 mg (Ferinject SmPC 4.2 Table 1)', async () => {
     const off = await put('ferric-carboxymaltose', { dosedByTable: false, table: SMPC_TABLE })
     expect(off.status, JSON.stringify(off.body)).toBe(200)
     expect(off.body).toMatchObject({ dosedByTable: false, dosingTable: { needMg: SMPC_TABLE.needMg } })

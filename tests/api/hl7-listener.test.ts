@@ -41,7 +41,8 @@ describe('the MLLP listener and what it is sent', () => {
     await stillAnswers()
   })
 
-  it('when a message has a header but no control id, or is only a bare MSH, then the answer is AR, nothing is stored, and the listener keeps answering', async () => {
+  it('when a message has a header but no control id, or is only a bare MSH, then the answer is AR, nothing is stored, and the ' +
+    'listener keeps answering', async () => {
     const noId = oru({ mrn: 'HL71001', control: '', obx: [{ value: '120' }] })
     const { received } = await rawExchange(port, [`${VT}${noId}${END}`, `${VT}MSH|${END}`], { waitMs: 2000 })
     expect(received.match(/MSA\|AR\|/g)?.length).toBe(2)

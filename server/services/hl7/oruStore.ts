@@ -20,7 +20,8 @@ async function voidRows(sequelize: Sequelize, ids: number[], reason: string, t: 
   const now = new Date()
   await Result.update({ voidedAt: now, voidReason: reason.slice(0, 200) }, { where: { id: { [Op.in]: ids } }, transaction: t })
   const derived = await sequelize.query<{ id: number }>(
-    `SELECT id FROM results WHERE source = 'derived' AND voided_at IS NULL AND (${ids.map(() => 'JSON_CONTAINS(derived_from, ?)').join(' OR ')})`,
+    `SELECT id FROM results WHERE source = 'derived' AND voided_at IS NULL AND ` +
+      `(${ids.map(() => 'JSON_CONTAINS(derived_from, ?)').join(' OR ')})`,
     { type: QueryTypes.SELECT, replacements: ids.map(String), transaction: t },
   )
   if (derived.length) await Result.update({ voidedAt: now, voidReason: `its source value was voided (${reason})`.slice(0, 200) }, { where: { id: { [Op.in]: derived.map((d) => d.id) } }, transaction: t })

@@ -38,7 +38,8 @@ describe('Hb entry units', () => {
 describe('other inputs refuse nonsense', () => {
   it('when TSAT is typed as a fraction (0.15), then it is refused with the 1–100 % range and a hint', async () => {
     expect(await errorsOf({ analyte: 'tsat', value: 0.15, unit: '%' })).toEqual([
-      'value: Transferrin saturation in % must be between 1 and 100 % (got 0.15); it looks like a fraction: enter it as a percentage (15 %)',
+      'value: Transferrin saturation in % must be between 1 and 100 % (got 0.15); it looks like a fraction: enter it as a ' +
+        'percentage (15 %)',
     ])
   })
 

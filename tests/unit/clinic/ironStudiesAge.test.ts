@@ -52,10 +52,12 @@ describe('the verdict on old iron studies', () => {
     saO2: 0.97, paO2MmHg: 95, cardiacOutputLMin: null,
   }
 
-  it('when a man with a recent Hb of 145 g/L has replete iron studies 151 days old, then he is not ready: the verdict names recent iron studies', () => {
+  it('when a man with a recent Hb of 145 g/L has replete iron studies 151 days old, then he is not ready: the verdict names recent ' +
+    'iron studies', () => {
     const p = buildProjection({ ...base, ironStudies: { ferritin: { value: 200, takenAt: oldDay }, tsat: { value: 25, takenAt: oldDay } } }, DEFAULT_CLINIC_SETTINGS)
     expect(p.readiness.verdict).toBe('results-needed')
-    expect(p.readiness.missing).toEqual(['Needs recent iron studies: ferritin of 2026-10-01 (151 days old), TSAT of 2026-10-01 (151 days old); iron studies count for 90 days (local policy), so the iron status is unresolved.'])
+    expect(p.readiness.missing).toEqual(['Needs recent iron studies: ferritin of 2026-10-01 (151 days old), TSAT of 2026-10-01 (151 days old); iron studies count ' +
+        'for 90 days (local policy), so the iron status is unresolved.'])
     expect(p.readiness.flags).toContain('iron-studies-too-old')
     expect(p.evidence.ironKnown).toBe(false)
   })

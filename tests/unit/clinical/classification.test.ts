@@ -8,7 +8,8 @@ describe('anaemia by WHO 2024 cut-offs and the Muñoz 2017 surgical threshold', 
     expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'surgical' })).toMatchObject({ anaemic: true, thresholdGL: 130 })
   })
 
-  it('when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 but is by the surgical 130 g/L threshold (Muñoz 2017, secondary source)', () => {
+  it('when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 but is by the surgical 130 g/L threshold (Muñoz 2017, ' +
+    'secondary source)', () => {
     expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'who' })).toMatchObject({ anaemic: false, severity: 'none', thresholdGL: 120 })
     expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'surgical' })).toMatchObject({ anaemic: true, severity: 'mild', thresholdGL: 130 })
   })
