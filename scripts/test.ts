@@ -9,6 +9,7 @@ import { existsSync, readFileSync, rmSync } from 'node:fs'
 import path from 'node:path'
 import { startStack, repoRoot, intFromEnv } from './lib/stack'
 import { prepareDatabase } from './lib/prepare'
+import { demoClinicEnv } from '../seed/demo/hospital'
 
 interface Tally { passed: number; failed: number }
 interface Step { name: string; run: () => Promise<Tally> }
@@ -81,6 +82,8 @@ async function main(): Promise<void> {
   const env: NodeJS.ProcessEnv = {
     ...process.env,
     ...stack.env,
+    // The tests read the demo hospital's details in e-mails, letters and the reply page.
+    ...demoClinicEnv(process.env),
     NODE_ENV: 'test',
     STATIC_DIR: distDir,
     FERROLANE_SERVER_ENTRY: path.join(serverDir, 'server', 'index.js'),
