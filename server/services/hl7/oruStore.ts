@@ -82,7 +82,7 @@ async function applyObx(sequelize: Sequelize, o: ObxReading, ctx: { referralId: 
  * read; only when there is none does a second read tell an unknown patient from one with no
  * open episode.
  */
-async function openEpisode(mrn: string, t: Transaction): Promise<Referral & { patient: Patient }> {
+async function openReferral(mrn: string, t: Transaction): Promise<Referral & { patient: Patient }> {
   const r = (await Referral.findOne({
     where: { stage: { [Op.notIn]: ENDED } },
     include: [{ model: Patient, as: 'patient', where: { mrn }, attributes: ['id', 'dateOfBirth', 'sex'] }],
@@ -108,7 +108,7 @@ function movesScreening(o: ObxReading, changes: Change[]): boolean {
 export async function storeOru(sequelize: Sequelize, groups: OruGroup[], ctx: { messageId: number; controlId: string; actor: Actor }, t: Transaction): Promise<Change[]> {
   const all: Change[] = []
   for (const g of groups) {
-    const referral = await openEpisode(g.mrn, t)
+    const referral = await openReferral(g.mrn, t)
     const patient = referral.patient
     const early = g.obx.find((o) => o.action !== 'void' && o.reading.takenAt.toISOString().slice(0, 10) < patient.dateOfBirth)
     if (early) throw new Hl7Problem('AE', 'bad-date', 'time taken is before the date of birth', '102', { segment: 'OBX', seq: early.seq, field: 14 })
