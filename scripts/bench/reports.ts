@@ -54,7 +54,8 @@ async function ensureQualityData(db: ConnectionConfig): Promise<void> {
       FROM outcomes WHERE units_transfused_post_op > 0 OR units_transfused_intra_op > 0`)
     await conn.query(`UPDATE outcomes SET tranexamic_acid_given = (referral_id % 3 <> 0), post_operative_iron_given = (referral_id % 2 = 0)`)
     await conn.query(`INSERT INTO surgery_date_changes (referral_id, from_date, to_date, reason, changed_at)
-      SELECT id, DATE_SUB(planned_surgery_date, INTERVAL 14 DAY), planned_surgery_date, IF(id % 2 = 0, 'anaemia', 'theatre-capacity'), created_at
+      SELECT id, DATE_SUB(planned_surgery_date, INTERVAL 14 DAY), planned_surgery_date,
+        IF(id % 2 = 0, 'anaemia', 'theatre-capacity'), created_at
       FROM referrals WHERE id % 11 = 0`)
     await conn.query('ANALYZE TABLE transfusions, surgery_date_changes, outcomes')
   } finally {

@@ -65,7 +65,8 @@ describe('when the mail relay is down', () => {
     expect(new Set(got.map((m) => m.subject)).size).toBe(2)
   })
 
-  it('then after OUTBOX_MAX_ATTEMPTS failures the message is marked failed, with backoff doubling in between, and staff see it', async () => {
+  it('then after OUTBOX_MAX_ATTEMPTS failures the message is marked ' +
+    'failed, with backoff doubling in between, and staff see it', async () => {
     await stopRelay()
     const { body } = await book(summerDay())
     const row = () => OutboxMessage.findByPk(body.message.id, { raw: true })

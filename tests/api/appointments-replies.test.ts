@@ -34,7 +34,8 @@ beforeEach(async () => {
 const status = async () => (await Appointment.findByPk(appointmentId, { raw: true }))!.status
 
 describe('the reply page', () => {
-  it('when the patient opens the link, then it shows first name, date, time, place and kind, and nothing clinical or identifying', async () => {
+  it('when the patient opens the link, then it shows first name, date, ' +
+    'time, place and kind, and nothing clinical or identifying', async () => {
     const res = await patient.get(`/api/replies/${token}`).expect(200)
     expect(res.body).toMatchObject({
       firstName: 'Linnet', kindLabel: 'Anaemia clinic appointment', time: '10:00', endTime: '10:30', timeZone: 'Europe/London',

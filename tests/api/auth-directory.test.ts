@@ -186,7 +186,8 @@ describe('directory sign-in (OpenID Connect against the fake provider)', () => {
     expect(done.headers.location).toBe('/sign-in/refused?reason=cancelled')
   })
 
-  it('when a directory user signs out, then Ferrolane ends its session, sends the browser to end the provider session, and audits it', async () => {
+  it('when a directory user signs out, then Ferrolane ends its session, sends ' +
+    'the browser to end the provider session, and audits it', async () => {
     const who = person(['Anaemia-Nurses'])
     people.push(who)
     const { c, browser } = await signInAs(who)

@@ -60,7 +60,8 @@ describe('dose plans that respect size and age', () => {
     expect(res.body.methods.caps).toMatch(/paediatric caps applied/)
   })
 
-  it('when a 150 kg woman of 165 cm is planned ferric derisomaltose, then Ganzoni uses ideal body weight and the method says so', async () => {
+  it('when a 150 kg woman of 165 cm is planned ferric derisomaltose, then ' +
+    'Ganzoni uses ideal body weight and the method says so', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 150, heightCm: 165, hb: [{ hbGL: 100 }] })
     const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'ferric-derisomaltose' })
     expect(res.body.plan.method.weightBasis).toBe('ideal')
@@ -139,7 +140,8 @@ describe('recording a dose re-checks the caps and the prescribed total', () => {
     expect(await Administration.count()).toBe(0)
   })
 
-  it('when a dose is entered late, dated 3 days before a dose already on file, then 422 names the interval to that later dose', async () => {
+  it('when a dose is entered late, dated 3 days before a dose already on ' +
+    'file, then 422 names the interval to that later dose', async () => {
     const { referral, prescriptionId } = await prescribed('ferric-carboxymaltose', 70, 95)
     const now = Date.now()
     await give(referral.id, { prescriptionId, doseMg: 500, givenAt: new Date(now - 2 * 86_400_000).toISOString() }).expect(201)

@@ -62,7 +62,8 @@ describe('the formulary dosing-table editor (admin)', () => {
     expect(on.methods.deficit).toMatch(/Ferinject SmPC 4\.2, Table 1 \(MHRA 2021\)/)
   })
 
-  it('when an admin enters a table for another product, then plans read it by band and the change is audited before and after', async () => {
+  it('when an admin enters a table for another product, then plans read ' +
+    'it by band and the change is audited before and after', async () => {
     const res = await put('ferric-derisomaltose', { dosedByTable: true, table: { ...SMPC_TABLE, source: 'Local table for the test product' } })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     // 72 kg falls in the ≥70 kg band, Hb 120 g/L in 100 to <140: 1500 mg in the table entered.

@@ -52,7 +52,8 @@ describe('GET /api/referrals/:id/projection', () => {
     expect((await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body.readiness.verdict).toBe('ready')
   })
 
-  it('when the admin sets Hb results to count for 30 days, then the setting is kept and a 45-day-old Hb no longer clears the patient', async () => {
+  it('when the admin sets Hb results to count for 30 days, then the setting ' +
+    'is kept and a 45-day-old Hb no longer clears the patient', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 140, takenAt: new Date(Date.now() - 45 * 86_400_000) }], expectedBloodLossMl: 500,
       referral: { anaemic: false, ironStatus: 'replete', plannedSurgeryDate: inDays(30) },

@@ -55,7 +55,8 @@ describe('the invented sample messages in seed/hl7, sent with npm run hl7:send',
     expect(await adaOnWorklist(nurse)).toMatchObject({ latestHbGL: 110, anaemic: true })
   }, 150_000)
 
-  it('when the result for an unknown patient is sent, then the command prints AE with the reason and the message waits for attention', async () => {
+  it('when the result for an unknown patient is sent, then the command prints ' +
+    'AE with the reason and the message waits for attention', async () => {
     const out = await hl7Send('03-unknown-patient.hl7')
     expect(out).toContain('AE DEMO-LAB-0003 — no patient has MRN KV999901')
     expect(await Hl7MessageRow.count({ where: { needsAttention: true } })).toBe(1)

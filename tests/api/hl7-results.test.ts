@@ -38,7 +38,8 @@ const referral = async () => (await Referral.findByPk(referralId, { raw: true })
 const live = () => Result.findAll({ where: { referralId, voidedAt: null }, raw: true, order: [['id', 'ASC']] })
 
 describe('ORU^R01 results over MLLP', () => {
-  it('when a final Hb arrives for a listed patient, then it is stored as a result, the episode is re-screened and the ACK is AA', async () => {
+  it('when a final Hb arrives for a listed patient, then it is stored as a ' +
+    'result, the episode is re-screened and the ACK is AA', async () => {
     const [ack] = await send(port, oru({ mrn: 'HL70001', obx: [{ value: '98', unit: 'g/L' }] }))
     expect(ackCode(ack!)).toBe('AA')
     const rows = await live()
@@ -153,7 +154,8 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await referral()).toMatchObject({ latestHbGL: 97 })
   })
 
-  it('when a value is reported beyond a limit ("<5"), then it is kept with its comparator, not as a number the screening uses', async () => {
+  it('when a value is reported beyond a limit ("<5"), then it is kept ' +
+    'with its comparator, not as a number the screening uses', async () => {
     const [a1] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: '2276-4', value: '<5', unit: 'ug/L' }] }))
     const [a2] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: '2276-4', type: 'SN', value: '>^1500', unit: 'ug/L', at: new Date(Date.now() - 7200_000) }] }))
     expect([ackCode(a1!), ackCode(a2!)]).toEqual(['AA', 'AA'])

@@ -42,7 +42,8 @@ function hbRows(n: number, marker?: { at: number; value: number }): string {
 }
 
 describe('a commit is all or nothing', () => {
-  it('when the database refuses a row in the second chunk of 1000, then nothing from the file is stored, not even the first chunk', async () => {
+  it('when the database refuses a row in the second chunk of 1000, then ' +
+    'nothing from the file is stored, not even the first chunk', async () => {
     // A real failure inside MariaDB, mid-commit: a trigger refuses one marker value.
     await t.sequelize.query(
       `CREATE TRIGGER imports_test_refuse BEFORE INSERT ON results FOR EACH ROW

@@ -96,7 +96,8 @@ describe('the letter to the family doctor', () => {
 })
 
 describe('a letter to the patient about an appointment', () => {
-  it('when a doctor writes one, then its text is the appointment e-mail wording: the visit, the preparation steps and the place', async () => {
+  it('when a doctor writes one, then its text is the appointment e-mail ' +
+    'wording: the visit, the preparation steps and the place', async () => {
     const a = ep.appointments[0]!
     const res = await doctor.post(`/api/appointments/${a.id}/letter`)
     expect(res.status, JSON.stringify(res.body)).toBe(201)

@@ -72,7 +72,8 @@ describe('worklist flags from the measured response to iron', () => {
     expect((await nurse.get(`/api/referrals/${id}`)).body.flags).not.toContain('no-response-to-iron')
   })
 
-  it('when Hb falls from 120 to 112 g/L after iron, then "Hb falling after iron" is a worklist flag, before the 4-week mark too', async () => {
+  it('when Hb falls from 120 to 112 g/L after iron, then "Hb falling after ' +
+    'iron" is a worklist flag, before the 4-week mark too', async () => {
     const id = await treated(120, 20, 15)
     await hb(id, 112, 1)
     const list = await worklist('hb-falling')

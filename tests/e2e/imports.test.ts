@@ -59,7 +59,8 @@ const mixedFile = (mrn: string) => csv([
 ])
 
 describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
-  it('when the nurse opens Import results from the bar, then the screen states the 20 MB limit, Commit is off, and it passes axe', async () => {
+  it('when the nurse opens Import results from the bar, then the screen ' +
+    'states the 20 MB limit, Commit is off, and it passes axe', async () => {
     const nurse = await makeStaff('nurse')
     const page = await importPage(nurse, '/screening')
     await page.locator('[data-nav="import-results"]').click()

@@ -44,25 +44,29 @@ function reply(c: MessageContent): string {
 /** The HTML part: one narrow column, the teal bar on top, the facts in a tinted panel. */
 export function renderHtml(c: MessageContent): string {
   const k = c.clinic
+  const closing = c.closing.map((x) => `<p style="margin:0 0 6px;font-size:13px;line-height:1.5;color:${MUTED}">${escapeHtml(x)}</p>`).join('')
+  const tel = escapeHtml(k.phone.replace(/\s+/g, ''))
   return `<!doctype html>
 <html lang="en-GB"><head><meta charset="utf-8"><meta name="viewport"
   content="width=device-width"><title>${escapeHtml(c.subject)}</title></head>
 <body style="margin:0;padding:0;background:#f1f5f9;font-family:${FONT}">
 <table role="presentation" cellpadding="0" cellspacing="0" width="100%" style="background:#f1f5f9"><tr><td align="center"
   style="padding:24px 12px">
-<table role="presentation" cellpadding="0" cellspacing="0" width="100%" style="max-width:560px;background:#ffffff;border:1px
-  solid #e2e8f0;border-top:6px solid ${TEAL};border-radius:6px">
-<tr><td style="padding:20px 28px 0"><p
-  style="margin:0;font-size:12px;letter-spacing:0.08em;text-transform:uppercase;color:${TEAL};font-weight:700">${escapeHtml(k.service)}</p><p style="margin:2px 0 0;font-size:13px;color:${MUTED}">${escapeHtml(k.name)}</p></td></tr>
+<table role="presentation" cellpadding="0" cellspacing="0" width="100%"
+  style="max-width:560px;background:#ffffff;border:1px solid #e2e8f0;border-top:6px solid ${TEAL};border-radius:6px">
+<tr><td style="padding:20px 28px 0">
+<p style="margin:0;font-size:12px;letter-spacing:0.08em;text-transform:uppercase;color:${TEAL};font-weight:700">${escapeHtml(k.service)}</p>
+<p style="margin:2px 0 0;font-size:13px;color:${MUTED}">${escapeHtml(k.name)}</p></td></tr>
 <tr><td style="padding:16px 28px 8px">
 <h1 style="margin:0 0 16px;font-size:22px;line-height:1.3;color:${TEAL_DARK}">${escapeHtml(c.heading)}</h1>
 ${p(c.greeting)}${c.intro.map(p).join('')}
 ${detailsTable(c)}${preparation(c)}${reply(c)}
 </td></tr>
-<tr><td style="padding:16px 28px 24px;border-top:1px solid
-  #e2e8f0">${c.closing.map((x) => `<p style="margin:0 0 6px;font-size:13px;line-height:1.5;color:${MUTED}">${escapeHtml(x)}</p>`).join('')}
-<p style="margin:10px 0
-  0;font-size:13px;line-height:1.5;color:${SLATE}"><strong>${escapeHtml(k.service)}</strong><br>${escapeHtml(k.name)}<br>Telephone <a href="tel:${escapeHtml(k.phone.replace(/\s+/g, ''))}" style="color:${TEAL}">${escapeHtml(k.phone)}</a><br><a href="mailto:${escapeHtml(k.email)}" style="color:${TEAL}">${escapeHtml(k.email)}</a></p>
+<tr><td style="padding:16px 28px 24px;border-top:1px solid #e2e8f0">${closing}
+<p style="margin:10px 0 0;font-size:13px;line-height:1.5;color:${SLATE}"><strong>${escapeHtml(k.service)}</strong><br>
+${escapeHtml(k.name)}<br>
+Telephone <a href="tel:${tel}" style="color:${TEAL}">${escapeHtml(k.phone)}</a><br>
+<a href="mailto:${escapeHtml(k.email)}" style="color:${TEAL}">${escapeHtml(k.email)}</a></p>
 </td></tr></table>
 </td></tr></table>
 </body></html>

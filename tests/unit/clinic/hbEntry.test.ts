@@ -13,7 +13,8 @@ const errorsOf = async (body: object) => {
 }
 
 describe('Hb entry units', () => {
-  it('when Hb is 8.0 mmol/L, then it shows as 128.9 g/L and 12.9 g/dL (×16.11 g/L per mmol/L, per Fe monomer; clinical reference §7)', () => {
+  it('when Hb is 8.0 mmol/L, then it shows as 128.9 g/L and 12.9 g/dL (×16.11 ' +
+    'g/L per mmol/L, per Fe monomer; clinical reference §7)', () => {
     expect(hbInAllUnits(8, 'mmol/L')).toEqual({ gL: 128.9, gDl: 12.9, mmolL: 8 })
   })
 

@@ -25,7 +25,8 @@ describe('iron studies must be recent to settle the iron status', () => {
     expect(r.tooOld.map((o) => [o.analyte, o.date, o.ageDays])).toEqual([['ferritin', '2026-10-01', 151], ['tsat', '2026-10-01', 151]])
   })
 
-  it('when ferritin is recent but the TSAT that settled it is old, then the status is indeterminate and recent studies are asked for', () => {
+  it('when ferritin is recent but the TSAT that settled it is old, then the ' +
+    'status is indeterminate and recent studies are asked for', () => {
     const r = recentIronStatus({ ferritin: { value: 60, takenAt: recentDay }, tsat: { value: 25, takenAt: oldDay } }, TODAY, ZONE, 90)
     expect(r.status).toBe('indeterminate')
     expect(r.need).toBe('recent-iron-studies')

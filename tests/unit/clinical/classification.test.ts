@@ -3,7 +3,8 @@ import { classifyAnaemia, classifyIronStatus, isIronDeficient } from '../../../s
 import { clinicalError } from './helpers'
 
 describe('anaemia by WHO 2024 cut-offs and the Muñoz 2017 surgical threshold', () => {
-  it('when a man has Hb 125 g/L, then he is mildly anaemic by WHO 2024 and anaemic by the surgical threshold (clinical reference §5)', () => {
+  it('when a man has Hb 125 g/L, then he is mildly anaemic by WHO 2024 and ' +
+    'anaemic by the surgical threshold (clinical reference §5)', () => {
     expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'who' })).toMatchObject({ anaemic: true, severity: 'mild', thresholdGL: 130 })
     expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'surgical' })).toMatchObject({ anaemic: true, thresholdGL: 130 })
   })
