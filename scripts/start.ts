@@ -10,6 +10,7 @@ import path from 'node:path'
 import { startStack, repoRoot, intFromEnv } from './lib/stack'
 import { prepareDatabase } from './lib/prepare'
 import { DEMO_PASSWORD, DEMO_ACCOUNTS } from '../seed/demo/staff'
+import { demoClinicEnv } from '../seed/demo/hospital'
 import { DEMO_DIRECTORY, DEMO_DIRECTORY_PASSWORD, DEMO_GROUP_ROLES_SETTING, DEMO_OIDC_CLIENT } from '../seed/demo/directory'
 import { startFakeIdentityProvider, type FakeIdentityProvider } from './lib/fakeIdentityProvider'
 
@@ -61,6 +62,8 @@ async function main(): Promise<void> {
     env.SESSION_SECRET ||= 'ferrolane-local-demo-secret-change-me-in-production'
     // npm start is the demo: the server skips its production refusals (and says so) for it.
     env.FERROLANE_DEMO ||= 'true'
+    // ...and its clinic is the invented demo hospital, unless CLINIC_* say otherwise.
+    Object.assign(env, demoClinicEnv(env))
     // The demo hospital's directory, unless a real provider is configured.
     if (!env.OIDC_ISSUER) {
       const appUrl = (env.PUBLIC_URL || `http://127.0.0.1:${dev ? 5173 : port}`).replace(/\/$/, '')

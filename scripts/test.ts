@@ -1,14 +1,15 @@
 /**
  * npm test: its own MariaDB (.test-data/, port 3407) and maildev (1026/1081), so it never
- * touches the demo data and can run beside `npm start`. Runs the type-checks, unit tests, a
- * client build, API tests and browser tests, then prints one line: "N passed, N failed".
- * `npm test -- unit api` runs only the named steps.
+ * touches the demo data and can run beside `npm start`. Runs lint (ESLint and Prettier), the
+ * type-checks, unit tests, a client build, API tests and browser tests, then prints one line:
+ * "N passed, N failed". `npm test -- unit api` runs only the named steps.
  */
 import { spawn } from 'node:child_process'
 import { existsSync, readFileSync, rmSync } from 'node:fs'
 import path from 'node:path'
 import { startStack, repoRoot, intFromEnv } from './lib/stack'
 import { prepareDatabase } from './lib/prepare'
+import { demoClinicEnv } from '../seed/demo/hospital'
 
 interface Tally { passed: number; failed: number }
 interface Step { name: string; run: () => Promise<Tally> }
@@ -51,6 +52,17 @@ function vitestStep(name: string, project: string, env: NodeJS.ProcessEnv): Step
 
 async function main(): Promise<void> {
   const only = process.argv.slice(2)
+  const tally: Tally = { passed: 0, failed: 0 }
+  const runStep = async (step: Step) => {
+    console.log(`\n=== ${step.name} ===`)
+    const t = await step.run()
+    console.log(`=== ${step.name}: ${t.passed} passed, ${t.failed} failed ===`)
+    tally.passed += t.passed
+    tally.failed += t.failed
+  }
+  // Lint first, and before the database starts: it reads only the source files.
+  if (!only.length || only.includes('lint')) await runStep(checkStep('lint', 'npm', ['run', '--silent', 'lint'], process.env))
+  if (only.length && only.every((name) => name === 'lint')) return finish(tally)
   const stack = await startStack({
     label: 'test',
     dataDir,
@@ -70,6 +82,8 @@ async function main(): Promise<void> {
   const env: NodeJS.ProcessEnv = {
     ...process.env,
     ...stack.env,
+    // The tests read the demo hospital's details in e-mails, letters and the reply page.
+    ...demoClinicEnv(process.env),
     NODE_ENV: 'test',
     STATIC_DIR: distDir,
     FERROLANE_SERVER_ENTRY: path.join(serverDir, 'server', 'index.js'),
@@ -77,7 +91,6 @@ async function main(): Promise<void> {
     // The suite signs admins in with a password everywhere; the second-factor tests turn this back on.
     ADMIN_SECOND_FACTOR_REQUIRED: 'false',
   }
-  const tally: Tally = { passed: 0, failed: 0 }
   try {
     await prepareDatabase(env, { seedDemo: false })
     const steps: Step[] = [
@@ -94,11 +107,7 @@ async function main(): Promise<void> {
       // The browser tests need the client build; the API tests start the compiled server.
       const needed = (step.name === 'build' && only.includes('e2e')) || (step.name === 'build-server' && (only.includes('api') || only.includes('build')))
       if (only.length && !only.includes(step.name) && !needed) continue
-      console.log(`\n=== ${step.name} ===`)
-      const t = await step.run()
-      console.log(`=== ${step.name}: ${t.passed} passed, ${t.failed} failed ===`)
-      tally.passed += t.passed
-      tally.failed += t.failed
+      await runStep(step)
     }
   } catch (err) {
     console.error('[test] could not run:', err)
@@ -106,6 +115,10 @@ async function main(): Promise<void> {
   } finally {
     await stack.stop().catch((err) => console.error('[test] stopping services:', err))
   }
+  finish(tally)
+}
+
+function finish(tally: Tally): never {
   console.log(`\n${tally.passed} passed, ${tally.failed} failed`)
   process.exit(tally.failed === 0 && tally.passed > 0 ? 0 : 1)
 }

@@ -21,12 +21,14 @@ export const STARTER_FORMULARY: (IronProduct & { source: string })[] = [
     maxSingleDoseMg: 1000, maxSingleDoseMgPerKg: 20, minIntervalDays: 7, maxWeeklyMg: 1000, roundToMg: 100,
     dosingTable: FCM_DOSING_TABLE, phosphateCheckOnRepeat: true,
     licensedFromAgeYears: 1, paediatricMaxSingleDoseMgPerKg: 15, paediatricMaxSingleDoseMg: 750,
-    source: 'Ferinject SmPC 4.2 (≤1000 mg and ≤20 mg/kg a dose, ≤1000 mg a week, Table 1); children: Injectafer US label (15 mg/kg, ≤750 mg a dose). Check against your local formulary.',
+    source: 'Ferinject SmPC 4.2 (≤1000 mg and ≤20 mg/kg a dose, ≤1000 mg a week, Table 1); children: Injectafer US label (15 mg/kg, ' +
+        '≤750 mg a dose). Check against your local formulary.',
   },
   {
     code: 'ferric-derisomaltose', name: 'Ferric derisomaltose (IV)', route: 'iv',
     maxSingleDoseMg: 2000, maxSingleDoseMgPerKg: 20, minIntervalDays: 7, roundToMg: 100,
-    source: 'Monograph: single infusion ≤20 mg/kg; the 2000 mg ceiling and 7-day interval are set locally. Check against your local formulary and the prescribing information.',
+    source: 'Monograph: single infusion ≤20 mg/kg; the 2000 mg ceiling and 7-day interval are set locally. Check against your local ' +
+        'formulary and the prescribing information.',
   },
   {
     code: 'iron-sucrose', name: 'Iron sucrose (IV)', route: 'iv',
@@ -36,7 +38,8 @@ export const STARTER_FORMULARY: (IronProduct & { source: string })[] = [
   {
     code: 'ferrous-sulfate-oral', name: 'Ferrous sulfate 200 mg tablet (65 mg elemental iron), oral', route: 'oral',
     maxSingleDoseMg: 65, minIntervalDays: 2, oralDailyMg: 65, oralAlternateDays: true,
-    source: 'Alternate-day dosing: Stoffel, Lancet Haematol 2017; BSG guideline, Gut 2021. Check against your local formulary and the prescribing information.',
+    source: 'Alternate-day dosing: Stoffel, Lancet Haematol 2017; BSG guideline, Gut 2021. Check against your local formulary and the ' +
+        'prescribing information.',
   },
 ]
 

@@ -108,7 +108,7 @@ export function createApp(config: Config, sequelize: Sequelize, opts: { logger?:
   app.use(contentSecurityPolicy(config))
 
   const sessionStore = new MariaDbSessionStore(config.session.idleMinutes * 60_000)
-  const passport = createPassport(config) as unknown as PassportStatic
+  const passport = createPassport() as unknown as PassportStatic
   const api = express.Router()
   // Answers carry patient data: no browser or proxy may keep a copy (ASVS 8.2.1). Express still
   // sets ETags, so a client that asks with If-None-Match gets a 304 without the body.

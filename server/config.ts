@@ -3,7 +3,6 @@
  * config is checked at boot so a typo fails loudly instead of running with a wrong default.
  */
 import path from 'node:path'
-import { DEMO_HOSPITAL } from '../seed/demo/hospital'
 import { isTimeZone } from '../shared/appointments/time'
 import { LIMITS } from '../shared/limits'
 import { isRole, type Role } from '../shared/roles'
@@ -78,7 +77,8 @@ export interface Config {
   /** UPLOAD_DIR: where episode documents and letters are stored, outside the web root */ uploadDir: string
   /** PATIENT_ID_SYSTEM: URI naming the hospital number (MRN) in FHIR exports */ patientIdSystem: string
   /** SHUTDOWN_GRACE_SECONDS: on SIGTERM, how long requests in flight may take to finish */ shutdownGraceSeconds: number
-  /** AUDIT_VIEW_WINDOW_MINUTES: a background read of the same record by the same user is audited once per window */ auditViewWindowMinutes: number
+  /** AUDIT_VIEW_WINDOW_MINUTES: a background read of the same record by the same user is audited once per window */
+  auditViewWindowMinutes: number
   /** Sign-in through the hospital's OpenID Connect provider; null when OIDC_ISSUER is empty. */
   oidc: OidcConfig | null
   /** LOCAL_SIGN_IN: on | admins-only | off — local passwords kept as break glass */ localSignIn: LocalSignInMode
@@ -91,7 +91,8 @@ export interface Config {
     /** HL7_RETENTION_DAYS: messages older than this are deleted, unless they still need attention */ retentionDays: number
     /** HL7_MAX_MESSAGE_BYTES */ maxMessageBytes: number
     /** HL7_IDLE_TIMEOUT_SECONDS: a connection silent this long is closed */ idleTimeoutSeconds: number
-    /** HL7_PARTIAL_TIMEOUT_SECONDS: a message begun but not finished this long is dropped with its connection */ partialTimeoutSeconds: number
+    /** HL7_PARTIAL_TIMEOUT_SECONDS: a message begun but not finished this long is dropped with its connection */
+    partialTimeoutSeconds: number
     /** HL7_MAX_CONNECTIONS */ maxConnections: number
   }
 }
@@ -133,6 +134,19 @@ function timeZone(env: Env, key: string, fallback: string): string {
   if (!isTimeZone(raw)) throw new Error(`Configuration: ${key} must be an IANA time zone such as Europe/London (got "${raw}")`)
   return raw
 }
+
+/**
+ * The clinic's details until a site sets its own: neutral words that say what is missing, never a
+ * real-looking hospital. Production refuses to start on them (productionChecks.ts); npm start and
+ * npm test pass the invented demo hospital's (seed/demo/hospital.ts).
+ */
+export const CLINIC_NOT_SET = {
+  name: 'the hospital (CLINIC_NAME not set)',
+  service: 'Pre-operative Anaemia Service',
+  phone: '(CLINIC_PHONE not set)',
+  email: 'clinic-email-not-set@ferrolane.invalid',
+  timeZone: 'Europe/London',
+} as const
 
 // An invented URI on the reserved .test domain: a real hospital sets its own (often an OID, urn:oid:…).
 const DEMO_PATIENT_ID_SYSTEM = 'https://kestrelvale.ferrolane.test/id/hospital-number'
@@ -252,11 +266,11 @@ export function loadConfig(env: Env = process.env): Config {
       tlsServername: env.SMTP_TLS_SERVERNAME || null,
     },
     clinic: {
-      name: env.CLINIC_NAME || DEMO_HOSPITAL.name,
-      service: env.CLINIC_SERVICE || DEMO_HOSPITAL.service,
-      phone: env.CLINIC_PHONE || DEMO_HOSPITAL.phone,
-      email: env.CLINIC_EMAIL || DEMO_HOSPITAL.email,
-      timeZone: timeZone(env, 'CLINIC_TIME_ZONE', DEMO_HOSPITAL.timeZone),
+      name: env.CLINIC_NAME || CLINIC_NOT_SET.name,
+      service: env.CLINIC_SERVICE || CLINIC_NOT_SET.service,
+      phone: env.CLINIC_PHONE || CLINIC_NOT_SET.phone,
+      email: env.CLINIC_EMAIL || CLINIC_NOT_SET.email,
+      timeZone: timeZone(env, 'CLINIC_TIME_ZONE', CLINIC_NOT_SET.timeZone),
     },
     outbox: {
       pollMs: int(env, 'OUTBOX_POLL_MS', 5000, 100, 3_600_000),

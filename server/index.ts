@@ -53,7 +53,8 @@ async function main(): Promise<void> {
     // A real hospital's server refuses to start on development or demo settings.
     const problems = await productionProblems(config)
     if (problems.length) {
-      log.fatal({ problems }, `Ferrolane will not start in production:\n${problems.map((p) => `  - ${p}`).join('\n')}\n(npm start runs the demo: FERROLANE_DEMO=true.)`)
+      log.fatal({ problems }, `Ferrolane will not start in production:\n${problems.map((p) => `  - ${p}`).join('\n')}\n(npm start runs the demo: ` +
+          `FERROLANE_DEMO=true.)`)
       await sequelize.close()
       process.exit(1)
     }

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import type { Config } from './config'
+import { CLINIC_NOT_SET, type Config } from './config'
 import { DEMO_HOSPITAL } from '../seed/demo/hospital'
 import { DEMO_ACCOUNTS, DEMO_COLLEAGUES } from '../seed/demo/staff'
 import { OWASP_LOG2N } from './services/passwords'
@@ -18,9 +18,15 @@ export function configProblems(config: Config): string[] {
   if (DEVELOPMENT_SECRETS.includes(config.session.secret)) problems.push('SESSION_SECRET is the development value: set a long random secret of your own')
   if (!config.session.cookieSecure) problems.push('COOKIE_SECURE is off: serve Ferrolane over HTTPS and set COOKIE_SECURE=true')
   if (config.db.password === DEVELOPMENT_DB_PASSWORD) problems.push('DB_PASSWORD is the development password: give the database account its own password')
+  const unset = (['name', 'phone', 'email'] as const).filter((k) => config.clinic[k] === CLINIC_NOT_SET[k])
+  if (unset.length) {
+    const names = unset.map((k) => `CLINIC_${k.toUpperCase()}`).join(', ')
+    problems.push(`the clinic's ${unset.join(', ')} ${unset.length === 1 ? 'is' : 'are'} not set: set ${names}`)
+  }
   const demoClinic = (['name', 'phone', 'email'] as const).filter((k) => config.clinic[k] === DEMO_HOSPITAL[k])
   if (demoClinic.length) {
-    problems.push(`the clinic's ${demoClinic.join(', ')} ${demoClinic.length === 1 ? 'is' : 'are'} the invented demo hospital's: set ${demoClinic.map((k) => `CLINIC_${k.toUpperCase()}`).join(', ')}`)
+    problems.push(`the clinic's ${demoClinic.join(', ')} ${demoClinic.length === 1 ? 'is' : 'are'} the invented demo hospital's: set ` +
+        `${demoClinic.map((k) => `CLINIC_${k.toUpperCase()}`).join(', ')}`)
   }
   if (config.passwords.scryptLog2N < OWASP_LOG2N) problems.push(`PASSWORD_SCRYPT_LOG2N is ${config.passwords.scryptLog2N}: OWASP asks for at least ${OWASP_LOG2N}`)
   return problems

@@ -44,7 +44,8 @@ export async function loadBenchData(db: { host: string; port: number; user: stri
     const surgeons = (await conn.query("SELECT id FROM users WHERE role = 'surgeon'")).map((r: { id: number }) => r.id)
     const procs: unknown[][] = []
     for (let i = 1; i <= 12; i++) procs.push([`BP${i}`, `Bench operation ${i}`, 'Bench', 200 + i * 120, 0.1, 'group-and-screen', 0, 'bench data', now, now])
-    await batch(conn, 'INSERT INTO procedures (code, name, specialty, expected_blood_loss_ml, transfusion_rate, usual_blood_order, usual_units, source, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)', procs)
+    await batch(conn, 'INSERT INTO procedures (code, name, specialty, expected_blood_loss_ml, transfusion_rate, usual_blood_order, usual_units, ' +
+        'source, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)', procs)
     const procIds = (await conn.query('SELECT id FROM procedures')).map((r: { id: number }) => r.id)
 
     const syllables = ['ash', 'bro', 'cal', 'den', 'fer', 'gor', 'hal', 'ive', 'jun', 'kes', 'lor', 'mar', 'nor', 'oak', 'pen', 'quil', 'ros', 'sel', 'tor', 'ven']
@@ -54,7 +55,8 @@ export async function loadBenchData(db: { host: string; port: number; user: stri
       const g = name(), f = name()
       patients.push([`BN${String(i).padStart(7, '0')}`, g[0]!.toUpperCase() + g.slice(1), f[0]!.toUpperCase() + f.slice(1), addDays(today, -Math.floor(18000 + rand() * 14000)), rand() < 0.5 ? 'female' : 'male', 1, now, now])
     }
-    await batch(conn, 'INSERT INTO patients (mrn, given_name, family_name, date_of_birth, sex, version, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)', patients)
+    await batch(conn, 'INSERT INTO patients (mrn, given_name, family_name, date_of_birth, sex, version, created_at, updated_at) VALUES (?, ?, ' +
+        '?, ?, ?, ?, ?, ?)', patients)
     const patientIds = (await conn.query('SELECT id FROM patients ORDER BY id')).map((r: { id: number }) => r.id)
     await batch(conn, 'INSERT INTO patient_measurements (patient_id, height_cm, weight_kg, measured_at, created_at) VALUES (?, ?, ?, ?, ?)',
       patientIds.map((id: number) => [id, 150 + Math.round(rand() * 40), 50 + Math.round(rand() * 60), now, now]))
@@ -70,8 +72,9 @@ export async function loadBenchData(db: { host: string; port: number; user: stri
         hb, hb === null ? null : new Date(now.getTime() - Math.floor(rand() * 40) * 86_400_000), rand() < 0.1 ? addDays(today, Math.floor(-20 + rand() * 30)) : null, now, now,
       ])
     }
-    await batch(conn, `INSERT INTO referrals (patient_id, procedure_id, surgeon_id, planned_surgery_date, priority, stage, version, anaemic, anaemia_criteria,
-      iron_status, latest_hb_gl, latest_hb_at, recheck_due_date, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`, referrals)
+    await batch(conn, `INSERT INTO referrals (patient_id, procedure_id, surgeon_id, planned_surgery_date, priority, stage, version, anaemic,
+      anaemia_criteria, iron_status, latest_hb_gl, latest_hb_at, recheck_due_date, created_at, updated_at)
+      VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`, referrals)
     const refs = await conn.query('SELECT id, patient_id AS patientId FROM referrals')
     const analytes: [string, string, () => number][] = [
       ['hb', 'g/L', () => 90 + rand() * 70], ['hb', 'g/L', () => 90 + rand() * 70], ['hb', 'g/L', () => 90 + rand() * 70], ['hb', 'g/L', () => 90 + rand() * 70],
@@ -85,7 +88,8 @@ export async function loadBenchData(db: { host: string; port: number; user: stri
         results.push([r.id, r.patientId, a, value, u, value, u, new Date(now.getTime() - (k + 1) * 3 * 86_400_000), 'manual', now])
       })
     }
-    await batch(conn, `INSERT INTO results (referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported, taken_at, source, created_at)
+    await batch(conn, `INSERT INTO results (referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported,
+                       taken_at, source, created_at)
       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`, results, 10_000)
     await conn.query('ANALYZE TABLE referrals, patients, results, procedures, users')
     return { loaded: true, nurseEmail }

@@ -40,7 +40,8 @@ async function expectedStored(conn: Db): Promise<number> {
   const open = new Set<string>()
   for (let i = 0; i < mrns.length; i += 2000) {
     const rows: { mrn: string }[] = await conn.query(
-      `SELECT DISTINCT p.mrn FROM patients p JOIN referrals r ON r.patient_id = p.id WHERE r.stage NOT IN ('closed', 'withdrawn') AND p.mrn IN (?)`, [mrns.slice(i, i + 2000)])
+      `SELECT DISTINCT p.mrn FROM patients p JOIN referrals r ON r.patient_id = p.id WHERE r.stage NOT IN ('closed', ` +
+        `'withdrawn') AND p.mrn IN (?)`, [mrns.slice(i, i + 2000)])
     rows.forEach((r) => open.add(r.mrn))
   }
   return mrns.filter((m) => open.has(m)).length
@@ -68,7 +69,8 @@ async function verify(conn: Db, run: string) {
        GROUP BY r.referral_id, r.analyte, r.taken_at, r.value_canonical HAVING COUNT(*) > 1) d`, [like])
   // Every stored message brought exactly one result (each bench message has one OBX).
   const [odd] = await conn.query(
-    `SELECT COUNT(*) AS n FROM hl7_messages h WHERE h.control_id LIKE ? AND h.ack_code = 'AA' AND (SELECT COUNT(*) FROM results r WHERE r.hl7_message_id = h.id) <> 1`, [like])
+    `SELECT COUNT(*) AS n FROM hl7_messages h WHERE h.control_id LIKE ? AND h.ack_code = 'AA' AND (SELECT COUNT(*) FROM results ` +
+      `r WHERE r.hl7_message_id = h.id) <> 1`, [like])
   return { messages: Number(m.n), distinctControlIds: Number(m.d), storedAA: Number(m.aa), results: Number(r.n), duplicateResults: Number(dup.n), storedMessagesWithoutOneResult: Number(odd.n) }
 }
 

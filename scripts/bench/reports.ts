@@ -22,11 +22,14 @@ async function ensureReportData(db: ConnectionConfig): Promise<void> {
     await conn.query(`INSERT INTO stage_transitions (referral_id, from_stage, to_stage, at)
       SELECT id, NULL, 'referred', created_at FROM referrals
       UNION ALL SELECT id, 'screened', 'clinic', DATE_ADD(created_at, INTERVAL 5 DAY) FROM referrals WHERE id % 3 = 0`)
-    await conn.query(`INSERT INTO prescriptions (referral_id, product_code, route, weight_kg, hb_gl, target_hb_gl, deficit_mg, total_mg, first_dose_date, plan, cautions, status, prescribed_at)
-      SELECT id, 'ferric-carboxymaltose', 'iv', 70, 100, 150, 1000, 1000, DATE(created_at), '{}', '{}', 'completed', created_at FROM referrals WHERE id % 3 = 0`)
+    await conn.query(`INSERT INTO prescriptions (referral_id, product_code, route, weight_kg, hb_gl, target_hb_gl, deficit_mg,
+      total_mg, first_dose_date, plan, cautions, status, prescribed_at)
+      SELECT id, 'ferric-carboxymaltose', 'iv', 70, 100, 150, 1000, 1000, DATE(created_at), '{}', '{}', 'completed', created_at
+      FROM referrals WHERE id % 3 = 0`)
     await conn.query(`INSERT INTO administrations (prescription_id, referral_id, dose_mg, given_at, batch_number, reaction, created_at)
       SELECT id, referral_id, 1000, DATE_ADD(prescribed_at, INTERVAL 3 DAY), 'BENCH', 'none', NOW() FROM prescriptions`)
-    await conn.query(`INSERT INTO outcomes (referral_id, surgery_date, blood_loss_ml, units_transfused_intra_op, units_transfused_post_op, units_crossmatched,
+    await conn.query(`INSERT INTO outcomes (referral_id, surgery_date, blood_loss_ml, units_transfused_intra_op,
+      units_transfused_post_op, units_crossmatched,
         lowest_hb_gl, length_of_stay_days, complications, created_at, updated_at)
       SELECT id, planned_surgery_date, 300 + id % 700, id % 5 = 0, id % 7 = 0, IF(id % 4 = 0, 2, 0), 85, 3, '["none"]', NOW(), NOW()
       FROM referrals WHERE stage IN ('operated', 'closed')`)
@@ -42,14 +45,18 @@ async function ensureQualityData(db: ConnectionConfig): Promise<void> {
   try {
     const [{ n }] = await conn.query('SELECT COUNT(*) AS n FROM transfusions')
     if (Number(n) > 0) return
-    await conn.query(`INSERT INTO transfusions (referral_id, given_at, phase, component, units, pre_transfusion_hb_gl, post_transfusion_hb_gl, reassessed_before_next,
+    await conn.query(`INSERT INTO transfusions (referral_id, given_at, phase, component, units, pre_transfusion_hb_gl,
+      post_transfusion_hb_gl, reassessed_before_next,
         information_given, product_codes, reason, threshold_gl, threshold_basis, created_at, updated_at)
-      SELECT referral_id, DATE_ADD(surgery_date, INTERVAL 1 DAY), 'after-surgery', 'red-cells', IF(referral_id % 7 = 0, 2, 1), 65 + referral_id % 20,
+      SELECT referral_id, DATE_ADD(surgery_date, INTERVAL 1 DAY), 'after-surgery', 'red-cells', IF(referral_id % 7 = 0, 2, 1),
+        65 + referral_id % 20,
         IF(referral_id % 3 = 0, NULL, 80), referral_id % 3 <> 0, referral_id % 4 <> 0, '[]', NULL, 80, 'bench', NOW(), NOW()
       FROM outcomes WHERE units_transfused_post_op > 0 OR units_transfused_intra_op > 0`)
     await conn.query(`UPDATE outcomes SET tranexamic_acid_given = (referral_id % 3 <> 0), post_operative_iron_given = (referral_id % 2 = 0)`)
     await conn.query(`INSERT INTO surgery_date_changes (referral_id, from_date, to_date, reason, changed_at)
-      SELECT id, DATE_SUB(planned_surgery_date, INTERVAL 14 DAY), planned_surgery_date, IF(id % 2 = 0, 'anaemia', 'theatre-capacity'), created_at FROM referrals WHERE id % 11 = 0`)
+      SELECT id, DATE_SUB(planned_surgery_date, INTERVAL 14 DAY), planned_surgery_date,
+        IF(id % 2 = 0, 'anaemia', 'theatre-capacity'), created_at
+      FROM referrals WHERE id % 11 = 0`)
     await conn.query('ANALYZE TABLE transfusions, surgery_date_changes, outcomes')
   } finally {
     await conn.end()
@@ -63,7 +70,8 @@ async function ensureCancellationData(db: ConnectionConfig): Promise<void> {
     const [{ n }] = await conn.query("SELECT COUNT(*) AS n FROM surgery_date_changes WHERE kind = 'cancelled'")
     if (Number(n) > 0) return
     await conn.query(`INSERT INTO surgery_date_changes (referral_id, kind, from_date, to_date, reason, changed_at)
-      SELECT id, 'cancelled', planned_surgery_date, NULL, IF(id % 2 = 0, 'anaemia', 'patient-choice'), created_at FROM referrals WHERE id % 13 = 0`)
+      SELECT id, 'cancelled', planned_surgery_date, NULL, IF(id % 2 = 0, 'anaemia', 'patient-choice'), created_at
+      FROM referrals WHERE id % 13 = 0`)
     await conn.query('ANALYZE TABLE surgery_date_changes')
   } finally {
     await conn.end()

@@ -38,7 +38,8 @@ function wsrepArgs(spec: NodeSpec, bootstrap: boolean): string[] {
     `--wsrep-cluster-address=gcomm://${bootstrap ? '' : peers}`,
     `--wsrep-node-name=${nodeLabel(spec.index)}`,
     '--wsrep-node-address=127.0.0.1',
-    `--wsrep-provider-options=gmcast.listen_addr=tcp://127.0.0.1:${me.group};ist.recv_addr=127.0.0.1:${me.ist};gcache.size=64M;evs.suspect_timeout=PT3S;evs.inactive_timeout=PT6S;evs.install_timeout=PT6S`,
+    `--wsrep-provider-options=gmcast.listen_addr=tcp://127.0.0.1:${me.group};ist.recv_addr=127.0.0.1:${me.ist};gcache.size=64M;` +
+      'evs.suspect_timeout=PT3S;evs.inactive_timeout=PT6S;evs.install_timeout=PT6S',
     '--wsrep-sst-method=rsync',
     // A node that rejoins takes its copy from the last standby (rsync blocks the donor's writes
     // while it copies), falling back to any node (the trailing comma).

@@ -7,13 +7,14 @@ export class Visitor {
 
   constructor(private readonly base: string, private readonly log: Outcome[]) {}
 
-  async call(op: string, method: string, path: string, body?: unknown, form?: FormData): Promise<{ status: number; body: any }> {
+  /** T is the answer the caller expects on success; on any other status the body may be an error, text or null. */
+  async call<T = unknown>(op: string, method: string, path: string, body?: unknown, form?: FormData): Promise<{ status: number; body: T }> {
     const headers: Record<string, string> = {}
     if (this.cookie) headers.cookie = this.cookie
     if (method !== 'GET' && this.csrf) headers['x-csrf-token'] = this.csrf
     if (body !== undefined) headers['content-type'] = 'application/json'
-    let status = 0
-    let parsed: any = null
+    let status: number
+    let parsed: unknown = null
     try {
       const res = await fetch(this.base + path, { method, headers, body: form ?? (body === undefined ? undefined : JSON.stringify(body)), signal: AbortSignal.timeout(30_000) })
       status = res.status
@@ -25,14 +26,14 @@ export class Visitor {
       status = 599 // no answer at all (connection refused or reset): counted with the 5xx
     }
     this.log.push({ at: Date.now(), op, status })
-    return { status, body: parsed }
+    return { status, body: parsed as T }
   }
 
   async signIn(email: string, password: string): Promise<number> {
-    const c = await this.call('csrf', 'GET', '/api/auth/csrf')
+    const c = await this.call<{ csrfToken: string }>('csrf', 'GET', '/api/auth/csrf')
     if (c.status !== 200) return c.status
     this.csrf = c.body.csrfToken
-    const r = await this.call('sign-in', 'POST', '/api/auth/login', { email, password })
+    const r = await this.call<{ csrfToken: string }>('sign-in', 'POST', '/api/auth/login', { email, password })
     if (r.status === 200) this.csrf = r.body.csrfToken
     return r.status
   }

@@ -21,8 +21,10 @@ export async function raceOutboxAcrossNodes(t: Topology, count: number): Promise
     const before = await seqs[0].query<{ m: number | null }>('SELECT MAX(id) AS m FROM outbox_messages', { type: QueryTypes.SELECT })
     for (let i = 0; i < count; i += 1) {
       await seqs[0].query(
-        `INSERT INTO outbox_messages (kind, appointment_id, referral_id, patient_id, to_address, subject, payload, status, attempts, next_attempt_at, created_at, updated_at)
-         SELECT kind, NULL, referral_id, patient_id, to_address, subject, payload, 'queued', 0, NOW(3), NOW(), NOW() FROM outbox_messages WHERE id = ?`,
+        `INSERT INTO outbox_messages (kind, appointment_id, referral_id, patient_id, to_address, subject, payload, status,
+         attempts, next_attempt_at, created_at, updated_at)
+         SELECT kind, NULL, referral_id, patient_id, to_address, subject, payload, 'queued', 0, NOW(3), NOW(), NOW()
+         FROM outbox_messages WHERE id = ?`,
         { replacements: [template.id], type: QueryTypes.INSERT })
     }
     const workers = seqs.map((sequelize, i) => new OutboxWorker({ sequelize, config: configs[i], workerId: `race-node${i + 2}`, batchSize: 5 }))

@@ -32,27 +32,27 @@ const kills: { at: number; what: string }[] = []
 const tag = Date.now().toString(36).toUpperCase().slice(-6)
 
 async function episode(v: Visitor, k: number, ctx: { surgeonId: number; procedureCode: string }): Promise<void> {
-  const p = await v.call('register', 'POST', '/api/patients', {
+  const p = await v.call<{ id: number }>('register', 'POST', '/api/patients', {
     mrn: `CL${tag}${k}`, givenName: 'Cluster', familyName: `Loadtest${k}`, dateOfBirth: '1961-03-14', sex: k % 2 ? 'female' : 'male',
     email: `cluster.load.${tag}.${k}@example.test`,
   })
   if (p.status !== 201) return
   acked.patients.push(p.body.id)
-  const r = await v.call('referral', 'POST', '/api/referrals', { patientId: p.body.id, procedureCode: ctx.procedureCode, surgeonId: ctx.surgeonId, plannedSurgeryDate: addDays(todayIso(), 45) })
+  const r = await v.call<{ id: number }>('referral', 'POST', '/api/referrals', { patientId: p.body.id, procedureCode: ctx.procedureCode, surgeonId: ctx.surgeonId, plannedSurgeryDate: addDays(todayIso(), 45) })
   if (r.status !== 201) return
   acked.referrals.push(r.body.id)
   const taken = new Date(Date.now() - 3 * 3_600_000); taken.setUTCMilliseconds(0)
-  const res = await v.call('result', 'POST', `/api/referrals/${r.body.id}/results`, { analyte: 'hb', unit: 'g/L', value: 104 + (k % 20), takenAt: taken.toISOString() })
+  const res = await v.call<{ result: { id: number } }>('result', 'POST', `/api/referrals/${r.body.id}/results`, { analyte: 'hb', unit: 'g/L', value: 104 + (k % 20), takenAt: taken.toISOString() })
   if (res.status === 201) acked.results.push(res.body.result.id)
   const drawn = new Date(Date.now() - 5 * 3_600_000); drawn.setUTCMilliseconds(0)
   const form = new FormData()
   form.set('commit', 'true')
   form.set('source', 'Cluster test laboratory')
   form.set('file', new Blob([`mrn,test_code,value,unit,taken_at\r\nCL${tag}${k},HB,${98 + (k % 20)},g/L,${drawn.toISOString().replace('.000Z', 'Z')}\r\n`], { type: 'text/csv' }), 'cluster.csv')
-  const imp = await v.call('lab-import', 'POST', '/api/imports/lab-results', undefined, form)
+  const imp = await v.call<{ batchId?: number }>('lab-import', 'POST', '/api/imports/lab-results', undefined, form)
   if (imp.status === 201 && imp.body.batchId) acked.batches.push(imp.body.batchId)
   const day = addDays(`${new Date().getFullYear() + 1}-07-13`, k % 300)
-  const b = await v.call('booking', 'POST', '/api/appointments', {
+  const b = await v.call<{ appointment: { id: number }; message?: { id: number } }>('booking', 'POST', '/api/appointments', {
     referralId: r.body.id, kind: 'anaemia-clinic', startsAt: zonedToUtc(day, '09:30', 'Europe/London').toISOString(), durationMin: 30, location: 'Anaemia Clinic, Outpatients B, Level 1',
   })
   if (b.status === 201) {
@@ -77,8 +77,8 @@ async function main(): Promise<number> {
     console.log(`[test-cluster] topology up after ${Math.round((Date.now() - started) / 1000)} s; ${LOAD_SECONDS} s of load`)
     const setup = new Visitor(t.frontUrl, [])
     if ((await setup.signIn(NURSES[0], DEMO_PASSWORD)) !== 200) throw new Error('the demo nurse could not sign in')
-    const surgeons = (await setup.call('staff', 'GET', '/api/staff?role=surgeon')).body.rows as { id: number }[]
-    const procedures = (await setup.call('procedures', 'GET', '/api/procedures')).body.rows as { code: string }[]
+    const surgeons = (await setup.call<{ rows: { id: number }[] }>('staff', 'GET', '/api/staff?role=surgeon')).body.rows
+    const procedures = (await setup.call<{ rows: { code: string }[] }>('procedures', 'GET', '/api/procedures')).body.rows
     const ctx = { surgeonId: surgeons[0].id, procedureCode: procedures[0].code }
 
     // People who stay signed in throughout: their sessions must survive the app process kill.
@@ -124,12 +124,14 @@ async function main(): Promise<number> {
     const unavailable = log.filter((o) => o.status >= 502)
     const late = unavailable.filter((o) => !kills.some((kl) => o.at >= kl.at && o.at <= kl.at + UNAVAILABLE_WINDOW_MS))
     check('503s (and 502/504, no answer) stop within 10 s of each kill', late.length === 0,
-      `${unavailable.length} in all, ${late.length} outside the windows${late.length ? ` (first: ${late[0].op} ${late[0].status} at +${Math.round((late[0].at - loadStart) / 1000)} s)` : ''}`)
+      `${unavailable.length} in all, ${late.length} outside the ` +
+        `windows${late.length ? ` (first: ${late[0].op} ${late[0].status} at +${Math.round((late[0].at - loadStart) / 1000)} s)` : ''}`)
     const statuses = log.reduce<Record<string, number>>((m, o) => { m[`${o.op} ${o.status}`] = (m[`${o.op} ${o.status}`] ?? 0) + 1; return m }, {})
     console.log('[test-cluster] answers:', JSON.stringify(statuses))
     check('sessions signed in before the app kill carry on through the other process', signedOut === 0 && steady.length === NURSES.length, `${signedOut} answers of 401`)
     check('the load made every kind of write', acked.patients.length > 5 && acked.results.length > 5 && acked.batches.length > 5 && acked.appointments.length > 5 && acked.signIns > 3,
-      `${acked.signIns} sign-ins, ${acked.patients.length} registrations, ${acked.results.length} results, ${acked.batches.length} lab imports, ${acked.appointments.length} bookings`)
+      `${acked.signIns} sign-ins, ${acked.patients.length} registrations, ${acked.results.length} results, ` +
+        `${acked.batches.length} lab imports, ${acked.appointments.length} bookings`)
 
     // Every e-mail out before comparing.
     const drained = await waitFor(async () => onNode(t.nodeSocket(1), async (c) => {
@@ -181,7 +183,8 @@ async function main(): Promise<number> {
     const lost = sent.filter((id) => !received.includes(id))
     const unrecorded = received.filter((id) => !sent.includes(id))
     check('no e-mail sent twice, none lost (maildev against the outbox)', dupes.length === 0 && lost.length === 0 && unrecorded.length === 0 && sent.length > 0,
-      `${received.length} received, ${sent.length} sent in the outbox, ${dupes.length} twice, ${lost.length} lost, ${unrecorded.length} not recorded as sent`)
+      `${received.length} received, ${sent.length} sent in the outbox, ${dupes.length} twice, ${lost.length} lost, ` +
+        `${unrecorded.length} not recorded as sent`)
   } catch (err) {
     check('the cluster test ran to the end', false, err instanceof Error ? err.message : String(err))
   } finally {

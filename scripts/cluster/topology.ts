@@ -16,6 +16,7 @@ import { clusterPorts, NODE_COUNT, type ClusterPorts } from './ports'
 import { grastate, markSafeToBootstrap, nodeDataDir, nodeLabel, nodePid, nodeSocket, startGaleraNode } from './galera'
 import { startCheckAgent, type CheckAgent } from './checkAgent'
 import { startHaproxy, type HaproxyHandle } from './haproxy'
+import { demoClinicEnv } from '../../seed/demo/hospital'
 
 export interface TopologyOptions {
   label: string
@@ -103,6 +104,7 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
       ...process.env,
       NODE_ENV: 'production',
       FERROLANE_DEMO: 'true',
+      ...demoClinicEnv(process.env),
       HOST: '127.0.0.1',
       DB_HOST: '127.0.0.1',
       DB_PORT: String(ports.dbWriter),

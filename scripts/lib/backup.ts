@@ -79,7 +79,8 @@ async function listFiles(root: string, under = ''): Promise<string[]> {
 /** Row counts and CHECKSUM TABLE of every base table, by name. */
 export async function tableChecksums(sequelize: Sequelize): Promise<Manifest['tables']> {
   const tables = await sequelize.query<{ name: string }>(
-    `SELECT table_name AS name FROM information_schema.tables WHERE table_schema = DATABASE() AND table_type = 'BASE TABLE' ORDER BY table_name`,
+    `SELECT table_name AS name FROM information_schema.tables WHERE table_schema = DATABASE() AND table_type = 'BASE TABLE' ` +
+      `ORDER BY table_name`,
     { type: QueryTypes.SELECT },
   )
   const out: Manifest['tables'] = {}
@@ -102,7 +103,8 @@ export async function takeBackup(config: Config, intoDir: string): Promise<strin
   const sequelize = createSequelize(config)
   try {
     const [v] = await sequelize.query<{ v: string }>('SELECT VERSION() AS v', { type: QueryTypes.SELECT }).catch(() => {
-      throw new BackupProblem(`cannot reach the database ${config.db.name} (${config.db.socket ?? `${config.db.host}:${config.db.port}`}): is MariaDB running, and are DB_* set as the server has them?`)
+      throw new BackupProblem(`cannot reach the database ${config.db.name} (${config.db.socket ?? `${config.db.host}:${config.db.port}`}): is MariaDB ` +
+          `running, and are DB_* set as the server has them?`)
     })
     // One consistent snapshot without locking writers out (InnoDB); triggers (the audit trail's
     // append-only guard) and routines come with it; binary columns as hex so nothing is mangled.

@@ -6,7 +6,10 @@ export function messagesFromText(text: string): string[] {
   const out: string[] = []
   let current: string[] = []
   for (const line of text.split(/\r\n|\r|\n/)) {
-    if (line.startsWith('MSH') && current.length) out.push(current.join('\r')), (current = [])
+    if (line.startsWith('MSH') && current.length) {
+      out.push(current.join('\r'))
+      current = []
+    }
     if (line.trim()) current.push(line)
   }
   if (current.length) out.push(current.join('\r'))

@@ -1,7 +1,6 @@
 import { Passport } from 'passport'
 import { Strategy as LocalStrategy } from 'passport-local'
 import type { Request } from 'express'
-import type { Config } from '../config'
 import type { SessionUser } from '../../shared/types'
 import { checkCredentials, BAD_CREDENTIALS } from '../services/signIn'
 import { findActiveUser } from '../services/users'
@@ -19,7 +18,7 @@ export function clientAddress(req: Request): string {
 }
 
 /** One Passport per app instance, so two apps in one test process do not share strategies. */
-export function createPassport(config: Config): InstanceType<typeof Passport> {
+export function createPassport(): InstanceType<typeof Passport> {
   const passport = new Passport()
   passport.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password', passReqToCallback: true }, (req, email, password, done) => {

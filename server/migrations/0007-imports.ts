@@ -51,7 +51,8 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     { type: QueryTypes.SELECT },
   )
   if (Number(dup?.n ?? 0) > 0) {
-    throw new Error(`0007-imports: ${dup!.n} results are stored twice (same referral, analyte, time taken and value); remove the copies, then migrate again`)
+    throw new Error(`0007-imports: ${dup!.n} results are stored twice (same referral, analyte, time taken and value); remove the copies, then ` +
+        `migrate again`)
   }
   // The referral stands for the patient (one episode of one patient); one sample gives one value.
   await qi.addIndex('results', ['referral_id', 'analyte', 'taken_at', 'value_canonical'], { name: 'results_natural_key', unique: true })

@@ -1,14 +1,14 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { CLINICAL_READERS, viewerOf } from './pathwayContext'
-import { exportEpisodeBundle } from '../services/fhirExport/index'
+import { exportReferralBundle } from '../services/fhirExport/index'
 
 /** The episode as a FHIR R4 Bundle, for the hospital record or another service. Staff only; audited. */
 export function fhirExportRoutes({ config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
   api.get('/:id/fhir', { access: CLINICAL_READERS }, async (req, res) => {
     const id = idParam(req)
-    const bundle = await exportEpisodeBundle(config, viewerOf(req), id)
+    const bundle = await exportReferralBundle(config, viewerOf(req), id)
     res.attachment(`ferrolane-episode-${id}.fhir.json`)
     res.set({ 'Content-Type': 'application/fhir+json; charset=utf-8', 'Cache-Control': 'private, no-store' })
     res.send(JSON.stringify(bundle))

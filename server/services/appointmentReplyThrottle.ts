@@ -11,7 +11,8 @@ export async function assertNotThrottled(config: Config, ip: string): Promise<vo
   const row = await AppointmentReplyFailure.findOne({ where: { bucket: bucketOf(ip), windowStartedAt: { [Op.gte]: windowStart(config) } }, raw: true })
   if ((row?.failures ?? 0) >= config.replies.maxBadTokensPerAddress) {
     throw new TooMany(
-      `Too many links we could not recognise came from your connection. Wait ${config.replies.windowMinutes} minutes and open the link from your e-mail again, or call the ${config.clinic.service} on ${config.clinic.phone}.`,
+      `Too many links we could not recognise came from your connection. Wait ${config.replies.windowMinutes} minutes and open ` +
+        `the link from your e-mail again, or call the ${config.clinic.service} on ${config.clinic.phone}.`,
     )
   }
 }

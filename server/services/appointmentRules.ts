@@ -25,7 +25,8 @@ export async function assertNoDoubleBooking(t: Transaction, patientId: number, w
   })
   if (clash) {
     throw new Conflict(
-      `The patient already has an appointment on ${localDate(clash.startsAt, timeZone)} from ${localTime(clash.startsAt, timeZone)} to ${localTime(clash.endsAt, timeZone)} that overlaps this time`,
+      `The patient already has an appointment on ${localDate(clash.startsAt, timeZone)} from ` +
+        `${localTime(clash.startsAt, timeZone)} to ${localTime(clash.endsAt, timeZone)} that overlaps this time`,
       'double_booked',
       { startsAt: 'overlaps another appointment of this patient' },
       { clashingAppointmentId: clash.id },

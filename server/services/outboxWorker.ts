@@ -62,7 +62,8 @@ export class OutboxWorker {
     const due = await sequelize.query<{ id: number; attempts: number }>(
       `SELECT o.id, o.attempts FROM outbox_messages o
        WHERE ((o.status = 'queued' AND o.next_attempt_at <= ?) OR (o.status = 'sending' AND o.claimed_until < ?))
-         AND NOT EXISTS (SELECT 1 FROM outbox_messages e WHERE e.appointment_id = o.appointment_id AND e.id < o.id AND e.status IN ('queued', 'sending'))
+         AND NOT EXISTS (SELECT 1 FROM outbox_messages e WHERE e.appointment_id = o.appointment_id AND e.id < o.id AND e.status
+           IN ('queued', 'sending'))
        ORDER BY o.id LIMIT ?`,
       { replacements: [now, now, this.opts.batchSize ?? 10], type: QueryTypes.SELECT },
     )

@@ -32,7 +32,8 @@ async function phosphateNeeded(r: LoadedReferral, product: IronProduct): Promise
   if (!last) return { needed: false, message: '' }
   const phosphate = await Result.findOne({ where: { referralId: r.id, analyte: 'phosphate', takenAt: { [Op.gt]: last.givenAt }, ...FINAL_WHERE } })
   if (phosphate) return { needed: false, message: '' }
-  return { needed: true, message: `A repeat course of ${product.name}: record a serum phosphate taken since the last dose (${last.givenAt.toISOString().slice(0, 10)}) first (${PHOSPHATE_SOURCE}).` }
+  return { needed: true, message: `A repeat course of ${product.name}: record a serum phosphate taken since the last dose ` +
+      `(${last.givenAt.toISOString().slice(0, 10)}) first (${PHOSPHATE_SOURCE}).` }
 }
 
 /** The figures a dose is computed from; a missing one is a 422 that names it, never a default. */
@@ -61,7 +62,8 @@ async function doseInputs(r: LoadedReferral, input: DosePlanPreviewInput): Promi
   if (phosphate.needed) warnings.unshift(phosphate.message)
   const weightAgeDays = facts.body.weightMeasuredAt ? daysBetween(facts.body.weightMeasuredAt.slice(0, 10), clinicToday()) : null
   if (weightAgeDays !== null && weightAgeDays > settings.weightMaxAgeDays) {
-    warnings.unshift(`The weight (${facts.body.weightKg} kg) was measured ${weightAgeDays} days ago, more than ${settings.weightMaxAgeDays}: re-weigh the patient before relying on this dose.`)
+    warnings.unshift(`The weight (${facts.body.weightKg} kg) was measured ${weightAgeDays} days ago, more than ${settings.weightMaxAgeDays}: ` +
+        `re-weigh the patient before relying on this dose.`)
   }
   return {
     product,

@@ -70,7 +70,8 @@ export async function refreshScreeningMany(sequelize: Sequelize, referralIds: re
     const selects = refs.map((ref) => {
       const next = screeningOutcome(latestFromRows(byReferral.get(ref.id) ?? []), ref.sex, ref.criteria)
       values.push(ref.id, next.anaemic == null ? null : next.anaemic ? 1 : 0, next.anaemiaSeverity, next.ironStatus, next.proposedStage, next.latestHbGL, next.latestHbAt)
-      return 'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at'
+      return 'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
+        'CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at'
     })
     if (!selects.length) continue
     // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.

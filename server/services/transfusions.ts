@@ -37,7 +37,7 @@ async function lockForTransfusion(t: Transaction, viewer: Viewer, referralId: nu
 }
 
 /** The rules that need the patient: the admission window, the threshold and the product codes. */
-function checkAgainstEpisode(r: LoadedReferral, outcome: Outcome, input: TransfusionInput, threshold: Threshold): void {
+function checkAgainstReferral(r: LoadedReferral, outcome: Outcome, input: TransfusionInput, threshold: Threshold): void {
   const givenDay = input.givenAt.toISOString().slice(0, 10)
   if (givenDay < r.createdAt.toISOString().slice(0, 10)) {
     throw new RuleRefused('The transfusion is dated before the referral', 'given_before_referral', { givenAt: 'is before the referral date' })
@@ -82,7 +82,7 @@ export async function recordTransfusion(
   return sequelize.transaction(async (t) => {
     const { r, outcome } = await lockForTransfusion(t, viewer, referralId)
     const threshold = thresholdOf(r)
-    checkAgainstEpisode(r, outcome, input, threshold)
+    checkAgainstReferral(r, outcome, input, threshold)
     const row = await Transfusion.create({ referralId, ...valuesOf(input, outcome, threshold), recordedBy: viewer.userId }, { transaction: t })
     const redCellUnits = await syncOutcomeUnits(referralId, t)
     const view = toTransfusionView(row)
@@ -109,7 +109,7 @@ export async function editTransfusion(
     const { r, outcome } = await lockForTransfusion(t, viewer, referralId)
     const row = await standingRow(t, referralId, transfusionId)
     const threshold = thresholdOf(r)
-    checkAgainstEpisode(r, outcome, input, threshold)
+    checkAgainstReferral(r, outcome, input, threshold)
     const before = toTransfusionView(row)
     await row.update(valuesOf(input, outcome, threshold), { transaction: t })
     const redCellUnits = await syncOutcomeUnits(referralId, t)

@@ -29,7 +29,8 @@ export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: num
     if (!move) {
       const options = allowedMoves(r.stage, viewer.role).map((m) => m.to)
       throw new RuleRefused(
-        `An episode cannot move from "${STAGE_LABELS[r.stage]}" to "${STAGE_LABELS[to]}"${options.length ? ` (you may move it to: ${options.join(', ')})` : ''}`,
+        `An episode cannot move from "${STAGE_LABELS[r.stage]}" to ` +
+          `"${STAGE_LABELS[to]}"${options.length ? ` (you may move it to: ${options.join(', ')})` : ''}`,
         'move_not_allowed',
       )
     }

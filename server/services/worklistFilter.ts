@@ -22,7 +22,8 @@ export const BY_DATE = 'r.planned_surgery_date'
 const FLAG_SQL: Record<WorklistFlag, string> = {
   'surgery-soon-anaemic': `(r.anaemic = 1 AND r.planned_surgery_date BETWEEN :today AND :soon AND r.stage IN ${PRE_OP})`,
   'no-screening-result': `(r.latest_hb_at IS NULL AND r.stage IN ${PRE_OP})`,
-  'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR DATE(DATE_ADD(r.latest_hb_at, INTERVAL :zoneOffsetMin MINUTE)) < r.recheck_due_date))`,
+  'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR ` +
+    `DATE(DATE_ADD(r.latest_hb_at, INTERVAL :zoneOffsetMin MINUTE)) < r.recheck_due_date))`,
   'treatment-not-given': `(r.treatment_ordered_at IS NOT NULL AND r.treatment_given_at IS NULL AND r.stage IN ${PRE_OP})`,
   'date-change-requested': `(r.date_change_requested_at IS NOT NULL AND r.stage IN ${PRE_OP})`,
   'no-response-to-iron': `(r.no_response_to_iron = 1 AND r.stage IN ${PRE_OP})`,

@@ -46,18 +46,21 @@ export function decideBloodOrder(b: BloodOrderInput): BloodOrderDecision {
     : `Catalogue order for ${b.procedure.name}: group and screen.`)
   considered.push(rate === null
     ? 'Catalogue transfusion rate: not recorded.'
-    : `Catalogue transfusion rate: ${Math.round(rate * 100)} % of patients (local policy: crossmatch at ${Math.round(CROSSMATCH_TRANSFUSION_RATE * 100)} % or more).`)
+    : `Catalogue transfusion rate: ${Math.round(rate * 100)} % of patients (local policy: crossmatch at ` +
+        `${Math.round(CROSSMATCH_TRANSFUSION_RATE * 100)} % or more).`)
   if (b.antibodiesPositive) considered.push('Red-cell antibody screen: positive.')
 
   if (b.declinesTransfusion) {
-    notes.push('The patient declines transfusion: no red cells are to be crossmatched unless the patient gives fresh consent. Group and screen only if the patient agrees to the sample.')
+    notes.push('The patient declines transfusion: no red cells are to be crossmatched unless the patient gives fresh consent. Group and ' +
+        'screen only if the patient agrees to the sample.')
     if (b.antibodiesPositive) notes.push('Red-cell antibodies are also recorded: tell the transfusion laboratory, in case consent changes.')
     return { kind: 'group-and-screen', units: 0, rule: 'declines-transfusion', decidedBy: 'The patient declines transfusion (recorded on the episode).', considered, notes }
   }
 
   const wanted = Math.max(b.calculatedUnits, catalogueCrossmatch ? b.procedure.usualUnits : 0)
   if (b.antibodiesPositive) {
-    notes.push('Tell the transfusion laboratory now: finding antigen-negative units can take hours to days, so send the crossmatch sample well before the day (local policy).')
+    notes.push('Tell the transfusion laboratory now: finding antigen-negative units can take hours to days, so send the crossmatch ' +
+        'sample well before the day (local policy).')
     return { kind: 'crossmatch', units: Math.max(1, wanted), rule: 'antibodies', decidedBy: 'Positive red-cell antibody screen: crossmatch is required.', considered, notes }
   }
   if (b.calculatedUnits > 0 && b.calculatedUnits >= (catalogueCrossmatch ? b.procedure.usualUnits : 0)) {

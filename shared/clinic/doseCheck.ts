@@ -26,20 +26,24 @@ export function checkDosesAgainstCaps(
       out.push({ cap: 'maxSingleDoseMg', message: `Dose ${n} (${d.doseMg} mg) is over the largest single dose of ${product.maxSingleDoseMg} mg for ${product.name}` })
     }
     if (d.doseMg > perKgLimit + 1e-9) {
-      out.push({ cap: 'maxSingleDoseMgPerKg', message: `Dose ${n} (${d.doseMg} mg) is over ${product.maxSingleDoseMgPerKg} mg/kg (${Math.floor(perKgLimit)} mg at ${weightKg} kg) for ${product.name}` })
+      out.push({ cap: 'maxSingleDoseMgPerKg', message: `Dose ${n} (${d.doseMg} mg) is over ${product.maxSingleDoseMgPerKg} mg/kg (${Math.floor(perKgLimit)} mg at ${weightKg} ` +
+          `kg) for ${product.name}` })
     }
     if (d.doseMg > childMax) {
       out.push({ cap: 'paediatricMaxSingleDoseMg', message: `Dose ${n} (${d.doseMg} mg) is over the largest single dose under 18 of ${childMax} mg for ${product.name}` })
     }
     if (d.doseMg > childPerKg + 1e-9) {
-      out.push({ cap: 'paediatricMaxSingleDoseMgPerKg', message: `Dose ${n} (${d.doseMg} mg) is over ${product.paediatricMaxSingleDoseMgPerKg} mg/kg under 18 (${Math.floor(childPerKg)} mg at ${weightKg} kg) for ${product.name}` })
+      out.push({ cap: 'paediatricMaxSingleDoseMgPerKg', message: `Dose ${n} (${d.doseMg} mg) is over ${product.paediatricMaxSingleDoseMgPerKg} mg/kg under 18 (${Math.floor(childPerKg)} ` +
+          `mg at ${weightKg} kg) for ${product.name}` })
     }
     if (opts.surgeryDayOffset !== undefined && d.dayOffset >= opts.surgeryDayOffset) {
-      out.push({ cap: 'surgeryDate', message: `Dose ${n} (day ${d.dayOffset}) falls on or after the planned surgery (day ${opts.surgeryDayOffset}): plan it before, or give it after the operation` })
+      out.push({ cap: 'surgeryDate', message: `Dose ${n} (day ${d.dayOffset}) falls on or after the planned surgery (day ${opts.surgeryDayOffset}): plan it before, ` +
+          `or give it after the operation` })
     }
     const prev = sorted[i - 1]
     if (prev && d.dayOffset - prev.dayOffset < product.minIntervalDays) {
-      out.push({ cap: 'minIntervalDays', message: `Doses ${n - 1} and ${n} are ${d.dayOffset - prev.dayOffset} days apart; ${product.name} needs at least ${product.minIntervalDays}` })
+      out.push({ cap: 'minIntervalDays', message: `Doses ${n - 1} and ${n} are ${d.dayOffset - prev.dayOffset} days apart; ${product.name} needs at least ` +
+          `${product.minIntervalDays}` })
     }
   })
   if (product.maxWeeklyMg !== undefined) {
@@ -98,7 +102,8 @@ export function checkGivenDose(input: {
       const days = Math.abs(t - other.givenAt.getTime()) / DAY_MS
       if (days < product.minIntervalDays) {
         const when = other.givenAt.getTime() <= t ? 'before' : 'after'
-        out.push({ cap: 'minIntervalDays', message: `The nearest dose ${when} this one is ${Number(days.toFixed(1))} days away; ${product.name} needs at least ${product.minIntervalDays}` })
+        out.push({ cap: 'minIntervalDays', message: `The nearest dose ${when} this one is ${Number(days.toFixed(1))} days away; ${product.name} needs at least ` +
+            `${product.minIntervalDays}` })
         break
       }
     }

@@ -83,7 +83,8 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const ebv = bv.ml
   methods.bloodVolume = bv.methodName
   if (bv.method === 'lemmens') {
-    cautions.push(`BMI ${Math.round(bv.bmi)}: blood volume is estimated for lean mass (Lemmens 2006), because fat holds little blood; the allowable loss is smaller than weight-based figures would suggest.`)
+    cautions.push(`BMI ${Math.round(bv.bmi)}: blood volume is estimated for lean mass (Lemmens 2006), because fat holds little blood; the ` +
+        `allowable loss is smaller than weight-based figures would suggest.`)
   }
 
   const triggerHbGL = input.cardiovascularDisease ? settings.cardiovascularTriggerGL : settings.transfusionTriggerGL
@@ -115,7 +116,8 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     'expected-response': 'Expected response to the iron given (stated assumption, no re-check yet)',
     'latest-value': 'Latest measured Hb',
   }[hbProjection.method]
-  methods.planningHb = 'Blood order, allowable loss and the verdict use the lower of the latest measured Hb and the projection: an assumed rise never lowers them'
+  methods.planningHb = 'Blood order, allowable loss and the verdict use the lower of the latest measured Hb and the projection: an assumed rise ' +
+      'never lowers them'
   assumptions.push(...hbProjection.assumptions)
 
   const lossMl = input.procedure.expectedBloodLossMl
@@ -127,14 +129,16 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     gross: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'gross' }),
     logarithmic: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'logarithmic' }),
   }
-  methods.allowableBloodLoss = `Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger, with blood volume by ${bv.method === 'lemmens' ? 'Lemmens 2006' : 'Nadler 1962'}`
+  methods.allowableBloodLoss = `Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger, with blood ` +
+    `volume by ${bv.method === 'lemmens' ? 'Lemmens 2006' : 'Nadler 1962'}`
 
   // A height is on record here: patientBloodVolume refuses the projection without one.
   const bsa = bsaMosteller({ heightCm: input.heightCm!, weightKg: input.weightKg })
   let co = input.cardiacOutputLMin
   if (co == null) {
     co = settings.defaultCardiacIndexLMinM2 * bsa
-    assumptions.push(`Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface area ${r2(bsa)} m² (Mosteller); edit it to recompute.`)
+    assumptions.push(`Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface ` +
+        `area ${r2(bsa)} m² (Mosteller); edit it to recompute.`)
   }
   const point = (hbGL: number): OxygenPoint => {
     const cao2 = oxygenContent({ hbGL, so2: input.saO2, po2MmHg: input.paO2MmHg })
@@ -142,7 +146,8 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   }
   methods.oxygenContent = 'CaO2 = 1.34 × Hb (g/dL) × SaO2 + 0.003 × PaO2 (mmHg)'
   methods.oxygenDelivery = 'DO2 = cardiac output (L/min) × CaO2 × 10'
-  assumptions.push(`Arterial SaO2 ${Math.round(input.saO2 * 100)} % and PaO2 ${input.paO2MmHg} mmHg are the clinic's stated defaults (no blood gas recorded).`)
+  assumptions.push(`Arterial SaO2 ${Math.round(input.saO2 * 100)} % and PaO2 ${input.paO2MmHg} mmHg are the clinic's stated defaults (no blood ` +
+      `gas recorded).`)
 
   const need = redCellTransfusionNeed({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, expectedLossMl: lossMl })
   methods.transfusionNeed = 'Red-cell-volume method (Mercuriali & Inghilleri 1996): units = (expected red-cell loss − tolerated red-cell loss) / 200 mL per unit'
@@ -153,7 +158,8 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     antibodiesPositive: input.antibodiesPositive,
     declinesTransfusion: input.declinesTransfusion,
   })
-  methods.bloodOrder = 'The largest order any rule asks for: red-cell-volume estimate, the catalogue order, the catalogue transfusion rate, a positive antibody screen; a recorded refusal of transfusion overrides all'
+  methods.bloodOrder = 'The largest order any rule asks for: red-cell-volume estimate, the catalogue order, the catalogue transfusion rate, a ' +
+      'positive antibody screen; a recorded refusal of transfusion overrides all'
 
   const rule = classifyAnaemia({ hbGL: planningHb, sex: input.sex, criteria: settings.anaemiaCriteria })
   const readiness = readinessVerdict({

@@ -30,4 +30,5 @@ export const READINESS_FLAG_LABELS: Record<ReadinessFlag, string> = {
 }
 
 export const DECISION_SUPPORT_CAUTION =
-  'Decision support only: check doses, projections and blood orders against local protocols and the product\'s prescribing information. The licensed clinical team decides.'
+  'Decision support only: check doses, projections and blood orders against local protocols and the product\'s prescribing ' +
+  'information. The licensed clinical team decides.'

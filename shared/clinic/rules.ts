@@ -50,5 +50,6 @@ export const CROSSMATCH_TRANSFUSION_RATE = 0.3
  */
 export const DECLINES_TARGET_UPLIFT_GL = 10
 
-export const TXA_BASIS = 'NICE NG24 (2015) and quality standard QS138 statement 2: offer tranexamic acid to adults having surgery expected to lose more than 500 mL'
+export const TXA_BASIS = 'NICE NG24 (2015) and quality standard QS138 statement 2: offer tranexamic acid to adults having surgery expected to lose ' +
+    'more than 500 mL'
 export const CELL_SALVAGE_BASIS = 'NICE NG24 (2015): consider intra-operative cell salvage with tranexamic acid where a very high blood loss is expected'

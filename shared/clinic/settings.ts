@@ -10,7 +10,8 @@ export interface ClinicSettings {
   cardiovascularTriggerGL: number
   /** Target Hb for the Ganzoni deficit (iron sucrose labels use 15 g/dL for ≥35 kg). */
   ironTargetHbGL: number
-  /** Days after the last dose when the re-check Hb is due: 4 weeks (Ferinject SmPC 4.2: Hb re-assessed no earlier than 4 weeks after the last dose). */
+  /** Days after the last dose when the re-check Hb is due: 4 weeks (Ferinject SmPC 4.2: Hb re-assessed no earlier than 4 weeks after
+   * the last dose). */
   recheckDaysAfterLastDose: number
   /** Stated defaults for arterial oxygen when no blood gas is recorded (common practice, room air). */
   defaultSaO2: number

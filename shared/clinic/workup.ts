@@ -33,8 +33,10 @@ export const POST_MENOPAUSAL_AGE = 50
 
 const BSH_B12 = 'BSH guideline on cobalamin and folate disorders (Devalia et al., Br J Haematol 2014;166:496); check the local reference range'
 const KDIGO = 'KDIGO Clinical Practice Guideline for Anemia in CKD (Kidney Int Suppl 2012;2:279); the referral threshold is local policy'
-const MUNOZ = 'International consensus on peri-operative anaemia (Muñoz et al., Anaesthesia 2017;72:233): anaemia without iron deficiency needs other causes sought'
-const BSG = 'BSG guidelines for iron deficiency anaemia in adults (Snook et al., Gut 2021;70:2030): bidirectional endoscopy for men and post-menopausal women without an obvious cause'
+const MUNOZ = 'International consensus on peri-operative anaemia (Muñoz et al., Anaesthesia 2017;72:233): anaemia without iron deficiency ' +
+    'needs other causes sought'
+const BSG = 'BSG guidelines for iron deficiency anaemia in adults (Snook et al., Gut 2021;70:2030): bidirectional endoscopy for men and ' +
+    'post-menopausal women without an obvious cause'
 
 /**
  * Anaemia work-up prompts for the clinic review. Pure: the review panel shows each with its
@@ -46,11 +48,13 @@ export function workupPrompts(input: WorkupInput): WorkupPrompt[] {
     out.push({ key: 'b12-deficiency', title: 'Low vitamin B12', detail: `B12 ${input.b12NgL} ng/L is below ${B12_LOW_NG_L} ng/L: consider B12 deficiency as a cause or a contributor, and treat it.`, source: BSH_B12 })
   }
   if (input.folateUgL !== null && input.folateUgL < FOLATE_LOW_UG_L) {
-    out.push({ key: 'folate-deficiency', title: 'Low folate', detail: `Folate ${input.folateUgL} µg/L is below ${FOLATE_LOW_UG_L} µg/L: consider folate deficiency; check B12 before giving folic acid.`, source: BSH_B12 })
+    out.push({ key: 'folate-deficiency', title: 'Low folate', detail: `Folate ${input.folateUgL} µg/L is below ${FOLATE_LOW_UG_L} µg/L: consider folate deficiency; check B12 before giving ` +
+        `folic acid.`, source: BSH_B12 })
   }
   if (!input.anaemic) return out
   if (input.egfr !== null && input.egfr < EGFR_KIDNEY_ANAEMIA) {
-    out.push({ key: 'kidney-disease', title: 'Anaemia with reduced kidney function', detail: `eGFR ${input.egfr} mL/min/1.73 m² is below ${EGFR_KIDNEY_ANAEMIA}: consider anaemia of chronic kidney disease and a nephrology opinion.`, source: KDIGO })
+    out.push({ key: 'kidney-disease', title: 'Anaemia with reduced kidney function', detail: `eGFR ${input.egfr} mL/min/1.73 m² is below ${EGFR_KIDNEY_ANAEMIA}: consider anaemia of chronic kidney disease and a ` +
+        `nephrology opinion.`, source: KDIGO })
   }
   const macro = input.mcvFl !== null && input.mcvFl > MACROCYTOSIS_FL
   if (macro || input.ironStatus === 'replete') {
@@ -62,8 +66,11 @@ export function workupPrompts(input: WorkupInput): WorkupPrompt[] {
     out.push({
       key: 'gi-investigation', title: 'Iron-deficiency anaemia: find the cause',
       detail: atRisk
-        ? `Iron-deficiency anaemia in a ${input.sex === 'male' ? 'man' : `woman aged ${input.ageYears} (taken as post-menopausal)`}: unless a cause is known, refer for gastrointestinal investigation (upper and lower endoscopy) and test for coeliac disease.`
-        : 'Iron-deficiency anaemia: unless a cause is known (such as heavy periods), consider gastrointestinal investigation and test for coeliac disease.',
+        ? `Iron-deficiency anaemia in a ` +
+          `${input.sex === 'male' ? 'man' : `woman aged ${input.ageYears} (taken as post-menopausal)`}: unless a cause is known, ` +
+          `refer for gastrointestinal investigation (upper and lower endoscopy) and test for coeliac disease.`
+        : 'Iron-deficiency anaemia: unless a cause is known (such as heavy periods), consider gastrointestinal investigation and ' +
+          'test for coeliac disease.',
       source: BSG,
     })
   }

@@ -29,7 +29,8 @@ export function allowableBloodLoss(input: {
 
 /** Stated with every red-cell-volume figure, because the haematocrit is not measured. */
 export const HCT_FROM_HB_ASSUMPTION =
-  'Haematocrit estimated from Hb as Hct ≈ Hb (g/dL) × 3 / 100, i.e. Hb (g/L) × 0.003 (common practice, no single source); a measured haematocrit is better.'
+  'Haematocrit estimated from Hb as Hct ≈ Hb (g/dL) × 3 / 100, i.e. Hb (g/L) × 0.003 (common practice, no single source); a ' +
+    'measured haematocrit is better.'
 
 export const DEFAULT_UNIT_RED_CELL_ML = 200
 

@@ -46,7 +46,8 @@ export function suggestBloodOrder(
   const ct = crossmatchToTransfusionRatio(c)
   if (current.order === 'crossmatch') {
     if (ti !== null && tp !== null && ti < CROSSMATCH_JUSTIFIED_TI && tp < LOW_TRANSFUSION_PROBABILITY_PERCENT) {
-      return { suggestion: 'group-and-screen', reason: `TI ${ti.toFixed(2)} < ${CROSSMATCH_JUSTIFIED_TI} and T% ${tp.toFixed(0)} < ${LOW_TRANSFUSION_PROBABILITY_PERCENT}: crossmatching is not justified` }
+      return { suggestion: 'group-and-screen', reason: `TI ${ti.toFixed(2)} < ${CROSSMATCH_JUSTIFIED_TI} and T% ${tp.toFixed(0)} < ${LOW_TRANSFUSION_PROBABILITY_PERCENT}: ` +
+          `crossmatching is not justified` }
     }
     if (ct !== null && ct > ACCEPTABLE_CT_RATIO) {
       return { suggestion: 'fewer-units', reason: `C:T ${ct.toFixed(2)} > ${ACCEPTABLE_CT_RATIO}: fewer units per crossmatch` }

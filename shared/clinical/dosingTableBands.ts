@@ -59,9 +59,11 @@ function checkBands(kind: 'Weight' | 'Hb', key: string, bands: unknown, limit: {
       if (b.below <= b.from) problems.push({ path: at(i, 'below'), message: `${name}: the upper bound (${show(b.below)} ${unit}) must be above the lower bound (${show(b.from)} ${unit})` })
       const next = (bands[i + 1] ?? {}) as Partial<DosingBand>
       if (num(next.from) && next.from > b.below) {
-        problems.push({ path: at(i + 1, 'from'), message: `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit} but band ${i + 1} ends below ${show(b.below)} ${unit}, a gap from ${show(b.below)} to ${show(next.from)} ${unit}` })
+        problems.push({ path: at(i + 1, 'from'), message: `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit} but band ${i + 1} ends below ${show(b.below)} ${unit}, a ` +
+            `gap from ${show(b.below)} to ${show(next.from)} ${unit}` })
       } else if (num(next.from) && next.from < b.below) {
-        problems.push({ path: at(i + 1, 'from'), message: `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit}, inside band ${i + 1} (which runs below ${show(b.below)} ${unit}): the bands overlap` })
+        problems.push({ path: at(i + 1, 'from'), message: `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit}, inside band ${i + 1} (which runs below ${show(b.below)} ` +
+            `${unit}): the bands overlap` })
       }
     }
   })

@@ -100,7 +100,9 @@ export function paediatricCheck(product: IronProduct, ageYears: number | undefin
   const from = product.licensedFromAgeYears
   if (from === undefined || ageYears < from) {
     throw new IronPlanRefusal('ageYears', ageYears,
-      `${product.name} is not marked as licensed at age ${Math.floor(ageYears)} (${from === undefined ? 'adults only' : `from ${from} years`}): no plan. Choose a product licensed for children or seek paediatric advice.`,
+      `${product.name} is not marked as licensed at age ${Math.floor(ageYears)} ` +
+        `(${from === undefined ? 'adults only' : `from ${from} years`}): no plan. Choose a product licensed for children or seek ` +
+        `paediatric advice.`,
       'not_licensed_for_age')
   }
   return true
@@ -141,9 +143,11 @@ export function ironDosePlan(input: {
   const warnings: string[] = [...need.warnings]
 
   if (need.method === 'ganzoni' && hbGL >= targetHbGL) warnings.push(`Hb ${hbGL} g/L is at or above the target ${targetHbGL} g/L: the deficit is iron stores only.`)
-  if (paediatric) warnings.push(`Age ${Math.floor(input.ageYears!)}: paediatric caps from the formulary apply; check the dose with the product information for children.`)
+  if (paediatric) warnings.push(`Age ${Math.floor(input.ageYears!)}: paediatric caps from the formulary apply; check the dose with the product ` +
+        `information for children.`)
   // A product table prints its own figure under 35 kg; only Ganzoni changes its stores there.
-  if (weightKg < 35) warnings.push(`Weight ${weightKg} kg is under 35 kg: ${need.method === 'ganzoni' ? 'Ganzoni stores are 15 mg/kg and ' : ''}adult dose caps may not apply; check the prescribing information.`)
+  if (weightKg < 35) warnings.push(`Weight ${weightKg} kg is under 35 kg: ${need.method === 'ganzoni' ? 'Ganzoni stores are 15 mg/kg and ' : ''}adult dose ` +
+        `caps may not apply; check the prescribing information.`)
 
   const cappedTotal = product.maxTotalMg !== undefined ? Math.min(deficitMg, product.maxTotalMg) : deficitMg
   if (cappedTotal < deficitMg) warnings.push(`Total capped at ${product.maxTotalMg} mg (product maximum), below the calculated need of ${deficitMg} mg.`)
@@ -165,7 +169,8 @@ export function ironDosePlan(input: {
 
   if (product.route === 'oral') {
     warnings.push(
-      'Oral iron needs weeks: a rise of at least 10 g/L by 2 weeks counts as a response (BSG, Gut 2021) and refilling stores takes months; if surgery is under about 4–6 weeks away, consider IV iron (ASH 2019; NICE NG24).',
+      'Oral iron needs weeks: a rise of at least 10 g/L by 2 weeks counts as a response (BSG, Gut 2021) and refilling stores ' +
+        'takes months; if surgery is under about 4–6 weeks away, consider IV iron (ASH 2019; NICE NG24).',
     )
     return { ...base, totalMg: cappedTotal, doses: [], oralSchedule: oralSchedule(product) }
   }

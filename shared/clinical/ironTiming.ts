@@ -6,7 +6,8 @@ export const IV_TOO_LATE_DAYS = 14
 /** From this many days before surgery oral iron first is offered (local policy, 6 weeks). */
 export const ORAL_FIRST_MIN_DAYS = 42
 
-export const ORAL_FIRST_SOURCE = 'NICE NG24 (2015) 1.1.2–1.1.3: offer oral iron before surgery for iron-deficiency anaemia; IV iron when the time to surgery is too short for oral iron. The 6-week point is local policy'
+export const ORAL_FIRST_SOURCE = 'NICE NG24 (2015) 1.1.2–1.1.3: offer oral iron before surgery for iron-deficiency anaemia; IV iron when the time to surgery ' +
+    'is too short for oral iron. The 6-week point is local policy'
 
 export interface SurgeryTiming {
   daysFromFirstDoseToSurgery: number
@@ -31,15 +32,18 @@ export function surgeryTiming(input: { doses: IronDose[]; firstDoseDate: string;
   if (afterSurgery.length) {
     const mg = afterSurgery.reduce((s, d) => s + d.doseMg, 0)
     const which = afterSurgery.map((d) => `dose ${d.number} (${d.doseMg} mg, ${d.date})`).join(', ')
-    warnings.push(`Not planned before surgery: ${which} would fall on or after the planned surgery on ${input.surgeryDate}. ${mg} mg left for after the operation if still needed.`)
+    warnings.push(`Not planned before surgery: ${which} would fall on or after the planned surgery on ${input.surgeryDate}. ${mg} mg left ` +
+        `for after the operation if still needed.`)
   }
   const firstDoseTooLate = input.route === 'iv' && lead < IV_TOO_LATE_DAYS
   if (firstDoseTooLate) {
-    warnings.push(`The first IV dose is ${Math.max(0, lead)} days before surgery: too late to raise Hb before surgery; consider post-operative iron (local policy: under ${IV_TOO_LATE_DAYS} days).`)
+    warnings.push(`The first IV dose is ${Math.max(0, lead)} days before surgery: too late to raise Hb before surgery; consider ` +
+        `post-operative iron (local policy: under ${IV_TOO_LATE_DAYS} days).`)
   }
   const oralFirstOffered = input.route === 'iv' && lead >= ORAL_FIRST_MIN_DAYS
   if (oralFirstOffered) {
-    warnings.push(`Surgery is ${Math.floor(lead / 7)} weeks away: oral iron first is an option if tolerated, with IV iron if it fails (${ORAL_FIRST_SOURCE}).`)
+    warnings.push(`Surgery is ${Math.floor(lead / 7)} weeks away: oral iron first is an option if tolerated, with IV iron if it fails ` +
+        `(${ORAL_FIRST_SOURCE}).`)
   }
   return { daysFromFirstDoseToSurgery: lead, afterSurgery, firstDoseTooLate, oralFirstOffered, warnings }
 }

@@ -168,8 +168,10 @@ export function projectHb(input: {
     const hbGL = clampHb(Math.min(upper, fit.intercept))
     const slopeGLPerWeek = fit.slope * 7
     assumptions.push(
-      `Linear trend of ${trendPoints.length} Hb values from ${trendPoints[0].iso} to ${latest.iso} (${fmt(slopeGLPerWeek)} g/L per week), extended to the target date.`,
-      `Capped at ${fmt(upper)} g/L (baseline ${fmt(baseline)} g/L + ${fmt(maxRise)} g/L, or the highest value measured) because the response to iron levels off.`,
+      `Linear trend of ${trendPoints.length} Hb values from ${trendPoints[0].iso} to ${latest.iso} (${fmt(slopeGLPerWeek)} g/L ` +
+        `per week), extended to the target date.`,
+      `Capped at ${fmt(upper)} g/L (baseline ${fmt(baseline)} g/L + ${fmt(maxRise)} g/L, or the highest value measured) because ` +
+        `the response to iron levels off.`,
     )
     if (fit.slope < 0) assumptions.push('Hb is falling despite iron: the fall is extended to the target date as measured; review for ongoing blood loss or another cause.')
     return { hbGL, method: 'trend', assumptions, slopeGLPerWeek }
@@ -181,10 +183,13 @@ export function projectHb(input: {
   const rise = (day: number): number => Math.min(scaledMax, Math.max(0, ((day - doseDay - onset) * scaledRate) / 7))
   const hbGL = clampHb(latest.hbGL + rise(0) - rise(latest.day))
   if (doseFraction !== undefined) {
-    assumptions.push(`${totalMg} mg of iron given against a calculated deficit of ${deficitMg} mg (${Math.round(doseFraction * 100)} %), so the assumed full-course rise is scaled to ${Math.round(doseFraction * 100)} %.`)
+    assumptions.push(`${totalMg} mg of iron given against a calculated deficit of ${deficitMg} mg (${Math.round(doseFraction * 100)} %), so ` +
+        `the assumed full-course rise is scaled to ${Math.round(doseFraction * 100)} %.`)
   }
   assumptions.push(
-    `No Hb re-check yet ${fmt(onset)} or more days after the first ${route} iron dose, so Hb is assumed to rise ${fmt(scaledRate)} g/L per week from day ${fmt(onset)} after the first dose, up to +${fmt(scaledMax)} g/L in total, added to ${latestText}.`,
+    `No Hb re-check yet ${fmt(onset)} or more days after the first ${route} iron dose, so Hb is assumed to rise ` +
+      `${fmt(scaledRate)} g/L per week from day ${fmt(onset)} after the first dose, up to +${fmt(scaledMax)} g/L in total, added ` +
+      `to ${latestText}.`,
     kind === 'iv'
       ? 'Basis: IV iron typically raises Hb by 10–20 g/L over 4–8 weeks (secondary source); individual responses vary.'
       : 'Basis: oral iron acts more slowly and less surely than IV iron (BSG guideline, Gut 2021); individual responses vary.',

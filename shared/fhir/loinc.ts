@@ -50,7 +50,8 @@ export const LOINC: Record<StoredAnalyte, LoincEntry> = {
   phosphate: { code: '14879-1', display: 'Phosphate [Moles/volume] in Serum or Plasma', ucum: 'mmol/L', unit: 'mmol/L' },
   egfr: {
     code: '98979-8',
-    display: 'Glomerular filtration rate/1.73 sq M.predicted [Volume Rate/Area] in Serum, Plasma or Blood by Creatinine-based formula (CKD-EPI 2021)',
+    display: 'Glomerular filtration rate/1.73 sq M.predicted [Volume Rate/Area] in Serum, Plasma or Blood by Creatinine-based formula ' +
+        '(CKD-EPI 2021)',
     ucum: 'mL/min/{1.73_m2}', unit: 'mL/min/1.73 m²',
   },
 }

@@ -27,7 +27,8 @@ export const FLAG_LABELS: Record<WorklistFlag, string> = {
  * possible (grade 1C). Ferrolane applies it to every operation (local policy). It is not from
  * the Muñoz 2017 consensus, to which it was once attributed here.
  */
-export const SURGERY_SOON_BASIS = 'NATA guidelines (Goodnough et al., Br J Anaesth 2011;106:13–22): an Hb 28 days before elective orthopaedic surgery where possible; applied to every operation by local policy'
+export const SURGERY_SOON_BASIS = 'NATA guidelines (Goodnough et al., Br J Anaesth 2011;106:13–22): an Hb 28 days before elective orthopaedic surgery where ' +
+    'possible; applied to every operation by local policy'
 export const SURGERY_SOON_DAYS = 28
 
 export interface FlagInput {

@@ -17,7 +17,8 @@ export const router = createRouter({
   scrollBehavior: () => ({ top: 0 }),
 })
 
-// Asked once per page load, without retries so a down server does not hold up the sign-in page; afterwards sign-in, sign-out and 401s keep the store current.
+// Asked once per page load, without retries so a down server does not hold up the sign-in page; afterwards sign-in, sign-out and 401s
+// keep the store current.
 let sessionLoaded: Promise<void> | null = null
 
 function loadSessionOnce(session: ReturnType<typeof useSessionStore>): Promise<void> {

@@ -44,7 +44,8 @@ describe('booking an appointment', () => {
     expect(await AuditEntry.count({ where: { entity: 'appointment', action: 'create' } })).toBe(1)
   })
 
-  it('then the patient receives one e-mail with the time in the clinic zone, the place, the preparation, a reply link and a calendar invitation', async () => {
+  it('then the patient receives one e-mail with the time in the clinic zone, the place, the preparation, a reply link and a calendar ' +
+    'invitation', async () => {
     await book().expect(201)
     expect(await send()).toMatchObject({ sent: 1, retried: 0 })
     const m = await onlyMail()
@@ -142,7 +143,8 @@ describe('moving and cancelling', () => {
     expect(await OutboxMessage.count()).toBe(2)
   })
 
-  it('when the appointment is cancelled, then the patient gets METHOD:CANCEL with STATUS:CANCELLED and the same UID, and the history keeps every step', async () => {
+  it('when the appointment is cancelled, then the patient gets METHOD:CANCEL with STATUS:CANCELLED and the same UID, and the history ' +
+    'keeps every step', async () => {
     const a = (await book().expect(201)).body.appointment
     await nurse.patch(`/api/appointments/${a.id}`, { version: 1, durationMin: 45 }).expect(200)
     const res = await nurse.post(`/api/appointments/${a.id}/cancel`, { reason: 'Clinic closed for training' })

@@ -22,7 +22,8 @@ const infusion = (p: BookingFixture, hhmm: string, o: Record<string, unknown> = 
   nurse.post('/api/appointments', { referralId: p.referralId, kind: 'iron-infusion', startsAt: at(day, hhmm), durationMin: 60, location: 'Day Treatment Unit, Level 2', ...o })
 
 describe('infusion chairs', () => {
-  it('when every chair is taken at that time, then 409 session_full with the next free slots in error.details.suggestions, and nothing is written', async () => {
+  it('when every chair is taken at that time, then 409 session_full with the next free slots in error.details.suggestions, and ' +
+    'nothing is written', async () => {
     const session = await makeSession(day, '09:00', '12:00', 2)
     await infusion(patients[0]!, '09:00').expect(201)
     await infusion(patients[1]!, '09:30').expect(201)
@@ -105,7 +106,8 @@ describe('infusion sessions (admin)', () => {
     expect((await c.post('/api/infusion-sessions', { date: day, startTime: '12:00', endTime: '09:00', chairs: 6, location: 'X unit' })).body.error.fields.endTime).toMatch(/after/)
   })
 
-  it('when an admin lowers chairs below the patients booked at once, or shrinks hours past a booking, then 409; otherwise it is saved', async () => {
+  it('when an admin lowers chairs below the patients booked at once, or shrinks hours past a booking, then 409; otherwise it is ' +
+    'saved', async () => {
     const admin = await makeStaff('admin')
     const c = await new Client(t.app).mustSignIn(admin.email, admin.password)
     const s = await makeSession(day, '09:00', '12:00', 3)

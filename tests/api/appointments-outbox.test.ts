@@ -65,7 +65,8 @@ describe('when the mail relay is down', () => {
     expect(new Set(got.map((m) => m.subject)).size).toBe(2)
   })
 
-  it('then after OUTBOX_MAX_ATTEMPTS failures the message is marked failed, with backoff doubling in between, and staff see it', async () => {
+  it('then after OUTBOX_MAX_ATTEMPTS failures the message is marked ' +
+    'failed, with backoff doubling in between, and staff see it', async () => {
     await stopRelay()
     const { body } = await book(summerDay())
     const row = () => OutboxMessage.findByPk(body.message.id, { raw: true })
@@ -113,7 +114,8 @@ describe('with two workers', () => {
     expect(await mail.to(f.email)).toHaveLength(1)
   })
 
-  it('when an earlier message to the same appointment is still waiting, then the later one waits too (a cancellation never overtakes its booking)', async () => {
+  it('when an earlier message to the same appointment is still waiting, then the later one waits too (a cancellation never overtakes ' +
+    'its booking)', async () => {
     const { body } = await book(summerDay())
     await stopRelay()
     await drainOutbox(opts())

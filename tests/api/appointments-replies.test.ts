@@ -34,7 +34,8 @@ beforeEach(async () => {
 const status = async () => (await Appointment.findByPk(appointmentId, { raw: true }))!.status
 
 describe('the reply page', () => {
-  it('when the patient opens the link, then it shows first name, date, time, place and kind, and nothing clinical or identifying', async () => {
+  it('when the patient opens the link, then it shows first name, date, ' +
+    'time, place and kind, and nothing clinical or identifying', async () => {
     const res = await patient.get(`/api/replies/${token}`).expect(200)
     expect(res.body).toMatchObject({
       firstName: 'Linnet', kindLabel: 'Anaemia clinic appointment', time: '10:00', endTime: '10:30', timeZone: 'Europe/London',
@@ -56,7 +57,8 @@ describe('the reply page', () => {
 })
 
 describe('confirming', () => {
-  it('when the patient confirms, then the appointment is confirmed and the history records the patient; a second confirm is refused and changes nothing', async () => {
+  it('when the patient confirms, then the appointment is confirmed and the history records the patient; a second confirm is refused ' +
+    'and changes nothing', async () => {
     const res = await patient.post(`/api/replies/${token}/confirm`)
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body).toMatchObject({ status: 'confirmed', confirmed: true })
@@ -76,7 +78,8 @@ describe('confirming', () => {
 })
 
 describe('asking to rebook', () => {
-  it("when the patient asks to rebook with a message, then the nurses' task list shows it and the appointment is marked; moving it closes the task", async () => {
+  it("when the patient asks to rebook with a message, then the nurses' task list shows it and the appointment is marked; moving it " +
+    "closes the task", async () => {
     const res = await patient.post(`/api/replies/${token}/rebook`, { message: 'I am away that week, any day after the 20th suits.' })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body).toMatchObject({ status: 'rebook-requested', rebookRequested: true })
@@ -91,7 +94,8 @@ describe('asking to rebook', () => {
     expect((await nurse.get('/api/tasks?status=open').expect(200)).body.rows).toEqual([])
   })
 
-  it('when the appointment was moved after the e-mail, then the old link is refused as out of date and the new e-mail carries a working one', async () => {
+  it('when the appointment was moved after the e-mail, then the old link is refused as out of date and the new e-mail carries a ' +
+    'working one', async () => {
     await nurse.patch(`/api/appointments/${appointmentId}`, { version: 1, startsAt: at(summerDay(), '11:00') }).expect(200)
     await drainOutbox({ sequelize: t.sequelize, config: t.config })
     const old = await patient.post(`/api/replies/${token}/confirm`)

@@ -59,7 +59,8 @@ describe('directory sign-in (OpenID Connect against the fake provider)', () => {
     expect(q.get('scope')).toBe('openid email profile groups')
   })
 
-  it('when a nurse in the nurses group signs in for the first time, then an account is created, the session id changes and it is audited', async () => {
+  it('when a nurse in the nurses group signs in for the first time, then an account is created, the session id changes and it is ' +
+    'audited', async () => {
     const rosa = person(['All-Staff', 'Anaemia-Nurses'], { name: 'Rosa Test' })
     people.push(rosa)
     const { c, browser, start, done } = await signInAs(rosa)
@@ -185,7 +186,8 @@ describe('directory sign-in (OpenID Connect against the fake provider)', () => {
     expect(done.headers.location).toBe('/sign-in/refused?reason=cancelled')
   })
 
-  it('when a directory user signs out, then Ferrolane ends its session, sends the browser to end the provider session, and audits it', async () => {
+  it('when a directory user signs out, then Ferrolane ends its session, sends ' +
+    'the browser to end the provider session, and audits it', async () => {
     const who = person(['Anaemia-Nurses'])
     people.push(who)
     const { c, browser } = await signInAs(who)

@@ -56,7 +56,8 @@ describe('TOTP second factor for local accounts', () => {
     expect((await c.get('/api/auth/second-factor').expect(200)).body).toEqual({ enabled: false, recoveryCodesLeft: 0, required: true })
   })
 
-  it('when the admin enrols, then the QR code is an SVG drawn locally, a wrong code is refused, and a right one opens the app and gives ten recovery codes stored hashed', async () => {
+  it('when the admin enrols, then the QR code is an SVG drawn locally, a wrong code is refused, and a right one opens the app and ' +
+    'gives ten recovery codes stored hashed', async () => {
     const c = new Client(t.app)
     await c.signIn(admin.email, admin.password)
     const enrolment = await c.post('/api/auth/second-factor/enrolment').expect(200)
@@ -79,7 +80,8 @@ describe('TOTP second factor for local accounts', () => {
     expect(await AuditEntry.count({ where: { action: 'enrol-second-factor', userId: admin.id } })).toBe(1)
   })
 
-  it('when an enrolled user gives the password, then nothing is open until the authenticator code is right, and a code cannot be used twice', async () => {
+  it('when an enrolled user gives the password, then nothing is open until the authenticator code is right, and a code cannot be ' +
+    'used twice', async () => {
     const { secret } = await enrolledAdmin()
     const c = await passwordStep()
     await c.get('/api/auth/me').expect(401)

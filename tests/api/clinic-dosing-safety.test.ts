@@ -31,7 +31,8 @@ async function prescribe(referralId: number, body: object) {
 }
 
 describe('dose plans that respect size and age', () => {
-  it('when ferric carboxymaltose is planned, then the need comes from its product table and the preview says so (Ferinject SmPC 4.2 Table 1: 60 kg, Hb <100 g/L → 1500 mg)', async () => {
+  it('when ferric carboxymaltose is planned, then the need comes from its product table and the preview says so (Ferinject SmPC 4.2 ' +
+    'Table 1: 60 kg, Hb <100 g/L → 1500 mg)', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 60, hb: [{ hbGL: 95 }] })
     const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'ferric-carboxymaltose' })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
@@ -40,7 +41,8 @@ describe('dose plans that respect size and age', () => {
     expect(res.body.methods.deficit).toMatch(/Product dosing table \(Ferinject SmPC 4\.2, Table 1/)
   })
 
-  it('when an 11-year-old is planned iron sucrose, which the formulary does not mark as licensed for children, then 422 names the age', async () => {
+  it('when an 11-year-old is planned iron sucrose, which the formulary does not mark as licensed for children, then 422 names the ' +
+    'age', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 38, heightCm: 145, hb: [{ hbGL: 95 }], patient: { dateOfBirth: yearsAgo(11) } })
     const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'iron-sucrose' })
     expect(res.status).toBe(422)
@@ -48,7 +50,8 @@ describe('dose plans that respect size and age', () => {
     expect(res.body.error.fields.ageYears).toMatch(/not marked as licensed at age 11/)
   })
 
-  it('when an 11-year-old of 38 kg is planned ferric carboxymaltose (licensed from 1 year), then the paediatric 15 mg/kg cap limits each dose', async () => {
+  it('when an 11-year-old of 38 kg is planned ferric carboxymaltose (licensed from 1 year), then the paediatric 15 mg/kg cap limits ' +
+    'each dose', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 38, heightCm: 145, hb: [{ hbGL: 95 }], patient: { dateOfBirth: yearsAgo(11) } })
     const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'ferric-carboxymaltose' })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
@@ -57,7 +60,8 @@ describe('dose plans that respect size and age', () => {
     expect(res.body.methods.caps).toMatch(/paediatric caps applied/)
   })
 
-  it('when a 150 kg woman of 165 cm is planned ferric derisomaltose, then Ganzoni uses ideal body weight and the method says so', async () => {
+  it('when a 150 kg woman of 165 cm is planned ferric derisomaltose, then ' +
+    'Ganzoni uses ideal body weight and the method says so', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 150, heightCm: 165, hb: [{ hbGL: 100 }] })
     const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'ferric-derisomaltose' })
     expect(res.body.plan.method.weightBasis).toBe('ideal')
@@ -101,7 +105,8 @@ describe('recording a dose re-checks the caps and the prescribed total', () => {
   }
   const give = (referralId: number, body: object) => nurse.post(`/api/referrals/${referralId}/administrations`, { batchNumber: 'B-1', reaction: 'none', givenAt: new Date().toISOString(), ...body })
 
-  it('when a dose would pass the prescribed total, then 422 names the prescribed total; with a recorded reason it is saved with the reason', async () => {
+  it('when a dose would pass the prescribed total, then 422 names the prescribed total; with a recorded reason it is saved with the ' +
+    'reason', async () => {
     // 70 kg, Hb 135 g/L: product table → 1500 mg (Ferinject SmPC 4.2 Table 1).
     const { referral, prescriptionId, totalMg } = await prescribed('ferric-carboxymaltose', 70, 135)
     expect(totalMg).toBe(1500)
@@ -126,7 +131,8 @@ describe('recording a dose re-checks the caps and the prescribed total', () => {
     expect(res.body.error.fields.maxWeeklyMg).toMatch(/800 mg within 7 days is over the weekly maximum of 600 mg/)
   })
 
-  it('when 900 mg ferric carboxymaltose is recorded for a 40 kg patient, then 422 names the 20 mg/kg cap (800 mg; Ferinject SmPC 4.2) and nothing is stored', async () => {
+  it('when 900 mg ferric carboxymaltose is recorded for a 40 kg patient, then 422 names the 20 mg/kg cap (800 mg; Ferinject SmPC ' +
+    '4.2) and nothing is stored', async () => {
     const { referral, prescriptionId } = await prescribed('ferric-carboxymaltose', 40, 95)
     const res = await give(referral.id, { prescriptionId, doseMg: 900 })
     expect(res.status, JSON.stringify(res.body)).toBe(422)
@@ -134,7 +140,8 @@ describe('recording a dose re-checks the caps and the prescribed total', () => {
     expect(await Administration.count()).toBe(0)
   })
 
-  it('when a dose is entered late, dated 3 days before a dose already on file, then 422 names the interval to that later dose', async () => {
+  it('when a dose is entered late, dated 3 days before a dose already on ' +
+    'file, then 422 names the interval to that later dose', async () => {
     const { referral, prescriptionId } = await prescribed('ferric-carboxymaltose', 70, 95)
     const now = Date.now()
     await give(referral.id, { prescriptionId, doseMg: 500, givenAt: new Date(now - 2 * 86_400_000).toISOString() }).expect(201)
@@ -144,7 +151,8 @@ describe('recording a dose re-checks the caps and the prescribed total', () => {
     expect(await Administration.count()).toBe(1)
   })
 
-  it('when a repeat ferric carboxymaltose course is prescribed, then a serum phosphate is asked for first; once recorded, the course is saved', async () => {
+  it('when a repeat ferric carboxymaltose course is prescribed, then a serum phosphate is asked for first; once recorded, the course ' +
+    'is saved', async () => {
     const { referral, prescriptionId, patient } = await prescribed('ferric-carboxymaltose', 70, 95)
     const givenAt = new Date(Date.now() - 40 * 86_400_000)
     await Administration.create({ prescriptionId, referralId: referral.id, doseMg: 1000, givenAt, batchNumber: 'B-0', reaction: 'none', reactionNotes: null, givenBy: null })

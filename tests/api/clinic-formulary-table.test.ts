@@ -48,7 +48,8 @@ describe('the formulary dosing-table editor (admin)', () => {
     expect(rows.find((r) => r.code === 'iron-sucrose')).toMatchObject({ dosedByTable: false, dosingTable: null })
   })
 
-  it('when an admin turns the table off, then the plan falls back to Ganzoni; turned on again, a 60 kg patient with Hb 95 g/L needs 1500 mg (Ferinject SmPC 4.2 Table 1)', async () => {
+  it('when an admin turns the table off, then the plan falls back to Ganzoni; turned on again, a 60 kg patient with Hb 95 g/L needs ' +
+    '1500 mg (Ferinject SmPC 4.2 Table 1)', async () => {
     const off = await put('ferric-carboxymaltose', { dosedByTable: false, table: SMPC_TABLE })
     expect(off.status, JSON.stringify(off.body)).toBe(200)
     expect(off.body).toMatchObject({ dosedByTable: false, dosingTable: { needMg: SMPC_TABLE.needMg } })
@@ -61,7 +62,8 @@ describe('the formulary dosing-table editor (admin)', () => {
     expect(on.methods.deficit).toMatch(/Ferinject SmPC 4\.2, Table 1 \(MHRA 2021\)/)
   })
 
-  it('when an admin enters a table for another product, then plans read it by band and the change is audited before and after', async () => {
+  it('when an admin enters a table for another product, then plans read ' +
+    'it by band and the change is audited before and after', async () => {
     const res = await put('ferric-derisomaltose', { dosedByTable: true, table: { ...SMPC_TABLE, source: 'Local table for the test product' } })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     // 72 kg falls in the ≥70 kg band, Hb 120 g/L in 100 to <140: 1500 mg in the table entered.

@@ -25,7 +25,8 @@ beforeEach(async () => {
 })
 
 describe('dose plan preview', () => {
-  it('when a 45 kg patient has Hb 90 g/L, then the Ganzoni deficit is 1148 mg and ferric derisomaltose is split 900 + 200 mg a week apart', async () => {
+  it('when a 45 kg patient has Hb 90 g/L, then the Ganzoni deficit is 1148 mg and ferric derisomaltose is split 900 + 200 mg a week ' +
+    'apart', async () => {
     // Ganzoni (reference §6): 45 × (150 − 90) × 0.24 + 500 = 1148 mg. Caps: ≤20 mg/kg → 900 mg first dose.
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, weightKg: 45, hb: [{ hbGL: 90 }] })
     const res = await doctor.post(`/api/referrals/${referral.id}/dose-plan`, { productCode: 'ferric-derisomaltose' })
@@ -138,7 +139,8 @@ describe('recording a dose given', () => {
     return { ...ep, prescriptionId: res.body.prescription.id as number }
   }
 
-  it('when a doctor records the infusion at clinic, then the episode moves to treating (the pathway table gives doctors clinic → treating) and the re-check is due 4 weeks later', async () => {
+  it('when a doctor records the infusion at clinic, then the episode moves to treating (the pathway table gives doctors clinic → ' +
+    'treating) and the re-check is due 4 weeks later', async () => {
     const { referral, prescriptionId } = await prescribed()
     const from = (await Referral.findByPk(referral.id))!.stage
     expect(from).toBe('clinic')
@@ -146,7 +148,8 @@ describe('recording a dose given', () => {
     const res = await doctor.post(`/api/referrals/${referral.id}/administrations`, { prescriptionId, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-2231', reaction: 'none' })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.stage).toBe('treating')
-    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 28)) // Ferinject SmPC 4.2: Hb re-assessed no earlier than 4 weeks after the last dose
+    // Ferinject SmPC 4.2: Hb re-assessed no earlier than 4 weeks after the last dose
+    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 28))
     const r = await Referral.findByPk(referral.id)
     expect(r!.stage).toBe('treating')
     expect(await StageTransition.count({ where: { referralId: referral.id, toStage: 'treating' } })).toBe(1)
@@ -154,7 +157,8 @@ describe('recording a dose given', () => {
     expect(detail.body.flags).not.toContain('treatment-not-given')
   })
 
-  it('when a nurse records the infusion at clinic, then the dose is stored but the stage stays: the pathway table gives nurses no move to treating from clinic', async () => {
+  it('when a nurse records the infusion at clinic, then the dose is stored but the stage stays: the pathway table gives nurses no ' +
+    'move to treating from clinic', async () => {
     const { referral, prescriptionId } = await prescribed()
     const givenAt = new Date()
     const res = await nurse.post(`/api/referrals/${referral.id}/administrations`, { prescriptionId, doseMg: 1000, givenAt: givenAt.toISOString(), batchNumber: 'B-2232', reaction: 'none' })
@@ -163,7 +167,8 @@ describe('recording a dose given', () => {
     expect((await Referral.findByPk(referral.id))!.stage).toBe('clinic')
     expect(await StageTransition.count({ where: { referralId: referral.id, toStage: 'treating' } })).toBe(0)
     expect(await Administration.count({ where: { referralId: referral.id } })).toBe(1)
-    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 28)) // re-check 4 weeks after the last dose (clinic default, see the test above)
+    // re-check 4 weeks after the last dose (clinic default, see the test above)
+    expect(res.body.recheckDueDate).toBe(addDays(givenAt.toISOString().slice(0, 10), 28))
   })
 
   it('when the dose is over the product cap, then 422 and nothing is recorded', async () => {

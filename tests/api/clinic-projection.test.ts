@@ -31,7 +31,8 @@ beforeEach(async () => {
 const inDays = (d: number) => addDays(todayIso(), d)
 
 describe('GET /api/referrals/:id/projection', () => {
-  it('when the iron studies on record are 150 days old, then the verdict is "results needed", naming recent iron studies, and a nurse sees the same', async () => {
+  it('when the iron studies on record are 150 days old, then the verdict is "results needed", naming recent iron studies, and a ' +
+    'nurse sees the same', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 140 }], expectedBloodLossMl: 500,
       referral: { anaemic: false, ironStatus: 'replete', plannedSurgeryDate: inDays(30) },
@@ -51,7 +52,8 @@ describe('GET /api/referrals/:id/projection', () => {
     expect((await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body.readiness.verdict).toBe('ready')
   })
 
-  it('when the admin sets Hb results to count for 30 days, then the setting is kept and a 45-day-old Hb no longer clears the patient', async () => {
+  it('when the admin sets Hb results to count for 30 days, then the setting ' +
+    'is kept and a 45-day-old Hb no longer clears the patient', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 140, takenAt: new Date(Date.now() - 45 * 86_400_000) }], expectedBloodLossMl: 500,
       referral: { anaemic: false, ironStatus: 'replete', plannedSurgeryDate: inDays(30) },
@@ -95,7 +97,8 @@ describe('GET /api/referrals/:id/projection', () => {
     expect(p.assumptions.length).toBeGreaterThan(2)
   })
 
-  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the assumed rise is scaled by the dose and the blood order rests on her measured Hb', async () => {
+  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the assumed rise is scaled by the ' +
+    'dose and the blood order rests on her measured Hb', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'female', heightCm: 160, weightKg: 60, expectedBloodLossMl: 1510,
       hb: [{ hbGL: 100, takenAt: new Date(Date.now() - 20 * 86_400_000) }], referral: { plannedSurgeryDate: inDays(28) },
@@ -137,7 +140,8 @@ describe('GET /api/referrals/:id/projection', () => {
     expect(p.readiness.verdict).toBe('consider-deferral')
   })
 
-  it('when a 150 kg man has no height recorded, then the projection is refused with 422 naming height instead of 70 mL/kg of actual weight', async () => {
+  it('when a 150 kg man has no height recorded, then the projection is refused with 422 naming height instead of 70 mL/kg of actual ' +
+    'weight', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, sex: 'male', heightCm: null, weightKg: 150, hb: [{ hbGL: 120 }] })
     const res = await asDoctor.get(`/api/referrals/${referral.id}/projection`)
     expect(res.status).toBe(422)
@@ -209,7 +213,8 @@ describe('readiness: acknowledging and asking to move the date', () => {
 })
 
 describe('PATCH /api/referrals/:id: antibody screen and transfusion refusal', () => {
-  it('when a doctor records a positive antibody screen, then the episode keeps it, the audit trail names it and the projection crossmatches', async () => {
+  it('when a doctor records a positive antibody screen, then the episode keeps it, the audit trail names it and the projection ' +
+    'crossmatches', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'male', heightCm: 175, weightKg: 70, hb: [{ hbGL: 140 }], expectedBloodLossMl: 500,
       referral: { anaemic: false, ironStatus: 'replete', plannedSurgeryDate: inDays(30) },
@@ -225,7 +230,8 @@ describe('PATCH /api/referrals/:id: antibody screen and transfusion refusal', ()
     expect(p.readiness.flags).toContain('red-cell-antibodies')
   })
 
-  it('when a nurse records that the patient declines transfusion, then the plan prompts cell salvage and tranexamic acid and no units are crossmatched', async () => {
+  it('when a nurse records that the patient declines transfusion, then the plan prompts cell salvage and tranexamic acid and no ' +
+    'units are crossmatched', async () => {
     const { referral } = await makeEpisode({
       surgeonId: surgeon.id, sex: 'female', heightCm: 160, weightKg: 60, hb: [{ hbGL: 100 }], expectedBloodLossMl: 1510,
       referral: { plannedSurgeryDate: inDays(30) },

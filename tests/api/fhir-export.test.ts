@@ -18,6 +18,8 @@ let t: TestApp
 let doctor: Client
 let otherSurgeon: Client
 let ep: Awaited<ReturnType<typeof fullEpisode>>
+// FHIR JSON read field by field in assertions, as Supertest's res.body is (typed any by Supertest too).
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- arbitrary FHIR resources in a test
 type Entry = { fullUrl: string; resource: Record<string, any> }
 let bundle: { resourceType: string; type: string; entry: Entry[] }
 const ofType = (type: string) => bundle.entry.filter((e) => e.resource.resourceType === type).map((e) => e.resource)
@@ -50,7 +52,8 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
     expect(validator.validate(broken).length).toBeGreaterThan(0)
   })
 
-  it('then it is a collection of one Patient, 7 Observations, 2 MedicationAdministrations and 3 Appointments, each entry with a urn:uuid', () => {
+  it('then it is a collection of one Patient, 7 Observations, 2 MedicationAdministrations and 3 Appointments, each entry with a ' +
+    'urn:uuid', () => {
     expect(bundle.type).toBe('collection')
     // 2 Hb + ferritin, iron, transferrin, TSAT, creatinine made by the fixture = 7 results.
     expect({ p: ofType('Patient').length, o: ofType('Observation').length, m: ofType('MedicationAdministration').length, a: ofType('Appointment').length }).toEqual({ p: 1, o: 7, m: 2, a: 3 })
@@ -104,7 +107,8 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
     for (const d of doses) expect(d.effectiveDateTime).toMatch(/T12:00:00\.000Z$/)
   })
 
-  it("then appointments map Ferrolane's states to FHIR: confirmed → booked/accepted, asked to rebook → pending/declined, cancelled → cancelled", () => {
+  it("then appointments map Ferrolane's states to FHIR: confirmed → booked/accepted, asked to rebook → pending/declined, cancelled → " +
+    "cancelled", () => {
     const a = ofType('Appointment')
     expect(a.map((x) => [x.status, x.participant[0].status])).toEqual([['booked', 'accepted'], ['pending', 'declined'], ['cancelled', 'declined']])
     expect(a[0]!.start).toBe(ep.appointments[0]!.startsAt.toISOString())
@@ -123,7 +127,8 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
     expect((await doctor.get('/api/referrals/999999/fhir')).status).toBe(404)
   })
 
-  it('when the episode also holds a voided and a preliminary Hb, then neither is exported; a corrected value is exported with status corrected', async () => {
+  it('when the episode also holds a voided and a preliminary Hb, then neither is exported; a corrected value is exported with status ' +
+    'corrected', async () => {
     const base = { referralId: ep.referral.id, patientId: ep.referral.patientId, analyte: 'hb' as const, unitCanonical: 'g/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
     await Result.create({ ...base, valueCanonical: 71.5, takenAt: new Date(Date.now() - 3 * 3600_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' })
     await Result.create({ ...base, valueCanonical: 72.5, takenAt: new Date(Date.now() - 2 * 3600_000), status: 'preliminary' })

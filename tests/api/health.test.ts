@@ -49,7 +49,8 @@ describe('health', () => {
     expect((await request(t.app).get('/api/health/ready')).status).toBe(200)
   })
 
-  it('when the test stops its MariaDB, then ready reports 503 unavailable while alive stays 200, and both recover by themselves', async () => {
+  it('when the test stops its MariaDB, then ready reports 503 unavailable ' +
+    'while alive stays 200, and both recover by themselves', async () => {
     const dataDir = process.env.MARIADB_DATA_DIR!
     const pidFile = path.join(dataDir, 'mariadb.pid')
     expect(existsSync(pidFile)).toBe(true)

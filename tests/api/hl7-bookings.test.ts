@@ -50,7 +50,8 @@ const flags = async () => {
 }
 
 describe('SIU theatre bookings', () => {
-  it('when a booking arrives, then the planned date is set and the placer id kept; a move keeps the history with its reason and raises the date-change flag', async () => {
+  it('when a booking arrives, then the planned date is set and the placer id kept; a move keeps the history with its reason and ' +
+    'raises the date-change flag', async () => {
     const booked = addDays(todayIso(), 40)
     const [a1] = await send(port, siu('S12', { date: booked }))
     expect(ackCode(a1!)).toBe('AA')
@@ -82,7 +83,8 @@ describe('SIU theatre bookings', () => {
     expect((await Referral.findByPk(referralId, { raw: true }))!.plannedSurgeryDate).toBe(addDays(todayIso(), 40))
   })
 
-  it('when a booking is for a patient Ferrolane does not know, then it waits in the queue for a nurse and is processed once the patient is registered', async () => {
+  it('when a booking is for a patient Ferrolane does not know, then it waits in the queue for a nurse and is processed once the ' +
+    'patient is registered', async () => {
     const date = addDays(todayIso(), 35)
     const [ack] = await send(port, siu('S12', { mrn: 'HL72999', date }))
     expect(ackCode(ack!)).toBe('AE')

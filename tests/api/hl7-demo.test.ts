@@ -45,7 +45,8 @@ async function adaOnWorklist(c: Client) {
 const rowOf = async (c: Client, mrn: string) => ((await c.get(`/api/worklist?q=${mrn}`)).body.rows as { mrn: string; plannedSurgeryDate: string; flags: string[] }[]).find((r) => r.mrn === mrn)!
 
 describe('the invented sample messages in seed/hl7, sent with npm run hl7:send', () => {
-  it("when the laboratory's results for Ada Larkspur are sent, then her worklist row shows the Hb and the anaemia, and the correction then replaces it", async () => {
+  it("when the laboratory's results for Ada Larkspur are sent, then her worklist row shows the Hb and the anaemia, and the " +
+    "correction then replaces it", async () => {
     const nurse = await new Client(t.app).mustSignIn('nurse@ferrolane.test', DEMO_PASSWORD)
     expect(await adaOnWorklist(nurse)).toMatchObject({ latestHbGL: null, anaemic: null })
     expect(await hl7Send('01-ada-results.hl7')).toContain('AA DEMO-LAB-0001')
@@ -54,13 +55,15 @@ describe('the invented sample messages in seed/hl7, sent with npm run hl7:send',
     expect(await adaOnWorklist(nurse)).toMatchObject({ latestHbGL: 110, anaemic: true })
   }, 150_000)
 
-  it('when the result for an unknown patient is sent, then the command prints AE with the reason and the message waits for attention', async () => {
+  it('when the result for an unknown patient is sent, then the command prints ' +
+    'AE with the reason and the message waits for attention', async () => {
     const out = await hl7Send('03-unknown-patient.hl7')
     expect(out).toContain('AE DEMO-LAB-0003 — no patient has MRN KV999901')
     expect(await Hl7MessageRow.count({ where: { needsAttention: true } })).toBe(1)
   }, 150_000)
 
-  it("when the theatre system books and then moves Bram Thistlewood's operation, then the worklist shows the new date and the date-change flag", async () => {
+  it("when the theatre system books and then moves Bram Thistlewood's operation, then the worklist shows the new date and the " +
+    "date-change flag", async () => {
     const nurse = await new Client(t.app).mustSignIn('nurse@ferrolane.test', DEMO_PASSWORD)
     const out = await hl7Send('04-bram-theatre-move.hl7')
     expect(out).toContain('AA DEMO-THR-0001')

@@ -31,7 +31,8 @@ beforeEach(async () => {
 })
 
 describe('the Interfaces API', () => {
-  it("when messages have arrived, then the overview shows the listener, this hour's count and the queue, and a search by MRN finds them", async () => {
+  it("when messages have arrived, then the overview shows the listener, this hour's count and the queue, and a search by MRN finds " +
+    "them", async () => {
     await send(port, oru({ mrn: 'HL73999', control: 'IF-1', obx: [{ value: '99' }] }))
     const res = await nurse.get('/api/interfaces/hl7').expect(200)
     expect(res.body.listener).toMatchObject({ listening: true, port, host: '127.0.0.1' })
@@ -44,7 +45,8 @@ describe('the Interfaces API', () => {
     expect((await nurse.get('/api/interfaces/hl7/messages?q=NOBODY').expect(200)).body.total).toBe(0)
   })
 
-  it("when an admin (no clinical role) looks at the interface, then the answers carry the outcomes and error codes but no MRN, name or raw text, a search by MRN finds nothing, and a message's detail and process-again are refused", async () => {
+  it("when an admin (no clinical role) looks at the interface, then the answers carry the outcomes and error codes but no MRN, name " +
+    "or raw text, a search by MRN finds nothing, and a message's detail and process-again are refused", async () => {
     const p = await makePatient({ mrn: 'HL73001', givenName: 'Oriel', familyName: 'Quennick' })
     await makeReferral({ patientId: p.id, procedureId: (await makeProcedure()).id, surgeonId: (await makeStaff('surgeon')).id })
     await send(port, oru({ mrn: 'HL73001', control: 'IF-A1', obx: [{ value: '123' }] }))
@@ -86,7 +88,8 @@ describe('the Interfaces API', () => {
     expect(await AuditEntry.count({ where: { action: 'view', entity: 'hl7_message', entityId: String(id) } })).toBe(1)
   })
 
-  it('when a nurse processes a queued message again after registering the patient, then the result is stored and the queue is empty; a message not in the queue is a 422', async () => {
+  it('when a nurse processes a queued message again after registering the patient, then the result is stored and the queue is empty; ' +
+    'a message not in the queue is a 422', async () => {
     await send(port, oru({ mrn: 'HL73999', obx: [{ value: '99' }] }))
     const { id } = (await nurse.get('/api/interfaces/hl7/messages?attention=true').expect(200)).body.items[0]
     const still = await nurse.post(`/api/interfaces/hl7/messages/${id}/reprocess`).send({}).expect(200)

@@ -41,7 +41,8 @@ describe('the MLLP listener and what it is sent', () => {
     await stillAnswers()
   })
 
-  it('when a message has a header but no control id, or is only a bare MSH, then the answer is AR, nothing is stored, and the listener keeps answering', async () => {
+  it('when a message has a header but no control id, or is only a bare MSH, then the answer is AR, nothing is stored, and the ' +
+    'listener keeps answering', async () => {
     const noId = oru({ mrn: 'HL71001', control: '', obx: [{ value: '120' }] })
     const { received } = await rawExchange(port, [`${VT}${noId}${END}`, `${VT}MSH|${END}`], { waitMs: 2000 })
     expect(received.match(/MSA\|AR\|/g)?.length).toBe(2)
@@ -50,7 +51,8 @@ describe('the MLLP listener and what it is sent', () => {
     await stillAnswers()
   })
 
-  it('when a message is larger than the limit, then the connection is closed with AR and nothing is stored', { timeout: 15_000 }, async () => {
+  it('when a message is larger than the limit, then the ' +
+    'connection is closed with AR and nothing is stored', { timeout: 15_000 }, async () => {
     const big = oru({ mrn: 'HL71001', obx: [{ value: '120' }] }) + '\rNTE|1||' + 'x'.repeat(MAX + 10)
     const { received, closedByServer } = await rawExchange(port, [VT, big, END], { waitMs: 8000 })
     expect(closedByServer).toBe(true)
@@ -69,7 +71,8 @@ describe('the MLLP listener and what it is sent', () => {
     expect(await Result.count()).toBe(0)
   })
 
-  it('when a frame is left unfinished past the partial-frame timeout, then the listener closes the connection and stores nothing', async () => {
+  it('when a frame is left unfinished past the partial-frame timeout, then ' +
+    'the listener closes the connection and stores nothing', async () => {
     const msg = oru({ mrn: 'HL71001', obx: [{ value: '120' }] })
     const started = Date.now()
     const { closedByServer } = await rawExchange(port, [VT, msg], { waitMs: 4000 })

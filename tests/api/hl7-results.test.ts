@@ -38,7 +38,8 @@ const referral = async () => (await Referral.findByPk(referralId, { raw: true })
 const live = () => Result.findAll({ where: { referralId, voidedAt: null }, raw: true, order: [['id', 'ASC']] })
 
 describe('ORU^R01 results over MLLP', () => {
-  it('when a final Hb arrives for a listed patient, then it is stored as a result, the episode is re-screened and the ACK is AA', async () => {
+  it('when a final Hb arrives for a listed patient, then it is stored as a ' +
+    'result, the episode is re-screened and the ACK is AA', async () => {
     const [ack] = await send(port, oru({ mrn: 'HL70001', obx: [{ value: '98', unit: 'g/L' }] }))
     expect(ackCode(ack!)).toBe('AA')
     const rows = await live()
@@ -50,7 +51,8 @@ describe('ORU^R01 results over MLLP', () => {
     expect(msg).toMatchObject({ outcome: 'stored', ackCode: 'AA', messageType: 'ORU^R01', patientMrn: 'HL70001', needsAttention: 0 })
   })
 
-  it("when OBX-7 (reference range) and OBX-8 (abnormal flags) are sent, then they are kept on the result row and the episode's results show them; a correction carries its own", async () => {
+  it("when OBX-7 (reference range) and OBX-8 (abnormal flags) are sent, then they are kept on the result row and the episode's " +
+    "results show them; a correction carries its own", async () => {
     const at = new Date(Date.now() - 5 * 3600_000)
     const [ack] = await send(port, oru({ mrn: 'HL70001', at, obx: [{ value: '98', range: '120-150', flag: 'L' }, { code: '2276-4', value: '8', unit: 'ug/L', range: '30-400', flag: 'L~A' }] }))
     expect(ackCode(ack!)).toBe('AA')
@@ -68,7 +70,8 @@ describe('ORU^R01 results over MLLP', () => {
     expect((await live()).find((r) => r.analyte === 'crp')).toMatchObject({ referenceRange: null, abnormalFlags: null })
   })
 
-  it('when a newer preliminary Hb arrives and a newer final one is deleted by the laboratory, then the screening, the worklist row, the readiness board and the episode still rest on the final 98 g/L', async () => {
+  it('when a newer preliminary Hb arrives and a newer final one is deleted by the laboratory, then the screening, the worklist row, ' +
+    'the readiness board and the episode still rest on the final 98 g/L', async () => {
     const h = 3600_000
     expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '98', at: new Date(Date.now() - 48 * h) }] })))[0]!)).toBe('AA')
     expect(ackCode((await send(port, oru({ mrn: 'HL70001', obx: [{ value: '141', status: 'P', at: new Date(Date.now() - 24 * h) }] })))[0]!)).toBe('AA')
@@ -114,7 +117,8 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await Hl7MessageRow.findAll({ attributes: ['outcome'], order: [['id', 'ASC']], raw: true })).toEqual([{ outcome: 'stored' }, { outcome: 'nothing-new' }])
   })
 
-  it('when a corrected value follows, then it replaces the earlier one, which stays voided as history, and the screening uses the correction', async () => {
+  it('when a corrected value follows, then it replaces the earlier one, which stays voided as history, and the screening uses the ' +
+    'correction', async () => {
     const at = new Date(Date.now() - 4 * 3600_000)
     await send(port, oru({ mrn: 'HL70001', obx: [{ value: '98', at }] }))
     const [ack] = await send(port, oru({ mrn: 'HL70001', obx: [{ value: '138', at, status: 'C' }] }))
@@ -150,7 +154,8 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await referral()).toMatchObject({ latestHbGL: 97 })
   })
 
-  it('when a value is reported beyond a limit ("<5"), then it is kept with its comparator, not as a number the screening uses', async () => {
+  it('when a value is reported beyond a limit ("<5"), then it is kept ' +
+    'with its comparator, not as a number the screening uses', async () => {
     const [a1] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: '2276-4', value: '<5', unit: 'ug/L' }] }))
     const [a2] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: '2276-4', type: 'SN', value: '>^1500', unit: 'ug/L', at: new Date(Date.now() - 7200_000) }] }))
     expect([ackCode(a1!), ackCode(a2!)]).toEqual(['AA', 'AA'])
@@ -166,7 +171,8 @@ describe('ORU^R01 results over MLLP', () => {
     expect(await live()).toMatchObject([{ valueCanonical: 98, unitCanonical: 'g/L', valueReported: 9.8, unitReported: 'g/dL' }])
   })
 
-  it("when a laboratory sends its own code, then the CSV import's saved mapping for that sending facility (MSH-4) is used, from the next message after it is saved", async () => {
+  it("when a laboratory sends its own code, then the CSV import's saved mapping for that sending facility (MSH-4) is used, from the " +
+    "next message after it is saved", async () => {
     // The listener keeps each sender's codes between messages: a save must reach the very next one.
     const [before] = await send(port, oru({ mrn: 'HL70001', obx: [{ code: 'ZZHB1', system: 'L', value: '131' }] }))
     expect(ackCode(before!)).toBe('AE')
@@ -179,7 +185,8 @@ describe('ORU^R01 results over MLLP', () => {
     expect(ackError(other!)).toMatch(/ZZHB1/)
   })
 
-  it('when the MRN is unknown, then the ACK is AE with the reason in ERR, the message waits in the queue, and after registration it is processed again', async () => {
+  it('when the MRN is unknown, then the ACK is AE with the reason in ERR, the message waits in the queue, and after registration it ' +
+    'is processed again', async () => {
     const [ack] = await send(port, oru({ mrn: 'HL79999', obx: [{ value: '99' }] }))
     expect(ackCode(ack!)).toBe('AE')
     expect(ackError(ack!)).toBe('no patient has MRN HL79999')

@@ -42,7 +42,8 @@ function hbRows(n: number, marker?: { at: number; value: number }): string {
 }
 
 describe('a commit is all or nothing', () => {
-  it('when the database refuses a row in the second chunk of 1000, then nothing from the file is stored, not even the first chunk', async () => {
+  it('when the database refuses a row in the second chunk of 1000, then ' +
+    'nothing from the file is stored, not even the first chunk', async () => {
     // A real failure inside MariaDB, mid-commit: a trigger refuses one marker value.
     await t.sequelize.query(
       `CREATE TRIGGER imports_test_refuse BEFORE INSERT ON results FOR EACH ROW
@@ -69,7 +70,8 @@ describe('a commit is all or nothing', () => {
     expect(await AuditEntry.count({ where: { action: 'import-results', entity: 'referral', entityId: String(referralId) } })).toBe(1)
   })
 
-  it('when a row repeats one from an earlier chunk of the same file, then it is reported as repeated in the file, not as already stored', async () => {
+  it('when a row repeats one from an earlier chunk of the same file, then it is reported as repeated in the file, not as already ' +
+    'stored', async () => {
     const body = hbRows(1200)
     const firstRow = body.split('\r\n')[1]
     const res = await uploadCsv(c, body + firstRow + '\r\n')
@@ -78,7 +80,8 @@ describe('a commit is all or nothing', () => {
 })
 
 describe('reversing a batch', () => {
-  it('when a doctor reverses a batch with a reason, then its results are gone, the episode is re-screened and the reversal is audited', async () => {
+  it('when a doctor reverses a batch with a reason, then its results are gone, the episode is re-screened and the reversal is ' +
+    'audited', async () => {
     const typed = await c.post(`/api/referrals/${referralId}/results`, { analyte: 'hb', value: 142, unit: 'g/L', takenAt: takenHoursAgo(100) })
     expect(typed.status).toBe(201)
     const res = await uploadCsv(c, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]), { commit: true }).expect(201)

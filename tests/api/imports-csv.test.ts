@@ -64,7 +64,8 @@ describe('preview of a laboratory CSV', () => {
     expect(await ImportBatch.count()).toBe(0)
   })
 
-  it('when units and codes are spelled as laboratories do (umol/L, LOINC 718-7, g/dL), then they are converted as typed-in results are (Hb g/dL ×10)', async () => {
+  it('when units and codes are spelled as laboratories do (umol/L, LOINC 718-7, g/dL), then they are converted as typed-in results ' +
+    'are (Hb g/dL ×10)', async () => {
     const res = await uploadCsv(c, csv([HEADER, ['IMP0001', '718-7', 10.4, 'g/dL', T1], ['IMP0001', 'Creatinine', 80, 'umol/L', T1]]))
     expect(res.body.accepted).toBe(2)
     expect(res.body.acceptedRows[0]).toMatchObject({ analyte: 'hb', valueCanonical: 104, unitCanonical: 'g/L' })
@@ -73,7 +74,8 @@ describe('preview of a laboratory CSV', () => {
 })
 
 describe('committing an import', () => {
-  it('when the mixed file is committed, then the 2 rows are stored in one batch, the episode is re-screened and the worklist flags it', async () => {
+  it('when the mixed file is committed, then the 2 rows are stored in one batch, the episode is re-screened and the worklist flags ' +
+    'it', async () => {
     const res = await uploadCsv(c, MIXED, { commit: true })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body).toMatchObject({ committed: true, accepted: 2, referralsAffected: 1 })
@@ -115,7 +117,8 @@ describe('committing an import', () => {
     expect(await Result.count()).toBe(2)
   })
 
-  it('when iron and TIBC of one sample and a creatinine arrive, then TSAT and eGFR are derived as for typed-in results (TSAT 10/60 = 16.7 %, reference §7)', async () => {
+  it('when iron and TIBC of one sample and a creatinine arrive, then TSAT and eGFR are derived as for typed-in results (TSAT 10/60 = ' +
+    '16.7 %, reference §7)', async () => {
     const res = await uploadCsv(c, csv([HEADER, ['IMP0001', 'FE', 10, 'umol/L', T1], ['IMP0001', 'TIBC', 60, 'umol/L', T1], ['IMP0001', 'CREAT', 80, 'umol/L', T1]]), { commit: true }).expect(201)
     expect(res.body.derived).toBe(2)
     const tsat = await Result.findOne({ where: { referralId: openReferralId, analyte: 'tsat' }, raw: true })
@@ -181,7 +184,8 @@ describe('files and fields that are refused', () => {
 })
 
 describe('column mappings saved per source', () => {
-  it('when a nurse saves a mapping for a source, then an upload naming that source is read with it (semicolons, day-first dates, own codes)', async () => {
+  it('when a nurse saves a mapping for a source, then an upload naming that source is read with it (semicolons, day-first dates, own ' +
+    'codes)', async () => {
     const mapping = { columns: { mrn: 'Hosp No', code: 'Test', value: 'Result', unit: 'Units', takenAt: 'Collected' }, delimiter: ';', dateOrder: 'dmy', codes: { HGBX: 'hb' } }
     const saved = await c.put('/api/imports/mappings/Northgate Pathology', { mapping })
     expect(saved.status, JSON.stringify(saved.body)).toBe(200)

@@ -90,7 +90,8 @@ describe('importing a FHIR R4 Bundle of Observations', () => {
     expect(await Result.count()).toBe(0)
   })
 
-  it('when the user chooses to store the valid entries of a mixed bundle, then those are stored in one batch and the invalid ones reported', async () => {
+  it('when the user chooses to store the valid entries of a mixed bundle, then those are stored in one batch and the invalid ones ' +
+    'reported', async () => {
     const res = await post(bundle([
       observation({ mrn: 'FHR0001', value: 101, at: AT }),
       observation({ mrn: 'NOSUCH', at: AT }),

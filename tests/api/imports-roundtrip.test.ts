@@ -13,6 +13,8 @@ const SYSTEM = 'https://hospital.example.test/id/mrn'
 let t: TestApp
 let nurse: Client
 let ep: Awaited<ReturnType<typeof fullEpisode>>
+// FHIR JSON read field by field in assertions, as Supertest's res.body is (typed any by Supertest too).
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- arbitrary FHIR resources in a test
 type Entry = { fullUrl: string; resource: Record<string, any> }
 let exported: { resourceType: string; entry: Entry[] }
 let otherReferralId: number
@@ -46,7 +48,8 @@ describe('one LOINC table for export and import', () => {
 })
 
 describe('an exported episode Bundle imported again', () => {
-  it('when it goes back into the same patient, then every Observation is already stored, the other resources are skipped as no result, and nothing is added', async () => {
+  it('when it goes back into the same patient, then every Observation is already stored, the other resources are skipped as no ' +
+    'result, and nothing is added', async () => {
     const before = await Result.count()
     const res = await importBundle(exported)
     expect(res.status, JSON.stringify(res.body)).toBe(200)
@@ -64,7 +67,8 @@ describe('an exported episode Bundle imported again', () => {
     expect(await Result.count()).toBe(before)
   })
 
-  it("when it goes into another patient's open episode, then each value is stored back in Ferrolane's units (iron 44.67 µg/dL → 8 µmol/L, TIBC in µg/dL, creatinine 1 mg/dL → 88.4 µmol/L)", async () => {
+  it("when it goes into another patient's open episode, then each value is stored back in Ferrolane's units (iron 44.67 µg/dL → 8 " +
+    "µmol/L, TIBC in µg/dL, creatinine 1 mg/dL → 88.4 µmol/L)", async () => {
     const moved = structuredClone(exported)
     const patient = moved.entry.find((e) => e.resource.resourceType === 'Patient')!.resource
     patient.identifier = [{ system: SYSTEM, value: 'RTP0002', type: { coding: [{ system: 'http://terminology.hl7.org/CodeSystem/v2-0203', code: 'MR' }] } }]
@@ -81,7 +85,8 @@ describe('an exported episode Bundle imported again', () => {
     expect(canonical('hb').sort()).toEqual([104, 121])
   })
 
-  it('when the same moved Bundle comes again, then the converted values count as already stored (within the export rounding), not as new results', async () => {
+  it('when the same moved Bundle comes again, then the converted values count as already stored (within the export rounding), not as ' +
+    'new results', async () => {
     const moved = structuredClone(exported)
     moved.entry.find((e) => e.resource.resourceType === 'Patient')!.resource.identifier = [{ system: SYSTEM, value: 'RTP0002' }]
     const before = await Result.count()

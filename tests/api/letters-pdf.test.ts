@@ -49,7 +49,8 @@ describe('the letter to the family doctor', () => {
     letterText = await pdfText(bytes)
   })
 
-  it("then its text names the patient, the hospital number, the latest Hb in g/L, ferritin and TSAT with units, the diagnosis, product and doses", () => {
+  it("then its text names the patient, the hospital number, the latest Hb in g/L, ferritin and TSAT with units, the diagnosis, " +
+    "product and doses", () => {
     expect(letterText).toContain(`Isolde ${ep.patient.familyName}`)
     expect(letterText).toContain(ep.patient.mrn)
     expect(letterText).toContain('Hollin Lane Surgery (invented)')
@@ -75,7 +76,8 @@ describe('the letter to the family doctor', () => {
     expect(await Letter.count()).toBe(1)
   })
 
-  it('when a newer Hb was voided by the laboratory and a newer one is only preliminary, then the letter still states the final 121 g/L', async () => {
+  it('when a newer Hb was voided by the laboratory and a newer one is only preliminary, then the letter still states the final 121 ' +
+    'g/L', async () => {
     const base = { referralId: ep.referral.id, patientId: ep.referral.patientId, analyte: 'hb' as const, unitCanonical: 'g/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
     const added = [
       await Result.create({ ...base, valueCanonical: 66, takenAt: new Date(Date.now() - 2 * 3600_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' }),
@@ -94,7 +96,8 @@ describe('the letter to the family doctor', () => {
 })
 
 describe('a letter to the patient about an appointment', () => {
-  it('when a doctor writes one, then its text is the appointment e-mail wording: the visit, the preparation steps and the place', async () => {
+  it('when a doctor writes one, then its text is the appointment e-mail ' +
+    'wording: the visit, the preparation steps and the place', async () => {
     const a = ep.appointments[0]!
     const res = await doctor.post(`/api/appointments/${a.id}/letter`)
     expect(res.status, JSON.stringify(res.body)).toBe(201)

@@ -27,7 +27,8 @@ beforeAll(async () => {
 afterAll(async () => { await sequelize.close() })
 
 describe('the log of a request that fails in the database', () => {
-  it('when saving a patient fails on a real SQL error, then the 500 is logged with the error class and codes, and no SQL value', async () => {
+  it('when saving a patient fails on a real SQL error, then the 500 is ' +
+    'logged with the error class and codes, and no SQL value', async () => {
     const nurse = await makeStaff('nurse')
     const c = await new Client(built.app).mustSignIn(nurse.email, nurse.password)
     // Breaks the INSERT the route makes, so MariaDB itself refuses it (error 1054, unknown column).

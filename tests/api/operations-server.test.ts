@@ -68,7 +68,8 @@ describe('the compiled server under plain node', () => {
     expect((await c.get('/api/auth/me')).status).toBe(200)
   })
 
-  it('when a request carries patient details in its body and query, then the log has its route, user and status but none of those details', async () => {
+  it('when a request carries patient details in its body and query, then the log has its route, user and status but none of those ' +
+    'details', async () => {
     const base = `http://127.0.0.1:${port}`
     const nurse = await makeStaff('nurse')
     const c = await new Client(base).mustSignIn(nurse.email, nurse.password)

@@ -103,7 +103,8 @@ describe('when MariaDB dies under a load of patient registrations and comes back
     expect(acknowledged.filter((m) => !kept.has(m)), 'acknowledged but lost').toEqual([])
     // A refused write left nothing half-written: each stored patient has its registration audit row.
     const [orphans] = await t.sequelize.query<{ n: number }>(
-      `SELECT COUNT(*) AS n FROM patients p WHERE NOT EXISTS (SELECT 1 FROM audit_entries a WHERE a.entity = 'patient' AND a.entity_id = p.id AND a.action = 'create')`,
+      `SELECT COUNT(*) AS n FROM patients p WHERE NOT EXISTS (SELECT 1 FROM audit_entries a WHERE a.entity = 'patient' AND ` +
+        `a.entity_id = p.id AND a.action = 'create')`,
       { type: QueryTypes.SELECT },
     )
     expect(Number(orphans!.n)).toBe(0)

@@ -85,7 +85,8 @@ describe('closing an episode after surgery', () => {
 })
 
 describe('the demo scenario after surgery', () => {
-  it('then every closed demo episode that had surgery carries its post-operative record and follow-up, dated before the close', async () => {
+  it('then every closed demo episode that had surgery carries its ' +
+    'post-operative record and follow-up, dated before the close', async () => {
     await cleanDatabase(t.sequelize)
     expect(await loadDemoScenario(t.sequelize)).toBe(true)
     const closedAfterSurgery = await Referral.findAll({ where: { stage: 'closed' }, include: [{ model: Patient, as: 'patient' }] })

@@ -33,7 +33,8 @@ const nothingChanged = async () => {
 }
 
 describe('POST /api/referrals/:id/cancellation', () => {
-  it('when a nurse cancels the planned operation for anaemia, then it is kept with who, when and why, audited, and stands until rebooked', async () => {
+  it('when a nurse cancels the planned operation for anaemia, then it is kept with who, when and why, audited, and stands until ' +
+    'rebooked', async () => {
     const res = await cancel(c, { version: 1, reason: 'anaemia', note: 'Hb 96 g/L on the day before; iron first' })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body.version).toBe(2)

@@ -50,7 +50,8 @@ const worklist = async (flag: string) => {
 }
 
 describe('worklist flags from the measured response to iron', () => {
-  it('when Hb rises only 4 g/L (100 → 104) five weeks after IV iron, then "no response to IV iron" is a worklist flag a nurse can filter and count', async () => {
+  it('when Hb rises only 4 g/L (100 → 104) five weeks after IV iron, then "no response to IV iron" is a worklist flag a nurse can ' +
+    'filter and count', async () => {
     const id = await treated(100, 40, 35)
     expect((await worklist('no-response-to-iron')).total).toBe(0)
     await hb(id, 104, 1)
@@ -71,7 +72,8 @@ describe('worklist flags from the measured response to iron', () => {
     expect((await nurse.get(`/api/referrals/${id}`)).body.flags).not.toContain('no-response-to-iron')
   })
 
-  it('when Hb falls from 120 to 112 g/L after iron, then "Hb falling after iron" is a worklist flag, before the 4-week mark too', async () => {
+  it('when Hb falls from 120 to 112 g/L after iron, then "Hb falling after ' +
+    'iron" is a worklist flag, before the 4-week mark too', async () => {
     const id = await treated(120, 20, 15)
     await hb(id, 112, 1)
     const list = await worklist('hb-falling')
@@ -94,7 +96,8 @@ describe('worklist flags from the measured response to iron', () => {
 })
 
 describe('one "today" for the re-check date', () => {
-  it('when the clinic is in Auckland and a dose is given at 10:00 there (22:00 UTC the day before), then the re-check is due 28 days after the Auckland day', async () => {
+  it('when the clinic is in Auckland and a dose is given at 10:00 there (22:00 UTC the day before), then the re-check is due 28 days ' +
+    'after the Auckland day', async () => {
     const zone = clinicTimeZone()
     setClinicTimeZone('Pacific/Auckland')
     try {
@@ -109,7 +112,8 @@ describe('one "today" for the re-check date', () => {
       })
       expect(res.status, JSON.stringify(res.body)).toBe(201)
       const aucklandDay = addDays(givenAt.toISOString().slice(0, 10), 1)
-      expect(res.body.recheckDueDate).toBe(addDays(aucklandDay, 28)) // ferric carboxymaltose product information: Hb reassessed ≥ 4 weeks after the last dose
+      // ferric carboxymaltose product information: Hb reassessed ≥ 4 weeks after the last dose
+      expect(res.body.recheckDueDate).toBe(addDays(aucklandDay, 28))
     } finally {
       setClinicTimeZone(zone)
     }

@@ -26,7 +26,8 @@ async function episode(patient: Record<string, unknown> = {}) {
 const post = (id: number, body: object) => c.post(`/api/referrals/${id}/results`, body)
 
 describe('screening classification when results arrive', () => {
-  it('when a woman has Hb 125 g/L, then she is anaemic by the surgical threshold though WHO-normal (Muñoz 2017; WHO 2024 women 120 g/L)', async () => {
+  it('when a woman has Hb 125 g/L, then she is anaemic by the surgical threshold though WHO-normal (Muñoz 2017; WHO 2024 women 120 ' +
+    'g/L)', async () => {
     const r = await episode({ sex: 'female' })
     const res = await post(r.id, { analyte: 'hb', value: 125, unit: 'g/L', takenAt: hoursAgo(2) })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
@@ -92,7 +93,8 @@ describe('units and derived values', () => {
     expect(res.body.result).toMatchObject({ value: 25, unit: 'mg/L', valueReported: 2.5, unitReported: 'mg/dL' })
   })
 
-  it('when creatinine is 1.2 mg/dL in a 60-year-old man, then it is 106.1 µmol/L and eGFR 69.2 is derived (×88.4; CKD-EPI 2021, reference §10)', async () => {
+  it('when creatinine is 1.2 mg/dL in a 60-year-old man, then it is 106.1 µmol/L and eGFR 69.2 is derived (×88.4; CKD-EPI 2021, ' +
+    'reference §10)', async () => {
     const today = new Date()
     const dob = `${today.getFullYear() - 61}-01-01`
     const r = await episode({ sex: 'male', dateOfBirth: dob })
@@ -114,7 +116,8 @@ describe('units and derived values', () => {
     expect(res.body.derived[0]).toMatchObject({ analyte: 'tsat', unit: '%', value: 16.7, source: 'derived' })
   })
 
-  it('when iron 56 µg/dL and transferrin 2.4 g/L come from one sample, then TSAT is 16.65 % ±0.05 (iron 10.03 µmol/L, TIBC 60.24; reference §7, 25.1 factor from memory)', async () => {
+  it('when iron 56 µg/dL and transferrin 2.4 g/L come from one sample, then TSAT is 16.65 % ±0.05 (iron 10.03 µmol/L, TIBC 60.24; ' +
+    'reference §7, 25.1 factor from memory)', async () => {
     const r = await episode()
     const at = hoursAgo(4)
     const iron = await post(r.id, { analyte: 'iron', value: 56, unit: 'µg/dL', takenAt: at }).expect(201)

@@ -75,7 +75,8 @@ describe('who may make each move (the pathway table in shared/pathway)', () => {
 })
 
 describe('pathway rules', () => {
-  it('when a nurse confirms screening with an Hb on file, then 200, the version goes up and the move is stored with who, when, from, to and why', async () => {
+  it('when a nurse confirms screening with an Hb on file, then 200, the version goes up and the move is stored with who, when, from, ' +
+    'to and why', async () => {
     const r = await at({ stage: 'referred' })
     const res = await move('nurse', r.id, { to: 'screened', version: 1, reason: 'Bloods reviewed' })
     expect(res.status).toBe(200)

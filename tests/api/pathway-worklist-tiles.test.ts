@@ -113,7 +113,8 @@ describe('the count tiles in one request', () => {
 })
 
 describe('conditional polls', () => {
-  it('when counts, worklist or an episode are asked again with their ETag, then the answer is 304 with no body, still no-store', async () => {
+  it('when counts, worklist or an episode are asked again with their ETag, ' +
+    'then the answer is 304 with no body, still no-store', async () => {
     for (const path of ['/api/worklist/counts', '/api/worklist?stage=referred', `/api/referrals/${anyReferral}`]) {
       const first = await nurse.get(path)
       expect(first.status, path).toBe(200)

@@ -163,7 +163,8 @@ describe('surgeons see their own patients', () => {
 })
 
 describe('the next visit on each row', () => {
-  it('when an episode has past, cancelled and future visits, then the row shows the soonest future one still on; none gives null', async () => {
+  it('when an episode has past, cancelled and future visits, then the row ' +
+    'shows the soonest future one still on; none gives null', async () => {
     const { Appointment, Referral } = await import('../../server/models/index')
     const referral = (await Referral.findByPk(named.farAnaemic!, { raw: true }))!
     const visit = (inDays: number, kind: 'iron-infusion' | 'recheck-bloods', status: 'booked' | 'confirmed' | 'cancelled') => {

@@ -11,7 +11,8 @@ import { makeStaff, type StaffFixture } from '../helpers/factories'
  *                  red cells 1 unit (pre 75, reassessed, post 82, informed), then 1 unit (pre 78, reassessed, post 86)
  *   Q2 S1 ORTHO M  Hb 125 (03-20) iron-restricted, no iron                           surgery 04-01  TXA no; postponed for anaemia
  *                  red cells 2 units at once (pre 70, not reassessed, no post Hb, not informed)
- *   Q3 S2 LAP   F  Hb 140 (04-01) replete                                           surgery 05-20  platelets 1 (not informed), record: informed
+ * Q3 S2 LAP   F  Hb 140 (04-01) replete                                           surgery 05-20  platelets 1 (not informed), record:
+  * informed
  *                  date moved once for theatre capacity
  *   Q4 S2 ORTHO F  no Hb                                                            surgery 06-10  nothing recorded
  *   Q5 S1 ORTHO F  surgery 2024-12-15 (outside the period), 3 red-cell units

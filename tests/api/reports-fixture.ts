@@ -8,9 +8,12 @@ import { makeStaff, type StaffFixture } from '../helpers/factories'
  * be worked out by hand in the tests (see the comments there). Surgery-day criteria: the
  * clinic default, 'surgical' (Hb < 130 g/L for both sexes).
  *
- *   E1  S1 KNEE  referred 03-01  Hb 100 (03-03)  clinic 03-08  FCM 03-10  Hb 120 (04-01)  cleared 04-02  surgery 04-10  xm 2, tx 0+1, loss 600
- *   E2  S1 KNEE  referred 03-05  Hb 125 (03-20)  anaemic, untreated                                      surgery 04-05  xm 2, tx 0,   loss 400
- *   E3  S2 HIP   referred 05-01  Hb 140 (05-02)  replete               cleared 05-03                     surgery 06-15  xm 0, tx 2+0, loss 1000
+ * E1  S1 KNEE  referred 03-01  Hb 100 (03-03)  clinic 03-08  FCM 03-10  Hb 120 (04-01)  cleared 04-02  surgery 04-10  xm 2, tx 0+1,
+  * loss 600
+ * E2  S1 KNEE  referred 03-05  Hb 125 (03-20)  anaemic, untreated                                      surgery 04-05  xm 2, tx 0,  
+  * loss 400
+ * E3  S2 HIP   referred 05-01  Hb 140 (05-02)  replete               cleared 05-03                     surgery 06-15  xm 0, tx 2+0,
+  * loss 1000
  *   E4  S2 HIP   referred 06-01  not screened
  *   E5  S1 KNEE  referred 2024-12-01 (outside the period)
  */

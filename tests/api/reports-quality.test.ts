@@ -52,25 +52,32 @@ describe('GET /api/reports/quality — each measure against the hand count (fixt
   // QS138 statement 2. Expected loss ≥ 500 mL: ORTHO (1000) = Q1, Q2, Q4; LAP (150) is out. Given: Q1 → 1 / 3.
   it('tranexamic-acid: 1 of 3', () => expect(m['tranexamic-acid']).toMatchObject({ numerator: 1, denominator: 3, percent: 33.3 }))
   // QS138 statement 3. Red-cell transfusions: Q1 ×2 (single, reassessed, post Hb) and Q2 ×1 (two units at once) → 2 / 3.
-  it('reassessed-after-each-unit: 2 of 3', () => expect(m['reassessed-after-each-unit']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
+  it('reassessed-after-each-unit: ' +
+    '2 of 3', () => expect(m['reassessed-after-each-unit']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
   // QS138 statement 4. Transfused (any component): Q1, Q2, Q3. Informed: Q1 (on the unit), Q3 (on the record) → 2 / 3.
-  it('transfusion-information: 2 of 3', () => expect(m['transfusion-information']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
+  it('transfusion-information: ' +
+    '2 of 3', () => expect(m['transfusion-information']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
   // First Hb to surgery: Q1 02-01→03-10 = 37 d, Q2 03-20→04-01 = 12 d, Q3 04-01→05-20 = 49 d, Q4 none → ≥ 28: Q1, Q3 = 2 / 4.
-  it('screened-28-days-before: 2 of 4', () => expect(m['screened-28-days-before']).toMatchObject({ numerator: 2, denominator: 4, percent: 50 }))
+  it('screened-28-days-before: ' +
+    '2 of 4', () => expect(m['screened-28-days-before']).toMatchObject({ numerator: 2, denominator: 4, percent: 50 }))
   // An Hb 14–45 days before: Q1 (37) only; Q2 (12) is too late, Q3 (49) too early → 1 / 4.
-  it('screened-in-window-14-45: 1 of 4', () => expect(m['screened-in-window-14-45']).toMatchObject({ numerator: 1, denominator: 4, percent: 25 }))
+  it('screened-in-window-14-45: ' +
+    '1 of 4', () => expect(m['screened-in-window-14-45']).toMatchObject({ numerator: 1, denominator: 4, percent: 25 }))
   // Last Hb on or before surgery: Q1 118, Q2 125, Q3 140 (Q4 none) → below 130: Q1, Q2 = 2 / 3.
-  it('anaemic-on-day-of-surgery: 2 of 3', () => expect(m['anaemic-on-day-of-surgery']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
+  it('anaemic-on-day-of-surgery: ' +
+    '2 of 3', () => expect(m['anaemic-on-day-of-surgery']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
   // Given red cells: Q1, Q2 (Q3 had platelets only) → 2 / 4.
   it('transfused: 2 of 4', () => expect(m.transfused).toMatchObject({ numerator: 2, denominator: 4, percent: 50 }))
   // Red-cell transfusions of exactly one unit: Q1's two of the three → 2 / 3.
-  it('single-unit-red-cell-transfusions: 2 of 3', () => expect(m['single-unit-red-cell-transfusions']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
+  it('single-unit-red-cell-transfusions: ' +
+    '2 of 3', () => expect(m['single-unit-red-cell-transfusions']).toMatchObject({ numerator: 2, denominator: 3, percent: 66.7 }))
   // Moved for anaemia: Q2 (Q3 moved for theatre capacity) → 1 / 4.
   it('postponed-for-anaemia: 1 of 4', () => expect(m['postponed-for-anaemia']).toMatchObject({ numerator: 1, denominator: 4, percent: 25 }))
   // Pre-transfusion Hb 75, 78, 70 → sorted 70, 75, 78 → median 75 g/L.
   it('median pre-transfusion Hb: 75 g/L of 3', () => expect(m['median-pre-transfusion-hb']).toMatchObject({ value: 75, denominator: 3 }))
   // Red-cell units 1 + 1 + 2 = 4 for 4 operated → 100 per 100.
-  it('units per 100 operated: 4 units for 4 → 100', () => expect(m['units-per-100-operated']).toMatchObject({ numerator: 4, denominator: 4, value: 100 }))
+  it('units per 100 operated: 4 ' +
+    'units for 4 → 100', () => expect(m['units-per-100-operated']).toMatchObject({ numerator: 4, denominator: 4, value: 100 }))
 
   it('when the QS138 measures are read, then each names its statement, one definition each, and the national audit figure', () => {
     for (const id of ['iron-before-surgery', 'tranexamic-acid', 'reassessed-after-each-unit', 'transfusion-information']) {
@@ -131,7 +138,8 @@ describe('GET /api/reports/quality — breakdowns, trend and who sees what', () 
 })
 
 describe('GET /api/reports/quality/national-audit and the measures CSV', () => {
-  it('when a doctor exports, then one row per operated episode with the audit fields, no patient identity, and the export is audited', async () => {
+  it('when a doctor exports, then one row per operated episode with the audit ' +
+    'fields, no patient identity, and the export is audited', async () => {
     const d = await makeStaff('doctor')
     const c = await new Client(t.app).mustSignIn(d.email, d.password)
     const res = await c.get(`/api/reports/quality/national-audit?${PERIOD}`)

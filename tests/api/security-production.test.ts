@@ -49,7 +49,8 @@ describe('production settings', () => {
     expect(configProblems(loadConfig({ ...GOOD, DB_PASSWORD: 'x-y-z-own', PASSWORD_SCRYPT_LOG2N: '15' })).join()).toMatch(/PASSWORD_SCRYPT_LOG2N is 15/)
   })
 
-  it('when NODE_ENV=production starts on the development secret, an insecure cookie and the demo clinic, then the server refuses to start and says why', async () => {
+  it('when NODE_ENV=production starts on the development secret, an insecure cookie and the demo clinic, then the server refuses to ' +
+    'start and says why', async () => {
     const { code, out } = await startServer({ NODE_ENV: 'production', SESSION_SECRET: 'ferrolane-local-development-secret', COOKIE_SECURE: 'false', STATIC_DIR: '', PORT: '0', FERROLANE_DEMO: '' })
     expect(code).toBe(1)
     expect(out).toMatch(/will not start in production/)

@@ -52,7 +52,8 @@ function startSlowRequest(s: Socket): Promise<string> {
     s.on('data', (d: Buffer) => { answer += d.toString() })
     s.on('close', () => resolve(answer))
   })
-  s.write(`POST /api/auth/login HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Type: application/json\r\nContent-Length: ${BODY.length}\r\nConnection: keep-alive\r\n\r\n${BODY.slice(0, 10)}`)
+  s.write(`POST /api/auth/login HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Type: application/json\r\nContent-Length: ` +
+      `${BODY.length}\r\nConnection: keep-alive\r\n\r\n${BODY.slice(0, 10)}`)
   return done
 }
 

@@ -41,7 +41,8 @@ const unit = (o: Record<string, unknown> = {}) => ({
 })
 
 describe('POST /api/referrals/:id/transfusions', () => {
-  it('when a red-cell unit below the threshold is recorded, then 201, the threshold is kept and the post-operative record counts the unit', async () => {
+  it('when a red-cell unit below the threshold is recorded, then 201, the threshold is kept and the post-operative record counts the ' +
+    'unit', async () => {
     const id = await operated({ specialty: 'Colorectal surgery' })
     const res = await asNurse.post(`/api/referrals/${id}/transfusions`, unit())
     expect(res.status, JSON.stringify(res.body)).toBe(201)

@@ -24,7 +24,8 @@ afterAll(async () => {
 })
 
 describe('the patient answers from their e-mail', () => {
-  it('when a nurse books an infusion and the patient opens the link from the e-mail and confirms, then the page and the staff view show it confirmed', async () => {
+  it('when a nurse books an infusion and the patient opens the link from the e-mail and confirms, then the page and the staff view ' +
+    'show it confirmed', async () => {
     const f = await bookingFixture({ givenName: 'Tamsin' })
     await makeSession(summerDay(), '09:00', '12:30', 6)
     const nurse = await new Client(served.app).mustSignIn(f.nurse.email, f.nurse.password)

@@ -26,7 +26,8 @@ afterAll(async () => {
 
 describe('a nurse books an infusion, the patient confirms from the e-mail, the worklist follows', () => {
   // One story in one test: each step needs the one before, and nothing is left for another test.
-  it('when the nurse books from the episode page and the patient confirms from the e-mail, then the open worklist shows it confirmed without a reload, and the page passes axe', async () => {
+  it('when the nurse books from the episode page and the patient confirms from the e-mail, then the open worklist shows it confirmed ' +
+    'without a reload, and the page passes axe', async () => {
     const f = await bookingFixture({ givenName: 'Isolde' })
     // The infusion unit's session that day, all four chairs free.
     await makeSession(DAY, '09:00', '12:30', 4, PLACE)

@@ -47,7 +47,8 @@ const text = async (page: Page, testId: string) => (await page.getByTestId(testI
 
 describe('a doctor prescribes IV iron from the live dose plan', () => {
   // One story in one test: each step works on the form the step before left filled in.
-  it('when the doctor picks ferric derisomaltose, answers the checklist and keeps the capped doses, then the plan shows Ganzoni, the server refuses an over-cap dose, stores the kept plan, and the tab passes axe', async () => {
+  it('when the doctor picks ferric derisomaltose, answers the checklist and keeps the capped doses, then the plan shows Ganzoni, the ' +
+    'server refuses an over-cap dose, stores the kept plan, and the tab passes axe', async () => {
     const { referral } = await ironDeficientEpisode()
     const referralId = referral.id
     const doctorPage = await signedIn(doctor, '/clinic')
@@ -91,7 +92,8 @@ describe('the surgeon sees the patient on the readiness board and acknowledges t
   // Hb 90 g/L on the day, routine operation, below 100 g/L: the verdict prompts deferral.
   const verdict = VERDICT_LABELS['consider-deferral']
 
-  it('when the surgeon signs in, opens the patient from the board and acknowledges the plan, then the board, the readiness panel and the stored acknowledgement show the verdict, and both pages pass axe', async () => {
+  it('when the surgeon signs in, opens the patient from the board and acknowledges the plan, then the board, the readiness panel and ' +
+    'the stored acknowledgement show the verdict, and both pages pass axe', async () => {
     const { patient, referral } = await ironDeficientEpisode()
     const referralId = referral.id
     const familyName = patient.familyName

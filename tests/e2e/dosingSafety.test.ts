@@ -41,7 +41,8 @@ const text = async (testId: string) => (await page.getByTestId(testId).first().t
 const shot = async (testId: string) => { if (SHOTS) await page.getByTestId(testId).first().screenshot({ path: `${SHOTS}/${testId}.png` }) }
 
 describe('a doctor sees size, age and the surgery date in the dose plan', () => {
-  it('when ferric carboxymaltose is picked 10 days before surgery, then the need comes from its product table and the timing caution shows', async () => {
+  it('when ferric carboxymaltose is picked 10 days before surgery, then the need comes from its product table and the timing caution ' +
+    'shows', async () => {
     await signInThroughPage(page, served.baseUrl, doctor.email, doctor.password)
     await page.waitForURL(`${served.baseUrl}/clinic`)
     await page.goto(`${served.baseUrl}/referrals/${referralId}?tab=clinic`)

@@ -66,7 +66,8 @@ describe('a result sent over MLLP reaches an open worklist', () => {
 })
 
 describe('the Interfaces screen', () => {
-  it('when a result for an unknown patient waits, then the admin sees the listener, outcomes and error code but no patient; the nurse opens it segment by segment and processes it again after registration; both screens pass axe', async () => {
+  it('when a result for an unknown patient waits, then the admin sees the listener, outcomes and error code but no patient; the ' +
+    'nurse opens it segment by segment and processes it again after registration; both screens pass axe', async () => {
     const [ack] = await send(port, oru({ mrn: 'HLB0999', control: 'E2E-QUEUE-1', obx: [{ value: '99' }] }))
     expect(ackCode(ack!)).toBe('AE')
     const ctx = await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 } })

@@ -59,7 +59,8 @@ const mixedFile = (mrn: string) => csv([
 ])
 
 describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
-  it('when the nurse opens Import results from the bar, then the screen states the 20 MB limit, Commit is off, and it passes axe', async () => {
+  it('when the nurse opens Import results from the bar, then the screen ' +
+    'states the 20 MB limit, Commit is off, and it passes axe', async () => {
     const nurse = await makeStaff('nurse')
     const page = await importPage(nurse, '/screening')
     await page.locator('[data-nav="import-results"]').click()
@@ -87,7 +88,8 @@ describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
     await page.context().close()
   })
 
-  it('when the mixed file is previewed and committed, then it counts 2 to store and 2 skipped with reasons, stores nothing until Commit, and the summary links to the worklist showing the flag', async () => {
+  it('when the mixed file is previewed and committed, then it counts 2 to store and 2 skipped with reasons, stores nothing until ' +
+    'Commit, and the summary links to the worklist showing the flag', async () => {
     const { nurse, mrn, referralId } = await importCase('Wenna', 'Tregothnan')
     const page = await importPage(nurse, '/screening')
     await page.goto(`${served.baseUrl}/imports`)
@@ -119,7 +121,8 @@ describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
     await page.context().close()
   })
 
-  it('when a FHIR Bundle has an invalid entry, then each entry has its outcome, nothing can be stored until the user chooses to store the valid ones', async () => {
+  it('when a FHIR Bundle has an invalid entry, then each entry has its outcome, nothing can be stored until the user chooses to ' +
+    'store the valid ones', async () => {
     const { nurse, mrn, referralId } = await importCase('Morwenna', 'Carbethick')
     const page = await importPage(nurse, '/screening')
     await page.goto(`${served.baseUrl}/imports`)
@@ -155,7 +158,8 @@ describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
     await page.context().close()
   })
 
-  it('when a doctor reverses a CSV batch with a reason, then it is listed as reversed, its results are gone and the episode is screened on what is left', async () => {
+  it('when a doctor reverses a CSV batch with a reason, then it is listed as reversed, its results are gone and the episode is ' +
+    'screened on what is left', async () => {
     const { nurse, mrn, referralId } = await importCase('Demelza', 'Penhallurick')
     const doctor = await makeStaff('doctor')
     // This test's own two batches, sent as the nurse's form sends them: the one to reverse

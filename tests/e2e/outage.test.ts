@@ -45,7 +45,8 @@ async function nursePage(): Promise<Page> {
 }
 
 describe('the database is unreachable for a moment', () => {
-  it('when saving an Hb answers 503 unavailable, then an alert says the change was not saved, nothing is stored, and the next save clears it', async () => {
+  it('when saving an Hb answers 503 unavailable, then an alert says the change was not saved, nothing is stored, and the next save ' +
+    'clears it', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id, hb: [], iron: null, referral: { stage: 'referred', plannedSurgeryDate: addDays(todayIso(), 30) } })
     const page = await nursePage()
     await page.goto(`${served.baseUrl}/referrals/${referral.id}`)

@@ -59,7 +59,8 @@ async function signedIn(who: StaffFixture, home: string, options: Parameters<typ
 const text = async (page: Page, testId: string) => (await page.getByTestId(testId).first().textContent()) ?? ''
 
 describe('a nurse records what happened after surgery and closes the episode', () => {
-  it('when the lowest Hb is typed in g/dL below the caution line, then the caution shows before saving and again from the server', async () => {
+  it('when the lowest Hb is typed in g/dL below the caution line, then the ' +
+    'caution shows before saving and again from the server', async () => {
     const referralId = (await operatedEpisode()).referral.id
     const nursePage = await signedIn(nurse, '/screening')
     await nursePage.selectOption('#hb-unit', 'g/dL')

@@ -49,7 +49,8 @@ async function flaggedEpisode(familyName: string) {
 
 describe('a nurse registers a patient and enters a low Hb; a colleague sees it live', () => {
   // One story in one test: each step needs the one before (the same patient, the same open pages).
-  it('when the nurse registers a patient and enters an Hb of 112 g/L, then the doctor’s open worklist shows the patient, then the value and the flag, without a reload, and both pages pass axe', async () => {
+  it('when the nurse registers a patient and enters an Hb of 112 g/L, then the doctor’s open worklist shows the patient, then the ' +
+    'value and the flag, without a reload, and both pages pass axe', async () => {
     const FAMILY = 'Quillbarrow'
     const doctorRow = () => doctorPage.locator('tbody tr', { hasText: FAMILY })
 
@@ -114,7 +115,8 @@ describe('a nurse registers a patient and enters a low Hb; a colleague sees it l
 })
 
 describe('worklist filters live in the address', () => {
-  it('when a filtered link is opened and the reader searches, then the filters are restored, applied, and the search is written into the address', async () => {
+  it('when a filtered link is opened and the reader searches, then the filters are restored, applied, and the search is written into ' +
+    'the address', async () => {
     const FAMILY = 'Tresidder'
     await flaggedEpisode(FAMILY)
     const doctorPage = await signedIn(doctor, '/clinic')

@@ -32,7 +32,8 @@ function phone(secret: string, stepsAhead = 0): string {
 }
 
 describe('an administrator sets up and uses an authenticator in a real browser', () => {
-  it('when an admin first signs in with a password, then they must enrol, see the QR code and recovery codes once, and next time give a code', async () => {
+  it('when an admin first signs in with a password, then they must enrol, see the QR code and recovery codes once, and next time ' +
+    'give a code', async () => {
     const context = await browser.newContext()
     const page = await context.newPage()
     await signInThroughPage(page, served.baseUrl, admin.email, admin.password)

@@ -132,7 +132,8 @@ describe('correcting and voiding a transfusion row', () => {
     expect((await Transfusion.findByPk(firstRow))!.voidReason).toBe('Entered against the wrong patient episode')
   })
 
-  it('when the nurse corrects the other row with the re-check, then the reason for the correction is required and the row counts as reassessed', async () => {
+  it('when the nurse corrects the other row with the re-check, then the reason for the correction is required and the row counts as ' +
+    'reassessed', async () => {
     await page.getByRole('button', { name: /^Correct: Red cells/ }).click()
     await page.getByTestId('tx-edit-form').waitFor()
     await waitForStillness(page)

@@ -64,7 +64,8 @@ describe('a two-unit transfusion recorded as two single units moves the QS138 re
     expect(await seriousViolations(doctorPage)).toEqual([])
   })
 
-  it('when the nurse enters two single units from the keyboard with a re-check between, then both are listed against the threshold', async () => {
+  it('when the nurse enters two single units from the keyboard with a ' +
+    're-check between, then both are listed against the threshold', async () => {
     await signInThroughPage(nursePage, served.baseUrl, nurse.email, nurse.password)
     await nursePage.waitForURL(`${served.baseUrl}/screening`)
     await nursePage.selectOption('#hb-unit', 'g/L')

@@ -24,7 +24,8 @@ export function oru(o: { mrn: string; authority?: string; control?: string; vers
     `MSH|^~\\&|KVLAB|${o.facility ?? 'KVH-PATH'}|FERROLANE|KVH|${hl7Ts(new Date())}||ORU^R01^ORU_R01|${ctl}|P|${o.version ?? '2.5.1'}`,
     `PID|1||${o.mrn}^^^${o.authority ?? 'KVH'}^MR||Testpatient^Invented||19600101|F`,
     `OBR|1|PL${ctl}|FL${ctl}|FBC^Full blood count^L|||${hl7Ts(at)}`,
-    ...o.obx.map((x, i) => `OBX|${i + 1}|${x.type ?? 'NM'}|${x.code ?? '718-7'}^Test^${x.system ?? 'LN'}||${x.value}|${x.unit ?? 'g/L'}^^UCUM|${x.range ?? ''}|${x.flag ?? ''}|||${x.status ?? 'F'}|||${x.at ? hl7Ts(x.at) : ''}`),
+    ...o.obx.map((x, i) => `OBX|${i + 1}|${x.type ?? 'NM'}|${x.code ?? '718-7'}^Test^${x.system ?? 'LN'}||${x.value}|${x.unit ?? 'g/L'}^^UCUM|` +
+        `${x.range ?? ''}|${x.flag ?? ''}|||${x.status ?? 'F'}|||${x.at ? hl7Ts(x.at) : ''}`),
   ]
   return lines.join('\r')
 }

@@ -90,7 +90,10 @@ export function parseIcs(text: string): Calendar {
       if (value === 'VEVENT') event = []
     } else if (prop.name === 'END') {
       if (stack.pop() !== value) throw new Error(`iCalendar: END:${value} does not close ${stack.at(-1)}`)
-      if (value === 'VEVENT' && event) cal.events.push(event), (event = null)
+      if (value === 'VEVENT' && event) {
+        cal.events.push(event)
+        event = null
+      }
     } else if (stack.at(-1) === 'VEVENT' && event) event.push(prop)
     else if (stack.at(-1) === 'VCALENDAR') cal.properties.push(prop)
   }

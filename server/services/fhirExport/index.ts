@@ -26,7 +26,7 @@ function stableUuid(namespace: string, name: string): string {
  * a document Bundle must open with a Composition that someone attests, and this export is a
  * machine hand-over of records, not a signed clinical document (that is the letter).
  */
-export async function exportEpisodeBundle(config: Config, viewer: Viewer, referralId: number) {
+export async function exportReferralBundle(config: Config, viewer: Viewer, referralId: number) {
   const r = await loadReferral(viewer, referralId)
   const [results, doses, appointments] = await Promise.all([
     // Not raw: the JSON column (derivedFrom) is parsed only through the model.

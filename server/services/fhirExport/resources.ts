@@ -41,7 +41,8 @@ export function patientResource(p: PatientFacts, identifierSystem: string): Json
 
 export function observationResource(r: ResultFacts, patientUrl: string, urlOf: UrlOf): Json {
   const { entry, value } = loincValue(r.analyte, r.valueCanonical)
-  const converted = entry.fromCanonical ? [{ text: `Stored in Ferrolane as ${r.valueCanonical} ${r.unitCanonical}; converted to ${entry.unit} to match the LOINC code's property.` }] : []
+  const converted = entry.fromCanonical ? [{ text: `Stored in Ferrolane as ${r.valueCanonical} ${r.unitCanonical}; converted to ${entry.unit} to match the LOINC code's ` +
+            `property.` }] : []
   const derived = r.source === 'derived' ? [{ text: 'Calculated by Ferrolane from the results it is derived from.' }] : []
   return {
     resourceType: 'Observation',

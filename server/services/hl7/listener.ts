@@ -48,6 +48,8 @@ export class MllpListener {
       })
     })
     this.server = server
+    // The one listener of this process, for listenerState(); not an alias kept for a closure.
+    // eslint-disable-next-line @typescript-eslint/no-this-alias -- a module-level registry, not a `self` alias
     running = this
     const sweep = () => void deleteExpired(this.config.hl7.retentionDays).catch((err: Error) => this.log('[hl7] retention sweep failed', err))
     sweep()

@@ -76,7 +76,8 @@ export async function outcomeCounts(sequelize: Sequelize): Promise<Pick<Hl7Overv
     { type: QueryTypes.SELECT, replacements: [since] },
   )
   const codes = await sequelize.query<{ code: string; count: number }>(
-    'SELECT error_code AS code, COUNT(*) AS count FROM hl7_messages WHERE received_at >= ? AND error_code IS NOT NULL GROUP BY error_code ORDER BY count DESC, code LIMIT 20',
+    'SELECT error_code AS code, COUNT(*) AS count FROM hl7_messages WHERE received_at >= ? AND error_code IS NOT NULL GROUP BY ' +
+      'error_code ORDER BY count DESC, code LIMIT 20',
     { type: QueryTypes.SELECT, replacements: [since] },
   )
   return { outcomes: outcomes.map((o) => ({ outcome: o.outcome, count: Number(o.count) })), errorCodes: codes.map((c) => ({ code: c.code, count: Number(c.count) })) }

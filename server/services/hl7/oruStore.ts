@@ -20,7 +20,8 @@ async function voidRows(sequelize: Sequelize, ids: number[], reason: string, t: 
   const now = new Date()
   await Result.update({ voidedAt: now, voidReason: reason.slice(0, 200) }, { where: { id: { [Op.in]: ids } }, transaction: t })
   const derived = await sequelize.query<{ id: number }>(
-    `SELECT id FROM results WHERE source = 'derived' AND voided_at IS NULL AND (${ids.map(() => 'JSON_CONTAINS(derived_from, ?)').join(' OR ')})`,
+    `SELECT id FROM results WHERE source = 'derived' AND voided_at IS NULL AND ` +
+      `(${ids.map(() => 'JSON_CONTAINS(derived_from, ?)').join(' OR ')})`,
     { type: QueryTypes.SELECT, replacements: ids.map(String), transaction: t },
   )
   if (derived.length) await Result.update({ voidedAt: now, voidReason: `its source value was voided (${reason})`.slice(0, 200) }, { where: { id: { [Op.in]: derived.map((d) => d.id) } }, transaction: t })
@@ -81,7 +82,7 @@ async function applyObx(sequelize: Sequelize, o: ObxReading, ctx: { referralId: 
  * read; only when there is none does a second read tell an unknown patient from one with no
  * open episode.
  */
-async function openEpisode(mrn: string, t: Transaction): Promise<Referral & { patient: Patient }> {
+async function openReferral(mrn: string, t: Transaction): Promise<Referral & { patient: Patient }> {
   const r = (await Referral.findOne({
     where: { stage: { [Op.notIn]: ENDED } },
     include: [{ model: Patient, as: 'patient', where: { mrn }, attributes: ['id', 'dateOfBirth', 'sex'] }],
@@ -107,7 +108,7 @@ function movesScreening(o: ObxReading, changes: Change[]): boolean {
 export async function storeOru(sequelize: Sequelize, groups: OruGroup[], ctx: { messageId: number; controlId: string; actor: Actor }, t: Transaction): Promise<Change[]> {
   const all: Change[] = []
   for (const g of groups) {
-    const referral = await openEpisode(g.mrn, t)
+    const referral = await openReferral(g.mrn, t)
     const patient = referral.patient
     const early = g.obx.find((o) => o.action !== 'void' && o.reading.takenAt.toISOString().slice(0, 10) < patient.dateOfBirth)
     if (early) throw new Hl7Problem('AE', 'bad-date', 'time taken is before the date of birth', '102', { segment: 'OBX', seq: early.seq, field: 14 })

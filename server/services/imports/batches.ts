@@ -46,17 +46,20 @@ export async function reverseBatch(sequelize: Sequelize, viewer: Viewer, id: num
     if (!batch) throw new NotFound('Import batch')
     if (batch.reversedAt) throw new RuleRefused(`Import batch ${id} was already reversed`, 'already_reversed')
     const affected = await sequelize.query<{ referralId: number; patientId: number; n: number }>(
-      'SELECT referral_id AS referralId, patient_id AS patientId, COUNT(*) AS n FROM results WHERE import_batch_id = ? GROUP BY referral_id, patient_id',
+      'SELECT referral_id AS referralId, patient_id AS patientId, COUNT(*) AS n FROM results WHERE import_batch_id = ? GROUP BY ' +
+        'referral_id, patient_id',
       { type: QueryTypes.SELECT, replacements: [id], transaction: t },
     )
     // A closed episode is read-only (shared/pathway/stages.ts): its results are part of a record
     // that has been signed off, so a batch that reached one cannot be taken back out.
     const closed = await sequelize.query<{ id: number }>(
-      `SELECT id FROM referrals WHERE stage IN (${READ_ONLY_STAGES.map(() => '?').join(', ')}) AND id IN (SELECT referral_id FROM results WHERE import_batch_id = ?)`,
+      `SELECT id FROM referrals WHERE stage IN (${READ_ONLY_STAGES.map(() => '?').join(', ')}) AND id IN (SELECT referral_id ` +
+        `FROM results WHERE import_batch_id = ?)`,
       { type: QueryTypes.SELECT, replacements: [...READ_ONLY_STAGES, id], transaction: t },
     )
     if (closed.length) {
-      throw new RuleRefused(`Import batch ${id} added results to ${closed.length} closed episode${closed.length === 1 ? '' : 's'} (${closed.map((c) => c.id).join(', ')}); a closed episode is read-only, so the batch cannot be reversed.`, 'episode_closed')
+      throw new RuleRefused(`Import batch ${id} added results to ${closed.length} closed episode${closed.length === 1 ? '' : 's'} ` +
+          `(${closed.map((c) => c.id).join(', ')}); a closed episode is read-only, so the batch cannot be reversed.`, 'episode_closed')
     }
     await sequelize.query('DELETE FROM results WHERE import_batch_id = ?', { type: QueryTypes.DELETE, replacements: [id], transaction: t })
     const removedCount = affected.reduce((n, a) => n + Number(a.n), 0)

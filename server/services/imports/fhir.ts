@@ -16,7 +16,8 @@ export async function importFhirBundle(
 ): Promise<FhirImportResult> {
   const entryCount = (bundle as { entry?: unknown } | null)?.entry
   if (Array.isArray(entryCount) && entryCount.length > LIMITS.fhirEntries) {
-    throw new Invalid(`The Bundle has ${entryCount.length} entries, more than the limit of ${LIMITS.fhirEntries} for one upload; nothing was imported. Send it in parts.`, { bundle: `must have at most ${LIMITS.fhirEntries} entries` })
+    throw new Invalid(`The Bundle has ${entryCount.length} entries, more than the limit of ${LIMITS.fhirEntries} for one upload; nothing was ` +
+        `imported. Send it in parts.`, { bundle: `must have at most ${LIMITS.fhirEntries} entries` })
   }
   const checked = checkFhirBundle(bundle, Date.now())
   if ('error' in checked) throw new RuleRefused(`${checked.error}. Nothing was imported.`, 'fhir_not_bundle', { bundle: checked.error })
@@ -50,7 +51,8 @@ export async function importFhirBundle(
       invalid,
       referralsAffected: summary.referralsAffected,
       sameFileAs: summary.sameFileAs,
-      ...(opts.commit && blocked ? { notStored: `${invalid} entr${invalid === 1 ? 'y is' : 'ies are'} invalid, so nothing was stored; store the valid entries only if you mean to` } : {}),
+      ...(opts.commit && blocked ? { notStored: `${invalid} entr${invalid === 1 ? 'y is' : 'ies are'} invalid, so nothing was stored; store the valid entries only ` +
+              `if you mean to` } : {}),
     }
   } catch (err) {
     await run.abandon()

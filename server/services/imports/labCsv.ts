@@ -52,16 +52,19 @@ export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: 
         const missing = MAPPED_FIELDS.filter((f) => !header.includes(input.mapping.columns[f]))
         if (missing.length) {
           const names = missing.map((f) => `"${input.mapping.columns[f]}"`).join(', ')
-          throw new RuleRefused(`The file has no column ${names} (its header reads: ${header.join(', ') || 'nothing'}). Check the column mapping for ${input.sourceName}.`, 'missing_columns', { mapping: `columns ${names} are not in the file` })
+          throw new RuleRefused(`The file has no column ${names} (its header reads: ${header.join(', ') || 'nothing'}). Check the column mapping ` +
+              `for ${input.sourceName}.`, 'missing_columns', { mapping: `columns ${names} are not in the file` })
         }
         headerChecked = true
       }
       const row = info.records + 1
       if (info.records > maxRows) {
-        throw new Invalid(`The file has more than ${maxRows} data rows, the limit for one upload; nothing was imported. Split it or export a shorter period.`, { file: `must have at most ${maxRows} rows` })
+        throw new Invalid(`The file has more than ${maxRows} data rows, the limit for one upload; nothing was imported. Split it or export a ` +
+            `shorter period.`, { file: `must have at most ${maxRows} rows` })
       }
       const checked: Checked = info.error
-        ? { ok: false, code: 'bad-row', reason: `row has a different number of fields from the header (${Object.keys(record).length} of ${info.columns?.length ?? 0} read)` }
+        ? { ok: false, code: 'bad-row', reason: `row has a different number of fields from the header (${Object.keys(record).length} of ` +
+              `${info.columns?.length ?? 0} read)` }
         : checkCsvRecord(record, input.mapping, timeZone, now)
       chunk.push({ row, checked })
       if (chunk.length >= CHUNK) {

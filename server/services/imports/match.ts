@@ -40,7 +40,8 @@ async function storedKeys(sequelize: Sequelize, rows: MatchedRow[], t?: Transact
   if (!rows.length) return new Map()
   const where = rows.map(() => '(referral_id = ? AND analyte = ? AND taken_at = ? AND value_canonical BETWEEN ? AND ?)').join(' OR ')
   const found = await sequelize.query<{ referralId: number; analyte: string; takenAt: Date; valueCanonical: number; batchId: number | null }>(
-    `SELECT referral_id AS referralId, analyte, taken_at AS takenAt, value_canonical AS valueCanonical, import_batch_id AS batchId FROM results WHERE ${where}`,
+    `SELECT referral_id AS referralId, analyte, taken_at AS takenAt, value_canonical AS valueCanonical, import_batch_id AS ` +
+      `batchId FROM results WHERE ${where}`,
     {
       type: QueryTypes.SELECT, transaction: t,
       replacements: rows.flatMap((r) => { const tol = r.reading.tolerance ?? 0; return [r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical - tol, r.reading.valueCanonical + tol] }),

@@ -1,5 +1,5 @@
 import { Op, type Sequelize, type Transaction } from 'sequelize'
-import { LIST_CAP, type AcceptedRowView, type Checked, type ImportKind, type ImportSummary, type SkipCode, type SkippedRow } from '../../../shared/imports'
+import { LIST_CAP, type Checked, type ImportKind, type ImportSummary } from '../../../shared/imports'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
 import { ImportBatch } from '../../models/importBatch'
 import { recordAudit } from '../audit'

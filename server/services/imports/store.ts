@@ -11,7 +11,8 @@ import { refreshScreeningMany } from '../screening'
 import type { Viewer } from '../viewer'
 import type { MatchedRow } from './match'
 
-const COLUMNS = '(referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported, taken_at, entered_by, source, derived_from, import_batch_id, created_at)'
+const COLUMNS = '(referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported, taken_at, entered_by, ' +
+    'source, derived_from, import_batch_id, created_at)'
 const PLACEHOLDERS = '(?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)'
 
 type ResultRow = [number, number, string, number, string, number | null, string | null, Date, number, string, string | null, number, Date]
@@ -43,7 +44,8 @@ export async function deriveForBatch(sequelize: Sequelize, batchId: number, user
   const out: ResultRow[] = []
   let refused = 0
   const creatinines = await sequelize.query<{ id: number; referralId: number; patientId: number; takenAt: Date; valueCanonical: number; dob: string | Date; sex: Sex }>(
-    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.taken_at AS takenAt, r.value_canonical AS valueCanonical, p.date_of_birth AS dob, p.sex
+    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.taken_at AS takenAt, r.value_canonical AS
+     valueCanonical, p.date_of_birth AS dob, p.sex
      FROM results r JOIN patients p ON p.id = r.patient_id WHERE r.import_batch_id = ? AND r.analyte = 'creatinine'`,
     { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },
   )
@@ -59,8 +61,10 @@ export async function deriveForBatch(sequelize: Sequelize, batchId: number, user
   }
   // Every iron-study row of each sample this batch touched, wherever it came from.
   const samples = await sequelize.query<SampleRow & { referralId: number; patientId: number; takenAt: Date }>(
-    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.analyte, r.value_canonical AS valueCanonical, r.taken_at AS takenAt
-     FROM results r JOIN (SELECT DISTINCT referral_id, taken_at FROM results WHERE import_batch_id = ? AND analyte IN ('iron', 'tibc', 'transferrin')) d
+    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.analyte, r.value_canonical AS valueCanonical,
+     r.taken_at AS takenAt
+     FROM results r JOIN (SELECT DISTINCT referral_id, taken_at FROM results WHERE import_batch_id = ? AND analyte IN ('iron',
+       'tibc', 'transferrin')) d
        ON d.referral_id = r.referral_id AND d.taken_at = r.taken_at
      WHERE r.analyte IN ('iron', 'tibc', 'transferrin', 'tsat') AND ${screenableSql('r')}`,
     { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },

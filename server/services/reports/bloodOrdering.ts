@@ -51,7 +51,8 @@ export async function bloodOrderingReport(sequelize: Sequelize, f: ReportFilters
           transfusionProbabilityPercent: { numerator: `Transfused ${xm} × 100`, denominator: xm, period },
           transfusionIndex: { numerator: `Units transfused to ${xm}`, denominator: `${xm}; ≥ 0.5 justifies crossmatching (clinical reference §9)`, period },
           meanBloodLossMl: { numerator: 'Sum of measured blood loss (mL)', denominator: 'Operated episodes with a post-operative record', period },
-          suggestion: { numerator: 'Crossmatch with TI < 0.5 and T% < 30 → group-and-screen; C:T > 2.5 → fewer units; group-and-screen with ≥ 30% transfused → crossmatch', denominator: 'The catalogue\'s current order for the operation', period },
+          suggestion: { numerator: 'Crossmatch with TI < 0.5 and T% < 30 → group-and-screen; C:T > 2.5 → fewer units; group-and-screen with ≥ 30% ' +
+                'transfused → crossmatch', denominator: 'The catalogue\'s current order for the operation', period },
         },
       },
     },

@@ -12,7 +12,8 @@ SELECT COUNT(*) AS referred,
   SUM(x.first_hb_at IS NOT NULL) AS screened,
   SUM(x.anaemic_or_deficient) AS anaemicOrDeficient,
   SUM(x.first_dose_at IS NOT NULL) AS treated,
-  SUM(x.first_dose_at IS NOT NULL AND EXISTS (SELECT 1 FROM results h WHERE h.referral_id = x.id AND h.analyte = 'hb' AND ${COUNTED} AND h.taken_at > x.first_dose_at)) AS rechecked,
+  SUM(x.first_dose_at IS NOT NULL AND EXISTS (SELECT 1 FROM results h WHERE h.referral_id = x.id AND h.analyte = 'hb' AND
+    ${COUNTED} AND h.taken_at > x.first_dose_at)) AS rechecked,
   SUM(x.cleared) AS cleared,
   SUM(x.operated) AS operated,
   SUM(x.operated AND x.first_hb_at IS NOT NULL AND DATEDIFF(x.surgery_date, x.first_hb_at) >= 28) AS screenedEarly

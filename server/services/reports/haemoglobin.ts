@@ -58,7 +58,8 @@ export async function haemoglobinReport(sequelize: Sequelize, f: ReportFilters):
         })),
         definitions: {
           medianRiseGL: {
-            numerator: `Median of (${surgeryDay}) − (${screening}), grouped by the product of the first iron dose given before surgery ('untreated' when none)`,
+            numerator: `Median of (${surgeryDay}) − (${screening}), grouped by the product of the first iron dose given before surgery ` +
+              `('untreated' when none)`,
             denominator: 'Episodes with both Hb values', period,
           },
         },

@@ -107,6 +107,7 @@ export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Pro
     byOperation: breakdown('p', (g) => g.procedureId),
     bySurgeon: breakdown('u', (g) => g.surgeonId),
     trend: [...months.entries()].sort((a, b) => a[0].localeCompare(b[0])).map(([month, s]) => ({ month, measures: figures(s) })),
-    caution: 'Figures count what was recorded in Ferrolane; a measure is only as complete as its records. Benchmarks are national audit figures for comparison, not targets set by the audit.',
+    caution: 'Figures count what was recorded in Ferrolane; a measure is only as complete as its records. Benchmarks are national ' +
+        'audit figures for comparison, not targets set by the audit.',
   }
 }

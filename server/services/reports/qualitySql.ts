@@ -18,13 +18,18 @@ SELECT r.id, r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, p.code AS
   o.tranexamic_acid_given AS txaGiven, o.cell_salvage_used AS cellSalvageUsed, o.cell_salvage_returned_ml AS cellSalvageMl,
   o.transfusion_information_given AS infoOnRecord, o.transfusion_consent AS consent, o.post_operative_iron_given AS postOpIron,
   (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS firstHbAt,
-  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED} ORDER BY h.taken_at, h.id LIMIT 1) AS firstHbGL,
-  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED} AND h.taken_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY)
+  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED} ORDER BY h.taken_at,
+    h.id LIMIT 1) AS firstHbGL,
+  (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED} AND h.taken_at <
+    DATE_ADD(o.surgery_date, INTERVAL 1 DAY)
      ORDER BY h.taken_at DESC, h.id DESC LIMIT 1) AS surgeryDayHbGL,
   EXISTS (SELECT 1 FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}
-     AND h.taken_at >= DATE_SUB(o.surgery_date, INTERVAL 45 DAY) AND h.taken_at < DATE_SUB(o.surgery_date, INTERVAL 13 DAY)) AS screenedInWindow,
-  (r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id = r.id)) AS ironDeficient,
-  EXISTS (SELECT 1 FROM administrations a WHERE a.referral_id = r.id AND a.given_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY)) AS ironBefore,
+     AND h.taken_at >= DATE_SUB(o.surgery_date, INTERVAL 45 DAY) AND h.taken_at < DATE_SUB(o.surgery_date, INTERVAL 13 DAY)) AS
+       screenedInWindow,
+  (r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id =
+    r.id)) AS ironDeficient,
+  EXISTS (SELECT 1 FROM administrations a WHERE a.referral_id = r.id AND a.given_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY))
+    AS ironBefore,
   (SELECT COUNT(*) FROM surgery_date_changes c WHERE c.referral_id = r.id AND c.reason = 'anaemia') AS postponementsForAnaemia,
   COALESCE(tx.rbcRows, 0) AS rbcRows, COALESCE(tx.rbcUnits, 0) AS rbcUnits, COALESCE(tx.rbcSingle, 0) AS rbcSingle,
   COALESCE(tx.rbcReassessed, 0) AS rbcReassessed, COALESCE(tx.anyRows, 0) AS anyTransfusions, COALESCE(tx.info, 0) AS infoOnTransfusion,
@@ -35,7 +40,8 @@ LEFT JOIN (
     SUM(t.component = 'red-cells') AS rbcRows,
     SUM(IF(t.component = 'red-cells', t.units, 0)) AS rbcUnits,
     SUM(t.component = 'red-cells' AND t.units = 1) AS rbcSingle,
-    SUM(t.component = 'red-cells' AND t.units = 1 AND t.reassessed_before_next = 1 AND t.post_transfusion_hb_gl IS NOT NULL) AS rbcReassessed,
+    SUM(t.component = 'red-cells' AND t.units = 1 AND t.reassessed_before_next = 1 AND t.post_transfusion_hb_gl IS NOT NULL) AS
+      rbcReassessed,
     SUM(IF(t.component <> 'red-cells', t.units, 0)) AS otherUnits,
     MIN(IF(t.component = 'red-cells', t.pre_transfusion_hb_gl, NULL)) AS lowestPreHbGL,
     COUNT(*) AS anyRows, MAX(t.information_given) AS info
@@ -46,6 +52,7 @@ WHERE ${where}`
 /** Pre-transfusion Hb values of the period's red-cell transfusions, grouped for the median. */
 export const PRE_HB_SQL = (where: string) => `
 SELECT t.pre_transfusion_hb_gl AS value, COUNT(*) AS n
-FROM transfusions t JOIN outcomes o ON o.referral_id = t.referral_id JOIN referrals r ON r.id = o.referral_id JOIN procedures p ON p.id = r.procedure_id
+FROM transfusions t JOIN outcomes o ON o.referral_id = t.referral_id JOIN referrals r ON r.id = o.referral_id JOIN procedures p
+  ON p.id = r.procedure_id
 WHERE ${where} AND t.voided_at IS NULL AND t.component = 'red-cells' AND t.pre_transfusion_hb_gl IS NOT NULL
 GROUP BY t.pre_transfusion_hb_gl`

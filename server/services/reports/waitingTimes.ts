@@ -39,8 +39,10 @@ export async function waitingTimesReport(sequelize: Sequelize, f: ReportFilters)
   const [found] = await select<Record<string, unknown>>(sequelize, SQL(w.sql), w.replacements)
   const period = `${PERIOD_BASIS.referral} (${f.from} to ${f.to})`
   const definitions = Object.fromEntries(LEGS.map(([key, label, a, b]) => [key, {
-    numerator: `Calendar days from ${a.replace(/_/g, ' ')} to ${b.replace(/_/g, ' ')} (${label}); median and 90th centile (linear interpolation)`,
-    denominator: 'Episodes where both dates exist (clinic = first move to clinic; treatment = first iron dose given; surgery = actual surgery date)',
+    numerator: `Calendar days from ${a.replace(/_/g, ' ')} to ${b.replace(/_/g, ' ')} (${label}); median and 90th centile (linear ` +
+          `interpolation)`,
+    denominator: 'Episodes where both dates exist (clinic = first move to clinic; treatment = first iron dose given; surgery = actual ' +
+            'surgery date)',
     period,
   }]))
   const rows = LEGS.map(([key, label]) => {

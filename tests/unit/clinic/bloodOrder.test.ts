@@ -5,7 +5,8 @@ const proc = (usualBloodOrder: string, usualUnits: number, transfusionRate: numb
 const base = { antibodiesPositive: null, declinesTransfusion: false }
 
 describe('which rule decides the blood order', () => {
-  it('when the operation is rarely transfused and the patient needs no units, then group and screen (Boral & Henry, Transfusion 1977)', () => {
+  it('when the operation is rarely transfused and the patient needs no units, then group and screen (Boral & Henry, Transfusion ' +
+    '1977)', () => {
     expect(decideBloodOrder({ ...base, calculatedUnits: 0, procedure: proc('group-and-screen', 0, 0.05) })).toMatchObject({ kind: 'group-and-screen', units: 0, rule: 'group-and-screen' })
   })
 

@@ -56,7 +56,8 @@ describe('re-checking a dose as it is recorded', () => {
     expect(v[0]!.message).toMatch(/nearest dose after this one is 3 days away/)
   })
 
-  it('when a dose recorded after the fact makes more than 1000 mg with a later dose in the same 7 days, then the weekly maximum is named', () => {
+  it('when a dose recorded after the fact makes more than 1000 mg with a later dose in the same 7 days, then the weekly maximum is ' +
+    'named', () => {
     const twoDay = { ...fcm, minIntervalDays: 2 }
     expect(caps({ product: twoDay, doseMg: 600, givenAt: day(10), earlier: [{ doseMg: 500, givenAt: day(14) }] })).toEqual(['maxWeeklyMg'])
     expect(caps({ product: twoDay, doseMg: 600, givenAt: day(10), earlier: [{ doseMg: 500, givenAt: day(17) }] })).toEqual([])

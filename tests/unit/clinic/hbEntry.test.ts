@@ -13,7 +13,8 @@ const errorsOf = async (body: object) => {
 }
 
 describe('Hb entry units', () => {
-  it('when Hb is 8.0 mmol/L, then it shows as 128.9 g/L and 12.9 g/dL (×16.11 g/L per mmol/L, per Fe monomer; clinical reference §7)', () => {
+  it('when Hb is 8.0 mmol/L, then it shows as 128.9 g/L and 12.9 g/dL (×16.11 ' +
+    'g/L per mmol/L, per Fe monomer; clinical reference §7)', () => {
     expect(hbInAllUnits(8, 'mmol/L')).toEqual({ gL: 128.9, gDl: 12.9, mmolL: 8 })
   })
 
@@ -38,7 +39,8 @@ describe('Hb entry units', () => {
 describe('other inputs refuse nonsense', () => {
   it('when TSAT is typed as a fraction (0.15), then it is refused with the 1–100 % range and a hint', async () => {
     expect(await errorsOf({ analyte: 'tsat', value: 0.15, unit: '%' })).toEqual([
-      'value: Transferrin saturation in % must be between 1 and 100 % (got 0.15); it looks like a fraction: enter it as a percentage (15 %)',
+      'value: Transferrin saturation in % must be between 1 and 100 % (got 0.15); it looks like a fraction: enter it as a ' +
+        'percentage (15 %)',
     ])
   })
 

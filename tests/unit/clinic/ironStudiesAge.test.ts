@@ -25,7 +25,8 @@ describe('iron studies must be recent to settle the iron status', () => {
     expect(r.tooOld.map((o) => [o.analyte, o.date, o.ageDays])).toEqual([['ferritin', '2026-10-01', 151], ['tsat', '2026-10-01', 151]])
   })
 
-  it('when ferritin is recent but the TSAT that settled it is old, then the status is indeterminate and recent studies are asked for', () => {
+  it('when ferritin is recent but the TSAT that settled it is old, then the ' +
+    'status is indeterminate and recent studies are asked for', () => {
     const r = recentIronStatus({ ferritin: { value: 60, takenAt: recentDay }, tsat: { value: 25, takenAt: oldDay } }, TODAY, ZONE, 90)
     expect(r.status).toBe('indeterminate')
     expect(r.need).toBe('recent-iron-studies')
@@ -52,10 +53,12 @@ describe('the verdict on old iron studies', () => {
     saO2: 0.97, paO2MmHg: 95, cardiacOutputLMin: null,
   }
 
-  it('when a man with a recent Hb of 145 g/L has replete iron studies 151 days old, then he is not ready: the verdict names recent iron studies', () => {
+  it('when a man with a recent Hb of 145 g/L has replete iron studies 151 days old, then he is not ready: the verdict names recent ' +
+    'iron studies', () => {
     const p = buildProjection({ ...base, ironStudies: { ferritin: { value: 200, takenAt: oldDay }, tsat: { value: 25, takenAt: oldDay } } }, DEFAULT_CLINIC_SETTINGS)
     expect(p.readiness.verdict).toBe('results-needed')
-    expect(p.readiness.missing).toEqual(['Needs recent iron studies: ferritin of 2026-10-01 (151 days old), TSAT of 2026-10-01 (151 days old); iron studies count for 90 days (local policy), so the iron status is unresolved.'])
+    expect(p.readiness.missing).toEqual(['Needs recent iron studies: ferritin of 2026-10-01 (151 days old), TSAT of 2026-10-01 (151 days old); iron studies count ' +
+        'for 90 days (local policy), so the iron status is unresolved.'])
     expect(p.readiness.flags).toContain('iron-studies-too-old')
     expect(p.evidence.ironKnown).toBe(false)
   })

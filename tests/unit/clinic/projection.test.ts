@@ -51,7 +51,8 @@ describe('surgery-day projection, worked patients', () => {
     expect(p.methods.bloodVolume).toMatch(/Nadler/)
   })
 
-  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the assumed rise is shown but the blood order and allowable loss rest on her measured 100 g/L', () => {
+  it('when an iron-deficient woman (160 cm, 60 kg, Hb 100) had 1000 mg IV iron 14 days ago, then the assumed rise is shown but the ' +
+    'blood order and allowable loss rest on her measured 100 g/L', () => {
     const p = buildProjection({
       ...base,
       plannedSurgeryDate: '2027-03-29', // 28 days away; first dose 14 days ago → 42 days of response
@@ -80,7 +81,8 @@ describe('surgery-day projection, worked patients', () => {
     expect(p.assumptions.join(' ')).toMatch(/1000 mg of iron given against a calculated deficit of 1220 mg \(82 %\)/)
   })
 
-  it('when an untreated anaemic man (175 cm, 80 kg, Hb 95, heart disease) has a routine CABG, then deferral is suggested and the 80 g/L trigger is used', () => {
+  it('when an untreated anaemic man (175 cm, 80 kg, Hb 95, heart disease) has a routine CABG, then deferral is suggested and the 80 ' +
+    'g/L trigger is used', () => {
     const p = buildProjection({
       ...base,
       plannedSurgeryDate: '2027-04-12',
@@ -130,7 +132,8 @@ describe('surgery-day projection, worked patients', () => {
 
   const knee = { code: 'TKA', name: 'Total knee replacement', expectedBloodLossMl: 1474, usualBloodOrder: 'group-and-screen', usualUnits: 0, transfusionRate: null }
 
-  it('when a 150 kg man of 178 cm (BMI 47) is projected, then blood volume is about 7.16 L by Lemmens 2006, named on the figure, not 10.5 L by 70 mL/kg', () => {
+  it('when a 150 kg man of 178 cm (BMI 47) is projected, then blood volume is about 7.16 L by Lemmens 2006, named on the figure, not ' +
+    '10.5 L by 70 mL/kg', () => {
     const p = buildProjection({
       ...base, plannedSurgeryDate: '2027-03-29', sex: 'male', heightCm: 178, weightKg: 150,
       hbMeasurements: [{ takenAt: '2027-02-27', hbGL: 140 }], procedure: knee,

@@ -43,7 +43,8 @@ describe('derived results', () => {
     expect(tsatFromSample([{ id: 1, analyte: 'iron', valueCanonical: 10 }, { id: 2, analyte: 'tibc', valueCanonical: 60 }, { id: 3, analyte: 'tsat', valueCanonical: 17 }])).toBeNull()
   })
 
-  it('when a 55-year-old woman has creatinine 0.9 mg/dL (79.6 µmol/L), then eGFR is about 76 (CKD-EPI 2021, Inker NEJM 2021; a secondary page gives ≈ 76)', () => {
+  it('when a 55-year-old woman has creatinine 0.9 mg/dL (79.6 µmol/L), then eGFR is about 76 (CKD-EPI 2021, Inker NEJM 2021; a ' +
+    'secondary page gives ≈ 76)', () => {
     expect(egfrFromCreatinine(0.9 * 88.4, '2027-06-01', { dateOfBirth: '1972-01-15', sex: 'female' })).toBeCloseTo(75.5, 0)
   })
 

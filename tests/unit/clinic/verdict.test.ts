@@ -20,7 +20,8 @@ const project = (over: Partial<ProjectionInputs> & Pick<ProjectionInputs, 'hbMea
 const iv = (at: string, totalMg: number, deficitMg: number | null) => ({ kind: 'iv' as const, firstDoseAt: at, lastDoseAt: at, totalMg, deficitMg })
 
 describe('"Ready" needs measured evidence', () => {
-  it('when a woman with Hb 112 g/L has had one 200 mg IV dose ten weeks before surgery, then she is not ready and a re-check is asked for', () => {
+  it('when a woman with Hb 112 g/L has had one 200 mg IV dose ten weeks before surgery, then she is not ready and a re-check is ' +
+    'asked for', () => {
     const p = project({
       hbMeasurements: [{ takenAt: '2027-02-20T09:00:00Z', hbGL: 112 }],
       ironStatus: 'absolute-deficiency',
@@ -72,7 +73,8 @@ describe('"Ready" needs measured evidence', () => {
     expect(p.readiness.missing.join(' ')).toMatch(/Needs iron studies/)
   })
 
-  it('when a non-anaemic iron-deficient patient had iron and no re-check yet, then the verdict is "results needed", naming the re-check', () => {
+  it('when a non-anaemic iron-deficient patient had iron and no re-check yet, then the verdict is "results needed", naming the ' +
+    're-check', () => {
     const p = project({
       hbMeasurements: [{ takenAt: '2027-02-10T09:00:00Z', hbGL: 134 }],
       ironStatus: 'absolute-deficiency',
@@ -115,7 +117,8 @@ describe('response to iron, measured', () => {
     expect(p.evidence.nonResponse).toBe(false)
   })
 
-  it('when Hb falls from 124 to 112 g/L after iron, then the projection goes below the lowest value and the routine verdict escalates to deferral', () => {
+  it('when Hb falls from 124 to 112 g/L after iron, then the projection goes below the lowest value and the routine verdict ' +
+    'escalates to deferral', () => {
     const p = project({
       hbMeasurements: [{ takenAt: '2027-01-10T09:00:00Z', hbGL: 124 }, { takenAt: '2027-02-25T09:00:00Z', hbGL: 112 }],
       ironStatus: 'absolute-deficiency',
@@ -147,7 +150,8 @@ describe('the blood order and its deciding rule', () => {
     expect(p.bloodOrder).toMatchObject({ kind: 'group-and-screen', units: 0, rule: 'group-and-screen' })
   })
 
-  it('when 35 % of patients having the operation are transfused, then the catalogue rate decides a crossmatch (T% ≥ 30 %, from memory; local policy)', () => {
+  it('when 35 % of patients having the operation are transfused, then the catalogue rate decides a crossmatch (T% ≥ 30 %, from ' +
+    'memory; local policy)', () => {
     const p = project({ ...fit, procedure: { ...hip, transfusionRate: 0.35 } })
     expect(p.bloodOrder).toMatchObject({ kind: 'crossmatch', units: 1, rule: 'catalogue-rate' })
   })
@@ -159,7 +163,8 @@ describe('the blood order and its deciding rule', () => {
     expect(p.readiness.flags).toContain('red-cell-antibodies')
   })
 
-  it('when the patient declines transfusion, then no units are crossmatched and the plan prompts cell salvage, tranexamic acid and a higher target', () => {
+  it('when the patient declines transfusion, then no units are crossmatched and the plan prompts cell salvage, tranexamic acid and a ' +
+    'higher target', () => {
     const p = project({ ...fit, hbMeasurements: [{ takenAt: '2027-02-20T09:00:00Z', hbGL: 135 }], declinesTransfusion: true, antibodiesPositive: true })
     expect(p.bloodOrder).toMatchObject({ kind: 'group-and-screen', units: 0, rule: 'declines-transfusion' })
     // Target 130 + 10 g/L (local policy): 135 g/L is below it, so she is still to optimise.

@@ -16,7 +16,8 @@ describe('anaemia work-up prompts', () => {
     expect(keys({ folateUgL: 3 })).not.toContain('folate-deficiency')
   })
 
-  it('when an anaemic patient has eGFR 45, then anaemia of kidney disease and nephrology are prompted (KDIGO 2012); not when eGFR is 60', () => {
+  it('when an anaemic patient has eGFR 45, then anaemia of kidney disease and nephrology are prompted (KDIGO 2012); not when eGFR is ' +
+    '60', () => {
     const p = workupPrompts({ ...base, egfr: 45 }).find((x) => x.key === 'kidney-disease')
     expect(p?.detail).toMatch(/nephrology/)
     expect(p?.source).toMatch(/KDIGO/)
@@ -30,7 +31,8 @@ describe('anaemia work-up prompts', () => {
     expect(keys({ ironStatus: 'replete', anaemic: false })).not.toContain('other-cause')
   })
 
-  it('when a man or a woman of 62 has iron-deficiency anaemia, then gastrointestinal investigation is prompted (BSG 2021, Snook et al., Gut 2021)', () => {
+  it('when a man or a woman of 62 has iron-deficiency anaemia, then gastrointestinal investigation is prompted (BSG 2021, Snook et ' +
+    'al., Gut 2021)', () => {
     const man = workupPrompts({ ...base, sex: 'male', ironStatus: 'absolute-deficiency' }).find((x) => x.key === 'gi-investigation')
     expect(man?.detail).toMatch(/in a man: unless a cause is known, refer for gastrointestinal investigation/)
     expect(man?.source).toMatch(/Snook et al\., Gut 2021/)

@@ -5,7 +5,8 @@ import { crossmatchToTransfusionRatio, suggestBloodOrder, transfusionIndex, tran
 const worked = { unitsCrossmatched: 100, unitsTransfused: 40, patientsCrossmatched: 50, patientsTransfused: 15 }
 
 describe('blood ordering audit indices', () => {
-  it('when 100 units are crossmatched for 50 patients and 15 of them receive 40 units, then C:T 2.5, T% 30 and TI 0.8 (clinical reference §9)', () => {
+  it('when 100 units are crossmatched for 50 patients and 15 of them receive 40 units, then C:T 2.5, T% 30 and TI 0.8 (clinical ' +
+    'reference §9)', () => {
     expect(crossmatchToTransfusionRatio(worked)).toBeCloseTo(2.5, 10)
     expect(transfusionProbabilityPercent(worked)).toBeCloseTo(30, 10)
     expect(transfusionIndex(worked)).toBeCloseTo(0.8, 10)
@@ -28,7 +29,8 @@ describe('blood ordering audit indices', () => {
     expect(suggestBloodOrder({ order: 'crossmatch', units: 2 }, c).suggestion).toBe('fewer-units')
   })
 
-  it('when the worked example is audited against a crossmatch order, then the order is kept (C:T 2.5 is acceptable, TI 0.8 justifies it)', () => {
+  it('when the worked example is audited against a crossmatch order, then the order is kept (C:T 2.5 is acceptable, TI 0.8 justifies ' +
+    'it)', () => {
     expect(suggestBloodOrder({ order: 'crossmatch', units: 2 }, { ...worked, patients: 50, patientsTransfusedAll: 15 }).suggestion).toBe('keep')
   })
 

@@ -3,12 +3,14 @@ import { classifyAnaemia, classifyIronStatus, isIronDeficient } from '../../../s
 import { clinicalError } from './helpers'
 
 describe('anaemia by WHO 2024 cut-offs and the Muñoz 2017 surgical threshold', () => {
-  it('when a man has Hb 125 g/L, then he is mildly anaemic by WHO 2024 and anaemic by the surgical threshold (clinical reference §5)', () => {
+  it('when a man has Hb 125 g/L, then he is mildly anaemic by WHO 2024 and ' +
+    'anaemic by the surgical threshold (clinical reference §5)', () => {
     expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'who' })).toMatchObject({ anaemic: true, severity: 'mild', thresholdGL: 130 })
     expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'surgical' })).toMatchObject({ anaemic: true, thresholdGL: 130 })
   })
 
-  it('when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 but is by the surgical 130 g/L threshold (Muñoz 2017, secondary source)', () => {
+  it('when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 but is by the surgical 130 g/L threshold (Muñoz 2017, ' +
+    'secondary source)', () => {
     expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'who' })).toMatchObject({ anaemic: false, severity: 'none', thresholdGL: 120 })
     expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'surgical' })).toMatchObject({ anaemic: true, severity: 'mild', thresholdGL: 130 })
   })

@@ -38,7 +38,8 @@ describe('Severinghaus 1979 eq. 1 (J Appl Physiol 46:599), values computed from 
     }
   })
 
-  it('when P50 is 19 mmHg (fetal-like), then SO2 at 26.8 mmHg is 0.7184 (computed from Severinghaus 1979 eq. 1 with Kelman 1966 P50 shift)', () => {
+  it('when P50 is 19 mmHg (fetal-like), then SO2 at 26.8 mmHg is 0.7184 (computed from Severinghaus 1979 eq. 1 with Kelman 1966 P50 ' +
+    'shift)', () => {
     expectWithin(saturationFromPo2(26.8, { p50MmHg: 19 }), 0.7184, 1e-4)
   })
 
@@ -72,7 +73,8 @@ describe('Hill equation (n 2.7, P50 26.8 mmHg), values computed from the formula
 })
 
 describe('PO2 from saturation', () => {
-  it('when SO2 is 0.5 / 0.75 / 0.9 / 0.975, then the exact inverse of eq. 1 gives 26.86 / 40.04 / 58.66 / 96.48 mmHg (Ellis 1989 inverse values, from memory)', () => {
+  it('when SO2 is 0.5 / 0.75 / 0.9 / 0.975, then the exact inverse of eq. 1 gives 26.86 / 40.04 / 58.66 / 96.48 mmHg (Ellis 1989 ' +
+    'inverse values, from memory)', () => {
     const cases: [number, number][] = [
       [0.5, 26.86],
       [0.75, 40.04],
@@ -82,7 +84,8 @@ describe('PO2 from saturation', () => {
     for (const [s, po2] of cases) expectWithin(po2FromSaturation(s), po2, 0.02)
   })
 
-  it('when Severinghaus eq. 2 is used, then SO2 0.5 / 0.75 / 0.9 / 0.975 gives 26.83 / 40.21 / 57.98 / 96.56 mmHg (computed from Severinghaus 1979 eq. 2)', () => {
+  it('when Severinghaus eq. 2 is used, then SO2 0.5 / 0.75 / 0.9 / 0.975 gives 26.83 / 40.21 / 57.98 / 96.56 mmHg (computed from ' +
+    'Severinghaus 1979 eq. 2)', () => {
     const cases: [number, number][] = [
       [0.5, 26.83],
       [0.75, 40.21],

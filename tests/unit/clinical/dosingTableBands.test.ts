@@ -12,7 +12,8 @@ const SMPC: DosingTableDraft = {
 }
 
 describe('the dosing table as an admin edits it', () => {
-  it('when the SmPC table is entered band by band, then it has no problems and reads back the label figures (Ferinject SmPC 4.2 Table 1: 34 kg → 500 mg; 69 kg, Hb 99 g/L → 1500 mg; 70 kg, Hb 100 g/L → 1500 mg; Hb 140 g/L → 500 mg)', () => {
+  it('when the SmPC table is entered band by band, then it has no problems and reads back the label figures (Ferinject SmPC 4.2 ' +
+    'Table 1: 34 kg → 500 mg; 69 kg, Hb 99 g/L → 1500 mg; 70 kg, Hb 100 g/L → 1500 mg; Hb 140 g/L → 500 mg)', () => {
     expect(dosingTableProblems(SMPC)).toEqual([])
     const table = draftToTable(SMPC)
     expect(tableNeedMg(table, 34, 80)).toBe(500)

@@ -12,7 +12,8 @@ describe('Ganzoni iron deficit (Ganzoni 1970, Schweiz Med Wochenschr 100:301, ci
     expect(ganzoniIronDeficit({ weightKg: 70, hbGL: 80, targetHbGL: 120 })).toBe(1172)
   })
 
-  it('when a 30 kg patient has Hb 80 g/L and target 130, then stores are 15 mg/kg and the deficit is 810 mg (computed from Ganzoni 1970\'s formula)', () => {
+  it('when a 30 kg patient has Hb 80 g/L and target 130, then stores are 15 mg/kg and the deficit is 810 mg (computed from Ganzoni ' +
+    '1970\'s formula)', () => {
     expect(ganzoniIronDeficit({ weightKg: 30, hbGL: 80, targetHbGL: 130 })).toBe(810)
   })
 

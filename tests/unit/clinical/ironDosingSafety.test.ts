@@ -36,7 +36,8 @@ describe('the product dosing table (ferric carboxymaltose SmPC Table 1)', () => 
     expect(plan.doses.map((d) => d.doseMg)).toEqual([1000, 500])
   })
 
-  it('when the table doses a 30 kg patient, then the plan gives the label\'s 500 mg (Ferinject SmPC 4.2 Table 1: below 35 kg) and no warning speaks of Ganzoni stores', () => {
+  it('when the table doses a 30 kg patient, then the plan gives the label\'s 500 mg (Ferinject SmPC 4.2 Table 1: below 35 kg) and no ' +
+    'warning speaks of Ganzoni stores', () => {
     const plan = ironDosePlan({ product: { ...fcm, dosingTable: FCM_TABLE }, weightKg: 30, hbGL: 90, targetHbGL: 150 })
     expect(plan.deficitMg).toBe(500)
     expect(plan.warnings.join(' ')).toMatch(/under 35 kg: adult dose caps may not apply/)
@@ -50,15 +51,18 @@ describe('the product dosing table (ferric carboxymaltose SmPC Table 1)', () => 
 })
 
 describe('Ganzoni with body size', () => {
-  it('when checked against the iron sucrose SmPC example, then 60 kg and an Hb fall of 1 g/dL with no stores needs about 150 mg (Venofer SmPC 4.2: about 150 mg iron to be replaced)', () => {
+  it('when checked against the iron sucrose SmPC example, then 60 kg and an Hb fall of 1 g/dL with no stores needs about 150 mg ' +
+    '(Venofer SmPC 4.2: about 150 mg iron to be replaced)', () => {
     expectWithin(ganzoniIronDeficit({ weightKg: 60, hbGL: 140, targetHbGL: 150, ironStoresMg: 0 }), 150, 10)
   })
 
-  it('when checked against a published worked example, then a 70 kg woman with Hb 80 g/L needs 1676 mg (askdis.blogspot.com 2015, "Iron dose calculation": 70 × (150 − 80) × 0.24 + 500)', () => {
+  it('when checked against a published worked example, then a 70 kg woman with Hb 80 g/L needs 1676 mg (askdis.blogspot.com 2015, ' +
+    '"Iron dose calculation": 70 × (150 − 80) × 0.24 + 500)', () => {
     expect(ganzoniIronDeficit({ weightKg: 70, hbGL: 80, targetHbGL: 150 })).toBe(1676)
   })
 
-  it('when a man is 6 feet (182.88 cm), then Devine ideal body weight is 77.6 kg (Devine 1974: 50 kg + 2.3 kg per inch over 5 feet; common practice)', () => {
+  it('when a man is 6 feet (182.88 cm), then Devine ideal body weight is 77.6 kg (Devine 1974: 50 kg + 2.3 kg per inch over 5 feet; ' +
+    'common practice)', () => {
     expectWithin(idealBodyWeightKg('male', 182.88), 77.6, 0.05)
   })
 
@@ -70,7 +74,8 @@ describe('Ganzoni with body size', () => {
     expect(plan.warnings.join(' ')).toMatch(/ideal body weight/)
   })
 
-  it('when a child weighs under 35 kg, then the Ganzoni target is 130 g/L, not 150 (iron sucrose SmPC 4.2: below 35 kg target Hb 13 g/dL)', () => {
+  it('when a child weighs under 35 kg, then the Ganzoni target is 130 g/L, not 150 (iron sucrose SmPC 4.2: below 35 kg target Hb 13 ' +
+    'g/dL)', () => {
     const plan = ironDosePlan({ product: { ...sucrose, licensedFromAgeYears: 3 }, weightKg: 30, hbGL: 90, targetHbGL: 150, ageYears: 10 })
     expect(plan.method.targetHbGL).toBe(130)
     expect(plan.deficitMg).toBe(Math.round(30 * 40 * 0.24 + 15 * 30))
@@ -86,7 +91,8 @@ describe('age', () => {
     expect((caught as IronPlanRefusal).message).toMatch(/not marked as licensed at age 11/)
   })
 
-  it('when a 12-year-old of 40 kg gets a product licensed from 1 year, then the paediatric caps limit each dose (15 mg/kg, at most 750 mg: Injectafer US label as tabled by ASH Hematology)', () => {
+  it('when a 12-year-old of 40 kg gets a product licensed from 1 year, then the paediatric caps limit each dose (15 mg/kg, at most ' +
+    '750 mg: Injectafer US label as tabled by ASH Hematology)', () => {
     const plan = ironDosePlan({ product: { ...fcm, licensedFromAgeYears: 1, paediatricMaxSingleDoseMgPerKg: 15, paediatricMaxSingleDoseMg: 750 }, weightKg: 40, hbGL: 95, targetHbGL: 150, ageYears: 12 })
     expect(plan.paediatric).toBe(true)
     expect(plan.appliedCaps.perDoseLimitMg).toBe(600)
@@ -96,7 +102,8 @@ describe('age', () => {
 })
 
 describe('doses and the surgery date', () => {
-  it('when surgery is 5 days away, then a second dose after the operation is left out with a warning and the first carries the too-late caution', () => {
+  it('when surgery is 5 days away, then a second dose after the operation is left out with a warning and the first carries the ' +
+    'too-late caution', () => {
     const plan = ironDosePlan({ product: sucrose, weightKg: 70, hbGL: 90, targetHbGL: 150, startDate: '2026-12-04', surgeryDate: '2026-12-09' })
     expect(plan.doses.every((d) => d.date! < '2026-12-09')).toBe(true)
     expect(plan.timing!.afterSurgery.length).toBeGreaterThan(0)

@@ -38,7 +38,8 @@ const oralAlternate: IronProduct = {
 }
 
 describe('IV iron dose plan', () => {
-  it('when a 45 kg patient with Hb 90 g/L gets a carboxymaltose-like product, then the first dose is 900 mg (20 mg/kg cap, EU SmPC; sheet test case)', () => {
+  it('when a 45 kg patient with Hb 90 g/L gets a carboxymaltose-like product, then the first dose is 900 mg (20 mg/kg cap, EU SmPC; ' +
+    'sheet test case)', () => {
     const plan = ironDosePlan({ product: carboxymaltoseLike, weightKg: 45, hbGL: 90, targetHbGL: 150 })
     // Ganzoni: 45 × 60 × 0.24 + 500 = 1148 mg (computed from Ganzoni 1970's formula), to the nearest 100 mg vial step.
     expect(plan.deficitMg).toBe(1148)
@@ -57,7 +58,8 @@ describe('IV iron dose plan', () => {
     expect(plan.doses.map((d) => d.date)).toEqual(['2025-03-28', '2025-04-04'])
   })
 
-  it('when a 70 kg patient needs 1508 mg of an iron-sucrose-like product, then 200 mg doses run three a week, within 600 mg in any 7 days', () => {
+  it('when a 70 kg patient needs 1508 mg of an iron-sucrose-like product, then 200 mg doses run three a week, within 600 mg in any 7 ' +
+    'days', () => {
     const plan = ironDosePlan({ product: sucroseLike, weightKg: 70, hbGL: 90, targetHbGL: 150 })
     expect(plan.totalMg).toBe(1500)
     expect(plan.doses.map((d) => d.doseMg)).toEqual([200, 200, 200, 200, 200, 200, 200, 100])

@@ -94,7 +94,8 @@ describe('Hb projection to the surgery date', () => {
     expect(p).toMatchObject({ method: 'trend', hbGL: 120 })
   })
 
-  it('when Hb is falling despite iron, then the fall is extended to the target date (not floored at the lowest re-check) and a review is asked for', () => {
+  it('when Hb is falling despite iron, then the fall is extended to the target date (not floored at the lowest re-check) and a ' +
+    'review is asked for', () => {
     const p = projectHb({
       targetDate: '2025-06-01',
       measurements: [
@@ -135,7 +136,8 @@ describe('Hb projection to the surgery date', () => {
     expect(p.assumptions.join(' ')).toMatch(/200 mg of iron given against a calculated deficit of 1200 mg \(17 %\)/)
   })
 
-  it('when a full IV course was given 8 weeks before surgery, then the assumed rise lies within the 10–20 g/L over 4–8 weeks that reviews report', () => {
+  it('when a full IV course was given 8 weeks before surgery, then the assumed rise lies within the 10–20 g/L over 4–8 weeks that ' +
+    'reviews report', () => {
     // "IV iron typically raises Hb 10–20 g/L over 4–8 weeks" (secondary source, clinical reference §6 [V2]).
     const p = projectHb({
       targetDate: '2025-04-26', // 56 days after the dose

@@ -26,7 +26,8 @@ describe('the response to iron as worklist flags', () => {
     expect(ironResponse([{ takenAt: '2027-01-28T09:00:00Z', hbGL: 100 }, { takenAt: '2027-03-08T09:00:00Z', hbGL: 106 }], { ...iv, kind: 'oral' }, ZONE).nonResponse).toBe(false)
   })
 
-  it('when Hb falls from 120 to 114 g/L after iron, then the worklist shows "Hb falling after iron"; after surgery no flag is shown', () => {
+  it('when Hb falls from 120 to 114 g/L after iron, then the worklist shows ' +
+    '"Hb falling after iron"; after surgery no flag is shown', () => {
     const r = ironResponse([{ takenAt: '2027-01-28T09:00:00Z', hbGL: 120 }, { takenAt: '2027-02-20T09:00:00Z', hbGL: 114 }], iv, ZONE)
     expect(r.falling).toBe(true)
     expect(referralFlags({ ...base, hbFallingAfterIron: true }, '2027-03-06', ZONE)).toContain('hb-falling')

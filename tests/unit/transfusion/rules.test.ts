@@ -32,10 +32,13 @@ describe('ISBT 128 product code format (from memory of ICCBBA ST-001; format onl
 
 describe('QS138 statement 3 per transfusion', () => {
   const base = { component: 'red-cells' as const, units: 1, reassessedBeforeNext: true, postTransfusionHbGL: 80 }
-  it('when a single red-cell unit is followed by reassessment and an Hb, then it counts', () => expect(reassessedAfterEachUnit(base)).toBe(true))
+  it('when a single red-cell unit is followed by ' +
+    'reassessment and an Hb, then it counts', () => expect(reassessedAfterEachUnit(base)).toBe(true))
   it('when two units are given together, then it does not', () => expect(reassessedAfterEachUnit({ ...base, units: 2 })).toBe(false))
-  it('when no Hb was checked after the unit, then it does not', () => expect(reassessedAfterEachUnit({ ...base, postTransfusionHbGL: null })).toBe(false))
-  it('when the patient was not reassessed, then it does not', () => expect(reassessedAfterEachUnit({ ...base, reassessedBeforeNext: false })).toBe(false))
+  it('when no Hb was checked after the ' +
+    'unit, then it does not', () => expect(reassessedAfterEachUnit({ ...base, postTransfusionHbGL: null })).toBe(false))
+  it('when the patient was not ' +
+    'reassessed, then it does not', () => expect(reassessedAfterEachUnit({ ...base, reassessedBeforeNext: false })).toBe(false))
 })
 
 describe('defaultPhase', () => {
