@@ -36,8 +36,8 @@ export function serverSourceDigest(): string {
 export function ensureServerBuild(label: string, outDir = 'dist-server'): boolean {
   const stamp = path.join(repoRoot, outDir, STAMP)
   const want = serverSourceDigest()
-  const current = existsSync(path.join(repoRoot, outDir, 'server', 'index.js')) && existsSync(stamp) && readFileSync(stamp, 'utf8').trim() === want
-  if (current) return false
+  const built = existsSync(path.join(repoRoot, outDir, 'server', 'index.js')) && existsSync(stamp)
+  if (built && readFileSync(stamp, 'utf8').trim() === want) return false
   console.log(`[${label}] compiling the server into ${outDir}/ (missing or older than its sources)...`)
   execFileSync('bash', ['scripts/build-server.sh', outDir], { cwd: repoRoot, stdio: ['ignore', 'inherit', 'inherit'] })
   writeFileSync(stamp, `${want}\n`)

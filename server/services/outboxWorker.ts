@@ -107,15 +107,18 @@ export class OutboxWorker {
    * run again after a commit whose answer was lost: the row is then no longer ours and 'sending'.
    */
   private async finish(id: number, changes: Partial<Row>): Promise<void> {
+    const where = { id, claimedBy: this.workerId, status: 'sending' as const }
     await unitOfWork(this.opts.sequelize, { idempotent: true, reconnectForMs: OUTCOME_RETRY_MS }, (transaction) =>
-      OutboxMessage.update({ ...changes, claimedBy: null, claimedUntil: null }, { where: { id, claimedBy: this.workerId, status: 'sending' }, transaction }))
+      OutboxMessage.update({ ...changes, claimedBy: null, claimedUntil: null }, { where, transaction }))
   }
 
   /** Hands claims back untouched (due at once) when too little of the lease is left to send them safely. */
   private async release(ids: number[], now: Date): Promise<void> {
     if (!ids.length) return
-    await OutboxMessage.update({ status: 'queued', claimedBy: null, claimedUntil: null, nextAttemptAt: now, attempts: sequelizeLiteral('attempts - 1') },
-      { where: { id: ids, claimedBy: this.workerId, status: 'sending' } })
+    await OutboxMessage.update(
+      { status: 'queued', claimedBy: null, claimedUntil: null, nextAttemptAt: now, attempts: sequelizeLiteral('attempts - 1') },
+      { where: { id: ids, claimedBy: this.workerId, status: 'sending' } },
+    )
   }
 
   /** Sends one claimed message; the reply link's token exists only if the send went through. */

@@ -87,7 +87,8 @@ describe('the transaction helper', () => {
   })
 
   /** Runs a unit whose own connection is killed by another session on its first try (as a failover cuts it). */
-  async function withKilledConnection(opts: { idempotent: boolean; reconnectForMs?: number }): Promise<{ tries: number; outcome: Promise<unknown> }> {
+  type KillOptions = { idempotent: boolean; reconnectForMs?: number }
+  async function withKilledConnection(opts: KillOptions): Promise<{ tries: number; outcome: Promise<unknown> }> {
     let tries = 0
     const outcome = unitOfWork(t.sequelize, opts, async (tx) => {
       tries += 1
