@@ -276,7 +276,8 @@ export function loadConfig(env: Env = process.env): Config {
       pollMs: int(env, 'OUTBOX_POLL_MS', 5000, 100, 3_600_000),
       maxAttempts: int(env, 'OUTBOX_MAX_ATTEMPTS', 8, 1, 100),
       retryBaseSeconds: int(env, 'OUTBOX_RETRY_BASE_SECONDS', 30, 1, 86_400),
-      leaseSeconds: int(env, 'OUTBOX_LEASE_SECONDS', 120, 10, 86_400),
+      // At least the SMTP time budget plus the outcome's retry window (outboxWorker.ts), with room for a batch.
+      leaseSeconds: int(env, 'OUTBOX_LEASE_SECONDS', 120, 90, 86_400),
       reminderDaysBefore: int(env, 'REMINDER_DAYS_BEFORE', 2, 0, 60),
     },
     replies: {

@@ -1,4 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize'
+import { isDatabaseUnavailable } from './dbUnavailable'
 
 /**
  * Server error numbers after which the whole transaction has been rolled back (or never
@@ -32,27 +33,45 @@ export interface UnitOfWorkOptions {
   idempotent: boolean
   /** Total tries, the first included; bounded so a hot row cannot hold a request forever. */
   attempts?: number
+  /**
+   * Also run again when the database could not be reached or the connection broke (a Galera
+   * node killed, HAProxy moving the writer route), for at most this long from the first try.
+   * The commit's fate is then unknown, so the unit must also be safe to run after a commit that
+   * did happen (a conditional UPDATE that then matches nothing). For short writes whose loss
+   * costs more than a wait: the outbox recording that the relay took a message.
+   */
+  reconnectForMs?: number
 }
 
 const DEFAULT_ATTEMPTS = 4
 const BASE_DELAY_MS = 25
+const RECONNECT_BASE_DELAY_MS = 250
+const RECONNECT_MAX_DELAY_MS = 2000
 
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms))
 
 /**
  * Runs `work` in one transaction. When the server rolls it back for a deadlock, a lock wait or a
  * lost certification and the unit is idempotent, it is run again after a short random pause
- * (so two conflicting requests do not collide again in step), up to `attempts` times. This is
- * the one place that retries; a unit that is not idempotent gets the error on the first loss.
+ * (so two conflicting requests do not collide again in step), up to `attempts` times; with
+ * `reconnectForMs`, also while the database is unreachable, until that time is up. This is the
+ * one place that retries; a unit that is not idempotent gets the error on the first loss.
  */
 export async function unitOfWork<T>(sequelize: Sequelize, opts: UnitOfWorkOptions, work: (t: Transaction) => Promise<T>): Promise<T> {
   const attempts = opts.idempotent ? Math.max(1, opts.attempts ?? DEFAULT_ATTEMPTS) : 1
-  for (let attempt = 1; ; attempt += 1) {
+  const reconnectUntil = opts.idempotent && opts.reconnectForMs ? Date.now() + opts.reconnectForMs : 0
+  for (let attempt = 1, conflicts = 0; ; attempt += 1) {
     try {
       return await sequelize.transaction((t) => work(t))
     } catch (err) {
-      if (attempt >= attempts || !isRetryableConflict(err)) throw err
-      await pause(BASE_DELAY_MS * 2 ** (attempt - 1) * (0.5 + Math.random()))
+      if (isRetryableConflict(err) && (conflicts += 1) < attempts) {
+        await pause(BASE_DELAY_MS * 2 ** (conflicts - 1) * (0.5 + Math.random()))
+        continue
+      }
+      // A failover: HAProxy needs a few seconds to mark the dead node down, so wait a little longer each time.
+      const wait = Math.min(RECONNECT_MAX_DELAY_MS, RECONNECT_BASE_DELAY_MS * attempt)
+      if (!(isDatabaseUnavailable(err) || isRetryableConflict(err)) || Date.now() + wait > reconnectUntil) throw err
+      await pause(wait)
     }
   }
 }

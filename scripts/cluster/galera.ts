@@ -4,10 +4,10 @@
  * user that runs mariadbd; the joiner's data directory must be writable by that user, which
  * holds here because the directory is made by this same user.
  */
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { execFileSync } from 'node:child_process'
 import path from 'node:path'
-import { startMariaDb, mariaDbSocket, type MariaDbHandle } from '../lib/mariadb'
+import { findMariaDbd, startMariaDb, mariaDbSocket, type MariaDbHandle } from '../lib/mariadb'
 import type { ClusterPorts } from './ports'
 
 export const CLUSTER_NAME = 'ferrolane'
@@ -69,6 +69,27 @@ export function grastate(dataDir: string): { seqno: number; safeToBootstrap: boo
   if (!existsSync(file)) return null
   const text = readFileSync(file, 'utf8')
   return { seqno: Number(/seqno:\s*(-?\d+)/.exec(text)?.[1] ?? -1), safeToBootstrap: /safe_to_bootstrap:\s*1/.test(text) }
+}
+
+/**
+ * After a crash grastate.dat says seqno -1; the position is then read from InnoDB itself with
+ * `mariadbd --wsrep-recover` (which starts InnoDB, logs "Recovered position: UUID:SEQNO" and
+ * exits). Returns -1 when it cannot tell.
+ */
+export function recoverSeqno(dataDir: string): number {
+  const log = path.join(dataDir, 'wsrep-recover.log')
+  rmSync(log, { force: true })
+  try {
+    execFileSync(findMariaDbd() ?? 'mariadbd', [
+      '--no-defaults', `--datadir=${path.join(dataDir, 'db')}`, `--log-error=${log}`, '--wsrep-on=ON',
+      `--wsrep-provider=${galeraLibrary()}`, '--wsrep-recover', '--binlog-format=ROW', '--innodb-buffer-pool-size=64M', '--skip-networking',
+      `--socket=${path.join(dataDir, 'recover.sock')}`, ...(process.getuid?.() === 0 ? ['--user=root'] : []),
+    ], { stdio: 'ignore', timeout: 120_000 })
+    const found = /Recovered position:\s*[0-9a-f-]+:(-?\d+)/.exec(readFileSync(log, 'utf8'))
+    return found ? Number(found[1]) : -1
+  } catch {
+    return -1
+  }
 }
 
 /** Marks a node as the one to start the cluster from (after every node stopped). */

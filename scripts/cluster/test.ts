@@ -90,7 +90,8 @@ async function main(): Promise<number> {
       const v = new Visitor(t.frontUrl, log)
       await v.signIn(NURSES[w % NURSES.length], DEMO_PASSWORD)
       for (let i = 0; Date.now() < end; i += 1) {
-        if (i % 4 === 3) {
+        // Every other episode a fresh sign-in, so even a starved machine (a few episodes per worker) makes several.
+        if (i % 2 === 1) {
           const fresh = new Visitor(t.frontUrl, log)
           if ((await fresh.signIn(NURSES[(w + i) % NURSES.length], DEMO_PASSWORD)) === 200) acked.signIns += 1
         }
@@ -168,7 +169,15 @@ async function main(): Promise<number> {
     }
     check('CHECKSUM TABLE agrees on all three nodes for every table', differ.length === 0 && Object.keys(sums[0]).length > 20, differ.join(', ') || `${Object.keys(sums[0]).length} tables`)
 
-    // E-mails: maildev against the outbox, including the race's messages.
+    // E-mails: maildev against the outbox, including the race's messages. Exactly once is what is
+    // asserted, and what the outbox achieves here: after the relay accepts a message the worker
+    // records 'sent' retrying across the node kill's failover (OUTCOME_RETRY_MS, 30 s, far longer
+    // than the few seconds it takes), and it sends only while its lease outlasts that retry. The one
+    // window left is an app process SIGKILLed between the relay's "250 accepted" and the commit of
+    // 'sent' (one database round trip: a few milliseconds on this loaded machine). With an e-mail
+    // every second or two per process, the app kill below lands in it well under once in a hundred
+    // runs; a duplicate then fails this check, because it is a real (if rare) repeat, though it
+    // carries the same Message-ID.
     const sent = await onNode(t.nodeSocket(2), async (c) => ((await c.query("SELECT id FROM outbox_messages WHERE status = 'sent' AND id >= ?", [firstOutboxId])) as { id: number }[]).map((r) => Number(r.id)))
     // maildev lists a message only once it has parsed and stored it: wait (at most 20 s) until it has
     // as many as the outbox sent, then compare which ones.

@@ -12,8 +12,9 @@ import { ensureDatabase } from '../lib/mariadb'
 import type { MariaDbHandle } from '../lib/mariadb'
 import { startMaildev, type MaildevHandle } from '../lib/maildev'
 import { prepareDatabase } from '../lib/prepare'
+import { ensureServerBuild } from '../lib/serverBuild'
 import { clusterPorts, NODE_COUNT, type ClusterPorts } from './ports'
-import { grastate, markSafeToBootstrap, nodeDataDir, nodeLabel, nodePid, nodeSocket, startGaleraNode } from './galera'
+import { grastate, markSafeToBootstrap, nodeDataDir, nodeLabel, nodePid, nodeSocket, recoverSeqno, startGaleraNode } from './galera'
 import { startCheckAgent, type CheckAgent } from './checkAgent'
 import { startHaproxy, type HaproxyHandle } from './haproxy'
 import { demoClinicEnv } from '../../seed/demo/hospital'
@@ -45,14 +46,20 @@ export interface Topology {
   stop(): Promise<void>
 }
 
-/** The node to start the cluster from: fresh, the one that stopped last, or the most advanced. */
-function bootstrapIndex(root: string): number {
+/**
+ * The node to start the cluster from (Galera's rule after a full stop): node1 when new; after a
+ * clean stop the one whose grastate.dat says safe_to_bootstrap: 1 (the last to stop); after a
+ * crash the most advanced, by the position each node's InnoDB recovers, which is then marked safe.
+ */
+function bootstrapIndex(root: string, label: string): number {
   const states = Array.from({ length: NODE_COUNT }, (_, i) => grastate(nodeDataDir(root, i)))
+  if (states.every((s) => s === null)) return 0
   const safe = states.findIndex((s) => s?.safeToBootstrap)
   if (safe >= 0) return safe
-  let best = 0
-  states.forEach((s, i) => { if ((s?.seqno ?? -1) > (states[best]?.seqno ?? -1)) best = i })
-  if (states[best]) markSafeToBootstrap(nodeDataDir(root, best))
+  const seqnos = states.map((s, i) => (s === null ? -1 : s.seqno >= 0 ? s.seqno : recoverSeqno(nodeDataDir(root, i))))
+  console.log(`[${label}] no node stopped cleanly last; recovered positions ${seqnos.map((n, i) => `${nodeLabel(i)}=${n}`).join(', ')}`)
+  const best = seqnos.indexOf(Math.max(...seqnos))
+  markSafeToBootstrap(nodeDataDir(root, best))
   return best
 }
 
@@ -90,9 +97,11 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
   }
 
   try {
+    // The app processes run the compiled server with plain node, as production does.
+    ensureServerBuild(opts.label)
     // First, while the machine is quiet: the nodes' state transfers load it heavily.
     maildev = await startMaildev({ smtpPort: ports.smtp, webPort: ports.mailWeb, label: opts.label })
-    const first = bootstrapIndex(opts.dataRoot)
+    const first = bootstrapIndex(opts.dataRoot, opts.label)
     console.log(`[${opts.label}] starting the cluster from ${nodeLabel(first)}`)
     nodes[first] = await startGaleraNode(spec(first), true)
     await ensureDatabase(nodes[first]!.socket, DB)
@@ -131,9 +140,9 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
     mkdirSync(logDir, { recursive: true })
     const startApp = async (i: number) => {
       const log = createWriteStream(path.join(logDir, `app${i + 1}.log`), { flags: 'a' })
-      // node itself with tsx's loader, not the tsx command: the command runs the server in a child
-      // process, and a SIGKILL to the command would leave that server running.
-      const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+      // The compiled server under plain node, as production runs it (no TypeScript loader), and
+      // node itself so that a SIGKILL to this child really kills the server.
+      const child = spawn(process.execPath, ['dist-server/server/index.js'], {
         cwd: repoRoot, env: { ...appEnv, PORT: String(ports.apps[i]) }, stdio: ['ignore', 'pipe', 'pipe'],
       })
       child.stdout!.pipe(log)

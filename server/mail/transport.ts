@@ -20,6 +20,12 @@ export function smtpTlsOptions(smtp: Config['smtp']) {
 }
 
 /**
+ * The longest one send can take with the timeouts below (connect, greeting, then the socket idle
+ * limit): the outbox starts a send only while its claim has this much left, plus its retry time.
+ */
+export const SMTP_SEND_BUDGET_MS = 50_000
+
+/**
  * SMTP to the configured relay (maildev locally). Timeouts stay well under the outbox lease,
  * so a send either finishes or fails before another worker may reclaim the message.
  */

@@ -2,13 +2,13 @@ import type { Logger } from 'pino'
 import type { InferAttributes } from 'sequelize'
 import { hostname } from 'node:os'
 import { randomBytes } from 'node:crypto'
-import { QueryTypes, type Sequelize } from 'sequelize'
+import { QueryTypes, literal as sequelizeLiteral, type Sequelize } from 'sequelize'
 import type { Transporter } from 'nodemailer'
 import type { Config } from '../config'
 import { AppointmentReplyToken, OutboxMessage } from '../models/index'
 import { composeMail } from '../mail/compose'
 import { carriesReplyLink } from '../mail/snapshot'
-import { createMailTransport } from '../mail/transport'
+import { createMailTransport, SMTP_SEND_BUDGET_MS } from '../mail/transport'
 import { newReplyToken } from './appointmentTokens'
 import { queueDueReminders } from './appointmentReminders'
 import { unitOfWork } from '../unitOfWork'
@@ -31,6 +31,14 @@ export interface WorkerOptions {
 const MAX_BACKOFF_MS = 6 * 3_600_000
 
 /**
+ * How long an outcome (above all 'sent') is retried while the database is unreachable. A failover
+ * takes under 10 s here (Galera evicts a dead node after 6 s, HAProxy marks it down after 2 s);
+ * 30 s covers it with room. The lease (OUTBOX_LEASE_SECONDS, at least 90) is longer than this
+ * plus SMTP_SEND_BUDGET_MS, which is what lets a worker finish recording before anyone re-claims.
+ */
+export const OUTCOME_RETRY_MS = 30_000
+
+/**
  * Sends the outbox. A claim is a compare-and-set per message: an UPDATE that takes the row only
  * if it is still in the state this worker read (due, same attempt count), and whose affected-row
  * count says whether this worker won. Row locks (FOR UPDATE SKIP LOCKED) would be local to one
@@ -40,6 +48,14 @@ const MAX_BACKOFF_MS = 6 * 3_600_000
  * Sending happens after the claim; the outcome is written only if this worker still holds the
  * claim. A worker that dies mid-send leaves its rows 'sending' until the lease ends, then any
  * worker takes them again.
+ *
+ * Exactly once, as far as this process can make it: once the relay has accepted a message, the
+ * 'sent' outcome is written through unitOfWork for up to OUTCOME_RETRY_MS across a lost database
+ * connection (a Galera node killed under this worker and HAProxy moving the writer route take a
+ * few seconds), and a message is only sent while the claim has at least that long plus the SMTP
+ * time budget left, so no other worker can take it back meanwhile. What remains: the process
+ * itself dying (SIGKILL, power) between the relay's "250 accepted" and that commit, a window of
+ * one database round trip; the message then goes again after the lease, with the same Message-ID.
  */
 export class OutboxWorker {
   readonly workerId: string
@@ -47,6 +63,8 @@ export class OutboxWorker {
   private timer: NodeJS.Timeout | null = null
   private running: Promise<unknown> = Promise.resolve()
   private stopped = false
+  /** By this process's clock, when the claims of the current batch end (the pass's `now` may be a test's). */
+  private leaseEndsAt = 0
 
   constructor(private readonly opts: WorkerOptions) {
     this.workerId = opts.workerId ?? `${hostname()}:${process.pid}:${randomBytes(3).toString('hex')}`
@@ -59,6 +77,7 @@ export class OutboxWorker {
   async claim(now: Date): Promise<Row[]> {
     const { sequelize } = this.opts
     const lease = new Date(now.getTime() + this.config.outbox.leaseSeconds * 1000)
+    this.leaseEndsAt = Date.now() + this.config.outbox.leaseSeconds * 1000
     const due = await sequelize.query<{ id: number; attempts: number }>(
       `SELECT o.id, o.attempts FROM outbox_messages o
        WHERE ((o.status = 'queued' AND o.next_attempt_at <= ?) OR (o.status = 'sending' AND o.claimed_until < ?))
@@ -84,13 +103,29 @@ export class OutboxWorker {
     return OutboxMessage.findAll({ where: { id: won, claimedBy: this.workerId }, order: [['id', 'ASC']], raw: true })
   }
 
+  /**
+   * Writes a claimed message's outcome, retried across a failover (see OUTCOME_RETRY_MS). Safe to
+   * run again after a commit whose answer was lost: the row is then no longer ours and 'sending'.
+   */
   private async finish(id: number, changes: Partial<Row>): Promise<void> {
-    await OutboxMessage.update({ ...changes, claimedBy: null, claimedUntil: null }, { where: { id, claimedBy: this.workerId, status: 'sending' } })
+    const where = { id, claimedBy: this.workerId, status: 'sending' as const }
+    await unitOfWork(this.opts.sequelize, { idempotent: true, reconnectForMs: OUTCOME_RETRY_MS }, (transaction) =>
+      OutboxMessage.update({ ...changes, claimedBy: null, claimedUntil: null }, { where, transaction }))
+  }
+
+  /** Hands claims back untouched (due at once) when too little of the lease is left to send them safely. */
+  private async release(ids: number[], now: Date): Promise<void> {
+    if (!ids.length) return
+    await OutboxMessage.update(
+      { status: 'queued', claimedBy: null, claimedUntil: null, nextAttemptAt: now, attempts: sequelizeLiteral('attempts - 1') },
+      { where: { id: ids, claimedBy: this.workerId, status: 'sending' } },
+    )
   }
 
   /** Sends one claimed message; the reply link's token exists only if the send went through. */
   private async sendOne(m: Row, now: Date): Promise<'sent' | 'retried' | 'failed' | 'bounced'> {
     let tokenId: number | null = null
+    let info: { messageId?: string }
     try {
       let token: string | null = null
       if (carriesReplyLink(m.kind) && m.appointmentId) {
@@ -99,7 +134,7 @@ export class OutboxWorker {
         token = t.token
       }
       const mail = composeMail(this.config, m.kind, m.payload, token)
-      const info = await this.transport.sendMail({
+      info = await this.transport.sendMail({
         from: this.config.smtp.from,
         to: m.toAddress,
         subject: mail.subject,
@@ -110,8 +145,6 @@ export class OutboxWorker {
         headers: { 'X-Ferrolane-Outbox-Id': String(m.id) },
         attachments: [{ filename: mail.ics.filename, content: mail.ics.content, contentType: `text/calendar; charset=utf-8; method=${mail.ics.method}` }],
       })
-      await this.finish(m.id, { status: 'sent', smtpMessageId: String(info.messageId ?? ''), sentAt: new Date(), lastError: null })
-      return 'sent'
     } catch (err) {
       if (tokenId) await AppointmentReplyToken.destroy({ where: { id: tokenId } }).catch(() => {})
       const e = err as { responseCode?: number; message?: string }
@@ -129,6 +162,11 @@ export class OutboxWorker {
       await this.finish(m.id, { status: 'queued', lastError, nextAttemptAt: new Date(now.getTime() + delay) })
       return 'retried'
     }
+    // Outside the try: the relay has the message, so a database failure here must never be taken
+    // for a failed send (that would queue it again). If this throws, the pass stops; the row stays
+    // 'sending' and goes again only after the lease (the one window left, see the class comment).
+    await this.finish(m.id, { status: 'sent', smtpMessageId: String(info.messageId ?? ''), sentAt: new Date(), lastError: null })
+    return 'sent'
   }
 
   /** One pass: queue due reminders, claim one batch, send it. Tests call this directly. */
@@ -138,7 +176,15 @@ export class OutboxWorker {
     result.reminders = await queueDueReminders(this.opts.sequelize, this.config, now)
     const batch = await this.claim(now)
     result.claimed = batch.length
-    for (const m of batch) result[await this.sendOne(m, now)] += 1
+    for (const [i, m] of batch.entries()) {
+      // A send started later than this could still be recording its outcome when the lease ends.
+      if (Date.now() + SMTP_SEND_BUDGET_MS + OUTCOME_RETRY_MS > this.leaseEndsAt) {
+        await this.release(batch.slice(i).map((r) => r.id), now)
+        result.claimed = i
+        break
+      }
+      result[await this.sendOne(m, now)] += 1
+    }
     return result
   }
 

@@ -3,6 +3,7 @@ import mariadb from 'mariadb'
 import { QueryTypes } from 'sequelize'
 import { makeTestApp, type TestApp } from '../helpers/app'
 import { unitOfWork } from '../../server/unitOfWork'
+import { isDatabaseUnavailable } from '../../server/dbUnavailable'
 
 /**
  * A real deadlock between two connections on the test MariaDB: the unit of work holds row 1
@@ -84,6 +85,45 @@ describe('the transaction helper', () => {
     await expect(unitOfWork(t.sequelize, { idempotent: true, attempts: 3 }, async () => { tries += 1; throw lost })).rejects.toBe(lost)
     expect(tries).toBe(3)
   })
+
+  /** Runs a unit whose own connection is killed by another session on its first try (as a failover cuts it). */
+  type KillOptions = { idempotent: boolean; reconnectForMs?: number }
+  async function withKilledConnection(opts: KillOptions): Promise<{ tries: number; outcome: Promise<unknown> }> {
+    let tries = 0
+    const outcome = unitOfWork(t.sequelize, opts, async (tx) => {
+      tries += 1
+      await t.sequelize.query(`UPDATE ${TABLE} SET n = n + 1 WHERE id = 1`, { type: QueryTypes.UPDATE, transaction: tx })
+      if (tries === 1) {
+        const [me] = await t.sequelize.query<{ id: number }>('SELECT CONNECTION_ID() AS id', { type: QueryTypes.SELECT, transaction: tx })
+        // From another of the pool's connections: the same account, so allowed to end it.
+        await t.sequelize.query(`KILL CONNECTION ${Number(me.id)}`, { type: QueryTypes.RAW })
+      }
+      await t.sequelize.query(`UPDATE ${TABLE} SET n = n + 1 WHERE id = 2`, { type: QueryTypes.UPDATE, transaction: tx })
+      return tries
+    })
+    await outcome.then(() => undefined, () => undefined)
+    return { tries, outcome }
+  }
+
+  it('when an idempotent unit given reconnectForMs loses its connection, then it runs again on a new one and commits once', async () => {
+    await resetRows()
+    const { tries, outcome } = await withKilledConnection({ idempotent: true, reconnectForMs: 10_000 })
+    await expect(outcome).resolves.toBe(2)
+    expect(tries).toBe(2)
+    // The killed try was rolled back by the server: exactly one +1 on each row.
+    expect(await rowN(1)).toBe(1)
+    expect(await rowN(2)).toBe(1)
+  }, 30_000)
+
+  it('when a unit without reconnectForMs loses its connection, then the error reaches the caller and nothing is saved', async () => {
+    await resetRows()
+    const { tries, outcome } = await withKilledConnection({ idempotent: true })
+    const err = await outcome.then(() => null, (e: unknown) => e)
+    expect(isDatabaseUnavailable(err)).toBe(true)
+    expect(tries).toBe(1)
+    expect(await rowN(1)).toBe(0)
+    expect(await rowN(2)).toBe(0)
+  }, 30_000)
 
   it('when a unit fails for any other reason, then it is not run again', async () => {
     let tries = 0
