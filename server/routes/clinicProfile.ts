@@ -8,7 +8,7 @@ import { zoneName, zoneShortName } from '../../shared/appointments/time'
  */
 export function clinicProfileRoutes({ config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/clinic-profile')
-  api.get('', { access: 'signed-in' }, (_req, res) => {
+  api.get('', { action: 'clinicProfile.read' }, (_req, res) => {
     const { name, service, phone, timeZone } = config.clinic
     res.json({ name, service, phone, timeZone, zoneLabel: zoneShortName(timeZone), zoneName: zoneName(timeZone) })
   })

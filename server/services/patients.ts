@@ -9,6 +9,7 @@ import { Conflict, Forbidden, Invalid, NotFound } from '../errors'
 import { clinicToday } from './clinicDay'
 import { worklistChanged } from './worklistCounts'
 import { unitOfWork } from '../unitOfWork'
+import { maySeeEpisode, seesOwnPatientsOnly } from '../../shared/permissions'
 
 export interface PatientView {
   id: number
@@ -114,7 +115,7 @@ export async function createPatient(sequelize: Sequelize, actor: Actor, input: C
 
 /** Surgeons may open a patient only through an episode on their own list. */
 async function assertMaySeePatient(viewer: Viewer, patientId: number): Promise<void> {
-  if (viewer.role !== 'surgeon') return
+  if (!seesOwnPatientsOnly(viewer.role)) return
   const theirs = await Referral.count({ where: { patientId, surgeonId: viewer.userId } })
   if (!theirs) throw new Forbidden("This patient is not on your list", 'not_your_patient')
 }
@@ -134,7 +135,7 @@ export async function getPatient(viewer: Viewer, id: number) {
     ...view,
     measurements: measurements.map((m) => ({ id: m.id, heightCm: m.heightCm, weightKg: m.weightKg, measuredAt: isoOrNull(m.measuredAt), recordedBy: m.recordedBy })),
     referrals: referrals
-      .filter((r) => viewer.role !== 'surgeon' || r.surgeonId === viewer.userId)
+      .filter((r) => maySeeEpisode(viewer, r))
       .map((r) => {
         const proc = (r as Referral & { procedure?: Procedure }).procedure
         return { id: r.id, stage: r.stage, stageLabel: STAGE_LABELS[r.stage], plannedSurgeryDate: r.plannedSurgeryDate, procedureName: proc?.name ?? null }
@@ -177,7 +178,7 @@ export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: nu
 export async function searchPatients(viewer: Viewer, q: string) {
   const like = `${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
   const own =
-    viewer.role === 'surgeon'
+    seesOwnPatientsOnly(viewer.role)
       ? { id: (await Referral.findAll({ where: { surgeonId: viewer.userId }, attributes: ['patientId'], raw: true })).map((r) => r.patientId) }
       : {}
   const rows = await Patient.findAll({
