@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest'
-import { PERMISSIONS, allows, isAction, isOperatingSurgeon, maySeeEpisode, rolesFor, seesOwnPatientsOnly, type Action } from '../../shared/permissions'
+import {
+  PERMISSIONS, allows, isAction, isOperatingSurgeon, maySeeEpisode, rolesFor, seesOwnPatientsOnly, type Action,
+} from '../../shared/permissions'
 import { ROLES } from '../../shared/roles'
 import { TRANSITIONS } from '../../shared/pathway/transitions'
 
