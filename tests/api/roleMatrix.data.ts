@@ -100,7 +100,7 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'GET', path: '/api/referrals/:id/documents', action: 'records.read' },
   { method: 'GET', path: '/api/documents/:id', action: 'records.read' },
   { method: 'POST', path: '/api/referrals/:id/letters', action: 'letters.write' },
-  { method: 'POST', path: '/api/appointments/:id/letter', action: 'appointments.book' },
+  { method: 'POST', path: '/api/appointments/:id/letter', action: 'letters.write' },
   { method: 'GET', path: '/api/letters/:id', action: 'records.read' },
   { method: 'GET', path: '/api/referrals/:id/fhir', action: 'records.read' },
   // Laboratory imports.
