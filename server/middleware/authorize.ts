@@ -1,22 +1,21 @@
 import type { RequestHandler } from 'express'
-import type { Role } from '../../shared/roles'
+import { PERMISSIONS, type Access, type Action } from '../../shared/permissions'
 import { Forbidden, Unauthenticated } from '../errors'
 
 /**
- * Every API route states who may call it; there is no default. 'public' is for the few pages
- * that patients and the sign-in form reach without an account.
+ * Every API route names the action it performs; there is no default. Who may do it is decided by
+ * the one permission table, shared/permissions.ts.
  */
-export type Access = 'public' | 'signed-in' | readonly Role[]
-
 export interface AccessOptions {
-  access: Access
+  action: Action
   /** Reachable while the user still has to replace a temporary password or enrol a second factor. */
   duringPasswordChange?: boolean
 }
 
 export function authorize(opts: AccessOptions): RequestHandler {
+  const access: Access = PERMISSIONS[opts.action]
   return (req, _res, next) => {
-    if (opts.access === 'public') return next()
+    if (access === 'public') return next()
     const user = req.user
     if (!user) return next(new Unauthenticated())
     if (user.mustChangePassword && !opts.duringPasswordChange) {
@@ -25,7 +24,7 @@ export function authorize(opts: AccessOptions): RequestHandler {
     if (req.session?.secondFactorEnrolmentRequired && !opts.duringPasswordChange) {
       return next(new Forbidden('Set up your authenticator before continuing', 'second_factor_enrolment_required'))
     }
-    if (opts.access !== 'signed-in' && !opts.access.includes(user.role)) return next(new Forbidden())
+    if (access !== 'signed-in' && !access.includes(user.role)) return next(new Forbidden())
     next()
   }
 }

@@ -1,15 +1,17 @@
 import { Router, type RequestHandler } from 'express'
-import { authorize, type AccessOptions, type Access } from '../middleware/authorize'
+import { authorize, type AccessOptions } from '../middleware/authorize'
+import type { Action } from '../../shared/permissions'
 
 export interface RouteSpec {
   method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'
   path: string
-  access: Access
+  action: Action
 }
 
 /**
- * An Express router that will not mount a handler without an access rule, and remembers each
- * route so the role-matrix test can prove that every mounted route is in its table.
+ * An Express router that will not mount a handler without naming its action in the permission
+ * table (shared/permissions.ts), and remembers each route so the role-matrix test can prove that
+ * every mounted route is in its table.
  */
 export class ApiRouter {
   readonly router = Router()
@@ -18,7 +20,7 @@ export class ApiRouter {
   constructor(readonly prefix: string) {}
 
   private add(method: RouteSpec['method'], path: string, opts: AccessOptions, handlers: RequestHandler[]): this {
-    this.specs.push({ method, path: this.prefix + path, access: opts.access })
+    this.specs.push({ method, path: this.prefix + path, action: opts.action })
     const verb = method.toLowerCase() as 'get' | 'post' | 'patch' | 'put' | 'delete'
     // The pattern, not the URL, names the route in the log and the metrics (bounded, no patient data).
     const pattern = `${method} ${this.prefix + path}`

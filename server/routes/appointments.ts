@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_WRITERS, CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import {
   cancelAppointmentSchema,
@@ -16,23 +16,23 @@ import { bookAppointment, cancelAppointment, getAppointment, listReferralAppoint
 export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/appointments')
 
-  api.post('', { access: CLINICAL_WRITERS }, validate(createAppointmentSchema), async (req, res) => {
+  api.post('', { action: 'appointments.book' }, validate(createAppointmentSchema), async (req, res) => {
     const b = req.body as CreateAppointmentInput
     const input: CreateAppointmentInput = { referralId: b.referralId, kind: b.kind, startsAt: b.startsAt, durationMin: b.durationMin, location: b.location }
     res.status(201).json(await bookAppointment(sequelize, config, viewerOf(req), input))
   })
 
-  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id', { action: 'records.read' }, async (req, res) => {
     res.json(await getAppointment(viewerOf(req), idParam(req)))
   })
 
-  api.patch('/:id', { access: CLINICAL_WRITERS }, validate(moveAppointmentSchema), async (req, res) => {
+  api.patch('/:id', { action: 'appointments.book' }, validate(moveAppointmentSchema), async (req, res) => {
     const b = req.body as MoveAppointmentInput
     const input: MoveAppointmentInput = { version: b.version, startsAt: b.startsAt, durationMin: b.durationMin, location: b.location }
     res.json(await moveAppointment(sequelize, config, viewerOf(req), idParam(req), input))
   })
 
-  api.post('/:id/cancel', { access: CLINICAL_WRITERS }, validate(cancelAppointmentSchema), async (req, res) => {
+  api.post('/:id/cancel', { action: 'appointments.book' }, validate(cancelAppointmentSchema), async (req, res) => {
     const b = req.body as CancelAppointmentInput
     res.json(await cancelAppointment(sequelize, config, viewerOf(req), idParam(req), { reason: b.reason }))
   })
@@ -43,7 +43,7 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
 /** An episode's appointments with their history and message statuses, beside the other referral routes. */
 export function referralAppointmentRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
-  api.get('/:id/appointments', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/appointments', { action: 'records.read' }, async (req, res) => {
     res.json(await listReferralAppointments(viewerOf(req), idParam(req)))
   })
   return api

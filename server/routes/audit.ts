@@ -10,7 +10,7 @@ import { rowsToCsv } from '../services/reports/csv'
 export function auditRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/audit')
 
-  api.get('', { access: ['admin'] }, async (req, res) => {
+  api.get('', { action: 'audit.read' }, async (req, res) => {
     const q = auditQuery(req.query as Record<string, unknown>)
     const csv = req.query.format === 'csv'
     const result = await searchAudit(signedInActor(req), q, csv)

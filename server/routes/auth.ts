@@ -14,6 +14,7 @@ import { hasSecondFactor } from '../services/secondFactor'
 import { endSessionUrl as providerEndSessionUrl } from '../auth/oidcClient'
 import type { CsrfTokenAnswer, PasswordChanged, SignInAnswer, SignOutAnswer } from '../../shared/auth/views'
 import type { SessionUser } from '../../shared/types'
+import { allows } from '../../shared/permissions'
 
 /** passport regenerates the session id in req.login, so a fixated id is worthless. */
 export async function completeSignIn(req: Request, user: SessionUser, how: Record<string, string>): Promise<void> {
@@ -31,12 +32,12 @@ function authenticate(passport: PassportStatic, req: Request, res: Response, nex
 export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter {
   const api = new ApiRouter('/api/auth')
 
-  api.get('/csrf', { access: 'public' }, (req, res) => {
+  api.get('/csrf', { action: 'auth.signIn' }, (req, res) => {
     const answer: CsrfTokenAnswer = { csrfToken: csrfTokenFor(req) }
     res.json(answer)
   })
 
-  api.post('/login', { access: 'public' }, validate(loginSchema), async (req, res, next) => {
+  api.post('/login', { action: 'auth.signIn' }, validate(loginSchema), async (req, res, next) => {
     const mode = ctx.config.localSignIn
     const directory = ctx.config.oidc?.displayName ?? 'the hospital directory'
     if (mode === 'off') throw new Forbidden(`Sign-in with a Ferrolane password is switched off; use Sign in with ${directory}`, 'local_sign_in_off')
@@ -52,7 +53,7 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
       await recordSecurityEvent(actorOf(req), 'sign-in-failed', 'login', { email, reason: 'invalid_credentials' })
       throw new AppError('invalid_credentials', 'E-mail or password is not correct', 401)
     }
-    if (mode === 'admins-only' && user.role !== 'admin') {
+    if (mode === 'admins-only' && !allows(user.role, 'auth.passwordWhenDirectory')) {
       throw new Forbidden(`Ferrolane passwords are kept for administrators; use Sign in with ${directory}`, 'local_sign_in_admins_only')
     }
     if (await hasSecondFactor(user.id)) {
@@ -68,7 +69,7 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
     res.json(answer)
   })
 
-  api.post('/logout', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
+  api.post('/logout', { action: 'auth.account', duringPasswordChange: true }, async (req, res) => {
     const actor = signedInActor(req)
     const idToken = req.session.directoryIdToken
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())))
@@ -82,11 +83,11 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
     res.json(answer)
   })
 
-  api.get('/me', { access: 'signed-in', duringPasswordChange: true }, (req, res) => {
+  api.get('/me', { action: 'auth.account', duringPasswordChange: true }, (req, res) => {
     res.json(req.session.secondFactorEnrolmentRequired ? { ...req.user, secondFactorEnrolmentRequired: true } : req.user)
   })
 
-  api.post('/password', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
+  api.post('/password', { action: 'auth.account', duringPasswordChange: true }, async (req, res) => {
     const user = await changeOwnPassword(ctx.sequelize, signedInActor(req), req.body)
     // Every session of the user is gone (the service deleted them); passport's login regenerates
     // this one under a new id, so a session id seen before the change is worthless (ASVS 3.3.3).

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import {
   administrationSchema, dosePlanPreviewSchema, prescriptionSchema, readinessActionSchema, reviewSchema,
@@ -16,12 +16,11 @@ import { Invalid } from '../errors'
 /** Anaemia clinic and theatre readiness, on an episode. */
 export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
-  const doctor = { access: ['doctor'] } as const
 
-  api.get('/:id/reviews', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/reviews', { action: 'records.read' }, async (req, res) => {
     res.json({ rows: await listReviews(viewerOf(req), idParam(req)) })
   })
-  api.post('/:id/reviews', doctor, validate(reviewSchema), async (req, res) => {
+  api.post('/:id/reviews', { action: 'reviews.write' }, validate(reviewSchema), async (req, res) => {
     const b = req.body as ReviewInput
     res.status(201).json(await recordReview(sequelize, viewerOf(req), idParam(req), {
       diagnosis: b.diagnosis, notes: b.notes, plan: b.plan, cardiovascularDisease: b.cardiovascularDisease, version: b.version,
@@ -29,14 +28,14 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   // Computed by the server with the clinical library, shown before saving.
-  api.post('/:id/dose-plan', doctor, validate(dosePlanPreviewSchema), async (req, res) => {
+  api.post('/:id/dose-plan', { action: 'prescriptions.plan' }, validate(dosePlanPreviewSchema), async (req, res) => {
     const b = req.body as DosePlanPreviewInput
     res.json(await previewDosePlan(viewerOf(req), idParam(req), { productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate }))
   })
-  api.get('/:id/prescriptions', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/prescriptions', { action: 'records.read' }, async (req, res) => {
     res.json({ rows: await listPrescriptions(viewerOf(req), idParam(req)) })
   })
-  api.post('/:id/prescriptions', doctor, validate(prescriptionSchema), async (req, res) => {
+  api.post('/:id/prescriptions', { action: 'prescriptions.sign' }, validate(prescriptionSchema), async (req, res) => {
     const b = req.body as PrescriptionInput
     res.status(201).json(await prescribe(sequelize, viewerOf(req), idParam(req), {
       productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate, doses: b.doses,
@@ -44,17 +43,17 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     }))
   })
 
-  api.get('/:id/administrations', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/administrations', { action: 'records.read' }, async (req, res) => {
     res.json({ rows: await listAdministrations(viewerOf(req), idParam(req)) })
   })
-  api.post('/:id/administrations', { access: ['nurse', 'doctor'] }, validate(administrationSchema), async (req, res) => {
+  api.post('/:id/administrations', { action: 'administrations.record' }, validate(administrationSchema), async (req, res) => {
     const b = req.body as AdministrationInput
     res.status(201).json(await recordAdministration(sequelize, viewerOf(req), idParam(req), {
       prescriptionId: b.prescriptionId, doseMg: b.doseMg, givenAt: b.givenAt, batchNumber: b.batchNumber, reaction: b.reaction, reactionNotes: b.reactionNotes, overrideReason: b.overrideReason,
     }))
   })
 
-  api.get('/:id/projection', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/projection', { action: 'records.read' }, async (req, res) => {
     const raw = req.query.cardiacOutputLMin
     let cardiacOutputLMin: number | undefined
     if (raw !== undefined && raw !== '') {
@@ -66,11 +65,11 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     res.json(await projectionFor(viewerOf(req), idParam(req), { cardiacOutputLMin }))
   })
 
-  api.get('/:id/readiness', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/readiness', { action: 'records.read' }, async (req, res) => {
     res.json({ rows: await listReadinessReviews(viewerOf(req), idParam(req)) })
   })
   // Only the operating surgeon answers; a nurse cannot acknowledge on a surgeon's behalf.
-  api.post('/:id/readiness', { access: ['surgeon'] }, validate(readinessActionSchema), async (req, res) => {
+  api.post('/:id/readiness', { action: 'readiness.answer' }, validate(readinessActionSchema), async (req, res) => {
     const b = req.body as ReadinessActionInput
     res.status(201).json(await recordReadinessAction(sequelize, viewerOf(req), idParam(req), { action: b.action, reason: b.reason }))
   })

@@ -9,7 +9,7 @@ import type { ClinicProfile } from '../../shared/settings/views'
  */
 export function clinicProfileRoutes({ config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/clinic-profile')
-  api.get('', { access: 'signed-in' }, (_req, res) => {
+  api.get('', { action: 'clinicProfile.read' }, (_req, res) => {
     const { name, service, phone, timeZone } = config.clinic
     const profile: ClinicProfile = { name, service, phone, timeZone, zoneLabel: zoneShortName(timeZone), zoneName: zoneName(timeZone) }
     res.json(profile)

@@ -1,16 +1,15 @@
 import { ApiRouter } from './apiRouter'
 import { actorOf, type AppContext } from './context'
-import { STAFF } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { clinicSettingsSchema, type ClinicSettingsInput } from '../../shared/schemas/clinicSettings'
 import { getClinicSettings, updateClinicSettings } from '../services/clinicSettings'
 
 export function clinicSettingsRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/settings/clinic')
-  api.get('', { access: STAFF }, async (_req, res) => {
+  api.get('', { action: 'settings.read' }, async (_req, res) => {
     res.json(await getClinicSettings())
   })
-  api.patch('', { access: ['admin'] }, validate(clinicSettingsSchema), async (req, res) => {
+  api.patch('', { action: 'settings.manage' }, validate(clinicSettingsSchema), async (req, res) => {
     const b = req.body as ClinicSettingsInput
     res.json(await updateClinicSettings(sequelize, actorOf(req), {
       anaemiaCriteria: b.anaemiaCriteria, transfusionTriggerGL: b.transfusionTriggerGL, cardiovascularTriggerGL: b.cardiovascularTriggerGL,

@@ -34,7 +34,7 @@ export function directoryAuthRoutes(ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/auth')
   const { oidc } = ctx.config
 
-  api.get('/providers', { access: 'public' }, (_req, res) => {
+  api.get('/providers', { action: 'auth.signIn' }, (_req, res) => {
     const answer: SignInProviders = {
       local: ctx.config.localSignIn,
       directory: oidc ? { name: oidc.displayName, startUrl: '/api/auth/oidc/start' } : null,
@@ -42,14 +42,14 @@ export function directoryAuthRoutes(ctx: AppContext): ApiRouter {
     res.json(answer)
   })
 
-  api.get('/oidc/start', { access: 'public' }, async (req, res) => {
+  api.get('/oidc/start', { action: 'auth.signIn' }, async (req, res) => {
     if (!oidc) throw new NotFound('Directory sign-in')
     const { url, pending } = await authorizationUrl(oidc)
     req.session.directorySignIn = pending
     res.redirect(303, url)
   })
 
-  api.get('/oidc/callback', { access: 'public' }, async (req, res) => {
+  api.get('/oidc/callback', { action: 'auth.signIn' }, async (req, res) => {
     if (!oidc) throw new NotFound('Directory sign-in')
     const pending = req.session.directorySignIn
     // One use only: a replayed or second callback finds nothing to finish.

@@ -3,13 +3,12 @@ import multer from 'multer'
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { validateInput } from '../middleware/validate'
-import { CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { AppError, Invalid } from '../errors'
 import { UPLOAD_MAX_BYTES, UPLOAD_MAX_MB, uploadDocumentSchema } from '../../shared/schemas/documents'
 import { listDocuments, openDocument, referralForAttaching, uploadDocument } from '../services/documents/index'
 
 // Surgeons may attach to their own patients' episodes (checked in the service), e.g. outside results.
-const ATTACHERS = ['nurse', 'doctor', 'surgeon'] as const
 
 // Held in memory (at most 10 MB) so nothing reaches the disk until the content has been checked.
 const receive = multer({
@@ -45,7 +44,7 @@ function receiveFile(req: Request, res: Response): Promise<Express.Multer.File> 
 export function documentRoutes({ sequelize, config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
 
-  api.post('/:id/documents', { access: ATTACHERS }, async (req, res) => {
+  api.post('/:id/documents', { action: 'documents.attach' }, async (req, res) => {
     const viewer = viewerOf(req)
     const referralId = idParam(req)
     // Who may attach, and whether the episode is open, is settled before the body is read.
@@ -57,7 +56,7 @@ export function documentRoutes({ sequelize, config }: AppContext): ApiRouter {
     }))
   })
 
-  api.get('/:id/documents', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/documents', { action: 'records.read' }, async (req, res) => {
     res.json(await listDocuments(viewerOf(req), idParam(req)))
   })
   return api
@@ -77,7 +76,7 @@ export function sendAttachment(res: Response, file: { bytes: Buffer; mediaType: 
 
 export function documentDownloadRoutes({ config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/documents')
-  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id', { action: 'records.read' }, async (req, res) => {
     sendAttachment(res, await openDocument(config, viewerOf(req), idParam(req)))
   })
   return api

@@ -1,6 +1,5 @@
 import { ApiRouter } from './apiRouter'
 import { actorOf, type AppContext } from './context'
-import { STAFF } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { createIronProductSchema, updateIronProductSchema, type CreateIronProductInput, type UpdateIronProductInput } from '../../shared/schemas/formulary'
 import { createProduct, listFormulary, updateProduct } from '../services/formulary'
@@ -9,12 +8,11 @@ import { dosingTableSchema, type DosingTableInput } from '../../shared/schemas/d
 
 export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/formulary')
-  const admin = { access: ['admin'] } as const
 
-  api.get('', { access: STAFF }, async (req, res) => {
+  api.get('', { action: 'formulary.read' }, async (req, res) => {
     res.json({ rows: await listFormulary({ includeInactive: req.query.includeInactive === '1' }) })
   })
-  api.post('', admin, validate(createIronProductSchema), async (req, res) => {
+  api.post('', { action: 'formulary.manage' }, validate(createIronProductSchema), async (req, res) => {
     const b = req.body as CreateIronProductInput
     res.status(201).json(await createProduct(sequelize, actorOf(req), {
       code: b.code, name: b.name, route: b.route, maxSingleDoseMg: b.maxSingleDoseMg, maxSingleDoseMgPerKg: b.maxSingleDoseMgPerKg,
@@ -24,7 +22,7 @@ export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
       paediatricMaxSingleDoseMg: b.paediatricMaxSingleDoseMg, phosphateCheckOnRepeat: b.phosphateCheckOnRepeat,
     }))
   })
-  api.patch('/:code', admin, validate(updateIronProductSchema), async (req, res) => {
+  api.patch('/:code', { action: 'formulary.manage' }, validate(updateIronProductSchema), async (req, res) => {
     const b = req.body as UpdateIronProductInput
     res.json(await updateProduct(sequelize, actorOf(req), String(req.params.code), {
       name: b.name, route: b.route, maxSingleDoseMg: b.maxSingleDoseMg, maxSingleDoseMgPerKg: b.maxSingleDoseMgPerKg,
@@ -35,7 +33,7 @@ export function formularyRoutes({ sequelize }: AppContext): ApiRouter {
     }))
   })
   // The product's own dosing table (weight band × Hb band) and whether plans use it.
-  api.put('/:code/dosing-table', admin, validate(dosingTableSchema), async (req, res) => {
+  api.put('/:code/dosing-table', { action: 'formulary.manage' }, validate(dosingTableSchema), async (req, res) => {
     const b = req.body as DosingTableInput
     const table = b.table ? { weightBands: b.table.weightBands, hbBands: b.table.hbBands, needMg: b.table.needMg, source: b.table.source } : null
     res.json(await setDosingTable(sequelize, actorOf(req), String(req.params.code), { dosedByTable: b.dosedByTable, table }))

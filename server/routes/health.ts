@@ -14,12 +14,12 @@ export function healthRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/health')
   // Liveness: answers while the process can serve HTTP at all, whatever the database does, so a
   // supervisor restarts only a process that is truly stuck.
-  api.get('', { access: 'public' }, (_req, res) => {
+  api.get('', { action: 'health.read' }, (_req, res) => {
     const body: LivenessView = { status: 'ok' }
     res.json(body)
   })
   // Readiness: what load balancers route by.
-  api.get('/ready', { access: 'public' }, async (_req, res) => {
+  api.get('/ready', { action: 'health.read' }, async (_req, res) => {
     const view: ReadinessView = await readiness(sequelize)
     if (view.status === 'ready') return void res.json(view)
     res.set('Retry-After', String(RETRY_AFTER_SECONDS))

@@ -11,7 +11,6 @@ import { jsonBody, parseJsonText } from '../middleware/jsonBody'
 import { ValidationError } from 'yup'
 import { MAX_CSV_BYTES, MAX_FHIR_BYTES, type ColumnMapping } from '../../shared/imports'
 import { asColumnMapping, columnMappingSchema, fhirImportQuerySchema, labImportFieldsSchema, reversalSchema, saveMappingSchema, sourceNameField, type ReversalInput } from '../../shared/schemas/imports'
-import type { Role } from '../../shared/roles'
 // The CSV parser, the FHIR checks and file-type sniffing load on the first upload, not at boot.
 const labCsv = () => import('../services/imports/labCsv')
 const fhirImport = () => import('../services/imports/fhir')
@@ -24,9 +23,6 @@ import { AppError, Invalid } from '../errors'
  * preview (which shows patients) and commit, and take a batch back out. Administrators keep the
  * column mappings and see the batch list, which names no patient.
  */
-const IMPORTERS: readonly Role[] = ['nurse', 'doctor']
-const BATCH_READERS: readonly Role[] = ['admin', 'nurse', 'doctor']
-const MAPPING_EDITORS: readonly Role[] = ['admin', 'nurse']
 const MB = (n: number) => `${Math.round(n / 1024 / 1024)} MB`
 
 // Uploads go to the system's temporary directory under random names and are deleted after use.
@@ -71,7 +67,7 @@ async function mappingFromField(raw: string): Promise<ColumnMapping> {
 export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/imports')
 
-  api.post('/lab-results', { access: IMPORTERS }, csvUpload, async (req, res) => {
+  api.post('/lab-results', { action: 'imports.run' }, csvUpload, async (req, res) => {
     const file = req.file
     try {
       const fields = await validateInput(labImportFieldsSchema, req.body)
@@ -87,7 +83,7 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
   })
 
   // FHIR's own media type gets a raised limit here; plain application/json passes the app's 1 MB parser.
-  api.post('/fhir', { access: IMPORTERS }, ...jsonBody({ type: ['application/fhir+json'], limit: MAX_FHIR_BYTES }), fhirUpload, validate(fhirImportQuerySchema, 'query'), async (req, res) => {
+  api.post('/fhir', { action: 'imports.run' }, ...jsonBody({ type: ['application/fhir+json'], limit: MAX_FHIR_BYTES }), fhirUpload, validate(fhirImportQuerySchema, 'query'), async (req, res) => {
     const q = res.locals.query as { commit: string; storeValid: string; source: string }
     let bundle: unknown = req.body
     if (req.file) {
@@ -99,29 +95,29 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
     res.status(out.batchId ? 201 : 200).json(out)
   })
 
-  api.get('/mappings', { access: BATCH_READERS }, async (_req, res) => {
+  api.get('/mappings', { action: 'imports.read' }, async (_req, res) => {
     res.json({ rows: await listMappings() })
   })
 
-  api.get('/mappings/:source', { access: BATCH_READERS }, async (req, res) => {
+  api.get('/mappings/:source', { action: 'imports.read' }, async (req, res) => {
     res.json(await mappingFor(await sourceOf(req.params.source)))
   })
 
-  api.put('/mappings/:source', { access: MAPPING_EDITORS }, validate(saveMappingSchema), async (req, res) => {
+  api.put('/mappings/:source', { action: 'imports.mappingsEdit' }, validate(saveMappingSchema), async (req, res) => {
     const source = await sourceOf(req.params.source)
     const mapping = asColumnMapping((req.body as { mapping: Parameters<typeof asColumnMapping>[0] }).mapping)
     res.json(await saveMapping(sequelize, viewerOf(req), source, mapping))
   })
 
-  api.get('', { access: BATCH_READERS }, async (_req, res) => {
+  api.get('', { action: 'imports.read' }, async (_req, res) => {
     res.json({ rows: await listBatches() })
   })
 
-  api.get('/:id', { access: BATCH_READERS }, async (req, res) => {
+  api.get('/:id', { action: 'imports.read' }, async (req, res) => {
     res.json(await getBatch(idParam(req)))
   })
 
-  api.post('/:id/reversal', { access: IMPORTERS }, validate(reversalSchema), async (req, res) => {
+  api.post('/:id/reversal', { action: 'imports.run' }, validate(reversalSchema), async (req, res) => {
     const { reason } = req.body as ReversalInput
     res.json(await reverseBatch(sequelize, viewerOf(req), idParam(req), reason))
   })

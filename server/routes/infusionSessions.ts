@@ -16,17 +16,17 @@ import { createInfusionSession, listInfusionSessions, updateInfusionSession } fr
 export function infusionSessionRoutes({ sequelize, config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/infusion-sessions')
 
-  api.get('', { access: ['admin', 'nurse', 'doctor'] }, validate(sessionRangeSchema, 'query'), async (_req, res) => {
+  api.get('', { action: 'infusionSessions.read' }, validate(sessionRangeSchema, 'query'), async (_req, res) => {
     res.json(await listInfusionSessions(config, res.locals.query as SessionRangeQuery))
   })
 
-  api.post('', { access: ['admin'] }, validate(createInfusionSessionSchema), async (req, res) => {
+  api.post('', { action: 'infusionSessions.manage' }, validate(createInfusionSessionSchema), async (req, res) => {
     const b = req.body as CreateInfusionSessionInput
     const input: CreateInfusionSessionInput = { date: b.date, startTime: b.startTime, endTime: b.endTime, chairs: b.chairs, location: b.location }
     res.status(201).json(await createInfusionSession(sequelize, config, viewerOf(req), input))
   })
 
-  api.patch('/:id', { access: ['admin'] }, validate(updateInfusionSessionSchema), async (req, res) => {
+  api.patch('/:id', { action: 'infusionSessions.manage' }, validate(updateInfusionSessionSchema), async (req, res) => {
     const b = req.body as UpdateInfusionSessionInput
     const input: UpdateInfusionSessionInput = { version: b.version, date: b.date, startTime: b.startTime, endTime: b.endTime, chairs: b.chairs, location: b.location }
     res.json(await updateInfusionSession(sequelize, config, viewerOf(req), idParam(req), input))

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { followUpSchema, outcomeSchema, type FollowUpInput, type OutcomeInput } from '../../shared/schemas/outcomes'
 import { getOutcome, recordFollowUp, recordOutcome } from '../services/outcomes'
@@ -8,12 +8,11 @@ import { getOutcome, recordFollowUp, recordOutcome } from '../services/outcomes'
 /** After surgery: the post-operative record and the follow-up. Surgeons write for their own patients (checked in the service). */
 export function outcomeRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
-  const writers = { access: ['nurse', 'doctor', 'surgeon'] } as const
 
-  api.get('/:id/outcome', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/outcome', { action: 'records.read' }, async (req, res) => {
     res.json(await getOutcome(viewerOf(req), idParam(req)))
   })
-  api.post('/:id/outcome', writers, validate(outcomeSchema), async (req, res) => {
+  api.post('/:id/outcome', { action: 'outcomes.record' }, validate(outcomeSchema), async (req, res) => {
     const b = req.body as OutcomeInput
     res.status(201).json(await recordOutcome(sequelize, viewerOf(req), idParam(req), {
       surgeryDate: b.surgeryDate, bloodLossMl: b.bloodLossMl,
@@ -24,7 +23,7 @@ export function outcomeRoutes({ sequelize }: AppContext): ApiRouter {
       transfusionInformationGiven: b.transfusionInformationGiven, transfusionConsent: b.transfusionConsent, postOperativeIronGiven: b.postOperativeIronGiven,
     }))
   })
-  api.post('/:id/follow-up', writers, validate(followUpSchema), async (req, res) => {
+  api.post('/:id/follow-up', { action: 'outcomes.record' }, validate(followUpSchema), async (req, res) => {
     const b = req.body as FollowUpInput
     res.status(201).json(await recordFollowUp(sequelize, viewerOf(req), idParam(req), {
       recheckHbGL: b.recheckHbGL, recheckDate: b.recheckDate, ironAfterSurgery: b.ironAfterSurgery, notes: b.notes, version: b.version,

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_WRITERS, CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { createPatientSchema, patientSearchSchema, updatePatientSchema, type CreatePatientInput, type UpdatePatientInput } from '../../shared/schemas/patients'
 import { createPatient, getPatient, searchPatients, updatePatient } from '../services/patients'
@@ -8,11 +8,11 @@ import { createPatient, getPatient, searchPatients, updatePatient } from '../ser
 export function patientRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/patients')
 
-  api.get('', { access: CLINICAL_READERS }, validate(patientSearchSchema, 'query'), async (req, res) => {
+  api.get('', { action: 'records.read' }, validate(patientSearchSchema, 'query'), async (req, res) => {
     res.json({ rows: await searchPatients(viewerOf(req), (res.locals.query as { q: string }).q) })
   })
 
-  api.post('', { access: CLINICAL_WRITERS }, validate(createPatientSchema), async (req, res) => {
+  api.post('', { action: 'records.write' }, validate(createPatientSchema), async (req, res) => {
     const b = req.body as CreatePatientInput
     const input: CreatePatientInput = {
       mrn: b.mrn, givenName: b.givenName, familyName: b.familyName, dateOfBirth: b.dateOfBirth, sex: b.sex,
@@ -22,11 +22,11 @@ export function patientRoutes({ sequelize }: AppContext): ApiRouter {
     res.status(201).json(await createPatient(sequelize, viewerOf(req), input))
   })
 
-  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id', { action: 'records.read' }, async (req, res) => {
     res.json(await getPatient(viewerOf(req), idParam(req)))
   })
 
-  api.patch('/:id', { access: CLINICAL_WRITERS }, validate(updatePatientSchema), async (req, res) => {
+  api.patch('/:id', { action: 'records.write' }, validate(updatePatientSchema), async (req, res) => {
     const b = req.body as UpdatePatientInput
     const input: UpdatePatientInput = {
       version: b.version, mrn: b.mrn, givenName: b.givenName, familyName: b.familyName, dateOfBirth: b.dateOfBirth, sex: b.sex,

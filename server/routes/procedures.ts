@@ -6,13 +6,12 @@ import { createProcedure, listProcedures, updateProcedure } from '../services/pr
 
 export function procedureRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/procedures')
-  const admin = { access: ['admin'] } as const
 
-  api.get('', { access: 'signed-in' }, async (req, res) => {
+  api.get('', { action: 'procedures.read' }, async (req, res) => {
     res.json({ rows: await listProcedures(req.query.includeInactive === '1' || req.query.includeInactive === 'true') })
   })
 
-  api.post('', admin, validate(createProcedureSchema), async (req, res) => {
+  api.post('', { action: 'procedures.manage' }, validate(createProcedureSchema), async (req, res) => {
     const b = req.body as CreateProcedureInput
     const input: CreateProcedureInput = {
       code: b.code, name: b.name, specialty: b.specialty, expectedBloodLossMl: b.expectedBloodLossMl, transfusionRate: b.transfusionRate,
@@ -21,7 +20,7 @@ export function procedureRoutes({ sequelize }: AppContext): ApiRouter {
     res.status(201).json(await createProcedure(sequelize, signedInActor(req), input))
   })
 
-  api.patch('/:code', admin, validate(updateProcedureSchema), async (req, res) => {
+  api.patch('/:code', { action: 'procedures.manage' }, validate(updateProcedureSchema), async (req, res) => {
     const b = req.body as UpdateProcedureInput
     const input: UpdateProcedureInput = {
       name: b.name, specialty: b.specialty, expectedBloodLossMl: b.expectedBloodLossMl, transfusionRate: b.transfusionRate,

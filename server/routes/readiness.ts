@@ -1,13 +1,13 @@
 import { ApiRouter } from './apiRouter'
 import type { AppContext } from './context'
-import { CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { isIsoDate } from '../../shared/pathway'
 import { readinessBoard } from '../services/readiness'
 import { Invalid } from '../errors'
 
 export function readinessRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/readiness')
-  api.get('', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('', { action: 'records.read' }, async (req, res) => {
     const { from, to, procedureCode, surgeonId } = req.query
     for (const [name, v] of [['from', from], ['to', to]] as const) {
       if (v !== undefined && !isIsoDate(v)) throw new Invalid(`${name} must be a date (YYYY-MM-DD)`, { [name]: 'must be a date (YYYY-MM-DD)' })

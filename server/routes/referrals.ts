@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { CLINICAL_WRITERS, CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import {
   createReferralSchema,
@@ -23,7 +23,7 @@ import { Invalid } from '../errors'
 export function referralRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
 
-  api.post('', { access: CLINICAL_WRITERS }, validate(createReferralSchema), async (req, res) => {
+  api.post('', { action: 'records.write' }, validate(createReferralSchema), async (req, res) => {
     const b = req.body as CreateReferralInput
     const input: CreateReferralInput = {
       patientId: b.patientId, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
@@ -32,11 +32,11 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
     res.status(201).json(await createReferral(sequelize, viewerOf(req), input))
   })
 
-  api.get('/:id', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id', { action: 'records.read' }, async (req, res) => {
     res.json(await referralDetail(viewerOf(req), idParam(req), { audit: true }))
   })
 
-  api.patch('/:id', { access: CLINICAL_WRITERS }, validate(updateReferralSchema), async (req, res) => {
+  api.patch('/:id', { action: 'records.write' }, validate(updateReferralSchema), async (req, res) => {
     const b = req.body as UpdateReferralInput
     const input: UpdateReferralInput = {
       version: b.version, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
@@ -48,24 +48,24 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   // Surgeons record the operation and may postpone or withdraw; the pathway table decides the rest.
-  api.post('/:id/transitions', { access: ['nurse', 'doctor', 'surgeon'] }, validate(transitionSchema), async (req, res) => {
+  api.post('/:id/transitions', { action: 'pathway.move' }, validate(transitionSchema), async (req, res) => {
     const b = req.body as TransitionInput
     res.json(await moveReferral(sequelize, viewerOf(req), idParam(req), { to: b.to, reason: b.reason, version: b.version }))
   })
 
   // Surgeons may cancel their own patients' operations (the service checks whose), as they may postpone them.
-  api.post('/:id/cancellation', { access: ['nurse', 'doctor', 'surgeon'] }, validate(cancelOperationSchema), async (req, res) => {
+  api.post('/:id/cancellation', { action: 'operations.cancel' }, validate(cancelOperationSchema), async (req, res) => {
     const b = req.body as CancelOperationInput
     res.json(await cancelPlannedOperation(sequelize, viewerOf(req), idParam(req), { version: b.version, reason: b.reason, note: b.note }))
   })
 
-  api.post('/:id/results', { access: CLINICAL_WRITERS }, validate(createResultSchema), async (req, res) => {
+  api.post('/:id/results', { action: 'results.write' }, validate(createResultSchema), async (req, res) => {
     const b = req.body as CreateResultInput
     const input: CreateResultInput = { analyte: b.analyte, value: b.value, unit: b.unit, takenAt: b.takenAt, unitConfirmed: b.unitConfirmed }
     res.status(201).json(await addResult(sequelize, viewerOf(req), idParam(req), input))
   })
 
-  api.get('/:id/results', { access: CLINICAL_READERS }, async (req, res) => {
+  api.get('/:id/results', { action: 'records.read' }, async (req, res) => {
     const analyte = req.query.analyte
     if (analyte !== undefined && !isAnalyte(analyte) && analyte !== 'egfr') {
       throw new Invalid('analyte filter is not a known analyte', { analyte: 'is not a known analyte' })

@@ -14,16 +14,16 @@ const tokenOf = (req: Request) => String(req.params.token ?? '')
 export function replyRoutes({ sequelize, config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/replies')
 
-  api.get('/:token', { access: 'public' }, async (req, res) => {
+  api.get('/:token', { action: 'replies.answer' }, async (req, res) => {
     res.set('Cache-Control', 'no-store')
     res.json(await lookupReply(config, tokenOf(req), actorOf(req)))
   })
 
-  api.post('/:token/confirm', { access: 'public' }, async (req, res) => {
+  api.post('/:token/confirm', { action: 'replies.answer' }, async (req, res) => {
     res.json(await confirmByReply(sequelize, config, tokenOf(req), actorOf(req)))
   })
 
-  api.post('/:token/rebook', { access: 'public' }, validate(rebookRequestSchema), async (req, res) => {
+  api.post('/:token/rebook', { action: 'replies.answer' }, validate(rebookRequestSchema), async (req, res) => {
     const b = req.body as RebookRequestInput
     res.json(await rebookByReply(sequelize, config, tokenOf(req), actorOf(req), b.message ?? null))
   })

@@ -16,7 +16,7 @@ export function reportRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/reports')
 
   // Registered before '/:name': the quality measures have their own answer shape.
-  api.get('/quality', { access: ['admin', 'doctor', 'surgeon'] }, async (req, res) => {
+  api.get('/quality', { action: 'reports.read' }, async (req, res) => {
     const filters = reportFilters(viewerOf(req), req.query as Record<string, unknown>)
     const report = await qualityReport(sequelize, filters)
     if (req.query.format !== 'csv') {
@@ -32,7 +32,7 @@ export function reportRoutes({ sequelize }: AppContext): ApiRouter {
     }))))
   })
   // One row per operated episode for the national audits: patient-level, so not for admins (figures only).
-  api.get('/quality/national-audit', { access: ['doctor', 'surgeon'] }, async (req, res) => {
+  api.get('/quality/national-audit', { action: 'reports.patientRows' }, async (req, res) => {
     const filters = reportFilters(viewerOf(req), req.query as Record<string, unknown>)
     const csv = await nationalAuditCsv(sequelize, viewerOf(req), filters)
     res.type('text/csv; charset=utf-8')
@@ -40,7 +40,7 @@ export function reportRoutes({ sequelize }: AppContext): ApiRouter {
     res.send(csv)
   })
 
-  api.get('/:name', { access: ['admin', 'doctor', 'surgeon'] }, async (req, res) => {
+  api.get('/:name', { action: 'reports.read' }, async (req, res) => {
     const name = String(req.params.name)
     const report = await runReport(sequelize, viewerOf(req), name, req.query as Record<string, unknown>)
     if (req.query.format !== 'csv') {

@@ -29,7 +29,7 @@ const PENDING_MS = 5 * 60_000
 export function secondFactorRoutes(ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/auth')
 
-  api.post('/login/second-factor', { access: 'public' }, validate(secondFactorCodeSchema), async (req, res) => {
+  api.post('/login/second-factor', { action: 'auth.signIn' }, validate(secondFactorCodeSchema), async (req, res) => {
     const pending = req.session.pendingSecondFactor
     if (!pending || Date.now() - pending.at > PENDING_MS) {
       delete req.session.pendingSecondFactor
@@ -51,20 +51,20 @@ export function secondFactorRoutes(ctx: AppContext): ApiRouter {
     res.json(answer)
   })
 
-  api.get('/second-factor', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
+  api.get('/second-factor', { action: 'auth.account', duringPasswordChange: true }, async (req, res) => {
     const status = await secondFactorStatus(req.user!.id)
     const answer: SecondFactorStatus = { ...status, required: Boolean(req.session.secondFactorEnrolmentRequired) }
     res.json(answer)
   })
 
-  api.post('/second-factor/enrolment', { access: 'signed-in', duringPasswordChange: true }, async (req, res) => {
+  api.post('/second-factor/enrolment', { action: 'auth.account', duringPasswordChange: true }, async (req, res) => {
     if (req.session.directoryIdToken) throw new RuleRefused('You signed in through the directory, which looks after your second factor', 'directory_session')
     const enrolment = await beginEnrolment(req.user!.email)
     req.session.enrolmentSecret = enrolment.secret
     res.json(enrolment)
   })
 
-  api.post('/second-factor/enrolment/confirm', { access: 'signed-in', duringPasswordChange: true }, validate(secondFactorCodeSchema), async (req, res) => {
+  api.post('/second-factor/enrolment/confirm', { action: 'auth.account', duringPasswordChange: true }, validate(secondFactorCodeSchema), async (req, res) => {
     const secret = req.session.enrolmentSecret
     if (!secret) throw new RuleRefused('Start the enrolment first: no QR code was shown in this session', 'no_enrolment')
     const enrolled = await confirmEnrolment(ctx.sequelize, signedInActor(req), secret, req.body.code)

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
-import { STAFF, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { editTransfusionSchema, transfusionSchema, voidTransfusionSchema, type EditTransfusionInput, type TransfusionInput, type VoidTransfusionInput } from '../../shared/schemas/transfusions'
 import { editTransfusion, listTransfusions, recordTransfusion, voidTransfusion } from '../services/transfusions'
@@ -14,19 +14,18 @@ const pick = (b: TransfusionInput): TransfusionInput => ({
 /** The transfusion record: written by those who keep the post-operative record (surgeons for their own patients, in the service). */
 export function transfusionRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
-  const writers = { access: ['nurse', 'doctor', 'surgeon'] } as const
 
-  api.get('/:id/transfusions', { access: STAFF }, async (req, res) => {
+  api.get('/:id/transfusions', { action: 'records.read' }, async (req, res) => {
     res.json(await listTransfusions(viewerOf(req), idParam(req)))
   })
-  api.post('/:id/transfusions', writers, validate(transfusionSchema), async (req, res) => {
+  api.post('/:id/transfusions', { action: 'transfusions.record' }, validate(transfusionSchema), async (req, res) => {
     res.status(201).json(await recordTransfusion(sequelize, viewerOf(req), idParam(req), pick(req.body as TransfusionInput)))
   })
-  api.put('/:id/transfusions/:transfusionId', writers, validate(editTransfusionSchema), async (req, res) => {
+  api.put('/:id/transfusions/:transfusionId', { action: 'transfusions.record' }, validate(editTransfusionSchema), async (req, res) => {
     const b = req.body as EditTransfusionInput
     res.json(await editTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), { ...pick(b), changeReason: b.changeReason }))
   })
-  api.post('/:id/transfusions/:transfusionId/void', writers, validate(voidTransfusionSchema), async (req, res) => {
+  api.post('/:id/transfusions/:transfusionId/void', { action: 'transfusions.record' }, validate(voidTransfusionSchema), async (req, res) => {
     const b = req.body as VoidTransfusionInput
     res.json(await voidTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), b.reason))
   })

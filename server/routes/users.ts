@@ -6,23 +6,22 @@ import { createStaff, listStaff, resetStaffPassword, updateStaff } from '../serv
 
 export function userRoutes({ sequelize, config }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/users')
-  const admin = { access: ['admin'] } as const
 
-  api.get('', admin, async (_req, res) => {
+  api.get('', { action: 'users.manage' }, async (_req, res) => {
     res.json({ rows: await listStaff() })
   })
 
-  api.post('', admin, validate(createUserSchema), async (req, res) => {
+  api.post('', { action: 'users.manage' }, validate(createUserSchema), async (req, res) => {
     const { email, name, role } = req.body as CreateUserInput
     res.status(201).json(await createStaff(sequelize, signedInActor(req), { email, name, role }, config.passwords.temporaryHours))
   })
 
-  api.patch('/:id', admin, validate(updateUserSchema), async (req, res) => {
+  api.patch('/:id', { action: 'users.manage' }, validate(updateUserSchema), async (req, res) => {
     const { name, role, active } = req.body as UpdateUserInput
     res.json(await updateStaff(sequelize, signedInActor(req), idParam(req), { name, role, active }))
   })
 
-  api.post('/:id/reset-password', admin, async (req, res) => {
+  api.post('/:id/reset-password', { action: 'users.manage' }, async (req, res) => {
     res.json(await resetStaffPassword(sequelize, signedInActor(req), idParam(req), config.passwords.temporaryHours))
   })
 

@@ -1,6 +1,6 @@
 import { ApiRouter } from './apiRouter'
 import type { AppContext } from './context'
-import { CLINICAL_READERS, viewerOf } from './pathwayContext'
+import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import { worklistCountsQuerySchema, worklistQuerySchema, type WorklistCountsQuery, type WorklistQuery } from '../../shared/schemas/referrals'
 import { worklist } from '../services/worklist'
@@ -8,11 +8,11 @@ import { worklistTiles } from '../services/worklistTiles'
 
 export function worklistRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/worklist')
-  api.get('', { access: CLINICAL_READERS }, validate(worklistQuerySchema, 'query'), async (req, res) => {
+  api.get('', { action: 'records.read' }, validate(worklistQuerySchema, 'query'), async (req, res) => {
     res.json(await worklist(sequelize, viewerOf(req), res.locals.query as WorklistQuery))
   })
   // The home screens poll this once instead of the worklist once per count tile.
-  api.get('/counts', { access: CLINICAL_READERS }, validate(worklistCountsQuerySchema, 'query'), async (req, res) => {
+  api.get('/counts', { action: 'records.read' }, validate(worklistCountsQuerySchema, 'query'), async (req, res) => {
     res.json(await worklistTiles(sequelize, viewerOf(req), res.locals.query as WorklistCountsQuery))
   })
   return api

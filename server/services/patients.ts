@@ -10,6 +10,7 @@ import { Conflict, Forbidden, Invalid, NotFound } from '../errors'
 import { clinicToday } from './clinicDay'
 import { worklistChanged } from './worklistCounts'
 import { unitOfWork } from '../unitOfWork'
+import { maySeeEpisode, seesOwnPatientsOnly } from '../../shared/permissions'
 
 /** The latest height and the latest weight, each with the date it was measured. */
 export async function currentBody(patientId: number, t?: Transaction) {
@@ -94,7 +95,7 @@ export async function createPatient(sequelize: Sequelize, actor: Actor, input: C
 
 /** Surgeons may open a patient only through an episode on their own list. */
 async function assertMaySeePatient(viewer: Viewer, patientId: number): Promise<void> {
-  if (viewer.role !== 'surgeon') return
+  if (!seesOwnPatientsOnly(viewer.role)) return
   const theirs = await Referral.count({ where: { patientId, surgeonId: viewer.userId } })
   if (!theirs) throw new Forbidden("This patient is not on your list", 'not_your_patient')
 }
@@ -114,7 +115,7 @@ export async function getPatient(viewer: Viewer, id: number): Promise<PatientRec
     ...view,
     measurements: measurements.map((m) => ({ id: m.id, heightCm: m.heightCm, weightKg: m.weightKg, measuredAt: isoOrNull(m.measuredAt), recordedBy: m.recordedBy })),
     referrals: referrals
-      .filter((r) => viewer.role !== 'surgeon' || r.surgeonId === viewer.userId)
+      .filter((r) => maySeeEpisode(viewer, r))
       .map((r) => {
         const proc = (r as Referral & { procedure?: Procedure }).procedure
         return { id: r.id, stage: r.stage, stageLabel: STAGE_LABELS[r.stage], plannedSurgeryDate: r.plannedSurgeryDate, procedureName: proc?.name ?? null }
@@ -157,7 +158,7 @@ export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: nu
 export async function searchPatients(viewer: Viewer, q: string): Promise<PatientSummary[]> {
   const like = `${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
   const own =
-    viewer.role === 'surgeon'
+    seesOwnPatientsOnly(viewer.role)
       ? { id: (await Referral.findAll({ where: { surgeonId: viewer.userId }, attributes: ['patientId'], raw: true })).map((r) => r.patientId) }
       : {}
   const rows = await Patient.findAll({

@@ -13,6 +13,7 @@ import { AppError, Forbidden, Invalid } from '../errors'
 import { clinicTimeZone, clinicToday } from './clinicDay'
 import { LIMITS, windowTooLong } from '../../shared/limits'
 import { worklistChanged } from './worklistCounts'
+import { seesOwnPatientsOnly } from '../../shared/permissions'
 
 export interface BoardQuery { from?: string; to?: string; procedureCode?: string; surgeonId?: number }
 
@@ -34,7 +35,7 @@ export async function readinessBoard(viewer: Viewer, q: BoardQuery): Promise<Rea
     stage: { [Op.in]: PRE_OPERATIVE_STAGES },
     plannedSurgeryDate: { [Op.between]: [from, to] },
   }
-  if (viewer.role === 'surgeon') {
+  if (seesOwnPatientsOnly(viewer.role)) {
     if (q.surgeonId && q.surgeonId !== viewer.userId) throw new Forbidden("Surgeons see their own patients' readiness only", 'not_your_patient')
     where.surgeonId = viewer.userId
   } else if (q.surgeonId) where.surgeonId = q.surgeonId

@@ -2,6 +2,7 @@ import { ClinicalInputError } from '../../shared/clinical'
 import type { Role } from '../../shared/roles'
 import type { Actor } from './audit'
 import { Conflict, Forbidden, Invalid } from '../errors'
+import { maySeeEpisode } from '../../shared/permissions'
 
 /** A signed-in member of staff acting on clinical data: who they are and what role they hold. */
 export interface Viewer extends Actor {
@@ -11,10 +12,10 @@ export interface Viewer extends Actor {
 
 /**
  * Surgeons see only the episodes they operate on (their own list); every other staff role
- * sees the whole service. One rule, used by every read of patient data.
+ * sees the whole service. One rule (shared/permissions.ts), used by every read of patient data.
  */
 export function assertMaySeeReferral(viewer: Viewer, surgeonId: number): void {
-  if (viewer.role === 'surgeon' && surgeonId !== viewer.userId) {
+  if (!maySeeEpisode(viewer, { surgeonId })) {
     throw new Forbidden("This episode is on another surgeon's list", 'not_your_patient')
   }
 }

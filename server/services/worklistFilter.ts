@@ -7,6 +7,7 @@ import type { Viewer } from './viewer'
 import { cachedCount, type WorklistSource } from './worklistCounts'
 import { rawSelect } from './rawRead'
 import { clinicTimeZone, clinicToday } from './clinicDay'
+import { seesOwnPatientsOnly } from '../../shared/permissions'
 
 export const quoted = (xs: readonly string[]) => xs.map((x) => `'${x}'`).join(',')
 const PRE_OP = `(${quoted(PRE_OPERATIVE_STAGES)})`
@@ -48,13 +49,13 @@ export interface WorklistFilter {
  * asking for another surgeon's list is refused rather than silently narrowed.
  */
 export function worklistFilter(viewer: Viewer, q: WorklistFilterQuery): WorklistFilter {
-  if (viewer.role === 'surgeon' && q.surgeonId !== undefined && q.surgeonId !== viewer.userId) {
+  if (seesOwnPatientsOnly(viewer.role) && q.surgeonId !== undefined && q.surgeonId !== viewer.userId) {
     throw new Forbidden("Surgeons see their own patients only", 'not_your_patient')
   }
   const today = clinicToday()
   const where: string[] = []
   const params: Record<string, unknown> = { today, soon: addDays(today, SURGERY_SOON_DAYS), zoneOffsetMin: Math.round(zoneOffsetMs(new Date(), clinicTimeZone()) / 60_000) }
-  const surgeonId = viewer.role === 'surgeon' || q.mine ? viewer.userId : q.surgeonId
+  const surgeonId = seesOwnPatientsOnly(viewer.role) || q.mine ? viewer.userId : q.surgeonId
   if (surgeonId !== undefined) { where.push('r.surgeon_id = :surgeonId'); params.surgeonId = surgeonId }
   if (q.stage?.length) { where.push('r.stage IN (:stages)'); params.stages = q.stage }
   if (q.priority?.length) { where.push('r.priority IN (:priorities)'); params.priorities = q.priority }

@@ -1,3 +1,2 @@
 export * from './values'
 export * from './views'
-export * from './access'

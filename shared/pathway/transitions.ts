@@ -1,4 +1,5 @@
 import type { Role } from '../roles'
+import { rolesFor, type Action } from '../permissions'
 import { PRE_OPERATIVE_STAGES, READ_ONLY_STAGES, STAGE_LABELS, type Stage } from './stages'
 
 /**
@@ -10,21 +11,23 @@ export type MoveRequirement = 'hb-result' | 'follow-up'
 export interface Move {
   from: Stage
   to: Stage
+  /** The action in the permission table (shared/permissions.ts) that this move needs. */
+  action: Action
   roles: readonly Role[]
   requiresReason?: boolean
   requires?: MoveRequirement
 }
 
-const nurseOrDoctor: readonly Role[] = ['nurse', 'doctor']
-const doctor: readonly Role[] = ['doctor']
+type MoveRule = Omit<Move, 'roles'>
+const move = (m: MoveRule): Move => ({ ...m, roles: rolesFor(m.action) })
 
 /** Side exits are possible from every stage before surgery. */
 function sideExits(from: Stage): Move[] {
   return [
     // Postponing surgery is a clinical decision (clinic doctor) or the operating surgeon's.
-    { from, to: 'deferred', roles: ['doctor', 'surgeon'], requiresReason: true },
+    move({ from, to: 'deferred', action: 'pathway.defer', requiresReason: true }),
     // Withdrawal records a fact (patient declined, operation cancelled) anyone caring for them may learn.
-    { from, to: 'withdrawn', roles: ['nurse', 'doctor', 'surgeon'], requiresReason: true },
+    move({ from, to: 'withdrawn', action: 'pathway.withdraw', requiresReason: true }),
   ]
 }
 
@@ -35,27 +38,27 @@ function sideExits(from: Stage): Move[] {
  */
 export const TRANSITIONS: readonly Move[] = [
   // Screening confirmation: pre-assessment nurses or clinic doctors.
-  { from: 'referred', to: 'screened', roles: nurseOrDoctor, requires: 'hb-result' },
-  { from: 'screened', to: 'clinic', roles: nurseOrDoctor },
-  { from: 'screened', to: 'cleared', roles: nurseOrDoctor },
+  move({ from: 'referred', to: 'screened', action: 'pathway.advance', requires: 'hb-result' }),
+  move({ from: 'screened', to: 'clinic', action: 'pathway.advance' }),
+  move({ from: 'screened', to: 'cleared', action: 'pathway.advance' }),
   // Clinic decisions: doctors only.
-  { from: 'clinic', to: 'treating', roles: doctor },
-  { from: 'clinic', to: 'recheck', roles: doctor },
-  { from: 'clinic', to: 'cleared', roles: doctor },
-  { from: 'treating', to: 'recheck', roles: nurseOrDoctor },
-  { from: 'recheck', to: 'treating', roles: doctor },
-  { from: 'recheck', to: 'clinic', roles: doctor },
-  { from: 'recheck', to: 'cleared', roles: doctor },
+  move({ from: 'clinic', to: 'treating', action: 'pathway.decide' }),
+  move({ from: 'clinic', to: 'recheck', action: 'pathway.decide' }),
+  move({ from: 'clinic', to: 'cleared', action: 'pathway.decide' }),
+  move({ from: 'treating', to: 'recheck', action: 'pathway.advance' }),
+  move({ from: 'recheck', to: 'treating', action: 'pathway.decide' }),
+  move({ from: 'recheck', to: 'clinic', action: 'pathway.decide' }),
+  move({ from: 'recheck', to: 'cleared', action: 'pathway.decide' }),
   // New results after clearance can send a patient back for review.
-  { from: 'cleared', to: 'clinic', roles: nurseOrDoctor },
-  { from: 'cleared', to: 'operated', roles: ['nurse', 'doctor', 'surgeon'] },
-  { from: 'operated', to: 'closed', roles: nurseOrDoctor, requires: 'follow-up' },
+  move({ from: 'cleared', to: 'clinic', action: 'pathway.advance' }),
+  move({ from: 'cleared', to: 'operated', action: 'pathway.recordOperation' }),
+  move({ from: 'operated', to: 'closed', action: 'pathway.advance', requires: 'follow-up' }),
   ...PRE_OPERATIVE_STAGES.flatMap(sideExits),
   // A postponed patient comes back in: re-screened, or straight to clinic by a doctor.
-  { from: 'deferred', to: 'referred', roles: nurseOrDoctor },
-  { from: 'deferred', to: 'clinic', roles: doctor },
-  { from: 'deferred', to: 'withdrawn', roles: ['nurse', 'doctor', 'surgeon'], requiresReason: true },
-  { from: 'withdrawn', to: 'closed', roles: nurseOrDoctor },
+  move({ from: 'deferred', to: 'referred', action: 'pathway.advance' }),
+  move({ from: 'deferred', to: 'clinic', action: 'pathway.decide' }),
+  move({ from: 'deferred', to: 'withdrawn', action: 'pathway.withdraw', requiresReason: true }),
+  move({ from: 'withdrawn', to: 'closed', action: 'pathway.advance' }),
 ]
 
 export function findMove(from: Stage, to: Stage): Move | undefined {

@@ -7,6 +7,7 @@ import { fetchMe } from '@/api/auth'
 import { useSessionStore } from '@/stores/session'
 import { getClinicProfile } from '@/api/clinicProfile'
 import { useClinicZoneStore } from '@/stores/clinicZone'
+import { allows } from '@shared/permissions'
 import { homeRouteFor } from './homes'
 import { routes } from './routes'
 import './meta'
@@ -80,7 +81,7 @@ export function installGuards(pinia: Pinia): void {
     if (user.secondFactorEnrolmentRequired && to.name !== 'second-factor') return { name: 'second-factor' }
     if (!user.mustChangePassword && !user.secondFactorEnrolmentRequired) await loadClinicProfileOnce(clinicZone)
     if (to.name === 'home') return homeRouteFor(user.role)
-    if (to.meta.roles && !to.meta.roles.includes(user.role)) return { name: 'forbidden', query: { from: to.fullPath } }
+    if (to.meta.action && !allows(user.role, to.meta.action)) return { name: 'forbidden', query: { from: to.fullPath } }
     return true
   }
 

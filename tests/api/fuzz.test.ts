@@ -6,6 +6,7 @@ import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { makeEpisode } from '../helpers/clinicFactories'
 import { ROLE_MATRIX, type MatrixEntry } from './roleMatrix.data'
 import type { Role } from '../../shared/roles'
+import { PERMISSIONS, type Access } from '../../shared/permissions'
 
 // Issue #12, point 8: every route of the role matrix, called by a role that may call it, gets
 // hostile bodies and query strings. None may answer 5xx, and none may change stored data.
@@ -76,9 +77,10 @@ const QUERIES = [
 
 /** The caller: the episode's surgeon where only surgeons may call, else the first allowed role. */
 function callerFor(entry: MatrixEntry): Role | 'anonymous' {
-  if (entry.allow === 'public') return 'anonymous'
-  if (entry.allow === 'signed-in') return 'nurse'
-  return entry.allow[0]!
+  const allow: Access = PERMISSIONS[entry.action]
+  if (allow === 'public') return 'anonymous'
+  if (allow === 'signed-in') return 'nurse'
+  return allow[0]!
 }
 
 function pathOf(entry: MatrixEntry): string {

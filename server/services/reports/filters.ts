@@ -4,6 +4,7 @@ import type { Viewer } from '../viewer'
 import { Forbidden, Invalid } from '../../errors'
 import { clinicToday } from '../clinicDay'
 import { LIMITS, windowTooLong } from '../../../shared/limits'
+import { seesOwnPatientsOnly } from '../../../shared/permissions'
 
 export interface ReportFilters { from: string; to: string; surgeonId: number | null; procedureCode: string | null }
 
@@ -26,7 +27,7 @@ export function reportFilters(viewer: Viewer, q: Record<string, unknown>): Repor
     surgeonId = Number(rawSurgeon)
     if (!Number.isSafeInteger(surgeonId) || surgeonId <= 0) throw new Invalid('surgeonId must be a positive whole number', { surgeonId: 'must be a positive whole number' })
   }
-  if (viewer.role === 'surgeon') {
+  if (seesOwnPatientsOnly(viewer.role)) {
     if (surgeonId !== null && surgeonId !== viewer.userId) throw new Forbidden("Surgeons see their own figures only", 'not_your_patient')
     surgeonId = viewer.userId
   }
