@@ -6,7 +6,6 @@ import { queryClient } from '@/api/queryClient'
 import { meQueryOptions } from '@/composables/useAuth'
 import { useSessionStore } from '@/stores/session'
 import { getClinicProfile } from '@/api/clinicProfile'
-import { setClinicZone } from '@/display/appointments'
 import { homeRouteFor } from './homes'
 import { routes } from './routes'
 import './meta'
@@ -36,9 +35,11 @@ function loadSessionOnce(session: ReturnType<typeof useSessionStore>): Promise<v
 // public). A failure keeps the default and is asked again on the next navigation.
 let profileLoaded: Promise<void> | null = null
 
+// The display module (and the shared appointment rules it imports) is imported here, not at the
+// top: the sign-in page never needs it, and every signed-in screen waits for this anyway.
 function loadClinicProfileOnce(): Promise<void> {
-  profileLoaded ??= getClinicProfile()
-    .then((p) => setClinicZone(p.timeZone, p.zoneLabel))
+  profileLoaded ??= Promise.all([getClinicProfile(), import('@/display/appointments')])
+    .then(([p, display]) => display.setClinicZone(p.timeZone, p.zoneLabel))
     .catch(() => { profileLoaded = null })
   return profileLoaded
 }
