@@ -30,7 +30,7 @@ async function main(): Promise<void> {
   const dist = path.join(benchDir, 'dist')
   // The browser bench serves the built client, so it builds it too when run on its own.
   if (wants('bundle') || (wants('polls') && !process.env.BENCH_POLL_DIST)) buildClient(dist)
-  if (wants('bundle')) console.log(JSON.stringify(bundleReport(dist)))
+  if (wants('bundle')) console.log(JSON.stringify(await bundleReport(dist)))
   if (!['worklist', 'reports', 'imports', 'hl7', 'polls'].some(wants)) return
   const stack = await startStack({
     label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
