@@ -85,12 +85,15 @@ export interface PatientTask {
   appointment: { id: number; kind: AppointmentKind; kindLabel: string; startsAt: string; location: string; status: AppointmentStatus }
 }
 
-export const listAppointments = (referralId: number) => api.get<{ rows: AppointmentView[] }>(`/referrals/${referralId}/appointments`)
+// The three polled lists ask conditionally: `previous` is what the screen shows, kept on a 304.
+export const listAppointments = (referralId: number, previous?: { rows: AppointmentView[] }) =>
+  api.poll<{ rows: AppointmentView[] }>(`/referrals/${referralId}/appointments`, previous)
 export const bookAppointment = (input: CreateAppointmentInput) => api.post<BookingResult>('/appointments', input)
 export const moveAppointment = (id: number, input: MoveAppointmentInput) => api.patch<BookingResult>(`/appointments/${id}`, input)
 export const cancelAppointment = (id: number, input: CancelAppointmentInput) => api.post<BookingResult>(`/appointments/${id}/cancel`, input)
 export const listInfusionSessions = (from: string, to: string) =>
   api.get<{ rows: InfusionSessionView[] }>(`/infusion-sessions?${new URLSearchParams({ from, to })}`)
-export const listOutbox = (referralId: number) => api.get<{ rows: OutboxRow[] }>(`/outbox?referralId=${referralId}`)
-export const listTasks = () => api.get<{ rows: PatientTask[] }>('/tasks?status=open')
+export const listOutbox = (referralId: number, previous?: { rows: OutboxRow[] }) =>
+  api.poll<{ rows: OutboxRow[] }>(`/outbox?referralId=${referralId}`, previous)
+export const listTasks = (previous?: { rows: PatientTask[] }) => api.poll<{ rows: PatientTask[] }>('/tasks?status=open', previous)
 export const completeTask = (id: number) => api.post<{ id: number; status: 'done' }>(`/tasks/${id}/done`)
