@@ -9,7 +9,10 @@ type Manifest = Record<string, ManifestChunk>
 
 async function fetchedKeys(distDir: string) {
   const f = await signInFetched(distDir)
-  return { signInFetchedJsGzipKB: f.atLoadKB, signInFetchedScripts: f.scripts, signInAfterSubmitJsGzipKB: f.afterSubmitKB, fetchedWithinBudget: f.atLoadKB <= 120 }
+  return {
+    signInFetchedJsGzipKB: f.atLoadKB, signInFetchedScripts: f.scripts,
+    signInAfterSubmitJsGzipKB: f.afterSubmitKB, fetchedWithinBudget: f.atLoadKB <= 120,
+  }
 }
 
 const gz = (file: string) => gzipSync(readFileSync(file)).length

@@ -13,10 +13,15 @@ import path from 'node:path'
 import type { AddressInfo } from 'node:net'
 import { launchBrowser } from '../../tests/helpers/browser'
 
-const TYPES: Record<string, string> = { '.js': 'text/javascript', '.css': 'text/css', '.html': 'text/html', '.svg': 'image/svg+xml', '.woff2': 'font/woff2' }
+const TYPES: Record<string, string> = {
+  '.js': 'text/javascript', '.css': 'text/css', '.html': 'text/html', '.svg': 'image/svg+xml', '.woff2': 'font/woff2',
+}
 
 function api(req: IncomingMessage, res: ServerResponse): void {
-  const send = (status: number, body: unknown) => { res.writeHead(status, { 'Content-Type': 'application/json' }); res.end(JSON.stringify(body)) }
+  const send = (status: number, body: unknown) => {
+    res.writeHead(status, { 'Content-Type': 'application/json' })
+    res.end(JSON.stringify(body))
+  }
   const url = req.url ?? ''
   if (url.startsWith('/api/auth/providers')) return send(200, { local: 'on', directory: null })
   if (url.startsWith('/api/auth/csrf')) return send(200, { csrfToken: 'bench' })
@@ -35,7 +40,8 @@ async function serve(distDir: string) {
     )
   })
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve))
-  return { url: `http://127.0.0.1:${(server.address() as AddressInfo).port}`, close: () => new Promise<void>((r) => server.close(() => r())) }
+  const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`
+  return { url, close: () => new Promise<void>((r) => server.close(() => r())) }
 }
 
 export async function signInFetched(distDir: string): Promise<{ atLoadKB: number; afterSubmitKB: number; scripts: number }> {
