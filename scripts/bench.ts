@@ -30,7 +30,7 @@ async function main(): Promise<void> {
   const dist = path.join(benchDir, 'dist')
   // The browser bench serves the built client, so it builds it too when run on its own.
   if (wants('bundle') || (wants('polls') && !process.env.BENCH_POLL_DIST)) buildClient(dist)
-  if (wants('bundle')) console.log(JSON.stringify(bundleReport(dist)))
+  if (wants('bundle')) console.log(JSON.stringify(await bundleReport(dist)))
   if (!['worklist', 'reports', 'imports', 'hl7', 'polls'].some(wants)) return
   const stack = await startStack({
     label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
@@ -50,7 +50,7 @@ async function main(): Promise<void> {
     if (data.loaded) console.error(`[bench] loaded the bench database in ${((Date.now() - t0) / 1000).toFixed(1)} s`)
     const databasePid = Number(readFileSync(path.join(benchDir, 'mariadb.pid'), 'utf8').trim())
     if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail, databasePid)))
-    if (wants('reports')) console.log(JSON.stringify(await benchReports(env)))
+    if (wants('reports')) console.log(JSON.stringify(await benchReports(env, databasePid)))
     if (wants('imports')) console.log(JSON.stringify(await benchImports(env, data.nurseEmail, benchDir)))
     if (wants('hl7')) console.log(JSON.stringify(await benchHl7(env)))
     if (wants('polls')) console.log(JSON.stringify(await benchPolls(env, dist)))

@@ -77,16 +77,17 @@ async function watch(page: Page, url: string, ready: string) {
   return {
     requestsPerMin: perMin(shown.requests, WATCH_S),
     notModifiedPerMin: perMin(shown.notModified, WATCH_S),
+    // Issue 19 (new key): answers that carried a whole body, i.e. not a 304.
+    fullAnswersPerMin: perMin(shown.requests - shown.notModified, WATCH_S),
     bodyKBPerMin: +((shown.bytes * 60) / WATCH_S / 1024).toFixed(1),
     hiddenRequestsPerMin: perMin(hidden.requests, HIDDEN_S),
     refetchedOnReturn: back.requests > 0,
   }
 }
 
-/** BENCH_POLL_DIST: serve another built client (e.g. an older build, to compare before and after). */
-export async function benchPolls(env: NodeJS.ProcessEnv, distDir: string) {
-  const episodeId = await prepareDoctor(env)
-  const server = await startBenchServer(env, 18_000 + Math.floor(Math.random() * 2000), process.env.BENCH_POLL_DIST || distDir)
+/** One built client served by the bench server: the doctor's home, then one open episode. */
+async function watchClient(env: NodeJS.ProcessEnv, distDir: string, episodeId: number) {
+  const server = await startBenchServer(env, 18_000 + Math.floor(Math.random() * 2000), distDir)
   const browser = await launchBrowser()
   try {
     const cookie = await signIn(server.url, DOCTOR, BENCH_PASSWORD)
@@ -94,11 +95,23 @@ export async function benchPolls(env: NodeJS.ProcessEnv, distDir: string) {
     const context = await browser.newContext({ locale: 'en-GB' })
     await context.addCookies([{ name, value, url: server.url }])
     const page = await context.newPage()
-    const home = await watch(page, `${server.url}/`, '[data-testid="worklist-count"]')
+    const doctorHome = await watch(page, `${server.url}/`, '[data-testid="worklist-count"]')
     const episode = await watch(page, `${server.url}/referrals/${episodeId}`, 'h1')
-    return { bench: 'polls', watchSeconds: WATCH_S, hiddenSeconds: HIDDEN_S, doctorHome: home, episode }
+    return { doctorHome, episode }
   } finally {
     await browser.close()
     await server.stop()
   }
+}
+
+/**
+ * BENCH_POLL_DIST: serve another built client instead of this one. BENCH_POLL_BEFORE_DIST: also
+ * watch an older build in the same run, printed under `before` (new key), to compare the two.
+ */
+export async function benchPolls(env: NodeJS.ProcessEnv, distDir: string) {
+  const episodeId = await prepareDoctor(env)
+  const now = await watchClient(env, process.env.BENCH_POLL_DIST || distDir, episodeId)
+  const beforeDist = process.env.BENCH_POLL_BEFORE_DIST
+  const before = beforeDist ? await watchClient(env, beforeDist, episodeId) : undefined
+  return { bench: 'polls', watchSeconds: WATCH_S, hiddenSeconds: HIDDEN_S, ...now, ...(before ? { before } : {}) }
 }

@@ -1,34 +1,21 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, pct, select, whereFor, type ReportFilters } from './filters'
-import { finalSql } from '../../models/result'
+import { MILESTONE_JOINS, WHOLE_PASSES } from './milestones'
 
-// Voided and preliminary Hb values do not count in any figure.
-const COUNTED = finalSql('h')
-
-// Each step is one indexed lookup per referral in the period; all counted in one pass.
-const SQL = (where: string) => `
+// One pass over the period's referrals with each one's milestones (milestones.ts).
+const SQL = (where: string) => `${WHOLE_PASSES}
 SELECT COUNT(*) AS referred,
-  SUM(x.first_hb_at IS NOT NULL) AS screened,
-  SUM(x.anaemic_or_deficient) AS anaemicOrDeficient,
-  SUM(x.first_dose_at IS NOT NULL) AS treated,
-  SUM(x.first_dose_at IS NOT NULL AND EXISTS (SELECT 1 FROM results h WHERE h.referral_id = x.id AND h.analyte = 'hb' AND
-    ${COUNTED} AND h.taken_at > x.first_dose_at)) AS rechecked,
-  SUM(x.cleared) AS cleared,
-  SUM(x.operated) AS operated,
-  SUM(x.operated AND x.first_hb_at IS NOT NULL AND DATEDIFF(x.surgery_date, x.first_hb_at) >= 28) AS screenedEarly
-FROM (
-  SELECT r.id,
-    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS first_hb_at,
-    (SELECT MIN(a.given_at) FROM administrations a WHERE a.referral_id = r.id) AS first_dose_at,
-    (r.anaemic = 1 OR r.iron_status IN ('absolute-deficiency', 'iron-restricted')
-      OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id = r.id)) AS anaemic_or_deficient,
-    EXISTS (SELECT 1 FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage = 'cleared') AS cleared,
-    (o.id IS NOT NULL OR EXISTS (SELECT 1 FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage = 'operated')) AS operated,
-    COALESCE(o.surgery_date, r.planned_surgery_date) AS surgery_date
-  FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id
-  WHERE ${where}
-) x`
+  SUM(fh.first_hb_at IS NOT NULL) AS screened,
+  SUM(r.anaemic = 1 OR r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR rx.referral_id IS NOT NULL) AS anaemicOrDeficient,
+  SUM(fd.first_dose_at IS NOT NULL) AS treated,
+  SUM(fd.first_dose_at IS NOT NULL AND fh.last_hb_at > fd.first_dose_at) AS rechecked,
+  SUM(COALESCE(st.cleared, 0)) AS cleared,
+  SUM(o.id IS NOT NULL OR COALESCE(st.operated, 0)) AS operated,
+  SUM((o.id IS NOT NULL OR COALESCE(st.operated, 0)) AND fh.first_hb_at IS NOT NULL
+    AND DATEDIFF(COALESCE(o.surgery_date, r.planned_surgery_date), fh.first_hb_at) >= 28) AS screenedEarly
+FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
+WHERE ${where}`
 
 const STEPS = [
   ['referred', 'Referred', 'Episodes referred'],

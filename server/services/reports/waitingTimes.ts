@@ -1,11 +1,7 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, round1, select, whereFor, type ReportFilters } from './filters'
-import { finalSql } from '../../models/result'
-
-// Voided and preliminary Hb values do not count in any figure.
-const COUNTED = finalSql('h')
-
+import { MILESTONE_JOINS, WHOLE_PASSES } from './milestones'
 
 const LEGS = [
   ['referralToScreening', 'Referral → first screening result', 'created_at', 'first_hb_at'],
@@ -17,14 +13,11 @@ const LEGS = [
 
 // One pass over the episodes: each leg is a column of day counts (NULL where an end is missing),
 // and MariaDB's PERCENTILE_CONT and COUNT skip the NULLs, so no leg is evaluated twice.
-const SQL = (where: string) => `
+// The milestones come from grouped passes (milestones.ts), not a probe per referral.
+const SQL = (where: string) => `${WHOLE_PASSES}
 WITH x AS (
-  SELECT r.created_at,
-    (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS first_hb_at,
-    (SELECT MIN(st.at) FROM stage_transitions st WHERE st.referral_id = r.id AND st.to_stage = 'clinic') AS clinic_at,
-    (SELECT MIN(a.given_at) FROM administrations a WHERE a.referral_id = r.id) AS first_dose_at,
-    o.surgery_date
-  FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id
+  SELECT r.created_at, fh.first_hb_at, st.clinic_at, fd.first_dose_at, o.surgery_date
+  FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
   WHERE ${where}
 ), d AS (
   SELECT ${LEGS.map(([key, , a, b]) => `DATEDIFF(${b}, ${a}) AS ${key}`).join(', ')} FROM x

@@ -10,6 +10,9 @@ import {
   listOutbox,
   listTasks,
   moveAppointment,
+  type AppointmentView,
+  type OutboxRow,
+  type PatientTask,
 } from '@/api/appointments'
 import { referralKeys } from './useReferrals'
 
@@ -27,20 +30,28 @@ const LIST_POLL_MS = 10_000
 const OUTBOX_POLL_MS = 8_000
 const TASKS_POLL_MS = 15_000
 
+// Polls ask "has it changed?" (ETag, 304) with the data already shown, and stop while the tab is
+// hidden; coming back to the tab refetches at once.
+const POLLING = { refetchIntervalInBackground: false, refetchOnWindowFocus: true } as const
+
 export function useAppointmentsQuery(referralId: MaybeRefOrGetter<number>) {
+  const queryClient = useQueryClient()
   return useQuery({
     queryKey: computed(() => appointmentKeys.list(toValue(referralId))),
-    queryFn: () => listAppointments(toValue(referralId)),
+    queryFn: ({ queryKey }) => listAppointments(toValue(referralId), queryClient.getQueryData<{ rows: AppointmentView[] }>(queryKey)),
     refetchInterval: LIST_POLL_MS,
+    ...POLLING,
   })
 }
 
 export function useOutboxQuery(referralId: MaybeRefOrGetter<number>, enabled: MaybeRefOrGetter<boolean> = true) {
+  const queryClient = useQueryClient()
   return useQuery({
     queryKey: computed(() => appointmentKeys.outbox(toValue(referralId))),
-    queryFn: () => listOutbox(toValue(referralId)),
+    queryFn: ({ queryKey }) => listOutbox(toValue(referralId), queryClient.getQueryData<{ rows: OutboxRow[] }>(queryKey)),
     enabled: computed(() => toValue(enabled)),
     refetchInterval: OUTBOX_POLL_MS,
+    ...POLLING,
   })
 }
 
@@ -59,7 +70,13 @@ export function useInfusionSessionsQuery(range: MaybeRefOrGetter<{ from: string;
 }
 
 export function useTasksQuery() {
-  return useQuery({ queryKey: appointmentKeys.tasks(), queryFn: listTasks, refetchInterval: TASKS_POLL_MS })
+  const queryClient = useQueryClient()
+  return useQuery({
+    queryKey: appointmentKeys.tasks(),
+    queryFn: ({ queryKey }) => listTasks(queryClient.getQueryData<{ rows: PatientTask[] }>(queryKey)),
+    refetchInterval: TASKS_POLL_MS,
+    ...POLLING,
+  })
 }
 
 /** A booking changes the episode's list, its messages, the session's chairs and the worklist's next visit. */
