@@ -10,10 +10,8 @@ import {
   listOutbox,
   listTasks,
   moveAppointment,
-  type AppointmentView,
-  type OutboxRow,
-  type PatientTask,
 } from '@/api/appointments'
+import type { AppointmentView, OutboxRow, PatientTask } from '@shared/appointments/views'
 import { referralKeys } from './useReferrals'
 
 /** Appointments, their messages, the unit's sessions and patients' requests share one prefix. */
