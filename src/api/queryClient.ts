@@ -2,7 +2,7 @@ import { MutationCache, QueryClient } from '@tanstack/vue-query'
 import { isDatabaseUnavailable, retryDelayMs, shouldRetryRead } from './retryPolicy'
 
 /**
- * One client for the app; the router guard uses it too, to load the session once.
+ * One client for the app; the router guard uses it too, to drop cached data when a session ends.
  * Reads retry by themselves through an outage (retryPolicy.ts). Writes never retry on their own:
  * a change is made once, by the person; when the database was down, every screen shows that the
  * last change was not saved (AppUnsavedAlert), and the next change that goes through clears it.

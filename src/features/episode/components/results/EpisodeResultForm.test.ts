@@ -3,7 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import { flushPromises } from '@vue/test-utils'
 import InputNumber from 'primevue/inputnumber'
 import Select from 'primevue/select'
-import { answerFetch, mountInApp } from '../../../../../tests/helpers/component'
+import { answerFetch, mountInApp } from '@/testing/component'
 import EpisodeResultForm from './EpisodeResultForm.vue'
 
 afterEach(() => vi.unstubAllGlobals())
