@@ -4,7 +4,8 @@ import { makeStaff } from '../helpers/factories'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { ackCode, END, oru, rawExchange, send, VT } from '../helpers/hl7'
 import { Hl7MessageRow, Result } from '../../server/models/index'
-import { MllpListener } from '../../server/services/hl7/listener'
+import type { MllpListener } from '../../server/services/hl7/listener'
+import { startTestListener } from '../helpers/hl7Listener'
 
 let t: TestApp
 let listener: MllpListener
@@ -14,8 +15,7 @@ const MAX = 64 * 1024
 beforeAll(async () => {
   t = makeTestApp()
   // Small limits so the test is quick; the defaults (1 MB, 30 s, 300 s) are the same code path.
-  listener = new MllpListener(t.sequelize, { ...t.config, hl7: { ...t.config.hl7, enabled: true, port: 0, maxMessageBytes: MAX, partialTimeoutSeconds: 1, idleTimeoutSeconds: 3, maxConnections: 50 } })
-  port = await listener.start()
+  ;({ listener, port } = await startTestListener(t.sequelize, t.config, { maxMessageBytes: MAX, partialTimeoutSeconds: 1, idleTimeoutSeconds: 3, maxConnections: 50 }))
 })
 afterAll(async () => {
   await listener.stop()
