@@ -4,7 +4,8 @@ import { makeStaff } from '../helpers/factories'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { ackCode, ackError, controlId, hl7Ts, oru, send } from '../helpers/hl7'
 import { AuditEntry, Hl7MessageRow, Patient, Referral } from '../../server/models/index'
-import { MllpListener } from '../../server/services/hl7/listener'
+import type { MllpListener } from '../../server/services/hl7/listener'
+import { startTestListener } from '../helpers/hl7Listener'
 import { reprocess } from '../../server/services/hl7/inbox'
 import { referralFlags, addDays, todayIso, todayInZone } from '../../shared/pathway'
 
@@ -17,8 +18,7 @@ let ids: { procedureId: number; surgeonId: number }
 
 beforeAll(async () => {
   t = makeTestApp()
-  listener = new MllpListener(t.sequelize, { ...t.config, hl7: { ...t.config.hl7, enabled: true, port: 0 } })
-  port = await listener.start()
+  ;({ listener, port } = await startTestListener(t.sequelize, t.config))
 })
 afterAll(async () => {
   await listener.stop()

@@ -7,7 +7,8 @@ import { Client } from '../helpers/agent'
 import { loadDemoScenario } from '../../seed/load'
 import { DEMO_PASSWORD } from '../../seed/demo/staff'
 import { Hl7MessageRow } from '../../server/models/index'
-import { MllpListener } from '../../server/services/hl7/listener'
+import type { MllpListener } from '../../server/services/hl7/listener'
+import { startTestListener } from '../helpers/hl7Listener'
 
 const run = promisify(execFile)
 const root = path.resolve(import.meta.dirname, '../..')
@@ -19,8 +20,7 @@ beforeAll(async () => {
   t = makeTestApp()
   await cleanDatabase(t.sequelize)
   expect(await loadDemoScenario(t.sequelize)).toBe(true)
-  listener = new MllpListener(t.sequelize, { ...t.config, hl7: { ...t.config.hl7, enabled: true, port: 0 } })
-  port = await listener.start()
+  ;({ listener, port } = await startTestListener(t.sequelize, t.config))
 })
 afterAll(async () => {
   await listener.stop()

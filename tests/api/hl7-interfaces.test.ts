@@ -5,7 +5,8 @@ import { makeStaff } from '../helpers/factories'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { oru, send } from '../helpers/hl7'
 import { AuditEntry, Result } from '../../server/models/index'
-import { MllpListener } from '../../server/services/hl7/listener'
+import type { MllpListener } from '../../server/services/hl7/listener'
+import { startTestListener } from '../helpers/hl7Listener'
 
 let t: TestApp
 let listener: MllpListener
@@ -15,8 +16,7 @@ let nurse: Client
 
 beforeAll(async () => {
   t = makeTestApp()
-  listener = new MllpListener(t.sequelize, { ...t.config, hl7: { ...t.config.hl7, enabled: true, port: 0 } })
-  port = await listener.start()
+  ;({ listener, port } = await startTestListener(t.sequelize, t.config))
 })
 afterAll(async () => {
   await listener.stop()

@@ -4,7 +4,8 @@ import { makeStaff } from '../helpers/factories'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { ackCode, END, oru, rawExchange, send, VT } from '../helpers/hl7'
 import { Hl7MessageRow, Result } from '../../server/models/index'
-import { MllpListener } from '../../server/services/hl7/listener'
+import type { MllpListener } from '../../server/services/hl7/listener'
+import { startTestListener } from '../helpers/hl7Listener'
 
 let t: TestApp
 let listener: MllpListener
@@ -14,8 +15,7 @@ const MAX = 64 * 1024
 beforeAll(async () => {
   t = makeTestApp()
   // Small limits so the test is quick; the defaults (1 MB, 30 s, 300 s) are the same code path.
-  listener = new MllpListener(t.sequelize, { ...t.config, hl7: { ...t.config.hl7, enabled: true, port: 0, maxMessageBytes: MAX, partialTimeoutSeconds: 1, idleTimeoutSeconds: 3, maxConnections: 50 } })
-  port = await listener.start()
+  ;({ listener, port } = await startTestListener(t.sequelize, t.config, { maxMessageBytes: MAX, partialTimeoutSeconds: 1, idleTimeoutSeconds: 3, maxConnections: 50 }))
 })
 afterAll(async () => {
   await listener.stop()
@@ -101,5 +101,27 @@ describe('the MLLP listener and what it is sent', () => {
     expect(acks.flat().map(ackCode)).toEqual(Array(20).fill('AA'))
     expect(await Hl7MessageRow.count()).toBe(20)
     expect(await Result.count({ where: { source: 'hl7' } })).toBe(20)
+  })
+
+  it('when messages from many connections are stored together and some fail or repeat, then each gets its own answer and a resend changes nothing', async () => {
+    const base = Date.now() - 50 * 3600_000
+    const good = Array.from({ length: 8 }, (_, i) => oru({ mrn: 'HL71001', control: `GC-OK-${i}`, obx: [{ value: String(110 + i), at: new Date(base + i * 60_000) }] }))
+    const unknown = [0, 1].map((i) => oru({ mrn: 'HL79999', control: `GC-AE-${i}`, obx: [{ value: '99' }] }))
+    const old = oru({ mrn: 'HL71001', control: 'GC-AR', version: '2.2', obx: [{ value: '98' }] })
+    const dup = oru({ mrn: 'HL71001', control: 'GC-DUP', obx: [{ value: '97', at: new Date(base - 60_000) }] })
+    const all = [...good, ...unknown, old, dup, dup]
+    const first = (await Promise.all(all.map((m) => send(port, m)))).flat()
+    expect(first.map(ackCode)).toEqual([...Array(8).fill('AA'), 'AE', 'AE', 'AR', 'AA', 'AA'])
+    // The two copies sent at once get the very same answer; the message and its result are stored once.
+    expect(first[12]!.toString()).toBe(first[11]!.toString())
+    expect(await Hl7MessageRow.count()).toBe(12)
+    expect(await Hl7MessageRow.count({ where: { needsAttention: true } })).toBe(2)
+    expect(await Result.count({ where: { source: 'hl7' } })).toBe(9)
+    // Several messages went into one transaction, so the failures above were rolled back alone.
+    expect(listener.batchStats().largest).toBeGreaterThan(1)
+    const again = (await Promise.all(all.map((m) => send(port, m)))).flat()
+    expect(again.map((a) => a.toString())).toEqual(first.map((a) => a.toString()))
+    expect(await Hl7MessageRow.count()).toBe(12)
+    expect(await Result.count({ where: { source: 'hl7' } })).toBe(9)
   })
 })

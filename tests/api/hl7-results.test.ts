@@ -5,7 +5,8 @@ import { Client } from '../helpers/agent'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { ackCode, ackError, oru, send } from '../helpers/hl7'
 import { AuditEntry, Hl7MessageRow, Referral, Result } from '../../server/models/index'
-import { MllpListener } from '../../server/services/hl7/listener'
+import type { MllpListener } from '../../server/services/hl7/listener'
+import { startTestListener } from '../helpers/hl7Listener'
 import { reprocess } from '../../server/services/hl7/inbox'
 import { saveMapping } from '../../server/services/imports/mappings'
 import { addDays, todayIso } from '../../shared/pathway'
@@ -19,8 +20,7 @@ let procedureId: number
 
 beforeAll(async () => {
   t = makeTestApp()
-  listener = new MllpListener(t.sequelize, { ...t.config, hl7: { ...t.config.hl7, enabled: true, port: 0 } })
-  port = await listener.start()
+  ;({ listener, port } = await startTestListener(t.sequelize, t.config))
 })
 afterAll(async () => {
   await listener.stop()

@@ -6,7 +6,8 @@ import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { seriousViolations } from '../helpers/pathwayBrowser'
 import { ackCode, oru, send } from '../helpers/hl7'
-import { MllpListener } from '../../server/services/hl7/listener'
+import type { MllpListener } from '../../server/services/hl7/listener'
+import { startTestListener } from '../helpers/hl7Listener'
 import { addDays, todayIso } from '../../shared/pathway'
 
 let served: ServedApp
@@ -23,8 +24,7 @@ let referralId: number
 beforeAll(async () => {
   served = await serveBuiltApp()
   await cleanDatabase(served.sequelize)
-  listener = new MllpListener(served.sequelize, { ...served.config, hl7: { ...served.config.hl7, enabled: true, port: 0 } })
-  port = await listener.start()
+  ;({ listener, port } = await startTestListener(served.sequelize, served.config))
   nurse = await makeStaff('nurse')
   admin = await makeStaff('admin')
   surgeonId = (await makeStaff('surgeon')).id

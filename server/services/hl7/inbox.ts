@@ -10,6 +10,7 @@ import { readOru } from './oruRead'
 import { storeOru } from './oruStore'
 import { storeSiu } from './siu'
 import { storeAdt } from './adt'
+import { unitOfWork } from '../../unitOfWork'
 import type { Hl7Change } from '../../../shared/hl7'
 
 /** Message types Ferrolane takes (MSH-9 type^event). */
@@ -57,71 +58,98 @@ function mrnOf(msg: Hl7Message): string | null {
   return cut(msg.getSegment('PID')?.getComponent(3, 1) ?? '', 40) || null
 }
 
+interface Incoming { msg: Hl7Message; h: Header; raw: string; receivedAt: Date }
+
 /**
- * One message in, one ACK out. A control id already answered gets that answer again and
- * changes nothing. Otherwise the message row and everything it changes are written in one
- * transaction, so a message is stored exactly once with its effects or not at all; a message
- * that cannot be applied is kept (AE, in the attention queue; AR, refused) with the reason.
+ * One message in, one ACK out (a batch of one: see receiveBatch). Throws when the message could
+ * not be processed at all (nothing of it was stored).
  */
 export async function receive(sequelize: Sequelize, config: Config, msg: Hl7Message): Promise<string> {
-  const h = readHeader(msg)
-  const raw = msg.toString()
-  const receivedAt = new Date()
+  const [outcome] = await receiveBatch(sequelize, config, [msg])
+  if (outcome!.status === 'rejected') throw outcome!.reason
+  return outcome!.value
+}
+
+/**
+ * Messages in, their ACKs out, in order; all stored in one transaction (group commit: one commit
+ * and one log flush for the batch). Each message is behind its own savepoint, so one that cannot
+ * be applied (AE, AR) is rolled back alone and kept with its reason while the others are stored.
+ * A control id already answered gets that answer again and changes nothing; a message row and
+ * everything it changes are stored together or not at all. The ACKs exist only once the
+ * transaction has committed. A deadlock replays the batch (unitOfWork); any other failure rolls
+ * it back and each message is stored again alone, so only the one that fails gets an error.
+ */
+export async function receiveBatch(sequelize: Sequelize, config: Config, msgs: Hl7Message[]): Promise<PromiseSettledResult<string>[]> {
+  const incoming = msgs.map((msg): Incoming => ({ msg, h: readHeader(msg), raw: msg.toString(), receivedAt: new Date() }))
+  try {
+    const acks = await unitOfWork(sequelize, { idempotent: true }, async (t) => {
+      const out: string[] = []
+      for (const [i, m] of incoming.entries()) out.push(await storeInBatch(sequelize, config, m, i, t))
+      return out
+    })
+    return acks.map((value) => ({ status: 'fulfilled', value }))
+  } catch (err) {
+    if (msgs.length === 1) return [{ status: 'rejected', reason: err }]
+    const out: PromiseSettledResult<string>[] = []
+    for (const msg of msgs) out.push(...(await receiveBatch(sequelize, config, [msg])))
+    return out
+  }
+}
+
+async function storeInBatch(sequelize: Sequelize, config: Config, m: Incoming, n: number, t: Transaction): Promise<string> {
+  const { msg, h, raw, receivedAt } = m
   try {
     checkHeader(h)
   } catch (err) {
     const problem = err as Hl7Problem
     if (!h.controlId) return buildAck(msg, 'AR', problem)
-    return record(msg, h, raw, receivedAt, 'rejected', 'AR', problem)
+    return record(m, 'rejected', 'AR', problem, t)
   }
-  // A control id already answered is found by the unique key when its row is inserted (storeOnce):
-  // no separate look-up for every new message.
-  for (let attempt = 1; ; attempt++) {
-    try {
-      return await storeOnce(sequelize, config, msg, h, raw, receivedAt)
-    } catch (err) {
-      // Two messages for one episode at once can deadlock in MariaDB; the loser is simply run again.
-      if (attempt < 4 && isDeadlock(err)) continue
-      throw err
-    }
-  }
-}
-
-function isDeadlock(err: unknown): boolean {
-  const e = err as { parent?: { errno?: number } }
-  return e?.parent?.errno === 1213 || e?.parent?.errno === 1205
-}
-
-async function storeOnce(sequelize: Sequelize, config: Config, msg: Hl7Message, h: Header, raw: string, receivedAt: Date): Promise<string> {
+  // A control id already answered is found by the unique key when its row is inserted: no
+  // separate look-up for every new message.
+  const savepoint = `hl7_message_${n}`
+  await sequelize.query(`SAVEPOINT ${savepoint}`, { transaction: t })
   try {
-    return await sequelize.transaction(async (t) => {
-      const row = await Hl7MessageRow.create(
-        { receivedAt, controlId: h.controlId, sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, messageType: h.type, version: h.version, raw, outcome: 'stored', ackCode: 'AA', ack: '', errorCode: null, errorText: null, changes: null, patientMrn: mrnOf(msg), needsAttention: false, processedAt: receivedAt },
-        { transaction: t },
-      )
-      const changes = await apply(sequelize, config, msg, h, row.id, t)
-      const ack = buildAck(msg, 'AA')
-      await row.update({ outcome: changes.length ? 'stored' : 'nothing-new', ack, changes, processedAt: new Date() }, { transaction: t })
-      return ack
-    })
+    const row = await Hl7MessageRow.create(
+      { receivedAt, controlId: h.controlId, sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, messageType: h.type, version: h.version, raw, outcome: 'stored', ackCode: 'AA', ack: '', errorCode: null, errorText: null, changes: null, patientMrn: mrnOf(msg), needsAttention: false, processedAt: receivedAt },
+      { transaction: t },
+    )
+    const changes = await apply(sequelize, config, msg, h, row.id, t)
+    const ack = buildAck(msg, 'AA')
+    await row.update({ outcome: changes.length ? 'stored' : 'nothing-new', ack, changes, processedAt: new Date() }, { transaction: t })
+    return ack
   } catch (err) {
-    if (err instanceof UniqueConstraintError) return (await Hl7MessageRow.findOne({ where: { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }, attributes: ['ack'], raw: true }))?.ack ?? buildAck(msg, 'AA')
-    if (!(err instanceof Hl7Problem)) throw err
-    return record(msg, h, raw, receivedAt, err.ack === 'AE' ? 'error' : 'rejected', err.ack, err)
+    if (!(err instanceof UniqueConstraintError) && !(err instanceof Hl7Problem)) throw err
+    await sequelize.query(`ROLLBACK TO SAVEPOINT ${savepoint}`, { transaction: t })
+    if (err instanceof Hl7Problem) return record(m, err.ack === 'AE' ? 'error' : 'rejected', err.ack, err, t)
+    const earlier = await answered(h, t)
+    if (earlier === null) throw err // another unique key (a result's): the batch is stored again without it
+    return earlier
   }
 }
 
-async function record(msg: Hl7Message, h: Header, raw: string, receivedAt: Date, outcome: Hl7Outcome, code: AckCode, problem: Hl7Problem): Promise<string> {
+/**
+ * The ACK already given to this sender's control id: in this batch (the transaction's own rows)
+ * or committed by another transaction since this one began (a fresh read outside it).
+ */
+async function answered(h: Header, t: Transaction): Promise<string | null> {
+  const where = { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }
+  const row = (await Hl7MessageRow.findOne({ where, attributes: ['ack'], raw: true, transaction: t })) ?? (await Hl7MessageRow.findOne({ where, attributes: ['ack'], raw: true }))
+  return row?.ack ?? null
+}
+
+async function record(m: Incoming, outcome: Hl7Outcome, code: AckCode, problem: Hl7Problem, t: Transaction): Promise<string> {
+  const { msg, h, raw, receivedAt } = m
   const ack = buildAck(msg, code, problem)
   try {
     await Hl7MessageRow.create({
       receivedAt, controlId: h.controlId, sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, messageType: h.type, version: h.version, raw, outcome,
       ackCode: code, ack, errorCode: problem.code, errorText: problem.message.slice(0, 1000), changes: null, patientMrn: mrnOf(msg), needsAttention: code === 'AE', processedAt: new Date(),
-    })
+    }, { transaction: t })
     return ack
   } catch (err) {
-    // The same control id arrived twice at once: the first one's answer stands.
-    if (err instanceof UniqueConstraintError) return (await Hl7MessageRow.findOne({ where: { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }, attributes: ['ack'], raw: true }))?.ack ?? ack
+    // The same control id arrived twice: the first one's answer stands (a failed INSERT undoes only itself).
+    if (err instanceof UniqueConstraintError) return (await answered(h, t)) ?? ack
     throw err
   }
 }

@@ -5,7 +5,7 @@ import type { Sequelize } from 'sequelize'
 import type { Hl7ListenerState } from '../../../shared/hl7'
 import type { Config } from '../../config'
 import { buildAck, Hl7Problem, rejectUnreadable } from './ack'
-import { receive } from './inbox'
+import { GroupCommit } from './groupCommit'
 import { deleteExpired } from './messages'
 
 // MLLP's end of block (FS CR): counted only to measure and time the frame in progress.
@@ -33,8 +33,12 @@ export class MllpListener {
   private server: net.Server | null = null
   private readonly sockets = new Set<net.Socket>()
   private sweep: NodeJS.Timeout | null = null
+  // Messages waiting on any connection are stored together, one transaction per batch.
+  private readonly inbox: GroupCommit
 
-  constructor(private readonly sequelize: Sequelize, private readonly config: Config, private readonly log: (msg: string, err?: unknown) => void = () => {}) {}
+  constructor(private readonly sequelize: Sequelize, private readonly config: Config, private readonly log: (msg: string, err?: unknown) => void = () => {}) {
+    this.inbox = new GroupCommit(sequelize, config)
+  }
 
   async start(): Promise<number> {
     const server = net.createServer((socket) => this.accept(socket))
@@ -56,6 +60,11 @@ export class MllpListener {
     this.sweep = setInterval(sweep, 60 * 60_000)
     this.sweep.unref()
     return this.port()!
+  }
+
+  /** How group commit batched the messages so far (transactions, messages, the largest batch). */
+  batchStats(): { batches: number; messages: number; largest: number } {
+    return { ...this.inbox.stats }
   }
 
   port(): number | null {
@@ -84,19 +93,29 @@ export class MllpListener {
       this.sockets.delete(socket)
       if (partialTimer) clearTimeout(partialTimer)
     })
-    socket.setTimeout(limits.idleTimeoutSeconds * 1000, () => socket.destroy())
+    const idleMs = limits.idleTimeoutSeconds * 1000
+    socket.setTimeout(idleMs, () => socket.destroy())
+    // A connection waiting for its ACK is not idle: the wait is ours (its message may be in a batch behind others).
+    let unanswered = 0
+    const waiting = (delta: 1 | -1) => {
+      unanswered += delta
+      if (!socket.destroyed) socket.setTimeout(unanswered > 0 ? 0 : idleMs)
+    }
     let pending = 0
     let lastWasFs = false
     let partialTimer: NodeJS.Timeout | null = null
     let tooLarge = false
     // Registered before Hl7Connection's own listener, so an oversize frame is cut before it is buffered further.
     socket.on('data', (chunk: Buffer) => {
+      // Checked byte by byte: a whole oversize frame can arrive in one chunk (a busy machine joins the writes).
+      let over = false
       for (let i = 0; i < chunk.length; i++) {
         const b = chunk[i]!
         pending = lastWasFs && b === CR ? 0 : pending + 1
         lastWasFs = b === FS
+        if (pending > limits.maxMessageBytes + 1) over = true
       }
-      if (pending > limits.maxMessageBytes + 1) {
+      if (over || tooLarge) {
         if (tooLarge) return
         tooLarge = true
         conn.send(Hl7Message.parse(rejectUnreadable(`message exceeds ${limits.maxMessageBytes} bytes; connection closed`)))
@@ -114,15 +133,21 @@ export class MllpListener {
     const conn = new Hl7Connection(socket)
     let queue = Promise.resolve()
     conn.addEventListener('message', (event: Hl7MessageEvent) => {
+      // The parser may still frame an oversize message from the chunk that was refused above: it is never processed.
+      if (tooLarge) return
+      waiting(1)
       queue = queue.then(async () => {
         try {
-          const ack = await receive(this.sequelize, this.config, event.message)
+          // This connection's next message is handed over only after this one's ACK: its order is kept.
+          const ack = await this.inbox.submit(event.message)
           if (!socket.destroyed) conn.send(Hl7Message.parse(ack))
         } catch (err) {
           this.log('[hl7] message could not be processed', err)
           // Nothing was stored (the transaction rolled back): AE tells the sender to send it again.
           const problem = new Hl7Problem('AE', 'internal', 'the message could not be processed now; nothing was stored; send it again later')
           if (!socket.destroyed) conn.send(Hl7Message.parse(buildAck(event.message, 'AE', problem)))
+        } finally {
+          waiting(-1)
         }
       }).catch(this.lost(socket))
     })
