@@ -36,10 +36,21 @@ export function parseTestRef(ref: string): { file: string; title: string } | nul
   return m ? { file: m[1]!, title: m[2]! } : null
 }
 
+/** A title may be split into 'part ' + 'part' to keep lines at most 140 characters; the parts are joined. */
 function testTitles(source: string): Set<string> {
   const titles = new Set<string>()
-  const re = /\b(?:it|test)\(\s*(['"`])((?:\\.|(?!\1).)*)\1/g
-  for (const m of source.matchAll(re)) titles.add(m[2]!.replace(/\\(['"`\\])/g, '$1'))
+  const start = /\b(?:it|test)\(/g
+  const part = /\s*(['"`])((?:\\.|(?!\1).)*)\1\s*(\+)?/y
+  for (const m of source.matchAll(start)) {
+    let title = ''
+    let found = false
+    part.lastIndex = m.index! + m[0].length
+    for (let p = part.exec(source); p; p = p[3] ? part.exec(source) : null) {
+      title += p[2]!.replace(/\\(['"`\\])/g, '$1')
+      found = true
+    }
+    if (found) titles.add(title)
+  }
   return titles
 }
 
