@@ -93,9 +93,14 @@ export class ImportRun {
     return { ...this.s, batchId, committed: true, sameFileAs }
   }
 
+  /**
+   * Never throws, so the caller reports the error that made it give up (a lost database answers
+   * 503): after a failed COMMIT sequelize counts the transaction finished and refuses a rollback,
+   * and on a lost connection the rollback fails too; the server rolls back what its connection left.
+   */
   async abandon(): Promise<void> {
     const t = this.t
     this.t = null
-    if (t) await t.rollback()
+    if (t) await t.rollback().catch(() => undefined)
   }
 }
