@@ -1,26 +1,17 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
-import { ironResponse, type MeasuredHb, type TreatmentGiven } from '../../shared/clinic/evidence'
+import { responseFlags, type DoseGiven } from '../../shared/clinic/responseFlags'
 import { screenableSql } from '../models/result'
 import { worklistChanged } from './worklistCounts'
 import { clinicTimeZone } from './clinicDay'
 
-interface DoseRow { referralId: number; givenAt: Date | string; doseMg: number; route: 'iv' | 'oral' | null }
+interface DoseRow extends DoseGiven { referralId: number }
 interface HbRow { referralId: number; takenAt: Date | string; hbGL: number }
-
-/** The course given so far on one episode, as the verdict's evidence reads it. */
-function treatmentOf(doses: DoseRow[]): TreatmentGiven | null {
-  if (!doses.length) return null
-  return {
-    kind: doses[0]!.route ?? 'iv', firstDoseAt: doses[0]!.givenAt, lastDoseAt: doses[doses.length - 1]!.givenAt,
-    totalMg: doses.reduce((s, d) => s + d.doseMg, 0), deficitMg: null,
-  }
-}
 
 /**
  * Keeps the two response flags on the referral row (no response to IV iron; Hb falling after
  * iron), so the worklist can filter and count them with an index like every other flag. They
- * follow from measured Hb and doses only (ironResponse in shared/clinic/evidence.ts, the same
- * rule the verdict uses), so they change only when a result or a dose is written: every such
+ * follow from measured Hb and doses only (responseFlags in shared/clinic/responseFlags.ts, the
+ * same rule the verdict uses), so they change only when a result or a dose is written: every such
  * write calls this in its own transaction.
  */
 export async function refreshIronResponse(sequelize: Sequelize, referralIds: readonly number[], t: Transaction, chunk = 500): Promise<void> {
@@ -42,12 +33,12 @@ export async function refreshIronResponse(sequelize: Sequelize, referralIds: rea
       : []
     const groups = { none: [] as number[], noResponse: [] as number[], falling: [] as number[], both: [] as number[] }
     for (const id of ids) {
-      const r = ironResponse(
-        hb.filter((h) => h.referralId === id).map((h): MeasuredHb => ({ takenAt: h.takenAt, hbGL: Number(h.hbGL) })),
-        treatmentOf(doses.filter((d) => d.referralId === id)),
+      const f = responseFlags(
+        hb.filter((h) => h.referralId === id).map((h) => ({ takenAt: h.takenAt, hbGL: Number(h.hbGL) })),
+        doses.filter((d) => d.referralId === id),
         clinicTimeZone(),
       )
-      groups[r.nonResponse && r.falling ? 'both' : r.nonResponse ? 'noResponse' : r.falling ? 'falling' : 'none'].push(id)
+      groups[f.noResponseToIron && f.hbFallingAfterIron ? 'both' : f.noResponseToIron ? 'noResponse' : f.hbFallingAfterIron ? 'falling' : 'none'].push(id)
     }
     const set: Record<keyof typeof groups, [number, number]> = { none: [0, 0], noResponse: [1, 0], falling: [0, 1], both: [1, 1] }
     for (const [key, list] of Object.entries(groups) as [keyof typeof groups, number[]][]) {

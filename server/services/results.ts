@@ -1,15 +1,13 @@
-import { Op, type Sequelize, type Transaction } from 'sequelize'
-import { egfrFromCreatinine, tsatFromSample } from '../../shared/clinic/derivations'
-import { DERIVED_UNITS, ANALYTE_DEFS, dateInZone, isReadOnly, toCanonical, type Analyte } from '../../shared/pathway'
+import { Op, type Sequelize } from 'sequelize'
+import { isReadOnly, toCanonical, type Analyte } from '../../shared/pathway'
 import type { CreateResultInput } from '../../shared/schemas/results'
 import type { AddedResult, ResultView } from '../../shared/pathway/views'
 import { Patient, Referral, Result, User } from '../models/index'
-import { SCREENABLE_WHERE } from '../models/result'
 import { recordAudit } from './audit'
+import { deriveEgfr, deriveTsat, storeResult } from './resultStore'
 import { refreshScreening, screeningView } from './screening'
 import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer'
 import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
-import { clinicTimeZone } from './clinicDay'
 import { unitOfWork } from '../unitOfWork'
 
 export function toResultView(r: Result & { enteredByUser?: User | null }): ResultView {
@@ -34,36 +32,9 @@ export function toResultView(r: Result & { enteredByUser?: User | null }): Resul
   }
 }
 
-const SAMPLE_ANALYTES = ['iron', 'tibc', 'transferrin', 'tsat']
-
-export async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number | null }, t: Transaction): Promise<Result | null> {
-  const rows = await Result.findAll({
-    where: { referralId: base.referralId, takenAt: base.takenAt, analyte: { [Op.in]: SAMPLE_ANALYTES }, ...SCREENABLE_WHERE },
-    attributes: ['id', 'analyte', 'valueCanonical'], raw: true, transaction: t,
-  })
-  const tsat = clinical('value', () => tsatFromSample(rows))
-  if (!tsat) return null
-  return Result.create(
-    { ...base, analyte: 'tsat', valueCanonical: tsat.value, unitCanonical: DERIVED_UNITS.tsat, valueReported: null, unitReported: null, source: 'derived', derivedFrom: tsat.derivedFrom },
-    { transaction: t },
-  )
-}
-
-export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dateOfBirth' | 'sex'>, t: Transaction): Promise<Result | null> {
-  const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient))
-  if (egfr === null) return null
-  const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }
-  // Two creatinines of one sample can round to the same eGFR; one derived row says it.
-  if (await Result.findOne({ where: { ...same, voidedAt: null }, transaction: t })) return null
-  return Result.create(
-    { ...same, patientId: creatinine.patientId, unitCanonical: DERIVED_UNITS.egfr, valueReported: null, unitReported: null, enteredBy: creatinine.enteredBy, source: 'derived', derivedFrom: [creatinine.id] },
-    { transaction: t },
-  )
-}
-
 /**
  * Stores one result, derives what follows from it, and re-classifies the episode, all in one
- * transaction with its audit row. The referral row is locked so two results arriving at once
+ * transaction with its audit row, through the one result-persistence module (resultStore.ts). The referral row is locked so two results arriving at once
  * cannot leave a stale "latest Hb" behind.
  */
 export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId: number, input: CreateResultInput): Promise<AddedResult> {
@@ -86,10 +57,7 @@ export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId
     if (existing) {
       throw new Conflict('This result is already recorded for this episode (same test, time taken and value)', 'duplicate_result', { value: 'is already recorded for this sample' }, { resultId: existing.id })
     }
-    const result = await Result.create(
-      { ...base, analyte, valueCanonical: value, unitCanonical: ANALYTE_DEFS[analyte].canonicalUnit, valueReported: input.value, unitReported: input.unit, source: 'manual', derivedFrom: null },
-      { transaction: t },
-    )
+    const result = await storeResult({ ...base, analyte, valueCanonical: value, valueReported: input.value, unitReported: input.unit, source: 'manual' }, t)
     const derived: Result[] = []
     if (analyte === 'iron' || analyte === 'transferrin' || analyte === 'tibc') {
       const tsat = await deriveTsat(base, t)

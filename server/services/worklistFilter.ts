@@ -16,11 +16,11 @@ export const BY_DATE = 'r.planned_surgery_date'
 /**
  * The flags as SQL over columns of the referral row only (no subqueries), so each filter is an
  * index range. They mirror referralFlags() in shared/pathway/flags.ts, which labels each row;
- * the API tests check that the two agree. Instants are stored in UTC; the day an Hb was taken is
+ * tests/api/pathway-worklist-flag-sql.test.ts runs both on the same cases. Instants are stored in UTC; the day an Hb was taken is
  * read on the clinic's calendar by adding the zone's offset now (a sample from before a clock
  * change may be an hour off, which only matters within an hour of midnight).
  */
-const FLAG_SQL: Record<WorklistFlag, string> = {
+export const FLAG_SQL: Record<WorklistFlag, string> = {
   'surgery-soon-anaemic': `(r.anaemic = 1 AND r.planned_surgery_date BETWEEN :today AND :soon AND r.stage IN ${PRE_OP})`,
   'no-screening-result': `(r.latest_hb_at IS NULL AND r.stage IN ${PRE_OP})`,
   'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR ` +
@@ -29,6 +29,11 @@ const FLAG_SQL: Record<WorklistFlag, string> = {
   'date-change-requested': `(r.date_change_requested_at IS NOT NULL AND r.stage IN ${PRE_OP})`,
   'no-response-to-iron': `(r.no_response_to_iron = 1 AND r.stage IN ${PRE_OP})`,
   'hb-falling': `(r.hb_falling_after_iron = 1 AND r.stage IN ${PRE_OP})`,
+}
+
+/** The named values FLAG_SQL reads, for the clinic's day `today` in `timeZone`. */
+export function flagParams(today: string, timeZone: string, now = new Date()): Record<string, unknown> {
+  return { today, soon: addDays(today, SURGERY_SOON_DAYS), zoneOffsetMin: Math.round(zoneOffsetMs(now, timeZone) / 60_000) }
 }
 
 const likePrefix = (s: string) => `${s.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
@@ -54,7 +59,7 @@ export function worklistFilter(viewer: Viewer, q: WorklistFilterQuery): Worklist
   }
   const today = clinicToday()
   const where: string[] = []
-  const params: Record<string, unknown> = { today, soon: addDays(today, SURGERY_SOON_DAYS), zoneOffsetMin: Math.round(zoneOffsetMs(new Date(), clinicTimeZone()) / 60_000) }
+  const params: Record<string, unknown> = flagParams(today, clinicTimeZone())
   const surgeonId = seesOwnPatientsOnly(viewer.role) || q.mine ? viewer.userId : q.surgeonId
   if (surgeonId !== undefined) { where.push('r.surgeon_id = :surgeonId'); params.surgeonId = surgeonId }
   if (q.stage?.length) { where.push('r.stage IN (:stages)'); params.stages = q.stage }

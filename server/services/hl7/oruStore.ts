@@ -1,9 +1,8 @@
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
-import { ANALYTE_DEFS } from '../../../shared/pathway'
 import { Patient, Referral, Result } from '../../models/index'
 import { SCREENING_ANALYTES } from '../../../shared/clinic/screening'
 import { recordAudit, type Actor } from '../audit'
-import { deriveEgfr, deriveTsat } from '../results'
+import { deriveEgfr, deriveTsat, storeResult } from '../resultStore'
 import { refreshScreening, screeningView } from '../screening'
 import { Hl7Problem } from './ack'
 import type { ObxReading, OruGroup } from './oruRead'
@@ -63,11 +62,10 @@ async function applyObx(sequelize: Sequelize, o: ObxReading, ctx: { referralId: 
     note(status === 'corrected' ? 'result-corrected' : 'result-promoted', same.id)
     return changes
   }
-  const created = await Result.create({
-    ...sample, patientId: ctx.patientId, valueCanonical: r.valueCanonical, unitCanonical: ANALYTE_DEFS[r.analyte].canonicalUnit,
-    valueReported: r.value, unitReported: r.unit, enteredBy: null, source: 'hl7', derivedFrom: null, status, comparator: o.comparator, hl7MessageId: ctx.messageId,
-    referenceRange: o.range || null, abnormalFlags: o.flags || null,
-  }, { transaction: t })
+  const created = await storeResult({
+    ...sample, patientId: ctx.patientId, valueCanonical: r.valueCanonical, valueReported: r.value, unitReported: r.unit, enteredBy: null,
+    source: 'hl7', status, comparator: o.comparator, hl7MessageId: ctx.messageId, referenceRange: o.range || null, abnormalFlags: o.flags || null,
+  }, t)
   note(status === 'corrected' ? 'result-corrected' : 'result-added', created.id, `${o.comparator ?? ''}${r.value} ${r.unit}${status === 'preliminary' ? ' (preliminary)' : ''}`)
   return changes
 }

@@ -1,7 +1,8 @@
 import { QueryTypes, type Sequelize } from 'sequelize'
-import { AuditEntry, ImportBatch, User } from '../../models/index'
+import { ImportBatch, User } from '../../models/index'
 import { recordAudit } from '../audit'
 import { refreshScreeningMany } from '../screening'
+import { insertEpisodeAudit } from '../resultStore'
 import { isoOrNull, type Viewer } from '../viewer'
 import { NotFound, RuleRefused } from '../../errors'
 import type { BatchView } from '../../../shared/imports'
@@ -66,13 +67,9 @@ export async function reverseBatch(sequelize: Sequelize, viewer: Viewer, id: num
     await refreshScreeningMany(sequelize, affected.map((a) => a.referralId), t)
     await ImportBatch.update({ reversedAt: new Date(), reversedBy: viewer.userId, reversalReason: reason, resultsRemoved: removedCount }, { where: { id }, transaction: t })
     await recordAudit(t, viewer, { action: 'reverse', entity: 'import_batch', entityId: id, before: { accepted: batch.accepted }, after: { reason, resultsRemoved: removedCount, referrals: affected.length } })
-    // One row per episode, as before, but written a thousand at a time: a batch that reached
-    // 20 000 episodes cost 20 000 round trips inside the transaction.
-    const entries = affected.map((a) => ({
-      userId: viewer.userId, action: 'reverse-import', entity: 'referral', entityId: String(a.referralId), patientId: a.patientId,
-      before: null, after: { importBatchId: id, resultsRemoved: Number(a.n), reason }, requestId: viewer.requestId, ip: viewer.ip,
-    }))
-    for (let i = 0; i < entries.length; i += 1000) await AuditEntry.bulkCreate(entries.slice(i, i + 1000), { transaction: t })
+    // One row per episode, as before, written a thousand per INSERT (resultStore.ts).
+    const rows = affected.map((a) => ({ referralId: a.referralId, patientId: a.patientId, after: { importBatchId: id, resultsRemoved: Number(a.n), reason } }))
+    await insertEpisodeAudit(sequelize, viewer, rows, 'reverse-import', t)
   })
   return getBatch(id)
 }

@@ -5,8 +5,7 @@ import { ImportBatch } from '../../models/importBatch'
 import { recordAudit } from '../audit'
 import { isoOrNull, type Viewer } from '../viewer'
 import { matchChunk, type ChunkOutcome } from './match'
-import { deriveForBatch, insertRows, rescreenAndAudit, resultRows } from './store'
-
+import { deriveForBatch, insertResults, rescreenAndAudit } from '../resultStore'
 
 /**
  * One import, preview or commit, fed chunk by chunk. Both hold one transaction from the first
@@ -61,7 +60,11 @@ export class ImportRun {
       }
     }
     if (this.t && out.accepted.length) {
-      await insertRows(this.sequelize, resultRows(out.accepted, { batchId: this.batchId!, kind: this.opts.kind, userId: this.viewer.userId, now: new Date() }), this.t)
+      await insertResults(this.sequelize, out.accepted.map((m) => ({
+        referralId: m.referralId, patientId: m.patientId, analyte: m.reading.analyte, valueCanonical: m.reading.valueCanonical,
+        valueReported: m.reading.value, unitReported: m.reading.unit, takenAt: m.reading.takenAt, enteredBy: this.viewer.userId,
+        source: this.opts.kind, importBatchId: this.batchId,
+      })), this.t)
     }
     return out
   }

@@ -1,0 +1,178 @@
+import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
+import { ClinicalInputError, type Sex } from '../../shared/clinical'
+import { egfrFromCreatinine, tsatFromSample, type SampleRow } from '../../shared/clinic/derivations'
+import { ANALYTE_DEFS, DERIVED_UNITS, dateInZone, type StoredAnalyte } from '../../shared/pathway'
+import { Patient, Result } from '../models/index'
+import { SCREENABLE_WHERE, screenableSql, type ResultSource, type ResultStatus } from '../models/result'
+import { clinicTimeZone } from './clinicDay'
+import { refreshScreeningMany } from './screening'
+import { clinical, type Viewer } from './viewer'
+
+/**
+ * The one place results are written: typed-in (services/results.ts), CSV and FHIR imports
+ * (services/imports/run.ts) and HL7 (services/hl7/oruStore.ts) store rows, derive TSAT and eGFR
+ * and re-screen their episodes through these functions. The rules themselves are pure, in
+ * shared/clinic (derivations.ts, screening.ts); this module only reads and writes around them,
+ * in bulk where a path brings many rows.
+ */
+
+/** A result to store, as every entry path gives it (canonical value; what was reported beside it). */
+export interface NewResult {
+  referralId: number
+  patientId: number
+  analyte: StoredAnalyte
+  valueCanonical: number
+  valueReported: number | null
+  unitReported: string | null
+  takenAt: Date
+  enteredBy: number | null
+  source: ResultSource
+  derivedFrom?: number[] | null
+  importBatchId?: number | null
+  status?: ResultStatus
+  /** A laboratory feed's extras (HL7 OBX): '<' etc., the message, the range and flags as sent. */
+  comparator?: string | null
+  hl7MessageId?: number | null
+  referenceRange?: string | null
+  abnormalFlags?: string | null
+}
+
+const COLUMNS = `(referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported, taken_at, entered_by, source,
+  derived_from, import_batch_id, status, comparator, hl7_message_id, reference_range, abnormal_flags, created_at)`
+const PLACEHOLDERS = `(${new Array(18).fill('?').join(', ')})`
+const unitOf = (analyte: StoredAnalyte) => (analyte === 'tsat' || analyte === 'egfr' ? DERIVED_UNITS[analyte] : ANALYTE_DEFS[analyte].canonicalUnit)
+
+/**
+ * One multi-row INSERT per chunk (not one ORM call per row). The natural key (referral, analyte,
+ * time taken, value) is a unique index, so a row stored twice fails the whole chunk rather than
+ * slipping in: callers find duplicates first (by the natural key, in bulk for imports) and refuse or skip them.
+ */
+export async function insertResults(sequelize: Sequelize, rows: readonly NewResult[], t: Transaction, chunk = 1000): Promise<void> {
+  const now = new Date()
+  for (let i = 0; i < rows.length; i += chunk) {
+    const part = rows.slice(i, i + chunk)
+    const values = part.flatMap((r) => [
+      r.referralId, r.patientId, r.analyte, r.valueCanonical, unitOf(r.analyte), r.valueReported, r.unitReported, r.takenAt, r.enteredBy,
+      r.source, r.derivedFrom ? JSON.stringify(r.derivedFrom) : null, r.importBatchId ?? null, r.status ?? 'final',
+      r.comparator ?? null, r.hl7MessageId ?? null, r.referenceRange ?? null, r.abnormalFlags ?? null, now,
+    ])
+    await sequelize.query(`INSERT INTO results ${COLUMNS} VALUES ${part.map(() => PLACEHOLDERS).join(', ')}`, {
+      type: QueryTypes.INSERT, replacements: values, transaction: t,
+    })
+  }
+}
+
+/** One result whose row the caller needs back (typed-in, HL7): the same columns as insertResults. */
+export function storeResult(r: NewResult, t: Transaction): Promise<Result> {
+  return Result.create({ ...r, unitCanonical: unitOf(r.analyte), derivedFrom: r.derivedFrom ?? null }, { transaction: t })
+}
+
+/** TSAT for one sample of a typed-in or HL7 result, unless the laboratory reported one (shared/clinic/derivations.ts). */
+export async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number | null }, t: Transaction): Promise<Result | null> {
+  const rows = await Result.findAll({
+    where: { referralId: base.referralId, takenAt: base.takenAt, analyte: { [Op.in]: ['iron', 'tibc', 'transferrin', 'tsat'] }, ...SCREENABLE_WHERE },
+    attributes: ['id', 'analyte', 'valueCanonical'], raw: true, transaction: t,
+  })
+  const tsat = clinical('value', () => tsatFromSample(rows))
+  if (!tsat) return null
+  return storeResult({ ...base, analyte: 'tsat', valueCanonical: tsat.value, valueReported: null, unitReported: null, source: 'derived', derivedFrom: tsat.derivedFrom }, t)
+}
+
+/** eGFR from one creatinine (CKD-EPI 2021 in shared/clinic/derivations.ts); one derived row per sample and value. */
+export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dateOfBirth' | 'sex'>, t: Transaction): Promise<Result | null> {
+  const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient))
+  if (egfr === null) return null
+  const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }
+  // Two creatinines of one sample can round to the same eGFR; one derived row says it.
+  if (await Result.findOne({ where: { ...same, voidedAt: null }, transaction: t })) return null
+  return storeResult({ ...same, patientId: creatinine.patientId, valueReported: null, unitReported: null, enteredBy: creatinine.enteredBy, source: 'derived', derivedFrom: [creatinine.id] }, t)
+}
+
+/**
+ * What typed-in results derive, for a whole import batch: TSAT for each sample that now has iron
+ * and transferrin/TIBC but no TSAT, and eGFR for each creatinine. A sample whose iron exceeds its
+ * binding capacity gets no TSAT (counted as refused), where a typed-in one is refused with a 422.
+ */
+export async function deriveForBatch(sequelize: Sequelize, batchId: number, userId: number, t: Transaction): Promise<{ derived: number; refused: number }> {
+  const out: NewResult[] = []
+  let refused = 0
+  const creatinines = await sequelize.query<{ id: number; referralId: number; patientId: number; takenAt: Date; valueCanonical: number; dob: string | Date; sex: Sex }>(
+    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.taken_at AS takenAt, r.value_canonical AS valueCanonical, p.date_of_birth AS dob, p.sex
+     FROM results r JOIN patients p ON p.id = r.patient_id WHERE r.import_batch_id = ? AND r.analyte = 'creatinine'`,
+    { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },
+  )
+  const egfrKeys = new Set<string>()
+  const derived = { enteredBy: userId, source: 'derived' as const, valueReported: null, unitReported: null, importBatchId: batchId }
+  for (const c of creatinines) {
+    const dateOfBirth = c.dob instanceof Date ? c.dob.toISOString().slice(0, 10) : String(c.dob)
+    const takenAt = new Date(c.takenAt)
+    const egfr = egfrFromCreatinine(c.valueCanonical, dateInZone(takenAt, clinicTimeZone()), { dateOfBirth, sex: c.sex })
+    const key = `${c.referralId}|${takenAt.getTime()}|${egfr}`
+    if (egfr === null || egfrKeys.has(key)) continue
+    egfrKeys.add(key)
+    out.push({ ...derived, referralId: c.referralId, patientId: c.patientId, analyte: 'egfr', valueCanonical: egfr, takenAt, derivedFrom: [c.id] })
+  }
+  // Every iron-study row of each sample this batch touched, wherever it came from.
+  const samples = await sequelize.query<SampleRow & { referralId: number; patientId: number; takenAt: Date }>(
+    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.analyte, r.value_canonical AS valueCanonical, r.taken_at AS takenAt
+     FROM results r JOIN (SELECT DISTINCT referral_id, taken_at FROM results WHERE import_batch_id = ? AND analyte IN ('iron', 'tibc', 'transferrin')) d
+       ON d.referral_id = r.referral_id AND d.taken_at = r.taken_at
+     WHERE r.analyte IN ('iron', 'tibc', 'transferrin', 'tsat') AND ${screenableSql('r')}`,
+    { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },
+  )
+  const bySample = new Map<string, typeof samples>()
+  for (const s of samples) {
+    const key = `${s.referralId}|${new Date(s.takenAt).getTime()}`
+    bySample.set(key, [...(bySample.get(key) ?? []), s])
+  }
+  for (const rows of bySample.values()) {
+    try {
+      const tsat = tsatFromSample(rows)
+      if (tsat) out.push({ ...derived, referralId: rows[0]!.referralId, patientId: rows[0]!.patientId, analyte: 'tsat', valueCanonical: tsat.value, takenAt: new Date(rows[0]!.takenAt), derivedFrom: tsat.derivedFrom })
+    } catch (err) {
+      if (!(err instanceof ClinicalInputError)) throw err
+      refused += 1
+    }
+  }
+  await insertResults(sequelize, out, t)
+  return { derived: out.length, refused }
+}
+
+/**
+ * Re-screens every episode a bulk write touched, once per episode (not once per row), as a
+ * typed-in result does, and writes one audit row per episode (who put what into which patient's
+ * record) a thousand at a time. refreshScreeningMany says worklistChanged('referral', t).
+ */
+export async function rescreenAndAudit(
+  sequelize: Sequelize, viewer: Viewer, perReferral: Map<number, { patientId: number; count: number }>, t: Transaction,
+  audit: { action: string; batchId: number },
+): Promise<void> {
+  const ids = [...perReferral.keys()]
+  await refreshScreeningMany(sequelize, ids, t)
+  await insertEpisodeAudit(sequelize, viewer, ids.map((id) => ({
+    referralId: id, patientId: perReferral.get(id)!.patientId, after: { importBatchId: audit.batchId, results: perReferral.get(id)!.count },
+  })), audit.action, t)
+}
+
+/**
+ * One audit row per episode a bulk write touched, as recordAudit writes them (same columns, the
+ * caller's transaction), a thousand per INSERT: the ORM's bulkCreate built a model per row, which
+ * cost more than the rows' own insert for a 20 000-episode import or reversal. The table stays
+ * append-only by its database triggers.
+ */
+export async function insertEpisodeAudit(
+  sequelize: Sequelize, viewer: Viewer, rows: readonly { referralId: number; patientId: number; after: object }[], action: string, t: Transaction,
+): Promise<void> {
+  const at = new Date()
+  for (let i = 0; i < rows.length; i += 1000) {
+    const part = rows.slice(i, i + 1000)
+    await sequelize.query(
+      `INSERT INTO audit_entries (at, user_id, action, entity, entity_id, patient_id, \`before\`, \`after\`, request_id, ip)
+       VALUES ${part.map(() => "(?, ?, ?, 'referral', ?, ?, NULL, ?, ?, ?)").join(', ')}`,
+      {
+        type: QueryTypes.INSERT, transaction: t,
+        replacements: part.flatMap((r) => [at, viewer.userId, action, String(r.referralId), r.patientId, JSON.stringify(r.after), viewer.requestId, viewer.ip]),
+      },
+    )
+  }
+}
