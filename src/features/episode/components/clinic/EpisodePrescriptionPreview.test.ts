@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest'
 import { ironDosePlan } from '@shared/clinical/ironPlan'
 import type { IronProduct } from '@shared/clinical/ironProduct'
-import type { DosePlanPreview } from '@/api/clinicTypes'
+import type { DosePlanPreview } from '@shared/clinic/views'
 import { mountInApp } from '@/testing/component'
 import EpisodePrescriptionPreview from './EpisodePrescriptionPreview.vue'
 

@@ -3,7 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import { buildProjection } from '@shared/clinic/projection'
 import { DEFAULT_CLINIC_SETTINGS } from '@shared/clinic/settings'
 import { DECISION_SUPPORT_CAUTION, VERDICT_LABELS } from '@shared/clinic/readiness'
-import type { ReferralDetail } from '@/api/pathwayTypes'
+import type { ReferralDetail } from '@shared/pathway/views'
 import { answerFetch, mountInApp } from '@/testing/component'
 import EpisodeReadinessPanel from './EpisodeReadinessPanel.vue'
 
