@@ -23,7 +23,10 @@ export default tseslint.config(
       'no-undef': 'off',
       // An unused value is a finding; a name starting with "_" is a deliberate placeholder (a required
       // positional parameter, such as Express's error handler's `next`, or a rest-sibling left out).
-      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_', caughtErrors: 'none', ignoreRestSiblings: true }],
+      '@typescript-eslint/no-unused-vars': [
+        'error',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_', caughtErrors: 'none', ignoreRestSiblings: true },
+      ],
       // Prettier wraps lines at 140 where it can; this catches the rest (long strings, template literals,
       // comments), which are broken by hand. Only URLs may run longer: they cannot be broken.
       'max-len': ['error', { code: 140, ignoreUrls: true }],

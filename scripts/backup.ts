@@ -10,7 +10,9 @@ const into = process.argv[2] || process.env.BACKUP_DIR || 'backups'
 takeBackup(loadConfig(), into)
   .then((dir) => console.log(`[backup] written to ${dir}\n[backup] check it anywhere with: (cd ${dir} && sha256sum -c SHA256SUMS)`))
   .catch((err: unknown) => {
-    console.error(`[backup] failed: ` +
-        `${err instanceof BackupProblem || (err instanceof Error && err.message.startsWith('Configuration:')) ? err.message : String(err)}`)
+    console.error(
+      `[backup] failed: ` +
+        `${err instanceof BackupProblem || (err instanceof Error && err.message.startsWith('Configuration:')) ? err.message : String(err)}`,
+    )
     process.exitCode = 1
   })

@@ -22,7 +22,11 @@ const only = process.argv.slice(2)
 const wants = (part: string) => only.length === 0 || only.includes(part)
 
 function buildClient(outDir: string): void {
-  const r = spawnSync(path.join(repoRoot, 'node_modules/.bin/vite'), ['build', '--outDir', outDir, '--emptyOutDir', '--logLevel', 'error'], { cwd: repoRoot, stdio: 'inherit' })
+  const r = spawnSync(
+    path.join(repoRoot, 'node_modules/.bin/vite'),
+    ['build', '--outDir', outDir, '--emptyOutDir', '--logLevel', 'error'],
+    { cwd: repoRoot, stdio: 'inherit' },
+  )
   if (r.status !== 0) throw new Error('client build failed')
 }
 
@@ -33,20 +37,37 @@ async function main(): Promise<void> {
   if (wants('bundle')) console.log(JSON.stringify(await bundleReport(dist)))
   if (!['worklist', 'reports', 'imports', 'hl7', 'polls'].some(wants)) return
   const stack = await startStack({
-    label: 'bench', dataDir: benchDir, dbPort: intFromEnv('BENCH_DB_PORT', 3410),
-    dbName: 'ferrolane_bench', dbUser: 'ferrolane_bench', dbPassword: 'ferrolane-bench-only',
+    label: 'bench',
+    dataDir: benchDir,
+    dbPort: intFromEnv('BENCH_DB_PORT', 3410),
+    dbName: 'ferrolane_bench',
+    dbUser: 'ferrolane_bench',
+    dbPassword: 'ferrolane-bench-only',
     durability: 'relaxed', // a throw-away database, as in the tests
   })
   try {
-    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, SESSION_SECRET: 'ferrolane-bench-secret-not-for-production', SMTP_PORT: '1', ADMIN_SECOND_FACTOR_REQUIRED: 'false' }
+    const env: NodeJS.ProcessEnv = {
+      ...process.env,
+      ...stack.env,
+      SESSION_SECRET: 'ferrolane-bench-secret-not-for-production',
+      SMTP_PORT: '1',
+      ADMIN_SECOND_FACTOR_REQUIRED: 'false',
+    }
     if (process.env.BENCH_SERVER !== 'tsx') {
       const out = path.join(benchDir, 'dist-server')
-      if (spawnSync('bash', ['scripts/build-server.sh', out], { cwd: repoRoot, stdio: 'inherit' }).status !== 0) throw new Error('server build failed')
+      if (spawnSync('bash', ['scripts/build-server.sh', out], { cwd: repoRoot, stdio: 'inherit' }).status !== 0)
+        throw new Error('server build failed')
       env.BENCH_SERVER_ENTRY = path.join(out, 'server', 'index.js')
     }
     await prepareDatabase(env, { seedDemo: false })
     const t0 = Date.now()
-    const data = await loadBenchData({ host: '127.0.0.1', port: stack.mariadb.port, user: env.DB_USER!, password: env.DB_PASSWORD!, database: env.DB_NAME! })
+    const data = await loadBenchData({
+      host: '127.0.0.1',
+      port: stack.mariadb.port,
+      user: env.DB_USER!,
+      password: env.DB_PASSWORD!,
+      database: env.DB_NAME!,
+    })
     if (data.loaded) console.error(`[bench] loaded the bench database in ${((Date.now() - t0) / 1000).toFixed(1)} s`)
     const databasePid = Number(readFileSync(path.join(benchDir, 'mariadb.pid'), 'utf8').trim())
     if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail, databasePid)))

@@ -28,7 +28,9 @@ async function main(): Promise<void> {
 }
 
 main().catch((err: Error) => {
-  console.error(`hl7:send: ${err.message} (is Ferrolane running with HL7_MLLP_ENABLED, on ` +
-      `${process.env.HL7_MLLP_HOST ?? '127.0.0.1'}:${process.env.HL7_MLLP_PORT ?? 2575}?)`)
+  console.error(
+    `hl7:send: ${err.message} (is Ferrolane running with HL7_MLLP_ENABLED, on ` +
+      `${process.env.HL7_MLLP_HOST ?? '127.0.0.1'}:${process.env.HL7_MLLP_PORT ?? 2575}?)`,
+  )
   process.exit(1)
 })

@@ -58,7 +58,12 @@ async function main(): Promise<void> {
   process.on('SIGTERM', () => void stopAll('SIGTERM'))
 
   try {
-    const env: NodeJS.ProcessEnv = { ...process.env, ...stack.env, PORT: String(port), NODE_ENV: process.env.NODE_ENV || (dev ? 'development' : 'production') }
+    const env: NodeJS.ProcessEnv = {
+      ...process.env,
+      ...stack.env,
+      PORT: String(port),
+      NODE_ENV: process.env.NODE_ENV || (dev ? 'development' : 'production'),
+    }
     env.SESSION_SECRET ||= 'ferrolane-local-demo-secret-change-me-in-production'
     // npm start is the demo: the server skips its production refusals (and says so) for it.
     env.FERROLANE_DEMO ||= 'true'
@@ -70,7 +75,13 @@ async function main(): Promise<void> {
       directory = await startFakeIdentityProvider({
         port: intFromEnv('OIDC_FAKE_PORT', 9090),
         directory: DEMO_DIRECTORY,
-        clients: [{ ...DEMO_OIDC_CLIENT, redirectUris: [`${appUrl}/api/auth/oidc/callback`], postLogoutRedirectUris: [`${appUrl}/sign-in?signedOut=1`] }],
+        clients: [
+          {
+            ...DEMO_OIDC_CLIENT,
+            redirectUris: [`${appUrl}/api/auth/oidc/callback`],
+            postLogoutRedirectUris: [`${appUrl}/sign-in?signedOut=1`],
+          },
+        ],
       })
       Object.assign(env, {
         OIDC_ISSUER: directory.issuer,
@@ -110,12 +121,16 @@ async function main(): Promise<void> {
     console.log(`
   Ferrolane      http://127.0.0.1:${dev ? 5173 : port}
   maildev        http://127.0.0.1:${mailWebPort}   (every e-mail the app sends lands here)
-  HL7 MLLP       ${env.HL7_MLLP_HOST || "127.0.0.1"}:${env.HL7_MLLP_PORT || 2575}   (npm run hl7:send -- seed/hl7/*.hl7)
+  HL7 MLLP       ${env.HL7_MLLP_HOST || '127.0.0.1'}:${env.HL7_MLLP_PORT || 2575}   (npm run hl7:send -- seed/hl7/*.hl7)
   Demo sign-ins  (password for all: ${DEMO_PASSWORD})
 ${DEMO_ACCOUNTS.map((a) => `    ${a.role.padEnd(8)} ${a.email}`).join('\n')}
-${directory ? `  Directory      ${directory.issuer}   (fake identity provider; password for all: ${DEMO_DIRECTORY_PASSWORD})
+${
+  directory
+    ? `  Directory      ${directory.issuer}   (fake identity provider; password for all: ${DEMO_DIRECTORY_PASSWORD})
 ${DEMO_DIRECTORY.map((p) => `    ${p.email.padEnd(42)} ${p.groups.join(', ')}`).join('\n')}
-` : ''}  Ctrl-C stops everything.
+`
+    : ''
+}  Ctrl-C stops everything.
 `)
   } catch (err) {
     console.error('[start] failed:', err instanceof Error ? err.message : err)

@@ -11,8 +11,14 @@ import { startStack, repoRoot, intFromEnv } from './lib/stack'
 import { prepareDatabase } from './lib/prepare'
 import { demoClinicEnv } from '../seed/demo/hospital'
 
-interface Tally { passed: number; failed: number }
-interface Step { name: string; run: () => Promise<Tally> }
+interface Tally {
+  passed: number
+  failed: number
+}
+interface Step {
+  name: string
+  run: () => Promise<Tally>
+}
 
 // FERROLANE_TEST_DATA_DIR with the TEST_* ports lets two test runs share a machine.
 const dataDir = path.resolve(repoRoot, process.env.FERROLANE_TEST_DATA_DIR || '.test-data')
@@ -39,9 +45,18 @@ function vitestStep(name: string, project: string, env: NodeJS.ProcessEnv): Step
       rmSync(report, { force: true })
       // TEST_FILES narrows a run to some files while working (e.g. TEST_FILES=worklist npm test -- api).
       const files = (process.env.TEST_FILES ?? '').split(',').filter(Boolean)
-      const code = await exec(bin('vitest'), ['run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...files], env)
+      const code = await exec(
+        bin('vitest'),
+        ['run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...files],
+        env,
+      )
       if (!existsSync(report)) return { passed: 0, failed: 1 }
-      const r = JSON.parse(readFileSync(report, 'utf8')) as { numPassedTests: number; numFailedTests: number; numTotalTests: number; testResults: { status: string }[] }
+      const r = JSON.parse(readFileSync(report, 'utf8')) as {
+        numPassedTests: number
+        numFailedTests: number
+        numTotalTests: number
+        testResults: { status: string }[]
+      }
       // A file that fails to load has no tests in the count; it still fails the run.
       const brokenFiles = r.testResults.filter((f) => f.status === 'failed').length
       const failed = r.numFailedTests || (code !== 0 ? Math.max(1, brokenFiles) : 0)
@@ -99,13 +114,18 @@ async function main(): Promise<void> {
       vitestStep('unit', 'unit', env),
       // Built as npm start builds it: Vue's production template compiler refuses some code the test mode lets through.
       checkStep('build-server', 'bash', ['scripts/build-server.sh', serverDir], env),
-      checkStep('build', bin('vite'), ['build', '--outDir', distDir, '--emptyOutDir', '--logLevel', 'warn'], { ...env, NODE_ENV: 'production' }),
+      checkStep('build', bin('vite'), ['build', '--outDir', distDir, '--emptyOutDir', '--logLevel', 'warn'], {
+        ...env,
+        NODE_ENV: 'production',
+      }),
       vitestStep('api', 'api', env),
       vitestStep('e2e', 'e2e', env),
     ]
     for (const step of steps) {
       // The browser tests need the client build; the API tests start the compiled server.
-      const needed = (step.name === 'build' && only.includes('e2e')) || (step.name === 'build-server' && (only.includes('api') || only.includes('build')))
+      const needed =
+        (step.name === 'build' && only.includes('e2e')) ||
+        (step.name === 'build-server' && (only.includes('api') || only.includes('build')))
       if (only.length && !only.includes(step.name) && !needed) continue
       await runStep(step)
     }

@@ -153,19 +153,28 @@ const DEMO_PATIENT_ID_SYSTEM = 'https://kestrelvale.ferrolane.test/id/hospital-n
 
 function uri(env: Env, key: string, fallback: string): string {
   const raw = env[key] || fallback
-  if (!/^(https?:\/\/[^\s]+|urn:[a-z0-9][a-z0-9-]*:[^\s]+)$/i.test(raw)) throw new Error(`Configuration: ${key} must be an absolute URI (http(s):// or urn:) (got "${raw}")`)
+  if (!/^(https?:\/\/[^\s]+|urn:[a-z0-9][a-z0-9-]*:[^\s]+)$/i.test(raw))
+    throw new Error(`Configuration: ${key} must be an absolute URI (http(s):// or urn:) (got "${raw}")`)
   return raw
 }
 
 function groupRoles(raw: string): [string, Role][] {
-  const pairs = raw.split(',').map((p) => p.trim()).filter(Boolean).map((p) => {
-    const at = p.lastIndexOf('=')
-    const group = p.slice(0, at).trim()
-    const role = p.slice(at + 1).trim()
-    if (at <= 0 || !group || !isRole(role)) throw new Error(`Configuration: OIDC_GROUP_ROLES entries are Group=role with role one of admin, nurse, doctor, surgeon (got "${p}")`)
-    return [group, role] as [string, Role]
-  })
-  if (pairs.length === 0) throw new Error('Configuration: OIDC_GROUP_ROLES must map at least one directory group to a role when OIDC_ISSUER is set')
+  const pairs = raw
+    .split(',')
+    .map((p) => p.trim())
+    .filter(Boolean)
+    .map((p) => {
+      const at = p.lastIndexOf('=')
+      const group = p.slice(0, at).trim()
+      const role = p.slice(at + 1).trim()
+      if (at <= 0 || !group || !isRole(role))
+        throw new Error(
+          `Configuration: OIDC_GROUP_ROLES entries are Group=role with role one of admin, nurse, doctor, surgeon (got "${p}")`,
+        )
+      return [group, role] as [string, Role]
+    })
+  if (pairs.length === 0)
+    throw new Error('Configuration: OIDC_GROUP_ROLES must map at least one directory group to a role when OIDC_ISSUER is set')
   return pairs
 }
 
@@ -192,7 +201,8 @@ function oidc(env: Env, publicUrl: string): OidcConfig | null {
 
 function localSignIn(env: Env): LocalSignInMode {
   const raw = env.LOCAL_SIGN_IN || 'on'
-  if (!(LOCAL_SIGN_IN_MODES as readonly string[]).includes(raw)) throw new Error(`Configuration: LOCAL_SIGN_IN must be on, admins-only or off (got "${raw}")`)
+  if (!(LOCAL_SIGN_IN_MODES as readonly string[]).includes(raw))
+    throw new Error(`Configuration: LOCAL_SIGN_IN must be on, admins-only or off (got "${raw}")`)
   return raw as LocalSignInMode
 }
 
@@ -221,7 +231,8 @@ export function loadConfig(env: Env = process.env): Config {
   const publicUrl = (env.PUBLIC_URL || `http://127.0.0.1:${port}`).replace(/\/$/, '')
   const local = localSignIn(env)
   const oidcConfig = oidc(env, publicUrl)
-  if (local !== 'on' && !oidcConfig) throw new Error(`Configuration: LOCAL_SIGN_IN=${local} needs OIDC_ISSUER, or nobody but admins could sign in`)
+  if (local !== 'on' && !oidcConfig)
+    throw new Error(`Configuration: LOCAL_SIGN_IN=${local} needs OIDC_ISSUER, or nobody but admins could sign in`)
   return {
     env: nodeEnv,
     demo: bool(env, 'FERROLANE_DEMO', false),

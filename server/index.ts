@@ -53,8 +53,11 @@ async function main(): Promise<void> {
     // A real hospital's server refuses to start on development or demo settings.
     const problems = await productionProblems(config)
     if (problems.length) {
-      log.fatal({ problems }, `Ferrolane will not start in production:\n${problems.map((p) => `  - ${p}`).join('\n')}\n(npm start runs the demo: ` +
-          `FERROLANE_DEMO=true.)`)
+      log.fatal(
+        { problems },
+        `Ferrolane will not start in production:\n${problems.map((p) => `  - ${p}`).join('\n')}\n(npm start runs the demo: ` +
+          `FERROLANE_DEMO=true.)`,
+      )
       await sequelize.close()
       process.exit(1)
     }
@@ -69,7 +72,11 @@ async function main(): Promise<void> {
   outbox.start()
   // Laboratory results, theatre bookings and demographics over HL7 v2 (MLLP), in this process.
   // Loaded only when switched on: the HL7 library is not needed by a server without the listener.
-  const mllp = config.hl7.enabled ? new (await import('./services/hl7/listener')).MllpListener(sequelize, config, (m, err) => log.error({ component: 'hl7', ...(err === undefined ? {} : { err }) }, m)) : null
+  const mllp = config.hl7.enabled
+    ? new (await import('./services/hl7/listener')).MllpListener(sequelize, config, (m, err) =>
+        log.error({ component: 'hl7', ...(err === undefined ? {} : { err }) }, m),
+      )
+    : null
   if (mllp) {
     const mllpPort = await mllp.start()
     log.info({ port: mllpPort }, `HL7 MLLP listener on ${config.hl7.host}:${mllpPort}`)
@@ -95,6 +102,9 @@ async function main(): Promise<void> {
 
 main().catch((err) => {
   // A configuration mistake is written for the operator; its text holds no patient data.
-  log.fatal({ err, reason: err instanceof Error && err.message.startsWith('Configuration:') ? err.message : undefined }, 'Ferrolane could not start')
+  log.fatal(
+    { err, reason: err instanceof Error && err.message.startsWith('Configuration:') ? err.message : undefined },
+    'Ferrolane could not start',
+  )
   process.exit(1)
 })

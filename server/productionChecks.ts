@@ -15,9 +15,11 @@ export const DEVELOPMENT_DB_PASSWORD = 'ferrolane-local'
  */
 export function configProblems(config: Config): string[] {
   const problems: string[] = []
-  if (DEVELOPMENT_SECRETS.includes(config.session.secret)) problems.push('SESSION_SECRET is the development value: set a long random secret of your own')
+  if (DEVELOPMENT_SECRETS.includes(config.session.secret))
+    problems.push('SESSION_SECRET is the development value: set a long random secret of your own')
   if (!config.session.cookieSecure) problems.push('COOKIE_SECURE is off: serve Ferrolane over HTTPS and set COOKIE_SECURE=true')
-  if (config.db.password === DEVELOPMENT_DB_PASSWORD) problems.push('DB_PASSWORD is the development password: give the database account its own password')
+  if (config.db.password === DEVELOPMENT_DB_PASSWORD)
+    problems.push('DB_PASSWORD is the development password: give the database account its own password')
   const unset = (['name', 'phone', 'email'] as const).filter((k) => config.clinic[k] === CLINIC_NOT_SET[k])
   if (unset.length) {
     const names = unset.map((k) => `CLINIC_${k.toUpperCase()}`).join(', ')
@@ -25,10 +27,13 @@ export function configProblems(config: Config): string[] {
   }
   const demoClinic = (['name', 'phone', 'email'] as const).filter((k) => config.clinic[k] === DEMO_HOSPITAL[k])
   if (demoClinic.length) {
-    problems.push(`the clinic's ${demoClinic.join(', ')} ${demoClinic.length === 1 ? 'is' : 'are'} the invented demo hospital's: set ` +
-        `${demoClinic.map((k) => `CLINIC_${k.toUpperCase()}`).join(', ')}`)
+    problems.push(
+      `the clinic's ${demoClinic.join(', ')} ${demoClinic.length === 1 ? 'is' : 'are'} the invented demo hospital's: set ` +
+        `${demoClinic.map((k) => `CLINIC_${k.toUpperCase()}`).join(', ')}`,
+    )
   }
-  if (config.passwords.scryptLog2N < OWASP_LOG2N) problems.push(`PASSWORD_SCRYPT_LOG2N is ${config.passwords.scryptLog2N}: OWASP asks for at least ${OWASP_LOG2N}`)
+  if (config.passwords.scryptLog2N < OWASP_LOG2N)
+    problems.push(`PASSWORD_SCRYPT_LOG2N is ${config.passwords.scryptLog2N}: OWASP asks for at least ${OWASP_LOG2N}`)
   return problems
 }
 
@@ -36,7 +41,9 @@ export function configProblems(config: Config): string[] {
 export async function demoAccountProblems(): Promise<string[]> {
   const emails = [...DEMO_ACCOUNTS, ...DEMO_COLLEAGUES].map((a) => a.email)
   const found = await User.findAll({ where: { email: { [Op.in]: emails } }, attributes: ['email'], raw: true })
-  return found.length ? [`the demo accounts exist in this database (${found.map((u) => u.email).join(', ')}): remove them; their password is public`] : []
+  return found.length
+    ? [`the demo accounts exist in this database (${found.map((u) => u.email).join(', ')}): remove them; their password is public`]
+    : []
 }
 
 /** Everything that stops a production start, config first (no database needed for those). */

@@ -33,5 +33,7 @@ export const LIMITS = {
  * `what` names the window in the message, e.g. "The report period".
  */
 export function windowTooLong(from: string, to: string, maxDays: number, what: string): string | null {
-  return daysBetween(from, to) + 1 > maxDays ? `${what} from ${from} to ${to} is longer than the limit of ${maxDays} days; choose a shorter one` : null
+  return daysBetween(from, to) + 1 > maxDays
+    ? `${what} from ${from} to ${to} is longer than the limit of ${maxDays} days; choose a shorter one`
+    : null
 }

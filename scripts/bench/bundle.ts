@@ -4,14 +4,22 @@ import { gzipSync } from 'node:zlib'
 import path from 'node:path'
 import { signInFetched } from './signInFetch'
 
-interface ManifestChunk { file: string; src?: string; isEntry?: boolean; imports?: string[]; css?: string[] }
+interface ManifestChunk {
+  file: string
+  src?: string
+  isEntry?: boolean
+  imports?: string[]
+  css?: string[]
+}
 type Manifest = Record<string, ManifestChunk>
 
 async function fetchedKeys(distDir: string) {
   const f = await signInFetched(distDir)
   return {
-    signInFetchedJsGzipKB: f.atLoadKB, signInFetchedScripts: f.scripts,
-    signInAfterSubmitJsGzipKB: f.afterSubmitKB, fetchedWithinBudget: f.atLoadKB <= 120,
+    signInFetchedJsGzipKB: f.atLoadKB,
+    signInFetchedScripts: f.scripts,
+    signInAfterSubmitJsGzipKB: f.afterSubmitKB,
+    fetchedWithinBudget: f.atLoadKB <= 120,
   }
 }
 

@@ -42,7 +42,10 @@ type Db = Connection
 async function mllpReady(port: number): Promise<void> {
   for (let i = 0; ; i++) {
     const open = await new Promise<boolean>((resolve) => {
-      const s = net.connect(port, '127.0.0.1', () => { s.destroy(); resolve(true) })
+      const s = net.connect(port, '127.0.0.1', () => {
+        s.destroy()
+        resolve(true)
+      })
       s.on('error', () => resolve(false))
     })
     if (open) return
@@ -58,7 +61,9 @@ async function expectedStored(conn: Db): Promise<number> {
   for (let i = 0; i < mrns.length; i += 2000) {
     const rows: { mrn: string }[] = await conn.query(
       `SELECT DISTINCT p.mrn FROM patients p JOIN referrals r ON r.patient_id = p.id WHERE r.stage NOT IN ('closed', ` +
-        `'withdrawn') AND p.mrn IN (?)`, [mrns.slice(i, i + 2000)])
+        `'withdrawn') AND p.mrn IN (?)`,
+      [mrns.slice(i, i + 2000)],
+    )
     rows.forEach((r) => open.add(r.mrn))
   }
   return mrns.filter((m) => open.has(m)).length
@@ -78,17 +83,34 @@ async function baseline(conn: Db): Promise<{ selectOnePerSecond: number; loadAve
 /** What the database holds for this run: each count worked out independently of the ACKs. */
 async function verify(conn: Db, run: string) {
   const like = `${run}-%`
-  const [m] = await conn.query(`SELECT COUNT(*) AS n, COUNT(DISTINCT control_id) AS d, SUM(ack_code = 'AA') AS aa FROM hl7_messages WHERE control_id LIKE ?`, [like])
-  const [r] = await conn.query(`SELECT COUNT(*) AS n FROM results r JOIN hl7_messages h ON h.id = r.hl7_message_id WHERE h.control_id LIKE ? AND r.source = 'hl7'`, [like])
+  const [m] = await conn.query(
+    `SELECT COUNT(*) AS n, COUNT(DISTINCT control_id) AS d, SUM(ack_code = 'AA') AS aa FROM hl7_messages WHERE control_id LIKE ?`,
+    [like],
+  )
+  const [r] = await conn.query(
+    `SELECT COUNT(*) AS n FROM results r JOIN hl7_messages h ON h.id = r.hl7_message_id WHERE h.control_id LIKE ? AND r.source = 'hl7'`,
+    [like],
+  )
   // The results' natural key (episode, test, time taken, value) holds no row twice.
   const [dup] = await conn.query(
     `SELECT COUNT(*) AS n FROM (SELECT r.referral_id FROM results r JOIN hl7_messages h ON h.id = r.hl7_message_id WHERE h.control_id LIKE ?
-       GROUP BY r.referral_id, r.analyte, r.taken_at, r.value_canonical HAVING COUNT(*) > 1) d`, [like])
+       GROUP BY r.referral_id, r.analyte, r.taken_at, r.value_canonical HAVING COUNT(*) > 1) d`,
+    [like],
+  )
   // Every stored message brought exactly one result (each bench message has one OBX).
   const [odd] = await conn.query(
     `SELECT COUNT(*) AS n FROM hl7_messages h WHERE h.control_id LIKE ? AND h.ack_code = 'AA' AND (SELECT COUNT(*) FROM results ` +
-      `r WHERE r.hl7_message_id = h.id) <> 1`, [like])
-  return { messages: Number(m.n), distinctControlIds: Number(m.d), storedAA: Number(m.aa), results: Number(r.n), duplicateResults: Number(dup.n), storedMessagesWithoutOneResult: Number(odd.n) }
+      `r WHERE r.hl7_message_id = h.id) <> 1`,
+    [like],
+  )
+  return {
+    messages: Number(m.n),
+    distinctControlIds: Number(m.d),
+    storedAA: Number(m.aa),
+    results: Number(r.n),
+    duplicateResults: Number(dup.n),
+    storedMessagesWithoutOneResult: Number(odd.n),
+  }
 }
 
 /**
@@ -99,23 +121,32 @@ async function verify(conn: Db, run: string) {
 async function resendFirst(run: string, base: number, firstAcks: Map<number, string>, count: () => ReturnType<typeof verify>) {
   const before = await count()
   let sameAcks = 0
-  await Promise.all(Array.from({ length: CONNECTIONS }, async (_, c) => {
-    const client = new Hl7Client({ host: '127.0.0.1', port: MLLP_PORT })
-    try {
-      for (let i = c; i < RESENT; i += CONNECTIONS) {
-        const ack = await client.sendAndWait(Hl7Message.parse(message(run, i, base)), { timeoutMs: 30_000 })
-        if (ack.toString() === firstAcks.get(i)) sameAcks += 1
+  await Promise.all(
+    Array.from({ length: CONNECTIONS }, async (_, c) => {
+      const client = new Hl7Client({ host: '127.0.0.1', port: MLLP_PORT })
+      try {
+        for (let i = c; i < RESENT; i += CONNECTIONS) {
+          const ack = await client.sendAndWait(Hl7Message.parse(message(run, i, base)), { timeoutMs: 30_000 })
+          if (ack.toString() === firstAcks.get(i)) sameAcks += 1
+        }
+      } finally {
+        await client.close()
       }
-    } finally {
-      await client.close()
-    }
-  }))
+    }),
+  )
   const after = await count()
   return { messages: RESENT, sameAcks, unchanged: JSON.stringify(before) === JSON.stringify(after) }
 }
 
 export async function benchHl7(env: NodeJS.ProcessEnv) {
-  const db = () => mariadb.createConnection({ host: '127.0.0.1', port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME })
+  const db = () =>
+    mariadb.createConnection({
+      host: '127.0.0.1',
+      port: Number(env.DB_PORT),
+      user: env.DB_USER,
+      password: env.DB_PASSWORD,
+      database: env.DB_NAME,
+    })
   const pre = await db()
   let expected: number
   let before: Awaited<ReturnType<typeof baseline>>
@@ -125,7 +156,10 @@ export async function benchHl7(env: NodeJS.ProcessEnv) {
   } finally {
     await pre.end()
   }
-  const server = await startBenchServer({ ...env, HL7_MLLP_ENABLED: 'true', HL7_MLLP_PORT: String(MLLP_PORT), HL7_ASSIGNING_AUTHORITY: 'KVH' }, HTTP_PORT)
+  const server = await startBenchServer(
+    { ...env, HL7_MLLP_ENABLED: 'true', HL7_MLLP_PORT: String(MLLP_PORT), HL7_ASSIGNING_AUTHORITY: 'KVH' },
+    HTTP_PORT,
+  )
   await mllpReady(MLLP_PORT)
   const run = `B${Date.now().toString(36)}`
   const base = Date.now() - 300 * 86_400_000
@@ -135,21 +169,23 @@ export async function benchHl7(env: NodeJS.ProcessEnv) {
   try {
     const cpu0 = cpuMs(server.pid)
     const t0 = performance.now()
-    await Promise.all(Array.from({ length: CONNECTIONS }, async (_, c) => {
-      const client = new Hl7Client({ host: '127.0.0.1', port: MLLP_PORT })
-      try {
-        for (let i = c; i < MESSAGES; i += CONNECTIONS) {
-          const s = performance.now()
-          const ack = await client.sendAndWait(Hl7Message.parse(message(run, i, base)), { timeoutMs: 30_000 })
-          latencies.push(performance.now() - s)
-          if (i < RESENT) firstAcks.set(i, ack.toString())
-          const code = ack.getSegment('MSA')?.getComponent(1, 1) ?? '??'
-          codes[code] = (codes[code] ?? 0) + 1
+    await Promise.all(
+      Array.from({ length: CONNECTIONS }, async (_, c) => {
+        const client = new Hl7Client({ host: '127.0.0.1', port: MLLP_PORT })
+        try {
+          for (let i = c; i < MESSAGES; i += CONNECTIONS) {
+            const s = performance.now()
+            const ack = await client.sendAndWait(Hl7Message.parse(message(run, i, base)), { timeoutMs: 30_000 })
+            latencies.push(performance.now() - s)
+            if (i < RESENT) firstAcks.set(i, ack.toString())
+            const code = ack.getSegment('MSA')?.getComponent(1, 1) ?? '??'
+            codes[code] = (codes[code] ?? 0) + 1
+          }
+        } finally {
+          await client.close()
         }
-      } finally {
-        await client.close()
-      }
-    }))
+      }),
+    )
     const seconds = (performance.now() - t0) / 1000
     const cpu = cpuMs(server.pid) - cpu0
     latencies.sort((a, b) => a - b)
@@ -165,15 +201,39 @@ export async function benchHl7(env: NodeJS.ProcessEnv) {
       await conn.end()
     }
     const perSecond = Math.round(MESSAGES / seconds)
-    const exactlyOnce = stored.messages === MESSAGES && stored.distinctControlIds === MESSAGES && stored.storedAA === expected && (codes.AA ?? 0) === expected &&
-      stored.results === expected && stored.duplicateResults === 0 && stored.storedMessagesWithoutOneResult === 0 && resend.sameAcks === RESENT && resend.unchanged
+    const exactlyOnce =
+      stored.messages === MESSAGES &&
+      stored.distinctControlIds === MESSAGES &&
+      stored.storedAA === expected &&
+      (codes.AA ?? 0) === expected &&
+      stored.results === expected &&
+      stored.duplicateResults === 0 &&
+      stored.storedMessagesWithoutOneResult === 0 &&
+      resend.sameAcks === RESENT &&
+      resend.unchanged
     return {
-      bench: 'hl7', messages: MESSAGES, connections: CONNECTIONS, seconds: Math.round(seconds * 10) / 10, perSecond,
-      p95AckMs: Math.round(latencies[Math.floor(latencies.length * 0.95)]!), p50AckMs: Math.round(latencies[Math.floor(latencies.length * 0.5)]!),
-      acks: codes, expectedAA: expected, stored, resend, serverCpuMsPerMessage: Math.round((cpu / MESSAGES) * 100) / 100, serverRssMb: memoryMb(server.pid).rssMb,
+      bench: 'hl7',
+      messages: MESSAGES,
+      connections: CONNECTIONS,
+      seconds: Math.round(seconds * 10) / 10,
+      perSecond,
+      p95AckMs: Math.round(latencies[Math.floor(latencies.length * 0.95)]!),
+      p50AckMs: Math.round(latencies[Math.floor(latencies.length * 0.5)]!),
+      acks: codes,
+      expectedAA: expected,
+      stored,
+      resend,
+      serverCpuMsPerMessage: Math.round((cpu / MESSAGES) * 100) / 100,
+      serverRssMb: memoryMb(server.pid).rssMb,
       // Messages per second for every 1000 plain round trips per second the machine managed in this run.
-      baseline: { before, after, perSecondPer1000RoundTrips: Math.round((perSecond / ((before.selectOnePerSecond + after.selectOnePerSecond) / 2)) * 1000 * 10) / 10 },
-      targets: { minPerSecond: TARGET_PER_SECOND, exactlyOnce: true }, met: perSecond >= TARGET_PER_SECOND && exactlyOnce, exactlyOnce,
+      baseline: {
+        before,
+        after,
+        perSecondPer1000RoundTrips: Math.round((perSecond / ((before.selectOnePerSecond + after.selectOnePerSecond) / 2)) * 1000 * 10) / 10,
+      },
+      targets: { minPerSecond: TARGET_PER_SECOND, exactlyOnce: true },
+      met: perSecond >= TARGET_PER_SECOND && exactlyOnce,
+      exactlyOnce,
     }
   } finally {
     await server.stop()

@@ -34,7 +34,10 @@ function writeCsv(file: string, rows: number): void {
     const [code, unit, value] = codes[i % codes.length]!
     const mrn = i % 100 === 99 ? `ZZ${String(i).padStart(7, '0')}` : `BN${String(i % BENCH_SIZE.patients).padStart(7, '0')}`
     buf += `${mrn},${code},${value(i)},${unit},${new Date(base + i * 7000).toISOString().replace('.000Z', 'Z')}\n`
-    if (buf.length > 64 * 1024) { writeSync(fd, buf); buf = '' }
+    if (buf.length > 64 * 1024) {
+      writeSync(fd, buf)
+      buf = ''
+    }
   }
   writeSync(fd, buf)
   closeSync(fd)
@@ -52,7 +55,12 @@ function codeMatching(): { rows: number; codes: number; ms: number; normalisatio
   const before = codeWork.squashed
   const t0 = performance.now()
   for (let i = 0; i < 1000; i++) {
-    checkCsvRecord({ mrn: `M${i}`, test_code: `LAB-${i}`, value: '120', unit: 'g/L', taken_at: '2026-01-05T09:00:00Z' }, mapping, 'Europe/London', Date.now())
+    checkCsvRecord(
+      { mrn: `M${i}`, test_code: `LAB-${i}`, value: '120', unit: 'g/L', taken_at: '2026-01-05T09:00:00Z' },
+      mapping,
+      'Europe/London',
+      Date.now(),
+    )
   }
   return { rows: 1000, codes: 5000, ms: Math.round(performance.now() - t0), normalisations: codeWork.squashed - before }
 }
@@ -62,13 +70,22 @@ async function csrf(url: string, cookie: string): Promise<string> {
   return ((await res.json()) as { csrfToken: string }).csrfToken
 }
 
-async function upload(url: string, cookie: string, file: string, commit: boolean): Promise<{ ms: number; body: { batchId?: number; accepted: number; skippedTotal: number; rowsRead: number } }> {
+async function upload(
+  url: string,
+  cookie: string,
+  file: string,
+  commit: boolean,
+): Promise<{ ms: number; body: { batchId?: number; accepted: number; skippedTotal: number; rowsRead: number } }> {
   const form = new FormData()
   form.append('commit', String(commit))
   form.append('source', 'Bench laboratory')
   form.append('file', await openAsBlob(file, { type: 'text/csv' }), path.basename(file))
   const t0 = performance.now()
-  const res = await fetch(`${url}/api/imports/lab-results`, { method: 'POST', headers: { cookie, 'x-csrf-token': await csrf(url, cookie) }, body: form })
+  const res = await fetch(`${url}/api/imports/lab-results`, {
+    method: 'POST',
+    headers: { cookie, 'x-csrf-token': await csrf(url, cookie) },
+    body: form,
+  })
   const body = (await res.json()) as { batchId?: number; accepted: number; skippedTotal: number; rowsRead: number }
   const ms = Math.round(performance.now() - t0)
   if (!res.ok) throw new Error(`import ${commit ? 'commit' : 'preview'} failed: ${res.status} ${JSON.stringify(body)}`)
@@ -79,7 +96,16 @@ export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, d
   const matching = codeMatching()
   const server = await startBenchServer(env, 8099)
   // rssBeforeMb beside peakRssMb shows how far one file raises the server's memory.
-  const runs: { rows: number; previewMs: number; commitMs: number; peakRssMb: number; rssBeforeMb: number; accepted: number; skipped: number; reverseMs: number }[] = []
+  const runs: {
+    rows: number
+    previewMs: number
+    commitMs: number
+    peakRssMb: number
+    rssBeforeMb: number
+    accepted: number
+    skipped: number
+    reverseMs: number
+  }[] = []
   try {
     const nurse = await signIn(server.url, nurseEmail, BENCH_PASSWORD)
     for (const rows of SIZES) {
@@ -87,18 +113,31 @@ export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, d
       writeCsv(file, rows)
       const rssBeforeMb = memoryMb(server.pid).rssMb
       let peak = rssBeforeMb
-      const sampler = setInterval(() => { peak = Math.max(peak, memoryMb(server.pid).rssMb) }, 100)
+      const sampler = setInterval(() => {
+        peak = Math.max(peak, memoryMb(server.pid).rssMb)
+      }, 100)
       try {
         const preview = await upload(server.url, nurse, file, false)
         const commit = await upload(server.url, nurse, file, true)
-        if (commit.body.accepted !== preview.body.accepted) throw new Error(`preview accepted ${preview.body.accepted} but the commit stored ${commit.body.accepted}`)
+        if (commit.body.accepted !== preview.body.accepted)
+          throw new Error(`preview accepted ${preview.body.accepted} but the commit stored ${commit.body.accepted}`)
         const t0 = performance.now()
         const rev = await fetch(`${server.url}/api/imports/${commit.body.batchId}/reversal`, {
-          method: 'POST', headers: { cookie: nurse, 'x-csrf-token': await csrf(server.url, nurse), 'content-type': 'application/json' },
+          method: 'POST',
+          headers: { cookie: nurse, 'x-csrf-token': await csrf(server.url, nurse), 'content-type': 'application/json' },
           body: JSON.stringify({ reason: 'bench run: taken back out so the next run starts clean' }),
         })
         if (!rev.ok) throw new Error(`reversal failed: ${rev.status} ${await rev.text()}`)
-        runs.push({ rows, previewMs: preview.ms, commitMs: commit.ms, peakRssMb: peak, rssBeforeMb, accepted: commit.body.accepted, skipped: commit.body.skippedTotal, reverseMs: Math.round(performance.now() - t0) })
+        runs.push({
+          rows,
+          previewMs: preview.ms,
+          commitMs: commit.ms,
+          peakRssMb: peak,
+          rssBeforeMb,
+          accepted: commit.body.accepted,
+          skipped: commit.body.skippedTotal,
+          reverseMs: Math.round(performance.now() - t0),
+        })
       } finally {
         clearInterval(sampler)
         rmSync(file, { force: true })

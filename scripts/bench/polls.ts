@@ -15,16 +15,33 @@ const WATCH_S = Number(process.env.BENCH_POLL_SECONDS || 60)
 const HIDDEN_S = Math.min(30, WATCH_S)
 const DOCTOR = 'bench.doctor@ferrolane.test'
 
-interface Tally { requests: number; notModified: number; bytes: number }
+interface Tally {
+  requests: number
+  notModified: number
+  bytes: number
+}
 
 /** The bench database has nurses and surgeons only; the doctor is added once, with the same password. */
 async function prepareDoctor(env: NodeJS.ProcessEnv): Promise<number> {
-  const conn = await mariadb.createConnection({ host: '127.0.0.1', port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME })
+  const conn = await mariadb.createConnection({
+    host: '127.0.0.1',
+    port: Number(env.DB_PORT),
+    user: env.DB_USER,
+    password: env.DB_PASSWORD,
+    database: env.DB_NAME,
+  })
   try {
     const [doctor] = await conn.query('SELECT id FROM users WHERE email = ?', [DOCTOR])
     if (!doctor) {
       const now = new Date()
-      await conn.query('INSERT INTO users (email, name, role, password_hash, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?)', [DOCTOR, 'Bench Doctor', 'doctor', await hashPassword(BENCH_PASSWORD), now, now])
+      await conn.query('INSERT INTO users (email, name, role, password_hash, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?)', [
+        DOCTOR,
+        'Bench Doctor',
+        'doctor',
+        await hashPassword(BENCH_PASSWORD),
+        now,
+        now,
+      ])
     }
     const [episode] = await conn.query("SELECT id FROM referrals WHERE stage = 'clinic' ORDER BY id LIMIT 1")
     return Number(episode.id)
@@ -41,7 +58,13 @@ function tally(page: Page): { take(): Tally } {
     if (res.status() === 304) t.notModified += 1
     t.bytes += Number(res.headers()['content-length'] ?? 0)
   })
-  return { take: () => { const out = t; t = { requests: 0, notModified: 0, bytes: 0 }; return out } }
+  return {
+    take: () => {
+      const out = t
+      t = { requests: 0, notModified: 0, bytes: 0 }
+      return out
+    },
+  }
 }
 
 /** Hides or shows the tab as the browser does when the user switches away (document.visibilityState). */

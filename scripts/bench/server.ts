@@ -3,7 +3,11 @@ import { spawn, type ChildProcess } from 'node:child_process'
 import { readFileSync } from 'node:fs'
 import { repoRoot } from '../lib/stack'
 
-export interface BenchServer { url: string; pid: number; stop(): Promise<void> }
+export interface BenchServer {
+  url: string
+  pid: number
+  stop(): Promise<void>
+}
 
 /** `staticDir`: a built client to serve as well (the browser benches); none by default. */
 export async function startBenchServer(env: NodeJS.ProcessEnv, port: number, staticDir = ''): Promise<BenchServer> {
@@ -13,11 +17,21 @@ export async function startBenchServer(env: NodeJS.ProcessEnv, port: number, sta
   // measured is the server itself), to compare the two.
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server to look for where time goes.
   const entry = env.BENCH_SERVER_ENTRY ? [env.BENCH_SERVER_ENTRY] : ['--import', 'tsx', 'server/index.ts']
-  const child: ChildProcess = spawn(process.execPath, [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), ...entry], {
-    cwd: repoRoot, env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: staticDir }, stdio: ['ignore', 'ignore', 'inherit'],
-  })
+  const child: ChildProcess = spawn(
+    process.execPath,
+    [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), ...entry],
+    {
+      cwd: repoRoot,
+      env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: staticDir },
+      stdio: ['ignore', 'ignore', 'inherit'],
+    },
+  )
   for (let i = 0; ; i++) {
-    try { if ((await fetch(`${url}/api/health`)).ok) break } catch { /* starting */ }
+    try {
+      if ((await fetch(`${url}/api/health`)).ok) break
+    } catch {
+      /* starting */
+    }
     // A busy shared machine can take a minute; a server that never answers is not left running.
     if (i > 240) {
       child.kill('SIGTERM')
@@ -40,7 +54,8 @@ export async function signIn(url: string, email: string, password: string): Prom
   const cookie = (csrfRes.headers.get('set-cookie') ?? '').split(';')[0]!
   const { csrfToken } = (await csrfRes.json()) as { csrfToken: string }
   const login = await fetch(`${url}/api/auth/login`, {
-    method: 'POST', headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
+    method: 'POST',
+    headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
     body: JSON.stringify({ email, password }),
   })
   if (!login.ok) throw new Error(`bench sign-in failed: ${login.status}`)

@@ -14,7 +14,11 @@ import type { AddressInfo } from 'node:net'
 import { launchBrowser } from '../../tests/helpers/browser'
 
 const TYPES: Record<string, string> = {
-  '.js': 'text/javascript', '.css': 'text/css', '.html': 'text/html', '.svg': 'image/svg+xml', '.woff2': 'font/woff2',
+  '.js': 'text/javascript',
+  '.css': 'text/css',
+  '.html': 'text/html',
+  '.svg': 'image/svg+xml',
+  '.woff2': 'font/woff2',
 }
 
 function api(req: IncomingMessage, res: ServerResponse): void {
@@ -35,8 +39,14 @@ async function serve(distDir: string) {
     const wanted = path.normalize(decodeURIComponent((req.url ?? '/').split('?')[0]!)).replace(/^(\.\.[/\\])+/, '')
     const file = path.join(distDir, wanted.startsWith('/assets/') ? wanted : 'index.html') // the app's own routes get index.html
     readFile(file).then(
-      (body) => { res.writeHead(200, { 'Content-Type': TYPES[path.extname(file)] ?? 'application/octet-stream' }); res.end(body) },
-      () => { res.writeHead(404); res.end() },
+      (body) => {
+        res.writeHead(200, { 'Content-Type': TYPES[path.extname(file)] ?? 'application/octet-stream' })
+        res.end(body)
+      },
+      () => {
+        res.writeHead(404)
+        res.end()
+      },
     )
   })
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve))
@@ -50,7 +60,9 @@ export async function signInFetched(distDir: string): Promise<{ atLoadKB: number
   try {
     const page = await browser.newPage()
     const bodies: Promise<Buffer>[] = []
-    page.on('response', (r) => { if (r.request().resourceType() === 'script') bodies.push(r.body()) })
+    page.on('response', (r) => {
+      if (r.request().resourceType() === 'script') bodies.push(r.body())
+    })
     const kb = async () => +((await Promise.all(bodies)).reduce((s, b) => s + gzipSync(b).length, 0) / 1024).toFixed(1)
     await page.goto(`${site.url}/sign-in`, { waitUntil: 'networkidle' })
     await page.waitForSelector('#email')

@@ -21,7 +21,10 @@ const VIEWS: { query: string; q: WorklistQuery }[] = [
   { query: '', q: {} },
   { query: 'stage=referred,screened', q: { stage: ['referred', 'screened'] } },
   { query: 'flag=surgery-soon-anaemic', q: { flag: ['surgery-soon-anaemic'] } },
-  { query: 'stage=clinic,treating,recheck&sort=-plannedSurgeryDate', q: { stage: ['clinic', 'treating', 'recheck'], sort: '-plannedSurgeryDate' } },
+  {
+    query: 'stage=clinic,treating,recheck&sort=-plannedSurgeryDate',
+    q: { stage: ['clinic', 'treating', 'recheck'], sort: '-plannedSurgeryDate' },
+  },
   { query: 'sort=latestHb&page=3', q: { sort: 'latestHb', page: 3 } },
   { query: 'q=ashbro', q: { q: 'ashbro' } },
 ] as unknown as { query: string; q: WorklistQuery }[]
@@ -33,7 +36,12 @@ function percentile(sorted: number[], p: number): number {
 
 function summary(latencies: number[], seconds: number) {
   const s = [...latencies].sort((a, b) => a - b)
-  return { p50Ms: +percentile(s, 50).toFixed(2), p95Ms: +percentile(s, 95).toFixed(2), rps: Math.round(latencies.length / seconds), requests: latencies.length }
+  return {
+    p50Ms: +percentile(s, 50).toFixed(2),
+    p95Ms: +percentile(s, 95).toFixed(2),
+    rps: Math.round(latencies.length / seconds),
+    requests: latencies.length,
+  }
 }
 
 /** The exact SQL the service issues for each view, captured from Sequelize's log. */
@@ -43,7 +51,10 @@ async function capturedSql(env: NodeJS.ProcessEnv, viewerId: number): Promise<St
   const seq: Sequelize = createSequelize(config)
   // Statements sent through Sequelize arrive with their values filled in; those sent straight
   // through the driver (server/services/rawRead.ts) arrive with :name placeholders and rawValues.
-  ;(seq as unknown as { options: { logging: (sql: string, o?: { rawValues?: Record<string, unknown> }) => void } }).options.logging = (sql, o) => {
+  ;(seq as unknown as { options: { logging: (sql: string, o?: { rawValues?: Record<string, unknown> }) => void } }).options.logging = (
+    sql,
+    o,
+  ) => {
     seen.push({ sql: sql.replace(/^Executing \([^)]*\): /, ''), values: o?.rawValues })
   }
   initModels(seq)
@@ -57,23 +68,36 @@ async function capturedSql(env: NodeJS.ProcessEnv, viewerId: number): Promise<St
   return out
 }
 
-interface Statement { sql: string; values?: Record<string, unknown> }
+interface Statement {
+  sql: string
+  values?: Record<string, unknown>
+}
 
 async function directSql(env: NodeJS.ProcessEnv, statements: Statement[][]) {
   // The same transport as the server's, so the baseline differs only by the app's own work.
   const where = env.DB_SOCKET ? { socketPath: env.DB_SOCKET } : { host: env.DB_HOST, port: Number(env.DB_PORT) }
-  const pool = mariadb.createPool({ ...where, user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME, connectionLimit: CONNECTIONS })
+  const pool = mariadb.createPool({
+    ...where,
+    user: env.DB_USER,
+    password: env.DB_PASSWORD,
+    database: env.DB_NAME,
+    connectionLimit: CONNECTIONS,
+  })
   const latencies: number[] = []
   const end = Date.now() + DURATION_S * 1000
   let n = 0
-  await Promise.all(Array.from({ length: CONNECTIONS }, async () => {
-    while (Date.now() < end) {
-      const page = statements[n++ % statements.length]!
-      const t0 = performance.now()
-      await Promise.all(page.map((st) => (st.values ? pool.query({ sql: st.sql, namedPlaceholders: true }, st.values) : pool.query(st.sql))))
-      latencies.push(performance.now() - t0)
-    }
-  }))
+  await Promise.all(
+    Array.from({ length: CONNECTIONS }, async () => {
+      while (Date.now() < end) {
+        const page = statements[n++ % statements.length]!
+        const t0 = performance.now()
+        await Promise.all(
+          page.map((st) => (st.values ? pool.query({ sql: st.sql, namedPlaceholders: true }, st.values) : pool.query(st.sql))),
+        )
+        latencies.push(performance.now() - t0)
+      }
+    }),
+  )
   await pool.end()
   return summary(latencies, DURATION_S)
 }
@@ -87,10 +111,14 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, 
     const idle = memoryMb(server.pid)
     const latencies: number[] = []
     const instance = autocannon({
-      url: server.url, connections: CONNECTIONS, duration: DURATION_S,
+      url: server.url,
+      connections: CONNECTIONS,
+      duration: DURATION_S,
       requests: VIEWS.map((v) => ({ method: 'GET', path: `/api/worklist${v.query ? `?${v.query}` : ''}`, headers: { cookie } })),
     })
-    instance.on('response', (_client: unknown, status: number, _bytes: number, ms: number) => { if (status === 200) latencies.push(ms) })
+    instance.on('response', (_client: unknown, status: number, _bytes: number, ms: number) => {
+      if (status === 200) latencies.push(ms)
+    })
     // CPU per request does not depend on what else the machine is doing, unlike requests/s.
     const cpuBefore = { server: cpuMs(server.pid), database: cpuMs(databasePid) }
     const result = await instance
@@ -107,13 +135,22 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, 
     await seq.close()
     const direct = await directSql(env, await capturedSql(env, nurse!.id))
     return {
-      bench: 'worklist', connections: CONNECTIONS, durationS: DURATION_S, http, directSql: direct,
-      p95Ratio: +(http.p95Ms / direct.p95Ms).toFixed(2), serverMemory: { idleRssMb: idle.rssMb, ...memory },
+      bench: 'worklist',
+      connections: CONNECTIONS,
+      durationS: DURATION_S,
+      http,
+      directSql: direct,
+      p95Ratio: +(http.p95Ms / direct.p95Ms).toFixed(2),
+      serverMemory: { idleRssMb: idle.rssMb, ...memory },
       targets: { p95RatioMax: 2, rpsMin: 300, memoryMbMax: 300 },
       met: { p95Ratio: http.p95Ms / direct.p95Ms <= 2, rps: http.rps >= 300, memory: memory.peakMb < 300 },
       // Issue 19's figures, under keys of their own so the ones above stay comparable.
-      rpsRatio: +(http.rps / direct.rps).toFixed(2), idleMemory: { rssMb: idle.rssMb },
-      issue19: { targets: { rpsRatioMin: 0.75, p95RatioMax: 1.3, peakMbMax: 200 }, met: { rpsRatio: http.rps / direct.rps >= 0.75, p95Ratio: http.p95Ms / direct.p95Ms <= 1.3, peakMb: memory.peakMb <= 200 } },
+      rpsRatio: +(http.rps / direct.rps).toFixed(2),
+      idleMemory: { rssMb: idle.rssMb },
+      issue19: {
+        targets: { rpsRatioMin: 0.75, p95RatioMax: 1.3, peakMbMax: 200 },
+        met: { rpsRatio: http.rps / direct.rps >= 0.75, p95Ratio: http.p95Ms / direct.p95Ms <= 1.3, peakMb: memory.peakMb <= 200 },
+      },
     }
   } finally {
     await server.stop()

@@ -9,13 +9,18 @@
 import http from 'node:http'
 import mariadb, { type Connection } from 'mariadb'
 
-export interface CheckAgent { port: number; stop(): Promise<void> }
+export interface CheckAgent {
+  port: number
+  stop(): Promise<void>
+}
 
 export async function nodeIsSynced(socketPath: string, user = 'root', password = ''): Promise<{ synced: boolean; detail: string }> {
   let conn: Connection | undefined
   try {
     conn = await mariadb.createConnection({ socketPath, user, password, connectTimeout: 1000, queryTimeout: 1000 })
-    const rows = (await conn.query("SHOW GLOBAL STATUS WHERE Variable_name IN ('wsrep_ready', 'wsrep_local_state', 'wsrep_cluster_status')")) as { Variable_name: string; Value: string }[]
+    const rows = (await conn.query(
+      "SHOW GLOBAL STATUS WHERE Variable_name IN ('wsrep_ready', 'wsrep_local_state', 'wsrep_cluster_status')",
+    )) as { Variable_name: string; Value: string }[]
     const v = Object.fromEntries(rows.map((r) => [r.Variable_name, r.Value]))
     const synced = v.wsrep_ready === 'ON' && v.wsrep_local_state === '4' && v.wsrep_cluster_status === 'Primary'
     return { synced, detail: `ready=${v.wsrep_ready} state=${v.wsrep_local_state} component=${v.wsrep_cluster_status}` }
@@ -35,10 +40,16 @@ export function startCheckAgent(port: number, socketPath: string, user = 'root',
   })
   return new Promise((resolve, reject) => {
     server.once('error', reject)
-    server.listen(port, host, () => resolve({
-      port,
-      stop: () => new Promise<void>((r) => { server.closeAllConnections(); server.close(() => r()) }),
-    }))
+    server.listen(port, host, () =>
+      resolve({
+        port,
+        stop: () =>
+          new Promise<void>((r) => {
+            server.closeAllConnections()
+            server.close(() => r())
+          }),
+      }),
+    )
   })
 }
 
@@ -49,6 +60,11 @@ export function startCheckAgent(port: number, socketPath: string, user = 'root',
 if (process.argv[1] && import.meta.filename === process.argv[1]) {
   const port = Number(process.env.CHECK_PORT || 9200)
   const socket = process.env.NODE_SOCKET || '/run/mysqld/mysqld.sock'
-  void startCheckAgent(port, socket, process.env.CHECK_USER || 'root', process.env.CHECK_PASSWORD || '', process.env.CHECK_HOST || '127.0.0.1')
-    .then(() => console.log(`Galera check agent on ${process.env.CHECK_HOST || '127.0.0.1'}:${port} for ${socket}`))
+  void startCheckAgent(
+    port,
+    socket,
+    process.env.CHECK_USER || 'root',
+    process.env.CHECK_PASSWORD || '',
+    process.env.CHECK_HOST || '127.0.0.1',
+  ).then(() => console.log(`Galera check agent on ${process.env.CHECK_HOST || '127.0.0.1'}:${port} for ${socket}`))
 }

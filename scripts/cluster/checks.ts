@@ -24,7 +24,9 @@ export async function countIds(socketPath: string, table: string, ids: number[])
 export async function tableChecksums(socketPath: string): Promise<Record<string, string>> {
   return onNode(socketPath, async (c) => {
     const tables = (await c.query(
-      "SELECT table_name AS name FROM information_schema.tables WHERE table_schema = ? AND table_type = 'BASE TABLE' ORDER BY table_name", [DB.name])) as { name: string }[]
+      "SELECT table_name AS name FROM information_schema.tables WHERE table_schema = ? AND table_type = 'BASE TABLE' ORDER BY table_name",
+      [DB.name],
+    )) as { name: string }[]
     const out: Record<string, string> = {}
     for (const t of tables) {
       const rows = (await c.query(`CHECKSUM TABLE \`${t.name}\``)) as { Checksum: bigint | null }[]

@@ -43,7 +43,12 @@ function wsrepArgs(spec: NodeSpec, bootstrap: boolean): string[] {
     '--wsrep-sst-method=rsync',
     // A node that rejoins takes its copy from the last standby (rsync blocks the donor's writes
     // while it copies), falling back to any node (the trailing comma).
-    `--wsrep-sst-donor=${spec.ports.nodes.map((_, i) => i).filter((i) => i !== spec.index).reverse().map(nodeLabel).join(',')},`,
+    `--wsrep-sst-donor=${spec.ports.nodes
+      .map((_, i) => i)
+      .filter((i) => i !== spec.index)
+      .reverse()
+      .map(nodeLabel)
+      .join(',')},`,
     `--wsrep-sst-receive-address=127.0.0.1:${me.sst}`,
     '--wsrep-slave-threads=2',
     // One writer at a time (HAProxy), so ids stay consecutive as on a single server rather than
@@ -80,11 +85,23 @@ export function recoverSeqno(dataDir: string): number {
   const log = path.join(dataDir, 'wsrep-recover.log')
   rmSync(log, { force: true })
   try {
-    execFileSync(findMariaDbd() ?? 'mariadbd', [
-      '--no-defaults', `--datadir=${path.join(dataDir, 'db')}`, `--log-error=${log}`, '--wsrep-on=ON',
-      `--wsrep-provider=${galeraLibrary()}`, '--wsrep-recover', '--binlog-format=ROW', '--innodb-buffer-pool-size=64M', '--skip-networking',
-      `--socket=${path.join(dataDir, 'recover.sock')}`, ...(process.getuid?.() === 0 ? ['--user=root'] : []),
-    ], { stdio: 'ignore', timeout: 120_000 })
+    execFileSync(
+      findMariaDbd() ?? 'mariadbd',
+      [
+        '--no-defaults',
+        `--datadir=${path.join(dataDir, 'db')}`,
+        `--log-error=${log}`,
+        '--wsrep-on=ON',
+        `--wsrep-provider=${galeraLibrary()}`,
+        '--wsrep-recover',
+        '--binlog-format=ROW',
+        '--innodb-buffer-pool-size=64M',
+        '--skip-networking',
+        `--socket=${path.join(dataDir, 'recover.sock')}`,
+        ...(process.getuid?.() === 0 ? ['--user=root'] : []),
+      ],
+      { stdio: 'ignore', timeout: 120_000 },
+    )
     const found = /Recovered position:\s*[0-9a-f-]+:(-?\d+)/.exec(readFileSync(log, 'utf8'))
     return found ? Number(found[1]) : -1
   } catch {

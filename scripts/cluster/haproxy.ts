@@ -14,8 +14,9 @@ import path from 'node:path'
 import type { ClusterPorts } from './ports'
 
 export function haproxyConfig(ports: ClusterPorts): string {
-  const nodes = ports.nodes.map((n, i) =>
-    `  server node${i + 1} 127.0.0.1:${n.client} check port ${n.check}${i === 0 ? '' : ' backup'}`).join('\n')
+  const nodes = ports.nodes
+    .map((n, i) => `  server node${i + 1} 127.0.0.1:${n.client} check port ${n.check}${i === 0 ? '' : ' backup'}`)
+    .join('\n')
   const apps = ports.apps.map((p, i) => `  server app${i + 1} 127.0.0.1:${p} check`).join('\n')
   return `# Written by Ferrolane's cluster scripts; see the README, "Running on a cluster".
 global
@@ -65,7 +66,10 @@ ${apps}
 `
 }
 
-export interface HaproxyHandle { child: ChildProcess; stop(): Promise<void> }
+export interface HaproxyHandle {
+  child: ChildProcess
+  stop(): Promise<void>
+}
 
 export function haproxyBinary(): string {
   return ['/usr/sbin/haproxy', '/usr/bin/haproxy', '/usr/local/sbin/haproxy'].find((p) => existsSync(p)) ?? 'haproxy'

@@ -1,11 +1,18 @@
 /** A small cookie-keeping HTTP client for the cluster test: one signed-in person, as the browser app behaves. */
-export interface Outcome { at: number; op: string; status: number }
+export interface Outcome {
+  at: number
+  op: string
+  status: number
+}
 
 export class Visitor {
   private cookie = ''
   csrf = ''
 
-  constructor(private readonly base: string, private readonly log: Outcome[]) {}
+  constructor(
+    private readonly base: string,
+    private readonly log: Outcome[],
+  ) {}
 
   /** T is the answer the caller expects on success; on any other status the body may be an error, text or null. */
   async call<T = unknown>(op: string, method: string, path: string, body?: unknown, form?: FormData): Promise<{ status: number; body: T }> {
@@ -16,12 +23,21 @@ export class Visitor {
     let status: number
     let parsed: unknown = null
     try {
-      const res = await fetch(this.base + path, { method, headers, body: form ?? (body === undefined ? undefined : JSON.stringify(body)), signal: AbortSignal.timeout(30_000) })
+      const res = await fetch(this.base + path, {
+        method,
+        headers,
+        body: form ?? (body === undefined ? undefined : JSON.stringify(body)),
+        signal: AbortSignal.timeout(30_000),
+      })
       status = res.status
       const set = res.headers.getSetCookie()
       if (set.length) this.cookie = set.map((c) => c.split(';')[0]).join('; ')
       const text = await res.text()
-      try { parsed = JSON.parse(text) } catch { parsed = text }
+      try {
+        parsed = JSON.parse(text)
+      } catch {
+        parsed = text
+      }
     } catch {
       status = 599 // no answer at all (connection refused or reset): counted with the 5xx
     }

@@ -22,7 +22,11 @@ export const APP_COUNT = 2
 export function clusterPorts(base: number): ClusterPorts {
   return {
     nodes: Array.from({ length: NODE_COUNT }, (_, i) => ({
-      client: base + 1 + i, group: base + 11 + i, ist: base + 21 + i, sst: base + 31 + i, check: base + 41 + i,
+      client: base + 1 + i,
+      group: base + 11 + i,
+      ist: base + 21 + i,
+      sst: base + 31 + i,
+      check: base + 41 + i,
     })),
     dbWriter: base + 50,
     appFront: base + 60,

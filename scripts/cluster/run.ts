@@ -11,7 +11,11 @@ import { DEMO_PASSWORD, DEMO_ACCOUNTS } from '../../seed/demo/staff'
 
 async function main(): Promise<void> {
   console.log('[cluster] building the client...')
-  const built = spawnSync(path.join(repoRoot, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], { cwd: repoRoot, stdio: 'inherit', env: { ...process.env, NODE_ENV: 'production' } })
+  const built = spawnSync(path.join(repoRoot, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], {
+    cwd: repoRoot,
+    stdio: 'inherit',
+    env: { ...process.env, NODE_ENV: 'production' },
+  })
   if (built.status !== 0) throw new Error('the client build failed')
   let topo: Topology | null = null
   let stopping = false

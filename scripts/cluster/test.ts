@@ -25,7 +25,15 @@ function check(name: string, ok: boolean, detail = ''): void {
   console.log(`${ok ? 'PASS' : 'FAIL'}  ${name}${detail ? `: ${detail}` : ''}`)
 }
 
-interface Acked { patients: number[]; referrals: number[]; results: number[]; batches: number[]; appointments: number[]; messages: number[]; signIns: number }
+interface Acked {
+  patients: number[]
+  referrals: number[]
+  results: number[]
+  batches: number[]
+  appointments: number[]
+  messages: number[]
+  signIns: number
+}
 const acked: Acked = { patients: [], referrals: [], results: [], batches: [], appointments: [], messages: [], signIns: 0 }
 const log: Outcome[] = []
 const kills: { at: number; what: string }[] = []
@@ -33,27 +41,54 @@ const tag = Date.now().toString(36).toUpperCase().slice(-6)
 
 async function episode(v: Visitor, k: number, ctx: { surgeonId: number; procedureCode: string }): Promise<void> {
   const p = await v.call<{ id: number }>('register', 'POST', '/api/patients', {
-    mrn: `CL${tag}${k}`, givenName: 'Cluster', familyName: `Loadtest${k}`, dateOfBirth: '1961-03-14', sex: k % 2 ? 'female' : 'male',
+    mrn: `CL${tag}${k}`,
+    givenName: 'Cluster',
+    familyName: `Loadtest${k}`,
+    dateOfBirth: '1961-03-14',
+    sex: k % 2 ? 'female' : 'male',
     email: `cluster.load.${tag}.${k}@example.test`,
   })
   if (p.status !== 201) return
   acked.patients.push(p.body.id)
-  const r = await v.call<{ id: number }>('referral', 'POST', '/api/referrals', { patientId: p.body.id, procedureCode: ctx.procedureCode, surgeonId: ctx.surgeonId, plannedSurgeryDate: addDays(todayIso(), 45) })
+  const r = await v.call<{ id: number }>('referral', 'POST', '/api/referrals', {
+    patientId: p.body.id,
+    procedureCode: ctx.procedureCode,
+    surgeonId: ctx.surgeonId,
+    plannedSurgeryDate: addDays(todayIso(), 45),
+  })
   if (r.status !== 201) return
   acked.referrals.push(r.body.id)
-  const taken = new Date(Date.now() - 3 * 3_600_000); taken.setUTCMilliseconds(0)
-  const res = await v.call<{ result: { id: number } }>('result', 'POST', `/api/referrals/${r.body.id}/results`, { analyte: 'hb', unit: 'g/L', value: 104 + (k % 20), takenAt: taken.toISOString() })
+  const taken = new Date(Date.now() - 3 * 3_600_000)
+  taken.setUTCMilliseconds(0)
+  const res = await v.call<{ result: { id: number } }>('result', 'POST', `/api/referrals/${r.body.id}/results`, {
+    analyte: 'hb',
+    unit: 'g/L',
+    value: 104 + (k % 20),
+    takenAt: taken.toISOString(),
+  })
   if (res.status === 201) acked.results.push(res.body.result.id)
-  const drawn = new Date(Date.now() - 5 * 3_600_000); drawn.setUTCMilliseconds(0)
+  const drawn = new Date(Date.now() - 5 * 3_600_000)
+  drawn.setUTCMilliseconds(0)
   const form = new FormData()
   form.set('commit', 'true')
   form.set('source', 'Cluster test laboratory')
-  form.set('file', new Blob([`mrn,test_code,value,unit,taken_at\r\nCL${tag}${k},HB,${98 + (k % 20)},g/L,${drawn.toISOString().replace('.000Z', 'Z')}\r\n`], { type: 'text/csv' }), 'cluster.csv')
+  form.set(
+    'file',
+    new Blob(
+      [`mrn,test_code,value,unit,taken_at\r\nCL${tag}${k},HB,${98 + (k % 20)},g/L,${drawn.toISOString().replace('.000Z', 'Z')}\r\n`],
+      { type: 'text/csv' },
+    ),
+    'cluster.csv',
+  )
   const imp = await v.call<{ batchId?: number }>('lab-import', 'POST', '/api/imports/lab-results', undefined, form)
   if (imp.status === 201 && imp.body.batchId) acked.batches.push(imp.body.batchId)
   const day = addDays(`${new Date().getFullYear() + 1}-07-13`, k % 300)
   const b = await v.call<{ appointment: { id: number }; message?: { id: number } }>('booking', 'POST', '/api/appointments', {
-    referralId: r.body.id, kind: 'anaemia-clinic', startsAt: zonedToUtc(day, '09:30', 'Europe/London').toISOString(), durationMin: 30, location: 'Anaemia Clinic, Outpatients B, Level 1',
+    referralId: r.body.id,
+    kind: 'anaemia-clinic',
+    startsAt: zonedToUtc(day, '09:30', 'Europe/London').toISOString(),
+    durationMin: 30,
+    location: 'Anaemia Clinic, Outpatients B, Level 1',
   })
   if (b.status === 201) {
     acked.appointments.push(b.body.appointment.id)
@@ -66,13 +101,21 @@ async function main(): Promise<number> {
   let topo: Topology | null = null
   try {
     topo = await startTopology({
-      label: 'test-cluster', base: 4600, dataRoot: path.join(repoRoot, '.cluster-test-data'), fresh: true, seedDemo: true, staticDir: '',
+      label: 'test-cluster',
+      base: 4600,
+      dataRoot: path.join(repoRoot, '.cluster-test-data'),
+      fresh: true,
+      seedDemo: true,
+      staticDir: '',
       // Faster password hashing for the throw-away demo accounts; the outbox polled twice a second.
       extraEnv: { PASSWORD_SCRYPT_LOG2N: '14', OUTBOX_POLL_MS: '500', LOGIN_MAX_FAILURES_ADDRESS: '10000', DB_POOL_MAX: '10' },
     })
     const t = topo
     // The demo scenario carries messages already marked sent (its history): only this run's count.
-    const firstOutboxId = await onNode(t.nodeSocket(0), async (c) => Number(((await c.query('SELECT COALESCE(MAX(id), 0) AS m FROM outbox_messages')) as { m: number }[])[0].m) + 1)
+    const firstOutboxId = await onNode(
+      t.nodeSocket(0),
+      async (c) => Number(((await c.query('SELECT COALESCE(MAX(id), 0) AS m FROM outbox_messages')) as { m: number }[])[0].m) + 1,
+    )
     await fetch(`http://127.0.0.1:${t.ports.mailWeb}/api/email/all`, { method: 'DELETE' })
     console.log(`[test-cluster] topology up after ${Math.round((Date.now() - started) / 1000)} s; ${LOAD_SECONDS} s of load`)
     const setup = new Visitor(t.frontUrl, [])
@@ -82,7 +125,13 @@ async function main(): Promise<number> {
     const ctx = { surgeonId: surgeons[0].id, procedureCode: procedures[0].code }
 
     // People who stay signed in throughout: their sessions must survive the app process kill.
-    const steady = await Promise.all(NURSES.map(async (email) => { const v = new Visitor(t.frontUrl, log); await v.signIn(email, DEMO_PASSWORD); return v }))
+    const steady = await Promise.all(
+      NURSES.map(async (email) => {
+        const v = new Visitor(t.frontUrl, log)
+        await v.signIn(email, DEMO_PASSWORD)
+        return v
+      }),
+    )
     let signedOut = 0
     const end = Date.now() + LOAD_SECONDS * 1000
     let k = 0
@@ -106,17 +155,36 @@ async function main(): Promise<number> {
     }
     const chaos = async () => {
       const at = (s: number) => new Promise((r) => setTimeout(r, Math.max(0, loadStart + s * 1000 - Date.now())))
-      await at(LOAD_SECONDS * 0.15); kills.push({ at: Date.now(), what: 'node1 (the writer)' }); t.killNode(0); console.log('[test-cluster] SIGKILL node1')
-      await at(LOAD_SECONDS * 0.35); console.log('[test-cluster] restarting node1'); await t.startNode(0); console.log('[test-cluster] node1 is back')
-      await at(LOAD_SECONDS * 0.55); kills.push({ at: Date.now(), what: 'app1' }); t.killApp(0); console.log('[test-cluster] SIGKILL app1')
-      await at(LOAD_SECONDS * 0.7); console.log('[test-cluster] restarting app1'); await t.startApp(0); console.log('[test-cluster] app1 is back')
+      await at(LOAD_SECONDS * 0.15)
+      kills.push({ at: Date.now(), what: 'node1 (the writer)' })
+      t.killNode(0)
+      console.log('[test-cluster] SIGKILL node1')
+      await at(LOAD_SECONDS * 0.35)
+      console.log('[test-cluster] restarting node1')
+      await t.startNode(0)
+      console.log('[test-cluster] node1 is back')
+      await at(LOAD_SECONDS * 0.55)
+      kills.push({ at: Date.now(), what: 'app1' })
+      t.killApp(0)
+      console.log('[test-cluster] SIGKILL app1')
+      await at(LOAD_SECONDS * 0.7)
+      console.log('[test-cluster] restarting app1')
+      await t.startApp(0)
+      console.log('[test-cluster] app1 is back')
     }
     const loadStart = Date.now()
     await Promise.all([...Array.from({ length: WORKERS }, (_, w) => worker(w)), heartbeat(), chaos()])
     console.log(`[test-cluster] load done: ${log.length} requests`)
 
     // The restarted node rejoins.
-    const rejoined = await waitFor(async () => (await fetch(`http://127.0.0.1:${t.ports.nodes[0].check}/`)).ok, 180_000, 'node1 to be synced').then(() => true, () => false)
+    const rejoined = await waitFor(
+      async () => (await fetch(`http://127.0.0.1:${t.ports.nodes[0].check}/`)).ok,
+      180_000,
+      'node1 to be synced',
+    ).then(
+      () => true,
+      () => false,
+    )
     check('the restarted node rejoins the cluster and is synced', rejoined)
 
     // No 500; other 5xx only within 10 s of a kill.
@@ -124,21 +192,46 @@ async function main(): Promise<number> {
     check('no request got a 500', fivehundreds.length === 0, `${fivehundreds.length} of ${log.length}`)
     const unavailable = log.filter((o) => o.status >= 502)
     const late = unavailable.filter((o) => !kills.some((kl) => o.at >= kl.at && o.at <= kl.at + UNAVAILABLE_WINDOW_MS))
-    check('503s (and 502/504, no answer) stop within 10 s of each kill', late.length === 0,
+    check(
+      '503s (and 502/504, no answer) stop within 10 s of each kill',
+      late.length === 0,
       `${unavailable.length} in all, ${late.length} outside the ` +
-        `windows${late.length ? ` (first: ${late[0].op} ${late[0].status} at +${Math.round((late[0].at - loadStart) / 1000)} s)` : ''}`)
-    const statuses = log.reduce<Record<string, number>>((m, o) => { m[`${o.op} ${o.status}`] = (m[`${o.op} ${o.status}`] ?? 0) + 1; return m }, {})
+        `windows${late.length ? ` (first: ${late[0].op} ${late[0].status} at +${Math.round((late[0].at - loadStart) / 1000)} s)` : ''}`,
+    )
+    const statuses = log.reduce<Record<string, number>>((m, o) => {
+      m[`${o.op} ${o.status}`] = (m[`${o.op} ${o.status}`] ?? 0) + 1
+      return m
+    }, {})
     console.log('[test-cluster] answers:', JSON.stringify(statuses))
-    check('sessions signed in before the app kill carry on through the other process', signedOut === 0 && steady.length === NURSES.length, `${signedOut} answers of 401`)
-    check('the load made every kind of write', acked.patients.length > 5 && acked.results.length > 5 && acked.batches.length > 5 && acked.appointments.length > 5 && acked.signIns > 3,
+    check(
+      'sessions signed in before the app kill carry on through the other process',
+      signedOut === 0 && steady.length === NURSES.length,
+      `${signedOut} answers of 401`,
+    )
+    check(
+      'the load made every kind of write',
+      acked.patients.length > 5 &&
+        acked.results.length > 5 &&
+        acked.batches.length > 5 &&
+        acked.appointments.length > 5 &&
+        acked.signIns > 3,
       `${acked.signIns} sign-ins, ${acked.patients.length} registrations, ${acked.results.length} results, ` +
-        `${acked.batches.length} lab imports, ${acked.appointments.length} bookings`)
+        `${acked.batches.length} lab imports, ${acked.appointments.length} bookings`,
+    )
 
     // Every e-mail out before comparing.
-    const drained = await waitFor(async () => onNode(t.nodeSocket(1), async (c) => {
-      const rows = (await c.query("SELECT COUNT(*) AS n FROM outbox_messages WHERE status IN ('queued', 'sending')")) as { n: bigint }[]
-      return Number(rows[0].n) === 0
-    }), 150_000, 'the outbox to drain').then(() => true, () => false)
+    const drained = await waitFor(
+      async () =>
+        onNode(t.nodeSocket(1), async (c) => {
+          const rows = (await c.query("SELECT COUNT(*) AS n FROM outbox_messages WHERE status IN ('queued', 'sending')")) as { n: bigint }[]
+          return Number(rows[0].n) === 0
+        }),
+      150_000,
+      'the outbox to drain',
+    ).then(
+      () => true,
+      () => false,
+    )
     check('the outbox drained (every queued e-mail was sent)', drained)
 
     // Exactly once across processes on different nodes, directly.
@@ -146,7 +239,14 @@ async function main(): Promise<number> {
     check('two outbox workers on different nodes claim each message exactly once', race.ok, race.detail)
 
     // Acknowledged writes on every node.
-    const tables: [keyof Acked, string][] = [['patients', 'patients'], ['referrals', 'referrals'], ['results', 'results'], ['batches', 'import_batches'], ['appointments', 'appointments'], ['messages', 'outbox_messages']]
+    const tables: [keyof Acked, string][] = [
+      ['patients', 'patients'],
+      ['referrals', 'referrals'],
+      ['results', 'results'],
+      ['batches', 'import_batches'],
+      ['appointments', 'appointments'],
+      ['messages', 'outbox_messages'],
+    ]
     for (let n = 0; n < 3; n += 1) {
       const missing: string[] = []
       for (const [key, table] of tables) {
@@ -154,7 +254,11 @@ async function main(): Promise<number> {
         const found = await countIds(t.nodeSocket(n), table, ids)
         if (found !== ids.length) missing.push(`${table} ${found}/${ids.length}`)
       }
-      check(`every acknowledged write is on node${n + 1}`, missing.length === 0, missing.join(', ') || `${tables.map(([k]) => (acked[k] as number[]).length).reduce((a, b) => a + b, 0)} rows`)
+      check(
+        `every acknowledged write is on node${n + 1}`,
+        missing.length === 0,
+        missing.join(', ') || `${tables.map(([k]) => (acked[k] as number[]).length).reduce((a, b) => a + b, 0)} rows`,
+      )
     }
 
     // Table checksums agree once the apps are quiet.
@@ -167,7 +271,11 @@ async function main(): Promise<number> {
       if (!differ.length) break
       await new Promise((r) => setTimeout(r, 2000))
     }
-    check('CHECKSUM TABLE agrees on all three nodes for every table', differ.length === 0 && Object.keys(sums[0]).length > 20, differ.join(', ') || `${Object.keys(sums[0]).length} tables`)
+    check(
+      'CHECKSUM TABLE agrees on all three nodes for every table',
+      differ.length === 0 && Object.keys(sums[0]).length > 20,
+      differ.join(', ') || `${Object.keys(sums[0]).length} tables`,
+    )
 
     // E-mails: maildev against the outbox, including the race's messages. Exactly once is what is
     // asserted, and what the outbox achieves here: after the relay accepts a message the worker
@@ -178,7 +286,11 @@ async function main(): Promise<number> {
     // every second or two per process, the app kill below lands in it well under once in a hundred
     // runs; a duplicate then fails this check, because it is a real (if rare) repeat, though it
     // carries the same Message-ID.
-    const sent = await onNode(t.nodeSocket(2), async (c) => ((await c.query("SELECT id FROM outbox_messages WHERE status = 'sent' AND id >= ?", [firstOutboxId])) as { id: number }[]).map((r) => Number(r.id)))
+    const sent = await onNode(t.nodeSocket(2), async (c) =>
+      ((await c.query("SELECT id FROM outbox_messages WHERE status = 'sent' AND id >= ?", [firstOutboxId])) as { id: number }[]).map((r) =>
+        Number(r.id),
+      ),
+    )
     // maildev lists a message only once it has parsed and stored it: wait (at most 20 s) until it has
     // as many as the outbox sent, then compare which ones.
     let received: number[] = []
@@ -191,9 +303,12 @@ async function main(): Promise<number> {
     const dupes = received.filter((id, i) => received.indexOf(id) !== i)
     const lost = sent.filter((id) => !received.includes(id))
     const unrecorded = received.filter((id) => !sent.includes(id))
-    check('no e-mail sent twice, none lost (maildev against the outbox)', dupes.length === 0 && lost.length === 0 && unrecorded.length === 0 && sent.length > 0,
+    check(
+      'no e-mail sent twice, none lost (maildev against the outbox)',
+      dupes.length === 0 && lost.length === 0 && unrecorded.length === 0 && sent.length > 0,
       `${received.length} received, ${sent.length} sent in the outbox, ${dupes.length} twice, ${lost.length} lost, ` +
-        `${unrecorded.length} not recorded as sent`)
+        `${unrecorded.length} not recorded as sent`,
+    )
   } catch (err) {
     check('the cluster test ran to the end', false, err instanceof Error ? err.message : String(err))
   } finally {

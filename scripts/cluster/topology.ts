@@ -85,7 +85,10 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
 
   const stopApp = async (i: number) => {
     const a = apps[i]
-    if (a && a.exitCode === null && a.signalCode === null) { a.kill('SIGTERM'); await new Promise((r) => a.once('exit', r)) }
+    if (a && a.exitCode === null && a.signalCode === null) {
+      a.kill('SIGTERM')
+      await new Promise((r) => a.once('exit', r))
+    }
   }
   const stop = async () => {
     await Promise.all(apps.map((_, i) => stopApp(i)))
@@ -143,7 +146,9 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
       // The compiled server under plain node, as production runs it (no TypeScript loader), and
       // node itself so that a SIGKILL to this child really kills the server.
       const child = spawn(process.execPath, ['dist-server/server/index.js'], {
-        cwd: repoRoot, env: { ...appEnv, PORT: String(ports.apps[i]) }, stdio: ['ignore', 'pipe', 'pipe'],
+        cwd: repoRoot,
+        env: { ...appEnv, PORT: String(ports.apps[i]) },
+        stdio: ['ignore', 'pipe', 'pipe'],
       })
       child.stdout!.pipe(log)
       child.stderr!.pipe(log)
@@ -155,10 +160,20 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
     await waitFor(async () => (await fetch(`${frontUrl}/api/health/ready`)).ok, 30_000, 'the app front end')
 
     return {
-      ports, appEnv, frontUrl, stop,
-      killNode: (i) => { const pid = nodePid(spec(i).dataDir); if (pid) process.kill(pid, 'SIGKILL') },
-      startNode: async (i) => { nodes[i] = await startGaleraNode(spec(i), false) },
-      killApp: (i) => { apps[i]?.kill('SIGKILL') },
+      ports,
+      appEnv,
+      frontUrl,
+      stop,
+      killNode: (i) => {
+        const pid = nodePid(spec(i).dataDir)
+        if (pid) process.kill(pid, 'SIGKILL')
+      },
+      startNode: async (i) => {
+        nodes[i] = await startGaleraNode(spec(i), false)
+      },
+      killApp: (i) => {
+        apps[i]?.kill('SIGKILL')
+      },
       stopApp,
       startApp,
       nodeSocket: (i) => nodeSocket(spec(i).dataDir),

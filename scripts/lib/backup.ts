@@ -33,10 +33,16 @@ export class BackupProblem extends Error {}
 function run(cmd: string, args: string[], io: { stdin?: string; stdout?: string } = {}): Promise<void> {
   const child = spawn(cmd, args, { stdio: [io.stdin ? 'pipe' : 'ignore', io.stdout ? 'pipe' : 'ignore', 'pipe'] })
   let err = ''
-  child.stderr!.on('data', (d: Buffer) => { err += d.toString() })
+  child.stderr!.on('data', (d: Buffer) => {
+    err += d.toString()
+  })
   const exited = new Promise<void>((resolve, reject) => {
-    child.on('error', (e) => reject(new BackupProblem(`${cmd} could not be run (${e.message}): install the MariaDB client (apt-get install mariadb-client)`)))
-    child.on('close', (code) => (code === 0 ? resolve() : reject(new BackupProblem(`${cmd} failed (exit ${code}): ${err.trim().slice(0, 500)}`))))
+    child.on('error', (e) =>
+      reject(new BackupProblem(`${cmd} could not be run (${e.message}): install the MariaDB client (apt-get install mariadb-client)`)),
+    )
+    child.on('close', (code) =>
+      code === 0 ? resolve() : reject(new BackupProblem(`${cmd} failed (exit ${code}): ${err.trim().slice(0, 500)}`)),
+    )
   })
   // The dump is complete only once the file has it all, not when the process exits.
   const streams = [
@@ -92,7 +98,11 @@ export async function tableChecksums(sequelize: Sequelize): Promise<Manifest['ta
   return out
 }
 
-const stamp = (d: Date) => d.toISOString().replace(/[-:]/g, '').replace(/\.\d+Z$/, 'Z')
+const stamp = (d: Date) =>
+  d
+    .toISOString()
+    .replace(/[-:]/g, '')
+    .replace(/\.\d+Z$/, 'Z')
 
 /** Takes a backup into a new folder under `intoDir` and returns its path. */
 export async function takeBackup(config: Config, intoDir: string): Promise<string> {
@@ -103,12 +113,29 @@ export async function takeBackup(config: Config, intoDir: string): Promise<strin
   const sequelize = createSequelize(config)
   try {
     const [v] = await sequelize.query<{ v: string }>('SELECT VERSION() AS v', { type: QueryTypes.SELECT }).catch(() => {
-      throw new BackupProblem(`cannot reach the database ${config.db.name} (${config.db.socket ?? `${config.db.host}:${config.db.port}`}): is MariaDB ` +
-          `running, and are DB_* set as the server has them?`)
+      throw new BackupProblem(
+        `cannot reach the database ${config.db.name} (${config.db.socket ?? `${config.db.host}:${config.db.port}`}): is MariaDB ` +
+          `running, and are DB_* set as the server has them?`,
+      )
     })
     // One consistent snapshot without locking writers out (InnoDB); triggers (the audit trail's
     // append-only guard) and routines come with it; binary columns as hex so nothing is mangled.
-    await withOptionFile(config, (auth) => run('mariadb-dump', [...auth, '--single-transaction', '--routines', '--triggers', '--hex-blob', '--default-character-set=utf8mb4', '--skip-dump-date', config.db.name], { stdout: path.join(dir, 'database.sql') }))
+    await withOptionFile(config, (auth) =>
+      run(
+        'mariadb-dump',
+        [
+          ...auth,
+          '--single-transaction',
+          '--routines',
+          '--triggers',
+          '--hex-blob',
+          '--default-character-set=utf8mb4',
+          '--skip-dump-date',
+          config.db.name,
+        ],
+        { stdout: path.join(dir, 'database.sql') },
+      ),
+    )
     const tables = await tableChecksums(sequelize)
     const applied = await sequelize.query<{ name: string }>('SELECT name FROM schema_migrations ORDER BY name', { type: QueryTypes.SELECT })
     // Files after the dump: every document a dumped row names was written before its row.
@@ -118,10 +145,19 @@ export async function takeBackup(config: Config, intoDir: string): Promise<strin
       const full = path.join(dir, rel)
       files.push({ path: rel, bytes: (await stat(full)).size, sha256: await sha256File(full) })
     }
-    const manifest: Manifest = { format: BACKUP_FORMAT, createdAt: now.toISOString(), database: { name: config.db.name, serverVersion: v!.v }, migrations: applied.map((m) => m.name), tables, files }
+    const manifest: Manifest = {
+      format: BACKUP_FORMAT,
+      createdAt: now.toISOString(),
+      database: { name: config.db.name, serverVersion: v!.v },
+      migrations: applied.map((m) => m.name),
+      tables,
+      files,
+    }
     await writeFile(path.join(dir, 'manifest.json'), JSON.stringify(manifest, null, 2) + '\n', { mode: 0o600 })
     // `sha256sum -c SHA256SUMS` checks the folder without Ferrolane.
-    const sums = [...files, { path: 'manifest.json', sha256: await sha256File(path.join(dir, 'manifest.json')) }].map((f) => `${f.sha256}  ${f.path}`)
+    const sums = [...files, { path: 'manifest.json', sha256: await sha256File(path.join(dir, 'manifest.json')) }].map(
+      (f) => `${f.sha256}  ${f.path}`,
+    )
     await writeFile(path.join(dir, 'SHA256SUMS'), sums.join('\n') + '\n', { mode: 0o600 })
     return dir
   } catch (err) {
@@ -135,31 +171,47 @@ export async function takeBackup(config: Config, intoDir: string): Promise<strin
 /** Reads and checks a backup folder; throws BackupProblem naming the first thing wrong. */
 export async function verifyBackup(dir: string): Promise<Manifest> {
   const at = (f: string) => path.join(dir, f)
-  if (!existsSync(at('manifest.json')) || !existsSync(at('SHA256SUMS'))) throw new BackupProblem(`${dir} is not a Ferrolane backup: manifest.json or SHA256SUMS is missing`)
-  const sums = new Map((await readFile(at('SHA256SUMS'), 'utf8')).split('\n').filter(Boolean).map((l) => [l.slice(66), l.slice(0, 64)] as const))
-  if (sums.get('manifest.json') !== (await sha256File(at('manifest.json')))) throw new BackupProblem('manifest.json does not match its checksum in SHA256SUMS: the backup is damaged')
+  if (!existsSync(at('manifest.json')) || !existsSync(at('SHA256SUMS')))
+    throw new BackupProblem(`${dir} is not a Ferrolane backup: manifest.json or SHA256SUMS is missing`)
+  const sums = new Map(
+    (await readFile(at('SHA256SUMS'), 'utf8'))
+      .split('\n')
+      .filter(Boolean)
+      .map((l) => [l.slice(66), l.slice(0, 64)] as const),
+  )
+  if (sums.get('manifest.json') !== (await sha256File(at('manifest.json'))))
+    throw new BackupProblem('manifest.json does not match its checksum in SHA256SUMS: the backup is damaged')
   let manifest: Manifest
   try {
     manifest = JSON.parse(await readFile(at('manifest.json'), 'utf8')) as Manifest
   } catch {
     throw new BackupProblem('manifest.json is not readable JSON: the backup is damaged')
   }
-  if (manifest.format !== BACKUP_FORMAT) throw new BackupProblem(`this backup's format is ${String(manifest.format)}; this Ferrolane reads ${BACKUP_FORMAT}`)
+  if (manifest.format !== BACKUP_FORMAT)
+    throw new BackupProblem(`this backup's format is ${String(manifest.format)}; this Ferrolane reads ${BACKUP_FORMAT}`)
   if (!manifest.files.some((f) => f.path === 'database.sql')) throw new BackupProblem('the manifest lists no database.sql')
   for (const f of manifest.files) {
     const full = path.join(dir, f.path)
     if (path.relative(dir, full).startsWith('..')) throw new BackupProblem(`the manifest names a file outside the backup: ${f.path}`)
     if (!existsSync(full)) throw new BackupProblem(`${f.path} is missing from the backup`)
-    if ((await stat(full)).size !== f.bytes || (await sha256File(full)) !== f.sha256) throw new BackupProblem(`${f.path} does not match its checksum: the backup is damaged`)
+    if ((await stat(full)).size !== f.bytes || (await sha256File(full)) !== f.sha256)
+      throw new BackupProblem(`${f.path} does not match its checksum: the backup is damaged`)
   }
   // A backup from a newer Ferrolane has tables this code does not know how to use.
   const known = new Set(migrations.map((m) => m.name))
   const unknown = manifest.migrations.filter((m) => !known.has(m))
-  if (unknown.length) throw new BackupProblem(`this backup was taken by a newer Ferrolane (migrations ${unknown.join(', ')} are unknown here): restore it with that version`)
+  if (unknown.length)
+    throw new BackupProblem(
+      `this backup was taken by a newer Ferrolane (migrations ${unknown.join(', ')} are unknown here): restore it with that version`,
+    )
   return manifest
 }
 
-export interface RestoreResult { manifest: Manifest; differing: string[]; previousUploads: string | null }
+export interface RestoreResult {
+  manifest: Manifest
+  differing: string[]
+  previousUploads: string | null
+}
 
 /**
  * Replaces the database's tables and the upload directory with the backup's. The running app
@@ -180,10 +232,13 @@ export async function restoreBackup(config: Config, dir: string): Promise<Restor
         { type: QueryTypes.SELECT, transaction },
       )
       // DROP TABLE takes the audit trail's triggers with it; the dump recreates them after its rows.
-      for (const o of objects) await sequelize.query(`DROP ${o.kind === 'VIEW' ? 'VIEW' : 'TABLE'} IF EXISTS \`${o.name}\``, { type: QueryTypes.RAW, transaction })
+      for (const o of objects)
+        await sequelize.query(`DROP ${o.kind === 'VIEW' ? 'VIEW' : 'TABLE'} IF EXISTS \`${o.name}\``, { type: QueryTypes.RAW, transaction })
       await sequelize.query('SET FOREIGN_KEY_CHECKS = 1', { type: QueryTypes.RAW, transaction })
     })
-    await withOptionFile(config, (auth) => run('mariadb', [...auth, '--default-character-set=utf8mb4', config.db.name], { stdin: path.join(dir, 'database.sql') }))
+    await withOptionFile(config, (auth) =>
+      run('mariadb', [...auth, '--default-character-set=utf8mb4', config.db.name], { stdin: path.join(dir, 'database.sql') }),
+    )
     let previousUploads: string | null = null
     if (existsSync(config.uploadDir)) {
       previousUploads = `${config.uploadDir}.before-restore-${stamp(new Date())}`

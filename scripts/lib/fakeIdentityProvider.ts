@@ -76,11 +76,20 @@ function configuration(opts: FakeIdentityOptions): Configuration {
       devInteractions: { enabled: false },
       rpInitiatedLogout: {
         enabled: true,
-        logoutSource: async (ctx, form) => { ctx.type = 'html'; ctx.body = logoutPage(form) },
-        postLogoutSuccessSource: async (ctx) => { ctx.type = 'html'; ctx.body = signedOutPage() },
+        logoutSource: async (ctx, form) => {
+          ctx.type = 'html'
+          ctx.body = logoutPage(form)
+        },
+        postLogoutSuccessSource: async (ctx) => {
+          ctx.type = 'html'
+          ctx.body = signedOutPage()
+        },
       },
     },
-    renderError: async (ctx, out) => { ctx.type = 'html'; ctx.body = errorPage(String(out.error_description ?? out.error)) },
+    renderError: async (ctx, out) => {
+      ctx.type = 'html'
+      ctx.body = errorPage(String(out.error_description ?? out.error))
+    },
     findAccount: async (_ctx, sub) => {
       const person = opts.directory.find((p) => p.sub === sub)
       if (!person) return undefined
@@ -93,12 +102,24 @@ function configuration(opts: FakeIdentityOptions): Configuration {
   }
 }
 
-async function interaction(provider: Provider, opts: FakeIdentityOptions, req: http.IncomingMessage, res: http.ServerResponse, action: string): Promise<void> {
+async function interaction(
+  provider: Provider,
+  opts: FakeIdentityOptions,
+  req: http.IncomingMessage,
+  res: http.ServerResponse,
+  action: string,
+): Promise<void> {
   const details = await provider.interactionDetails(req, res)
   const clientName = 'Ferrolane'
   if (req.method === 'GET') {
-    const scopes = String(details.params.scope ?? '').split(' ').filter(Boolean)
-    return sendHtml(res, 200, details.prompt.name === 'login' ? loginPage(details.uid, clientName) : consentPage(details.uid, clientName, scopes))
+    const scopes = String(details.params.scope ?? '')
+      .split(' ')
+      .filter(Boolean)
+    return sendHtml(
+      res,
+      200,
+      details.prompt.name === 'login' ? loginPage(details.uid, clientName) : consentPage(details.uid, clientName, scopes),
+    )
   }
   if (action === 'login') {
     const form = await readForm(req)
@@ -109,7 +130,9 @@ async function interaction(provider: Provider, opts: FakeIdentityOptions, req: h
   }
   if (action === 'confirm') {
     const { accountId } = details.session ?? {}
-    const grant = details.grantId ? await provider.Grant.find(details.grantId) : new provider.Grant({ accountId, clientId: details.params.client_id as string })
+    const grant = details.grantId
+      ? await provider.Grant.find(details.grantId)
+      : new provider.Grant({ accountId, clientId: details.params.client_id as string })
     const missing = details.prompt.details as { missingOIDCScope?: string[]; missingOIDCClaims?: string[] }
     if (missing.missingOIDCScope) grant!.addOIDCScope(missing.missingOIDCScope.join(' '))
     if (missing.missingOIDCClaims) grant!.addOIDCClaims(missing.missingOIDCClaims)
@@ -117,7 +140,12 @@ async function interaction(provider: Provider, opts: FakeIdentityOptions, req: h
     return provider.interactionFinished(req, res, { consent: { grantId } }, { mergeWithLastSubmission: true })
   }
   if (action === 'abort') {
-    return provider.interactionFinished(req, res, { error: 'access_denied', error_description: 'The user did not allow access' }, { mergeWithLastSubmission: false })
+    return provider.interactionFinished(
+      req,
+      res,
+      { error: 'access_denied', error_description: 'The user did not allow access' },
+      { mergeWithLastSubmission: false },
+    )
   }
   sendHtml(res, 404, errorPage('No such page'))
 }

@@ -40,7 +40,9 @@ export async function startMaildev(opts: { smtpPort: number; webPort: number; la
     { stdio: ['ignore', 'ignore', 'inherit'] },
   )
   let exited = false
-  child.on('exit', () => { exited = true })
+  child.on('exit', () => {
+    exited = true
+  })
   const deadline = Date.now() + 20_000
   while (!(await webAnswers(opts.webPort))) {
     if (exited) throw new Error(`maildev exited at start (ports ${opts.smtpPort}/${opts.webPort} in use?)`)

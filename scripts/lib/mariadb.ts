@@ -68,13 +68,7 @@ function initialise(dataDir: string, label: string): void {
   if (existsSync(path.join(db, 'mysql'))) return
   mkdirSync(db, { recursive: true })
   console.log(`[${label}] initialising a new MariaDB data directory in ${db}`)
-  const args = [
-    '--no-defaults',
-    `--datadir=${db}`,
-    '--auth-root-authentication-method=normal',
-    '--skip-test-db',
-    '--skip-name-resolve',
-  ]
+  const args = ['--no-defaults', `--datadir=${db}`, '--auth-root-authentication-method=normal', '--skip-test-db', '--skip-name-resolve']
   if (runningAsRoot()) args.push('--user=root')
   execFileSync('mariadb-install-db', args, { stdio: ['ignore', 'ignore', 'inherit'] })
 }
@@ -101,7 +95,7 @@ async function waitUntil(check: () => Promise<boolean>, timeoutMs: number, what:
 /** Starts the server (initialising the data directory on first use) and waits until it answers. */
 export async function startMariaDb(opts: MariaDbOptions): Promise<MariaDbHandle> {
   const mariadbd = findMariaDbd()
-  if (!mariadbd) throw new Error('mariadbd was not found: install Debian\'s mariadb-server (apt-get install mariadb-server)')
+  if (!mariadbd) throw new Error("mariadbd was not found: install Debian's mariadb-server (apt-get install mariadb-server)")
   mkdirSync(opts.dataDir, { recursive: true })
   initialise(opts.dataDir, opts.label)
   opts.beforeStart?.()
@@ -136,12 +130,18 @@ export async function startMariaDb(opts: MariaDbOptions): Promise<MariaDbHandle>
   // MariaDB down in order, after the server that uses it.
   const child: ChildProcess = spawn(mariadbd, args, { stdio: 'ignore', detached: true })
   let exited = false
-  child.on('exit', () => { exited = true })
+  child.on('exit', () => {
+    exited = true
+  })
   try {
-    await waitUntil(async () => {
-      if (exited) throw new Error(`mariadbd exited at start; see ${path.join(opts.dataDir, 'mariadb.err')}`)
-      return canConnect(socket)
-    }, opts.readyTimeoutMs ?? 60_000, `MariaDB on port ${opts.port}`)
+    await waitUntil(
+      async () => {
+        if (exited) throw new Error(`mariadbd exited at start; see ${path.join(opts.dataDir, 'mariadb.err')}`)
+        return canConnect(socket)
+      },
+      opts.readyTimeoutMs ?? 60_000,
+      `MariaDB on port ${opts.port}`,
+    )
   } catch (err) {
     const log = path.join(opts.dataDir, 'mariadb.err')
     if (existsSync(log)) console.error(readFileSync(log, 'utf8').split('\n').slice(-15).join('\n'))
@@ -167,7 +167,11 @@ async function stopByPidFile(pidFile: string, socket: string): Promise<void> {
   if (!existsSync(pidFile)) return
   const pid = Number(readFileSync(pidFile, 'utf8').trim())
   if (!pid) return
-  try { process.kill(pid, 'SIGTERM') } catch { return }
+  try {
+    process.kill(pid, 'SIGTERM')
+  } catch {
+    return
+  }
   await waitUntil(async () => !(await canConnect(socket)), 60_000, 'MariaDB to shut down')
 }
 
@@ -182,10 +186,7 @@ export async function dropDatabase(socket: string, name: string): Promise<void> 
 }
 
 /** Creates the database and the application's own account (the app never runs as root). */
-export async function ensureDatabase(
-  socket: string,
-  db: { name: string; user: string; password: string },
-): Promise<void> {
+export async function ensureDatabase(socket: string, db: { name: string; user: string; password: string }): Promise<void> {
   const conn = await mariadb.createConnection({ socketPath: socket, user: 'root' })
   try {
     const ident = (s: string) => '`' + s.replace(/`/g, '``') + '`'

@@ -1,5 +1,14 @@
 import type { Transaction } from 'sequelize'
-import { Appointment, AppointmentEvent, AppointmentTask, InfusionSession, OutboxMessage, Patient, Referral, User } from '../../server/models/index'
+import {
+  Appointment,
+  AppointmentEvent,
+  AppointmentTask,
+  InfusionSession,
+  OutboxMessage,
+  Patient,
+  Referral,
+  User,
+} from '../../server/models/index'
 import { zonedToUtc, type AppointmentKind, type AppointmentStatus } from '../../shared/appointments'
 import { addDays } from '../../shared/pathway'
 import { clinicToday } from '../../server/services/clinicDay'
@@ -22,14 +31,56 @@ function sessionDates(): string[] {
   return out
 }
 
-interface DemoVisit { family: string; kind: AppointmentKind; date: string | 'session1' | 'session2'; time: string; minutes: number; place: string; status: AppointmentStatus; rebookNote?: string }
+interface DemoVisit {
+  family: string
+  kind: AppointmentKind
+  date: string | 'session1' | 'session2'
+  time: string
+  minutes: number
+  place: string
+  status: AppointmentStatus
+  rebookNote?: string
+}
 
 const VISITS: DemoVisit[] = [
-  { family: 'Hawthornley', kind: 'anaemia-clinic', date: addDays(clinicToday(), 3), time: '10:00', minutes: 30, place: 'Anaemia Clinic, Outpatients B (demo)', status: 'booked' },
-  { family: 'Brackenmoor', kind: 'anaemia-clinic', date: addDays(clinicToday(), 5), time: '14:00', minutes: 30, place: 'Anaemia Clinic, Outpatients B (demo)', status: 'confirmed' },
+  {
+    family: 'Hawthornley',
+    kind: 'anaemia-clinic',
+    date: addDays(clinicToday(), 3),
+    time: '10:00',
+    minutes: 30,
+    place: 'Anaemia Clinic, Outpatients B (demo)',
+    status: 'booked',
+  },
+  {
+    family: 'Brackenmoor',
+    kind: 'anaemia-clinic',
+    date: addDays(clinicToday(), 5),
+    time: '14:00',
+    minutes: 30,
+    place: 'Anaemia Clinic, Outpatients B (demo)',
+    status: 'confirmed',
+  },
   { family: 'Wychwood', kind: 'iron-infusion', date: 'session1', time: '09:30', minutes: 60, place: UNIT, status: 'booked' },
-  { family: 'Furzebank', kind: 'iron-infusion', date: 'session2', time: '10:30', minutes: 60, place: UNIT, status: 'rebook-requested', rebookNote: 'Could it be an afternoon? I work mornings that week.' },
-  { family: 'Rushmere', kind: 'recheck-bloods', date: addDays(clinicToday(), 8), time: '08:45', minutes: 15, place: 'Phlebotomy, Level 0 (demo)', status: 'booked' },
+  {
+    family: 'Furzebank',
+    kind: 'iron-infusion',
+    date: 'session2',
+    time: '10:30',
+    minutes: 60,
+    place: UNIT,
+    status: 'rebook-requested',
+    rebookNote: 'Could it be an afternoon? I work mornings that week.',
+  },
+  {
+    family: 'Rushmere',
+    kind: 'recheck-bloods',
+    date: addDays(clinicToday(), 8),
+    time: '08:45',
+    minutes: 15,
+    place: 'Phlebotomy, Level 0 (demo)',
+    status: 'booked',
+  },
 ]
 
 /**
@@ -41,7 +92,13 @@ export async function loadDemoAppointments(t: Transaction): Promise<void> {
   const nurse = await User.findOne({ where: { email: 'nurse@ferrolane.test' }, transaction: t, raw: true })
   const dates = sessionDates()
   await InfusionSession.bulkCreate(
-    dates.map((d) => ({ startsAt: zonedToUtc(d, '09:00', TZ), endsAt: zonedToUtc(d, '12:30', TZ), chairs: 6, location: UNIT, createdBy: admin?.id ?? null })),
+    dates.map((d) => ({
+      startsAt: zonedToUtc(d, '09:00', TZ),
+      endsAt: zonedToUtc(d, '12:30', TZ),
+      chairs: 6,
+      location: UNIT,
+      createdBy: admin?.id ?? null,
+    })),
     { transaction: t },
   )
   const sessions = await InfusionSession.findAll({ order: [['startsAt', 'ASC']], transaction: t, raw: true })
@@ -56,27 +113,76 @@ export async function loadDemoAppointments(t: Transaction): Promise<void> {
     const remind = new Date(startsAt.getTime() - 2 * DAY_MS)
     const a = await Appointment.create(
       {
-        referralId: referral.id, patientId: patient.id, kind: v.kind, startsAt, endsAt: new Date(startsAt.getTime() + v.minutes * 60_000), durationMin: v.minutes,
-        location: v.place, infusionSessionId: session?.id ?? null, status: v.status, confirmedAt: v.status === 'confirmed' ? new Date(now - 3_600_000) : null,
-        remindAt: remind.getTime() > now ? remind : null, createdBy: nurse?.id ?? null,
+        referralId: referral.id,
+        patientId: patient.id,
+        kind: v.kind,
+        startsAt,
+        endsAt: new Date(startsAt.getTime() + v.minutes * 60_000),
+        durationMin: v.minutes,
+        location: v.place,
+        infusionSessionId: session?.id ?? null,
+        status: v.status,
+        confirmedAt: v.status === 'confirmed' ? new Date(now - 3_600_000) : null,
+        remindAt: remind.getTime() > now ? remind : null,
+        createdBy: nurse?.id ?? null,
       },
       { transaction: t },
     )
     const bookedAt = new Date(now - 2 * DAY_MS)
-    await AppointmentEvent.create({ appointmentId: a.id, kind: 'booked', startsAt, durationMin: v.minutes, location: v.place, note: null, userId: nurse?.id ?? null, at: bookedAt }, { transaction: t })
-    const snapshot = snapshotOf(a.get({ plain: true }), patient)
-    await OutboxMessage.create(
+    await AppointmentEvent.create(
       {
-        kind: 'booking', appointmentId: a.id, referralId: referral.id, patientId: patient.id, toAddress: patient.email ?? 'demo@example.test',
-        subject: subjectFor('booking', snapshot, { ...DEMO_HOSPITAL }), payload: snapshot, dedupeKey: null, status: 'sent', attempts: 1,
-        nextAttemptAt: bookedAt, sentAt: bookedAt, smtpMessageId: `<demo-${a.id}@ferrolane>`,
+        appointmentId: a.id,
+        kind: 'booked',
+        startsAt,
+        durationMin: v.minutes,
+        location: v.place,
+        note: null,
+        userId: nurse?.id ?? null,
+        at: bookedAt,
       },
       { transaction: t },
     )
-    if (v.status === 'confirmed') await AppointmentEvent.create({ appointmentId: a.id, kind: 'confirmed', startsAt: null, durationMin: null, location: null, note: null, userId: null }, { transaction: t })
+    const snapshot = snapshotOf(a.get({ plain: true }), patient)
+    await OutboxMessage.create(
+      {
+        kind: 'booking',
+        appointmentId: a.id,
+        referralId: referral.id,
+        patientId: patient.id,
+        toAddress: patient.email ?? 'demo@example.test',
+        subject: subjectFor('booking', snapshot, { ...DEMO_HOSPITAL }),
+        payload: snapshot,
+        dedupeKey: null,
+        status: 'sent',
+        attempts: 1,
+        nextAttemptAt: bookedAt,
+        sentAt: bookedAt,
+        smtpMessageId: `<demo-${a.id}@ferrolane>`,
+      },
+      { transaction: t },
+    )
+    if (v.status === 'confirmed')
+      await AppointmentEvent.create(
+        { appointmentId: a.id, kind: 'confirmed', startsAt: null, durationMin: null, location: null, note: null, userId: null },
+        { transaction: t },
+      )
     if (v.rebookNote) {
-      await AppointmentEvent.create({ appointmentId: a.id, kind: 'rebook-requested', startsAt: null, durationMin: null, location: null, note: v.rebookNote, userId: null }, { transaction: t })
-      await AppointmentTask.create({ kind: 'rebook-request', appointmentId: a.id, referralId: referral.id, patientId: patient.id, message: v.rebookNote }, { transaction: t })
+      await AppointmentEvent.create(
+        {
+          appointmentId: a.id,
+          kind: 'rebook-requested',
+          startsAt: null,
+          durationMin: null,
+          location: null,
+          note: v.rebookNote,
+          userId: null,
+        },
+        { transaction: t },
+      )
+      await AppointmentTask.create(
+        { kind: 'rebook-request', appointmentId: a.id, referralId: referral.id, patientId: patient.id, message: v.rebookNote },
+        { transaction: t },
+      )
     }
   }
 }

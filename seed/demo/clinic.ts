@@ -28,26 +28,58 @@ export async function loadDemoTreatments(t: Transaction, doctorId: number, nurse
     const firstHb = await Result.findOne({ where: { referralId: r.id, analyte: 'hb' }, order: [['takenAt', 'ASC']], transaction: t })
     if (!body.weightKg || !firstHb) continue
     // The first dose of the plan the clinic would compute (Ganzoni, capped by the product's rules).
-    const plan = ironDosePlan({ product: FCM, weightKg: body.weightKg, hbGL: firstHb.valueCanonical, targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL })
+    const plan = ironDosePlan({
+      product: FCM,
+      weightKg: body.weightKg,
+      hbGL: firstHb.valueCanonical,
+      targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL,
+    })
     const deficit = plan.deficitMg
     const dose = plan.doses[0]?.doseMg ?? 0
     if (!dose) continue
     const orderedAt = r.treatmentOrderedAt!
-    const p = await Prescription.create({
-      referralId: r.id, productCode: 'ferric-carboxymaltose', route: 'iv', weightKg: body.weightKg, hbGL: firstHb.valueCanonical,
-      targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL, deficitMg: deficit, totalMg: dose, firstDoseDate: dateInZone(orderedAt, clinicTimeZone()),
-      plan: { doses: [{ number: 1, doseMg: dose, dayOffset: 0, cappedBy: [] }], warnings: [], oralSchedule: null },
-      cautions: NO_CAUTIONS, overrideReason: null, status: r.treatmentGivenAt ? 'completed' : 'active', prescribedBy: doctorId, prescribedAt: orderedAt,
-    }, { transaction: t })
+    const p = await Prescription.create(
+      {
+        referralId: r.id,
+        productCode: 'ferric-carboxymaltose',
+        route: 'iv',
+        weightKg: body.weightKg,
+        hbGL: firstHb.valueCanonical,
+        targetHbGL: DEFAULT_CLINIC_SETTINGS.ironTargetHbGL,
+        deficitMg: deficit,
+        totalMg: dose,
+        firstDoseDate: dateInZone(orderedAt, clinicTimeZone()),
+        plan: { doses: [{ number: 1, doseMg: dose, dayOffset: 0, cappedBy: [] }], warnings: [], oralSchedule: null },
+        cautions: NO_CAUTIONS,
+        overrideReason: null,
+        status: r.treatmentGivenAt ? 'completed' : 'active',
+        prescribedBy: doctorId,
+        prescribedAt: orderedAt,
+      },
+      { transaction: t },
+    )
     if (r.treatmentGivenAt) {
-      await Administration.create({
-        prescriptionId: p.id, referralId: r.id, doseMg: dose, givenAt: r.treatmentGivenAt, batchNumber: `DEMO-${4100 + r.id}`,
-        reaction: 'none', reactionNotes: null, givenBy: nurseId,
-      }, { transaction: t })
+      await Administration.create(
+        {
+          prescriptionId: p.id,
+          referralId: r.id,
+          doseMg: dose,
+          givenAt: r.treatmentGivenAt,
+          batchNumber: `DEMO-${4100 + r.id}`,
+          reaction: 'none',
+          reactionNotes: null,
+          givenBy: nurseId,
+        },
+        { transaction: t },
+      )
     }
   }
   // The worklist's response flags follow from these doses and the Hb results after them.
-  await refreshIronResponse(Referral.sequelize!, treated.map((r) => r.id), t)
+  await refreshIronResponse(
+    Referral.sequelize!,
+    treated.map((r) => r.id),
+    t,
+  )
 }
 
 /** One surgeon has looked at an anaemic patient close to surgery and asked for the date to move. */
@@ -60,7 +92,17 @@ export async function loadDemoDateRequest(sequelize: Sequelize): Promise<void> {
   const projection = await projectionForReferral(loaded).catch(() => null)
   if (!projection || !surgeon) return
   await sequelize.transaction(async (t) => {
-    await ReadinessReview.create({ referralId: r.id, surgeonId: r.surgeonId, action: 'date-change-requested', reason: 'Still anaemic on the projection; would rather operate after iron has worked (demo).', projection, at: new Date() }, { transaction: t })
+    await ReadinessReview.create(
+      {
+        referralId: r.id,
+        surgeonId: r.surgeonId,
+        action: 'date-change-requested',
+        reason: 'Still anaemic on the projection; would rather operate after iron has worked (demo).',
+        projection,
+        at: new Date(),
+      },
+      { transaction: t },
+    )
     await r.update({ dateChangeRequestedAt: new Date() }, { transaction: t })
   })
 }

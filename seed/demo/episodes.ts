@@ -17,8 +17,13 @@ function stageDay(stage: Stage, e: DemoEpisode, previous: number): number {
   const recheckHb = e.hb?.[1]?.[0]
   const surgery = e.referredDaysAgo + e.surgeryInDays
   const day: Partial<Record<Stage, number>> = {
-    screened: first + 1, clinic: first + 3, treating: first + 7, recheck: first + 10,
-    cleared: (recheckHb ?? first) + 1, operated: surgery, closed: surgery + 7,
+    screened: first + 1,
+    clinic: first + 3,
+    treating: first + 7,
+    recheck: first + 10,
+    cleared: (recheckHb ?? first) + 1,
+    operated: surgery,
+    closed: surgery + 7,
   }
   return Math.max(previous + 0.1, day[stage] ?? previous + 2)
 }
@@ -30,7 +35,10 @@ async function userIds(t: Transaction): Promise<Map<string, number>> {
 
 /** Loads the catalogue and the invented episodes, stage history and results included. */
 export async function loadDemoEpisodes(t: Transaction): Promise<void> {
-  const procedures = await Procedure.bulkCreate(DEMO_PROCEDURES.map((p) => ({ ...p, active: true })), { transaction: t })
+  const procedures = await Procedure.bulkCreate(
+    DEMO_PROCEDURES.map((p) => ({ ...p, active: true })),
+    { transaction: t },
+  )
   const procId = new Map(procedures.map((p) => [p.code, p.id]))
   const users = await userIds(t)
   const now = Date.now()
@@ -42,17 +50,30 @@ export async function loadDemoEpisodes(t: Transaction): Promise<void> {
     const dob = addDays(today, -Math.round(e.age * 365.25) - i * 11)
     const patient = await Patient.create(
       {
-        mrn: `KV${100200 + i * 37}`, givenName: e.given, familyName: e.family, dateOfBirth: dob, sex: e.sex,
-        email: `${e.given}.${e.family}@example.test`.toLowerCase(), phone: `01632 960 ${String(100 + i * 7).slice(-3)}`,
-        gpPractice: i % 2 ? 'Vale Road Surgery (demo)' : 'Kestrel Lane Medical Centre (demo)', notes: null,
-        createdBy: users.get(ACTORS.nurse)!, createdAt: new Date(referredAt), updatedAt: new Date(referredAt),
+        mrn: `KV${100200 + i * 37}`,
+        givenName: e.given,
+        familyName: e.family,
+        dateOfBirth: dob,
+        sex: e.sex,
+        email: `${e.given}.${e.family}@example.test`.toLowerCase(),
+        phone: `01632 960 ${String(100 + i * 7).slice(-3)}`,
+        gpPractice: i % 2 ? 'Vale Road Surgery (demo)' : 'Kestrel Lane Medical Centre (demo)',
+        notes: null,
+        createdBy: users.get(ACTORS.nurse)!,
+        createdAt: new Date(referredAt),
+        updatedAt: new Date(referredAt),
       },
       { transaction: t },
     )
-    await PatientMeasurement.create({ patientId: patient.id, heightCm: e.cm, weightKg: e.kg, measuredAt: new Date(referredAt), recordedBy: users.get(ACTORS.nurse)! }, { transaction: t })
+    await PatientMeasurement.create(
+      { patientId: patient.id, heightCm: e.cm, weightKg: e.kg, measuredAt: new Date(referredAt), recordedBy: users.get(ACTORS.nurse)! },
+      { transaction: t },
+    )
 
     // The stage history, each move by a role the pathway allows.
-    const moves: { from: Stage | null; to: Stage; at: Date; userId: number; reason: string | null }[] = [{ from: null, to: 'referred', at: new Date(referredAt), userId: users.get(ACTORS.nurse)!, reason: null }]
+    const moves: { from: Stage | null; to: Stage; at: Date; userId: number; reason: string | null }[] = [
+      { from: null, to: 'referred', at: new Date(referredAt), userId: users.get(ACTORS.nurse)!, reason: null },
+    ]
     let day = 0
     for (const to of e.path) {
       const from = moves[moves.length - 1]!.to
@@ -68,26 +89,57 @@ export async function loadDemoEpisodes(t: Transaction): Promise<void> {
     const givenAt = treated && !e.notGiven ? new Date(treated.at.getTime() + DAY) : null
     const referral = await Referral.create(
       {
-        patientId: patient.id, procedureId: procId.get(e.op)!, surgeonId: users.get(SURGEONS[e.surgeon])!,
-        plannedSurgeryDate: addDays(today, e.surgeryInDays), priority: e.priority ?? 'routine',
+        patientId: patient.id,
+        procedureId: procId.get(e.op)!,
+        surgeonId: users.get(SURGEONS[e.surgeon])!,
+        plannedSurgeryDate: addDays(today, e.surgeryInDays),
+        priority: e.priority ?? 'routine',
         referringSource: `${DEMO_PROCEDURES.find((p) => p.code === e.op)!.specialty} outpatients (demo)`,
-        stage, anaemiaCriteria: DEFAULT_ANAEMIA_CRITERIA, anaemic: null, anaemiaSeverity: null, ironStatus: null, proposedStage: null,
-        latestHbGL: null, latestHbAt: null,
+        stage,
+        anaemiaCriteria: DEFAULT_ANAEMIA_CRITERIA,
+        anaemic: null,
+        anaemiaSeverity: null,
+        ironStatus: null,
+        proposedStage: null,
+        latestHbGL: null,
+        latestHbAt: null,
         recheckDueDate: e.recheckInDays !== undefined ? addDays(today, e.recheckInDays) : null,
-        treatmentOrderedAt: treated?.at ?? null, treatmentGivenAt: givenAt,
-        createdBy: users.get(ACTORS.nurse)!, version: moves.length, createdAt: new Date(referredAt), updatedAt: moves[moves.length - 1]!.at,
+        treatmentOrderedAt: treated?.at ?? null,
+        treatmentGivenAt: givenAt,
+        createdBy: users.get(ACTORS.nurse)!,
+        version: moves.length,
+        createdAt: new Date(referredAt),
+        updatedAt: moves[moves.length - 1]!.at,
       },
       { transaction: t },
     )
-    await StageTransition.bulkCreate(moves.map((m) => ({ referralId: referral.id, fromStage: m.from, toStage: m.to, reason: m.reason, userId: m.userId, at: m.at })), { transaction: t })
+    await StageTransition.bulkCreate(
+      moves.map((m) => ({ referralId: referral.id, fromStage: m.from, toStage: m.to, reason: m.reason, userId: m.userId, at: m.at })),
+      { transaction: t },
+    )
     await loadResults(t, e, referral, patient, at, users.get(ACTORS.nurse)!)
   }
 }
 
-async function loadResults(t: Transaction, e: DemoEpisode, referral: Referral, patient: Patient, at: (day: number) => Date, nurseId: number) {
+async function loadResults(
+  t: Transaction,
+  e: DemoEpisode,
+  referral: Referral,
+  patient: Patient,
+  at: (day: number) => Date,
+  nurseId: number,
+) {
   if (!e.hb?.length) return
   const base = { referralId: referral.id, patientId: patient.id, enteredBy: nurseId, source: 'manual', derivedFrom: null }
-  const row = (analyte: string, value: number, unit: string, takenAt: Date) => ({ ...base, analyte: analyte as 'hb', valueCanonical: value, unitCanonical: unit, valueReported: value, unitReported: unit, takenAt })
+  const row = (analyte: string, value: number, unit: string, takenAt: Date) => ({
+    ...base,
+    analyte: analyte as 'hb',
+    valueCanonical: value,
+    unitCanonical: unit,
+    valueReported: value,
+    unitReported: unit,
+    takenAt,
+  })
   const first = at(e.hb[0]![0])
   const rows = e.hb.map(([day, hb]) => row('hb', hb, 'g/L', at(day)))
   if (e.iron) {
@@ -97,7 +149,12 @@ async function loadResults(t: Transaction, e: DemoEpisode, referral: Referral, p
   const creatinine = e.sex === 'female' ? 68 : 84
   rows.push(row('creatinine', creatinine, 'µmol/L', first))
   const egfr = egfrCkdEpi2021({ creatinineUmolL: creatinine, ageYears: e.age, sex: e.sex })
-  rows.push({ ...row('egfr', Math.round(egfr * 10) / 10, 'mL/min/1.73 m²', first), valueReported: null as unknown as number, unitReported: null as unknown as string, source: 'derived' })
+  rows.push({
+    ...row('egfr', Math.round(egfr * 10) / 10, 'mL/min/1.73 m²', first),
+    valueReported: null as unknown as number,
+    unitReported: null as unknown as string,
+    source: 'derived',
+  })
   await Result.bulkCreate(rows, { transaction: t })
   const last = e.hb[e.hb.length - 1]!
   const outcome = screeningOutcome(

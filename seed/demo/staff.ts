@@ -3,7 +3,11 @@ import type { Role } from '../../shared/roles'
 /** Demo only; listed in the README. Never used outside the demo scenario. */
 export const DEMO_PASSWORD = 'ferrolane-demo-2026'
 
-export interface DemoStaff { email: string; name: string; role: Role }
+export interface DemoStaff {
+  email: string
+  name: string
+  role: Role
+}
 
 export const DEMO_ACCOUNTS: DemoStaff[] = [
   { email: 'admin@ferrolane.test', name: 'Priya Anand', role: 'admin' },

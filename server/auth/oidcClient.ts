@@ -39,13 +39,15 @@ function configurationFor(oidc: OidcConfig): Promise<client.Configuration> {
   let found = discovered.get(key)
   if (!found) {
     const issuer = new URL(oidc.issuer)
-    found = openid().then((lib) => lib.discovery(
-      issuer,
-      oidc.clientId,
-      undefined,
-      lib.ClientSecretBasic(oidc.clientSecret),
-      issuer.protocol === 'http:' && isLoopback(issuer) ? { execute: [lib.allowInsecureRequests], timeout: 10 } : { timeout: 10 },
-    ))
+    found = openid().then((lib) =>
+      lib.discovery(
+        issuer,
+        oidc.clientId,
+        undefined,
+        lib.ClientSecretBasic(oidc.clientSecret),
+        issuer.protocol === 'http:' && isLoopback(issuer) ? { execute: [lib.allowInsecureRequests], timeout: 10 } : { timeout: 10 },
+      ),
+    )
     // A provider that was down is asked again next time instead of failing forever.
     found.catch(() => discovered.delete(key))
     discovered.set(key, found)

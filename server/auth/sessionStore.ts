@@ -31,7 +31,10 @@ export class MariaDbSessionStore extends session.Store {
 
   override get(sid: string, cb: Callback): void {
     // Runs on every request: straight through the driver, without Sequelize's query path.
-    rawSelect<{ data: string }>(SessionRow.sequelize!, 'SELECT data FROM sessions WHERE sid = :sid AND expires_at > :now', { sid, now: new Date() })
+    rawSelect<{ data: string }>(SessionRow.sequelize!, 'SELECT data FROM sessions WHERE sid = :sid AND expires_at > :now', {
+      sid,
+      now: new Date(),
+    })
       .then((rows) => cb(null, rows[0] ? (JSON.parse(rows[0].data) as session.SessionData) : null))
       .catch((err) => cb(err))
   }

@@ -20,7 +20,12 @@ export interface CalendarFile {
 export function calendarFile(kind: MessageKind, s: AppointmentSnapshot, clinic: ClinicContact, replyUrl: string | null): CalendarFile {
   const method = kind === 'cancellation' ? 'CANCEL' : 'REQUEST'
   const info = KIND_INFO[s.kind]
-  const lines = [`${info.label} with the ${clinic.service}, ${clinic.name}.`, '', 'Before you come:', ...info.preparation.map((p) => `- ${p}`)]
+  const lines = [
+    `${info.label} with the ${clinic.service}, ${clinic.name}.`,
+    '',
+    'Before you come:',
+    ...info.preparation.map((p) => `- ${p}`),
+  ]
   if (replyUrl) lines.push('', `Confirm or ask to rebook: ${replyUrl}`)
   lines.push('', `Questions: call ${clinic.phone}.`)
   const { error, value } = createEvent({
@@ -42,7 +47,7 @@ export function calendarFile(kind: MessageKind, s: AppointmentSnapshot, clinic: 
     // iTIP needs an organiser for REQUEST and CANCEL; the patient is the one attendee.
     organizer: { name: clinic.name, email: clinic.email },
     attendees: [{ name: s.fullName, email: s.email, rsvp: false, role: 'REQ-PARTICIPANT', partstat: 'NEEDS-ACTION' }],
-    ...(url(replyUrl)),
+    ...url(replyUrl),
   })
   if (error || !value) throw new Error(`Could not build the calendar file: ${error?.message ?? 'no output'}`)
   return { method, content: value }

@@ -3,7 +3,9 @@ import type { Request, RequestHandler } from 'express'
 import { Forbidden } from '../errors'
 
 declare module 'express-session' {
-  interface SessionData { csrfToken?: string }
+  interface SessionData {
+    csrfToken?: string
+  }
 }
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS'])

@@ -25,8 +25,10 @@ function countDatabaseError(req: Request, kind: 'unavailable' | 'query'): void {
 /** A 403 (a role refusal or a CSRF refusal) is a security event: it goes to the audit trail. */
 async function recordRefusal(req: Request, e: AppError): Promise<void> {
   const action = e.code === 'csrf_invalid' ? 'csrf-refused' : 'forbidden'
-  await recordSecurityEvent(actorOf(req), action, `${req.method} ${req.baseUrl}${req.path}`, { code: e.code, route: `${req.method} ${req.originalUrl.split('?')[0]}`.slice(0, 300) })
-    .catch((auditErr: unknown) => logUnexpected(req, auditErr, 'could not record a refusal in the audit trail'))
+  await recordSecurityEvent(actorOf(req), action, `${req.method} ${req.baseUrl}${req.path}`, {
+    code: e.code,
+    route: `${req.method} ${req.originalUrl.split('?')[0]}`.slice(0, 300),
+  }).catch((auditErr: unknown) => logUnexpected(req, auditErr, 'could not record a refusal in the audit trail'))
 }
 
 // An outage answers every request with a 503; one log line every few seconds says so without
@@ -36,7 +38,10 @@ let outageUnlogged = 0
 function logOutage(req: Request, err: Error): void {
   outageUnlogged += 1
   if (Date.now() - outageLoggedAt < RETRY_AFTER_SECONDS * 1000) return
-  req.log.error({ requestId: req.id, err, answered503: outageUnlogged }, 'database unavailable: requests answered 503 since the last such line')
+  req.log.error(
+    { requestId: req.id, err, answered503: outageUnlogged },
+    'database unavailable: requests answered 503 since the last such line',
+  )
   outageLoggedAt = Date.now()
   outageUnlogged = 0
 }
@@ -46,8 +51,8 @@ export const apiNotFound: RequestHandler = (req, _res, next) => next(new NotFoun
 const BODY_ERRORS: Record<string, string> = {
   'entity.parse.failed': 'The request body is not valid JSON',
   'entity.too.large': 'The request is too large',
-  'charset.unsupported': 'The request body\'s character set is not supported; send UTF-8',
-  'encoding.unsupported': 'The request body\'s content encoding is not supported',
+  'charset.unsupported': "The request body's character set is not supported; send UTF-8",
+  'encoding.unsupported': "The request body's content encoding is not supported",
   'request.aborted': 'The request was aborted before its body arrived',
   'request.size.invalid': 'The request body was shorter or longer than its Content-Length',
 }
@@ -64,20 +69,38 @@ export const errorHandler: ErrorRequestHandler = async (err, req, res, next) => 
   if (e instanceof ValidationError) e = toInvalid(e)
   if (e instanceof AppError && e.status === 403) await recordRefusal(req, e)
   if (e instanceof AppError) {
-    res.status(e.status).json({ error: { code: e.code, message: e.message, ...(e.fields ? { fields: e.fields } : {}), ...(e.details ? { details: e.details } : {}) } })
+    res
+      .status(e.status)
+      .json({
+        error: {
+          code: e.code,
+          message: e.message,
+          ...(e.fields ? { fields: e.fields } : {}),
+          ...(e.details ? { details: e.details } : {}),
+        },
+      })
     return
   }
   if (isDatabaseUnavailable(err)) {
     countDatabaseError(req, 'unavailable')
     logOutage(req, err as Error)
     res.set('Retry-After', String(RETRY_AFTER_SECONDS))
-    res.status(503).json({ error: { code: 'unavailable', message: 'Ferrolane cannot reach its database just now; try again in a few seconds' } })
+    res
+      .status(503)
+      .json({ error: { code: 'unavailable', message: 'Ferrolane cannot reach its database just now; try again in a few seconds' } })
     return
   }
   // A deadlock or a lost cluster certification that was not (or no longer) retried: nothing of the
   // request was saved, and sending it again is the whole remedy.
   if (isRetryableConflict(err)) {
-    res.status(409).json({ error: { code: 'write_conflict', message: 'Another change to the same records was being saved at the same moment, so nothing was saved; please try again' } })
+    res
+      .status(409)
+      .json({
+        error: {
+          code: 'write_conflict',
+          message: 'Another change to the same records was being saved at the same moment, so nothing was saved; please try again',
+        },
+      })
     return
   }
   const { status, type, expose } = err as { status?: number; type?: string; expose?: boolean }

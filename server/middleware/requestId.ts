@@ -4,7 +4,9 @@ import type { RequestHandler } from 'express'
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
-    interface Request { id: string }
+    interface Request {
+      id: string
+    }
   }
 }
 

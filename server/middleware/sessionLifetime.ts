@@ -1,7 +1,9 @@
 import type { Request, RequestHandler } from 'express'
 
 declare module 'express-session' {
-  interface SessionData { signedInAt?: number }
+  interface SessionData {
+    signedInAt?: number
+  }
 }
 
 /** Stamps the moment of sign-in (or re-authentication) on a freshly regenerated session. */

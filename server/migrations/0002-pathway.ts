@@ -11,7 +11,13 @@ const fk = (table: string, onDelete: 'RESTRICT' | 'CASCADE' = 'RESTRICT') => ({
   onDelete,
   onUpdate: 'CASCADE',
 })
-const userRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE' }
+const userRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: true,
+  references: { model: 'users', key: 'id' },
+  onDelete: 'SET NULL',
+  onUpdate: 'CASCADE',
+}
 
 export async function up({ context: qi }: { context: QueryInterface }): Promise<void> {
   await qi.createTable('patients', {

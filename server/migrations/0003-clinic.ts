@@ -7,7 +7,13 @@ const fk = (table: string, onDelete: 'RESTRICT' | 'CASCADE' = 'RESTRICT') => ({
   onDelete,
   onUpdate: 'CASCADE',
 })
-const userRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE' }
+const userRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: true,
+  references: { model: 'users', key: 'id' },
+  onDelete: 'SET NULL',
+  onUpdate: 'CASCADE',
+}
 const timestamps = {
   created_at: { type: DataTypes.DATE, allowNull: false },
   updated_at: { type: DataTypes.DATE, allowNull: false },

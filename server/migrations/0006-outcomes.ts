@@ -1,11 +1,24 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
 
-const userRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE' }
+const userRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: true,
+  references: { model: 'users', key: 'id' },
+  onDelete: 'SET NULL',
+  onUpdate: 'CASCADE',
+}
 
 export async function up({ context: qi }: { context: QueryInterface }): Promise<void> {
   await qi.createTable('outcomes', {
     id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
-    referral_id: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, unique: true, references: { model: 'referrals', key: 'id' }, onDelete: 'CASCADE', onUpdate: 'CASCADE' },
+    referral_id: {
+      type: DataTypes.INTEGER.UNSIGNED,
+      allowNull: false,
+      unique: true,
+      references: { model: 'referrals', key: 'id' },
+      onDelete: 'CASCADE',
+      onUpdate: 'CASCADE',
+    },
     surgery_date: { type: DataTypes.DATEONLY, allowNull: false },
     blood_loss_ml: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
     units_transfused_intra_op: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false },

@@ -1,6 +1,12 @@
 import { DataTypes, QueryTypes, type QueryInterface } from 'sequelize'
 
-const userRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE' }
+const userRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: true,
+  references: { model: 'users', key: 'id' },
+  onDelete: 'SET NULL',
+  onUpdate: 'CASCADE',
+}
 const count = () => ({ type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 })
 
 /**
@@ -42,7 +48,11 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   })
 
   await qi.addColumn('results', 'import_batch_id', {
-    type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'import_batches', key: 'id' }, onDelete: 'RESTRICT', onUpdate: 'CASCADE',
+    type: DataTypes.INTEGER.UNSIGNED,
+    allowNull: true,
+    references: { model: 'import_batches', key: 'id' },
+    onDelete: 'RESTRICT',
+    onUpdate: 'CASCADE',
   })
   // An existing database may hold the same value typed twice for one sample; the key cannot be
   // added over them, and deleting clinical rows silently is not a migration's call.
@@ -51,8 +61,10 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     { type: QueryTypes.SELECT },
   )
   if (Number(dup?.n ?? 0) > 0) {
-    throw new Error(`0007-imports: ${dup!.n} results are stored twice (same referral, analyte, time taken and value); remove the copies, then ` +
-        `migrate again`)
+    throw new Error(
+      `0007-imports: ${dup!.n} results are stored twice (same referral, analyte, time taken and value); remove the copies, then ` +
+        `migrate again`,
+    )
   }
   // The referral stands for the patient (one episode of one patient); one sample gives one value.
   await qi.addIndex('results', ['referral_id', 'analyte', 'taken_at', 'value_canonical'], { name: 'results_natural_key', unique: true })

@@ -1,7 +1,19 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
 
-const userRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE' }
-const referralRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, references: { model: 'referrals', key: 'id' }, onDelete: 'RESTRICT', onUpdate: 'CASCADE' }
+const userRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: true,
+  references: { model: 'users', key: 'id' },
+  onDelete: 'SET NULL',
+  onUpdate: 'CASCADE',
+}
+const referralRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: false,
+  references: { model: 'referrals', key: 'id' },
+  onDelete: 'RESTRICT',
+  onUpdate: 'CASCADE',
+}
 
 /**
  * Episode documents (uploaded files and the clinic's own letters) and the letters written from
@@ -26,9 +38,22 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.createTable('letters', {
     id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
     referral_id: referralRef,
-    document_id: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, unique: true, references: { model: 'episode_documents', key: 'id' }, onDelete: 'RESTRICT', onUpdate: 'CASCADE' },
+    document_id: {
+      type: DataTypes.INTEGER.UNSIGNED,
+      allowNull: false,
+      unique: true,
+      references: { model: 'episode_documents', key: 'id' },
+      onDelete: 'RESTRICT',
+      onUpdate: 'CASCADE',
+    },
     recipient: { type: DataTypes.STRING(16), allowNull: false },
-    appointment_id: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'appointments', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE' },
+    appointment_id: {
+      type: DataTypes.INTEGER.UNSIGNED,
+      allowNull: true,
+      references: { model: 'appointments', key: 'id' },
+      onDelete: 'SET NULL',
+      onUpdate: 'CASCADE',
+    },
     written_by: userRef,
     written_at: { type: DataTypes.DATE, allowNull: false },
   })

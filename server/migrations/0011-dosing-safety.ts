@@ -16,7 +16,13 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
   await qi.removeColumn('administrations', 'override_reason')
-  for (const c of ['phosphate_check_on_repeat', 'dosing_table', 'paediatric_max_single_dose_mg', 'paediatric_max_single_dose_mg_per_kg', 'licensed_from_age_years']) {
+  for (const c of [
+    'phosphate_check_on_repeat',
+    'dosing_table',
+    'paediatric_max_single_dose_mg',
+    'paediatric_max_single_dose_mg_per_kg',
+    'licensed_from_age_years',
+  ]) {
     await qi.removeColumn('iron_products', c)
   }
 }

@@ -1,7 +1,19 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
 
-const userRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE' }
-const referralRef = { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, references: { model: 'referrals', key: 'id' }, onDelete: 'CASCADE', onUpdate: 'CASCADE' }
+const userRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: true,
+  references: { model: 'users', key: 'id' },
+  onDelete: 'SET NULL',
+  onUpdate: 'CASCADE',
+}
+const referralRef = {
+  type: DataTypes.INTEGER.UNSIGNED,
+  allowNull: false,
+  references: { model: 'referrals', key: 'id' },
+  onDelete: 'CASCADE',
+  onUpdate: 'CASCADE',
+}
 
 /**
  * The transfusion record (one row per transfusion event, any component), the blood-saving
@@ -61,7 +73,16 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  for (const c of ['post_operative_iron_given', 'transfusion_consent', 'transfusion_information_given', 'cell_salvage_returned_ml', 'cell_salvage_used', 'tranexamic_acid_timing', 'tranexamic_acid_dose_mg', 'tranexamic_acid_given']) {
+  for (const c of [
+    'post_operative_iron_given',
+    'transfusion_consent',
+    'transfusion_information_given',
+    'cell_salvage_returned_ml',
+    'cell_salvage_used',
+    'tranexamic_acid_timing',
+    'tranexamic_acid_dose_mg',
+    'tranexamic_acid_given',
+  ]) {
     await qi.removeColumn('outcomes', c)
   }
   await qi.removeColumn('referrals', 'listing_date')

@@ -38,7 +38,11 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.addColumn('results', 'voided_at', { type: DataTypes.DATE, allowNull: true })
   await qi.addColumn('results', 'void_reason', { type: DataTypes.STRING(200), allowNull: true })
   await qi.addColumn('results', 'hl7_message_id', {
-    type: DataTypes.INTEGER.UNSIGNED, allowNull: true, references: { model: 'hl7_messages', key: 'id' }, onDelete: 'SET NULL', onUpdate: 'CASCADE',
+    type: DataTypes.INTEGER.UNSIGNED,
+    allowNull: true,
+    references: { model: 'hl7_messages', key: 'id' },
+    onDelete: 'SET NULL',
+    onUpdate: 'CASCADE',
   })
 
   // SIU bookings are matched by the theatre system's placer appointment id (SCH-1/SCH-2).

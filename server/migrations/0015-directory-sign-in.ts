@@ -13,7 +13,13 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.addColumn('users', 'totp_last_step', { type: DataTypes.BIGINT, allowNull: true })
   await qi.createTable('recovery_codes', {
     id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
-    user_id: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, references: { model: 'users', key: 'id' }, onDelete: 'CASCADE', onUpdate: 'CASCADE' },
+    user_id: {
+      type: DataTypes.INTEGER.UNSIGNED,
+      allowNull: false,
+      references: { model: 'users', key: 'id' },
+      onDelete: 'CASCADE',
+      onUpdate: 'CASCADE',
+    },
     code_sha256: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
     used_at: { type: DataTypes.DATE, allowNull: true },
     created_at: { type: DataTypes.DATE, allowNull: false },

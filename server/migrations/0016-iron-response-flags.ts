@@ -31,13 +31,21 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
       { type: QueryTypes.SELECT, replacements: { referralId } },
     )
     const treatment: TreatmentGiven = {
-      kind: list[0]!.route, firstDoseAt: list[0]!.givenAt, lastDoseAt: list[list.length - 1]!.givenAt,
-      totalMg: list.reduce((s, d) => s + Number(d.doseMg), 0), deficitMg: null,
+      kind: list[0]!.route,
+      firstDoseAt: list[0]!.givenAt,
+      lastDoseAt: list[list.length - 1]!.givenAt,
+      totalMg: list.reduce((s, d) => s + Number(d.doseMg), 0),
+      deficitMg: null,
     }
-    const r = ironResponse(hb.map((h) => ({ takenAt: h.takenAt, hbGL: Number(h.hbGL) })), treatment, zone)
+    const r = ironResponse(
+      hb.map((h) => ({ takenAt: h.takenAt, hbGL: Number(h.hbGL) })),
+      treatment,
+      zone,
+    )
     if (r.nonResponse || r.falling) {
       await q.query('UPDATE referrals SET no_response_to_iron = :nr, hb_falling_after_iron = :fa WHERE id = :referralId', {
-        type: QueryTypes.UPDATE, replacements: { nr: r.nonResponse ? 1 : 0, fa: r.falling ? 1 : 0, referralId },
+        type: QueryTypes.UPDATE,
+        replacements: { nr: r.nonResponse ? 1 : 0, fa: r.falling ? 1 : 0, referralId },
       })
     }
   }

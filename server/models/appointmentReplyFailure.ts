@@ -1,7 +1,10 @@
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
 
 /** Unknown reply links per address, in the database so every server process counts them. */
-export class AppointmentReplyFailure extends Model<InferAttributes<AppointmentReplyFailure>, InferCreationAttributes<AppointmentReplyFailure>> {
+export class AppointmentReplyFailure extends Model<
+  InferAttributes<AppointmentReplyFailure>,
+  InferCreationAttributes<AppointmentReplyFailure>
+> {
   declare bucket: string
   declare failures: number
   declare windowStartedAt: Date

@@ -43,7 +43,9 @@ export class Referral extends Model<InferAttributes<Referral>, InferCreationAttr
   /** The theatre system's placer appointment id (HL7 SIU SCH-1/SCH-2) of the booked operation. */
   declare placerAppointmentId: CreationOptional<string | null>
   /** Earlier planned dates, each with when and why it moved (theatre bookings keep it). */
-  declare surgeryDateHistory: CreationOptional<{ from: string | null; to: string | null; at: string; reason: string | null; source: string }[] | null>
+  declare surgeryDateHistory: CreationOptional<
+    { from: string | null; to: string | null; at: string; reason: string | null; source: string }[] | null
+  >
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>

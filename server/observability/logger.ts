@@ -33,7 +33,10 @@ export function safeError(err: unknown): Record<string, unknown> {
     code: typeof e.code === 'string' || typeof e.code === 'number' ? e.code : null,
     dbCode: typeof e.original?.code === 'string' ? e.original.code : null,
     dbErrno: typeof e.original?.errno === 'number' ? e.original.errno : null,
-    frames: (typeof e.stack === 'string' ? e.stack : '').split('\n').slice(1, 6).map((line) => line.trim()),
+    frames: (typeof e.stack === 'string' ? e.stack : '')
+      .split('\n')
+      .slice(1, 6)
+      .map((line) => line.trim()),
   }
 }
 
@@ -61,8 +64,7 @@ export function httpLogger(logger: Logger) {
       err: safeError,
     },
     // Read when the response has finished (before that the route is not known yet).
-    customProps: (req, res) =>
-      res.headersSent ? { route: routeLabel(req, res), userId: (req as Request).user?.id ?? null } : {},
+    customProps: (req, res) => (res.headersSent ? { route: routeLabel(req, res), userId: (req as Request).user?.id ?? null } : {}),
     customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
     customSuccessMessage: () => 'request finished',
     customErrorMessage: () => 'request failed',

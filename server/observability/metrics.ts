@@ -20,25 +20,75 @@ export interface AppMetrics {
 // Slow enough to see a worklist on a busy morning, fine enough to see a fast one.
 const LATENCY_BUCKETS = [0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5, 1, 2.5, 5, 10]
 
-interface PoolLike { size?: number; available?: number; using?: number; waiting?: number; maxSize?: number }
+interface PoolLike {
+  size?: number
+  available?: number
+  using?: number
+  waiting?: number
+  maxSize?: number
+}
 
 export function createMetrics(sequelize: Sequelize, poolMax: number): AppMetrics {
   const registry = new Registry()
   // Process CPU, memory, handles, GC and event-loop lag (nodejs_eventloop_lag_*).
   collectDefaultMetrics({ register: registry, prefix: 'ferrolane_' })
 
-  const requests = new Counter({ name: 'ferrolane_http_requests_total', help: 'HTTP requests finished, by route pattern and status class', labelNames: ['method', 'route', 'status'] as const, registers: [registry] })
-  const latency = new Histogram({ name: 'ferrolane_http_request_duration_seconds', help: 'Time from request to finished response, by route pattern', labelNames: ['method', 'route', 'status'] as const, buckets: LATENCY_BUCKETS, registers: [registry] })
-  const dbErrors = new Counter({ name: 'ferrolane_db_errors_total', help: 'Database errors that reached the error handler', labelNames: ['kind'] as const, registers: [registry] })
+  const requests = new Counter({
+    name: 'ferrolane_http_requests_total',
+    help: 'HTTP requests finished, by route pattern and status class',
+    labelNames: ['method', 'route', 'status'] as const,
+    registers: [registry],
+  })
+  const latency = new Histogram({
+    name: 'ferrolane_http_request_duration_seconds',
+    help: 'Time from request to finished response, by route pattern',
+    labelNames: ['method', 'route', 'status'] as const,
+    buckets: LATENCY_BUCKETS,
+    registers: [registry],
+  })
+  const dbErrors = new Counter({
+    name: 'ferrolane_db_errors_total',
+    help: 'Database errors that reached the error handler',
+    labelNames: ['kind'] as const,
+    registers: [registry],
+  })
   dbErrors.inc({ kind: 'unavailable' }, 0)
   dbErrors.inc({ kind: 'query' }, 0)
 
   // Sequelize's pool (sequelize-pool) keeps its figures on the connection manager.
   const pool = () => (sequelize.connectionManager as unknown as { pool?: PoolLike }).pool ?? {}
-  new Gauge({ name: 'ferrolane_db_pool_max', help: 'Most connections the pool may open (DB_POOL_MAX)', registers: [registry], collect() { this.set(poolMax) } })
-  new Gauge({ name: 'ferrolane_db_pool_open', help: 'Connections the pool has open', registers: [registry], collect() { this.set(pool().size ?? 0) } })
-  new Gauge({ name: 'ferrolane_db_pool_in_use', help: 'Connections lent to a query or transaction', registers: [registry], collect() { this.set(pool().using ?? 0) } })
-  new Gauge({ name: 'ferrolane_db_pool_waiting', help: 'Requests waiting for a connection', registers: [registry], collect() { this.set(pool().waiting ?? 0) } })
+  new Gauge({
+    name: 'ferrolane_db_pool_max',
+    help: 'Most connections the pool may open (DB_POOL_MAX)',
+    registers: [registry],
+    collect() {
+      this.set(poolMax)
+    },
+  })
+  new Gauge({
+    name: 'ferrolane_db_pool_open',
+    help: 'Connections the pool has open',
+    registers: [registry],
+    collect() {
+      this.set(pool().size ?? 0)
+    },
+  })
+  new Gauge({
+    name: 'ferrolane_db_pool_in_use',
+    help: 'Connections lent to a query or transaction',
+    registers: [registry],
+    collect() {
+      this.set(pool().using ?? 0)
+    },
+  })
+  new Gauge({
+    name: 'ferrolane_db_pool_waiting',
+    help: 'Requests waiting for a connection',
+    registers: [registry],
+    collect() {
+      this.set(pool().waiting ?? 0)
+    },
+  })
 
   // Read from the database at scrape time; while it is away the scrape still answers, with -1.
   const query = async <T extends object>(sql: string): Promise<T | null> => {
@@ -64,7 +114,9 @@ export function createMetrics(sequelize: Sequelize, poolMax: number): AppMetrics
     help: 'Age of the oldest e-mail still waiting to be sent (0: none waiting; -1: unreadable)',
     registers: [registry],
     async collect() {
-      const r = await query<{ age: number | null }>(`SELECT TIMESTAMPDIFF(SECOND, MIN(created_at), UTC_TIMESTAMP()) AS age FROM outbox_messages WHERE status IN ('queued', 'sending')`)
+      const r = await query<{ age: number | null }>(
+        `SELECT TIMESTAMPDIFF(SECOND, MIN(created_at), UTC_TIMESTAMP()) AS age FROM outbox_messages WHERE status IN ('queued', 'sending')`,
+      )
       this.set(r ? Math.max(0, Number(r.age ?? 0)) : -1)
     },
   })

@@ -32,9 +32,19 @@ export class ApiRouter {
     return this
   }
 
-  get(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('GET', path, opts, h) }
-  post(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('POST', path, opts, h) }
-  patch(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('PATCH', path, opts, h) }
-  put(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('PUT', path, opts, h) }
-  delete(path: string, opts: AccessOptions, ...h: RequestHandler[]) { return this.add('DELETE', path, opts, h) }
+  get(path: string, opts: AccessOptions, ...h: RequestHandler[]) {
+    return this.add('GET', path, opts, h)
+  }
+  post(path: string, opts: AccessOptions, ...h: RequestHandler[]) {
+    return this.add('POST', path, opts, h)
+  }
+  patch(path: string, opts: AccessOptions, ...h: RequestHandler[]) {
+    return this.add('PATCH', path, opts, h)
+  }
+  put(path: string, opts: AccessOptions, ...h: RequestHandler[]) {
+    return this.add('PUT', path, opts, h)
+  }
+  delete(path: string, opts: AccessOptions, ...h: RequestHandler[]) {
+    return this.add('DELETE', path, opts, h)
+  }
 }

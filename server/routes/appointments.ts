@@ -18,7 +18,13 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
 
   api.post('', { action: 'appointments.book' }, validate(createAppointmentSchema), async (req, res) => {
     const b = req.body as CreateAppointmentInput
-    const input: CreateAppointmentInput = { referralId: b.referralId, kind: b.kind, startsAt: b.startsAt, durationMin: b.durationMin, location: b.location }
+    const input: CreateAppointmentInput = {
+      referralId: b.referralId,
+      kind: b.kind,
+      startsAt: b.startsAt,
+      durationMin: b.durationMin,
+      location: b.location,
+    }
     res.status(201).json(await bookAppointment(sequelize, config, viewerOf(req), input))
   })
 

@@ -21,7 +21,9 @@ export function auditRoutes(_ctx: AppContext): ApiRouter {
     const rows = result.rows.map((r) => ({ ...r, userId: r.user?.id ?? null, userName: r.user?.name ?? null }))
     res.type('text/csv; charset=utf-8')
     res.attachment('audit-trail.csv')
-    res.send(rowsToCsv(['id', 'at', 'userId', 'userName', 'action', 'entity', 'entityId', 'patientId', 'before', 'after', 'requestId'], rows))
+    res.send(
+      rowsToCsv(['id', 'at', 'userId', 'userName', 'action', 'entity', 'entityId', 'patientId', 'before', 'after', 'requestId'], rows),
+    )
   })
   return api
 }

@@ -40,7 +40,8 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
   api.post('/login', { action: 'auth.signIn' }, validate(loginSchema), async (req, res, next) => {
     const mode = ctx.config.localSignIn
     const directory = ctx.config.oidc?.displayName ?? 'the hospital directory'
-    if (mode === 'off') throw new Forbidden(`Sign-in with a Ferrolane password is switched off; use Sign in with ${directory}`, 'local_sign_in_off')
+    if (mode === 'off')
+      throw new Forbidden(`Sign-in with a Ferrolane password is switched off; use Sign in with ${directory}`, 'local_sign_in_off')
     const email = String((req.body as { email: string }).email).slice(0, 190)
     const user = await authenticate(passport, req, res, next).catch(async (err: unknown) => {
       if (err instanceof AppError) {
@@ -76,7 +77,12 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic): ApiRouter
     await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())))
     // A directory session ends at the provider too (RP-initiated logout): the client goes there next.
     const endSessionUrl = idToken && ctx.config.oidc ? await providerEndSessionUrl(ctx.config.oidc, idToken).catch(() => null) : null
-    await recordAudit(null, actor, { action: 'sign-out', entity: 'session', entityId: actor.userId, after: idToken ? { via: 'directory', providerSignOut: Boolean(endSessionUrl) } : null })
+    await recordAudit(null, actor, {
+      action: 'sign-out',
+      entity: 'session',
+      entityId: actor.userId,
+      after: idToken ? { via: 'directory', providerSignOut: Boolean(endSessionUrl) } : null,
+    })
     res.clearCookie('ferrolane.sid')
     if (!idToken) return void res.status(204).end()
     const answer: SignOutAnswer = { endSessionUrl }

@@ -3,8 +3,16 @@ import { idParam, type AppContext } from './context'
 import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
 import {
-  administrationSchema, dosePlanPreviewSchema, prescriptionSchema, readinessActionSchema, reviewSchema,
-  type AdministrationInput, type DosePlanPreviewInput, type PrescriptionInput, type ReadinessActionInput, type ReviewInput,
+  administrationSchema,
+  dosePlanPreviewSchema,
+  prescriptionSchema,
+  readinessActionSchema,
+  reviewSchema,
+  type AdministrationInput,
+  type DosePlanPreviewInput,
+  type PrescriptionInput,
+  type ReadinessActionInput,
+  type ReviewInput,
 } from '../../shared/schemas/clinic'
 import { listReviews, recordReview } from '../services/clinicReview'
 import { listPrescriptions, prescribe, previewDosePlan } from '../services/prescriptions'
@@ -22,25 +30,44 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   })
   api.post('/:id/reviews', { action: 'reviews.write' }, validate(reviewSchema), async (req, res) => {
     const b = req.body as ReviewInput
-    res.status(201).json(await recordReview(sequelize, viewerOf(req), idParam(req), {
-      diagnosis: b.diagnosis, notes: b.notes, plan: b.plan, cardiovascularDisease: b.cardiovascularDisease, version: b.version,
-    }))
+    res.status(201).json(
+      await recordReview(sequelize, viewerOf(req), idParam(req), {
+        diagnosis: b.diagnosis,
+        notes: b.notes,
+        plan: b.plan,
+        cardiovascularDisease: b.cardiovascularDisease,
+        version: b.version,
+      }),
+    )
   })
 
   // Computed by the server with the clinical library, shown before saving.
   api.post('/:id/dose-plan', { action: 'prescriptions.plan' }, validate(dosePlanPreviewSchema), async (req, res) => {
     const b = req.body as DosePlanPreviewInput
-    res.json(await previewDosePlan(viewerOf(req), idParam(req), { productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate }))
+    res.json(
+      await previewDosePlan(viewerOf(req), idParam(req), {
+        productCode: b.productCode,
+        targetHbGL: b.targetHbGL,
+        firstDoseDate: b.firstDoseDate,
+      }),
+    )
   })
   api.get('/:id/prescriptions', { action: 'records.read' }, async (req, res) => {
     res.json({ rows: await listPrescriptions(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/prescriptions', { action: 'prescriptions.sign' }, validate(prescriptionSchema), async (req, res) => {
     const b = req.body as PrescriptionInput
-    res.status(201).json(await prescribe(sequelize, viewerOf(req), idParam(req), {
-      productCode: b.productCode, targetHbGL: b.targetHbGL, firstDoseDate: b.firstDoseDate, doses: b.doses,
-      cautions: b.cautions, overrideReason: b.overrideReason, version: b.version,
-    }))
+    res.status(201).json(
+      await prescribe(sequelize, viewerOf(req), idParam(req), {
+        productCode: b.productCode,
+        targetHbGL: b.targetHbGL,
+        firstDoseDate: b.firstDoseDate,
+        doses: b.doses,
+        cautions: b.cautions,
+        overrideReason: b.overrideReason,
+        version: b.version,
+      }),
+    )
   })
 
   api.get('/:id/administrations', { action: 'records.read' }, async (req, res) => {
@@ -48,9 +75,17 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   })
   api.post('/:id/administrations', { action: 'administrations.record' }, validate(administrationSchema), async (req, res) => {
     const b = req.body as AdministrationInput
-    res.status(201).json(await recordAdministration(sequelize, viewerOf(req), idParam(req), {
-      prescriptionId: b.prescriptionId, doseMg: b.doseMg, givenAt: b.givenAt, batchNumber: b.batchNumber, reaction: b.reaction, reactionNotes: b.reactionNotes, overrideReason: b.overrideReason,
-    }))
+    res.status(201).json(
+      await recordAdministration(sequelize, viewerOf(req), idParam(req), {
+        prescriptionId: b.prescriptionId,
+        doseMg: b.doseMg,
+        givenAt: b.givenAt,
+        batchNumber: b.batchNumber,
+        reaction: b.reaction,
+        reactionNotes: b.reactionNotes,
+        overrideReason: b.overrideReason,
+      }),
+    )
   })
 
   api.get('/:id/projection', { action: 'records.read' }, async (req, res) => {

@@ -12,7 +12,12 @@ export interface AppContext {
 }
 
 export function actorOf(req: Request): Actor {
-  return { userId: req.user?.id ?? null, requestId: String(req.id), ip: clientAddress(req), refetch: req.get('X-Ferrolane-Refetch') === '1' }
+  return {
+    userId: req.user?.id ?? null,
+    requestId: String(req.id),
+    ip: clientAddress(req),
+    refetch: req.get('X-Ferrolane-Refetch') === '1',
+  }
 }
 
 export function signedInActor(req: Request): Actor & { userId: number } {
@@ -23,6 +28,7 @@ export function signedInActor(req: Request): Actor & { userId: number } {
 export function idParam(req: Request, name = 'id'): number {
   const raw = req.params[name]
   const n = Number(raw)
-  if (!Number.isSafeInteger(n) || n <= 0) throw new Invalid(`${name} must be a positive whole number`, { [name]: 'must be a positive whole number' })
+  if (!Number.isSafeInteger(n) || n <= 0)
+    throw new Invalid(`${name} must be a positive whole number`, { [name]: 'must be a positive whole number' })
   return n
 }

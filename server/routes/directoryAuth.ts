@@ -58,25 +58,41 @@ export function directoryAuthRoutes(ctx: AppContext): ApiRouter {
     const query = new URL(req.originalUrl, 'http://callback.invalid').search
     if (!pending || Date.now() - pending.startedAt > PENDING_MS) return refuse(res, 'expired')
     if (typeof req.query.error === 'string') {
-      await recordAudit(null, actor, { action: 'sign-in-refused', entity: 'session', after: { via: 'directory', reason: 'cancelled', error: req.query.error.slice(0, 100) } })
+      await recordAudit(null, actor, {
+        action: 'sign-in-refused',
+        entity: 'session',
+        after: { via: 'directory', reason: 'cancelled', error: req.query.error.slice(0, 100) },
+      })
       return refuse(res, 'cancelled')
     }
     let who
     try {
       who = await finishSignIn(oidc, pending, query)
     } catch (err) {
-      await recordAudit(null, actor, { action: 'sign-in-refused', entity: 'session', after: { via: 'directory', reason: 'failed', error: err instanceof Error ? err.message.slice(0, 200) : 'unknown' } })
+      await recordAudit(null, actor, {
+        action: 'sign-in-refused',
+        entity: 'session',
+        after: { via: 'directory', reason: 'failed', error: err instanceof Error ? err.message.slice(0, 200) : 'unknown' },
+      })
       return refuse(res, 'failed')
     }
     try {
       const user = await signInFromDirectory(ctx.sequelize, oidc, actor, who)
       await login(req, user)
       req.session.directoryIdToken = who.idToken
-      await recordAudit(null, { ...actor, userId: user.id }, { action: 'sign-in', entity: 'session', entityId: user.id, after: { via: 'directory', groups: who.groups } })
+      await recordAudit(
+        null,
+        { ...actor, userId: user.id },
+        { action: 'sign-in', entity: 'session', entityId: user.id, after: { via: 'directory', groups: who.groups } },
+      )
       res.redirect(303, '/')
     } catch (err) {
       if (!(err instanceof DirectorySignInRefused)) throw err
-      await recordAudit(null, actor, { action: 'sign-in-refused', entity: 'session', after: { via: 'directory', reason: err.reason, email: who.email, groups: who.groups } })
+      await recordAudit(null, actor, {
+        action: 'sign-in-refused',
+        entity: 'session',
+        after: { via: 'directory', reason: err.reason, email: who.email, groups: who.groups },
+      })
       refuse(res, err.reason)
     }
   })

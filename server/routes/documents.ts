@@ -34,7 +34,8 @@ function receiveFile(req: Request, res: Response): Promise<Express.Multer.File> 
     receive(req, res, (err: unknown) => {
       if (err instanceof multer.MulterError) return reject(multerRefusal(err))
       if (err) return reject(err)
-      if (!req.file) return reject(new Invalid('Choose a file to upload (PDF, PNG or JPEG) in the form field "file"', { file: 'is required' }))
+      if (!req.file)
+        return reject(new Invalid('Choose a file to upload (PDF, PNG or JPEG) in the form field "file"', { file: 'is required' }))
       resolve(req.file)
     })
   })
@@ -51,9 +52,14 @@ export function documentRoutes({ sequelize, config }: AppContext): ApiRouter {
     await referralForAttaching(viewer, referralId)
     const file = await receiveFile(req, res)
     const fields = await validateInput(uploadDocumentSchema, req.body)
-    res.status(201).json(await uploadDocument(sequelize, config, viewer, referralId, {
-      kind: fields.kind, title: fields.title, originalName: file.originalname, bytes: file.buffer,
-    }))
+    res.status(201).json(
+      await uploadDocument(sequelize, config, viewer, referralId, {
+        kind: fields.kind,
+        title: fields.title,
+        originalName: file.originalname,
+        bytes: file.buffer,
+      }),
+    )
   })
 
   api.get('/:id/documents', { action: 'records.read' }, async (req, res) => {

@@ -6,7 +6,7 @@ import type { LivenessView, NotReadyReason, ReadinessView } from '../../shared/h
 
 const NOT_READY_MESSAGES: Record<NotReadyReason, string> = {
   'database-unreachable': 'Ferrolane cannot reach its database just now; try again in a few seconds',
-  'cluster-node-not-synced': 'This Ferrolane process\'s database node is not in step with the cluster; try again in a few seconds',
+  'cluster-node-not-synced': "This Ferrolane process's database node is not in step with the cluster; try again in a few seconds",
   'migrations-pending': 'The database has not been brought up to this version of Ferrolane yet; try again once the upgrade has finished',
 }
 

@@ -10,7 +10,16 @@ import { validate, validateInput, screenKeys } from '../middleware/validate'
 import { jsonBody, parseJsonText } from '../middleware/jsonBody'
 import { ValidationError } from 'yup'
 import { MAX_CSV_BYTES, MAX_FHIR_BYTES, type ColumnMapping } from '../../shared/imports'
-import { asColumnMapping, columnMappingSchema, fhirImportQuerySchema, labImportFieldsSchema, reversalSchema, saveMappingSchema, sourceNameField, type ReversalInput } from '../../shared/schemas/imports'
+import {
+  asColumnMapping,
+  columnMappingSchema,
+  fhirImportQuerySchema,
+  labImportFieldsSchema,
+  reversalSchema,
+  saveMappingSchema,
+  sourceNameField,
+  type ReversalInput,
+} from '../../shared/schemas/imports'
 // The CSV parser, the FHIR checks and file-type sniffing load on the first upload, not at boot.
 const labCsv = () => import('../services/imports/labCsv')
 const fhirImport = () => import('../services/imports/fhir')
@@ -34,23 +43,43 @@ function single(m: multer.Multer, limit: number): RequestHandler {
     handle(req, res, (err: unknown) => {
       if (!err) return next()
       if (err instanceof multer.MulterError) {
-        if (err.code === 'LIMIT_FILE_SIZE') return next(new AppError('too_large', `The file is larger than the ${MB(limit)} limit; split it or export a shorter period`, 413, { file: `must be at most ${MB(limit)}` }))
+        if (err.code === 'LIMIT_FILE_SIZE')
+          return next(
+            new AppError('too_large', `The file is larger than the ${MB(limit)} limit; split it or export a shorter period`, 413, {
+              file: `must be at most ${MB(limit)}`,
+            }),
+          )
         return next(new Invalid(`The upload was not understood: ${err.message} (send one file in the field "file")`, { file: err.message }))
       }
       next(err)
     })
 }
 
-const csvUpload = single(multer({ dest: uploadDir, limits: { fileSize: MAX_CSV_BYTES, files: 1, fields: 10, fieldSize: 256 * 1024 } }), MAX_CSV_BYTES)
-const fhirUpload = single(multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_FHIR_BYTES, files: 1, fields: 10 } }), MAX_FHIR_BYTES)
+const csvUpload = single(
+  multer({ dest: uploadDir, limits: { fileSize: MAX_CSV_BYTES, files: 1, fields: 10, fieldSize: 256 * 1024 } }),
+  MAX_CSV_BYTES,
+)
+const fhirUpload = single(
+  multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_FHIR_BYTES, files: 1, fields: 10 } }),
+  MAX_FHIR_BYTES,
+)
 
 const CSV_NAME = /\.(csv|txt|tsv)$/i
-const CSV_TYPES = ['text/csv', 'text/plain', 'application/csv', 'application/vnd.ms-excel', 'text/tab-separated-values', 'application/octet-stream']
+const CSV_TYPES = [
+  'text/csv',
+  'text/plain',
+  'application/csv',
+  'application/vnd.ms-excel',
+  'text/tab-separated-values',
+  'application/octet-stream',
+]
 
 /** A CSV is text: refuse by content (a known binary signature, or NUL bytes), not only by name. */
 async function assertCsv(file: Express.Multer.File): Promise<void> {
-  const refuse = (why: string) => new AppError('unsupported_type', `${why}; upload the laboratory export as a CSV text file`, 415, { file: 'must be a CSV file' })
-  if (!CSV_NAME.test(file.originalname) && !CSV_TYPES.slice(0, 5).includes(file.mimetype)) throw refuse(`"${file.originalname}" is not a .csv file`)
+  const refuse = (why: string) =>
+    new AppError('unsupported_type', `${why}; upload the laboratory export as a CSV text file`, 415, { file: 'must be a CSV file' })
+  if (!CSV_NAME.test(file.originalname) && !CSV_TYPES.slice(0, 5).includes(file.mimetype))
+    throw refuse(`"${file.originalname}" is not a .csv file`)
   if (!CSV_TYPES.includes(file.mimetype)) throw refuse(`the file was sent as ${file.mimetype}`)
   const { fileTypeFromFile } = await import('file-type')
   const detected = await fileTypeFromFile(file.path)
@@ -75,7 +104,13 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
       await assertCsv(file)
       const mapping = fields.mapping ? await mappingFromField(fields.mapping) : (await mappingFor(fields.source)).mapping
       const { importLabCsv } = await labCsv()
-      const out = await importLabCsv(sequelize, viewerOf(req), { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' }, config.clinic.timeZone, config.imports.maxCsvRows)
+      const out = await importLabCsv(
+        sequelize,
+        viewerOf(req),
+        { filePath: file.path, fileName: file.originalname, sourceName: fields.source, mapping, commit: fields.commit === 'true' },
+        config.clinic.timeZone,
+        config.imports.maxCsvRows,
+      )
       res.status(out.batchId ? 201 : 200).json(out)
     } finally {
       if (file) await rm(file.path, { force: true })
@@ -83,17 +118,31 @@ export function importRoutes({ sequelize, config }: AppContext): ApiRouter {
   })
 
   // FHIR's own media type gets a raised limit here; plain application/json passes the app's 1 MB parser.
-  api.post('/fhir', { action: 'imports.run' }, ...jsonBody({ type: ['application/fhir+json'], limit: MAX_FHIR_BYTES }), fhirUpload, validate(fhirImportQuerySchema, 'query'), async (req, res) => {
-    const q = res.locals.query as { commit: string; storeValid: string; source: string }
-    let bundle: unknown = req.body
-    if (req.file) {
-      bundle = parseJsonText(req.file.buffer.toString('utf8'), () => new Invalid('The file is not valid JSON (a FHIR R4 Bundle was expected)', { file: 'is not valid JSON' }))
-    }
-    screenKeys(bundle)
-    const { importFhirBundle } = await fhirImport()
-    const out = await importFhirBundle(sequelize, viewerOf(req), bundle, { commit: q.commit === 'true', storeValid: q.storeValid === 'true', sourceName: q.source })
-    res.status(out.batchId ? 201 : 200).json(out)
-  })
+  api.post(
+    '/fhir',
+    { action: 'imports.run' },
+    ...jsonBody({ type: ['application/fhir+json'], limit: MAX_FHIR_BYTES }),
+    fhirUpload,
+    validate(fhirImportQuerySchema, 'query'),
+    async (req, res) => {
+      const q = res.locals.query as { commit: string; storeValid: string; source: string }
+      let bundle: unknown = req.body
+      if (req.file) {
+        bundle = parseJsonText(
+          req.file.buffer.toString('utf8'),
+          () => new Invalid('The file is not valid JSON (a FHIR R4 Bundle was expected)', { file: 'is not valid JSON' }),
+        )
+      }
+      screenKeys(bundle)
+      const { importFhirBundle } = await fhirImport()
+      const out = await importFhirBundle(sequelize, viewerOf(req), bundle, {
+        commit: q.commit === 'true',
+        storeValid: q.storeValid === 'true',
+        sourceName: q.source,
+      })
+      res.status(out.batchId ? 201 : 200).json(out)
+    },
+  )
 
   api.get('/mappings', { action: 'imports.read' }, async (_req, res) => {
     res.json({ rows: await listMappings() })

@@ -24,7 +24,12 @@ export function interfaceRoutes({ sequelize, config }: AppContext): ApiRouter {
   api.get('/hl7/messages', { action: 'hl7.listMessages' }, validate(hl7MessageQuerySchema, 'query'), async (req, res) => {
     const q = res.locals.query as Hl7MessageQuery
     const { listMessages } = await hl7Messages()
-    res.json(await listMessages({ q: q.q || undefined, outcome: q.outcome as never, attention: q.attention, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }, allows(req.user!.role, 'hl7.patientDetail')))
+    res.json(
+      await listMessages(
+        { q: q.q || undefined, outcome: q.outcome as never, attention: q.attention, limit: q.pageSize, offset: (q.page - 1) * q.pageSize },
+        allows(req.user!.role, 'hl7.patientDetail'),
+      ),
+    )
   })
 
   api.get('/hl7/messages/:id', { action: 'hl7.readMessage' }, async (req, res) => {

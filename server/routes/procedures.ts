@@ -1,7 +1,12 @@
 import { ApiRouter } from './apiRouter'
 import { signedInActor, type AppContext } from './context'
 import { validate } from '../middleware/validate'
-import { createProcedureSchema, updateProcedureSchema, type CreateProcedureInput, type UpdateProcedureInput } from '../../shared/schemas/procedures'
+import {
+  createProcedureSchema,
+  updateProcedureSchema,
+  type CreateProcedureInput,
+  type UpdateProcedureInput,
+} from '../../shared/schemas/procedures'
 import { createProcedure, listProcedures, updateProcedure } from '../services/procedures'
 
 export function procedureRoutes({ sequelize }: AppContext): ApiRouter {
@@ -14,8 +19,15 @@ export function procedureRoutes({ sequelize }: AppContext): ApiRouter {
   api.post('', { action: 'procedures.manage' }, validate(createProcedureSchema), async (req, res) => {
     const b = req.body as CreateProcedureInput
     const input: CreateProcedureInput = {
-      code: b.code, name: b.name, specialty: b.specialty, expectedBloodLossMl: b.expectedBloodLossMl, transfusionRate: b.transfusionRate,
-      usualBloodOrder: b.usualBloodOrder, usualUnits: b.usualUnits, source: b.source, active: b.active,
+      code: b.code,
+      name: b.name,
+      specialty: b.specialty,
+      expectedBloodLossMl: b.expectedBloodLossMl,
+      transfusionRate: b.transfusionRate,
+      usualBloodOrder: b.usualBloodOrder,
+      usualUnits: b.usualUnits,
+      source: b.source,
+      active: b.active,
     }
     res.status(201).json(await createProcedure(sequelize, signedInActor(req), input))
   })
@@ -23,8 +35,14 @@ export function procedureRoutes({ sequelize }: AppContext): ApiRouter {
   api.patch('/:code', { action: 'procedures.manage' }, validate(updateProcedureSchema), async (req, res) => {
     const b = req.body as UpdateProcedureInput
     const input: UpdateProcedureInput = {
-      name: b.name, specialty: b.specialty, expectedBloodLossMl: b.expectedBloodLossMl, transfusionRate: b.transfusionRate,
-      usualBloodOrder: b.usualBloodOrder, usualUnits: b.usualUnits, source: b.source, active: b.active,
+      name: b.name,
+      specialty: b.specialty,
+      expectedBloodLossMl: b.expectedBloodLossMl,
+      transfusionRate: b.transfusionRate,
+      usualBloodOrder: b.usualBloodOrder,
+      usualUnits: b.usualUnits,
+      source: b.source,
+      active: b.active,
     }
     res.json(await updateProcedure(sequelize, signedInActor(req), String(req.params.code).toUpperCase(), input))
   })

@@ -9,15 +9,22 @@ export function readinessRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/readiness')
   api.get('', { action: 'records.read' }, async (req, res) => {
     const { from, to, procedureCode, surgeonId } = req.query
-    for (const [name, v] of [['from', from], ['to', to]] as const) {
-      if (v !== undefined && !isIsoDate(v)) throw new Invalid(`${name} must be a date (YYYY-MM-DD)`, { [name]: 'must be a date (YYYY-MM-DD)' })
+    for (const [name, v] of [
+      ['from', from],
+      ['to', to],
+    ] as const) {
+      if (v !== undefined && !isIsoDate(v))
+        throw new Invalid(`${name} must be a date (YYYY-MM-DD)`, { [name]: 'must be a date (YYYY-MM-DD)' })
     }
     const sid = surgeonId === undefined ? undefined : Number(surgeonId)
-    if (sid !== undefined && (!Number.isSafeInteger(sid) || sid <= 0)) throw new Invalid('surgeonId must be a positive whole number', { surgeonId: 'must be a positive whole number' })
+    if (sid !== undefined && (!Number.isSafeInteger(sid) || sid <= 0))
+      throw new Invalid('surgeonId must be a positive whole number', { surgeonId: 'must be a positive whole number' })
     res.json({
       rows: await readinessBoard(viewerOf(req), {
-        from: from as string | undefined, to: to as string | undefined,
-        procedureCode: typeof procedureCode === 'string' && procedureCode ? procedureCode : undefined, surgeonId: sid,
+        from: from as string | undefined,
+        to: to as string | undefined,
+        procedureCode: typeof procedureCode === 'string' && procedureCode ? procedureCode : undefined,
+        surgeonId: sid,
       }),
     })
   })

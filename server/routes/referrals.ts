@@ -26,8 +26,13 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
   api.post('', { action: 'records.write' }, validate(createReferralSchema), async (req, res) => {
     const b = req.body as CreateReferralInput
     const input: CreateReferralInput = {
-      patientId: b.patientId, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
-      plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource, listingDate: b.listingDate,
+      patientId: b.patientId,
+      procedureCode: b.procedureCode,
+      surgeonId: b.surgeonId,
+      plannedSurgeryDate: b.plannedSurgeryDate,
+      priority: b.priority,
+      referringSource: b.referringSource,
+      listingDate: b.listingDate,
     }
     res.status(201).json(await createReferral(sequelize, viewerOf(req), input))
   })
@@ -39,10 +44,17 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
   api.patch('/:id', { action: 'records.write' }, validate(updateReferralSchema), async (req, res) => {
     const b = req.body as UpdateReferralInput
     const input: UpdateReferralInput = {
-      version: b.version, procedureCode: b.procedureCode, surgeonId: b.surgeonId,
-      plannedSurgeryDate: b.plannedSurgeryDate, priority: b.priority, referringSource: b.referringSource,
-      redCellAntibodies: b.redCellAntibodies, declinesTransfusion: b.declinesTransfusion,
-      listingDate: b.listingDate, dateChangeReason: b.dateChangeReason, dateChangeNote: b.dateChangeNote,
+      version: b.version,
+      procedureCode: b.procedureCode,
+      surgeonId: b.surgeonId,
+      plannedSurgeryDate: b.plannedSurgeryDate,
+      priority: b.priority,
+      referringSource: b.referringSource,
+      redCellAntibodies: b.redCellAntibodies,
+      declinesTransfusion: b.declinesTransfusion,
+      listingDate: b.listingDate,
+      dateChangeReason: b.dateChangeReason,
+      dateChangeNote: b.dateChangeNote,
     }
     res.json(await updateReferral(sequelize, viewerOf(req), idParam(req), input))
   })
@@ -61,7 +73,13 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
 
   api.post('/:id/results', { action: 'results.write' }, validate(createResultSchema), async (req, res) => {
     const b = req.body as CreateResultInput
-    const input: CreateResultInput = { analyte: b.analyte, value: b.value, unit: b.unit, takenAt: b.takenAt, unitConfirmed: b.unitConfirmed }
+    const input: CreateResultInput = {
+      analyte: b.analyte,
+      value: b.value,
+      unit: b.unit,
+      takenAt: b.takenAt,
+      unitConfirmed: b.unitConfirmed,
+    }
     res.status(201).json(await addResult(sequelize, viewerOf(req), idParam(req), input))
   })
 

@@ -9,7 +9,21 @@ import { reportFilters } from '../services/reports/filters'
 import { safeCsv } from '../services/reports/csvSafe'
 import { nationalAuditCsv } from '../services/reports/nationalAudit'
 
-const QUALITY_CSV_COLUMNS = ['id', 'title', 'numerator', 'denominator', 'percent', 'value', 'unit', 'numeratorDefinition', 'denominatorDefinition', 'period', 'source', 'benchmarkPercent', 'benchmarkSource'] as const
+const QUALITY_CSV_COLUMNS = [
+  'id',
+  'title',
+  'numerator',
+  'denominator',
+  'percent',
+  'value',
+  'unit',
+  'numeratorDefinition',
+  'denominatorDefinition',
+  'period',
+  'source',
+  'benchmarkPercent',
+  'benchmarkSource',
+] as const
 
 /** The service's reports: admins and doctors see everything, surgeons their own figures (forced in the filters). */
 export function reportRoutes({ sequelize }: AppContext): ApiRouter {
@@ -25,11 +39,26 @@ export function reportRoutes({ sequelize }: AppContext): ApiRouter {
     }
     res.type('text/csv; charset=utf-8')
     res.attachment(`quality-${filters.from}-to-${filters.to}.csv`)
-    res.send(safeCsv(QUALITY_CSV_COLUMNS, report.measures.map((m) => ({
-      id: m.id, title: m.title, numerator: m.numerator, denominator: m.denominator, percent: m.percent, value: m.value, unit: m.unit,
-      numeratorDefinition: m.definition.numerator, denominatorDefinition: m.definition.denominator, period: m.definition.period, source: m.source,
-      benchmarkPercent: m.benchmark?.percent ?? null, benchmarkSource: m.benchmark?.source ?? null,
-    }))))
+    res.send(
+      safeCsv(
+        QUALITY_CSV_COLUMNS,
+        report.measures.map((m) => ({
+          id: m.id,
+          title: m.title,
+          numerator: m.numerator,
+          denominator: m.denominator,
+          percent: m.percent,
+          value: m.value,
+          unit: m.unit,
+          numeratorDefinition: m.definition.numerator,
+          denominatorDefinition: m.definition.denominator,
+          period: m.definition.period,
+          source: m.source,
+          benchmarkPercent: m.benchmark?.percent ?? null,
+          benchmarkSource: m.benchmark?.source ?? null,
+        })),
+      ),
+    )
   })
   // One row per operated episode for the national audits: patient-level, so not for admins (figures only).
   api.get('/quality/national-audit', { action: 'reports.patientRows' }, async (req, res) => {
@@ -50,7 +79,8 @@ export function reportRoutes({ sequelize }: AppContext): ApiRouter {
     // One table per download; the first unless ?table= names another.
     const names = Object.keys(report.tables)
     const table = typeof req.query.table === 'string' && req.query.table !== '' ? req.query.table : names[0]!
-    if (!Object.hasOwn(report.tables, table)) throw new Invalid(`table must be one of ${names.join(', ')}`, { table: `must be one of ${names.join(', ')}` })
+    if (!Object.hasOwn(report.tables, table))
+      throw new Invalid(`table must be one of ${names.join(', ')}`, { table: `must be one of ${names.join(', ')}` })
     res.type('text/csv; charset=utf-8')
     res.attachment(`${name}-${table}-${report.period.from}-to-${report.period.to}.csv`)
     res.send(tableToCsv(report.tables[table]))

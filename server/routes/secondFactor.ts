@@ -41,7 +41,16 @@ export function secondFactorRoutes(ctx: AppContext): ApiRouter {
     const user = how ? await findActiveUser(pending.userId) : null
     if (!how || !user) {
       await countSecondFactorFailure(ctx.config, pending.email)
-      await recordAudit(null, { ...actorOf(req), userId: pending.userId }, { action: 'sign-in-refused', entity: 'session', entityId: pending.userId, after: { via: 'password', reason: 'wrong second-factor code' } })
+      await recordAudit(
+        null,
+        { ...actorOf(req), userId: pending.userId },
+        {
+          action: 'sign-in-refused',
+          entity: 'session',
+          entityId: pending.userId,
+          after: { via: 'password', reason: 'wrong second-factor code' },
+        },
+      )
       throw new AppError('invalid_code', 'That code is not right, or was already used', 401)
     }
     delete req.session.pendingSecondFactor
@@ -58,20 +67,26 @@ export function secondFactorRoutes(ctx: AppContext): ApiRouter {
   })
 
   api.post('/second-factor/enrolment', { action: 'auth.account', duringPasswordChange: true }, async (req, res) => {
-    if (req.session.directoryIdToken) throw new RuleRefused('You signed in through the directory, which looks after your second factor', 'directory_session')
+    if (req.session.directoryIdToken)
+      throw new RuleRefused('You signed in through the directory, which looks after your second factor', 'directory_session')
     const enrolment = await beginEnrolment(req.user!.email)
     req.session.enrolmentSecret = enrolment.secret
     res.json(enrolment)
   })
 
-  api.post('/second-factor/enrolment/confirm', { action: 'auth.account', duringPasswordChange: true }, validate(secondFactorCodeSchema), async (req, res) => {
-    const secret = req.session.enrolmentSecret
-    if (!secret) throw new RuleRefused('Start the enrolment first: no QR code was shown in this session', 'no_enrolment')
-    const enrolled = await confirmEnrolment(ctx.sequelize, signedInActor(req), secret, req.body.code)
-    delete req.session.enrolmentSecret
-    delete req.session.secondFactorEnrolmentRequired
-    res.json(enrolled)
-  })
+  api.post(
+    '/second-factor/enrolment/confirm',
+    { action: 'auth.account', duringPasswordChange: true },
+    validate(secondFactorCodeSchema),
+    async (req, res) => {
+      const secret = req.session.enrolmentSecret
+      if (!secret) throw new RuleRefused('Start the enrolment first: no QR code was shown in this session', 'no_enrolment')
+      const enrolled = await confirmEnrolment(ctx.sequelize, signedInActor(req), secret, req.body.code)
+      delete req.session.enrolmentSecret
+      delete req.session.secondFactorEnrolmentRequired
+      res.json(enrolled)
+    },
+  )
 
   return api
 }

@@ -9,7 +9,8 @@ export function staffRoutes(_ctx: AppContext): ApiRouter {
   const api = new ApiRouter('/api/staff')
   api.get('', { action: 'staff.list' }, async (req, res) => {
     const role = req.query.role
-    if (role !== undefined && !isRole(role)) throw new Invalid('role must be one of admin, nurse, doctor, surgeon', { role: 'must be one of admin, nurse, doctor, surgeon' })
+    if (role !== undefined && !isRole(role))
+      throw new Invalid('role must be one of admin, nurse, doctor, surgeon', { role: 'must be one of admin, nurse, doctor, surgeon' })
     res.json({ rows: await listActiveStaff(role) })
   })
   return api

@@ -2,13 +2,27 @@ import { ApiRouter } from './apiRouter'
 import { idParam, type AppContext } from './context'
 import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
-import { editTransfusionSchema, transfusionSchema, voidTransfusionSchema, type EditTransfusionInput, type TransfusionInput, type VoidTransfusionInput } from '../../shared/schemas/transfusions'
+import {
+  editTransfusionSchema,
+  transfusionSchema,
+  voidTransfusionSchema,
+  type EditTransfusionInput,
+  type TransfusionInput,
+  type VoidTransfusionInput,
+} from '../../shared/schemas/transfusions'
 import { editTransfusion, listTransfusions, recordTransfusion, voidTransfusion } from '../services/transfusions'
 
 const pick = (b: TransfusionInput): TransfusionInput => ({
-  givenAt: b.givenAt, phase: b.phase, component: b.component, units: b.units, preTransfusionHbGL: b.preTransfusionHbGL,
-  reassessedBeforeNext: b.reassessedBeforeNext, postTransfusionHbGL: b.postTransfusionHbGL, informationGiven: b.informationGiven,
-  productCodes: b.productCodes, reason: b.reason,
+  givenAt: b.givenAt,
+  phase: b.phase,
+  component: b.component,
+  units: b.units,
+  preTransfusionHbGL: b.preTransfusionHbGL,
+  reassessedBeforeNext: b.reassessedBeforeNext,
+  postTransfusionHbGL: b.postTransfusionHbGL,
+  informationGiven: b.informationGiven,
+  productCodes: b.productCodes,
+  reason: b.reason,
 })
 
 /** The transfusion record: written by those who keep the post-operative record (surgeons for their own patients, in the service). */
@@ -23,11 +37,21 @@ export function transfusionRoutes({ sequelize }: AppContext): ApiRouter {
   })
   api.put('/:id/transfusions/:transfusionId', { action: 'transfusions.record' }, validate(editTransfusionSchema), async (req, res) => {
     const b = req.body as EditTransfusionInput
-    res.json(await editTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), { ...pick(b), changeReason: b.changeReason }))
+    res.json(
+      await editTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), {
+        ...pick(b),
+        changeReason: b.changeReason,
+      }),
+    )
   })
-  api.post('/:id/transfusions/:transfusionId/void', { action: 'transfusions.record' }, validate(voidTransfusionSchema), async (req, res) => {
-    const b = req.body as VoidTransfusionInput
-    res.json(await voidTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), b.reason))
-  })
+  api.post(
+    '/:id/transfusions/:transfusionId/void',
+    { action: 'transfusions.record' },
+    validate(voidTransfusionSchema),
+    async (req, res) => {
+      const b = req.body as VoidTransfusionInput
+      res.json(await voidTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), b.reason))
+    },
+  )
   return api
 }

@@ -2,7 +2,12 @@ import { ApiRouter } from './apiRouter'
 import type { AppContext } from './context'
 import { viewerOf } from './pathwayContext'
 import { validate } from '../middleware/validate'
-import { worklistCountsQuerySchema, worklistQuerySchema, type WorklistCountsQuery, type WorklistQuery } from '../../shared/schemas/referrals'
+import {
+  worklistCountsQuerySchema,
+  worklistQuerySchema,
+  type WorklistCountsQuery,
+  type WorklistQuery,
+} from '../../shared/schemas/referrals'
 import { worklist } from '../services/worklist'
 import { worklistTiles } from '../services/worklistTiles'
 

@@ -19,11 +19,17 @@ import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
 
-
 export function toAdministrationView(a: Administration & { giver?: User | null }): AdministrationView {
   return {
-    id: a.id, prescriptionId: a.prescriptionId, doseMg: a.doseMg, givenAt: isoOrNull(a.givenAt)!, batchNumber: a.batchNumber,
-    reaction: a.reaction, reactionNotes: a.reactionNotes, overrideReason: a.overrideReason ?? null, giver: a.giver ? { id: a.giver.id, name: a.giver.name } : null,
+    id: a.id,
+    prescriptionId: a.prescriptionId,
+    doseMg: a.doseMg,
+    givenAt: isoOrNull(a.givenAt)!,
+    batchNumber: a.batchNumber,
+    reaction: a.reaction,
+    reactionNotes: a.reactionNotes,
+    overrideReason: a.overrideReason ?? null,
+    giver: a.giver ? { id: a.giver.id, name: a.giver.name } : null,
   }
 }
 
@@ -46,28 +52,49 @@ export async function recordAdministration(
     if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
     const p = await Prescription.findOne({ where: { id: input.prescriptionId, referralId }, transaction: t })
     if (!p) throw new NotFound('Prescription on this episode')
-    if (p.status !== 'active') throw new RuleRefused(`This prescription is ${p.status}; record doses against the active one`, 'prescription_not_active')
+    if (p.status !== 'active')
+      throw new RuleRefused(`This prescription is ${p.status}; record doses against the active one`, 'prescription_not_active')
     const product = toIronProduct(await findProduct(p.productCode))
     const givenAt = new Date(input.givenAt)
     const body = await currentBody(r.patientId, t)
     const weight = body.weightKg ?? p.weightKg
-    const earlier = await Administration.findAll({ where: { referralId }, attributes: ['doseMg', 'givenAt', 'prescriptionId'], transaction: t })
+    const earlier = await Administration.findAll({
+      where: { referralId },
+      attributes: ['doseMg', 'givenAt', 'prescriptionId'],
+      transaction: t,
+    })
     const violations = checkGivenDose({
-      product, weightKg: weight, paediatric: ageOn(r.patient.dateOfBirth, dateInZone(givenAt, clinicTimeZone())) < ADULT_AGE_YEARS,
-      doseMg: input.doseMg, givenAt, earlier: earlier.map((d) => ({ doseMg: d.doseMg, givenAt: d.givenAt })),
+      product,
+      weightKg: weight,
+      paediatric: ageOn(r.patient.dateOfBirth, dateInZone(givenAt, clinicTimeZone())) < ADULT_AGE_YEARS,
+      doseMg: input.doseMg,
+      givenAt,
+      earlier: earlier.map((d) => ({ doseMg: d.doseMg, givenAt: d.givenAt })),
       givenOnPrescriptionMg: earlier.filter((d) => d.prescriptionId === p.id).reduce((sum, d) => sum + d.doseMg, 0),
       prescribedTotalMg: p.totalMg,
     })
     if (violations.length && !input.overrideReason) {
       const fields = Object.fromEntries(violations.map((v) => [v.cap, v.message]))
       const code = violations.some((v) => v.cap === 'minIntervalDays') && violations.length === 1 ? 'interval_too_short' : 'dose_over_cap'
-      throw new RuleRefused(`${violations.map((v) => v.message).join('; ')}. Record a reason to give it anyway.`, code, { ...fields, overrideReason: 'is required to give a dose over a cap' })
+      throw new RuleRefused(`${violations.map((v) => v.message).join('; ')}. Record a reason to give it anyway.`, code, {
+        ...fields,
+        overrideReason: 'is required to give a dose over a cap',
+      })
     }
-    const a = await Administration.create({
-      prescriptionId: p.id, referralId, doseMg: input.doseMg, givenAt, batchNumber: input.batchNumber,
-      reaction: input.reaction as Reaction, reactionNotes: input.reactionNotes ?? null, givenBy: viewer.userId,
-      overrideReason: violations.length ? input.overrideReason ?? null : null,
-    }, { transaction: t })
+    const a = await Administration.create(
+      {
+        prescriptionId: p.id,
+        referralId,
+        doseMg: input.doseMg,
+        givenAt,
+        batchNumber: input.batchNumber,
+        reaction: input.reaction as Reaction,
+        reactionNotes: input.reactionNotes ?? null,
+        givenBy: viewer.userId,
+        overrideReason: violations.length ? (input.overrideReason ?? null) : null,
+      },
+      { transaction: t },
+    )
     const given = ((await Administration.sum('doseMg', { where: { prescriptionId: p.id }, transaction: t })) as number | null) ?? 0
     if (given >= p.totalMg) await p.update({ status: 'completed' }, { transaction: t })
 
@@ -84,7 +111,13 @@ export async function recordAdministration(
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
     await refreshIronResponse(sequelize, [referralId], t)
     const view = toAdministrationView(a)
-    await recordAudit(t, viewer, { action: 'create', entity: 'administration', entityId: a.id, patientId: r.patientId, after: { ...view, recheckDueDate } })
+    await recordAudit(t, viewer, {
+      action: 'create',
+      entity: 'administration',
+      entityId: a.id,
+      patientId: r.patientId,
+      after: { ...view, recheckDueDate },
+    })
     return { administration: view, recheckDueDate, stage: moves ? 'treating' : r.stage, version }
   })
 }
@@ -92,6 +125,10 @@ export async function recordAdministration(
 export async function listAdministrations(viewer: Viewer, referralId: number): Promise<AdministrationView[]> {
   const r = await loadReferral(viewer, referralId)
   await recordAudit(null, viewer, { action: 'view', entity: 'administrations', entityId: referralId, patientId: r.patientId })
-  const rows = await Administration.findAll({ where: { referralId }, include: [{ model: User, as: 'giver', attributes: ['id', 'name'] }], order: [['givenAt', 'DESC']] })
+  const rows = await Administration.findAll({
+    where: { referralId },
+    include: [{ model: User, as: 'giver', attributes: ['id', 'name'] }],
+    order: [['givenAt', 'DESC']],
+  })
   return rows.map(toAdministrationView)
 }

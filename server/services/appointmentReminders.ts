@@ -41,7 +41,10 @@ export async function queueDueReminders(sequelize: Sequelize, config: Config, no
       if (!patient) return false
       try {
         const m = await enqueueMessage(t, config, {
-          kind: 'reminder', snapshot: snapshotOf(a.get({ plain: true }), patient), referralId: a.referralId, patientId: a.patientId,
+          kind: 'reminder',
+          snapshot: snapshotOf(a.get({ plain: true }), patient),
+          referralId: a.referralId,
+          patientId: a.patientId,
           dedupeKey: `reminder:${a.id}:${a.sequence}`,
         })
         return m !== null

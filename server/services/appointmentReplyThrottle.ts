@@ -8,7 +8,10 @@ const windowStart = (config: Config) => new Date(Date.now() - config.replies.win
 
 /** Refuses every reply from an address that has tried too many unknown links lately. */
 export async function assertNotThrottled(config: Config, ip: string): Promise<void> {
-  const row = await AppointmentReplyFailure.findOne({ where: { bucket: bucketOf(ip), windowStartedAt: { [Op.gte]: windowStart(config) } }, raw: true })
+  const row = await AppointmentReplyFailure.findOne({
+    where: { bucket: bucketOf(ip), windowStartedAt: { [Op.gte]: windowStart(config) } },
+    raw: true,
+  })
   if ((row?.failures ?? 0) >= config.replies.maxBadTokensPerAddress) {
     throw new TooMany(
       `Too many links we could not recognise came from your connection. Wait ${config.replies.windowMinutes} minutes and open ` +

@@ -7,17 +7,28 @@ import { Conflict } from '../errors'
 const ACTIVE = { [Op.ne]: 'cancelled' } as const
 const SUGGEST_WEEKS = 8
 
-const span = (a: { startsAt: Date; endsAt: Date }): Span => ({ startMs: new Date(a.startsAt).getTime(), endMs: new Date(a.endsAt).getTime() })
+const span = (a: { startsAt: Date; endsAt: Date }): Span => ({
+  startMs: new Date(a.startsAt).getTime(),
+  endMs: new Date(a.endsAt).getTime(),
+})
 
 /**
  * A patient is in one place at a time. The caller holds the patient row's lock, so two
  * bookings for the same patient cannot both pass this check.
  */
-export async function assertNoDoubleBooking(t: Transaction, patientId: number, wanted: Span, timeZone: string, excludeId?: number): Promise<void> {
+export async function assertNoDoubleBooking(
+  t: Transaction,
+  patientId: number,
+  wanted: Span,
+  timeZone: string,
+  excludeId?: number,
+): Promise<void> {
   const clash = await Appointment.findOne({
     where: {
-      patientId, status: ACTIVE,
-      startsAt: { [Op.lt]: new Date(wanted.endMs) }, endsAt: { [Op.gt]: new Date(wanted.startMs) },
+      patientId,
+      status: ACTIVE,
+      startsAt: { [Op.lt]: new Date(wanted.endMs) },
+      endsAt: { [Op.gt]: new Date(wanted.startMs) },
       ...(excludeId ? { id: { [Op.ne]: excludeId } } : {}),
     },
     transaction: t,
@@ -43,7 +54,9 @@ async function sessionLoads(t: Transaction, sessions: InfusionSession[], exclude
     raw: true,
   })
   return sessions.map((s) => ({
-    id: s.id, chairs: s.chairs, ...span(s),
+    id: s.id,
+    chairs: s.chairs,
+    ...span(s),
     bookings: bookings.filter((b) => b.infusionSessionId === s.id).map(span),
   }))
 }
@@ -58,13 +71,21 @@ async function suggestions(
   excludeId?: number,
 ): Promise<SlotSuggestion[]> {
   const sessions = await InfusionSession.findAll({
-    where: { endsAt: { [Op.gt]: new Date(wanted.startMs) }, startsAt: { [Op.lt]: new Date(wanted.startMs + SUGGEST_WEEKS * 7 * 86_400_000) } },
+    where: {
+      endsAt: { [Op.gt]: new Date(wanted.startMs) },
+      startsAt: { [Op.lt]: new Date(wanted.startMs + SUGGEST_WEEKS * 7 * 86_400_000) },
+    },
     order: [['startsAt', 'ASC']],
     limit: 60,
     transaction: t,
   })
   const busy = await Appointment.findAll({
-    where: { patientId, status: ACTIVE, endsAt: { [Op.gt]: new Date(wanted.startMs) }, ...(excludeId ? { id: { [Op.ne]: excludeId } } : {}) },
+    where: {
+      patientId,
+      status: ACTIVE,
+      endsAt: { [Op.gt]: new Date(wanted.startMs) },
+      ...(excludeId ? { id: { [Op.ne]: excludeId } } : {}),
+    },
     attributes: ['startsAt', 'endsAt'],
     transaction: t,
     raw: true,
@@ -74,8 +95,12 @@ async function suggestions(
   return freeSlots(loads, durationMin, Math.max(wanted.startMs, Date.now()), busy.map(span)).map((f) => {
     const at = new Date(f.startMs)
     return {
-      sessionId: f.sessionId, startsAt: at.toISOString(), endsAt: new Date(f.endMs).toISOString(),
-      date: localDate(at, timeZone), time: localTime(at, timeZone), location: byId.get(f.sessionId)!.location,
+      sessionId: f.sessionId,
+      startsAt: at.toISOString(),
+      endsAt: new Date(f.endMs).toISOString(),
+      date: localDate(at, timeZone),
+      time: localTime(at, timeZone),
+      location: byId.get(f.sessionId)!.location,
     }
   })
 }
@@ -85,10 +110,20 @@ async function suggestions(
  * are not all taken at that time. Candidate sessions are locked, so two bookings cannot take
  * the last chair together. Refusals carry the next free slots in error.details.suggestions.
  */
-export async function takeInfusionChair(t: Transaction, patientId: number, wanted: Span, durationMin: number, timeZone: string, excludeId?: number): Promise<number> {
+export async function takeInfusionChair(
+  t: Transaction,
+  patientId: number,
+  wanted: Span,
+  durationMin: number,
+  timeZone: string,
+  excludeId?: number,
+): Promise<number> {
   const containing = await InfusionSession.findAll({
     where: { startsAt: { [Op.lte]: new Date(wanted.startMs) }, endsAt: { [Op.gte]: new Date(wanted.endMs) } },
-    order: [['startsAt', 'ASC'], ['id', 'ASC']],
+    order: [
+      ['startsAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
     transaction: t,
     lock: t.LOCK.UPDATE,
   })
@@ -97,7 +132,17 @@ export async function takeInfusionChair(t: Transaction, patientId: number, wante
   }
   const offered = await suggestions(t, patientId, wanted, durationMin, timeZone, excludeId)
   if (!containing.length) {
-    throw new Conflict('Iron infusions are given in the infusion unit\'s sessions, and no session covers this time', 'outside_session', { startsAt: 'is not inside an infusion session' }, { suggestions: offered })
+    throw new Conflict(
+      "Iron infusions are given in the infusion unit's sessions, and no session covers this time",
+      'outside_session',
+      { startsAt: 'is not inside an infusion session' },
+      { suggestions: offered },
+    )
   }
-  throw new Conflict('Every chair in the infusion session is taken at this time', 'session_full', { startsAt: 'no free chair in this session' }, { suggestions: offered })
+  throw new Conflict(
+    'Every chair in the infusion session is taken at this time',
+    'session_full',
+    { startsAt: 'no free chair in this session' },
+    { suggestions: offered },
+  )
 }

@@ -18,7 +18,10 @@ export async function listTasks(q: TaskQuery): Promise<Rows<PatientTask>> {
       { model: Patient, as: 'patient', attributes: ['id', 'givenName', 'familyName', 'mrn', 'phone'] },
       { model: Appointment, as: 'appointment', attributes: ['id', 'kind', 'startsAt', 'location', 'status'] },
     ],
-    order: [['createdAt', q.status === 'open' ? 'ASC' : 'DESC'], ['id', 'ASC']],
+    order: [
+      ['createdAt', q.status === 'open' ? 'ASC' : 'DESC'],
+      ['id', 'ASC'],
+    ],
     limit: 200,
   })
   return {
@@ -28,10 +31,22 @@ export async function listTasks(q: TaskQuery): Promise<Rows<PatientTask>> {
         appointment: InferAttributes<Appointment>
       }
       return {
-        id: x.id, kind: x.kind, status: x.status, message: x.message, createdAt: isoOrNull(x.createdAt)!, doneAt: isoOrNull(x.doneAt),
+        id: x.id,
+        kind: x.kind,
+        status: x.status,
+        message: x.message,
+        createdAt: isoOrNull(x.createdAt)!,
+        doneAt: isoOrNull(x.doneAt),
         referralId: x.referralId,
         patient: { id: x.patient.id, name: `${x.patient.givenName} ${x.patient.familyName}`, mrn: x.patient.mrn, phone: x.patient.phone },
-        appointment: { id: x.appointment.id, kind: x.appointment.kind, kindLabel: KIND_INFO[x.appointment.kind].label, startsAt: isoOrNull(x.appointment.startsAt)!, location: x.appointment.location, status: x.appointment.status },
+        appointment: {
+          id: x.appointment.id,
+          kind: x.appointment.kind,
+          kindLabel: KIND_INFO[x.appointment.kind].label,
+          startsAt: isoOrNull(x.appointment.startsAt)!,
+          location: x.appointment.location,
+          status: x.appointment.status,
+        },
       }
     }),
   }
@@ -43,7 +58,13 @@ export async function completeTask(sequelize: Sequelize, viewer: Viewer, id: num
     if (!task) throw new NotFound('Task')
     if (task.status === 'done') throw new Conflict('This task is already done', 'task_done')
     await task.update({ status: 'done', doneAt: new Date(), doneBy: viewer.userId }, { transaction: t })
-    await recordAudit(t, viewer, { action: 'complete', entity: 'appointment-task', entityId: id, patientId: task.patientId, after: { status: 'done' } })
+    await recordAudit(t, viewer, {
+      action: 'complete',
+      entity: 'appointment-task',
+      entityId: id,
+      patientId: task.patientId,
+      after: { status: 'done' },
+    })
   })
   return { id, status: 'done' }
 }

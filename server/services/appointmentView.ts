@@ -34,8 +34,15 @@ export function appointmentView(
     ...(extra.events
       ? {
           events: extra.events.map((e) => ({
-            id: e.id, kind: e.kind, startsAt: isoOrNull(e.startsAt), durationMin: e.durationMin, location: e.location,
-            note: e.note, userId: e.userId, byPatient: e.userId === null, at: isoOrNull(e.at)!,
+            id: e.id,
+            kind: e.kind,
+            startsAt: isoOrNull(e.startsAt),
+            durationMin: e.durationMin,
+            location: e.location,
+            note: e.note,
+            userId: e.userId,
+            byPatient: e.userId === null,
+            at: isoOrNull(e.at)!,
           })),
         }
       : {}),
@@ -48,7 +55,11 @@ export function messageStatusView(m: InferAttributes<OutboxMessage>): MessageSta
 }
 
 /** The frozen facts a patient e-mail reports (see mail/snapshot.ts). */
-export function snapshotOf(a: AppointmentRow, p: Pick<Patient, 'givenName' | 'familyName' | 'email'>, previous?: { startsAt: Date; location: string }): AppointmentSnapshot {
+export function snapshotOf(
+  a: AppointmentRow,
+  p: Pick<Patient, 'givenName' | 'familyName' | 'email'>,
+  previous?: { startsAt: Date; location: string },
+): AppointmentSnapshot {
   return {
     appointmentId: a.id,
     kind: a.kind,

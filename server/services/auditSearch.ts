@@ -9,7 +9,16 @@ export const AUDIT_PAGE_SIZE = 50
 /** A CSV export is capped so one click cannot pull the whole log into memory. */
 export const AUDIT_EXPORT_LIMIT = 10_000
 
-export interface AuditQuery { userId: number | null; patientId: number | null; mrn: string | null; entity: string | null; action: string | null; from: string | null; to: string | null; page: number }
+export interface AuditQuery {
+  userId: number | null
+  patientId: number | null
+  mrn: string | null
+  entity: string | null
+  action: string | null
+  from: string | null
+  to: string | null
+  page: number
+}
 
 const DATE = /^\d{4}-\d{2}-\d{2}$/
 
@@ -19,7 +28,8 @@ export function auditQuery(q: Record<string, unknown>): AuditQuery {
     const v = str(k)
     if (v === null) return null
     const n = Number(v)
-    if (!Number.isSafeInteger(n) || n <= 0) throw new Invalid(`${k} must be a positive whole number`, { [k]: 'must be a positive whole number' })
+    if (!Number.isSafeInteger(n) || n <= 0)
+      throw new Invalid(`${k} must be a positive whole number`, { [k]: 'must be a positive whole number' })
     return n
   }
   for (const k of ['from', 'to']) {
@@ -35,7 +45,16 @@ export function auditQuery(q: Record<string, unknown>): AuditQuery {
   }
   const mrn = str('mrn')?.trim() || null
   if (mrn !== null && mrn.length > 40) throw new Invalid('mrn must be at most 40 characters', { mrn: 'must be at most 40 characters' })
-  return { userId: id('userId'), patientId: id('patientId'), mrn, entity: str('entity'), action: str('action'), from: str('from'), to: str('to'), page: id('page') ?? 1 }
+  return {
+    userId: id('userId'),
+    patientId: id('patientId'),
+    mrn,
+    entity: str('entity'),
+    action: str('action'),
+    from: str('from'),
+    to: str('to'),
+    page: id('page') ?? 1,
+  }
 }
 
 function whereOf(q: AuditQuery): WhereOptions {
@@ -53,9 +72,16 @@ function whereOf(q: AuditQuery): WhereOptions {
 
 function toRow(e: AuditEntry & { user?: User | null }): AuditRow {
   return {
-    id: Number(e.id), at: e.at.toISOString(), user: e.user ? { id: e.user.id, name: e.user.name } : null, action: e.action, entity: e.entity,
-    entityId: e.entityId, patientId: e.patientId,
-    before: e.before as AuditRow['before'], after: e.after as AuditRow['after'], requestId: e.requestId,
+    id: Number(e.id),
+    at: e.at.toISOString(),
+    user: e.user ? { id: e.user.id, name: e.user.name } : null,
+    action: e.action,
+    entity: e.entity,
+    entityId: e.entityId,
+    patientId: e.patientId,
+    before: e.before as AuditRow['before'],
+    after: e.after as AuditRow['after'],
+    requestId: e.requestId,
   }
 }
 
@@ -72,10 +98,20 @@ export async function searchAudit(actor: Actor, q: AuditQuery, exportAll = false
   }
   const limit = exportAll ? AUDIT_EXPORT_LIMIT : AUDIT_PAGE_SIZE
   const { rows, count } = await AuditEntry.findAndCountAll({
-    where, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']],
-    limit, offset: exportAll ? 0 : (q.page - 1) * AUDIT_PAGE_SIZE,
+    where,
+    include: [{ model: User, as: 'user', attributes: ['id', 'name'] }],
+    order: [
+      ['at', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit,
+    offset: exportAll ? 0 : (q.page - 1) * AUDIT_PAGE_SIZE,
   })
   const { page: _page, ...filters } = q
-  await recordAudit(null, actor, { action: exportAll ? 'export' : 'view', entity: 'audit-trail', after: { filters, page: q.page, rows: rows.length } })
+  await recordAudit(null, actor, {
+    action: exportAll ? 'export' : 'view',
+    entity: 'audit-trail',
+    after: { filters, page: q.page, rows: rows.length },
+  })
   return { rows: (rows as (AuditEntry & { user?: User | null })[]).map(toRow), total: count, page: exportAll ? 1 : q.page, pageSize: limit }
 }

@@ -28,20 +28,43 @@ export async function cancelPlannedOperation(
     if (r.version !== input.version) throw staleVersion('This referral')
     if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
     if (NO_PLANNED_OPERATION.has(r.stage)) {
-      throw new RuleRefused('There is no planned operation to cancel at this stage', 'no_planned_operation', { reason: 'cannot be recorded once the operation is done or the episode is withdrawn' })
+      throw new RuleRefused('There is no planned operation to cancel at this stage', 'no_planned_operation', {
+        reason: 'cannot be recorded once the operation is done or the episode is withdrawn',
+      })
     }
-    const last = await SurgeryDateChange.findOne({ where: { referralId: id }, order: [['changedAt', 'DESC'], ['id', 'DESC']], transaction: t })
+    const last = await SurgeryDateChange.findOne({
+      where: { referralId: id },
+      order: [
+        ['changedAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
+      transaction: t,
+    })
     if (last?.kind === 'cancelled') {
-      throw new RuleRefused('The planned operation is already cancelled; set a new surgery date to rebook it', 'already_cancelled', { reason: 'the operation is already cancelled' })
+      throw new RuleRefused('The planned operation is already cancelled; set a new surgery date to rebook it', 'already_cancelled', {
+        reason: 'the operation is already cancelled',
+      })
     }
     const [count] = await Referral.update({ version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
     if (count !== 1) throw staleVersion('This referral')
-    const row = await SurgeryDateChange.create({
-      referralId: id, kind: 'cancelled', fromDate: r.plannedSurgeryDate, toDate: null, reason: input.reason,
-      note: input.note ?? null, changedBy: viewer.userId, changedAt: new Date(),
-    }, { transaction: t })
+    const row = await SurgeryDateChange.create(
+      {
+        referralId: id,
+        kind: 'cancelled',
+        fromDate: r.plannedSurgeryDate,
+        toDate: null,
+        reason: input.reason,
+        note: input.note ?? null,
+        changedBy: viewer.userId,
+        changedAt: new Date(),
+      },
+      { transaction: t },
+    )
     await recordAudit(t, viewer, {
-      action: 'cancel', entity: 'planned-operation', entityId: row.id, patientId: r.patientId,
+      action: 'cancel',
+      entity: 'planned-operation',
+      entityId: row.id,
+      patientId: r.patientId,
       after: { referralId: id, plannedSurgeryDate: r.plannedSurgeryDate, reason: input.reason, note: input.note ?? null },
     })
   })

@@ -29,7 +29,14 @@ export async function recordReview(sequelize: Sequelize, viewer: Viewer, referra
     if (r.version !== input.version) throw staleVersion('This referral')
     if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
     const review = await ClinicReview.create(
-      { referralId, diagnosis: input.diagnosis as ReviewInput['diagnosis'] & ClinicReview['diagnosis'], notes: input.notes ?? null, plan: input.plan, reviewedBy: viewer.userId, reviewedAt: new Date() },
+      {
+        referralId,
+        diagnosis: input.diagnosis as ReviewInput['diagnosis'] & ClinicReview['diagnosis'],
+        notes: input.notes ?? null,
+        plan: input.plan,
+        reviewedBy: viewer.userId,
+        reviewedAt: new Date(),
+      },
       { transaction: t },
     )
     worklistChanged('referral', t)
@@ -40,8 +47,12 @@ export async function recordReview(sequelize: Sequelize, viewer: Viewer, referra
     if (count !== 1) throw staleVersion('This referral')
     const view = toReviewView(review)
     await recordAudit(t, viewer, {
-      action: 'create', entity: 'clinic-review', entityId: review.id, patientId: r.patientId,
-      before: { cardiovascularDisease: r.cardiovascularDisease }, after: { ...view, cardiovascularDisease: input.cardiovascularDisease },
+      action: 'create',
+      entity: 'clinic-review',
+      entityId: review.id,
+      patientId: r.patientId,
+      before: { cardiovascularDisease: r.cardiovascularDisease },
+      after: { ...view, cardiovascularDisease: input.cardiovascularDisease },
     })
     return { review: view, version: r.version + 1 }
   })
@@ -50,6 +61,10 @@ export async function recordReview(sequelize: Sequelize, viewer: Viewer, referra
 export async function listReviews(viewer: Viewer, referralId: number): Promise<ClinicReviewView[]> {
   const r = await loadReferral(viewer, referralId)
   await recordAudit(null, viewer, { action: 'view', entity: 'clinic-reviews', entityId: referralId, patientId: r.patientId })
-  const rows = await ClinicReview.findAll({ where: { referralId }, include: [{ model: User, as: 'reviewer', attributes: ['id', 'name'] }], order: [['reviewedAt', 'DESC']] })
+  const rows = await ClinicReview.findAll({
+    where: { referralId },
+    include: [{ model: User, as: 'reviewer', attributes: ['id', 'name'] }],
+    order: [['reviewedAt', 'DESC']],
+  })
   return rows.map(toReviewView)
 }

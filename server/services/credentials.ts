@@ -18,7 +18,11 @@ export async function passwordAccepted(user: UserRow | null, password: string, n
   const matches = await verifyPassword(password, user.passwordHash)
   if (!matches || !user.active) return false
   if (user.mustChangePassword && user.temporaryPasswordExpiresAt && user.temporaryPasswordExpiresAt <= now) {
-    throw new AppError('temporary_password_expired', 'This temporary password has expired. Ask an administrator to reset your password again.', 401)
+    throw new AppError(
+      'temporary_password_expired',
+      'This temporary password has expired. Ask an administrator to reset your password again.',
+      401,
+    )
   }
   // A hash made at an older, cheaper cost is replaced now that the plain password is at hand.
   if (needsRehash(user.passwordHash)) await user.update({ passwordHash: await hashPassword(password) })

@@ -14,7 +14,10 @@ import { recordAudit, type Actor } from './audit'
 import { forgetUser, toSessionUser } from './users'
 
 export class DirectorySignInRefused extends Error {
-  constructor(readonly reason: DirectoryRefusal, message: string) {
+  constructor(
+    readonly reason: DirectoryRefusal,
+    message: string,
+  ) {
     super(message)
   }
 }
@@ -28,7 +31,12 @@ export function roleForGroups(groupRoles: [string, Role][], groups: string[]): R
   return groupRoles.find(([group]) => held.has(group))?.[1] ?? null
 }
 
-export async function signInFromDirectory(sequelize: Sequelize, oidc: OidcConfig, actor: Actor, who: DirectoryIdentity): Promise<SessionUser> {
+export async function signInFromDirectory(
+  sequelize: Sequelize,
+  oidc: OidcConfig,
+  actor: Actor,
+  who: DirectoryIdentity,
+): Promise<SessionUser> {
   if (!who.email || !who.emailVerified) throw new DirectorySignInRefused('no-email', 'The directory did not give a verified e-mail address')
   const role = roleForGroups(oidc.groupRoles, who.groups)
   return sequelize.transaction(async (t) => {
@@ -41,10 +49,21 @@ export async function signInFromDirectory(sequelize: Sequelize, oidc: OidcConfig
     const me = { ...actor, userId: existing?.id ?? null }
     if (!existing) {
       const u = await User.create(
-        { email: who.email!, name: who.name || who.email!, role, passwordHash: NO_LOCAL_PASSWORD, directorySubject: who.subject, lastSignInAt: new Date() },
+        {
+          email: who.email!,
+          name: who.name || who.email!,
+          role,
+          passwordHash: NO_LOCAL_PASSWORD,
+          directorySubject: who.subject,
+          lastSignInAt: new Date(),
+        },
         { transaction: t },
       )
-      await recordAudit(t, { ...actor, userId: u.id }, { action: 'create', entity: 'user', entityId: u.id, after: { ...toSessionUser(u), source: 'directory', groups: who.groups } })
+      await recordAudit(
+        t,
+        { ...actor, userId: u.id },
+        { action: 'create', entity: 'user', entityId: u.id, after: { ...toSessionUser(u), source: 'directory', groups: who.groups } },
+      )
       return toSessionUser(u)
     }
     const before = { role: existing.role, directorySubject: existing.directorySubject }
@@ -53,7 +72,9 @@ export async function signInFromDirectory(sequelize: Sequelize, oidc: OidcConfig
     await existing.update({ role, directorySubject: who.subject, lastSignInAt: new Date(), ...dropTemporary }, { transaction: t })
     if (before.role !== role || before.directorySubject !== who.subject) {
       await recordAudit(t, me, {
-        action: 'update', entity: 'user', entityId: existing.id,
+        action: 'update',
+        entity: 'user',
+        entityId: existing.id,
         before: { role: before.role, directorySubject: before.directorySubject },
         after: { role, directorySubject: who.subject, source: 'directory groups', groups: who.groups },
       })

@@ -10,7 +10,10 @@ export type LoadedReferral = Referral & { patient: Patient; procedure: Procedure
 /** The referral with its patient and operation, checked against the caller's access. */
 export async function loadReferral(viewer: Viewer, id: number, t?: Transaction, lock = false): Promise<LoadedReferral> {
   const r = (await Referral.findByPk(id, {
-    include: [{ model: Patient, as: 'patient' }, { model: Procedure, as: 'procedure' }],
+    include: [
+      { model: Patient, as: 'patient' },
+      { model: Procedure, as: 'procedure' },
+    ],
     transaction: t,
     ...(lock && t ? { lock: t.LOCK.UPDATE, skipLocked: false } : {}),
   })) as LoadedReferral | null
@@ -23,7 +26,14 @@ export async function loadReferral(viewer: Viewer, id: number, t?: Transaction, 
 export async function clinicalFacts(r: LoadedReferral, t?: Transaction) {
   const [body, hbRows, doses, prescription] = await Promise.all([
     currentBody(r.patientId, t),
-    Result.findAll({ where: { referralId: r.id, analyte: 'hb', ...SCREENABLE_WHERE }, order: [['takenAt', 'ASC'], ['id', 'ASC']], transaction: t }),
+    Result.findAll({
+      where: { referralId: r.id, analyte: 'hb', ...SCREENABLE_WHERE },
+      order: [
+        ['takenAt', 'ASC'],
+        ['id', 'ASC'],
+      ],
+      transaction: t,
+    }),
     Administration.findAll({ where: { referralId: r.id }, order: [['givenAt', 'ASC']], transaction: t }),
     Prescription.findOne({ where: { referralId: r.id, status: 'active' }, order: [['prescribedAt', 'DESC']], transaction: t }),
   ])

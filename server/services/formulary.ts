@@ -22,7 +22,9 @@ const storedTable = (row: IronProductRow): IronDosingTable | null =>
  */
 export function toIronProduct(row: IronProductRow): IronProduct {
   return {
-    code: row.code, name: row.name, route: row.route,
+    code: row.code,
+    name: row.name,
+    route: row.route,
     maxSingleDoseMg: row.maxSingleDoseMg,
     maxSingleDoseMgPerKg: orUndefined(row.maxSingleDoseMgPerKg),
     minIntervalDays: row.minIntervalDays,
@@ -41,13 +43,24 @@ export function toIronProduct(row: IronProductRow): IronProduct {
 
 export function toEntry(row: IronProductRow): FormularyEntry {
   return {
-    ...toIronProduct(row), id: row.id, source: row.source, active: Boolean(row.active), caution: FORMULARY_CAUTION,
-    dosingTable: storedTable(row), dosedByTable: Boolean(row.dosedByTable),
+    ...toIronProduct(row),
+    id: row.id,
+    source: row.source,
+    active: Boolean(row.active),
+    caution: FORMULARY_CAUTION,
+    dosingTable: storedTable(row),
+    dosedByTable: Boolean(row.dosedByTable),
   }
 }
 
 export async function listFormulary(opts: { includeInactive?: boolean } = {}): Promise<FormularyEntry[]> {
-  const rows = await IronProductRow.findAll({ where: opts.includeInactive ? {} : { active: true }, order: [['route', 'ASC'], ['name', 'ASC']] })
+  const rows = await IronProductRow.findAll({
+    where: opts.includeInactive ? {} : { active: true },
+    order: [
+      ['route', 'ASC'],
+      ['name', 'ASC'],
+    ],
+  })
   return rows.map(toEntry)
 }
 
@@ -58,33 +71,60 @@ export async function findProduct(code: string): Promise<IronProductRow> {
 }
 
 export async function createProduct(sequelize: Sequelize, actor: Actor, input: CreateIronProductInput): Promise<FormularyEntry> {
-  const candidate = { ...input, maxSingleDoseMgPerKg: input.maxSingleDoseMgPerKg ?? undefined, maxWeeklyMg: input.maxWeeklyMg ?? undefined,
-    maxTotalMg: input.maxTotalMg ?? undefined, roundToMg: input.roundToMg ?? undefined, oralDailyMg: input.oralDailyMg ?? undefined,
-    oralAlternateDays: input.oralAlternateDays ?? undefined, licensedFromAgeYears: input.licensedFromAgeYears ?? undefined,
-    paediatricMaxSingleDoseMgPerKg: input.paediatricMaxSingleDoseMgPerKg ?? undefined, paediatricMaxSingleDoseMg: input.paediatricMaxSingleDoseMg ?? undefined } as IronProduct
+  const candidate = {
+    ...input,
+    maxSingleDoseMgPerKg: input.maxSingleDoseMgPerKg ?? undefined,
+    maxWeeklyMg: input.maxWeeklyMg ?? undefined,
+    maxTotalMg: input.maxTotalMg ?? undefined,
+    roundToMg: input.roundToMg ?? undefined,
+    oralDailyMg: input.oralDailyMg ?? undefined,
+    oralAlternateDays: input.oralAlternateDays ?? undefined,
+    licensedFromAgeYears: input.licensedFromAgeYears ?? undefined,
+    paediatricMaxSingleDoseMgPerKg: input.paediatricMaxSingleDoseMgPerKg ?? undefined,
+    paediatricMaxSingleDoseMg: input.paediatricMaxSingleDoseMg ?? undefined,
+  } as IronProduct
   clinical('product', () => validateIronProduct(candidate))
   try {
     return await sequelize.transaction(async (t) => {
-      const row = await IronProductRow.create({
-        code: input.code, name: input.name, route: input.route as 'iv' | 'oral', maxSingleDoseMg: input.maxSingleDoseMg,
-        maxSingleDoseMgPerKg: input.maxSingleDoseMgPerKg ?? null, minIntervalDays: input.minIntervalDays,
-        maxWeeklyMg: input.maxWeeklyMg ?? null, maxTotalMg: input.maxTotalMg ?? null, roundToMg: input.roundToMg ?? null,
-        oralDailyMg: input.oralDailyMg ?? null, oralAlternateDays: input.oralAlternateDays ?? null, source: input.source,
-        licensedFromAgeYears: input.licensedFromAgeYears ?? null, paediatricMaxSingleDoseMgPerKg: input.paediatricMaxSingleDoseMgPerKg ?? null,
-        paediatricMaxSingleDoseMg: input.paediatricMaxSingleDoseMg ?? null, phosphateCheckOnRepeat: input.phosphateCheckOnRepeat ?? false,
-        active: input.active ?? true,
-      }, { transaction: t })
+      const row = await IronProductRow.create(
+        {
+          code: input.code,
+          name: input.name,
+          route: input.route as 'iv' | 'oral',
+          maxSingleDoseMg: input.maxSingleDoseMg,
+          maxSingleDoseMgPerKg: input.maxSingleDoseMgPerKg ?? null,
+          minIntervalDays: input.minIntervalDays,
+          maxWeeklyMg: input.maxWeeklyMg ?? null,
+          maxTotalMg: input.maxTotalMg ?? null,
+          roundToMg: input.roundToMg ?? null,
+          oralDailyMg: input.oralDailyMg ?? null,
+          oralAlternateDays: input.oralAlternateDays ?? null,
+          source: input.source,
+          licensedFromAgeYears: input.licensedFromAgeYears ?? null,
+          paediatricMaxSingleDoseMgPerKg: input.paediatricMaxSingleDoseMgPerKg ?? null,
+          paediatricMaxSingleDoseMg: input.paediatricMaxSingleDoseMg ?? null,
+          phosphateCheckOnRepeat: input.phosphateCheckOnRepeat ?? false,
+          active: input.active ?? true,
+        },
+        { transaction: t },
+      )
       const entry = toEntry(row)
       await recordAudit(t, actor, { action: 'create', entity: 'iron-product', entityId: row.code, after: entry })
       return entry
     })
   } catch (err) {
-    if (err instanceof UniqueConstraintError) throw new Conflict(`A product with code ${input.code} already exists`, 'duplicate_code', { code: 'is already used' })
+    if (err instanceof UniqueConstraintError)
+      throw new Conflict(`A product with code ${input.code} already exists`, 'duplicate_code', { code: 'is already used' })
     throw err
   }
 }
 
-export async function updateProduct(sequelize: Sequelize, actor: Actor, code: string, input: UpdateIronProductInput): Promise<FormularyEntry> {
+export async function updateProduct(
+  sequelize: Sequelize,
+  actor: Actor,
+  code: string,
+  input: UpdateIronProductInput,
+): Promise<FormularyEntry> {
   return sequelize.transaction(async (t) => {
     const row = await IronProductRow.findOne({ where: { code }, transaction: t, lock: t.LOCK.UPDATE })
     if (!row) throw new NotFound(`Formulary product "${code}"`)

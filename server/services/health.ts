@@ -16,11 +16,14 @@ function withTimeout<T>(work: Promise<T>): Promise<T> {
 
 async function clusterState(sequelize: Sequelize): Promise<'synced' | 'not-synced' | 'standalone'> {
   // SHOW answers even on a node that refuses ordinary queries (error 1047) while not synced.
-  const vars = await sequelize.query<{ Variable_name: string; Value: string }>(
-    "SHOW GLOBAL VARIABLES LIKE 'wsrep_on'", { type: QueryTypes.SELECT })
+  const vars = await sequelize.query<{ Variable_name: string; Value: string }>("SHOW GLOBAL VARIABLES LIKE 'wsrep_on'", {
+    type: QueryTypes.SELECT,
+  })
   if (vars[0]?.Value !== 'ON') return 'standalone'
   const status = await sequelize.query<{ Variable_name: string; Value: string }>(
-    "SHOW GLOBAL STATUS WHERE Variable_name IN ('wsrep_ready', 'wsrep_local_state')", { type: QueryTypes.SELECT })
+    "SHOW GLOBAL STATUS WHERE Variable_name IN ('wsrep_ready', 'wsrep_local_state')",
+    { type: QueryTypes.SELECT },
+  )
   const get = (name: string) => status.find((r) => r.Variable_name.toLowerCase() === name)?.Value
   return get('wsrep_ready') === 'ON' && get('wsrep_local_state') === WSREP_SYNCED ? 'synced' : 'not-synced'
 }

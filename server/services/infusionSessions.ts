@@ -20,15 +20,29 @@ function view(s: Row, tz: string, booked: { startsAt: Date; endsAt: Date }[]): I
   const span = (x: { startsAt: Date; endsAt: Date }) => ({ startMs: new Date(x.startsAt).getTime(), endMs: new Date(x.endsAt).getTime() })
   const peak = peakOverlap(booked.map(span), span(s))
   return {
-    id: s.id, date: localDate(s.startsAt, tz), startTime: localTime(s.startsAt, tz), endTime: localTime(s.endsAt, tz), timeZone: tz,
-    startsAt: s.startsAt.toISOString(), endsAt: s.endsAt.toISOString(), chairs: s.chairs, location: s.location,
-    bookings: booked.length, peakChairsInUse: peak, full: peak >= s.chairs, version: s.version,
+    id: s.id,
+    date: localDate(s.startsAt, tz),
+    startTime: localTime(s.startsAt, tz),
+    endTime: localTime(s.endsAt, tz),
+    timeZone: tz,
+    startsAt: s.startsAt.toISOString(),
+    endsAt: s.endsAt.toISOString(),
+    chairs: s.chairs,
+    location: s.location,
+    bookings: booked.length,
+    peakChairsInUse: peak,
+    full: peak >= s.chairs,
+    version: s.version,
   }
 }
 
 async function bookingsOf(ids: number[]) {
   if (!ids.length) return []
-  return Appointment.findAll({ where: { infusionSessionId: ids, status: { [Op.ne]: 'cancelled' } }, attributes: ['infusionSessionId', 'startsAt', 'endsAt'], raw: true })
+  return Appointment.findAll({
+    where: { infusionSessionId: ids, status: { [Op.ne]: 'cancelled' } },
+    attributes: ['infusionSessionId', 'startsAt', 'endsAt'],
+    raw: true,
+  })
 }
 
 export async function listInfusionSessions(config: Config, q: SessionRangeQuery): Promise<Rows<InfusionSessionView>> {
@@ -39,9 +53,21 @@ export async function listInfusionSessions(config: Config, q: SessionRangeQuery)
   if (tooLong) throw new Invalid(tooLong, { to: `must be within ${LIMITS.infusionSessionDays} days of from` })
   const from = zonedToUtc(fromDay, '00:00', tz)
   const to = zonedToUtc(addDays(toDay, 1), '00:00', tz)
-  const rows = await InfusionSession.findAll({ where: { startsAt: { [Op.gte]: from, [Op.lt]: to } }, order: [['startsAt', 'ASC']], raw: true })
+  const rows = await InfusionSession.findAll({
+    where: { startsAt: { [Op.gte]: from, [Op.lt]: to } },
+    order: [['startsAt', 'ASC']],
+    raw: true,
+  })
   const booked = await bookingsOf(rows.map((r) => r.id))
-  return { rows: rows.map((r) => view(r, tz, booked.filter((b) => b.infusionSessionId === r.id))) }
+  return {
+    rows: rows.map((r) =>
+      view(
+        r,
+        tz,
+        booked.filter((b) => b.infusionSessionId === r.id),
+      ),
+    ),
+  }
 }
 
 function instants(date: string, startTime: string, endTime: string, tz: string) {
@@ -60,8 +86,16 @@ export async function createInfusionSession(
   const tz = config.clinic.timeZone
   const times = instants(input.date, input.startTime, input.endTime, tz)
   const row = await sequelize.transaction(async (t) => {
-    const s = await InfusionSession.create({ ...times, chairs: input.chairs, location: input.location, createdBy: viewer.userId }, { transaction: t })
-    await recordAudit(t, viewer, { action: 'create', entity: 'infusion-session', entityId: s.id, after: { ...times, chairs: s.chairs, location: s.location } })
+    const s = await InfusionSession.create(
+      { ...times, chairs: input.chairs, location: input.location, createdBy: viewer.userId },
+      { transaction: t },
+    )
+    await recordAudit(t, viewer, {
+      action: 'create',
+      entity: 'infusion-session',
+      entityId: s.id,
+      after: { ...times, chairs: s.chairs, location: s.location },
+    })
     return s.get({ plain: true })
   })
   return view(row, tz, [])
@@ -84,14 +118,31 @@ export async function updateInfusionSession(
     if (!s) throw new NotFound('Infusion session')
     if (s.version !== input.version) throw staleVersion('This infusion session')
     const before = { startsAt: s.startsAt.toISOString(), endsAt: s.endsAt.toISOString(), chairs: s.chairs, location: s.location }
-    const times = instants(input.date ?? localDate(s.startsAt, tz), input.startTime ?? localTime(s.startsAt, tz), input.endTime ?? localTime(s.endsAt, tz), tz)
+    const times = instants(
+      input.date ?? localDate(s.startsAt, tz),
+      input.startTime ?? localTime(s.startsAt, tz),
+      input.endTime ?? localTime(s.endsAt, tz),
+      tz,
+    )
     const chairs = input.chairs ?? s.chairs
-    const booked = await Appointment.findAll({ where: { infusionSessionId: id, status: { [Op.ne]: 'cancelled' } }, transaction: t, raw: true })
+    const booked = await Appointment.findAll({
+      where: { infusionSessionId: id, status: { [Op.ne]: 'cancelled' } },
+      transaction: t,
+      raw: true,
+    })
     if (booked.some((b) => b.startsAt < times.startsAt || b.endsAt > times.endsAt)) {
-      throw new Conflict('Patients are booked outside the new hours; move them first', 'session_has_bookings', { startTime: 'would leave booked patients outside the session' })
+      throw new Conflict('Patients are booked outside the new hours; move them first', 'session_has_bookings', {
+        startTime: 'would leave booked patients outside the session',
+      })
     }
-    const peak = peakOverlap(booked.map((b) => ({ startMs: b.startsAt.getTime(), endMs: b.endsAt.getTime() })), { startMs: times.startsAt.getTime(), endMs: times.endsAt.getTime() })
-    if (chairs < peak) throw new Conflict(`${peak} patients are booked at the same time; chairs cannot go below that`, 'chairs_in_use', { chairs: `must be at least ${peak}` })
+    const peak = peakOverlap(
+      booked.map((b) => ({ startMs: b.startsAt.getTime(), endMs: b.endsAt.getTime() })),
+      { startMs: times.startsAt.getTime(), endMs: times.endsAt.getTime() },
+    )
+    if (chairs < peak)
+      throw new Conflict(`${peak} patients are booked at the same time; chairs cannot go below that`, 'chairs_in_use', {
+        chairs: `must be at least ${peak}`,
+      })
     await s.update({ ...times, chairs, location: input.location ?? s.location, version: s.version + 1 }, { transaction: t })
     const after = { startsAt: s.startsAt.toISOString(), endsAt: s.endsAt.toISOString(), chairs: s.chairs, location: s.location }
     await recordAudit(t, viewer, { action: 'update', entity: 'infusion-session', entityId: id, ...changedFields(before, after) })

@@ -4,8 +4,14 @@ import { screenableSql } from '../models/result'
 import { worklistChanged } from './worklistCounts'
 import { clinicTimeZone } from './clinicDay'
 
-interface DoseRow extends DoseGiven { referralId: number }
-interface HbRow { referralId: number; takenAt: Date | string; hbGL: number }
+interface DoseRow extends DoseGiven {
+  referralId: number
+}
+interface HbRow {
+  referralId: number
+  takenAt: Date | string
+  hbGL: number
+}
 
 /**
  * Keeps the two response flags on the referral row (no response to IV iron; Hb falling after
@@ -14,7 +20,12 @@ interface HbRow { referralId: number; takenAt: Date | string; hbGL: number }
  * same rule the verdict uses), so they change only when a result or a dose is written: every such
  * write calls this in its own transaction.
  */
-export async function refreshIronResponse(sequelize: Sequelize, referralIds: readonly number[], t: Transaction, chunk = 500): Promise<void> {
+export async function refreshIronResponse(
+  sequelize: Sequelize,
+  referralIds: readonly number[],
+  t: Transaction,
+  chunk = 500,
+): Promise<void> {
   for (let i = 0; i < referralIds.length; i += chunk) {
     const ids = referralIds.slice(i, i + chunk)
     const doses = await sequelize.query<DoseRow>(
@@ -26,10 +37,10 @@ export async function refreshIronResponse(sequelize: Sequelize, referralIds: rea
     const treated = [...new Set(doses.map((d) => d.referralId))]
     const hb = treated.length
       ? await sequelize.query<HbRow>(
-        `SELECT referral_id AS referralId, taken_at AS takenAt, value_canonical AS hbGL FROM results
+          `SELECT referral_id AS referralId, taken_at AS takenAt, value_canonical AS hbGL FROM results
          WHERE referral_id IN (:treated) AND analyte = 'hb' AND ${screenableSql()} ORDER BY referral_id, taken_at, id`,
-        { type: QueryTypes.SELECT, replacements: { treated }, transaction: t },
-      )
+          { type: QueryTypes.SELECT, replacements: { treated }, transaction: t },
+        )
       : []
     const groups = { none: [] as number[], noResponse: [] as number[], falling: [] as number[], both: [] as number[] }
     for (const id of ids) {
@@ -38,17 +49,20 @@ export async function refreshIronResponse(sequelize: Sequelize, referralIds: rea
         doses.filter((d) => d.referralId === id),
         clinicTimeZone(),
       )
-      groups[f.noResponseToIron && f.hbFallingAfterIron ? 'both' : f.noResponseToIron ? 'noResponse' : f.hbFallingAfterIron ? 'falling' : 'none'].push(id)
+      groups[
+        f.noResponseToIron && f.hbFallingAfterIron ? 'both' : f.noResponseToIron ? 'noResponse' : f.hbFallingAfterIron ? 'falling' : 'none'
+      ].push(id)
     }
     const set: Record<keyof typeof groups, [number, number]> = { none: [0, 0], noResponse: [1, 0], falling: [0, 1], both: [1, 1] }
     for (const [key, list] of Object.entries(groups) as [keyof typeof groups, number[]][]) {
       if (!list.length) continue
       // Derived data, not an edit: the version (the optimistic lock on decisions) stays.
       worklistChanged('referral', t)
-      await sequelize.query(
-        'UPDATE referrals SET no_response_to_iron = :nr, hb_falling_after_iron = :fa WHERE id IN (:list)',
-        { type: QueryTypes.UPDATE, replacements: { nr: set[key][0], fa: set[key][1], list }, transaction: t },
-      )
+      await sequelize.query('UPDATE referrals SET no_response_to_iron = :nr, hb_falling_after_iron = :fa WHERE id IN (:list)', {
+        type: QueryTypes.UPDATE,
+        replacements: { nr: set[key][0], fa: set[key][1], list },
+        transaction: t,
+      })
     }
   }
 }

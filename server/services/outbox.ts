@@ -50,18 +50,31 @@ export async function listOutbox(q: OutboxQuery): Promise<Rows<OutboxRow>> {
   const rows = await OutboxMessage.findAll({
     where,
     include: [{ model: Patient, as: 'patient', attributes: ['id', 'givenName', 'familyName', 'mrn'] }],
-    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
     limit: 200,
   })
   return {
     rows: rows.map((r) => {
-      const m = r.get({ plain: true }) as unknown as InferAttributes<OutboxMessage> & { patient?: { id: number; givenName: string; familyName: string; mrn: string } }
+      const m = r.get({ plain: true }) as unknown as InferAttributes<OutboxMessage> & {
+        patient?: { id: number; givenName: string; familyName: string; mrn: string }
+      }
       return {
-        id: m.id, kind: m.kind, status: m.status, appointmentId: m.appointmentId, referralId: m.referralId,
+        id: m.id,
+        kind: m.kind,
+        status: m.status,
+        appointmentId: m.appointmentId,
+        referralId: m.referralId,
         patient: m.patient ? { id: m.patient.id, name: `${m.patient.givenName} ${m.patient.familyName}`, mrn: m.patient.mrn } : null,
-        toAddress: m.toAddress, subject: m.subject, attempts: m.attempts, lastError: m.lastError ?? null,
+        toAddress: m.toAddress,
+        subject: m.subject,
+        attempts: m.attempts,
+        lastError: m.lastError ?? null,
         nextAttemptAt: m.status === 'queued' ? isoOrNull(m.nextAttemptAt) : null,
-        sentAt: isoOrNull(m.sentAt), createdAt: isoOrNull(m.createdAt)!,
+        sentAt: isoOrNull(m.sentAt),
+        createdAt: isoOrNull(m.createdAt)!,
       }
     }),
   }

@@ -14,7 +14,14 @@ import { queueDueReminders } from './appointmentReminders'
 import { unitOfWork } from '../unitOfWork'
 
 type Row = InferAttributes<OutboxMessage>
-export interface RunResult { claimed: number; sent: number; retried: number; failed: number; bounced: number; reminders: number }
+export interface RunResult {
+  claimed: number
+  sent: number
+  retried: number
+  failed: number
+  bounced: number
+  reminders: number
+}
 
 export interface WorkerOptions {
   sequelize: Sequelize
@@ -71,7 +78,9 @@ export class OutboxWorker {
     this.transport = opts.transport ?? createMailTransport(opts.config.smtp)
   }
 
-  private get config(): Config { return this.opts.config }
+  private get config(): Config {
+    return this.opts.config
+  }
 
   /** Claims due messages for this worker; an older message to the same appointment goes first. */
   async claim(now: Date): Promise<Row[]> {
@@ -110,7 +119,8 @@ export class OutboxWorker {
   private async finish(id: number, changes: Partial<Row>): Promise<void> {
     const where = { id, claimedBy: this.workerId, status: 'sending' as const }
     await unitOfWork(this.opts.sequelize, { idempotent: true, reconnectForMs: OUTCOME_RETRY_MS }, (transaction) =>
-      OutboxMessage.update({ ...changes, claimedBy: null, claimedUntil: null }, { where, transaction }))
+      OutboxMessage.update({ ...changes, claimedBy: null, claimedUntil: null }, { where, transaction }),
+    )
   }
 
   /** Hands claims back untouched (due at once) when too little of the lease is left to send them safely. */
@@ -143,7 +153,13 @@ export class OutboxWorker {
         // One Message-ID per outbox row: if a crash ever makes us send again, mail systems can tell.
         messageId: `<outbox-${m.id}@ferrolane>`,
         headers: { 'X-Ferrolane-Outbox-Id': String(m.id) },
-        attachments: [{ filename: mail.ics.filename, content: mail.ics.content, contentType: `text/calendar; charset=utf-8; method=${mail.ics.method}` }],
+        attachments: [
+          {
+            filename: mail.ics.filename,
+            content: mail.ics.content,
+            contentType: `text/calendar; charset=utf-8; method=${mail.ics.method}`,
+          },
+        ],
       })
     } catch (err) {
       if (tokenId) await AppointmentReplyToken.destroy({ where: { id: tokenId } }).catch(() => {})
@@ -179,7 +195,10 @@ export class OutboxWorker {
     for (const [i, m] of batch.entries()) {
       // A send started later than this could still be recording its outcome when the lease ends.
       if (Date.now() + SMTP_SEND_BUDGET_MS + OUTCOME_RETRY_MS > this.leaseEndsAt) {
-        await this.release(batch.slice(i).map((r) => r.id), now)
+        await this.release(
+          batch.slice(i).map((r) => r.id),
+          now,
+        )
         result.claimed = i
         break
       }

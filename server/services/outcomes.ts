@@ -12,18 +12,36 @@ import { NotFound, RuleRefused } from '../errors'
 
 function toOutcomeView(o: Outcome): OutcomeView {
   return {
-    id: o.id, referralId: o.referralId, surgeryDate: o.surgeryDate, bloodLossMl: o.bloodLossMl,
-    unitsTransfusedIntraOp: o.unitsTransfusedIntraOp, unitsTransfusedPostOp: o.unitsTransfusedPostOp, unitsCrossmatched: o.unitsCrossmatched,
-    lowestHbGL: o.lowestHbGL, dischargeHbGL: o.dischargeHbGL, lengthOfStayDays: o.lengthOfStayDays, complications: o.complications,
-    tranexamicAcidGiven: o.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: o.tranexamicAcidDoseMg ?? null,
+    id: o.id,
+    referralId: o.referralId,
+    surgeryDate: o.surgeryDate,
+    bloodLossMl: o.bloodLossMl,
+    unitsTransfusedIntraOp: o.unitsTransfusedIntraOp,
+    unitsTransfusedPostOp: o.unitsTransfusedPostOp,
+    unitsCrossmatched: o.unitsCrossmatched,
+    lowestHbGL: o.lowestHbGL,
+    dischargeHbGL: o.dischargeHbGL,
+    lengthOfStayDays: o.lengthOfStayDays,
+    complications: o.complications,
+    tranexamicAcidGiven: o.tranexamicAcidGiven ?? null,
+    tranexamicAcidDoseMg: o.tranexamicAcidDoseMg ?? null,
     // Stored only after the outcome schema accepted it as one of TXA_TIMINGS.
     tranexamicAcidTiming: (o.tranexamicAcidTiming as TxaTiming | null) ?? null,
-    cellSalvageUsed: o.cellSalvageUsed ?? null, cellSalvageReturnedMl: o.cellSalvageReturnedMl ?? null,
-    transfusionInformationGiven: o.transfusionInformationGiven ?? null, transfusionConsent: o.transfusionConsent ?? null, postOperativeIronGiven: o.postOperativeIronGiven ?? null,
-    followUp: o.followUpAt == null ? null : {
-      recheckHbGL: o.followUpRecheckHbGL, recheckDate: o.followUpRecheckDate, ironAfterSurgery: o.followUpIronAfterSurgery,
-      notes: o.followUpNotes, recordedAt: isoOrNull(o.followUpAt),
-    },
+    cellSalvageUsed: o.cellSalvageUsed ?? null,
+    cellSalvageReturnedMl: o.cellSalvageReturnedMl ?? null,
+    transfusionInformationGiven: o.transfusionInformationGiven ?? null,
+    transfusionConsent: o.transfusionConsent ?? null,
+    postOperativeIronGiven: o.postOperativeIronGiven ?? null,
+    followUp:
+      o.followUpAt == null
+        ? null
+        : {
+            recheckHbGL: o.followUpRecheckHbGL,
+            recheckDate: o.followUpRecheckDate,
+            ironAfterSurgery: o.followUpIronAfterSurgery,
+            notes: o.followUpNotes,
+            recordedAt: isoOrNull(o.followUpAt),
+          },
   }
 }
 
@@ -35,7 +53,8 @@ export async function lockForWrite(t: Transaction, viewer: Viewer, referralId: n
   const r = await loadReferral(viewer, referralId, t, true)
   if (r.version !== version) throw staleVersion('This referral')
   if (isReadOnly(r.stage)) throw new RuleRefused('This episode is closed and read-only', 'closed_read_only')
-  if (r.stage !== 'operated') throw new RuleRefused('The post-operative record is kept once the episode is at "Surgery done"', 'not_operated')
+  if (r.stage !== 'operated')
+    throw new RuleRefused('The post-operative record is kept once the episode is at "Surgery done"', 'not_operated')
   return r
 }
 
@@ -50,18 +69,29 @@ export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referr
   return sequelize.transaction(async (t) => {
     const r = await lockForWrite(t, viewer, referralId, input.version)
     if (input.surgeryDate < r.createdAt.toISOString().slice(0, 10)) {
-      throw new RuleRefused('The surgery date is before the referral', 'surgery_before_referral', { surgeryDate: 'is before the referral date' })
+      throw new RuleRefused('The surgery date is before the referral', 'surgery_before_referral', {
+        surgeryDate: 'is before the referral date',
+      })
     }
     // Red-cell unit counts are the transfusion record's, never typed here.
     const counts = await redCellUnitsByPhase(referralId, t)
     const values = {
-      surgeryDate: input.surgeryDate, bloodLossMl: input.bloodLossMl, unitsTransfusedIntraOp: counts.duringSurgery,
-      unitsTransfusedPostOp: counts.afterSurgery, unitsCrossmatched: input.unitsCrossmatched, lowestHbGL: input.lowestHbGL,
-      dischargeHbGL: input.dischargeHbGL ?? null, lengthOfStayDays: input.lengthOfStayDays, complications: [...input.complications],
-      tranexamicAcidGiven: input.tranexamicAcidGiven ?? null, tranexamicAcidDoseMg: input.tranexamicAcidGiven ? input.tranexamicAcidDoseMg ?? null : null,
-      tranexamicAcidTiming: input.tranexamicAcidGiven ? input.tranexamicAcidTiming ?? null : null,
-      cellSalvageUsed: input.cellSalvageUsed ?? null, cellSalvageReturnedMl: input.cellSalvageUsed ? input.cellSalvageReturnedMl ?? null : null,
-      transfusionInformationGiven: input.transfusionInformationGiven ?? null, transfusionConsent: input.transfusionConsent ?? null,
+      surgeryDate: input.surgeryDate,
+      bloodLossMl: input.bloodLossMl,
+      unitsTransfusedIntraOp: counts.duringSurgery,
+      unitsTransfusedPostOp: counts.afterSurgery,
+      unitsCrossmatched: input.unitsCrossmatched,
+      lowestHbGL: input.lowestHbGL,
+      dischargeHbGL: input.dischargeHbGL ?? null,
+      lengthOfStayDays: input.lengthOfStayDays,
+      complications: [...input.complications],
+      tranexamicAcidGiven: input.tranexamicAcidGiven ?? null,
+      tranexamicAcidDoseMg: input.tranexamicAcidGiven ? (input.tranexamicAcidDoseMg ?? null) : null,
+      tranexamicAcidTiming: input.tranexamicAcidGiven ? (input.tranexamicAcidTiming ?? null) : null,
+      cellSalvageUsed: input.cellSalvageUsed ?? null,
+      cellSalvageReturnedMl: input.cellSalvageUsed ? (input.cellSalvageReturnedMl ?? null) : null,
+      transfusionInformationGiven: input.transfusionInformationGiven ?? null,
+      transfusionConsent: input.transfusionConsent ?? null,
       postOperativeIronGiven: input.postOperativeIronGiven ?? null,
     }
     const existing = await Outcome.findOne({ where: { referralId }, transaction: t })
@@ -76,7 +106,14 @@ export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referr
     const version = await bumpVersion(t, r)
     const view = toOutcomeView(row)
     const diff = before ? changedFields(before, view) : { before: null, after: view }
-    await recordAudit(t, viewer, { action: before ? 'update' : 'create', entity: 'outcome', entityId: row.id, patientId: r.patientId, before: diff.before, after: diff.after })
+    await recordAudit(t, viewer, {
+      action: before ? 'update' : 'create',
+      entity: 'outcome',
+      entityId: row.id,
+      patientId: r.patientId,
+      before: diff.before,
+      after: diff.after,
+    })
     return { outcome: view, warnings: outcomeWarnings(values, r.procedure.expectedBloodLossMl), version }
   })
 }
@@ -93,16 +130,32 @@ export async function recordFollowUp(
     const o = await Outcome.findOne({ where: { referralId }, transaction: t })
     if (!o) throw new RuleRefused('Record the post-operative outcome before the follow-up', 'outcome_required')
     if (input.recheckDate < o.surgeryDate) {
-      throw new RuleRefused('The re-check is before the surgery date', 'recheck_before_surgery', { recheckDate: 'is before the surgery date' })
+      throw new RuleRefused('The re-check is before the surgery date', 'recheck_before_surgery', {
+        recheckDate: 'is before the surgery date',
+      })
     }
     const before = toOutcomeView(o).followUp
-    await o.update({
-      followUpRecheckHbGL: input.recheckHbGL, followUpRecheckDate: input.recheckDate, followUpIronAfterSurgery: input.ironAfterSurgery,
-      followUpNotes: input.notes ?? null, followUpBy: viewer.userId, followUpAt: new Date(),
-    }, { transaction: t })
+    await o.update(
+      {
+        followUpRecheckHbGL: input.recheckHbGL,
+        followUpRecheckDate: input.recheckDate,
+        followUpIronAfterSurgery: input.ironAfterSurgery,
+        followUpNotes: input.notes ?? null,
+        followUpBy: viewer.userId,
+        followUpAt: new Date(),
+      },
+      { transaction: t },
+    )
     const version = await bumpVersion(t, r)
     const view = toOutcomeView(o)
-    await recordAudit(t, viewer, { action: before ? 'update' : 'create', entity: 'follow-up', entityId: o.id, patientId: r.patientId, before, after: view.followUp })
+    await recordAudit(t, viewer, {
+      action: before ? 'update' : 'create',
+      entity: 'follow-up',
+      entityId: o.id,
+      patientId: r.patientId,
+      before,
+      after: view.followUp,
+    })
     return { outcome: view, version }
   })
 }

@@ -17,11 +17,19 @@ export async function currentBody(patientId: number, t?: Transaction) {
   const latest = (column: 'heightCm' | 'weightKg') =>
     PatientMeasurement.findOne({
       where: { patientId, [column]: { [Op.ne]: null } },
-      order: [['measuredAt', 'DESC'], ['id', 'DESC']],
+      order: [
+        ['measuredAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
       transaction: t,
     })
   const [h, w] = await Promise.all([latest('heightCm'), latest('weightKg')])
-  return { heightCm: h?.heightCm ?? null, heightMeasuredAt: isoOrNull(h?.measuredAt), weightKg: w?.weightKg ?? null, weightMeasuredAt: isoOrNull(w?.measuredAt) }
+  return {
+    heightCm: h?.heightCm ?? null,
+    heightMeasuredAt: isoOrNull(h?.measuredAt),
+    weightKg: w?.weightKg ?? null,
+    weightMeasuredAt: isoOrNull(w?.measuredAt),
+  }
 }
 
 export async function toPatientView(p: Patient, t?: Transaction): Promise<PatientView> {
@@ -54,10 +62,21 @@ function assertMeasuredAfterBirth(measuredAt: Date | null | undefined, dateOfBir
   }
 }
 
-async function appendMeasurement(t: Transaction, actor: Actor, patientId: number, m: { heightCm?: number | null; weightKg?: number | null; measuredAt?: Date | null }) {
+async function appendMeasurement(
+  t: Transaction,
+  actor: Actor,
+  patientId: number,
+  m: { heightCm?: number | null; weightKg?: number | null; measuredAt?: Date | null },
+) {
   if (m.heightCm == null && m.weightKg == null) return
   await PatientMeasurement.create(
-    { patientId, heightCm: m.heightCm ?? null, weightKg: m.weightKg ?? null, measuredAt: m.measuredAt ?? new Date(), recordedBy: actor.userId },
+    {
+      patientId,
+      heightCm: m.heightCm ?? null,
+      weightKg: m.weightKg ?? null,
+      measuredAt: m.measuredAt ?? new Date(),
+      recordedBy: actor.userId,
+    },
     { transaction: t },
   )
 }
@@ -97,7 +116,7 @@ export async function createPatient(sequelize: Sequelize, actor: Actor, input: C
 async function assertMaySeePatient(viewer: Viewer, patientId: number): Promise<void> {
   if (!seesOwnPatientsOnly(viewer.role)) return
   const theirs = await Referral.count({ where: { patientId, surgeonId: viewer.userId } })
-  if (!theirs) throw new Forbidden("This patient is not on your list", 'not_your_patient')
+  if (!theirs) throw new Forbidden('This patient is not on your list', 'not_your_patient')
 }
 
 /** The patient's record with measurement history and episodes; the read itself is audited. */
@@ -107,18 +126,41 @@ export async function getPatient(viewer: Viewer, id: number): Promise<PatientRec
   await assertMaySeePatient(viewer, id)
   const [view, measurements, referrals] = await Promise.all([
     toPatientView(p),
-    PatientMeasurement.findAll({ where: { patientId: id }, order: [['measuredAt', 'DESC'], ['id', 'DESC']], raw: true }),
-    Referral.findAll({ where: { patientId: id }, include: [{ model: Procedure, as: 'procedure' }], order: [['plannedSurgeryDate', 'DESC']] }),
+    PatientMeasurement.findAll({
+      where: { patientId: id },
+      order: [
+        ['measuredAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
+      raw: true,
+    }),
+    Referral.findAll({
+      where: { patientId: id },
+      include: [{ model: Procedure, as: 'procedure' }],
+      order: [['plannedSurgeryDate', 'DESC']],
+    }),
   ])
   await recordAudit(null, viewer, { action: 'view', entity: 'patient', entityId: id, patientId: id, opensRecord: true })
   return {
     ...view,
-    measurements: measurements.map((m) => ({ id: m.id, heightCm: m.heightCm, weightKg: m.weightKg, measuredAt: isoOrNull(m.measuredAt), recordedBy: m.recordedBy })),
+    measurements: measurements.map((m) => ({
+      id: m.id,
+      heightCm: m.heightCm,
+      weightKg: m.weightKg,
+      measuredAt: isoOrNull(m.measuredAt),
+      recordedBy: m.recordedBy,
+    })),
     referrals: referrals
       .filter((r) => maySeeEpisode(viewer, r))
       .map((r) => {
         const proc = (r as Referral & { procedure?: Procedure }).procedure
-        return { id: r.id, stage: r.stage, stageLabel: STAGE_LABELS[r.stage], plannedSurgeryDate: r.plannedSurgeryDate, procedureName: proc?.name ?? null }
+        return {
+          id: r.id,
+          stage: r.stage,
+          stageLabel: STAGE_LABELS[r.stage],
+          plannedSurgeryDate: r.plannedSurgeryDate,
+          procedureName: proc?.name ?? null,
+        }
       }),
   }
 }
@@ -131,13 +173,18 @@ export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: nu
       if (p.version !== input.version) throw staleVersion('This patient')
       assertMeasuredAfterBirth(input.measuredAt, input.dateOfBirth ?? p.dateOfBirth)
       const before = await toPatientView(p, t)
-      const changes: Partial<Pick<Patient, 'mrn' | 'givenName' | 'familyName' | 'dateOfBirth' | 'sex' | 'email' | 'phone' | 'gpPractice' | 'notes'>> = {}
+      const changes: Partial<
+        Pick<Patient, 'mrn' | 'givenName' | 'familyName' | 'dateOfBirth' | 'sex' | 'email' | 'phone' | 'gpPractice' | 'notes'>
+      > = {}
       for (const k of ['mrn', 'givenName', 'familyName', 'dateOfBirth', 'email', 'phone', 'gpPractice', 'notes'] as const) {
         if (input[k] !== undefined) changes[k] = input[k] as never
       }
       if (input.sex !== undefined) changes.sex = input.sex as Sex
       worklistChanged('patient', t)
-      const [count] = await Patient.update({ ...changes, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
+      const [count] = await Patient.update(
+        { ...changes, version: input.version + 1 },
+        { where: { id, version: input.version }, transaction: t },
+      )
       if (count !== 1) throw staleVersion('This patient')
       // Only a changed figure is a new measurement; re-sending the same weight is not.
       const height = input.heightCm !== undefined && input.heightCm !== before.heightCm ? input.heightCm : null
@@ -157,15 +204,25 @@ export async function updatePatient(sequelize: Sequelize, viewer: Viewer, id: nu
 /** Find-as-you-type for the referral form: by MRN or name prefix; surgeons see their own only. */
 export async function searchPatients(viewer: Viewer, q: string): Promise<PatientSummary[]> {
   const like = `${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
-  const own =
-    seesOwnPatientsOnly(viewer.role)
-      ? { id: (await Referral.findAll({ where: { surgeonId: viewer.userId }, attributes: ['patientId'], raw: true })).map((r) => r.patientId) }
-      : {}
+  const own = seesOwnPatientsOnly(viewer.role)
+    ? {
+        id: (await Referral.findAll({ where: { surgeonId: viewer.userId }, attributes: ['patientId'], raw: true })).map((r) => r.patientId),
+      }
+    : {}
   const rows = await Patient.findAll({
     where: { ...own, [Op.or]: [{ mrn: { [Op.like]: like } }, { familyName: { [Op.like]: like } }, { givenName: { [Op.like]: like } }] },
-    order: [['familyName', 'ASC'], ['givenName', 'ASC']],
+    order: [
+      ['familyName', 'ASC'],
+      ['givenName', 'ASC'],
+    ],
     limit: 20,
   })
-  return rows.map((p) => ({ id: p.id, mrn: p.mrn, givenName: p.givenName, familyName: p.familyName, dateOfBirth: p.dateOfBirth, sex: p.sex }))
+  return rows.map((p) => ({
+    id: p.id,
+    mrn: p.mrn,
+    givenName: p.givenName,
+    familyName: p.familyName,
+    dateOfBirth: p.dateOfBirth,
+    sex: p.sex,
+  }))
 }
-

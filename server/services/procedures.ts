@@ -22,7 +22,13 @@ export function toProcedureView(p: Procedure | ProcedureView): ProcedureView {
 
 /** The catalogue; retired operations stay on old referrals but are hidden from new ones. */
 export async function listProcedures(includeInactive: boolean): Promise<ProcedureView[]> {
-  const rows = await Procedure.findAll({ where: includeInactive ? {} : { active: true }, order: [['specialty', 'ASC'], ['name', 'ASC']] })
+  const rows = await Procedure.findAll({
+    where: includeInactive ? {} : { active: true },
+    order: [
+      ['specialty', 'ASC'],
+      ['name', 'ASC'],
+    ],
+  })
   return rows.map(toProcedureView)
 }
 
@@ -53,18 +59,34 @@ export async function createProcedure(sequelize: Sequelize, actor: Actor, input:
     })
   } catch (err) {
     if (err instanceof UniqueConstraintError) {
-      throw new Conflict(`An operation with the code ${input.code} already exists`, 'duplicate_code', { code: 'is already in the catalogue' })
+      throw new Conflict(`An operation with the code ${input.code} already exists`, 'duplicate_code', {
+        code: 'is already in the catalogue',
+      })
     }
     throw err
   }
 }
 
-export async function updateProcedure(sequelize: Sequelize, actor: Actor, code: string, input: UpdateProcedureInput): Promise<ProcedureView> {
+export async function updateProcedure(
+  sequelize: Sequelize,
+  actor: Actor,
+  code: string,
+  input: UpdateProcedureInput,
+): Promise<ProcedureView> {
   return sequelize.transaction(async (t) => {
     const p = await Procedure.findOne({ where: { code }, transaction: t, lock: t.LOCK.UPDATE })
     if (!p) throw new NotFound(`The operation ${code}`)
     const before = toProcedureView(p)
-    const keys = ['name', 'specialty', 'expectedBloodLossMl', 'transfusionRate', 'usualBloodOrder', 'usualUnits', 'source', 'active'] as const
+    const keys = [
+      'name',
+      'specialty',
+      'expectedBloodLossMl',
+      'transfusionRate',
+      'usualBloodOrder',
+      'usualUnits',
+      'source',
+      'active',
+    ] as const
     for (const k of keys) if (input[k] !== undefined) p.set(k, input[k] as never)
     worklistChanged('procedure', t)
     await p.save({ transaction: t })

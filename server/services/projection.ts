@@ -11,7 +11,9 @@ import type { Viewer } from './viewer'
 import { RuleRefused } from '../errors'
 import { clinicTimeZone, clinicToday } from './clinicDay'
 
-export interface ProjectionOptions { cardiacOutputLMin?: number }
+export interface ProjectionOptions {
+  cardiacOutputLMin?: number
+}
 
 /**
  * The surgery-day projection for one episode, from today's data. What it cannot know it does not
@@ -23,7 +25,8 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
   if (facts.body.weightKg == null) missing.weightKg = "the patient's weight is not recorded"
   if (facts.body.heightCm == null) missing.height = new BloodVolumeRefusal().message
   if (!facts.hb.length) missing.hb = 'no Hb result is recorded'
-  if (r.procedure.expectedBloodLossMl == null) missing.expectedBloodLossMl = `the operation "${r.procedure.name}" has no usual blood loss in the catalogue`
+  if (r.procedure.expectedBloodLossMl == null)
+    missing.expectedBloodLossMl = `the operation "${r.procedure.name}" has no usual blood loss in the catalogue`
   if (Object.keys(missing).length) {
     throw new RuleRefused(`Cannot project surgery day: ${Object.values(missing).join('; ')}`, 'projection_inputs_missing', missing)
   }
@@ -32,39 +35,49 @@ export async function projectionForReferral(r: LoadedReferral, opts: ProjectionO
     const first = facts.doses[0]!
     const p = await Prescription.findByPk(first.prescriptionId)
     treatment = {
-      kind: p?.route ?? 'iv', firstDoseAt: first.givenAt, lastDoseAt: facts.doses[facts.doses.length - 1]!.givenAt,
+      kind: p?.route ?? 'iv',
+      firstDoseAt: first.givenAt,
+      lastDoseAt: facts.doses[facts.doses.length - 1]!.givenAt,
       totalMg: facts.doses.reduce((s, d) => s + d.doseMg, 0),
       // The deficit the course was written against: the dose given is weighed against it.
       deficitMg: p?.deficitMg ?? null,
     }
   }
   try {
-    return buildProjection({
-      today: clinicToday(),
-      timeZone: clinicTimeZone(),
-      plannedSurgeryDate: r.plannedSurgeryDate,
-      sex: r.patient.sex,
-      heightCm: facts.body.heightCm,
-      weightKg: facts.body.weightKg!,
-      hbMeasurements: facts.hb,
-      treatment,
-      procedure: {
-        code: r.procedure.code, name: r.procedure.name, expectedBloodLossMl: r.procedure.expectedBloodLossMl!,
-        usualBloodOrder: r.procedure.usualBloodOrder, usualUnits: r.procedure.usualUnits, transfusionRate: r.procedure.transfusionRate,
+    return buildProjection(
+      {
+        today: clinicToday(),
+        timeZone: clinicTimeZone(),
+        plannedSurgeryDate: r.plannedSurgeryDate,
+        sex: r.patient.sex,
+        heightCm: facts.body.heightCm,
+        weightKg: facts.body.weightKg!,
+        hbMeasurements: facts.hb,
+        treatment,
+        procedure: {
+          code: r.procedure.code,
+          name: r.procedure.name,
+          expectedBloodLossMl: r.procedure.expectedBloodLossMl!,
+          usualBloodOrder: r.procedure.usualBloodOrder,
+          usualUnits: r.procedure.usualUnits,
+          transfusionRate: r.procedure.transfusionRate,
+        },
+        priority: r.priority,
+        cardiovascularDisease: Boolean(r.cardiovascularDisease),
+        ironStatus: (r.ironStatus as IronStatus | null) ?? null,
+        ironStudies,
+        antibodiesPositive: r.redCellAntibodies ?? null,
+        declinesTransfusion: Boolean(r.declinesTransfusion),
+        saO2: settings.defaultSaO2,
+        paO2MmHg: settings.defaultPaO2MmHg,
+        cardiacOutputLMin: opts.cardiacOutputLMin ?? null,
       },
-      priority: r.priority,
-      cardiovascularDisease: Boolean(r.cardiovascularDisease),
-      ironStatus: (r.ironStatus as IronStatus | null) ?? null,
-      ironStudies,
-      antibodiesPositive: r.redCellAntibodies ?? null,
-      declinesTransfusion: Boolean(r.declinesTransfusion),
-      saO2: settings.defaultSaO2,
-      paO2MmHg: settings.defaultPaO2MmHg,
-      cardiacOutputLMin: opts.cardiacOutputLMin ?? null,
-    }, settings)
+      settings,
+    )
   } catch (err) {
     // The record holds something the formulas refuse (e.g. an implausible stored figure).
-    if (err instanceof ClinicalInputError) throw new RuleRefused(`Cannot project surgery day: ${err.message}`, 'projection_input_invalid', { [err.input]: err.message })
+    if (err instanceof ClinicalInputError)
+      throw new RuleRefused(`Cannot project surgery day: ${err.message}`, 'projection_input_invalid', { [err.input]: err.message })
     throw err
   }
 }

@@ -41,8 +41,20 @@ function latestByAnalyte(results: ResultView[]): Record<string, ResultView> {
 function toDateChangeView(c: SurgeryDateChange): DateChangeView {
   const by = (c as SurgeryDateChange & { changedByUser?: User | null }).changedByUser
   const kind = c.kind === 'cancelled' ? 'cancelled' : 'moved'
-  const reasonLabel = kind === 'cancelled' ? CANCELLATION_REASON_LABELS[c.reason as CancellationReason] ?? DATE_CHANGE_REASON_LABELS[c.reason] : DATE_CHANGE_REASON_LABELS[c.reason]
-  return { kind, fromDate: c.fromDate, toDate: c.toDate, reason: c.reason, reasonLabel, note: c.note, changedAt: c.changedAt.toISOString(), changedBy: by ? { id: by.id, name: by.name } : null }
+  const reasonLabel =
+    kind === 'cancelled'
+      ? (CANCELLATION_REASON_LABELS[c.reason as CancellationReason] ?? DATE_CHANGE_REASON_LABELS[c.reason])
+      : DATE_CHANGE_REASON_LABELS[c.reason]
+  return {
+    kind,
+    fromDate: c.fromDate,
+    toDate: c.toDate,
+    reason: c.reason,
+    reasonLabel,
+    note: c.note,
+    changedAt: c.changedAt.toISOString(),
+    changedBy: by ? { id: by.id, name: by.name } : null,
+  }
 }
 
 /**
@@ -62,11 +74,33 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
   assertMaySeeReferral(viewer, r.surgeonId)
   const [patient, resultRows, transitions, dateChanges] = await Promise.all([
     toPatientView(r.patient),
-    Result.findAll({ where: { referralId: id, voidedAt: null }, include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }], order: [['takenAt', 'DESC'], ['id', 'DESC']] }),
-    StageTransition.findAll({ where: { referralId: id }, include: [{ model: User, as: 'user', attributes: ['id', 'name'] }], order: [['at', 'DESC'], ['id', 'DESC']] }),
-    SurgeryDateChange.findAll({ where: { referralId: id }, include: [{ model: User, as: 'changedByUser', attributes: ['id', 'name'] }], order: [['changedAt', 'ASC'], ['id', 'ASC']] }),
+    Result.findAll({
+      where: { referralId: id, voidedAt: null },
+      include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }],
+      order: [
+        ['takenAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
+    }),
+    StageTransition.findAll({
+      where: { referralId: id },
+      include: [{ model: User, as: 'user', attributes: ['id', 'name'] }],
+      order: [
+        ['at', 'DESC'],
+        ['id', 'DESC'],
+      ],
+    }),
+    SurgeryDateChange.findAll({
+      where: { referralId: id },
+      include: [{ model: User, as: 'changedByUser', attributes: ['id', 'name'] }],
+      order: [
+        ['changedAt', 'ASC'],
+        ['id', 'ASC'],
+      ],
+    }),
   ])
-  if (opts.audit) await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId, opensRecord: true })
+  if (opts.audit)
+    await recordAudit(null, viewer, { action: 'view', entity: 'referral', entityId: id, patientId: r.patientId, opensRecord: true })
   const results = resultRows.map(toResultView)
   const today = clinicToday()
   return {
@@ -83,7 +117,20 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     patientId: r.patientId,
     procedureCode: r.procedure.code,
     surgeonId: r.surgeonId,
-    patient: { id: patient.id, mrn: patient.mrn, givenName: patient.givenName, familyName: patient.familyName, dateOfBirth: patient.dateOfBirth, ageYears: patient.ageYears, sex: patient.sex, heightCm: patient.heightCm, heightMeasuredAt: patient.heightMeasuredAt, weightKg: patient.weightKg, weightMeasuredAt: patient.weightMeasuredAt, version: patient.version },
+    patient: {
+      id: patient.id,
+      mrn: patient.mrn,
+      givenName: patient.givenName,
+      familyName: patient.familyName,
+      dateOfBirth: patient.dateOfBirth,
+      ageYears: patient.ageYears,
+      sex: patient.sex,
+      heightCm: patient.heightCm,
+      heightMeasuredAt: patient.heightMeasuredAt,
+      weightKg: patient.weightKg,
+      weightMeasuredAt: patient.weightMeasuredAt,
+      version: patient.version,
+    },
     procedure: toProcedureView(r.procedure),
     surgeon: { id: r.surgeon.id, name: r.surgeon.name },
     screening: screeningView(r, r.patient.sex),
@@ -102,7 +149,10 @@ export async function referralDetail(viewer: Viewer, id: number, opts: { audit?:
     // Who moved the surgery date, when and why: the listing-to-surgery story the quality report counts.
     dateChanges: dateChanges.map(toDateChangeView),
     // The latest history row is a cancellation until a new date rebooks the operation.
-    surgeryCancelled: dateChanges.length > 0 && dateChanges[dateChanges.length - 1]!.kind === 'cancelled' ? toDateChangeView(dateChanges[dateChanges.length - 1]!) : null,
+    surgeryCancelled:
+      dateChanges.length > 0 && dateChanges[dateChanges.length - 1]!.kind === 'cancelled'
+        ? toDateChangeView(dateChanges[dateChanges.length - 1]!)
+        : null,
     allowedMoves: allowedMoves(r.stage, viewer.role),
     timeline: timelineOf(transitions as TransitionRow[], results),
     createdBy: r.createdBy,

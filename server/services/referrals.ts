@@ -14,7 +14,10 @@ import type { ReferralDetail } from '../../shared/pathway/views'
 
 async function procedureIdFor(code: string): Promise<number> {
   const p = await findActiveProcedure(code)
-  if (!p) throw new Invalid(`procedureCode ${code} is not an operation in the catalogue`, { procedureCode: 'must be an active operation from the catalogue' })
+  if (!p)
+    throw new Invalid(`procedureCode ${code} is not an operation in the catalogue`, {
+      procedureCode: 'must be an active operation from the catalogue',
+    })
   return p.id
 }
 
@@ -70,7 +73,10 @@ export async function createReferral(sequelize: Sequelize, viewer: Viewer, input
       { transaction: t },
     )
     // The timeline starts with the referral itself.
-    await StageTransition.create({ referralId: r.id, fromStage: null, toStage: 'referred', reason: null, userId: viewer.userId }, { transaction: t })
+    await StageTransition.create(
+      { referralId: r.id, fromStage: null, toStage: 'referred', reason: null, userId: viewer.userId },
+      { transaction: t },
+    )
     await recordAudit(t, viewer, { action: 'create', entity: 'referral', entityId: r.id, patientId: patient.id, after: auditable(r) })
     return r.id
   })
@@ -97,7 +103,9 @@ export async function updateReferral(
       throw new Invalid('Say why the surgery date is changing', { dateChangeReason: 'is required when the planned surgery date changes' })
     }
     if (input.listingDate != null && input.listingDate > (input.plannedSurgeryDate ?? r.plannedSurgeryDate)) {
-      throw new Invalid('The listing date is after the planned surgery date', { listingDate: 'must be on or before the planned surgery date' })
+      throw new Invalid('The listing date is after the planned surgery date', {
+        listingDate: 'must be on or before the planned surgery date',
+      })
     }
     const changes = {
       ...(procedureId !== undefined ? { procedureId } : {}),
@@ -110,17 +118,33 @@ export async function updateReferral(
       ...(input.listingDate !== undefined ? { listingDate: input.listingDate } : {}),
     }
     worklistChanged('referral', t)
-    const [count] = await Referral.update({ ...changes, version: input.version + 1 }, { where: { id, version: input.version }, transaction: t })
+    const [count] = await Referral.update(
+      { ...changes, version: input.version + 1 },
+      { where: { id, version: input.version }, transaction: t },
+    )
     if (count !== 1) throw staleVersion('This referral')
     if (moves) {
-      await SurgeryDateChange.create({
-        referralId: id, fromDate: r.plannedSurgeryDate, toDate: input.plannedSurgeryDate!, reason: input.dateChangeReason!,
-        note: input.dateChangeNote ?? null, changedBy: viewer.userId, changedAt: new Date(),
-      }, { transaction: t })
+      await SurgeryDateChange.create(
+        {
+          referralId: id,
+          fromDate: r.plannedSurgeryDate,
+          toDate: input.plannedSurgeryDate!,
+          reason: input.dateChangeReason!,
+          note: input.dateChangeNote ?? null,
+          changedBy: viewer.userId,
+          changedAt: new Date(),
+        },
+        { transaction: t },
+      )
     }
     await r.reload({ transaction: t })
-    await recordAudit(t, viewer, { action: 'update', entity: 'referral', entityId: id, patientId: r.patientId, ...changedFields(before, auditable(r)) })
+    await recordAudit(t, viewer, {
+      action: 'update',
+      entity: 'referral',
+      entityId: id,
+      patientId: r.patientId,
+      ...changedFields(before, auditable(r)),
+    })
   })
   return referralDetail(viewer, id)
 }
-

@@ -40,7 +40,8 @@ export interface NewResult {
 const COLUMNS = `(referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported, taken_at, entered_by, source,
   derived_from, import_batch_id, status, comparator, hl7_message_id, reference_range, abnormal_flags, created_at)`
 const PLACEHOLDERS = `(${new Array(18).fill('?').join(', ')})`
-const unitOf = (analyte: StoredAnalyte) => (analyte === 'tsat' || analyte === 'egfr' ? DERIVED_UNITS[analyte] : ANALYTE_DEFS[analyte].canonicalUnit)
+const unitOf = (analyte: StoredAnalyte) =>
+  analyte === 'tsat' || analyte === 'egfr' ? DERIVED_UNITS[analyte] : ANALYTE_DEFS[analyte].canonicalUnit
 
 /**
  * One multi-row INSERT per chunk (not one ORM call per row). The natural key (referral, analyte,
@@ -52,12 +53,29 @@ export async function insertResults(sequelize: Sequelize, rows: readonly NewResu
   for (let i = 0; i < rows.length; i += chunk) {
     const part = rows.slice(i, i + chunk)
     const values = part.flatMap((r) => [
-      r.referralId, r.patientId, r.analyte, r.valueCanonical, unitOf(r.analyte), r.valueReported, r.unitReported, r.takenAt, r.enteredBy,
-      r.source, r.derivedFrom ? JSON.stringify(r.derivedFrom) : null, r.importBatchId ?? null, r.status ?? 'final',
-      r.comparator ?? null, r.hl7MessageId ?? null, r.referenceRange ?? null, r.abnormalFlags ?? null, now,
+      r.referralId,
+      r.patientId,
+      r.analyte,
+      r.valueCanonical,
+      unitOf(r.analyte),
+      r.valueReported,
+      r.unitReported,
+      r.takenAt,
+      r.enteredBy,
+      r.source,
+      r.derivedFrom ? JSON.stringify(r.derivedFrom) : null,
+      r.importBatchId ?? null,
+      r.status ?? 'final',
+      r.comparator ?? null,
+      r.hl7MessageId ?? null,
+      r.referenceRange ?? null,
+      r.abnormalFlags ?? null,
+      now,
     ])
     await sequelize.query(`INSERT INTO results ${COLUMNS} VALUES ${part.map(() => PLACEHOLDERS).join(', ')}`, {
-      type: QueryTypes.INSERT, replacements: values, transaction: t,
+      type: QueryTypes.INSERT,
+      replacements: values,
+      transaction: t,
     })
   }
 }
@@ -68,24 +86,62 @@ export function storeResult(r: NewResult, t: Transaction): Promise<Result> {
 }
 
 /** TSAT for one sample of a typed-in or HL7 result, unless the laboratory reported one (shared/clinic/derivations.ts). */
-export async function deriveTsat(base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number | null }, t: Transaction): Promise<Result | null> {
+export async function deriveTsat(
+  base: { referralId: number; patientId: number; takenAt: Date; enteredBy: number | null },
+  t: Transaction,
+): Promise<Result | null> {
   const rows = await Result.findAll({
-    where: { referralId: base.referralId, takenAt: base.takenAt, analyte: { [Op.in]: ['iron', 'tibc', 'transferrin', 'tsat'] }, ...SCREENABLE_WHERE },
-    attributes: ['id', 'analyte', 'valueCanonical'], raw: true, transaction: t,
+    where: {
+      referralId: base.referralId,
+      takenAt: base.takenAt,
+      analyte: { [Op.in]: ['iron', 'tibc', 'transferrin', 'tsat'] },
+      ...SCREENABLE_WHERE,
+    },
+    attributes: ['id', 'analyte', 'valueCanonical'],
+    raw: true,
+    transaction: t,
   })
   const tsat = clinical('value', () => tsatFromSample(rows))
   if (!tsat) return null
-  return storeResult({ ...base, analyte: 'tsat', valueCanonical: tsat.value, valueReported: null, unitReported: null, source: 'derived', derivedFrom: tsat.derivedFrom }, t)
+  return storeResult(
+    {
+      ...base,
+      analyte: 'tsat',
+      valueCanonical: tsat.value,
+      valueReported: null,
+      unitReported: null,
+      source: 'derived',
+      derivedFrom: tsat.derivedFrom,
+    },
+    t,
+  )
 }
 
 /** eGFR from one creatinine (CKD-EPI 2021 in shared/clinic/derivations.ts); one derived row per sample and value. */
-export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dateOfBirth' | 'sex'>, t: Transaction): Promise<Result | null> {
-  const egfr = clinical('value', () => egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient))
+export async function deriveEgfr(
+  creatinine: Result,
+  patient: Pick<Patient, 'dateOfBirth' | 'sex'>,
+  t: Transaction,
+): Promise<Result | null> {
+  const egfr = clinical('value', () =>
+    egfrFromCreatinine(creatinine.valueCanonical, dateInZone(creatinine.takenAt, clinicTimeZone()), patient),
+  )
   if (egfr === null) return null
   const same = { referralId: creatinine.referralId, analyte: 'egfr' as const, takenAt: creatinine.takenAt, valueCanonical: egfr }
   // Two creatinines of one sample can round to the same eGFR; one derived row says it.
   if (await Result.findOne({ where: { ...same, voidedAt: null }, transaction: t })) return null
-  return storeResult({ ...same, patientId: creatinine.patientId, valueReported: null, unitReported: null, enteredBy: creatinine.enteredBy, source: 'derived', derivedFrom: [creatinine.id] }, t)
+  return storeResult(
+    {
+      ...same,
+      patientId: creatinine.patientId,
+      valueReported: null,
+      unitReported: null,
+      enteredBy: creatinine.enteredBy,
+      source: 'derived',
+      derivedFrom: [creatinine.id],
+    },
+    t,
+  )
 }
 
 /**
@@ -93,10 +149,23 @@ export async function deriveEgfr(creatinine: Result, patient: Pick<Patient, 'dat
  * and transferrin/TIBC but no TSAT, and eGFR for each creatinine. A sample whose iron exceeds its
  * binding capacity gets no TSAT (counted as refused), where a typed-in one is refused with a 422.
  */
-export async function deriveForBatch(sequelize: Sequelize, batchId: number, userId: number, t: Transaction): Promise<{ derived: number; refused: number }> {
+export async function deriveForBatch(
+  sequelize: Sequelize,
+  batchId: number,
+  userId: number,
+  t: Transaction,
+): Promise<{ derived: number; refused: number }> {
   const out: NewResult[] = []
   let refused = 0
-  const creatinines = await sequelize.query<{ id: number; referralId: number; patientId: number; takenAt: Date; valueCanonical: number; dob: string | Date; sex: Sex }>(
+  const creatinines = await sequelize.query<{
+    id: number
+    referralId: number
+    patientId: number
+    takenAt: Date
+    valueCanonical: number
+    dob: string | Date
+    sex: Sex
+  }>(
     `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.taken_at AS takenAt, r.value_canonical AS valueCanonical, p.date_of_birth AS dob, p.sex
      FROM results r JOIN patients p ON p.id = r.patient_id WHERE r.import_batch_id = ? AND r.analyte = 'creatinine'`,
     { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },
@@ -110,7 +179,15 @@ export async function deriveForBatch(sequelize: Sequelize, batchId: number, user
     const key = `${c.referralId}|${takenAt.getTime()}|${egfr}`
     if (egfr === null || egfrKeys.has(key)) continue
     egfrKeys.add(key)
-    out.push({ ...derived, referralId: c.referralId, patientId: c.patientId, analyte: 'egfr', valueCanonical: egfr, takenAt, derivedFrom: [c.id] })
+    out.push({
+      ...derived,
+      referralId: c.referralId,
+      patientId: c.patientId,
+      analyte: 'egfr',
+      valueCanonical: egfr,
+      takenAt,
+      derivedFrom: [c.id],
+    })
   }
   // Every iron-study row of each sample this batch touched, wherever it came from.
   const samples = await sequelize.query<SampleRow & { referralId: number; patientId: number; takenAt: Date }>(
@@ -128,7 +205,16 @@ export async function deriveForBatch(sequelize: Sequelize, batchId: number, user
   for (const rows of bySample.values()) {
     try {
       const tsat = tsatFromSample(rows)
-      if (tsat) out.push({ ...derived, referralId: rows[0]!.referralId, patientId: rows[0]!.patientId, analyte: 'tsat', valueCanonical: tsat.value, takenAt: new Date(rows[0]!.takenAt), derivedFrom: tsat.derivedFrom })
+      if (tsat)
+        out.push({
+          ...derived,
+          referralId: rows[0]!.referralId,
+          patientId: rows[0]!.patientId,
+          analyte: 'tsat',
+          valueCanonical: tsat.value,
+          takenAt: new Date(rows[0]!.takenAt),
+          derivedFrom: tsat.derivedFrom,
+        })
     } catch (err) {
       if (!(err instanceof ClinicalInputError)) throw err
       refused += 1
@@ -144,14 +230,25 @@ export async function deriveForBatch(sequelize: Sequelize, batchId: number, user
  * record) a thousand at a time. refreshScreeningMany says worklistChanged('referral', t).
  */
 export async function rescreenAndAudit(
-  sequelize: Sequelize, viewer: Viewer, perReferral: Map<number, { patientId: number; count: number }>, t: Transaction,
+  sequelize: Sequelize,
+  viewer: Viewer,
+  perReferral: Map<number, { patientId: number; count: number }>,
+  t: Transaction,
   audit: { action: string; batchId: number },
 ): Promise<void> {
   const ids = [...perReferral.keys()]
   await refreshScreeningMany(sequelize, ids, t)
-  await insertEpisodeAudit(sequelize, viewer, ids.map((id) => ({
-    referralId: id, patientId: perReferral.get(id)!.patientId, after: { importBatchId: audit.batchId, results: perReferral.get(id)!.count },
-  })), audit.action, t)
+  await insertEpisodeAudit(
+    sequelize,
+    viewer,
+    ids.map((id) => ({
+      referralId: id,
+      patientId: perReferral.get(id)!.patientId,
+      after: { importBatchId: audit.batchId, results: perReferral.get(id)!.count },
+    })),
+    audit.action,
+    t,
+  )
 }
 
 /**
@@ -161,7 +258,11 @@ export async function rescreenAndAudit(
  * append-only by its database triggers.
  */
 export async function insertEpisodeAudit(
-  sequelize: Sequelize, viewer: Viewer, rows: readonly { referralId: number; patientId: number; after: object }[], action: string, t: Transaction,
+  sequelize: Sequelize,
+  viewer: Viewer,
+  rows: readonly { referralId: number; patientId: number; after: object }[],
+  action: string,
+  t: Transaction,
 ): Promise<void> {
   const at = new Date()
   for (let i = 0; i < rows.length; i += 1000) {
@@ -170,8 +271,18 @@ export async function insertEpisodeAudit(
       `INSERT INTO audit_entries (at, user_id, action, entity, entity_id, patient_id, \`before\`, \`after\`, request_id, ip)
        VALUES ${part.map(() => "(?, ?, ?, 'referral', ?, ?, NULL, ?, ?, ?)").join(', ')}`,
       {
-        type: QueryTypes.INSERT, transaction: t,
-        replacements: part.flatMap((r) => [at, viewer.userId, action, String(r.referralId), r.patientId, JSON.stringify(r.after), viewer.requestId, viewer.ip]),
+        type: QueryTypes.INSERT,
+        transaction: t,
+        replacements: part.flatMap((r) => [
+          at,
+          viewer.userId,
+          action,
+          String(r.referralId),
+          r.patientId,
+          JSON.stringify(r.after),
+          viewer.requestId,
+          viewer.ip,
+        ]),
       },
     )
   }

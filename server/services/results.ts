@@ -55,9 +55,17 @@ export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId
     // same sample typed twice is refused, so the clinician knows it is already on the record.
     const existing = await Result.findOne({ where: { referralId, analyte, takenAt, valueCanonical: value }, transaction: t })
     if (existing) {
-      throw new Conflict('This result is already recorded for this episode (same test, time taken and value)', 'duplicate_result', { value: 'is already recorded for this sample' }, { resultId: existing.id })
+      throw new Conflict(
+        'This result is already recorded for this episode (same test, time taken and value)',
+        'duplicate_result',
+        { value: 'is already recorded for this sample' },
+        { resultId: existing.id },
+      )
     }
-    const result = await storeResult({ ...base, analyte, valueCanonical: value, valueReported: input.value, unitReported: input.unit, source: 'manual' }, t)
+    const result = await storeResult(
+      { ...base, analyte, valueCanonical: value, valueReported: input.value, unitReported: input.unit, source: 'manual' },
+      t,
+    )
     const derived: Result[] = []
     if (analyte === 'iron' || analyte === 'transferrin' || analyte === 'tibc') {
       const tsat = await deriveTsat(base, t)
@@ -80,7 +88,12 @@ export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId
       before: { screening: before },
       after: { result: view, derived: derived.map(toResultView), screening },
     })
-    return { result: view, derived: derived.map(toResultView), screening, referral: { id: referral.id, version: referral.version, stage: referral.stage } }
+    return {
+      result: view,
+      derived: derived.map(toResultView),
+      screening,
+      referral: { id: referral.id, version: referral.version, stage: referral.stage },
+    }
   })
 }
 
@@ -92,7 +105,10 @@ export async function listResults(viewer: Viewer, referralId: number, analyte?: 
   const rows = await Result.findAll({
     where: { referralId, ...(analyte ? { analyte: { [Op.eq]: analyte } } : {}) },
     include: [{ model: User, as: 'enteredByUser', attributes: ['id', 'name'] }],
-    order: [['takenAt', 'DESC'], ['id', 'DESC']],
+    order: [
+      ['takenAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
   })
   await recordAudit(null, viewer, { action: 'view', entity: 'results', entityId: referralId, patientId: referral.patientId })
   return rows.map(toResultView)

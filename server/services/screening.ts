@@ -1,6 +1,13 @@
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { classifyAnaemia, IRON_STATUS_CRITERIA, type AnaemiaCriteria, type Sex } from '../../shared/clinical'
-import { SCREENING_ANALYTES, ironStudiesFromRows, latestFromRows, screeningOutcome, type LatestValues, type ScreeningColumns } from '../../shared/clinic/screening'
+import {
+  SCREENING_ANALYTES,
+  ironStudiesFromRows,
+  latestFromRows,
+  screeningOutcome,
+  type LatestValues,
+  type ScreeningColumns,
+} from '../../shared/clinic/screening'
 import type { IronStudies } from '../../shared/clinic/ironStudies'
 import { STAGE_LABELS } from '../../shared/pathway'
 import { Referral, Result } from '../models/index'
@@ -23,7 +30,10 @@ export async function latestIronStudies(referralId: number, t?: Transaction): Pr
 async function screeningRows(referralId: number, t?: Transaction) {
   return Result.findAll({
     where: { referralId, analyte: { [Op.in]: [...SCREENING_ANALYTES] }, ...SCREENABLE_WHERE },
-    order: [['takenAt', 'DESC'], ['id', 'DESC']],
+    order: [
+      ['takenAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
     attributes: ['analyte', 'valueCanonical', 'takenAt'],
     transaction: t,
     raw: true,
@@ -40,14 +50,23 @@ export async function refreshScreening(referral: Referral, sex: Sex, t: Transact
   return next
 }
 
-interface ReferralScreeningRow { id: number; sex: Sex; criteria: AnaemiaCriteria }
+interface ReferralScreeningRow {
+  id: number
+  sex: Sex
+  criteria: AnaemiaCriteria
+}
 
 /**
  * The same re-screening as refreshScreening, for many referrals at once (a laboratory import):
  * the latest values come from one query per chunk and one UPDATE writes the outcomes, so a
  * 100 000-row file does not cost two round trips per episode. Same rules, same columns.
  */
-export async function refreshScreeningMany(sequelize: Sequelize, referralIds: readonly number[], t: Transaction, chunk = 500): Promise<number> {
+export async function refreshScreeningMany(
+  sequelize: Sequelize,
+  referralIds: readonly number[],
+  t: Transaction,
+  chunk = 500,
+): Promise<number> {
   let updated = 0
   for (let i = 0; i < referralIds.length; i += chunk) {
     const ids = referralIds.slice(i, i + chunk)
@@ -69,9 +88,19 @@ export async function refreshScreeningMany(sequelize: Sequelize, referralIds: re
     const values: unknown[] = []
     const selects = refs.map((ref) => {
       const next = screeningOutcome(latestFromRows(byReferral.get(ref.id) ?? []), ref.sex, ref.criteria)
-      values.push(ref.id, next.anaemic == null ? null : next.anaemic ? 1 : 0, next.anaemiaSeverity, next.ironStatus, next.proposedStage, next.latestHbGL, next.latestHbAt)
-      return 'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
+      values.push(
+        ref.id,
+        next.anaemic == null ? null : next.anaemic ? 1 : 0,
+        next.anaemiaSeverity,
+        next.ironStatus,
+        next.proposedStage,
+        next.latestHbGL,
+        next.latestHbAt,
+      )
+      return (
+        'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
         'CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at'
+      )
     })
     if (!selects.length) continue
     // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.

@@ -15,7 +15,14 @@ const PERIOD_SECONDS = 30
 const RECOVERY_CODES = 10
 
 function totpFor(secretBase32: string, email: string): OTPAuth.TOTP {
-  return new OTPAuth.TOTP({ issuer: 'Ferrolane', label: email, algorithm: 'SHA1', digits: 6, period: PERIOD_SECONDS, secret: OTPAuth.Secret.fromBase32(secretBase32) })
+  return new OTPAuth.TOTP({
+    issuer: 'Ferrolane',
+    label: email,
+    algorithm: 'SHA1',
+    digits: 6,
+    period: PERIOD_SECONDS,
+    secret: OTPAuth.Secret.fromBase32(secretBase32),
+  })
 }
 
 /** The 30-second step a code belongs to, or null; one step either side allows for clock drift. */
@@ -53,17 +60,33 @@ export async function beginEnrolment(email: string): Promise<SecondFactorEnrolme
   return { secret, qrCodeDataUrl: `data:image/svg+xml;base64,${Buffer.from(svg).toString('base64')}` }
 }
 
-export async function confirmEnrolment(sequelize: Sequelize, actor: Actor & { userId: number }, secret: string, code: string): Promise<SecondFactorEnrolled> {
+export async function confirmEnrolment(
+  sequelize: Sequelize,
+  actor: Actor & { userId: number },
+  secret: string,
+  code: string,
+): Promise<SecondFactorEnrolled> {
   const user = await User.findByPk(actor.userId)
   if (!user) throw new NotFound('Account')
   const step = matchingStep(secret, user.email, code)
-  if (step === null) throw new Invalid('That code does not match; check the authenticator shows Ferrolane and try the newest code', { code: 'does not match' })
+  if (step === null)
+    throw new Invalid('That code does not match; check the authenticator shows Ferrolane and try the newest code', {
+      code: 'does not match',
+    })
   const codes = Array.from({ length: RECOVERY_CODES }, recoveryCode)
   await sequelize.transaction(async (t) => {
     await user.update({ totpSecret: secret, totpEnabledAt: new Date(), totpLastStep: step }, { transaction: t })
     await RecoveryCode.destroy({ where: { userId: user.id }, transaction: t })
-    await RecoveryCode.bulkCreate(codes.map((c) => ({ userId: user.id, codeSha256: digest(c) })), { transaction: t })
-    await recordAudit(t, actor, { action: 'enrol-second-factor', entity: 'user', entityId: user.id, after: { method: 'totp', recoveryCodes: RECOVERY_CODES } })
+    await RecoveryCode.bulkCreate(
+      codes.map((c) => ({ userId: user.id, codeSha256: digest(c) })),
+      { transaction: t },
+    )
+    await recordAudit(t, actor, {
+      action: 'enrol-second-factor',
+      entity: 'user',
+      entityId: user.id,
+      after: { method: 'totp', recoveryCodes: RECOVERY_CODES },
+    })
   })
   return { recoveryCodes: codes }
 }
@@ -80,7 +103,11 @@ export async function verifySecondFactor(sequelize: Sequelize, userId: number, c
       await user.update({ totpLastStep: step }, { transaction: t })
       return 'totp'
     }
-    const row = await RecoveryCode.findOne({ where: { userId, codeSha256: digest(code), usedAt: null }, transaction: t, lock: t.LOCK.UPDATE })
+    const row = await RecoveryCode.findOne({
+      where: { userId, codeSha256: digest(code), usedAt: null },
+      transaction: t,
+      lock: t.LOCK.UPDATE,
+    })
     if (!row) return null
     await row.update({ usedAt: new Date() }, { transaction: t })
     return 'recovery-code'

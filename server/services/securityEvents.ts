@@ -7,6 +7,16 @@ import { recordAudit, type Actor } from './audit'
  */
 export type SecurityEvent = 'sign-in-failed' | 'sign-in-locked-out' | 'sign-in-refused' | 'forbidden' | 'csrf-refused'
 
-export async function recordSecurityEvent(actor: Actor, action: SecurityEvent, entityId: string, details: Record<string, string>): Promise<void> {
-  await recordAudit(null, actor, { action, entity: action.startsWith('sign-in') ? 'session' : 'request', entityId: entityId.slice(0, 40), after: details })
+export async function recordSecurityEvent(
+  actor: Actor,
+  action: SecurityEvent,
+  entityId: string,
+  details: Record<string, string>,
+): Promise<void> {
+  await recordAudit(null, actor, {
+    action,
+    entity: action.startsWith('sign-in') ? 'session' : 'request',
+    entityId: entityId.slice(0, 40),
+    after: details,
+  })
 }

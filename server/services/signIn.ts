@@ -36,7 +36,9 @@ async function bump(bucket: string, windowStart: Date): Promise<number> {
       { replacements: [bucket, windowStart, windowStart], type: QueryTypes.INSERT, transaction },
     )
     const rows = await sequelize.query<{ failures: number }>('SELECT failures FROM login_failures WHERE bucket = ?', {
-      replacements: [bucket], type: QueryTypes.SELECT, transaction,
+      replacements: [bucket],
+      type: QueryTypes.SELECT,
+      transaction,
     })
     return Number(rows[0]?.failures ?? 0)
   })
@@ -65,7 +67,8 @@ export async function checkCredentials(email: string, password: string, ip: stri
   if (!ok || !user) return null
   await LoginFailure.destroy({ where: { bucket: accountBucket(email)! } })
   await LoginFailure.sequelize!.query('UPDATE login_failures SET failures = GREATEST(failures, 1) - 1 WHERE bucket = ?', {
-    replacements: [addressBucket(ip)], type: QueryTypes.UPDATE,
+    replacements: [addressBucket(ip)],
+    type: QueryTypes.UPDATE,
   })
   await user.update({ lastSignInAt: new Date() })
   return toSessionUser(user)
@@ -91,7 +94,9 @@ async function failuresIn(bucket: string, windowStart: Date): Promise<number> {
 export async function checkSecondFactorThrottle(config: Config, email: string, ip: string): Promise<void> {
   const windowStart = new Date(Date.now() - config.login.windowMinutes * 60_000)
   const [byAccount, byAddress, byCode] = await Promise.all([
-    failuresIn(accountBucket(email)!, windowStart), failuresIn(addressBucket(ip), windowStart), failuresIn(secondFactorBucket(email), windowStart),
+    failuresIn(accountBucket(email)!, windowStart),
+    failuresIn(addressBucket(ip), windowStart),
+    failuresIn(secondFactorBucket(email), windowStart),
   ])
   if (Math.max(byAccount, byCode) >= config.login.maxFailuresPerAccount || byAddress > config.login.maxFailuresPerAddress) {
     throw new TooMany(`Too many failed sign-ins. Wait ${config.login.windowMinutes} minutes and try again, or ask an administrator.`)
@@ -109,6 +114,7 @@ export async function countSecondFactorFailure(config: Config, email: string): P
 export async function clearSecondFactorFailures(email: string, ip: string): Promise<void> {
   await LoginFailure.destroy({ where: { bucket: [accountBucket(email)!, secondFactorBucket(email)] } })
   await LoginFailure.sequelize!.query('UPDATE login_failures SET failures = GREATEST(failures, 1) - 1 WHERE bucket = ?', {
-    replacements: [addressBucket(ip)], type: QueryTypes.UPDATE,
+    replacements: [addressBucket(ip)],
+    type: QueryTypes.UPDATE,
   })
 }

@@ -1,7 +1,15 @@
 import type { Sequelize, Transaction } from 'sequelize'
 import { Outcome, Transfusion } from '../models/index'
 import { addDays, isReadOnly } from '../../shared/pathway'
-import { aboveThreshold, defaultPhase, reassessedAfterEachUnit, transfusionThreshold, type Component, type Phase, type Threshold } from '../../shared/transfusion/rules'
+import {
+  aboveThreshold,
+  defaultPhase,
+  reassessedAfterEachUnit,
+  transfusionThreshold,
+  type Component,
+  type Phase,
+  type Threshold,
+} from '../../shared/transfusion/rules'
 import type { TransfusionList, TransfusionView, TransfusionWrite } from '../../shared/transfusion/views'
 import type { EditTransfusionInput, TransfusionInput } from '../../shared/schemas/transfusions'
 import { changedFields, recordAudit } from './audit'
@@ -11,20 +19,37 @@ import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 
 export function toTransfusionView(t: Transfusion): TransfusionView {
-  const row = { component: t.component, units: t.units, reassessedBeforeNext: Boolean(t.reassessedBeforeNext), postTransfusionHbGL: t.postTransfusionHbGL }
+  const row = {
+    component: t.component,
+    units: t.units,
+    reassessedBeforeNext: Boolean(t.reassessedBeforeNext),
+    postTransfusionHbGL: t.postTransfusionHbGL,
+  }
   return {
-    id: t.id, referralId: t.referralId, givenAt: t.givenAt.toISOString(), phase: t.phase, component: t.component, units: t.units,
-    preTransfusionHbGL: t.preTransfusionHbGL, postTransfusionHbGL: t.postTransfusionHbGL, reassessedBeforeNext: row.reassessedBeforeNext,
-    informationGiven: Boolean(t.informationGiven), productCodes: t.productCodes ?? [], reason: t.reason,
-    thresholdGL: t.thresholdGL, thresholdBasis: t.thresholdBasis,
-    aboveThreshold: t.component === 'red-cells' && aboveThreshold(t.preTransfusionHbGL, { thresholdGL: t.thresholdGL, basis: t.thresholdBasis }),
+    id: t.id,
+    referralId: t.referralId,
+    givenAt: t.givenAt.toISOString(),
+    phase: t.phase,
+    component: t.component,
+    units: t.units,
+    preTransfusionHbGL: t.preTransfusionHbGL,
+    postTransfusionHbGL: t.postTransfusionHbGL,
+    reassessedBeforeNext: row.reassessedBeforeNext,
+    informationGiven: Boolean(t.informationGiven),
+    productCodes: t.productCodes ?? [],
+    reason: t.reason,
+    thresholdGL: t.thresholdGL,
+    thresholdBasis: t.thresholdBasis,
+    aboveThreshold:
+      t.component === 'red-cells' && aboveThreshold(t.preTransfusionHbGL, { thresholdGL: t.thresholdGL, basis: t.thresholdBasis }),
     reassessedAfterEachUnit: reassessedAfterEachUnit(row),
     voided: t.voidedAt ? { at: t.voidedAt.toISOString(), reason: t.voidReason ?? '' } : null,
     recordedAt: isoOrNull(t.createdAt)!,
   }
 }
 
-const thresholdOf = (r: LoadedReferral): Threshold => transfusionThreshold({ specialty: r.procedure.specialty, cardiovascularDisease: Boolean(r.cardiovascularDisease) })
+const thresholdOf = (r: LoadedReferral): Threshold =>
+  transfusionThreshold({ specialty: r.procedure.specialty, cardiovascularDisease: Boolean(r.cardiovascularDisease) })
 
 /** Transfusions are part of the post-operative record: an operated, open episode with that record. */
 async function lockForTransfusion(t: Transaction, viewer: Viewer, referralId: number) {
@@ -40,34 +65,59 @@ async function lockForTransfusion(t: Transaction, viewer: Viewer, referralId: nu
 function checkAgainstReferral(r: LoadedReferral, outcome: Outcome, input: TransfusionInput, threshold: Threshold): void {
   const givenDay = input.givenAt.toISOString().slice(0, 10)
   if (givenDay < r.createdAt.toISOString().slice(0, 10)) {
-    throw new RuleRefused('The transfusion is dated before the referral', 'given_before_referral', { givenAt: 'is before the referral date' })
+    throw new RuleRefused('The transfusion is dated before the referral', 'given_before_referral', {
+      givenAt: 'is before the referral date',
+    })
   }
   const discharge = addDays(outcome.surgeryDate, outcome.lengthOfStayDays)
   if (givenDay > discharge) {
-    throw new RuleRefused(`The transfusion is dated after discharge (${discharge})`, 'given_after_discharge', { givenAt: `is after discharge on ${discharge}` })
-  }
-  if (input.component === 'red-cells' && aboveThreshold(input.preTransfusionHbGL, threshold) && !input.reason) {
-    throw new RuleRefused(`A pre-transfusion Hb of ${input.preTransfusionHbGL} g/L is above this patient's threshold (${threshold.basis}): give the reason`, 'reason_required', {
-      reason: `is required when the pre-transfusion Hb is above ${threshold.thresholdGL} g/L`,
+    throw new RuleRefused(`The transfusion is dated after discharge (${discharge})`, 'given_after_discharge', {
+      givenAt: `is after discharge on ${discharge}`,
     })
   }
+  if (input.component === 'red-cells' && aboveThreshold(input.preTransfusionHbGL, threshold) && !input.reason) {
+    throw new RuleRefused(
+      `A pre-transfusion Hb of ${input.preTransfusionHbGL} g/L is above this patient's threshold (${threshold.basis}): give the reason`,
+      'reason_required',
+      {
+        reason: `is required when the pre-transfusion Hb is above ${threshold.thresholdGL} g/L`,
+      },
+    )
+  }
   if ((input.productCodes ?? []).length > input.units) {
-    throw new RuleRefused('There are more product codes than units', 'too_many_codes', { productCodes: `at most one code per unit (${input.units})` })
+    throw new RuleRefused('There are more product codes than units', 'too_many_codes', {
+      productCodes: `at most one code per unit (${input.units})`,
+    })
   }
 }
 
 function valuesOf(input: TransfusionInput, outcome: Outcome, threshold: Threshold) {
   const phase: Phase = input.phase ?? defaultPhase(input.givenAt.toISOString(), outcome.surgeryDate)
   return {
-    givenAt: input.givenAt, phase, component: input.component as Component, units: input.units, preTransfusionHbGL: input.preTransfusionHbGL ?? null, postTransfusionHbGL: input.postTransfusionHbGL ?? null,
-    reassessedBeforeNext: input.reassessedBeforeNext, informationGiven: input.informationGiven, productCodes: [...(input.productCodes ?? [])],
-    reason: input.reason ?? null, thresholdGL: threshold.thresholdGL, thresholdBasis: threshold.basis,
+    givenAt: input.givenAt,
+    phase,
+    component: input.component as Component,
+    units: input.units,
+    preTransfusionHbGL: input.preTransfusionHbGL ?? null,
+    postTransfusionHbGL: input.postTransfusionHbGL ?? null,
+    reassessedBeforeNext: input.reassessedBeforeNext,
+    informationGiven: input.informationGiven,
+    productCodes: [...(input.productCodes ?? [])],
+    reason: input.reason ?? null,
+    thresholdGL: threshold.thresholdGL,
+    thresholdBasis: threshold.basis,
   }
 }
 
 export async function listTransfusions(viewer: Viewer, referralId: number): Promise<TransfusionList> {
   const r = await loadReferral(viewer, referralId)
-  const rows = await Transfusion.findAll({ where: { referralId }, order: [['givenAt', 'ASC'], ['id', 'ASC']] })
+  const rows = await Transfusion.findAll({
+    where: { referralId },
+    order: [
+      ['givenAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
+  })
   // Not audited again here: the After surgery tab that lists them opens with the audited read of
   // the post-operative record (GET /outcome), and the list refetches after every write.
   return { transfusions: rows.map(toTransfusionView), threshold: thresholdOf(r), redCellUnits: await redCellUnitsByPhase(referralId) }
@@ -83,7 +133,10 @@ export async function recordTransfusion(
     const { r, outcome } = await lockForTransfusion(t, viewer, referralId)
     const threshold = thresholdOf(r)
     checkAgainstReferral(r, outcome, input, threshold)
-    const row = await Transfusion.create({ referralId, ...valuesOf(input, outcome, threshold), recordedBy: viewer.userId }, { transaction: t })
+    const row = await Transfusion.create(
+      { referralId, ...valuesOf(input, outcome, threshold), recordedBy: viewer.userId },
+      { transaction: t },
+    )
     const redCellUnits = await syncOutcomeUnits(referralId, t)
     const view = toTransfusionView(row)
     await recordAudit(t, viewer, { action: 'create', entity: 'transfusion', entityId: row.id, patientId: r.patientId, after: view })
@@ -115,7 +168,14 @@ export async function editTransfusion(
     const redCellUnits = await syncOutcomeUnits(referralId, t)
     const view = toTransfusionView(row)
     const diff = changedFields(before, view)
-    await recordAudit(t, viewer, { action: 'update', entity: 'transfusion', entityId: row.id, patientId: r.patientId, before: diff.before, after: { ...diff.after, changeReason: input.changeReason } })
+    await recordAudit(t, viewer, {
+      action: 'update',
+      entity: 'transfusion',
+      entityId: row.id,
+      patientId: r.patientId,
+      before: diff.before,
+      after: { ...diff.after, changeReason: input.changeReason },
+    })
     return { transfusion: view, redCellUnits }
   })
 }
@@ -133,7 +193,14 @@ export async function voidTransfusion(
     await row.update({ voidedAt: new Date(), voidedBy: viewer.userId, voidReason: reason }, { transaction: t })
     const redCellUnits = await syncOutcomeUnits(referralId, t)
     const view = toTransfusionView(row)
-    await recordAudit(t, viewer, { action: 'void', entity: 'transfusion', entityId: row.id, patientId: r.patientId, before: { voided: null }, after: { voided: view.voided } })
+    await recordAudit(t, viewer, {
+      action: 'void',
+      entity: 'transfusion',
+      entityId: row.id,
+      patientId: r.patientId,
+      before: { voided: null },
+      after: { voided: view.voided },
+    })
     return { transfusion: view, redCellUnits }
   })
 }

@@ -38,7 +38,9 @@ export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: num
       throw new Forbidden(`Only ${move.roles.join(' or ')} may move an episode from ${r.stage} to ${to}`, 'move_forbidden')
     }
     if (move.requiresReason && !reason) {
-      throw new RuleRefused(`A reason is required to move an episode to "${STAGE_LABELS[to]}"`, 'reason_required', { reason: 'is required for this move' })
+      throw new RuleRefused(`A reason is required to move an episode to "${STAGE_LABELS[to]}"`, 'reason_required', {
+        reason: 'is required for this move',
+      })
     }
     if (move.requires === 'hb-result' && r.latestHbAt == null) {
       throw new RuleRefused('Screening needs at least an Hb result; enter one first', 'hb_result_required')
@@ -53,14 +55,23 @@ export async function moveReferral(sequelize: Sequelize, viewer: Viewer, id: num
 async function assertFollowUpRecorded(t: Transaction, referralId: number): Promise<void> {
   const o = await Outcome.findOne({ where: { referralId }, attributes: ['id', 'followUpAt'], transaction: t })
   if (!o) {
-    throw new RuleRefused('Before closing, record the post-operative outcome and then the follow-up after discharge', 'follow_up_required', {
-      outcome: 'is not recorded yet', followUp: 'is not recorded yet',
-    })
+    throw new RuleRefused(
+      'Before closing, record the post-operative outcome and then the follow-up after discharge',
+      'follow_up_required',
+      {
+        outcome: 'is not recorded yet',
+        followUp: 'is not recorded yet',
+      },
+    )
   }
   if (o.followUpAt == null) {
-    throw new RuleRefused('Before closing, record the follow-up after discharge (Hb re-check and whether iron is needed)', 'follow_up_required', {
-      followUp: 'is not recorded yet',
-    })
+    throw new RuleRefused(
+      'Before closing, record the follow-up after discharge (Hb re-check and whether iron is needed)',
+      'follow_up_required',
+      {
+        followUp: 'is not recorded yet',
+      },
+    )
   }
 }
 
@@ -73,7 +84,10 @@ export async function recordMove(t: Transaction, viewer: Viewer, r: Referral, to
   worklistChanged('referral', t)
   const [count] = await Referral.update({ stage: to, version: r.version + 1 }, { where: { id: r.id, version: r.version }, transaction: t })
   if (count !== 1) throw staleVersion('This referral')
-  const row = await StageTransition.create({ referralId: r.id, fromStage: r.stage, toStage: to, reason, userId: viewer.userId }, { transaction: t })
+  const row = await StageTransition.create(
+    { referralId: r.id, fromStage: r.stage, toStage: to, reason, userId: viewer.userId },
+    { transaction: t },
+  )
   await recordAudit(t, viewer, {
     action: 'transition',
     entity: 'referral',

@@ -71,7 +71,14 @@ export async function createStaff(
   try {
     return await sequelize.transaction(async (t) => {
       const u = await User.create(
-        { email: input.email, name: input.name, role: input.role, passwordHash, mustChangePassword: true, temporaryPasswordExpiresAt: temporaryExpiry(temporaryHours) },
+        {
+          email: input.email,
+          name: input.name,
+          role: input.role,
+          passwordHash,
+          mustChangePassword: true,
+          temporaryPasswordExpiresAt: temporaryExpiry(temporaryHours),
+        },
         { transaction: t },
       )
       const account = toStaffAccount(u)
@@ -80,7 +87,9 @@ export async function createStaff(
     })
   } catch (err) {
     if (err instanceof UniqueConstraintError) {
-      throw new Conflict(`A staff member with the e-mail ${input.email} already exists`, 'duplicate_email', { email: 'E-mail is already in use' })
+      throw new Conflict(`A staff member with the e-mail ${input.email} already exists`, 'duplicate_email', {
+        email: 'E-mail is already in use',
+      })
     }
     throw err
   }

@@ -99,7 +99,10 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
     ),
     countWorklist(sequelize, filter),
   ])
-  const next = await nextAppointments(sequelize, rows.map((r) => r.id))
+  const next = await nextAppointments(
+    sequelize,
+    rows.map((r) => r.id),
+  )
   return {
     rows: rows.map((row) => ({ ...toWorklistRow(row, today), nextAppointment: next.get(row.id) ?? null })),
     total,
@@ -123,7 +126,8 @@ async function nextAppointments(sequelize: Sequelize, referralIds: number[]): Pr
     { ids: referralIds, now: new Date() },
   )
   // Rows come soonest first per episode, so the first one seen is the next visit.
-  for (const r of rows) if (!out.has(r.referralId)) out.set(r.referralId, { kind: r.kind, startsAt: isoOrNull(r.startsAt)!, status: r.status })
+  for (const r of rows)
+    if (!out.has(r.referralId)) out.set(r.referralId, { kind: r.kind, startsAt: isoOrNull(r.startsAt)!, status: r.status })
   return out
 }
 
@@ -146,7 +150,14 @@ function toWorklistRow(row: WorklistSqlRow, today: string): Omit<WorklistRow, 'n
     flags: referralFlags({ ...row, anaemic }, today, clinicTimeZone()),
     mrn: row.mrn,
     patientName: `${row.familyName}, ${row.givenName}`,
-    patient: { id: row.patientId, mrn: row.mrn, givenName: row.givenName, familyName: row.familyName, dateOfBirth: row.dateOfBirth, sex: row.sex },
+    patient: {
+      id: row.patientId,
+      mrn: row.mrn,
+      givenName: row.givenName,
+      familyName: row.familyName,
+      dateOfBirth: row.dateOfBirth,
+      sex: row.sex,
+    },
     procedure: { code: row.procedureCode, name: row.procedureName },
     surgeon: { id: row.surgeonId, name: row.surgeonName },
   }

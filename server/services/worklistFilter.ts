@@ -23,7 +23,8 @@ export const BY_DATE = 'r.planned_surgery_date'
 export const FLAG_SQL: Record<WorklistFlag, string> = {
   'surgery-soon-anaemic': `(r.anaemic = 1 AND r.planned_surgery_date BETWEEN :today AND :soon AND r.stage IN ${PRE_OP})`,
   'no-screening-result': `(r.latest_hb_at IS NULL AND r.stage IN ${PRE_OP})`,
-  'recheck-overdue': `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR ` +
+  'recheck-overdue':
+    `(r.recheck_due_date < :today AND r.stage IN ('treating','recheck') AND (r.latest_hb_at IS NULL OR ` +
     `DATE(DATE_ADD(r.latest_hb_at, INTERVAL :zoneOffsetMin MINUTE)) < r.recheck_due_date))`,
   'treatment-not-given': `(r.treatment_ordered_at IS NOT NULL AND r.treatment_given_at IS NULL AND r.stage IN ${PRE_OP})`,
   'date-change-requested': `(r.date_change_requested_at IS NOT NULL AND r.stage IN ${PRE_OP})`,
@@ -55,19 +56,37 @@ export interface WorklistFilter {
  */
 export function worklistFilter(viewer: Viewer, q: WorklistFilterQuery): WorklistFilter {
   if (seesOwnPatientsOnly(viewer.role) && q.surgeonId !== undefined && q.surgeonId !== viewer.userId) {
-    throw new Forbidden("Surgeons see their own patients only", 'not_your_patient')
+    throw new Forbidden('Surgeons see their own patients only', 'not_your_patient')
   }
   const today = clinicToday()
   const where: string[] = []
   const params: Record<string, unknown> = flagParams(today, clinicTimeZone())
   const surgeonId = seesOwnPatientsOnly(viewer.role) || q.mine ? viewer.userId : q.surgeonId
-  if (surgeonId !== undefined) { where.push('r.surgeon_id = :surgeonId'); params.surgeonId = surgeonId }
-  if (q.stage?.length) { where.push('r.stage IN (:stages)'); params.stages = q.stage }
-  if (q.priority?.length) { where.push('r.priority IN (:priorities)'); params.priorities = q.priority }
+  if (surgeonId !== undefined) {
+    where.push('r.surgeon_id = :surgeonId')
+    params.surgeonId = surgeonId
+  }
+  if (q.stage?.length) {
+    where.push('r.stage IN (:stages)')
+    params.stages = q.stage
+  }
+  if (q.priority?.length) {
+    where.push('r.priority IN (:priorities)')
+    params.priorities = q.priority
+  }
   // A constant subquery (evaluated once), so the filter is on the referral row's own index.
-  if (q.procedureCode) { where.push('r.procedure_id = (SELECT id FROM procedures WHERE code = :procedureCode)'); params.procedureCode = q.procedureCode }
-  if (q.from) { where.push(`${BY_DATE} >= :from`); params.from = q.from }
-  if (q.to) { where.push(`${BY_DATE} <= :to`); params.to = q.to }
+  if (q.procedureCode) {
+    where.push('r.procedure_id = (SELECT id FROM procedures WHERE code = :procedureCode)')
+    params.procedureCode = q.procedureCode
+  }
+  if (q.from) {
+    where.push(`${BY_DATE} >= :from`)
+    params.from = q.from
+  }
+  if (q.to) {
+    where.push(`${BY_DATE} <= :to`)
+    params.to = q.to
+  }
   // Several flags mean "any of them", like several stages.
   if (q.flag?.length) where.push(`(${q.flag.map((f) => FLAG_SQL[f as WorklistFlag]).join(' OR ')})`)
   const terms = (q.q ?? '').split(/\s+/).filter(Boolean).slice(0, 4)
@@ -89,10 +108,14 @@ export function worklistFilter(viewer: Viewer, q: WorklistFilterQuery): Worklist
 export function countWorklist(sequelize: Sequelize, f: WorklistFilter): Promise<number> {
   // Foreign keys guarantee the joined rows exist, so the count reads referrals (and any search).
   const countFrom = `FROM referrals r ${f.searchJoins}`
-  return cachedCount(`${countFrom} ${f.whereSql} ${JSON.stringify(f.params)}`, countSources(f.searched, 'procedureCode' in f.params), async () => {
-    const r = await rawSelect<{ total: number | bigint }>(sequelize, `SELECT COUNT(*) AS total ${countFrom} ${f.whereSql}`, f.params)
-    return Number(r[0]?.total ?? 0)
-  })
+  return cachedCount(
+    `${countFrom} ${f.whereSql} ${JSON.stringify(f.params)}`,
+    countSources(f.searched, 'procedureCode' in f.params),
+    async () => {
+      const r = await rawSelect<{ total: number | bigint }>(sequelize, `SELECT COUNT(*) AS total ${countFrom} ${f.whereSql}`, f.params)
+      return Number(r[0]?.total ?? 0)
+    },
+  )
 }
 
 /** The tables a total reads, so a change to one of them forgets only the totals it can move. */

@@ -2,7 +2,10 @@
  * Chairs in an infusion session: how many patients sit at once. Bookings of different
  * lengths share chairs, so the test is the peak overlap inside the wanted slot, not a count.
  */
-export interface Span { startMs: number; endMs: number }
+export interface Span {
+  startMs: number
+  endMs: number
+}
 
 /** Most bookings running at the same moment within `slot`. */
 export function peakOverlap(bookings: Span[], slot: Span): number {
@@ -27,7 +30,11 @@ export function overlaps(a: Span, b: Span): boolean {
   return a.startMs < b.endMs && b.startMs < a.endMs
 }
 
-export interface SessionLoad extends Span { id: number; chairs: number; bookings: Span[] }
+export interface SessionLoad extends Span {
+  id: number
+  chairs: number
+  bookings: Span[]
+}
 
 /** Offered start times step through a session on this grid. */
 export const SLOT_STEP_MIN = 15
@@ -36,7 +43,13 @@ export const SLOT_STEP_MIN = 15
  * The first free starts for a visit of `durationMin`, from `notBeforeMs` on, across the given
  * sessions (in time order); `busy` are the patient's own other visits, which must not clash.
  */
-export function freeSlots(sessions: SessionLoad[], durationMin: number, notBeforeMs: number, busy: Span[], limit = 3): { sessionId: number; startMs: number; endMs: number }[] {
+export function freeSlots(
+  sessions: SessionLoad[],
+  durationMin: number,
+  notBeforeMs: number,
+  busy: Span[],
+  limit = 3,
+): { sessionId: number; startMs: number; endMs: number }[] {
   const out: { sessionId: number; startMs: number; endMs: number }[] = []
   const len = durationMin * 60_000
   for (const s of sessions) {

@@ -11,7 +11,14 @@ function parts(instant: Date, timeZone: string): Record<string, number> {
   let fmt = formatters.get(timeZone)
   if (!fmt) {
     fmt = new Intl.DateTimeFormat('en-GB', {
-      timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
+      timeZone,
+      hourCycle: 'h23',
+      year: 'numeric',
+      month: '2-digit',
+      day: '2-digit',
+      hour: '2-digit',
+      minute: '2-digit',
+      second: '2-digit',
     })
     formatters.set(timeZone, fmt)
   }

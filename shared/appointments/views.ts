@@ -56,10 +56,16 @@ export interface AppointmentView {
 }
 
 /** The e-mail queued by a booking, a move or a cancellation (null when the patient has no address). */
-export interface QueuedMessage { id: number; status: MessageStatus }
+export interface QueuedMessage {
+  id: number
+  status: MessageStatus
+}
 
 /** POST /api/appointments, PATCH /api/appointments/:id and POST /api/appointments/:id/cancel. */
-export interface BookingResult { appointment: AppointmentView; message: QueuedMessage | null }
+export interface BookingResult {
+  appointment: AppointmentView
+  message: QueuedMessage | null
+}
 
 /** One infusion session, in the clinic's wall-clock time, with how many chairs are taken. */
 export interface InfusionSessionView {
@@ -79,7 +85,14 @@ export interface InfusionSessionView {
 }
 
 /** One free slot the server offers with a full-session refusal (README: error.details.suggestions). */
-export interface SlotSuggestion { sessionId: number; startsAt: string; endsAt: string; date: string; time: string; location: string }
+export interface SlotSuggestion {
+  sessionId: number
+  startsAt: string
+  endsAt: string
+  date: string
+  time: string
+  location: string
+}
 
 /** One patient message in the outbox (GET /api/outbox). */
 export interface OutboxRow {
@@ -112,4 +125,7 @@ export interface PatientTask {
 }
 
 /** POST /api/tasks/:id/done */
-export interface CompletedTask { id: number; status: 'done' }
+export interface CompletedTask {
+  id: number
+  status: 'done'
+}

@@ -18,4 +18,9 @@ export interface AuditRow {
 }
 
 /** GET /api/audit: one page of entries, newest first. */
-export interface AuditPage { rows: AuditRow[]; total: number; page: number; pageSize: number }
+export interface AuditPage {
+  rows: AuditRow[]
+  total: number
+  page: number
+  pageSize: number
+}

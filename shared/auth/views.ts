@@ -17,11 +17,12 @@ export type DirectoryRefusal = (typeof DIRECTORY_REFUSALS)[number]
 
 /** POST /api/auth/login and POST /api/auth/login/second-factor. */
 export type SignInAnswer =
-  | { user: SessionUser; csrfToken: string; secondFactorEnrolmentRequired?: boolean }
-  | { secondFactorRequired: true; csrfToken: string }
+  { user: SessionUser; csrfToken: string; secondFactorEnrolmentRequired?: boolean } | { secondFactorRequired: true; csrfToken: string }
 
 /** POST /api/auth/logout: where to send the browser to end the directory session too. */
-export interface SignOutAnswer { endSessionUrl: string | null }
+export interface SignOutAnswer {
+  endSessionUrl: string | null
+}
 
 /** POST /api/auth/second-factor/enrolment: shown once, while enrolling. */
 export interface SecondFactorEnrolment {
@@ -32,13 +33,24 @@ export interface SecondFactorEnrolment {
 }
 
 /** POST /api/auth/second-factor/enrolment/confirm: the recovery codes, shown this once only. */
-export interface SecondFactorEnrolled { recoveryCodes: string[] }
+export interface SecondFactorEnrolled {
+  recoveryCodes: string[]
+}
 
 /** GET /api/auth/second-factor */
-export interface SecondFactorStatus { enabled: boolean; recoveryCodesLeft: number; required: boolean }
+export interface SecondFactorStatus {
+  enabled: boolean
+  recoveryCodesLeft: number
+  required: boolean
+}
 
 /** POST /api/auth/password: every other session ended; this one continues under a new token. */
-export interface PasswordChanged { user: SessionUser; csrfToken: string }
+export interface PasswordChanged {
+  user: SessionUser
+  csrfToken: string
+}
 
 /** GET /api/auth/csrf: the token every write sends back in its X-CSRF-Token header. */
-export interface CsrfTokenAnswer { csrfToken: string }
+export interface CsrfTokenAnswer {
+  csrfToken: string
+}

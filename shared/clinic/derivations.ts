@@ -7,7 +7,11 @@ import { ageOn } from '../pathway/dates'
  */
 const round1 = (n: number) => Math.round(n * 10) / 10
 
-export interface SampleRow { id: number; analyte: string; valueCanonical: number }
+export interface SampleRow {
+  id: number
+  analyte: string
+  valueCanonical: number
+}
 
 /**
  * TSAT from serum iron and transferrin (or TIBC) of one sample, unless the lab reported a TSAT

@@ -3,7 +3,10 @@ import { dateInZone, daysBetween } from '../pathway/dates'
 import { recentIronStatus, type IronStudies, type RecentIronStatus } from './ironStudies'
 import { FALLING_HB_MARGIN_GL, NON_RESPONSE, RECHECK_MIN_DAYS_AFTER_DOSE } from './rules'
 
-export interface MeasuredHb { takenAt: Date | string; hbGL: number }
+export interface MeasuredHb {
+  takenAt: Date | string
+  hbGL: number
+}
 
 export interface TreatmentGiven {
   kind: 'iv' | 'oral'
@@ -59,7 +62,11 @@ export function gatherEvidence(e: EvidenceInput): Evidence {
   const hbRecent = latest !== null && latest.ageDays <= e.resultMaxAgeDays
   const iron: Pick<RecentIronStatus, 'status' | 'need' | 'tooOld'> = e.ironStudies
     ? recentIronStatus(e.ironStudies, e.today, e.timeZone, e.ironStudiesMaxAgeDays ?? e.resultMaxAgeDays)
-    : { status: e.ironStatus, tooOld: [], need: e.ironStatus === null ? 'iron-studies' : e.ironStatus === 'indeterminate' ? 'tsat-or-crp' : 'ok' }
+    : {
+        status: e.ironStatus,
+        tooOld: [],
+        need: e.ironStatus === null ? 'iron-studies' : e.ironStatus === 'indeterminate' ? 'tsat-or-crp' : 'ok',
+      }
   const ironKnown = iron.need === 'ok'
 
   const { baseline, recheck, nonResponse, falling } = responseToIron(days, e.treatment, e.timeZone)
@@ -71,7 +78,11 @@ export function gatherEvidence(e: EvidenceInput): Evidence {
   return { latest, hbRecent, ironKnown, ironStudiesTooOld: iron.tooOld, baseline, recheck, nonResponse, falling, missing }
 }
 
-interface HbDay { hbGL: number; ms: number; date: string }
+interface HbDay {
+  hbGL: number
+  ms: number
+  date: string
+}
 
 function onClinicDays(hb: readonly MeasuredHb[], timeZone: string): HbDay[] {
   return hb.map((h) => ({ hbGL: h.hbGL, ms: +new Date(h.takenAt), date: dateInZone(h.takenAt, timeZone) })).sort((a, b) => a.ms - b.ms)
@@ -105,7 +116,8 @@ function responseToIron(days: HbDay[], treatment: TreatmentGiven | null, timeZon
   const lastPost = post[post.length - 1]
   // Without a pre-treatment value, the first Hb after the dose is the reference.
   const reference = b ?? (post.length > 1 ? post[0] : undefined)
-  const falling = lastPost !== undefined && reference !== undefined && lastPost !== reference && lastPost.hbGL <= reference.hbGL - FALLING_HB_MARGIN_GL
+  const falling =
+    lastPost !== undefined && reference !== undefined && lastPost !== reference && lastPost.hbGL <= reference.hbGL - FALLING_HB_MARGIN_GL
   let nonResponse = false
   if (treatment.kind === 'iv' && baseline) {
     const late = post.filter((h) => daysBetween(firstDate, h.date) >= NON_RESPONSE.afterDays)

@@ -2,10 +2,17 @@ import { classifyIronStatus, type IronStatus } from '../clinical'
 import { dateInZone, daysBetween } from '../pathway/dates'
 
 /** One iron-study value as measured: canonical unit (µg/L, %, mg/L) and when the sample was taken. */
-export interface TakenValue { value: number; takenAt: Date | string }
+export interface TakenValue {
+  value: number
+  takenAt: Date | string
+}
 
 /** The latest ferritin, TSAT and CRP on the episode, each with its own sample time. */
-export interface IronStudies { ferritin?: TakenValue; tsat?: TakenValue; crp?: TakenValue }
+export interface IronStudies {
+  ferritin?: TakenValue
+  tsat?: TakenValue
+  crp?: TakenValue
+}
 
 export interface RecentIronStatus {
   /** Iron status from the recent values only; null when no recent ferritin exists. */

@@ -1,7 +1,18 @@
 import {
-  allowableBloodLoss, bsaMosteller, classifyAnaemia, hbAfterIsovolaemicLoss, isIronDeficient, patientBloodVolume,
-  oxygenContent, oxygenDelivery, projectHb, redCellTransfusionNeed, HCT_FROM_HB_ASSUMPTION,
-  type HbMeasurement, type IronStatus, type Sex,
+  allowableBloodLoss,
+  bsaMosteller,
+  classifyAnaemia,
+  hbAfterIsovolaemicLoss,
+  isIronDeficient,
+  patientBloodVolume,
+  oxygenContent,
+  oxygenDelivery,
+  projectHb,
+  redCellTransfusionNeed,
+  HCT_FROM_HB_ASSUMPTION,
+  type HbMeasurement,
+  type IronStatus,
+  type Sex,
 } from '../clinical'
 import type { ClinicSettings } from './settings'
 import { TRIGGER_SOURCES } from './settings'
@@ -22,7 +33,14 @@ export interface ProjectionInputs {
   weightKg: number
   hbMeasurements: HbMeasurement[]
   treatment: TreatmentGiven | null
-  procedure: { code: string; name: string; expectedBloodLossMl: number; usualBloodOrder: string; usualUnits: number; transfusionRate: number | null }
+  procedure: {
+    code: string
+    name: string
+    expectedBloodLossMl: number
+    usualBloodOrder: string
+    usualUnits: number
+    transfusionRate: number | null
+  }
   priority: string
   cardiovascularDisease: boolean
   ironStatus: IronStatus | null
@@ -40,10 +58,21 @@ export interface ProjectionInputs {
   cardiacOutputLMin: number | null
 }
 
-export interface OxygenPoint { hbGL: number; cao2MlDl: number; do2MlMin: number }
+export interface OxygenPoint {
+  hbGL: number
+  cao2MlDl: number
+  do2MlMin: number
+}
 
 export interface Projection {
-  inputs: ProjectionInputs & { cardiacOutputLMin: number; triggerHbGL: number; settings: Pick<ClinicSettings, 'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL' | 'resultMaxAgeDays' | 'ironStudiesMaxAgeDays'> }
+  inputs: ProjectionInputs & {
+    cardiacOutputLMin: number
+    triggerHbGL: number
+    settings: Pick<
+      ClinicSettings,
+      'anaemiaCriteria' | 'transfusionTriggerGL' | 'cardiovascularTriggerGL' | 'resultMaxAgeDays' | 'ironStudiesMaxAgeDays'
+    >
+  }
   methods: Record<string, string>
   bloodVolumeMl: number
   triggerHbGL: number
@@ -83,8 +112,10 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   const ebv = bv.ml
   methods.bloodVolume = bv.methodName
   if (bv.method === 'lemmens') {
-    cautions.push(`BMI ${Math.round(bv.bmi)}: blood volume is estimated for lean mass (Lemmens 2006), because fat holds little blood; the ` +
-        `allowable loss is smaller than weight-based figures would suggest.`)
+    cautions.push(
+      `BMI ${Math.round(bv.bmi)}: blood volume is estimated for lean mass (Lemmens 2006), because fat holds little blood; the ` +
+        `allowable loss is smaller than weight-based figures would suggest.`,
+    )
   }
 
   const triggerHbGL = input.cardiovascularDisease ? settings.cardiovascularTriggerGL : settings.transfusionTriggerGL
@@ -92,16 +123,24 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
 
   const measured = [...input.hbMeasurements].sort((a, b) => +new Date(a.takenAt) - +new Date(b.takenAt))
   const evidence = gatherEvidence({
-    today: input.today, timeZone: input.timeZone, hb: measured, ironStatus: input.ironStatus,
-    treatment: input.treatment, resultMaxAgeDays: settings.resultMaxAgeDays,
+    today: input.today,
+    timeZone: input.timeZone,
+    hb: measured,
+    ironStatus: input.ironStatus,
+    treatment: input.treatment,
+    resultMaxAgeDays: settings.resultMaxAgeDays,
     ...(input.ironStudies ? { ironStudies: input.ironStudies, ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays } : {}),
   })
   const currentHbGL = evidence.latest?.hbGL ?? measured[measured.length - 1]!.hbGL
   const target = input.plannedSurgeryDate > input.today ? input.plannedSurgeryDate : input.today
   const t = input.treatment
   const hbProjection = projectHb({
-    targetDate: target, timeZone: input.timeZone, measurements: measured,
-    treatment: t ? { kind: t.kind, firstDoseDate: t.firstDoseAt, totalMg: t.totalMg, ...(t.deficitMg ? { deficitMg: t.deficitMg } : {}) } : undefined,
+    targetDate: target,
+    timeZone: input.timeZone,
+    measurements: measured,
+    treatment: t
+      ? { kind: t.kind, firstDoseDate: t.firstDoseAt, totalMg: t.totalMg, ...(t.deficitMg ? { deficitMg: t.deficitMg } : {}) }
+      : undefined,
     // Without a calculated deficit the dose cannot be weighed against the need, so no rise is assumed.
     ...(t && !t.deficitMg ? { assumption: { riseGLPerWeek: 0 } } : {}),
   })
@@ -116,8 +155,9 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     'expected-response': 'Expected response to the iron given (stated assumption, no re-check yet)',
     'latest-value': 'Latest measured Hb',
   }[hbProjection.method]
-  methods.planningHb = 'Blood order, allowable loss and the verdict use the lower of the latest measured Hb and the projection: an assumed rise ' +
-      'never lowers them'
+  methods.planningHb =
+    'Blood order, allowable loss and the verdict use the lower of the latest measured Hb and the projection: an assumed rise ' +
+    'never lowers them'
   assumptions.push(...hbProjection.assumptions)
 
   const lossMl = input.procedure.expectedBloodLossMl
@@ -129,7 +169,8 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     gross: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'gross' }),
     logarithmic: allowableBloodLoss({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, method: 'logarithmic' }),
   }
-  methods.allowableBloodLoss = `Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger, with blood ` +
+  methods.allowableBloodLoss =
+    `Gross 1983 (Anesthesiology 58:277) and logarithmic (Bourke & Smith 1974), from the planning Hb to the trigger, with blood ` +
     `volume by ${bv.method === 'lemmens' ? 'Lemmens 2006' : 'Nadler 1962'}`
 
   // A height is on record here: patientBloodVolume refuses the projection without one.
@@ -137,8 +178,10 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   let co = input.cardiacOutputLMin
   if (co == null) {
     co = settings.defaultCardiacIndexLMinM2 * bsa
-    assumptions.push(`Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface ` +
-        `area ${r2(bsa)} m² (Mosteller); edit it to recompute.`)
+    assumptions.push(
+      `Cardiac output ${r1(co)} L/min = resting cardiac index ${settings.defaultCardiacIndexLMinM2} L/min/m² × body surface ` +
+        `area ${r2(bsa)} m² (Mosteller); edit it to recompute.`,
+    )
   }
   const point = (hbGL: number): OxygenPoint => {
     const cao2 = oxygenContent({ hbGL, so2: input.saO2, po2MmHg: input.paO2MmHg })
@@ -146,20 +189,29 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
   }
   methods.oxygenContent = 'CaO2 = 1.34 × Hb (g/dL) × SaO2 + 0.003 × PaO2 (mmHg)'
   methods.oxygenDelivery = 'DO2 = cardiac output (L/min) × CaO2 × 10'
-  assumptions.push(`Arterial SaO2 ${Math.round(input.saO2 * 100)} % and PaO2 ${input.paO2MmHg} mmHg are the clinic's stated defaults (no blood ` +
-      `gas recorded).`)
+  assumptions.push(
+    `Arterial SaO2 ${Math.round(input.saO2 * 100)} % and PaO2 ${input.paO2MmHg} mmHg are the clinic's stated defaults (no blood ` +
+      `gas recorded).`,
+  )
 
   const need = redCellTransfusionNeed({ ebvMl: ebv, hbStartGL: planningHb, hbFloorGL: triggerHbGL, expectedLossMl: lossMl })
-  methods.transfusionNeed = 'Red-cell-volume method (Mercuriali & Inghilleri 1996): units = (expected red-cell loss − tolerated red-cell loss) / 200 mL per unit'
+  methods.transfusionNeed =
+    'Red-cell-volume method (Mercuriali & Inghilleri 1996): units = (expected red-cell loss − tolerated red-cell loss) / 200 mL per unit'
   assumptions.push(HCT_FROM_HB_ASSUMPTION)
   const bloodOrder = decideBloodOrder({
     calculatedUnits: need.units,
-    procedure: { name: input.procedure.name, usualBloodOrder: input.procedure.usualBloodOrder, usualUnits: input.procedure.usualUnits, transfusionRate: input.procedure.transfusionRate },
+    procedure: {
+      name: input.procedure.name,
+      usualBloodOrder: input.procedure.usualBloodOrder,
+      usualUnits: input.procedure.usualUnits,
+      transfusionRate: input.procedure.transfusionRate,
+    },
     antibodiesPositive: input.antibodiesPositive,
     declinesTransfusion: input.declinesTransfusion,
   })
-  methods.bloodOrder = 'The largest order any rule asks for: red-cell-volume estimate, the catalogue order, the catalogue transfusion rate, a ' +
-      'positive antibody screen; a recorded refusal of transfusion overrides all'
+  methods.bloodOrder =
+    'The largest order any rule asks for: red-cell-volume estimate, the catalogue order, the catalogue transfusion rate, a ' +
+    'positive antibody screen; a recorded refusal of transfusion overrides all'
 
   const rule = classifyAnaemia({ hbGL: planningHb, sex: input.sex, criteria: settings.anaemiaCriteria })
   const readiness = readinessVerdict({
@@ -180,8 +232,16 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
 
   return {
     inputs: {
-      ...input, cardiacOutputLMin: r2(co), triggerHbGL,
-      settings: { anaemiaCriteria: settings.anaemiaCriteria, transfusionTriggerGL: settings.transfusionTriggerGL, cardiovascularTriggerGL: settings.cardiovascularTriggerGL, resultMaxAgeDays: settings.resultMaxAgeDays, ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays },
+      ...input,
+      cardiacOutputLMin: r2(co),
+      triggerHbGL,
+      settings: {
+        anaemiaCriteria: settings.anaemiaCriteria,
+        transfusionTriggerGL: settings.transfusionTriggerGL,
+        cardiovascularTriggerGL: settings.cardiovascularTriggerGL,
+        resultMaxAgeDays: settings.resultMaxAgeDays,
+        ironStudiesMaxAgeDays: settings.ironStudiesMaxAgeDays,
+      },
     },
     methods,
     bloodVolumeMl: r0(ebv),
@@ -194,7 +254,12 @@ export function buildProjection(input: ProjectionInputs, settings: ClinicSetting
     allowableBloodLossMl: { gross: r0(abl.gross), logarithmic: r0(abl.logarithmic) },
     expectedBloodLossMl: lossMl,
     oxygen: { today: point(currentHbGL), surgeryDay: point(planningHb), postOp: point(postOpHb) },
-    transfusionNeed: { toleratedRedCellMl: r0(need.toleratedRedCellMl), expectedRedCellLossMl: r0(need.expectedRedCellLossMl), deficitMl: r0(need.deficitMl), units: need.units },
+    transfusionNeed: {
+      toleratedRedCellMl: r0(need.toleratedRedCellMl),
+      expectedRedCellLossMl: r0(need.expectedRedCellLossMl),
+      deficitMl: r0(need.deficitMl),
+      units: need.units,
+    },
     bloodOrder,
     readiness,
     assumptions,

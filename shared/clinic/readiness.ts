@@ -17,7 +17,14 @@ export const VERDICT_LABELS: Record<Verdict, string> = {
 export type BloodOrderKind = 'group-and-screen' | 'crossmatch'
 
 /** Concerns the verdict raises beside its reasons; each is also shown as a tag. */
-export const READINESS_FLAGS = ['no-response-to-iron', 'hb-falling', 'red-cell-antibodies', 'declines-transfusion', 'result-too-old', 'iron-studies-too-old'] as const
+export const READINESS_FLAGS = [
+  'no-response-to-iron',
+  'hb-falling',
+  'red-cell-antibodies',
+  'declines-transfusion',
+  'result-too-old',
+  'iron-studies-too-old',
+] as const
 export type ReadinessFlag = (typeof READINESS_FLAGS)[number]
 
 export const READINESS_FLAG_LABELS: Record<ReadinessFlag, string> = {
@@ -30,5 +37,5 @@ export const READINESS_FLAG_LABELS: Record<ReadinessFlag, string> = {
 }
 
 export const DECISION_SUPPORT_CAUTION =
-  'Decision support only: check doses, projections and blood orders against local protocols and the product\'s prescribing ' +
+  "Decision support only: check doses, projections and blood orders against local protocols and the product's prescribing " +
   'information. The licensed clinical team decides.'

@@ -1,10 +1,17 @@
 import { ironResponse, type MeasuredHb, type TreatmentGiven } from './evidence'
 
 /** One recorded dose of an episode's course, oldest first, as the worklist's response flags read it. */
-export interface DoseGiven { givenAt: Date | string; doseMg: number; route: 'iv' | 'oral' | null }
+export interface DoseGiven {
+  givenAt: Date | string
+  doseMg: number
+  route: 'iv' | 'oral' | null
+}
 
 /** The two response flags kept on the referral row (columns no_response_to_iron, hb_falling_after_iron). */
-export interface ResponseFlags { noResponseToIron: boolean; hbFallingAfterIron: boolean }
+export interface ResponseFlags {
+  noResponseToIron: boolean
+  hbFallingAfterIron: boolean
+}
 
 /**
  * The course given so far, as the verdict's evidence reads it: the first dose's route names the
@@ -13,8 +20,11 @@ export interface ResponseFlags { noResponseToIron: boolean; hbFallingAfterIron: 
 export function treatmentFromDoses(doses: readonly DoseGiven[]): TreatmentGiven | null {
   if (!doses.length) return null
   return {
-    kind: doses[0]!.route ?? 'iv', firstDoseAt: doses[0]!.givenAt, lastDoseAt: doses[doses.length - 1]!.givenAt,
-    totalMg: doses.reduce((s, d) => s + d.doseMg, 0), deficitMg: null,
+    kind: doses[0]!.route ?? 'iv',
+    firstDoseAt: doses[0]!.givenAt,
+    lastDoseAt: doses[doses.length - 1]!.givenAt,
+    totalMg: doses.reduce((s, d) => s + d.doseMg, 0),
+    deficitMg: null,
   }
 }
 

@@ -10,7 +10,7 @@
  * asks for work-up results no older than 3 months (secondary source only, clinical reference
  * §11), so the screen says local policy.
  */
-export const RESULT_AGE_BASIS = 'local policy (results no older than the clinic\'s stated limit)'
+export const RESULT_AGE_BASIS = "local policy (results no older than the clinic's stated limit)"
 
 /**
  * A re-check counts once it is at least this many days after the last dose: a rise needs
@@ -50,6 +50,8 @@ export const CROSSMATCH_TRANSFUSION_RATE = 0.3
  */
 export const DECLINES_TARGET_UPLIFT_GL = 10
 
-export const TXA_BASIS = 'NICE NG24 (2015) and quality standard QS138 statement 2: offer tranexamic acid to adults having surgery expected to lose ' +
-    'more than 500 mL'
-export const CELL_SALVAGE_BASIS = 'NICE NG24 (2015): consider intra-operative cell salvage with tranexamic acid where a very high blood loss is expected'
+export const TXA_BASIS =
+  'NICE NG24 (2015) and quality standard QS138 statement 2: offer tranexamic acid to adults having surgery expected to lose ' +
+  'more than 500 mL'
+export const CELL_SALVAGE_BASIS =
+  'NICE NG24 (2015): consider intra-operative cell salvage with tranexamic acid where a very high blood loss is expected'

@@ -1,6 +1,11 @@
 import {
-  classifyAnaemia, classifyIronStatus, isIronDeficient,
-  type AnaemiaCriteria, type AnaemiaSeverity, type IronStatus, type Sex,
+  classifyAnaemia,
+  classifyIronStatus,
+  isIronDeficient,
+  type AnaemiaCriteria,
+  type AnaemiaSeverity,
+  type IronStatus,
+  type Sex,
 } from '../clinical'
 import type { Stage } from '../pathway/stages'
 import type { IronStudies } from './ironStudies'
@@ -65,7 +70,8 @@ export function latestFromRows(rows: readonly { analyte: string; valueCanonical:
 export function ironStudiesFromRows(rows: readonly { analyte: string; valueCanonical: number; takenAt: Date }[]): IronStudies {
   const out: IronStudies = {}
   for (const r of rows) {
-    if (r.analyte === 'ferritin' || r.analyte === 'tsat' || r.analyte === 'crp') out[r.analyte] ??= { value: r.valueCanonical, takenAt: r.takenAt }
+    if (r.analyte === 'ferritin' || r.analyte === 'tsat' || r.analyte === 'crp')
+      out[r.analyte] ??= { value: r.valueCanonical, takenAt: r.takenAt }
   }
   return out
 }

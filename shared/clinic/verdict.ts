@@ -45,14 +45,18 @@ function missingText(v: VerdictInput): string[] {
       case 'recent-hb':
         return e.latest
           ? `Needs a recent Hb: the latest (${g(e.latest.hbGL)}, ${e.latest.date}) is ${e.latest.ageDays} days old; results count ` +
-            `for ${v.resultMaxAgeDays} days (local policy).`
+              `for ${v.resultMaxAgeDays} days (local policy).`
           : 'Needs a recent Hb: none is recorded.'
       case 'iron-studies':
         return 'Needs iron studies: ferritin with TSAT or CRP.'
       case 'recent-iron-studies': {
-        const old = e.ironStudiesTooOld.map((o) => `${o.analyte === 'ferritin' ? 'ferritin' : o.analyte.toUpperCase()} of ${o.date} (${o.ageDays} days old)`).join(', ')
-        return `Needs recent iron studies: ${old || 'the iron studies on record are too old'}; iron studies count for ` +
+        const old = e.ironStudiesTooOld
+          .map((o) => `${o.analyte === 'ferritin' ? 'ferritin' : o.analyte.toUpperCase()} of ${o.date} (${o.ageDays} days old)`)
+          .join(', ')
+        return (
+          `Needs recent iron studies: ${old || 'the iron studies on record are too old'}; iron studies count for ` +
           `${v.ironStudiesMaxAgeDays} days (local policy), so the iron status is unresolved.`
+        )
       }
       case 'tsat-or-crp':
         return 'Needs TSAT or CRP: ferritin alone leaves the iron status unresolved (a functional deficiency is not excluded).'
@@ -83,25 +87,31 @@ export function readinessVerdict(v: VerdictInput): ReadinessVerdict {
   const lossBeyondTolerance = v.expectedLossMl > v.allowableLossMl
 
   if (measured !== null) {
-    reasons.push(measuredBelow
-      ? `Latest measured Hb ${g(measured)} (${e.latest!.date}) is below the ${g(target)} target.`
-      : `Latest measured Hb ${g(measured)} (${e.latest!.date}) is at or above the ${g(target)} target.`)
+    reasons.push(
+      measuredBelow
+        ? `Latest measured Hb ${g(measured)} (${e.latest!.date}) is below the ${g(target)} target.`
+        : `Latest measured Hb ${g(measured)} (${e.latest!.date}) is at or above the ${g(target)} target.`,
+    )
   }
   if (v.projectionAssumesRise) {
-    reasons.push(`Projected surgery-day Hb ${g(v.projectedSurgeryHbGL)} includes an assumed response to iron; it is not evidence until a ` +
-        `re-check measures it, so it does not clear the patient or lower the blood order.`)
+    reasons.push(
+      `Projected surgery-day Hb ${g(v.projectedSurgeryHbGL)} includes an assumed response to iron; it is not evidence until a ` +
+        `re-check measures it, so it does not clear the patient or lower the blood order.`,
+    )
   } else if (Math.abs(v.projectedSurgeryHbGL - (measured ?? 0)) >= 0.5) {
     reasons.push(`Projected surgery-day Hb ${g(v.projectedSurgeryHbGL)} from the measured trend.`)
   }
   if (v.declinesTransfusion) {
     flags.push('declines-transfusion')
-    reasons.push(`The patient declines transfusion: the target is raised to ${g(target)} (anaemia threshold + ${DECLINES_TARGET_UPLIFT_GL} ` +
-        `g/L, local policy).`)
+    reasons.push(
+      `The patient declines transfusion: the target is raised to ${g(target)} (anaemia threshold + ${DECLINES_TARGET_UPLIFT_GL} ` +
+        `g/L, local policy).`,
+    )
     plan.push(
       `Optimise Hb to at least ${g(target)} before surgery, starting early; treat iron deficiency promptly.`,
       `Cell salvage: ask whether the patient accepts it and book it for theatre (${CELL_SALVAGE_BASIS}).`,
       `Tranexamic acid: plan it unless contraindicated (${TXA_BASIS}).`,
-      'Keep blood sampling to the minimum, and record the patient\'s decision on which products and procedures they accept (local policy).',
+      "Keep blood sampling to the minimum, and record the patient's decision on which products and procedures they accept (local policy).",
     )
   }
   if (v.antibodiesPositive) {
@@ -113,18 +123,24 @@ export function readinessVerdict(v: VerdictInput): ReadinessVerdict {
   if (v.ironDeficientUntreated) reasons.push('Iron deficiency found at screening and no iron treatment is recorded.')
   if (e.nonResponse) {
     flags.push('no-response-to-iron')
-    reasons.push(`No response to IV iron: Hb rose less than ${NON_RESPONSE.minRiseGL} g/L (from ${g(e.baseline!.hbGL)}) by 4 weeks or more ` +
-        `after the first dose (${NON_RESPONSE.basis}). Review the diagnosis, ongoing blood loss and other causes.`)
+    reasons.push(
+      `No response to IV iron: Hb rose less than ${NON_RESPONSE.minRiseGL} g/L (from ${g(e.baseline!.hbGL)}) by 4 weeks or more ` +
+        `after the first dose (${NON_RESPONSE.basis}). Review the diagnosis, ongoing blood loss and other causes.`,
+    )
   }
   if (e.falling) {
     flags.push('hb-falling')
-    reasons.push(`Hb is falling after iron: the latest value is ${g(e.latest!.hbGL)}, below the value before treatment. Look for ongoing ` +
-        `blood loss or another cause before surgery.`)
+    reasons.push(
+      `Hb is falling after iron: the latest value is ${g(e.latest!.hbGL)}, below the value before treatment. Look for ongoing ` +
+        `blood loss or another cause before surgery.`,
+    )
   }
-  reasons.push(lossBeyondTolerance
-    ? `The operation's usual loss (${v.expectedLossMl} mL) is more than this patient can lose before reaching the trigger ` +
-        `(${v.allowableLossMl} mL).`
-    : `The operation's usual loss (${v.expectedLossMl} mL) is within the loss this patient can tolerate (${v.allowableLossMl} mL).`)
+  reasons.push(
+    lossBeyondTolerance
+      ? `The operation's usual loss (${v.expectedLossMl} mL) is more than this patient can lose before reaching the trigger ` +
+          `(${v.allowableLossMl} mL).`
+      : `The operation's usual loss (${v.expectedLossMl} mL) is within the loss this patient can tolerate (${v.allowableLossMl} mL).`,
+  )
   reasons.push(`Blood order decided by: ${v.bloodOrder.decidedBy}`)
 
   const missing = missingText(v)
@@ -132,7 +148,9 @@ export function readinessVerdict(v: VerdictInput): ReadinessVerdict {
 
   if (e.falling) {
     if (routine) {
-      reasons.push('Routine operation with a falling Hb: consider postponing until the cause is found (ESA guideline, Kozek-Langenecker 2017).')
+      reasons.push(
+        'Routine operation with a falling Hb: consider postponing until the cause is found (ESA guideline, Kozek-Langenecker 2017).',
+      )
       return done('consider-deferral')
     }
     reasons.push('Not a routine operation: find the cause of the fall within the time available rather than postpone.')
@@ -140,8 +158,10 @@ export function readinessVerdict(v: VerdictInput): ReadinessVerdict {
   }
   const worstHb = Math.min(v.projectedSurgeryHbGL, measured ?? v.projectedSurgeryHbGL)
   if (routine && projectedBelow && (v.projectedSurgeryHbGL < DEFERRAL_HB_GL || lossBeyondTolerance)) {
-    reasons.push(`Routine operation, still anaemic on the day (below ${DEFERRAL_HB_GL} g/L, local policy, or the usual loss beyond ` +
-        `tolerance): consider postponing until the anaemia is corrected (ESA guideline, Kozek-Langenecker 2017).`)
+    reasons.push(
+      `Routine operation, still anaemic on the day (below ${DEFERRAL_HB_GL} g/L, local policy, or the usual loss beyond ` +
+        `tolerance): consider postponing until the anaemia is corrected (ESA guideline, Kozek-Langenecker 2017).`,
+    )
     return done('consider-deferral')
   }
   if (measuredBelow || projectedBelow || v.ironDeficientUntreated || e.nonResponse) {

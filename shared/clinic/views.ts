@@ -27,15 +27,25 @@ export interface ClinicReviewView {
 }
 
 /** POST /api/referrals/:id/reviews: the review and the episode's new version. */
-export interface RecordedReview { review: ClinicReviewView; version: number }
+export interface RecordedReview {
+  review: ClinicReviewView
+  version: number
+}
 
 /** POST /api/referrals/:id/dose-plan: the plan a prescription would follow, not yet stored. */
 export interface DosePlanPreview {
   product: IronProduct
   productSource: string
   inputs: {
-    weightKg: number; weightMeasuredAt: string | null; heightCm: number | null; ageYears: number; hbGL: number; hbTakenAt: string | null
-    targetHbGL: number; firstDoseDate: string; plannedSurgeryDate: string
+    weightKg: number
+    weightMeasuredAt: string | null
+    heightCm: number | null
+    ageYears: number
+    hbGL: number
+    hbTakenAt: string | null
+    targetHbGL: number
+    firstDoseDate: string
+    plannedSurgeryDate: string
   }
   plan: IronDosePlan
   /** A repeat course of a product that needs a serum phosphate first. */
@@ -69,7 +79,10 @@ export interface PrescriptionView {
 }
 
 /** POST /api/referrals/:id/prescriptions */
-export interface RecordedPrescription { prescription: PrescriptionView; version: number }
+export interface RecordedPrescription {
+  prescription: PrescriptionView
+  version: number
+}
 
 export type Reaction = 'none' | 'mild' | 'moderate' | 'severe'
 

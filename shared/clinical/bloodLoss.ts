@@ -13,12 +13,7 @@ export type AllowableLossMethod = 'gross' | 'logarithmic'
  *
  * Returns 0 when the start is at or below the floor: there is no loss to allow.
  */
-export function allowableBloodLoss(input: {
-  ebvMl: number
-  hbStartGL: number
-  hbFloorGL: number
-  method?: AllowableLossMethod
-}): number {
+export function allowableBloodLoss(input: { ebvMl: number; hbStartGL: number; hbFloorGL: number; method?: AllowableLossMethod }): number {
   const ebv = requireInRange('ebvMl', input.ebvMl, CLINICAL_LIMITS.ebvMl)
   const hi = requireInRange('hbStartGL', input.hbStartGL, CLINICAL_LIMITS.hbGL)
   const hf = requireInRange('hbFloorGL', input.hbFloorGL, CLINICAL_LIMITS.hbGL)
@@ -30,7 +25,7 @@ export function allowableBloodLoss(input: {
 /** Stated with every red-cell-volume figure, because the haematocrit is not measured. */
 export const HCT_FROM_HB_ASSUMPTION =
   'Haematocrit estimated from Hb as Hct ≈ Hb (g/dL) × 3 / 100, i.e. Hb (g/L) × 0.003 (common practice, no single source); a ' +
-    'measured haematocrit is better.'
+  'measured haematocrit is better.'
 
 export const DEFAULT_UNIT_RED_CELL_ML = 200
 

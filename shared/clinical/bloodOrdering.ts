@@ -46,8 +46,12 @@ export function suggestBloodOrder(
   const ct = crossmatchToTransfusionRatio(c)
   if (current.order === 'crossmatch') {
     if (ti !== null && tp !== null && ti < CROSSMATCH_JUSTIFIED_TI && tp < LOW_TRANSFUSION_PROBABILITY_PERCENT) {
-      return { suggestion: 'group-and-screen', reason: `TI ${ti.toFixed(2)} < ${CROSSMATCH_JUSTIFIED_TI} and T% ${tp.toFixed(0)} < ${LOW_TRANSFUSION_PROBABILITY_PERCENT}: ` +
-          `crossmatching is not justified` }
+      return {
+        suggestion: 'group-and-screen',
+        reason:
+          `TI ${ti.toFixed(2)} < ${CROSSMATCH_JUSTIFIED_TI} and T% ${tp.toFixed(0)} < ${LOW_TRANSFUSION_PROBABILITY_PERCENT}: ` +
+          `crossmatching is not justified`,
+      }
     }
     if (ct !== null && ct > ACCEPTABLE_CT_RATIO) {
       return { suggestion: 'fewer-units', reason: `C:T ${ct.toFixed(2)} > ${ACCEPTABLE_CT_RATIO}: fewer units per crossmatch` }
@@ -56,7 +60,10 @@ export function suggestBloodOrder(
       return { suggestion: 'group-and-screen', reason: 'No crossmatched unit was transfused' }
     }
   } else if (c.patients > 0 && (100 * c.patientsTransfusedAll) / c.patients >= LOW_TRANSFUSION_PROBABILITY_PERCENT) {
-    return { suggestion: 'crossmatch', reason: `${((100 * c.patientsTransfusedAll) / c.patients).toFixed(0)}% of patients were transfused on a group-and-screen order` }
+    return {
+      suggestion: 'crossmatch',
+      reason: `${((100 * c.patientsTransfusedAll) / c.patients).toFixed(0)}% of patients were transfused on a group-and-screen order`,
+    }
   }
   return { suggestion: 'keep', reason: 'The audit agrees with the current order' }
 }

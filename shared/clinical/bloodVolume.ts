@@ -42,8 +42,7 @@ export function estimatedBloodVolume(input: BloodVolumeInput): number {
     )
   }
   const hM = requireInRange('heightCm', input.heightCm, CLINICAL_LIMITS.heightCm) / 100
-  const litres =
-    sex === 'male' ? 0.3669 * hM ** 3 + 0.03219 * weightKg + 0.6041 : 0.3561 * hM ** 3 + 0.03308 * weightKg + 0.1833
+  const litres = sex === 'male' ? 0.3669 * hM ** 3 + 0.03219 * weightKg + 0.6041 : 0.3561 * hM ** 3 + 0.03308 * weightKg + 0.1833
   return litres * 1000
 }
 
@@ -70,7 +69,11 @@ export function lemmensIndexedMlPerKg(bmiKgM2: number): number {
 export class BloodVolumeRefusal extends ClinicalInputError {
   readonly code = 'height_required'
   constructor() {
-    super('height', null, 'height is required to estimate blood volume (Nadler 1962, or Lemmens 2006 when BMI ≥ 30); record the patient\'s height')
+    super(
+      'height',
+      null,
+      "height is required to estimate blood volume (Nadler 1962, or Lemmens 2006 when BMI ≥ 30); record the patient's height",
+    )
   }
 }
 
@@ -94,9 +97,16 @@ export function patientBloodVolume(input: { sex: Sex; heightCm?: number | null; 
   if (bmi >= LEAN_MASS_BMI) {
     const perKg = lemmensIndexedMlPerKg(bmi)
     return {
-      ml: perKg * weightKg, method: 'lemmens', bmi,
+      ml: perKg * weightKg,
+      method: 'lemmens',
+      bmi,
       methodName: `Lemmens 2006 (Obes Surg 16:773): ${Math.round(perKg)} mL/kg at BMI ${Math.round(bmi)}, because BMI ≥ ${LEAN_MASS_BMI}`,
     }
   }
-  return { ml: estimatedBloodVolume({ sex: input.sex, heightCm, weightKg, method: 'nadler' }), method: 'nadler', bmi, methodName: 'Nadler 1962 (Surgery 51:224), from height, weight and sex' }
+  return {
+    ml: estimatedBloodVolume({ sex: input.sex, heightCm, weightKg, method: 'nadler' }),
+    method: 'nadler',
+    bmi,
+    methodName: 'Nadler 1962 (Surgery 51:224), from height, weight and sex',
+  }
 }

@@ -49,21 +49,44 @@ function checkBands(kind: 'Weight' | 'Hb', key: string, bands: unknown, limit: {
       problems.push({ path: at(i, 'from'), message: `${name}: the lower bound must be a number from 0 to ${limit.max} ${unit}` })
       return
     }
-    if (i === 0 && b.from !== 0) problems.push({ path: at(i, 'from'), message: `${name}: the first band must start at 0 ${unit}, so that every patient falls in a band` })
-    if (last && b.below != null) problems.push({ path: at(i, 'below'), message: `${name}: the last band must have no upper bound (it runs from ${show(b.from)} ${unit} up)` })
+    if (i === 0 && b.from !== 0)
+      problems.push({
+        path: at(i, 'from'),
+        message: `${name}: the first band must start at 0 ${unit}, so that every patient falls in a band`,
+      })
+    if (last && b.below != null)
+      problems.push({
+        path: at(i, 'below'),
+        message: `${name}: the last band must have no upper bound (it runs from ${show(b.from)} ${unit} up)`,
+      })
     if (!last) {
       if (!num(b.below) || b.below > limit.max) {
-        problems.push({ path: at(i, 'below'), message: `${name}: give an upper bound up to ${limit.max} ${unit} (only the last band is open)` })
+        problems.push({
+          path: at(i, 'below'),
+          message: `${name}: give an upper bound up to ${limit.max} ${unit} (only the last band is open)`,
+        })
         return
       }
-      if (b.below <= b.from) problems.push({ path: at(i, 'below'), message: `${name}: the upper bound (${show(b.below)} ${unit}) must be above the lower bound (${show(b.from)} ${unit})` })
+      if (b.below <= b.from)
+        problems.push({
+          path: at(i, 'below'),
+          message: `${name}: the upper bound (${show(b.below)} ${unit}) must be above the lower bound (${show(b.from)} ${unit})`,
+        })
       const next = (bands[i + 1] ?? {}) as Partial<DosingBand>
       if (num(next.from) && next.from > b.below) {
-        problems.push({ path: at(i + 1, 'from'), message: `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit} but band ${i + 1} ends below ${show(b.below)} ${unit}, a ` +
-            `gap from ${show(b.below)} to ${show(next.from)} ${unit}` })
+        problems.push({
+          path: at(i + 1, 'from'),
+          message:
+            `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit} but band ${i + 1} ends below ${show(b.below)} ${unit}, a ` +
+            `gap from ${show(b.below)} to ${show(next.from)} ${unit}`,
+        })
       } else if (num(next.from) && next.from < b.below) {
-        problems.push({ path: at(i + 1, 'from'), message: `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit}, inside band ${i + 1} (which runs below ${show(b.below)} ` +
-            `${unit}): the bands overlap` })
+        problems.push({
+          path: at(i + 1, 'from'),
+          message:
+            `${kind} band ${i + 2}: starts at ${show(next.from)} ${unit}, inside band ${i + 1} (which runs below ${show(b.below)} ` +
+            `${unit}): the bands overlap`,
+        })
       }
     }
   })
@@ -82,18 +105,25 @@ export function dosingTableProblems(draft: DosingTableDraft): DosingTableProblem
   }
   if (problems.length) return problems
   const { weightBands: w, hbBands: h, needMg } = draft
-  if (!Array.isArray(needMg) || needMg.length !== h.length) return [...problems, { path: 'table.needMg', message: `The table needs ${h.length} rows (one per Hb band)` }]
+  if (!Array.isArray(needMg) || needMg.length !== h.length)
+    return [...problems, { path: 'table.needMg', message: `The table needs ${h.length} rows (one per Hb band)` }]
   h.forEach((hb, i) => {
     const row = needMg[i]
     if (!Array.isArray(row) || row.length !== w.length) {
-      problems.push({ path: `table.needMg[${i}]`, message: `Row Hb ${bandLabel(hb, 'g/L')}: give ${w.length} values (one per weight band)` })
+      problems.push({
+        path: `table.needMg[${i}]`,
+        message: `Row Hb ${bandLabel(hb, 'g/L')}: give ${w.length} values (one per weight band)`,
+      })
       return
     }
     w.forEach((wb, j) => {
       const v = row[j]
       const { min, max } = L.productMaxTotalMg
       if (!num(v) || !Number.isInteger(v) || v < min || v > max) {
-        problems.push({ path: `table.needMg[${i}][${j}]`, message: `Hb ${bandLabel(hb, 'g/L')} × weight ${bandLabel(wb, 'kg')}: the need must be a whole number from ${min} to ${max} mg` })
+        problems.push({
+          path: `table.needMg[${i}][${j}]`,
+          message: `Hb ${bandLabel(hb, 'g/L')} × weight ${bandLabel(wb, 'kg')}: the need must be a whole number from ${min} to ${max} mg`,
+        })
       }
     })
   })
@@ -114,5 +144,10 @@ const toBands = (edges: number[]): DosingBand[] => edges.map((from, i) => ({ fro
 
 /** The editing form of a stored table. */
 export function tableToDraft(table: IronDosingTable): DosingTableDraft {
-  return { weightBands: toBands(table.weightBandsKg), hbBands: toBands(table.hbBandsGL), needMg: table.needMg.map((row) => [...row]), source: table.source }
+  return {
+    weightBands: toBands(table.weightBandsKg),
+    hbBands: toBands(table.hbBandsGL),
+    needMg: table.needMg.map((row) => [...row]),
+    source: table.source,
+  }
 }

@@ -32,7 +32,14 @@ export {
 } from './oxygen'
 export type { OxygenContentInput } from './oxygen'
 
-export { estimatedBloodVolume, patientBloodVolume, lemmensIndexedMlPerKg, BloodVolumeRefusal, LEAN_MASS_BMI, WEIGHT_BASED_ML_PER_KG } from './bloodVolume'
+export {
+  estimatedBloodVolume,
+  patientBloodVolume,
+  lemmensIndexedMlPerKg,
+  BloodVolumeRefusal,
+  LEAN_MASS_BMI,
+  WEIGHT_BASED_ML_PER_KG,
+} from './bloodVolume'
 export type { BloodVolumeMethod, BloodVolumeInput, PatientBloodVolume } from './bloodVolume'
 
 export {
@@ -65,8 +72,13 @@ export type { HbMeasurement, HbTreatment, ResponseAssumption, HbProjection } fro
 export { hbAfterIsovolaemicLoss } from './haemodilution'
 
 export {
-  crossmatchToTransfusionRatio, transfusionProbabilityPercent, transfusionIndex, suggestBloodOrder,
-  ACCEPTABLE_CT_RATIO, CROSSMATCH_JUSTIFIED_TI, LOW_TRANSFUSION_PROBABILITY_PERCENT,
+  crossmatchToTransfusionRatio,
+  transfusionProbabilityPercent,
+  transfusionIndex,
+  suggestBloodOrder,
+  ACCEPTABLE_CT_RATIO,
+  CROSSMATCH_JUSTIFIED_TI,
+  LOW_TRANSFUSION_PROBABILITY_PERCENT,
 } from './bloodOrdering'
 export type { BloodOrderingCounts, BloodOrderSuggestion } from './bloodOrdering'
 export { ironNeed, idealBodyWeightKg, tableNeedMg, validateDosingTable, LOW_WEIGHT_TARGET_HB_GL, OBESITY_BMI } from './ironNeed'

@@ -20,12 +20,7 @@ export function ganzoniStoresMg(weightKg: number): number {
  * SmPCs suggest ideal rather than actual weight in obesity (secondary source); the caller
  * chooses which weight to pass.
  */
-export function ganzoniIronDeficit(input: {
-  weightKg: number
-  hbGL: number
-  targetHbGL: number
-  ironStoresMg?: number
-}): number {
+export function ganzoniIronDeficit(input: { weightKg: number; hbGL: number; targetHbGL: number; ironStoresMg?: number }): number {
   const weightKg = requireInRange('weightKg', input.weightKg, CLINICAL_LIMITS.weightKg)
   const hbGL = requireInRange('hbGL', input.hbGL, CLINICAL_LIMITS.hbGL)
   const targetHbGL = requireInRange('targetHbGL', input.targetHbGL, CLINICAL_LIMITS.hbGL)

@@ -18,7 +18,12 @@ export interface IronDosingTable {
 }
 
 function ascendingFromZero(name: string, bands: unknown): number[] {
-  if (!Array.isArray(bands) || bands.length < 1 || bands[0] !== 0 || bands.some((b, i) => typeof b !== 'number' || !Number.isFinite(b) || (i > 0 && b <= (bands[i - 1] as number)))) {
+  if (
+    !Array.isArray(bands) ||
+    bands.length < 1 ||
+    bands[0] !== 0 ||
+    bands.some((b, i) => typeof b !== 'number' || !Number.isFinite(b) || (i > 0 && b <= (bands[i - 1] as number)))
+  ) {
     throw new ClinicalInputError(name, bands, `${name} must be ascending lower band edges starting at 0`)
   }
   return bands as number[]
@@ -26,14 +31,24 @@ function ascendingFromZero(name: string, bands: unknown): number[] {
 
 /** Checks a dosing table's shape and values; returns it or throws ClinicalInputError. */
 export function validateDosingTable(table: IronDosingTable): IronDosingTable {
-  if (table === null || typeof table !== 'object') throw new ClinicalInputError('product.dosingTable', table, 'product.dosingTable must be a table')
+  if (table === null || typeof table !== 'object')
+    throw new ClinicalInputError('product.dosingTable', table, 'product.dosingTable must be a table')
   const w = ascendingFromZero('product.dosingTable.weightBandsKg', table.weightBandsKg)
   const h = ascendingFromZero('product.dosingTable.hbBandsGL', table.hbBandsGL)
-  if (!Array.isArray(table.needMg) || table.needMg.length !== h.length || table.needMg.some((row) => !Array.isArray(row) || row.length !== w.length)) {
-    throw new ClinicalInputError('product.dosingTable.needMg', table.needMg, `product.dosingTable.needMg must have ${h.length} rows (Hb bands) of ${w.length} values (weight bands)`)
+  if (
+    !Array.isArray(table.needMg) ||
+    table.needMg.length !== h.length ||
+    table.needMg.some((row) => !Array.isArray(row) || row.length !== w.length)
+  ) {
+    throw new ClinicalInputError(
+      'product.dosingTable.needMg',
+      table.needMg,
+      `product.dosingTable.needMg must have ${h.length} rows (Hb bands) of ${w.length} values (weight bands)`,
+    )
   }
   table.needMg.flat().forEach((v) => requireInRange('product.dosingTable.needMg', v, CLINICAL_LIMITS.productMaxTotalMg))
-  if (typeof table.source !== 'string' || table.source.trim() === '') throw new ClinicalInputError('product.dosingTable.source', table.source, 'product.dosingTable.source must name the product information')
+  if (typeof table.source !== 'string' || table.source.trim() === '')
+    throw new ClinicalInputError('product.dosingTable.source', table.source, 'product.dosingTable.source must name the product information')
   return table
 }
 
@@ -71,14 +86,26 @@ export interface IronNeed {
  * a normal weight/blood-volume relationship; iron sits in lean tissue), and target 130 g/L
  * under 35 kg (iron sucrose SmPC). Without a height, obesity cannot be judged: said so.
  */
-export function ironNeed(input: { weightKg: number; heightCm?: number | null; sex?: Sex; hbGL: number; targetHbGL: number; table?: IronDosingTable }): IronNeed {
+export function ironNeed(input: {
+  weightKg: number
+  heightCm?: number | null
+  sex?: Sex
+  hbGL: number
+  targetHbGL: number
+  table?: IronDosingTable
+}): IronNeed {
   const weightKg = requireInRange('weightKg', input.weightKg, CLINICAL_LIMITS.weightKg)
   const hbGL = requireInRange('hbGL', input.hbGL, CLINICAL_LIMITS.hbGL)
   const warnings: string[] = []
   if (input.table) {
     const table = validateDosingTable(input.table)
     return {
-      needMg: tableNeedMg(table, weightKg, hbGL), method: 'product-table', dosingWeightKg: weightKg, weightBasis: 'actual', targetHbGL: input.targetHbGL, warnings,
+      needMg: tableNeedMg(table, weightKg, hbGL),
+      method: 'product-table',
+      dosingWeightKg: weightKg,
+      weightBasis: 'actual',
+      targetHbGL: input.targetHbGL,
+      warnings,
       methodName: `Product dosing table (${table.source}) at ${weightKg} kg and Hb ${hbGL} g/L`,
     }
   }
@@ -90,7 +117,9 @@ export function ironNeed(input: { weightKg: number; heightCm?: number | null; se
     if (bmi >= OBESITY_BMI && ibw < weightKg) {
       dosingWeightKg = ibw
       weightBasis = 'ideal'
-      warnings.push(`BMI ${Math.round(bmi)} (≥ ${OBESITY_BMI}): the deficit uses ideal body weight ${ibw} kg (Devine), not the actual ${weightKg} kg.`)
+      warnings.push(
+        `BMI ${Math.round(bmi)} (≥ ${OBESITY_BMI}): the deficit uses ideal body weight ${ibw} kg (Devine), not the actual ${weightKg} kg.`,
+      )
     }
   } else if (weightKg > 100) {
     warnings.push(`No height is recorded, so obesity cannot be judged: the deficit uses the actual ${weightKg} kg. Record a height.`)
@@ -101,7 +130,12 @@ export function ironNeed(input: { weightKg: number; heightCm?: number | null; se
     warnings.push(`Under ${GANZONI_LOW_WEIGHT_KG} kg the Ganzoni target is ${LOW_WEIGHT_TARGET_HB_GL} g/L (iron sucrose SmPC 4.2).`)
   }
   return {
-    needMg: ganzoniIronDeficit({ weightKg: dosingWeightKg, hbGL, targetHbGL }), method: 'ganzoni', dosingWeightKg, weightBasis, targetHbGL, warnings,
+    needMg: ganzoniIronDeficit({ weightKg: dosingWeightKg, hbGL, targetHbGL }),
+    method: 'ganzoni',
+    dosingWeightKg,
+    weightBasis,
+    targetHbGL,
+    warnings,
     methodName: `Ganzoni 1970: ${dosingWeightKg} kg (${weightBasis} weight) × (${targetHbGL} − ${hbGL} g/L) × 0.24 + iron stores`,
   }
 }

@@ -6,11 +6,23 @@ import type { IronProduct } from './ironProduct'
 import { CLINICAL_LIMITS } from './limits'
 import type { Sex } from './types'
 
-export type IronDoseCap = 'maxSingleDoseMg' | 'maxSingleDoseMgPerKg' | 'paediatricMaxSingleDoseMg' | 'paediatricMaxSingleDoseMgPerKg' | 'maxWeeklyMg' | 'maxTotalMg' | 'roundToMg'
+export type IronDoseCap =
+  | 'maxSingleDoseMg'
+  | 'maxSingleDoseMgPerKg'
+  | 'paediatricMaxSingleDoseMg'
+  | 'paediatricMaxSingleDoseMgPerKg'
+  | 'maxWeeklyMg'
+  | 'maxTotalMg'
+  | 'roundToMg'
 
 /** A plan the formulary does not allow (e.g. a child and a product not licensed for the age). */
 export class IronPlanRefusal extends ClinicalInputError {
-  constructor(input: string, value: unknown, message: string, readonly code: string) {
+  constructor(
+    input: string,
+    value: unknown,
+    message: string,
+    readonly code: string,
+  ) {
     super(input, value, message)
   }
 }
@@ -59,8 +71,10 @@ const DAY_MS = 86_400_000
 function perDoseLimit(product: IronProduct, weightKg: number, step: number, paediatric = false): { limit: number; by: IronDoseCap[] } {
   const candidates: [IronDoseCap, number][] = [['maxSingleDoseMg', product.maxSingleDoseMg]]
   if (product.maxSingleDoseMgPerKg !== undefined) candidates.push(['maxSingleDoseMgPerKg', product.maxSingleDoseMgPerKg * weightKg])
-  if (paediatric && product.paediatricMaxSingleDoseMg !== undefined) candidates.push(['paediatricMaxSingleDoseMg', product.paediatricMaxSingleDoseMg])
-  if (paediatric && product.paediatricMaxSingleDoseMgPerKg !== undefined) candidates.push(['paediatricMaxSingleDoseMgPerKg', product.paediatricMaxSingleDoseMgPerKg * weightKg])
+  if (paediatric && product.paediatricMaxSingleDoseMg !== undefined)
+    candidates.push(['paediatricMaxSingleDoseMg', product.paediatricMaxSingleDoseMg])
+  if (paediatric && product.paediatricMaxSingleDoseMgPerKg !== undefined)
+    candidates.push(['paediatricMaxSingleDoseMgPerKg', product.paediatricMaxSingleDoseMgPerKg * weightKg])
   // A single dose can never exceed what may be given in a whole week.
   if (product.maxWeeklyMg !== undefined) candidates.push(['maxWeeklyMg', product.maxWeeklyMg])
   const raw = Math.min(...candidates.map(([, v]) => v))
@@ -99,11 +113,14 @@ export function paediatricCheck(product: IronProduct, ageYears: number | undefin
   if (ageYears === undefined || ageYears >= ADULT_AGE_YEARS) return false
   const from = product.licensedFromAgeYears
   if (from === undefined || ageYears < from) {
-    throw new IronPlanRefusal('ageYears', ageYears,
+    throw new IronPlanRefusal(
+      'ageYears',
+      ageYears,
       `${product.name} is not marked as licensed at age ${Math.floor(ageYears)} ` +
         `(${from === undefined ? 'adults only' : `from ${from} years`}): no plan. Choose a product licensed for children or seek ` +
         `paediatric advice.`,
-      'not_licensed_for_age')
+      'not_licensed_for_age',
+    )
   }
   return true
 }
@@ -137,20 +154,35 @@ export function ironDosePlan(input: {
   requireInRange('targetHbGL', input.targetHbGL, CLINICAL_LIMITS.hbGL)
   const startMs = input.startDate === undefined ? undefined : requireDate('startDate', input.startDate)
   const paediatric = paediatricCheck(product, input.ageYears)
-  const need = ironNeed({ weightKg, heightCm: input.heightCm, sex: input.sex, hbGL, targetHbGL: input.targetHbGL, table: product.dosingTable })
+  const need = ironNeed({
+    weightKg,
+    heightCm: input.heightCm,
+    sex: input.sex,
+    hbGL,
+    targetHbGL: input.targetHbGL,
+    table: product.dosingTable,
+  })
   const { needMg: deficitMg, targetHbGL } = need
   const step = product.roundToMg ?? 1
   const warnings: string[] = [...need.warnings]
 
-  if (need.method === 'ganzoni' && hbGL >= targetHbGL) warnings.push(`Hb ${hbGL} g/L is at or above the target ${targetHbGL} g/L: the deficit is iron stores only.`)
-  if (paediatric) warnings.push(`Age ${Math.floor(input.ageYears!)}: paediatric caps from the formulary apply; check the dose with the product ` +
-        `information for children.`)
+  if (need.method === 'ganzoni' && hbGL >= targetHbGL)
+    warnings.push(`Hb ${hbGL} g/L is at or above the target ${targetHbGL} g/L: the deficit is iron stores only.`)
+  if (paediatric)
+    warnings.push(
+      `Age ${Math.floor(input.ageYears!)}: paediatric caps from the formulary apply; check the dose with the product ` +
+        `information for children.`,
+    )
   // A product table prints its own figure under 35 kg; only Ganzoni changes its stores there.
-  if (weightKg < 35) warnings.push(`Weight ${weightKg} kg is under 35 kg: ${need.method === 'ganzoni' ? 'Ganzoni stores are 15 mg/kg and ' : ''}adult dose ` +
-        `caps may not apply; check the prescribing information.`)
+  if (weightKg < 35)
+    warnings.push(
+      `Weight ${weightKg} kg is under 35 kg: ${need.method === 'ganzoni' ? 'Ganzoni stores are 15 mg/kg and ' : ''}adult dose ` +
+        `caps may not apply; check the prescribing information.`,
+    )
 
   const cappedTotal = product.maxTotalMg !== undefined ? Math.min(deficitMg, product.maxTotalMg) : deficitMg
-  if (cappedTotal < deficitMg) warnings.push(`Total capped at ${product.maxTotalMg} mg (product maximum), below the calculated need of ${deficitMg} mg.`)
+  if (cappedTotal < deficitMg)
+    warnings.push(`Total capped at ${product.maxTotalMg} mg (product maximum), below the calculated need of ${deficitMg} mg.`)
   let totalMg = Math.round(cappedTotal / step) * step
   if (totalMg > cappedTotal && product.maxTotalMg !== undefined && totalMg > product.maxTotalMg) totalMg -= step
   if (totalMg !== cappedTotal && totalMg > 0) warnings.push(`Total rounded to ${totalMg} mg (dose step ${step} mg) from ${cappedTotal} mg.`)
@@ -164,7 +196,13 @@ export function ironDosePlan(input: {
     minIntervalDays: product.minIntervalDays,
     roundToMg: step,
   }
-  const method = { method: need.method, methodName: need.methodName, dosingWeightKg: need.dosingWeightKg, weightBasis: need.weightBasis, targetHbGL }
+  const method = {
+    method: need.method,
+    methodName: need.methodName,
+    dosingWeightKg: need.dosingWeightKg,
+    weightBasis: need.weightBasis,
+    targetHbGL,
+  }
   const base = { productCode: product.code, route: product.route, deficitMg, appliedCaps, method, paediatric, warnings }
 
   if (product.route === 'oral') {
@@ -175,7 +213,11 @@ export function ironDosePlan(input: {
     return { ...base, totalMg: cappedTotal, doses: [], oralSchedule: oralSchedule(product) }
   }
   if (totalMg <= 0 || limit <= 0) {
-    warnings.push(limit <= 0 ? `The per-dose limit is below one dose step (${step} mg): no dose can be planned.` : 'The deficit is below half a dose step: no dose planned.')
+    warnings.push(
+      limit <= 0
+        ? `The per-dose limit is below one dose step (${step} mg): no dose can be planned.`
+        : 'The deficit is below half a dose step: no dose planned.',
+    )
     return { ...base, totalMg: Math.max(0, totalMg), doses: [] }
   }
 
@@ -194,11 +236,19 @@ export function ironDosePlan(input: {
     nextEarliest = day + product.minIntervalDays
   }
 
-  if (doses.length > 1) warnings.push(`The total of ${totalMg} mg exceeds the per-dose limit of ${limit} mg (${by.join(', ')}): given as ${doses.length} doses.`)
+  if (doses.length > 1)
+    warnings.push(
+      `The total of ${totalMg} mg exceeds the per-dose limit of ${limit} mg (${by.join(', ')}): given as ${doses.length} doses.`,
+    )
   if (doses.length > MANY_DOSES) warnings.push(`${doses.length} doses are needed: consider a product allowing larger single doses.`)
   let timing: IronDosePlan['timing']
   if (input.surgeryDate !== undefined && startMs !== undefined) {
-    const { warnings: timingWarnings, ...rest } = surgeryTiming({ doses, firstDoseDate: isoDay(startMs, 0), surgeryDate: input.surgeryDate, route: product.route })
+    const { warnings: timingWarnings, ...rest } = surgeryTiming({
+      doses,
+      firstDoseDate: isoDay(startMs, 0),
+      surgeryDate: input.surgeryDate,
+      route: product.route,
+    })
     timing = rest
     warnings.unshift(...timingWarnings)
     doses = doses.filter((d) => !rest.afterSurgery.includes(d))

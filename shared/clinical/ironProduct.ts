@@ -60,17 +60,30 @@ export function validateIronProduct(product: IronProduct): IronProduct {
   optionalInRange('product.roundToMg', product.roundToMg, CLINICAL_LIMITS.productRoundToMg)
   optionalInRange('product.oralDailyMg', product.oralDailyMg, CLINICAL_LIMITS.productOralDailyMg)
   if (route === 'oral' && product.oralDailyMg === undefined) {
-    throw new ClinicalInputError('product.oralDailyMg', undefined, 'product.oralDailyMg is required for an oral product (mg elemental iron per dose)')
+    throw new ClinicalInputError(
+      'product.oralDailyMg',
+      undefined,
+      'product.oralDailyMg is required for an oral product (mg elemental iron per dose)',
+    )
   }
   if (product.oralAlternateDays !== undefined && typeof product.oralAlternateDays !== 'boolean') {
     throw new ClinicalInputError('product.oralAlternateDays', product.oralAlternateDays, 'product.oralAlternateDays must be true or false')
   }
   optionalInRange('product.licensedFromAgeYears', product.licensedFromAgeYears, { min: 0, max: 18, unit: 'years' })
-  optionalInRange('product.paediatricMaxSingleDoseMgPerKg', product.paediatricMaxSingleDoseMgPerKg, CLINICAL_LIMITS.productMaxSingleDoseMgPerKg)
+  optionalInRange(
+    'product.paediatricMaxSingleDoseMgPerKg',
+    product.paediatricMaxSingleDoseMgPerKg,
+    CLINICAL_LIMITS.productMaxSingleDoseMgPerKg,
+  )
   optionalInRange('product.paediatricMaxSingleDoseMg', product.paediatricMaxSingleDoseMg, CLINICAL_LIMITS.productMaxSingleDoseMg)
   if (product.dosingTable !== undefined) {
     // The tables in product information give an IV course's cumulative need; oral iron is dosed by the day.
-    if (route === 'oral') throw new ClinicalInputError('product.dosingTable', 'oral', 'An oral product cannot be dosed by a cumulative-need table: switch "dosed by its table" off first')
+    if (route === 'oral')
+      throw new ClinicalInputError(
+        'product.dosingTable',
+        'oral',
+        'An oral product cannot be dosed by a cumulative-need table: switch "dosed by its table" off first',
+      )
     validateDosingTable(product.dosingTable)
   }
   return product

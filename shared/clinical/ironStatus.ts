@@ -10,8 +10,8 @@ export type IronStatus = 'absolute-deficiency' | 'iron-restricted' | 'replete' |
  */
 export const IRON_STATUS_CRITERIA =
   'Local policy, after the international consensus on peri-operative anaemia (Muñoz et al., Anaesthesia 2017;72:233): ferritin ' +
-    '< 30 µg/L is absolute iron deficiency; ferritin < 100 µg/L with TSAT < 20 % or CRP > 5 mg/L is iron deficiency with ' +
-    'inflammation; ferritin ≥ 100 µg/L with TSAT < 20 % suggests iron sequestration. Both latter are reported as iron-restricted.'
+  '< 30 µg/L is absolute iron deficiency; ferritin < 100 µg/L with TSAT < 20 % or CRP > 5 mg/L is iron deficiency with ' +
+  'inflammation; ferritin ≥ 100 µg/L with TSAT < 20 % suggests iron sequestration. Both latter are reported as iron-restricted.'
 
 /**
  * Iron status from ferritin (µg/L), TSAT (%, 0–100, not a fraction) and CRP (mg/L), after the

@@ -25,8 +25,7 @@ export function oxygenContent(input: OxygenContentInput): number {
   const po2 = requireInRange('po2MmHg', input.po2MmHg, CLINICAL_LIMITS.po2MmHg)
   const k = optionalInRange('hufnerMlPerG', input.hufnerMlPerG, CLINICAL_LIMITS.hufnerMlPerG) ?? DEFAULT_HUFNER_ML_PER_G
   const alpha =
-    optionalInRange('solubilityMlDlMmHg', input.solubilityMlDlMmHg, CLINICAL_LIMITS.solubilityMlDlMmHg) ??
-    DEFAULT_SOLUBILITY_ML_DL_MMHG
+    optionalInRange('solubilityMlDlMmHg', input.solubilityMlDlMmHg, CLINICAL_LIMITS.solubilityMlDlMmHg) ?? DEFAULT_SOLUBILITY_ML_DL_MMHG
   return k * (hbGL / 10) * so2 + alpha * po2
 }
 

@@ -133,7 +133,11 @@ export function projectHb(input: {
   const latestText = `the latest Hb, ${fmt(latest.hbGL)} g/L on ${latest.iso}`
 
   if (input.treatment === undefined) {
-    return { hbGL: latest.hbGL, method: 'latest-value', assumptions: [`No iron treatment recorded: Hb is assumed to stay at ${latestText}.`] }
+    return {
+      hbGL: latest.hbGL,
+      method: 'latest-value',
+      assumptions: [`No iron treatment recorded: Hb is assumed to stay at ${latestText}.`],
+    }
   }
   const kind = requireOneOf('treatment.kind', input.treatment.kind, ['iv', 'oral'] as const)
   const doseDay = (requireDate('treatment.firstDoseDate', input.treatment.firstDoseDate) - target) / DAY_MS
@@ -173,7 +177,10 @@ export function projectHb(input: {
       `Capped at ${fmt(upper)} g/L (baseline ${fmt(baseline)} g/L + ${fmt(maxRise)} g/L, or the highest value measured) because ` +
         `the response to iron levels off.`,
     )
-    if (fit.slope < 0) assumptions.push('Hb is falling despite iron: the fall is extended to the target date as measured; review for ongoing blood loss or another cause.')
+    if (fit.slope < 0)
+      assumptions.push(
+        'Hb is falling despite iron: the fall is extended to the target date as measured; review for ongoing blood loss or another cause.',
+      )
     return { hbGL, method: 'trend', assumptions, slopeGLPerWeek }
   }
 
@@ -183,8 +190,10 @@ export function projectHb(input: {
   const rise = (day: number): number => Math.min(scaledMax, Math.max(0, ((day - doseDay - onset) * scaledRate) / 7))
   const hbGL = clampHb(latest.hbGL + rise(0) - rise(latest.day))
   if (doseFraction !== undefined) {
-    assumptions.push(`${totalMg} mg of iron given against a calculated deficit of ${deficitMg} mg (${Math.round(doseFraction * 100)} %), so ` +
-        `the assumed full-course rise is scaled to ${Math.round(doseFraction * 100)} %.`)
+    assumptions.push(
+      `${totalMg} mg of iron given against a calculated deficit of ${deficitMg} mg (${Math.round(doseFraction * 100)} %), so ` +
+        `the assumed full-course rise is scaled to ${Math.round(doseFraction * 100)} %.`,
+    )
   }
   assumptions.push(
     `No Hb re-check yet ${fmt(onset)} or more days after the first ${route} iron dose, so Hb is assumed to rise ` +

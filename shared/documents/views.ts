@@ -23,7 +23,13 @@ export interface DocumentView {
 }
 
 /** GET /api/referrals/:id/documents: `readOnly` when the episode is closed (no more uploads). */
-export interface DocumentList { rows: DocumentView[]; readOnly: boolean }
+export interface DocumentList {
+  rows: DocumentView[]
+  readOnly: boolean
+}
 
 /** POST /api/referrals/:id/letters (and the appointment letter): the letter and the document that keeps its PDF. */
-export interface WrittenLetter { id: number; documentId: number }
+export interface WrittenLetter {
+  id: number
+  documentId: number
+}

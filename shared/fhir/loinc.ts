@@ -29,30 +29,53 @@ export interface LoincEntry {
 
 // The codes were written from memory and checked against published laboratory test catalogues;
 // what the import screen shows must not say "from memory", so it asks for the local check.
-export const LOINC_SOURCE = 'LOINC table (Regenstrief); check each code against your laboratory\'s catalogue (local policy)'
+export const LOINC_SOURCE = "LOINC table (Regenstrief); check each code against your laboratory's catalogue (local policy)"
 
 const round2 = (n: number) => Math.round(n * 100) / 100
 // µmol/L ↔ µg/dL for iron (Fe 55.845 g/mol) and creatinine (113.12 g/mol): shared/clinical/units.ts.
-const massOf = (factor: number) => ({ fromCanonical: (umolL: number) => round2(umolL / factor), toCanonical: (mass: number) => mass * factor })
+const massOf = (factor: number) => ({
+  fromCanonical: (umolL: number) => round2(umolL / factor),
+  toCanonical: (mass: number) => mass * factor,
+})
 
 export const LOINC: Record<StoredAnalyte, LoincEntry> = {
   hb: { code: '718-7', display: 'Hemoglobin [Mass/volume] in Blood', ucum: 'g/L', unit: 'g/L' },
   mcv: { code: '787-2', display: 'MCV [Entitic volume] by Automated count', ucum: 'fL', unit: 'fL' },
   ferritin: { code: '2276-4', display: 'Ferritin [Mass/volume] in Serum or Plasma', ucum: 'ug/L', unit: 'µg/L' },
   tsat: { code: '2502-3', display: 'Iron saturation [Mass Fraction] in Serum or Plasma', ucum: '%', unit: '%' },
-  iron: { code: '2498-4', display: 'Iron [Mass/volume] in Serum or Plasma', ucum: 'ug/dL', unit: 'µg/dL', ...massOf(IRON_UMOL_L_PER_UG_DL) },
+  iron: {
+    code: '2498-4',
+    display: 'Iron [Mass/volume] in Serum or Plasma',
+    ucum: 'ug/dL',
+    unit: 'µg/dL',
+    ...massOf(IRON_UMOL_L_PER_UG_DL),
+  },
   transferrin: { code: '3034-6', display: 'Transferrin [Mass/volume] in Serum or Plasma', ucum: 'g/L', unit: 'g/L' },
-  tibc: { code: '2500-7', display: 'Iron binding capacity [Mass/volume] in Serum or Plasma', ucum: 'ug/dL', unit: 'µg/dL', ...massOf(IRON_UMOL_L_PER_UG_DL) },
+  tibc: {
+    code: '2500-7',
+    display: 'Iron binding capacity [Mass/volume] in Serum or Plasma',
+    ucum: 'ug/dL',
+    unit: 'µg/dL',
+    ...massOf(IRON_UMOL_L_PER_UG_DL),
+  },
   crp: { code: '1988-5', display: 'C reactive protein [Mass/volume] in Serum or Plasma', ucum: 'mg/L', unit: 'mg/L' },
-  creatinine: { code: '2160-0', display: 'Creatinine [Mass/volume] in Serum or Plasma', ucum: 'mg/dL', unit: 'mg/dL', ...massOf(CREATININE_UMOL_L_PER_MG_DL) },
+  creatinine: {
+    code: '2160-0',
+    display: 'Creatinine [Mass/volume] in Serum or Plasma',
+    ucum: 'mg/dL',
+    unit: 'mg/dL',
+    ...massOf(CREATININE_UMOL_L_PER_MG_DL),
+  },
   b12: { code: '2132-9', display: 'Cobalamin (Vitamin B12) [Mass/volume] in Serum or Plasma', ucum: 'ng/L', unit: 'ng/L' },
   folate: { code: '2284-8', display: 'Folate [Mass/volume] in Serum or Plasma', ucum: 'ug/L', unit: 'µg/L' },
   phosphate: { code: '14879-1', display: 'Phosphate [Moles/volume] in Serum or Plasma', ucum: 'mmol/L', unit: 'mmol/L' },
   egfr: {
     code: '98979-8',
-    display: 'Glomerular filtration rate/1.73 sq M.predicted [Volume Rate/Area] in Serum, Plasma or Blood by Creatinine-based formula ' +
-        '(CKD-EPI 2021)',
-    ucum: 'mL/min/{1.73_m2}', unit: 'mL/min/1.73 m²',
+    display:
+      'Glomerular filtration rate/1.73 sq M.predicted [Volume Rate/Area] in Serum, Plasma or Blood by Creatinine-based formula ' +
+      '(CKD-EPI 2021)',
+    ucum: 'mL/min/{1.73_m2}',
+    unit: 'mL/min/1.73 m²',
   },
 }
 

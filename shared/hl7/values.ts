@@ -61,11 +61,17 @@ export function readHl7Date(text: string): string | null {
 export type ObxAction = 'final' | 'corrected' | 'preliminary' | 'void'
 export function obxAction(status: string): ObxAction | null {
   switch (status.trim().toUpperCase()) {
-    case 'F': return 'final'
-    case 'C': return 'corrected'
-    case 'P': return 'preliminary'
+    case 'F':
+      return 'final'
+    case 'C':
+      return 'corrected'
+    case 'P':
+      return 'preliminary'
     // X: results cannot be obtained; D: delete the record (table 0085, from memory). Both void.
-    case 'X': case 'D': return 'void'
-    default: return null
+    case 'X':
+    case 'D':
+      return 'void'
+    default:
+      return null
   }
 }

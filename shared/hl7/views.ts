@@ -25,9 +25,19 @@ export interface Hl7MessageSummary {
 }
 
 /** One record a message changed (a result added, corrected or voided; a date moved; a name changed). */
-export interface Hl7Change { kind: string; referralId?: number; patientId?: number; resultId?: number; analyte?: string; detail?: string }
+export interface Hl7Change {
+  kind: string
+  referralId?: number
+  patientId?: number
+  resultId?: number
+  analyte?: string
+  detail?: string
+}
 
-export interface Hl7Segment { name: string; fields: string[] }
+export interface Hl7Segment {
+  name: string
+  fields: string[]
+}
 
 export interface Hl7MessageDetail extends Hl7MessageSummary {
   segments: Hl7Segment[]
@@ -58,4 +68,8 @@ export interface Hl7Overview {
  * `patientDetail` false: the reader holds no clinical role, so each item's `patientMrn` and
  * `errorText` are null (the error code stays) and the search matched control ids only.
  */
-export interface Hl7MessagePage { items: Hl7MessageSummary[]; total: number; patientDetail: boolean }
+export interface Hl7MessagePage {
+  items: Hl7MessageSummary[]
+  total: number
+  patientDetail: boolean
+}

@@ -17,7 +17,9 @@ const str = (v: unknown): string | undefined => (typeof v === 'string' && v.trim
 /** The MRN of a Patient: the identifier typed MR (HL7 v2 table 0203, from memory), else the first. */
 function mrnOf(patient: Json): string | undefined {
   const ids = Array.isArray(patient.identifier) ? patient.identifier.filter(isObj) : []
-  const typed = ids.find((id) => isObj(id.type) && Array.isArray(id.type.coding) && id.type.coding.some((c: unknown) => isObj(c) && c.code === 'MR'))
+  const typed = ids.find(
+    (id) => isObj(id.type) && Array.isArray(id.type.coding) && id.type.coding.some((c: unknown) => isObj(c) && c.code === 'MR'),
+  )
   return str((typed ?? ids[0])?.value)
 }
 
@@ -42,9 +44,22 @@ function subjectMrn(obs: Json, patients: Map<string, string>): string | undefine
  * Resources a clinical Bundle carries beside its results (Ferrolane's own episode export holds
  * the last three): reported as skipped, holding no laboratory result, rather than as invalid.
  */
-const NOT_RESULTS = ['Patient', 'MedicationAdministration', 'Appointment', 'Encounter', 'Specimen', 'DiagnosticReport', 'Practitioner', 'Organization']
+const NOT_RESULTS = [
+  'Patient',
+  'MedicationAdministration',
+  'Appointment',
+  'Encounter',
+  'Specimen',
+  'DiagnosticReport',
+  'Practitioner',
+  'Organization',
+]
 
-function checkObservation(obs: Json, patients: Map<string, string>, now: number): { reading: Reading } | { reason: string } | { skip: string } {
+function checkObservation(
+  obs: Json,
+  patients: Map<string, string>,
+  now: number,
+): { reading: Reading } | { reason: string } | { skip: string } {
   const status = str(obs.status)
   if (!status || !(USABLE_STATUSES as readonly string[]).includes(status)) {
     return { reason: `status must be one of ${USABLE_STATUSES.join(', ')} (got ${status ?? 'nothing'})` }
@@ -63,9 +78,11 @@ function checkObservation(obs: Json, patients: Map<string, string>, now: number)
   const unit = appUnitForUcum(String(q.code))
   if (!unit) return { reason: `UCUM unit ${String(q.code)} is not one Ferrolane accepts` }
   const when = str(obs.effectiveDateTime)
-  if (!when || !FHIR_INSTANT.test(when)) return { reason: 'effectiveDateTime must be a date and time with a zone (e.g. 2026-01-31T09:30:00Z)' }
+  if (!when || !FHIR_INSTANT.test(when))
+    return { reason: 'effectiveDateTime must be a date and time with a zone (e.g. 2026-01-31T09:30:00Z)' }
   const mrn = subjectMrn(obs, patients)
-  if (!mrn) return { reason: 'subject must identify the patient (subject.identifier, or a contained or bundled Patient with an identifier)' }
+  if (!mrn)
+    return { reason: 'subject must identify the patient (subject.identifier, or a contained or bundled Patient with an identifier)' }
   const checked = checkReading({ mrn, analyte: entry.analyte, unit, value: q.value, takenAt: new Date(when) }, now)
   return checked.ok ? { reading: checked.reading } : { reason: checked.reason }
 }
@@ -94,8 +111,14 @@ export function checkFhirBundle(bundle: unknown, now: number): { error: string }
       if (!isObj(e) || !isObj(e.resource)) return { ...base, kind: 'invalid', reason: 'entry has no resource' }
       const type = e.resource.resourceType
       if (type === 'Patient') return { ...base, kind: 'skip', reason: 'Patient resource: identifies the patient, holds no result' }
-      if (typeof type === 'string' && NOT_RESULTS.includes(type)) return { ...base, kind: 'skip', reason: `${type} resource: holds no laboratory result, not imported` }
-      if (type !== 'Observation') return { ...base, kind: 'invalid', reason: `resource must be an Observation (got ${typeof type === 'string' ? type : 'no resourceType'})` }
+      if (typeof type === 'string' && NOT_RESULTS.includes(type))
+        return { ...base, kind: 'skip', reason: `${type} resource: holds no laboratory result, not imported` }
+      if (type !== 'Observation')
+        return {
+          ...base,
+          kind: 'invalid',
+          reason: `resource must be an Observation (got ${typeof type === 'string' ? type : 'no resourceType'})`,
+        }
       const r = checkObservation(e.resource, patients, now)
       if ('skip' in r) return { ...base, kind: 'skip', reason: r.skip }
       return 'reading' in r ? { ...base, kind: 'reading', reading: r.reading } : { ...base, kind: 'invalid', reason: r.reason }

@@ -49,13 +49,20 @@ export function checkReading(input: { mrn: string; analyte: Analyte; unit: strin
   const def = ANALYTE_DEFS[analyte]
   const fromExport = unitsFor(analyte).includes(unit) ? undefined : exportUnit(analyte, unit)
   if (!unitsFor(analyte).includes(unit) && !fromExport) {
-    const accepted = [...unitsFor(analyte), ...(LOINC[analyte].toCanonical && !unitsFor(analyte).includes(LOINC[analyte].unit) ? [LOINC[analyte].unit] : [])]
+    const accepted = [
+      ...unitsFor(analyte),
+      ...(LOINC[analyte].toCanonical && !unitsFor(analyte).includes(LOINC[analyte].unit) ? [LOINC[analyte].unit] : []),
+    ]
     return fail('unknown-unit', `unit for ${def.label} must be one of ${accepted.join(', ')} (got ${input.unit || 'nothing'})`)
   }
   // Three decimals, as toCanonical (shared/pathway/analytes) stores every converted value.
   const canonical = fromExport ? Math.round(fromExport(value) * 1000) / 1000 : undefined
   const why = fromExport ? implausibleValue(analyte, def.canonicalUnit, canonical!) : implausibleValue(analyte, unit, value)
-  if (why) return fail('implausible-value', fromExport ? `${value} ${unit} is ${Math.round(canonical! * 100) / 100} ${def.canonicalUnit}: ${why}` : why)
+  if (why)
+    return fail(
+      'implausible-value',
+      fromExport ? `${value} ${unit} is ${Math.round(canonical! * 100) / 100} ${def.canonicalUnit}: ${why}` : why,
+    )
   const t = input.takenAt.getTime()
   if (t > now + CLOCK_SKEW_MS) return fail('bad-date', 'time taken is in the future')
   if (t < EARLIEST) return fail('bad-date', 'time taken must be after 1990')

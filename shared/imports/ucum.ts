@@ -11,7 +11,7 @@ export const UCUM_TO_APP_UNIT: Readonly<Record<string, string>> = {
   'g/L': 'g/L',
   'g/dL': 'g/dL',
   'mmol/L': 'mmol/L',
-  'fL': 'fL',
+  fL: 'fL',
   'ug/L': 'µg/L',
   'ng/mL': 'ng/mL',
   '%': '%',

@@ -59,10 +59,20 @@ export interface BatchView {
   resultsRemoved: number | null
 }
 
-export interface MappingView { sourceName: string; mapping: ColumnMapping; saved: boolean; updatedAt: string | null }
+export interface MappingView {
+  sourceName: string
+  mapping: ColumnMapping
+  saved: boolean
+  updatedAt: string | null
+}
 
 export type EntryOutcome = 'accepted' | 'skipped' | 'invalid'
-export interface FhirEntryResult { index: number; fullUrl?: string; outcome: EntryOutcome; reason?: string }
+export interface FhirEntryResult {
+  index: number
+  fullUrl?: string
+  outcome: EntryOutcome
+  reason?: string
+}
 
 export interface FhirImportResult {
   batchId?: number

@@ -19,16 +19,37 @@ export interface FollowUpView {
 
 /** The operation's outcome as recorded after surgery. */
 export interface OutcomeView {
-  id: number; referralId: number; surgeryDate: string; bloodLossMl: number; unitsTransfusedIntraOp: number; unitsTransfusedPostOp: number
-  unitsCrossmatched: number; lowestHbGL: number; dischargeHbGL: number | null; lengthOfStayDays: number; complications: Complication[]
-  tranexamicAcidGiven: boolean | null; tranexamicAcidDoseMg: number | null; tranexamicAcidTiming: TxaTiming | null
-  cellSalvageUsed: boolean | null; cellSalvageReturnedMl: number | null
-  transfusionInformationGiven: boolean | null; transfusionConsent: boolean | null; postOperativeIronGiven: boolean | null
+  id: number
+  referralId: number
+  surgeryDate: string
+  bloodLossMl: number
+  unitsTransfusedIntraOp: number
+  unitsTransfusedPostOp: number
+  unitsCrossmatched: number
+  lowestHbGL: number
+  dischargeHbGL: number | null
+  lengthOfStayDays: number
+  complications: Complication[]
+  tranexamicAcidGiven: boolean | null
+  tranexamicAcidDoseMg: number | null
+  tranexamicAcidTiming: TxaTiming | null
+  cellSalvageUsed: boolean | null
+  cellSalvageReturnedMl: number | null
+  transfusionInformationGiven: boolean | null
+  transfusionConsent: boolean | null
+  postOperativeIronGiven: boolean | null
   followUp: FollowUpView | null
 }
 
 /** GET and POST /api/referrals/:id/outcome: the outcome, what in it needs a second look, and the episode's version. */
-export interface OutcomeRead { outcome: OutcomeView; warnings: OutcomeWarning[]; version: number }
+export interface OutcomeRead {
+  outcome: OutcomeView
+  warnings: OutcomeWarning[]
+  version: number
+}
 
 /** POST /api/referrals/:id/follow-up */
-export interface FollowUpRecorded { outcome: OutcomeView; version: number }
+export interface FollowUpRecorded {
+  outcome: OutcomeView
+  version: number
+}

@@ -1,13 +1,20 @@
-import {
-  CLINICAL_LIMITS,
-  convertHb,
-  creatinineMgDlToUmolL,
-  ironUgDlToUmolL,
-  type Limit,
-} from '../clinical'
+import { CLINICAL_LIMITS, convertHb, creatinineMgDlToUmolL, ironUgDlToUmolL, type Limit } from '../clinical'
 
 /** What a person may enter. Derived values (TSAT from iron, eGFR) are added by the server. */
-export const ANALYTES = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferrin', 'tibc', 'crp', 'creatinine', 'b12', 'folate', 'phosphate'] as const
+export const ANALYTES = [
+  'hb',
+  'mcv',
+  'ferritin',
+  'tsat',
+  'iron',
+  'transferrin',
+  'tibc',
+  'crp',
+  'creatinine',
+  'b12',
+  'folate',
+  'phosphate',
+] as const
 export type Analyte = (typeof ANALYTES)[number]
 /** Stored results also include what the server derives. */
 export type StoredAnalyte = Analyte | 'egfr'

@@ -2,7 +2,15 @@ import { PRE_OPERATIVE_STAGES, type Stage } from './stages'
 import { dateInZone, daysBetween } from './dates'
 
 /** Worklist flags: conditions the service wants to see before they become problems. */
-export const WORKLIST_FLAGS = ['surgery-soon-anaemic', 'no-screening-result', 'recheck-overdue', 'treatment-not-given', 'date-change-requested', 'no-response-to-iron', 'hb-falling'] as const
+export const WORKLIST_FLAGS = [
+  'surgery-soon-anaemic',
+  'no-screening-result',
+  'recheck-overdue',
+  'treatment-not-given',
+  'date-change-requested',
+  'no-response-to-iron',
+  'hb-falling',
+] as const
 export type WorklistFlag = (typeof WORKLIST_FLAGS)[number]
 
 export function isWorklistFlag(value: unknown): value is WorklistFlag {
@@ -27,8 +35,9 @@ export const FLAG_LABELS: Record<WorklistFlag, string> = {
  * possible (grade 1C). Ferrolane applies it to every operation (local policy). It is not from
  * the Muñoz 2017 consensus, to which it was once attributed here.
  */
-export const SURGERY_SOON_BASIS = 'NATA guidelines (Goodnough et al., Br J Anaesth 2011;106:13–22): an Hb 28 days before elective orthopaedic surgery where ' +
-    'possible; applied to every operation by local policy'
+export const SURGERY_SOON_BASIS =
+  'NATA guidelines (Goodnough et al., Br J Anaesth 2011;106:13–22): an Hb 28 days before elective orthopaedic surgery where ' +
+  'possible; applied to every operation by local policy'
 export const SURGERY_SOON_DAYS = 28
 
 export interface FlagInput {

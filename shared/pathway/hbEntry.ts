@@ -36,7 +36,9 @@ export function hbUnitAmbiguity(value: number, unit: string): string | null {
   if (!inside(value, CLINICAL_LIMITS.hbGDl) || !inside(value, CLINICAL_LIMITS.hbMmolL)) return null
   const asGDl = round1(convertHb(value, 'g/dL', 'g/L'))
   const asMmol = round1(convertHb(value, 'mmol/L', 'g/L'))
-  return `Hb ${value} fits both g/dL (${CLINICAL_LIMITS.hbGDl.min}–${CLINICAL_LIMITS.hbGDl.max}) and mmol/L ` +
+  return (
+    `Hb ${value} fits both g/dL (${CLINICAL_LIMITS.hbGDl.min}–${CLINICAL_LIMITS.hbGDl.max}) and mmol/L ` +
     `(${CLINICAL_LIMITS.hbMmolL.min.toFixed(1)}–${CLINICAL_LIMITS.hbMmolL.max.toFixed(1)}): it is ${asGDl} g/L as g/dL but ` +
     `${asMmol} g/L as mmol/L. Confirm the unit (${unit}) before saving`
+  )
 }

@@ -6,7 +6,18 @@ export { TRANSITIONS, allowedMoves, canMove, findMove, isReadOnly } from './tran
 export type { Move, MoveRequirement, AllowedMove } from './transitions'
 export { WORKLIST_FLAGS, FLAG_LABELS, SURGERY_SOON_DAYS, SURGERY_SOON_BASIS, isWorklistFlag, referralFlags } from './flags'
 export type { WorklistFlag, FlagInput } from './flags'
-export { ANALYTES, ANALYTE_DEFS, DERIVED_UNITS, FOLATE_UG_L_PER_NMOL_L, isAnalyte, normaliseUnit, unitsFor, unitRule, implausibleValue, toCanonical } from './analytes'
+export {
+  ANALYTES,
+  ANALYTE_DEFS,
+  DERIVED_UNITS,
+  FOLATE_UG_L_PER_NMOL_L,
+  isAnalyte,
+  normaliseUnit,
+  unitsFor,
+  unitRule,
+  implausibleValue,
+  toCanonical,
+} from './analytes'
 export type { Analyte, StoredAnalyte } from './analytes'
 export { PRIORITIES, PRIORITY_LABELS, BLOOD_ORDERS, DEFAULT_ANAEMIA_CRITERIA } from './options'
 export type { Priority, BloodOrder } from './options'

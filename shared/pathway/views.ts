@@ -24,7 +24,11 @@ export interface WorklistCounts {
  */
 
 /** The soonest future visit of an episode that is not cancelled. */
-export interface NextAppointment { kind: AppointmentKind; startsAt: string; status: AppointmentStatus }
+export interface NextAppointment {
+  kind: AppointmentKind
+  startsAt: string
+  status: AppointmentStatus
+}
 
 /** One row of GET /api/worklist. */
 export interface WorklistRow {
@@ -222,4 +226,8 @@ export interface PatientRecord extends PatientView {
 }
 
 /** An active colleague for a picker (GET /api/staff): names only. */
-export interface StaffOption { id: number; name: string; role: Role }
+export interface StaffOption {
+  id: number
+  name: string
+  role: Role
+}

@@ -7,9 +7,16 @@ export function isReportName(v: unknown): v is ReportName {
 }
 
 /** Every figure says what was counted, out of what, over which period. */
-export interface Definition { numerator: string; denominator: string; period: string }
+export interface Definition {
+  numerator: string
+  denominator: string
+  period: string
+}
 
-export interface ReportColumn { key: string; label: string }
+export interface ReportColumn {
+  key: string
+  label: string
+}
 export interface ReportTable {
   columns: ReportColumn[]
   rows: Record<string, string | number | boolean | null | Definition>[]

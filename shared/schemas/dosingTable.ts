@@ -16,8 +16,14 @@ const table = yup
   .object({
     weightBands: yup.array(band).required('Weight bands are required'),
     hbBands: yup.array(band).required('Hb bands are required'),
-    needMg: yup.array(yup.array(yup.number().typeError('Each need must be a number (mg)').nullable().defined()).required()).required('The needs are required'),
-    source: yup.string().trim().max(300, 'Source must be at most 300 characters').required('Source is required (the product information, its section and date)'),
+    needMg: yup
+      .array(yup.array(yup.number().typeError('Each need must be a number (mg)').nullable().defined()).required())
+      .required('The needs are required'),
+    source: yup
+      .string()
+      .trim()
+      .max(300, 'Source must be at most 300 characters')
+      .required('Source is required (the product information, its section and date)'),
   })
   .test('dosing-table', 'The dosing table has problems', function check(value) {
     if (!value) return true
@@ -28,9 +34,12 @@ const table = yup
 
 export const dosingTableSchema = yup.object({
   dosedByTable: yup.boolean().typeError('Dosed by the table must be true or false').required('Say whether plans use the table'),
-  table: table.nullable().default(null).when('dosedByTable', {
-    is: true,
-    then: (s) => s.nonNullable('A product dosed by its table needs the table'),
-  }),
+  table: table
+    .nullable()
+    .default(null)
+    .when('dosedByTable', {
+      is: true,
+      then: (s) => s.nonNullable('A product dosed by its table needs the table'),
+    }),
 })
 export type DosingTableInput = yup.InferType<typeof dosingTableSchema>

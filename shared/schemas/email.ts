@@ -6,10 +6,5 @@ import * as yup from 'yup'
  */
 export const EMAIL_MAX_LENGTH = 254
 export function emailField(label = 'E-mail', max = EMAIL_MAX_LENGTH) {
-  return yup
-    .string()
-    .trim()
-    .lowercase()
-    .max(max, `${label} must be at most ${max} characters`)
-    .email(`${label} must be a valid address`)
+  return yup.string().trim().lowercase().max(max, `${label} must be at most ${max} characters`).email(`${label} must be a valid address`)
 }

@@ -5,11 +5,7 @@ import { isIsoDate, todayIso, addDays } from '../pathway/dates'
 /** A number inside a clinical limit, with a message that names the field, range and unit. */
 export function numberInLimit(label: string, limit: Limit) {
   const range = `${label} must be between ${limit.min} and ${limit.max} ${limit.unit}`
-  return yup
-    .number()
-    .typeError(`${label} must be a number in ${limit.unit}`)
-    .min(limit.min, range)
-    .max(limit.max, range)
+  return yup.number().typeError(`${label} must be a number in ${limit.unit}`).min(limit.min, range).max(limit.max, range)
 }
 
 // The e-mail field lives in its own module: the sign-in page imports it without the date helpers.

@@ -3,7 +3,11 @@ import { CLINICAL_LIMITS } from '../clinical'
 
 const L = CLINICAL_LIMITS
 const capField = (label: string, limit: { min: number; max: number; unit: string }) =>
-  yup.number().typeError(`${label} must be a number (${limit.unit})`).min(limit.min, `${label} must be at least ${limit.min} ${limit.unit}`).max(limit.max, `${label} must be at most ${limit.max} ${limit.unit}`)
+  yup
+    .number()
+    .typeError(`${label} must be a number (${limit.unit})`)
+    .min(limit.min, `${label} must be at least ${limit.min} ${limit.unit}`)
+    .max(limit.max, `${label} must be at most ${limit.max} ${limit.unit}`)
 
 const productFields = {
   name: yup.string().trim().min(2).max(120),
@@ -16,7 +20,12 @@ const productFields = {
   roundToMg: capField('Dose step', L.productRoundToMg).nullable(),
   oralDailyMg: capField('Elemental iron per oral dose', L.productOralDailyMg).nullable(),
   oralAlternateDays: yup.boolean().nullable(),
-  licensedFromAgeYears: yup.number().typeError('Youngest licensed age must be a number of years').min(0, 'Youngest licensed age must be at least 0 years').max(18, 'Youngest licensed age must be at most 18 years').nullable(),
+  licensedFromAgeYears: yup
+    .number()
+    .typeError('Youngest licensed age must be a number of years')
+    .min(0, 'Youngest licensed age must be at least 0 years')
+    .max(18, 'Youngest licensed age must be at most 18 years')
+    .nullable(),
   paediatricMaxSingleDoseMgPerKg: capField('Largest dose per kg under 18', L.productMaxSingleDoseMgPerKg).nullable(),
   paediatricMaxSingleDoseMg: capField('Largest single dose under 18', L.productMaxSingleDoseMg).nullable(),
   phosphateCheckOnRepeat: yup.boolean(),
@@ -26,7 +35,11 @@ const productFields = {
 
 export const createIronProductSchema = yup.object({
   ...productFields,
-  code: yup.string().trim().required('Code is required').matches(/^[a-z0-9-]{2,30}$/, 'Code must be 2–30 lower-case letters, digits or hyphens'),
+  code: yup
+    .string()
+    .trim()
+    .required('Code is required')
+    .matches(/^[a-z0-9-]{2,30}$/, 'Code must be 2–30 lower-case letters, digits or hyphens'),
   name: productFields.name.required('Name is required'),
   route: productFields.route.required('Route is required'),
   maxSingleDoseMg: productFields.maxSingleDoseMg.required('Largest single dose is required'),

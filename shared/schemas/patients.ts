@@ -12,13 +12,20 @@ const mrn = yup
 const name = (label: string) => yup.string().trim().min(1, `${label} is required`).max(80, `${label} must be at most 80 characters`)
 const dateOfBirth = isoDateField('Date of birth')
   .test(notAfterToday('Date of birth'))
-  .test('not-too-old', 'Date of birth must be within the last 120 years', (v) => v == null || v >= `${new Date().getFullYear() - 120}-01-01`)
+  .test(
+    'not-too-old',
+    'Date of birth must be within the last 120 years',
+    (v) => v == null || v >= `${new Date().getFullYear() - 120}-01-01`,
+  )
 // The published equations (blood volume, eGFR, WHO cut-offs) need one of these two.
 const sex = yup.string().oneOf([...SEXES], "Sex must be 'female' or 'male'")
 const heightCm = numberInLimit('Height', CLINICAL_LIMITS.heightCm)
 const weightKg = numberInLimit('Weight', CLINICAL_LIMITS.weightKg)
 const email = optionalText('E-mail', 190).email('E-mail must be a valid address')
-const phone = optionalText('Phone', 30).matches(/^[0-9 +()-]{6,30}$/, { message: 'Phone must be 6 to 30 digits, spaces, +, ( ) or -', excludeEmptyString: true })
+const phone = optionalText('Phone', 30).matches(/^[0-9 +()-]{6,30}$/, {
+  message: 'Phone must be 6 to 30 digits, spaces, +, ( ) or -',
+  excludeEmptyString: true,
+})
 
 const contact = {
   email,

@@ -10,7 +10,12 @@ import { hbUnitAmbiguity } from '../pathway/hbEntry'
  * needs its unit confirmed; a TSAT typed as a fraction is refused with a hint.
  */
 export const createResultSchema = yup.object({
-  analyte: yup.string().trim().lowercase().oneOf([...ANALYTES], `analyte must be one of ${ANALYTES.join(', ')}`).required('analyte is required'),
+  analyte: yup
+    .string()
+    .trim()
+    .lowercase()
+    .oneOf([...ANALYTES], `analyte must be one of ${ANALYTES.join(', ')}`)
+    .required('analyte is required'),
   unit: yup
     .string()
     .required('unit is required')

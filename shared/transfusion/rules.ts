@@ -7,22 +7,33 @@
 export const COMPONENTS = ['red-cells', 'platelets', 'plasma', 'cryoprecipitate'] as const
 export type Component = (typeof COMPONENTS)[number]
 export const COMPONENT_LABELS: Record<Component, string> = {
-  'red-cells': 'Red cells', platelets: 'Platelets', plasma: 'Plasma', cryoprecipitate: 'Cryoprecipitate',
+  'red-cells': 'Red cells',
+  platelets: 'Platelets',
+  plasma: 'Plasma',
+  cryoprecipitate: 'Cryoprecipitate',
 }
 
 /** When in the admission the component was given; drives the post-operative record's unit counts. */
 export const PHASES = ['before-surgery', 'during-surgery', 'after-surgery'] as const
 export type Phase = (typeof PHASES)[number]
 export const PHASE_LABELS: Record<Phase, string> = {
-  'before-surgery': 'Before surgery', 'during-surgery': 'During surgery', 'after-surgery': 'After surgery',
+  'before-surgery': 'Before surgery',
+  'during-surgery': 'During surgery',
+  'after-surgery': 'After surgery',
 }
 
 export const MAX_UNITS = 20
 
 export const THRESHOLD_SOURCE = 'AABB 2023 international guidelines (Carson et al., JAMA 2023;330:1892)'
 
-export interface ThresholdInput { specialty: string; cardiovascularDisease: boolean }
-export interface Threshold { thresholdGL: number; basis: string }
+export interface ThresholdInput {
+  specialty: string
+  cardiovascularDisease: boolean
+}
+export interface Threshold {
+  thresholdGL: number
+  basis: string
+}
 
 /**
  * The restrictive red-cell threshold for a haemodynamically stable adult (AABB 2023,
@@ -66,6 +77,11 @@ export function defaultPhase(givenAtIso: string, surgeryDate: string): Phase {
  * QS138 statement 3 counted per red-cell transfusion: a single unit, with the patient
  * clinically reassessed and a post-transfusion Hb checked before anything more was given.
  */
-export function reassessedAfterEachUnit(row: { component: Component; units: number; reassessedBeforeNext: boolean; postTransfusionHbGL: number | null }): boolean {
+export function reassessedAfterEachUnit(row: {
+  component: Component
+  units: number
+  reassessedBeforeNext: boolean
+  postTransfusionHbGL: number | null
+}): boolean {
   return row.component === 'red-cells' && row.units === 1 && row.reassessedBeforeNext && row.postTransfusionHbGL != null
 }

@@ -33,4 +33,7 @@ export interface TransfusionList {
 }
 
 /** POST, PUT and void of one transfusion: the row and the episode's red-cell units by phase after it. */
-export interface TransfusionWrite { transfusion: TransfusionView; redCellUnits: TransfusionList['redCellUnits'] }
+export interface TransfusionWrite {
+  transfusion: TransfusionView
+  redCellUnits: TransfusionList['redCellUnits']
+}

@@ -1,7 +1,16 @@
 import type { AuditPage } from '@shared/audit/views'
 import { api } from './client'
 
-export interface AuditFilters { userId?: number; patientId?: number; mrn?: string; entity?: string; action?: string; from?: string; to?: string; page?: number }
+export interface AuditFilters {
+  userId?: number
+  patientId?: number
+  mrn?: string
+  entity?: string
+  action?: string
+  from?: string
+  to?: string
+  page?: number
+}
 
 export function auditParams(filters: AuditFilters): URLSearchParams {
   const p = new URLSearchParams()

@@ -1,6 +1,12 @@
 import type { SessionUser } from '@shared/types'
 import type {
-  PasswordChanged, SecondFactorEnrolled, SecondFactorEnrolment, SecondFactorStatus, SignInAnswer, SignInProviders, SignOutAnswer,
+  PasswordChanged,
+  SecondFactorEnrolled,
+  SecondFactorEnrolment,
+  SecondFactorStatus,
+  SignInAnswer,
+  SignInProviders,
+  SignOutAnswer,
 } from '@shared/auth/views'
 import type { ChangePasswordInput, LoginInput } from '@shared/schemas/auth'
 import { api, isApiError, setCsrfToken } from './client'

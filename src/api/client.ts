@@ -51,11 +51,17 @@ async function toApiError(response: Response): Promise<ApiError> {
   const error = body?.error
   const retryAfterMs = parseRetryAfter(response.headers.get('Retry-After'))
   if (error && typeof error.code === 'string') {
-    return new ApiError(response.status, error.code, error.message ?? 'Request failed', error.fields ?? {}, error.details ?? {}, retryAfterMs)
+    return new ApiError(
+      response.status,
+      error.code,
+      error.message ?? 'Request failed',
+      error.fields ?? {},
+      error.details ?? {},
+      retryAfterMs,
+    )
   }
   // A proxy or a crashed server answers without our error shape.
-  const message =
-    response.status >= 500 ? 'The server is not answering properly. Try again in a moment.' : 'Request failed'
+  const message = response.status >= 500 ? 'The server is not answering properly. Try again in a moment.' : 'Request failed'
   return new ApiError(response.status, `http_${response.status}`, message, {}, {}, retryAfterMs)
 }
 
@@ -138,7 +144,8 @@ function notify(error: unknown): void {
   if (!(error instanceof ApiError)) return
   // A wrong password (at sign-in or when changing it) is not a lost session.
   if (error.code === 'invalid_credentials' || error.code === 'invalid_code') return
-  if (error.status === 401 || error.code === 'password_change_required' || error.code === 'second_factor_enrolment_required') onAuthFailure?.(error)
+  if (error.status === 401 || error.code === 'password_change_required' || error.code === 'second_factor_enrolment_required')
+    onAuthFailure?.(error)
 }
 
 export const api = {
@@ -149,7 +156,8 @@ export const api = {
   get: <T>(path: string, opts: { refetch?: boolean } = {}) =>
     request<T>('GET', path, undefined, opts.refetch ? { 'X-Ferrolane-Refetch': '1' } : undefined),
   /** A polled read: conditional on the ETag of `previous`, the data the screen already shows. */
-  poll: <T>(path: string, previous: T | undefined, opts: { refetch?: boolean } = {}) => getIfChanged<T>(path, previous, opts.refetch ?? false),
+  poll: <T>(path: string, previous: T | undefined, opts: { refetch?: boolean } = {}) =>
+    getIfChanged<T>(path, previous, opts.refetch ?? false),
   post: <T>(path: string, body?: unknown) => request<T>('POST', path, body ?? {}),
   patch: <T>(path: string, body: unknown) => request<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => request<T>('PUT', path, body),

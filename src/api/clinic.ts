@@ -1,8 +1,21 @@
-import type { AdministrationInput, DosePlanPreviewInput, PrescriptionInput, ReadinessActionInput, ReviewInput } from '@shared/schemas/clinic'
+import type {
+  AdministrationInput,
+  DosePlanPreviewInput,
+  PrescriptionInput,
+  ReadinessActionInput,
+  ReviewInput,
+} from '@shared/schemas/clinic'
 import type { Projection } from '@shared/clinic/projection'
 import type {
-  AdministrationView, ClinicReviewView, DosePlanPreview, PrescriptionView, ReadinessAnswer, ReadinessReviewView, RecordedAdministration,
-  RecordedPrescription, RecordedReview,
+  AdministrationView,
+  ClinicReviewView,
+  DosePlanPreview,
+  PrescriptionView,
+  ReadinessAnswer,
+  ReadinessReviewView,
+  RecordedAdministration,
+  RecordedPrescription,
+  RecordedReview,
 } from '@shared/clinic/views'
 import type { Rows } from '@shared/types'
 import { api } from './client'

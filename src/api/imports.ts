@@ -3,7 +3,12 @@ import type { Rows } from '@shared/types'
 import type { BatchView, FhirImportResult, ImportSummary, MappingView } from '@shared/imports/views'
 import { api } from './client'
 
-export interface LabUpload { file: File; source: string; mapping: ColumnMapping; commit: boolean }
+export interface LabUpload {
+  file: File
+  source: string
+  mapping: ColumnMapping
+  commit: boolean
+}
 
 export function uploadLabResults(input: LabUpload): Promise<ImportSummary> {
   const form = new FormData()
@@ -14,7 +19,11 @@ export function uploadLabResults(input: LabUpload): Promise<ImportSummary> {
   return api.postForm<ImportSummary>('/imports/lab-results', form)
 }
 
-export interface FhirUpload { file: File; commit: boolean; storeValid: boolean }
+export interface FhirUpload {
+  file: File
+  commit: boolean
+  storeValid: boolean
+}
 
 export function uploadFhirBundle(input: FhirUpload): Promise<FhirImportResult> {
   const form = new FormData()

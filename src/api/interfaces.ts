@@ -1,7 +1,12 @@
 import { api } from './client'
 import type { Hl7MessageDetail, Hl7MessagePage, Hl7Outcome, Hl7Overview } from '@shared/hl7/views'
 
-export interface Hl7MessageFilters { q?: string; outcome?: Hl7Outcome; attention?: boolean; page?: number }
+export interface Hl7MessageFilters {
+  q?: string
+  outcome?: Hl7Outcome
+  attention?: boolean
+  page?: number
+}
 
 export function getHl7Overview(): Promise<Hl7Overview> {
   return api.get<Hl7Overview>('/interfaces/hl7')

@@ -1,7 +1,12 @@
 import type { Report, ReportName } from '@shared/reports'
 import { api } from './client'
 
-export interface ReportFilters { from?: string; to?: string; surgeonId?: number; procedureCode?: string }
+export interface ReportFilters {
+  from?: string
+  to?: string
+  surgeonId?: number
+  procedureCode?: string
+}
 
 function params(filters: ReportFilters): URLSearchParams {
   const p = new URLSearchParams()

@@ -3,8 +3,16 @@ import { api } from './client'
 
 /** The transfusion as sent: givenAt as an ISO string. */
 export interface TransfusionPayload {
-  givenAt: string; phase?: string; component: string; units: number; preTransfusionHbGL: number | null; reassessedBeforeNext: boolean
-  postTransfusionHbGL: number | null; informationGiven: boolean; productCodes: string[]; reason: string | null
+  givenAt: string
+  phase?: string
+  component: string
+  units: number
+  preTransfusionHbGL: number | null
+  reassessedBeforeNext: boolean
+  postTransfusionHbGL: number | null
+  informationGiven: boolean
+  productCodes: string[]
+  reason: string | null
 }
 
 const base = (id: number) => `/referrals/${id}/transfusions`
@@ -21,6 +29,10 @@ export function voidTransfusion(id: number, transfusionId: number, reason: strin
   return api.post<TransfusionWrite>(`${base(id)}/${transfusionId}/void`, { reason })
 }
 
-export function editTransfusion(id: number, transfusionId: number, input: TransfusionPayload & { changeReason: string }): Promise<TransfusionWrite> {
+export function editTransfusion(
+  id: number,
+  transfusionId: number,
+  input: TransfusionPayload & { changeReason: string },
+): Promise<TransfusionWrite> {
   return api.put<TransfusionWrite>(`${base(id)}/${transfusionId}`, input)
 }

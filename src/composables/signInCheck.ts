@@ -8,9 +8,10 @@ export type SignInFields = 'email' | 'password'
  * module at the first submit, not with the page: yup and the schema are about 15 kB gzip that the
  * first screen anyone sees does not need until then (issue #19's sign-in budget).
  */
-export async function checkSignIn(values: { email: string; password: string }): Promise<
-  { ok: true; values: LoginInput } | { ok: false; errors: Partial<Record<SignInFields, string>> }
-> {
+export async function checkSignIn(values: {
+  email: string
+  password: string
+}): Promise<{ ok: true; values: LoginInput } | { ok: false; errors: Partial<Record<SignInFields, string>> }> {
   try {
     return { ok: true, values: await loginSchema.validate(values, { abortEarly: false }) }
   } catch (error) {

@@ -1,4 +1,12 @@
-import { KIND_INFO, localDate, localTime, longDate, type AppointmentKind, type AppointmentStatus, type MessageStatus } from '@shared/appointments'
+import {
+  KIND_INFO,
+  localDate,
+  localTime,
+  longDate,
+  type AppointmentKind,
+  type AppointmentStatus,
+  type MessageStatus,
+} from '@shared/appointments'
 import { useClinicZoneStore } from '@/stores/clinicZone'
 
 // The clinic's zone lives in its store (stores/clinicZone.ts); read there on each call, so a
@@ -14,7 +22,11 @@ export const clinicZoneLabel = (): string => zone().label
 export type Tone = 'done' | 'waiting' | 'attention' | 'refused' | 'neutral'
 
 /** Every state has a word and an icon besides its colour (WCAG 2.2 AA: never colour alone). */
-export interface StateLook { word: string; icon: string; tone: Tone }
+export interface StateLook {
+  word: string
+  icon: string
+  tone: Tone
+}
 
 export const APPOINTMENT_STATE: Record<AppointmentStatus, StateLook> = {
   booked: { word: 'Booked', icon: 'pi pi-clock', tone: 'waiting' },
@@ -62,7 +74,11 @@ export const USUAL_PLACE: Record<AppointmentKind, string> = {
   'recheck-bloods': 'Phlebotomy, Level 0',
 }
 
-export const kindOptions = (Object.keys(KIND_SHORT) as AppointmentKind[]).map((k) => ({ value: k, label: KIND_SHORT[k], hint: KIND_INFO[k].label }))
+export const kindOptions = (Object.keys(KIND_SHORT) as AppointmentKind[]).map((k) => ({
+  value: k,
+  label: KIND_SHORT[k],
+  hint: KIND_INFO[k].label,
+}))
 
 export const clinicDate = (iso: string) => localDate(new Date(iso), zone().timeZone)
 export const clinicTime = (iso: string) => localTime(new Date(iso), zone().timeZone)
@@ -81,7 +97,11 @@ export const clinicSpan = (startsAt: string, endsAt: string) => `${clinicTime(st
 /** The shared schema names API fields ("startsAt must be…"); staff read the form's words. */
 export function formWords(message: string | undefined): string {
   if (!message) return ''
-  const m = message.replace(/^startsAt/, 'The date and time').replace(/^durationMin/, 'The length').replace(/^location/, 'The place').replace(/^reason/, 'The reason')
+  const m = message
+    .replace(/^startsAt/, 'The date and time')
+    .replace(/^durationMin/, 'The length')
+    .replace(/^location/, 'The place')
+    .replace(/^reason/, 'The reason')
   return m.charAt(0).toUpperCase() + m.slice(1)
 }
 

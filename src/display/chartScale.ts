@@ -1,6 +1,14 @@
 /** Axis arithmetic shared by the hand-drawn SVG charts (Hb course, projection, oxygen content). */
-export interface Domain { lo: number; hi: number }
-export interface Margins { left: number; right: number; top: number; bottom: number }
+export interface Domain {
+  lo: number
+  hi: number
+}
+export interface Margins {
+  left: number
+  right: number
+  top: number
+  bottom: number
+}
 
 /** Hb axis in g/L on a 10 g/L grid, with room above and below every value it must show. */
 export function hbAxisDomain(values: number[]): Domain {

@@ -70,7 +70,21 @@ export function analyteLabel(analyte: string): string {
 }
 
 /** The order results are read in: blood count, iron studies, inflammation, kidney, vitamins. */
-export const RESULT_ORDER = ['hb', 'mcv', 'ferritin', 'tsat', 'iron', 'transferrin', 'tibc', 'crp', 'creatinine', 'egfr', 'b12', 'folate', 'phosphate']
+export const RESULT_ORDER = [
+  'hb',
+  'mcv',
+  'ferritin',
+  'tsat',
+  'iron',
+  'transferrin',
+  'tibc',
+  'crp',
+  'creatinine',
+  'egfr',
+  'b12',
+  'folate',
+  'phosphate',
+]
 
 /** Schema messages name the API field first ("value is required"); under a form field they start a sentence. */
 export function asSentence(message: string | undefined): string {

@@ -2,26 +2,63 @@ import type { Definition, ReportName, ReportTable } from '@shared/reports'
 
 /** Screen labels for the report columns (the API keeps its stable keys; the CSV keeps the keys too). */
 const COLUMN_LABELS: Record<string, string> = {
-  step: 'Step', label: 'Step', count: 'Episodes', percent: '% of denominator',
-  binFromGL: 'From (g/L)', binToGL: 'Below (g/L)', screening: 'At screening', surgeryDay: 'On the surgery day',
-  productCode: 'Product', patients: 'Episodes', medianRiseGL: 'Median rise (g/L)',
-  groupKey: 'Group', groupName: 'Name', treated: 'Treated with iron', withHb: 'With an Hb before surgery', stillAnaemic: 'Still anaemic',
-  stillAnaemicPercent: 'Still anaemic (%)', transfused: 'Transfused', transfusionRatePercent: 'Transfusion rate (%)', units: 'Units',
+  step: 'Step',
+  label: 'Step',
+  count: 'Episodes',
+  percent: '% of denominator',
+  binFromGL: 'From (g/L)',
+  binToGL: 'Below (g/L)',
+  screening: 'At screening',
+  surgeryDay: 'On the surgery day',
+  productCode: 'Product',
+  patients: 'Episodes',
+  medianRiseGL: 'Median rise (g/L)',
+  groupKey: 'Group',
+  groupName: 'Name',
+  treated: 'Treated with iron',
+  withHb: 'With an Hb before surgery',
+  stillAnaemic: 'Still anaemic',
+  stillAnaemicPercent: 'Still anaemic (%)',
+  transfused: 'Transfused',
+  transfusionRatePercent: 'Transfusion rate (%)',
+  units: 'Units',
   unitsPerPatient: 'Units per episode',
-  leg: 'Leg', episodes: 'Episodes', medianDays: 'Median (days)', p90Days: '90th centile (days)',
-  procedureCode: 'Code', procedureName: 'Operation', patientsCrossmatched: 'Crossmatched (episodes)', unitsCrossmatched: 'Units crossmatched',
-  patientsTransfused: 'Transfused (episodes)', unitsTransfused: 'Units transfused', ctRatio: 'C:T ratio', transfusionProbabilityPercent: 'T (%)',
-  transfusionIndex: 'TI', usualBloodOrder: 'Catalogue order', usualUnits: 'Catalogue units', suggestion: 'Suggested change', suggestionReason: 'Why',
-  meanBloodLossMl: 'Observed mean loss (mL)', usualBloodLossMl: 'Catalogue usual loss (mL)',
+  leg: 'Leg',
+  episodes: 'Episodes',
+  medianDays: 'Median (days)',
+  p90Days: '90th centile (days)',
+  procedureCode: 'Code',
+  procedureName: 'Operation',
+  patientsCrossmatched: 'Crossmatched (episodes)',
+  unitsCrossmatched: 'Units crossmatched',
+  patientsTransfused: 'Transfused (episodes)',
+  unitsTransfused: 'Units transfused',
+  ctRatio: 'C:T ratio',
+  transfusionProbabilityPercent: 'T (%)',
+  transfusionIndex: 'TI',
+  usualBloodOrder: 'Catalogue order',
+  usualUnits: 'Catalogue units',
+  suggestion: 'Suggested change',
+  suggestionReason: 'Why',
+  meanBloodLossMl: 'Observed mean loss (mL)',
+  usualBloodLossMl: 'Catalogue usual loss (mL)',
 }
 
 export const TABLE_TITLES: Record<string, string> = {
-  funnel: 'Steps of the pathway', distribution: 'Hb by 10 g/L band', riseByProduct: 'Median Hb rise by iron product',
-  byOperation: 'By operation', bySurgeon: 'By surgeon', waitingTimes: 'Legs of the pathway', bloodOrdering: 'Per operation',
+  funnel: 'Steps of the pathway',
+  distribution: 'Hb by 10 g/L band',
+  riseByProduct: 'Median Hb rise by iron product',
+  byOperation: 'By operation',
+  bySurgeon: 'By surgeon',
+  waitingTimes: 'Legs of the pathway',
+  bloodOrdering: 'Per operation',
 }
 
 const SUGGESTIONS: Record<string, string> = {
-  keep: 'Keep the current order', 'group-and-screen': 'Change to group and screen', 'fewer-units': 'Crossmatch fewer units', crossmatch: 'Change to crossmatch',
+  keep: 'Keep the current order',
+  'group-and-screen': 'Change to group and screen',
+  'fewer-units': 'Crossmatch fewer units',
+  crossmatch: 'Change to crossmatch',
 }
 const ORDERS: Record<string, string> = { 'group-and-screen': 'Group and screen', crossmatch: 'Crossmatch' }
 
@@ -41,7 +78,18 @@ export function cellText(key: string, v: unknown): string {
 }
 
 export function isNumeric(key: string): boolean {
-  return !['label', 'groupKey', 'groupName', 'productCode', 'procedureCode', 'procedureName', 'usualBloodOrder', 'suggestion', 'suggestionReason', 'treated'].includes(key)
+  return ![
+    'label',
+    'groupKey',
+    'groupName',
+    'productCode',
+    'procedureCode',
+    'procedureName',
+    'usualBloodOrder',
+    'suggestion',
+    'suggestionReason',
+    'treated',
+  ].includes(key)
 }
 
 /** The definitions a table states: one per row (funnel, waiting times) or one per column. */

@@ -40,7 +40,9 @@ let profileLoaded: Promise<void> | null = null
 function loadClinicProfileOnce(zone: ReturnType<typeof useClinicZoneStore>): Promise<void> {
   profileLoaded ??= getClinicProfile()
     .then((p) => zone.setZone(p.timeZone, p.zoneLabel))
-    .catch(() => { profileLoaded = null })
+    .catch(() => {
+      profileLoaded = null
+    })
   return profileLoaded
 }
 

@@ -24,13 +24,23 @@ export const routes: RouteRecordRaw[] = [
     path: '/screening',
     name: 'nurse-home',
     component: () => import('@/views/NurseHomeView.vue'),
-    meta: { action: 'home.screening', title: ROLE_HOMES.nurse.title, wide: true, nav: { label: 'Screening', icon: 'pi pi-list-check', order: 10 } },
+    meta: {
+      action: 'home.screening',
+      title: ROLE_HOMES.nurse.title,
+      wide: true,
+      nav: { label: 'Screening', icon: 'pi pi-list-check', order: 10 },
+    },
   },
   {
     path: '/clinic',
     name: 'doctor-home',
     component: () => import('@/views/DoctorHomeView.vue'),
-    meta: { action: 'home.clinic', title: ROLE_HOMES.doctor.title, wide: true, nav: { label: 'Clinic', icon: 'pi pi-briefcase', order: 10 } },
+    meta: {
+      action: 'home.clinic',
+      title: ROLE_HOMES.doctor.title,
+      wide: true,
+      nav: { label: 'Clinic', icon: 'pi pi-briefcase', order: 10 },
+    },
   },
   {
     path: '/theatre',
@@ -110,7 +120,12 @@ export const routes: RouteRecordRaw[] = [
     path: '/admin/interfaces',
     name: 'interfaces',
     component: () => import('@/views/AdminInterfacesView.vue'),
-    meta: { action: 'hl7.overview', title: 'Interfaces', wide: true, nav: { label: 'Interfaces', icon: 'pi pi-arrow-right-arrow-left', order: 29 } },
+    meta: {
+      action: 'hl7.overview',
+      title: 'Interfaces',
+      wide: true,
+      nav: { label: 'Interfaces', icon: 'pi pi-arrow-right-arrow-left', order: 29 },
+    },
   },
   {
     path: '/worklist',
@@ -123,7 +138,12 @@ export const routes: RouteRecordRaw[] = [
     name: 'import-results',
     component: () => import('@/views/ImportResultsView.vue'),
     // Administrators see the batch list (no patient in it); the clinical importers upload.
-    meta: { action: 'imports.read', title: 'Import results', wide: true, nav: { label: 'Import results', icon: 'pi pi-file-import', order: 30 } },
+    meta: {
+      action: 'imports.read',
+      title: 'Import results',
+      wide: true,
+      nav: { label: 'Import results', icon: 'pi pi-file-import', order: 30 },
+    },
   },
   {
     path: '/referrals/new',

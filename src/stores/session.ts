@@ -34,5 +34,15 @@ export const useSessionStore = defineStore('session', () => {
     user.value = null
   }
 
-  return { user, isSignedIn, roleLabel, setUser, markPasswordChanged, markPasswordChangeRequired, markSecondFactorEnrolled, markSecondFactorRequired, clear }
+  return {
+    user,
+    isSignedIn,
+    roleLabel,
+    setUser,
+    markPasswordChanged,
+    markPasswordChangeRequired,
+    markSecondFactorEnrolled,
+    markSecondFactorRequired,
+    clear,
+  }
 })

@@ -11,8 +11,12 @@ let t: TestApp
 const mail = Maildev.fromEnv()
 let f: BookingFixture
 let nurse: Client
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   await mail.clear()
@@ -23,7 +27,14 @@ beforeEach(async () => {
 const send = () => drainOutbox({ sequelize: t.sequelize, config: t.config })
 const day = summerDay()
 const book = (o: Record<string, unknown> = {}) =>
-  nurse.post('/api/appointments', { referralId: f.referralId, kind: 'anaemia-clinic', startsAt: at(day, '09:30'), durationMin: 30, location: 'Anaemia Clinic, Outpatients B, Level 1', ...o })
+  nurse.post('/api/appointments', {
+    referralId: f.referralId,
+    kind: 'anaemia-clinic',
+    startsAt: at(day, '09:30'),
+    durationMin: 30,
+    location: 'Anaemia Clinic, Outpatients B, Level 1',
+    ...o,
+  })
 
 async function onlyMail(): Promise<ReceivedMail> {
   const got = await mail.to(f.email)
@@ -36,55 +47,69 @@ describe('booking an appointment', () => {
     const res = await book()
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.appointment).toMatchObject({
-      referralId: f.referralId, patientId: f.patientId, kind: 'anaemia-clinic', kindLabel: 'Anaemia clinic appointment',
-      startsAt: at(day, '09:30'), durationMin: 30, status: 'booked', sequence: 0, version: 1,
+      referralId: f.referralId,
+      patientId: f.patientId,
+      kind: 'anaemia-clinic',
+      kindLabel: 'Anaemia clinic appointment',
+      startsAt: at(day, '09:30'),
+      durationMin: 30,
+      status: 'booked',
+      sequence: 0,
+      version: 1,
     })
     expect(res.body.message).toEqual({ id: expect.any(Number), status: 'queued' })
     expect(await OutboxMessage.count()).toBe(1)
     expect(await AuditEntry.count({ where: { entity: 'appointment', action: 'create' } })).toBe(1)
   })
 
-  it('then the patient receives one e-mail with the time in the clinic zone, the place, the preparation, a reply link and a calendar ' +
-    'invitation', async () => {
-    await book().expect(201)
-    expect(await send()).toMatchObject({ sent: 1, retried: 0 })
-    const m = await onlyMail()
-    // 09:30 in London in July is 08:30 UTC: the e-mail must say the London time and name the zone.
-    // Neutral subject and sender: an inbox preview must not say what the clinic treats (issue 15).
-    expect(m.subject).toMatch(/^Your hospital appointment is booked: \w{3} \d+ Jul, 09:30$/)
-    expect(m.subject).not.toMatch(/anaemi|iron|infusion/i)
-    expect(JSON.stringify(m.from)).not.toMatch(/anaemi|iron|infusion/i)
-    expect(m.text).toContain('Anaemia clinic appointment')
-    for (const part of [m.text, m.html]) {
-      expect(part).toContain('09:30 to 10:00')
-      expect(part).toContain('Europe/London')
-      expect(part).toContain('Anaemia Clinic, Outpatients B, Level 1')
-      expect(part).toContain('Bring a list of your medicines')
-      expect(part).toContain('01632 960 418')
-      expect(part).toMatch(/http:\/\/127\.0\.0\.1:\d+\/reply\/[A-Za-z0-9_-]{43}/)
-    }
-    expect(m.text).toContain('Dear Rowan,')
-    expect(m.html).toContain('<h1')
-    const cal = parseIcs(await mail.attachment(m))
-    expect(prop(cal.properties, 'METHOD')).toBe('REQUEST')
-    expect(cal.events).toHaveLength(1)
-    const ev = cal.events[0]!
-    expect(prop(ev, 'UID')).toMatch(/^appointment-\d+@ferrolane$/)
-    expect(icsUtc(prop(ev, 'DTSTART')!).toISOString()).toBe(at(day, '09:30'))
-    expect(icsUtc(prop(ev, 'DTEND')!).toISOString()).toBe(at(day, '10:00'))
-    expect(prop(ev, 'SEQUENCE')).toBe('0')
-    expect(prop(ev, 'STATUS')).toBe('CONFIRMED')
-    expect(prop(ev, 'LOCATION')).toBe('Anaemia Clinic\\, Outpatients B\\, Level 1')
-    expect(ev.find((p) => p.name === 'ORGANIZER')?.value).toMatch(/^mailto:/i)
-  })
+  it(
+    'then the patient receives one e-mail with the time in the clinic zone, the place, the preparation, a reply link and a calendar ' +
+      'invitation',
+    async () => {
+      await book().expect(201)
+      expect(await send()).toMatchObject({ sent: 1, retried: 0 })
+      const m = await onlyMail()
+      // 09:30 in London in July is 08:30 UTC: the e-mail must say the London time and name the zone.
+      // Neutral subject and sender: an inbox preview must not say what the clinic treats (issue 15).
+      expect(m.subject).toMatch(/^Your hospital appointment is booked: \w{3} \d+ Jul, 09:30$/)
+      expect(m.subject).not.toMatch(/anaemi|iron|infusion/i)
+      expect(JSON.stringify(m.from)).not.toMatch(/anaemi|iron|infusion/i)
+      expect(m.text).toContain('Anaemia clinic appointment')
+      for (const part of [m.text, m.html]) {
+        expect(part).toContain('09:30 to 10:00')
+        expect(part).toContain('Europe/London')
+        expect(part).toContain('Anaemia Clinic, Outpatients B, Level 1')
+        expect(part).toContain('Bring a list of your medicines')
+        expect(part).toContain('01632 960 418')
+        expect(part).toMatch(/http:\/\/127\.0\.0\.1:\d+\/reply\/[A-Za-z0-9_-]{43}/)
+      }
+      expect(m.text).toContain('Dear Rowan,')
+      expect(m.html).toContain('<h1')
+      const cal = parseIcs(await mail.attachment(m))
+      expect(prop(cal.properties, 'METHOD')).toBe('REQUEST')
+      expect(cal.events).toHaveLength(1)
+      const ev = cal.events[0]!
+      expect(prop(ev, 'UID')).toMatch(/^appointment-\d+@ferrolane$/)
+      expect(icsUtc(prop(ev, 'DTSTART')!).toISOString()).toBe(at(day, '09:30'))
+      expect(icsUtc(prop(ev, 'DTEND')!).toISOString()).toBe(at(day, '10:00'))
+      expect(prop(ev, 'SEQUENCE')).toBe('0')
+      expect(prop(ev, 'STATUS')).toBe('CONFIRMED')
+      expect(prop(ev, 'LOCATION')).toBe('Anaemia Clinic\\, Outpatients B\\, Level 1')
+      expect(ev.find((p) => p.name === 'ORGANIZER')?.value).toMatch(/^mailto:/i)
+    },
+  )
 
   it('then the outbox shows the message as sent, with the episode filter', async () => {
     await book().expect(201)
     await send()
     const res = await nurse.get(`/api/outbox?referralId=${f.referralId}&status=sent`).expect(200)
-    expect(res.body.rows).toEqual([expect.objectContaining({ kind: 'booking', status: 'sent', attempts: 1, toAddress: f.email, referralId: f.referralId })])
+    expect(res.body.rows).toEqual([
+      expect.objectContaining({ kind: 'booking', status: 'sent', attempts: 1, toAddress: f.email, referralId: f.referralId }),
+    ])
     expect((await nurse.get('/api/outbox?status=queued').expect(200)).body.rows).toEqual([])
-    expect((await nurse.get('/api/outbox?status=lost').expect(400)).body.error.fields.status).toMatch(/queued, sending, sent, failed, bounced/)
+    expect((await nurse.get('/api/outbox?status=lost').expect(400)).body.error.fields.status).toMatch(
+      /queued, sending, sent, failed, bounced/,
+    )
   })
 
   const bad: [string, Record<string, unknown>, string][] = [
@@ -106,7 +131,13 @@ describe('booking an appointment', () => {
 
   it('when the patient has no e-mail address, then the appointment is booked and no message is queued', async () => {
     const g = await bookingFixture({ email: null })
-    const res = await nurse.post('/api/appointments', { referralId: g.referralId, kind: 'recheck-bloods', startsAt: at(day, '11:00'), durationMin: 15, location: 'Phlebotomy, Level 0' })
+    const res = await nurse.post('/api/appointments', {
+      referralId: g.referralId,
+      kind: 'recheck-bloods',
+      startsAt: at(day, '11:00'),
+      durationMin: 15,
+      location: 'Phlebotomy, Level 0',
+    })
     expect(res.status).toBe(201)
     expect(res.body.message).toBeNull()
     expect(await OutboxMessage.count()).toBe(0)
@@ -117,7 +148,11 @@ describe('moving and cancelling', () => {
   it('when the appointment is moved, then the patient gets an update with the same UID, a higher SEQUENCE and the old time', async () => {
     const a = (await book().expect(201)).body.appointment
     await send()
-    const res = await nurse.patch(`/api/appointments/${a.id}`, { version: 1, startsAt: at(day, '14:15'), location: 'Anaemia Clinic, Room 4' })
+    const res = await nurse.patch(`/api/appointments/${a.id}`, {
+      version: 1,
+      startsAt: at(day, '14:15'),
+      location: 'Anaemia Clinic, Room 4',
+    })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body.appointment).toMatchObject({ startsAt: at(day, '14:15'), sequence: 1, version: 2, status: 'booked' })
     expect(res.body.message.status).toBe('queued')
@@ -143,32 +178,43 @@ describe('moving and cancelling', () => {
     expect(await OutboxMessage.count()).toBe(2)
   })
 
-  it('when the appointment is cancelled, then the patient gets METHOD:CANCEL with STATUS:CANCELLED and the same UID, and the history ' +
-    'keeps every step', async () => {
-    const a = (await book().expect(201)).body.appointment
-    await nurse.patch(`/api/appointments/${a.id}`, { version: 1, durationMin: 45 }).expect(200)
-    const res = await nurse.post(`/api/appointments/${a.id}/cancel`, { reason: 'Clinic closed for training' })
-    expect(res.status, JSON.stringify(res.body)).toBe(200)
-    expect(res.body.appointment).toMatchObject({ status: 'cancelled', sequence: 2, cancelReason: 'Clinic closed for training' })
-    await send()
-    const mails = await mail.to(f.email)
-    expect(mails.map((m) => m.subject.split(':')[0])).toEqual(['Your hospital appointment is booked', 'Your hospital appointment has changed', 'Your hospital appointment is cancelled'])
-    const cancel = mails[2]!
-    expect(cancel.text).not.toMatch(/\/reply\//)
-    expect(cancel.text).not.toContain('Clinic closed for training')
-    const cal = parseIcs(await mail.attachment(cancel))
-    expect(prop(cal.properties, 'METHOD')).toBe('CANCEL')
-    expect(prop(cal.events[0]!, 'STATUS')).toBe('CANCELLED')
-    expect(prop(cal.events[0]!, 'UID')).toBe(`appointment-${a.id}@ferrolane`)
-    expect(prop(cal.events[0]!, 'SEQUENCE')).toBe('2')
+  it(
+    'when the appointment is cancelled, then the patient gets METHOD:CANCEL with STATUS:CANCELLED and the same UID, and the history ' +
+      'keeps every step',
+    async () => {
+      const a = (await book().expect(201)).body.appointment
+      await nurse.patch(`/api/appointments/${a.id}`, { version: 1, durationMin: 45 }).expect(200)
+      const res = await nurse.post(`/api/appointments/${a.id}/cancel`, { reason: 'Clinic closed for training' })
+      expect(res.status, JSON.stringify(res.body)).toBe(200)
+      expect(res.body.appointment).toMatchObject({ status: 'cancelled', sequence: 2, cancelReason: 'Clinic closed for training' })
+      await send()
+      const mails = await mail.to(f.email)
+      expect(mails.map((m) => m.subject.split(':')[0])).toEqual([
+        'Your hospital appointment is booked',
+        'Your hospital appointment has changed',
+        'Your hospital appointment is cancelled',
+      ])
+      const cancel = mails[2]!
+      expect(cancel.text).not.toMatch(/\/reply\//)
+      expect(cancel.text).not.toContain('Clinic closed for training')
+      const cal = parseIcs(await mail.attachment(cancel))
+      expect(prop(cal.properties, 'METHOD')).toBe('CANCEL')
+      expect(prop(cal.events[0]!, 'STATUS')).toBe('CANCELLED')
+      expect(prop(cal.events[0]!, 'UID')).toBe(`appointment-${a.id}@ferrolane`)
+      expect(prop(cal.events[0]!, 'SEQUENCE')).toBe('2')
 
-    const list = (await nurse.get(`/api/referrals/${f.referralId}/appointments`).expect(200)).body.rows
-    expect(list).toHaveLength(1)
-    expect(list[0].events.map((e: { kind: string }) => e.kind)).toEqual(['booked', 'moved', 'cancelled'])
-    expect(list[0].messages.map((m: { kind: string; status: string }) => `${m.kind}:${m.status}`)).toEqual(['booking:sent', 'update:sent', 'cancellation:sent'])
-    expect((await nurse.post(`/api/appointments/${a.id}/cancel`, { reason: 'again' })).body.error.code).toBe('already_cancelled')
-    expect((await nurse.patch(`/api/appointments/${a.id}`, { version: 3, durationMin: 30 })).status).toBe(422)
-  })
+      const list = (await nurse.get(`/api/referrals/${f.referralId}/appointments`).expect(200)).body.rows
+      expect(list).toHaveLength(1)
+      expect(list[0].events.map((e: { kind: string }) => e.kind)).toEqual(['booked', 'moved', 'cancelled'])
+      expect(list[0].messages.map((m: { kind: string; status: string }) => `${m.kind}:${m.status}`)).toEqual([
+        'booking:sent',
+        'update:sent',
+        'cancellation:sent',
+      ])
+      expect((await nurse.post(`/api/appointments/${a.id}/cancel`, { reason: 'again' })).body.error.code).toBe('already_cancelled')
+      expect((await nurse.patch(`/api/appointments/${a.id}`, { version: 3, durationMin: 30 })).status).toBe(422)
+    },
+  )
 })
 
 describe('who sees appointments', () => {

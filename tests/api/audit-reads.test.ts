@@ -20,9 +20,23 @@ beforeAll(async () => {
   asDoctor = await new Client(t.app).mustSignIn(doctor.email, doctor.password)
   const { patient, referral } = await makeEpisode({ surgeonId: surgeon.id, referral: { stage: 'operated' } })
   ids = { referralId: referral.id, patientId: patient.id }
-  await Outcome.create({ referralId: referral.id, surgeryDate: todayIso(), bloodLossMl: 300, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched: 0, lowestHbGL: 100, dischargeHbGL: null, lengthOfStayDays: 2, complications: ['none'], recordedBy: null })
+  await Outcome.create({
+    referralId: referral.id,
+    surgeryDate: todayIso(),
+    bloodLossMl: 300,
+    unitsTransfusedIntraOp: 0,
+    unitsTransfusedPostOp: 0,
+    unitsCrossmatched: 0,
+    lowestHbGL: 100,
+    dischargeHbGL: null,
+    lengthOfStayDays: 2,
+    complications: ['none'],
+    recordedBy: null,
+  })
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 describe('opening clinical data leaves a "view" entry naming the reader and the patient', () => {
   it.each([

@@ -32,15 +32,34 @@ beforeAll(async () => {
   expect((await asNurse.get(`/api/patients/${patientId}`)).status).toBe(200)
   entryId = Number((await AuditEntry.findOne({ where: { userId: nurse.id, action: 'view', patientId } }))!.id)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 describe('GET /api/audit', () => {
   it("when the admin searches by user, patient and action, then the nurse's view of the record is listed with who and when", async () => {
     const res = await asAdmin.get(`/api/audit?userId=${nurse.id}&patientId=${patientId}&action=view`)
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body).toMatchObject({ total: 1, page: 1, pageSize: 50 })
-    expect(res.body.rows[0]).toMatchObject({ id: entryId, user: { id: nurse.id, name: 'Nurse Audit' }, action: 'view', entity: 'patient', patientId })
-    expect(Object.keys(res.body.rows[0]).sort()).toEqual(['action', 'after', 'at', 'before', 'entity', 'entityId', 'id', 'patientId', 'requestId', 'user'])
+    expect(res.body.rows[0]).toMatchObject({
+      id: entryId,
+      user: { id: nurse.id, name: 'Nurse Audit' },
+      action: 'view',
+      entity: 'patient',
+      patientId,
+    })
+    expect(Object.keys(res.body.rows[0]).sort()).toEqual([
+      'action',
+      'after',
+      'at',
+      'before',
+      'entity',
+      'entityId',
+      'id',
+      'patientId',
+      'requestId',
+      'user',
+    ])
   })
 
   it('when the admin filters by MRN, then the entries about that patient are found without the admin reading the record', async () => {
@@ -88,7 +107,11 @@ describe('the audit trail cannot be changed through the application', () => {
     const original = (await AuditEntry.findByPk(entryId, { raw: true }))!
     for (const c of [asAdmin, asNurse, asDoctor]) {
       for (const path of ['/api/audit', `/api/audit/${entryId}`]) {
-        const tries = { PUT: await c.put(path, { action: 'edited' }), PATCH: await c.patch(path, { action: 'edited' }), DELETE: await c.delete(path) }
+        const tries = {
+          PUT: await c.put(path, { action: 'edited' }),
+          PATCH: await c.patch(path, { action: 'edited' }),
+          DELETE: await c.delete(path),
+        }
         for (const [method, res] of Object.entries(tries)) expect([404, 405], `${method} ${path}`).toContain(res.status)
       }
     }

@@ -59,27 +59,30 @@ describe('directory sign-in (OpenID Connect against the fake provider)', () => {
     expect(q.get('scope')).toBe('openid email profile groups')
   })
 
-  it('when a nurse in the nurses group signs in for the first time, then an account is created, the session id changes and it is ' +
-    'audited', async () => {
-    const rosa = person(['All-Staff', 'Anaemia-Nurses'], { name: 'Rosa Test' })
-    people.push(rosa)
-    const { c, browser, start, done } = await signInAs(rosa)
-    expect(browser.seen).toEqual(['Sign in to the staff directory', 'Allow access'])
-    expect(done.status).toBe(303)
-    expect(done.headers.location).toBe('/')
-    expect(cookieOf(done)).toBeTruthy()
-    expect(cookieOf(done)).not.toBe(cookieOf(start))
-    const me = await c.get('/api/auth/me').expect(200)
-    expect(me.body).toMatchObject({ email: rosa.email, name: 'Rosa Test', role: 'nurse', mustChangePassword: false })
-    const user = await User.findOne({ where: { email: rosa.email }, raw: true })
-    expect(user?.directorySubject).toBe(rosa.sub)
-    const audits = await AuditEntry.findAll({ where: { userId: user!.id }, order: [['id', 'ASC']], raw: true })
-    expect(audits.map((a) => `${a.action}:${a.entity}`)).toEqual(['create:user', 'sign-in:session'])
-    expect(audits[1].after).toMatchObject({ via: 'directory' })
-    // The nurse may now do nurse things, and only those.
-    await c.get('/api/worklist').expect(200)
-    await c.get('/api/users').expect(403)
-  })
+  it(
+    'when a nurse in the nurses group signs in for the first time, then an account is created, the session id changes and it is ' +
+      'audited',
+    async () => {
+      const rosa = person(['All-Staff', 'Anaemia-Nurses'], { name: 'Rosa Test' })
+      people.push(rosa)
+      const { c, browser, start, done } = await signInAs(rosa)
+      expect(browser.seen).toEqual(['Sign in to the staff directory', 'Allow access'])
+      expect(done.status).toBe(303)
+      expect(done.headers.location).toBe('/')
+      expect(cookieOf(done)).toBeTruthy()
+      expect(cookieOf(done)).not.toBe(cookieOf(start))
+      const me = await c.get('/api/auth/me').expect(200)
+      expect(me.body).toMatchObject({ email: rosa.email, name: 'Rosa Test', role: 'nurse', mustChangePassword: false })
+      const user = await User.findOne({ where: { email: rosa.email }, raw: true })
+      expect(user?.directorySubject).toBe(rosa.sub)
+      const audits = await AuditEntry.findAll({ where: { userId: user!.id }, order: [['id', 'ASC']], raw: true })
+      expect(audits.map((a) => `${a.action}:${a.entity}`)).toEqual(['create:user', 'sign-in:session'])
+      expect(audits[1].after).toMatchObject({ via: 'directory' })
+      // The nurse may now do nurse things, and only those.
+      await c.get('/api/worklist').expect(200)
+      await c.get('/api/users').expect(403)
+    },
+  )
 
   it('when the directory moves someone to another group, then the role follows at the next sign-in and the change is audited', async () => {
     const who = person(['Anaemia-Nurses'])
@@ -180,33 +183,42 @@ describe('directory sign-in (OpenID Connect against the fake provider)', () => {
     people.push(who)
     const c = new Client(t.app)
     const start = await c.agent.get('/api/auth/oidc/start').expect(303)
-    const callback = new URL(await new ProviderBrowser().walk(start.headers.location, idp.appEnv.OIDC_REDIRECT_URI, { email: who.email, password: who.password }, { deny: true }))
+    const callback = new URL(
+      await new ProviderBrowser().walk(
+        start.headers.location,
+        idp.appEnv.OIDC_REDIRECT_URI,
+        { email: who.email, password: who.password },
+        { deny: true },
+      ),
+    )
     expect(callback.searchParams.get('error')).toBe('access_denied')
     const done = await c.agent.get(callback.pathname + callback.search)
     expect(done.headers.location).toBe('/sign-in/refused?reason=cancelled')
   })
 
-  it('when a directory user signs out, then Ferrolane ends its session, sends ' +
-    'the browser to end the provider session, and audits it', async () => {
-    const who = person(['Anaemia-Nurses'])
-    people.push(who)
-    const { c, browser } = await signInAs(who)
-    await c.fetchCsrf()
-    const out = await c.post('/api/auth/logout').expect(200)
-    const end = new URL(out.body.endSessionUrl)
-    expect(end.origin).toBe(idp.issuer)
-    expect(end.searchParams.get('id_token_hint')).toBeTruthy()
-    await c.get('/api/auth/me').expect(401)
-    const back = await browser.walk(end.href, idp.appEnv.OIDC_POST_LOGOUT_REDIRECT_URI)
-    expect(back).toBe(idp.appEnv.OIDC_POST_LOGOUT_REDIRECT_URI)
-    expect(browser.seen.at(-1)).toBe('Sign out of the staff directory?')
-    const audit = await AuditEntry.findOne({ where: { action: 'sign-out' }, raw: true })
-    expect(audit?.after).toMatchObject({ via: 'directory', providerSignOut: true })
-    // The provider forgot the browser: the next sign-in asks for the password again.
-    browser.seen = []
-    await signInAs(who, new Client(t.app), browser)
-    expect(browser.seen[0]).toBe('Sign in to the staff directory')
-  })
+  it(
+    'when a directory user signs out, then Ferrolane ends its session, sends ' + 'the browser to end the provider session, and audits it',
+    async () => {
+      const who = person(['Anaemia-Nurses'])
+      people.push(who)
+      const { c, browser } = await signInAs(who)
+      await c.fetchCsrf()
+      const out = await c.post('/api/auth/logout').expect(200)
+      const end = new URL(out.body.endSessionUrl)
+      expect(end.origin).toBe(idp.issuer)
+      expect(end.searchParams.get('id_token_hint')).toBeTruthy()
+      await c.get('/api/auth/me').expect(401)
+      const back = await browser.walk(end.href, idp.appEnv.OIDC_POST_LOGOUT_REDIRECT_URI)
+      expect(back).toBe(idp.appEnv.OIDC_POST_LOGOUT_REDIRECT_URI)
+      expect(browser.seen.at(-1)).toBe('Sign out of the staff directory?')
+      const audit = await AuditEntry.findOne({ where: { action: 'sign-out' }, raw: true })
+      expect(audit?.after).toMatchObject({ via: 'directory', providerSignOut: true })
+      // The provider forgot the browser: the next sign-in asks for the password again.
+      browser.seen = []
+      await signInAs(who, new Client(t.app), browser)
+      expect(browser.seen[0]).toBe('Sign in to the staff directory')
+    },
+  )
 
   it('when a local user signs out, then the answer stays 204 with no provider step', async () => {
     const nurse = await makeStaff('nurse')

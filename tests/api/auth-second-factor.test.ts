@@ -22,7 +22,9 @@ beforeEach(async () => {
 
 /** What an authenticator app shows for this secret, `stepsAhead` periods from now. */
 function authenticatorCode(secret: string, stepsAhead = 0): string {
-  return new OTPAuth.TOTP({ secret: OTPAuth.Secret.fromBase32(secret), digits: 6, period: 30, algorithm: 'SHA1' }).generate({ timestamp: Date.now() + stepsAhead * 30_000 })
+  return new OTPAuth.TOTP({ secret: OTPAuth.Secret.fromBase32(secret), digits: 6, period: 30, algorithm: 'SHA1' }).generate({
+    timestamp: Date.now() + stepsAhead * 30_000,
+  })
 }
 
 async function enrolledAdmin(): Promise<{ secret: string; recoveryCodes: string[] }> {
@@ -30,7 +32,9 @@ async function enrolledAdmin(): Promise<{ secret: string; recoveryCodes: string[
   const res = await c.signIn(admin.email, admin.password)
   expect(res.body.secondFactorEnrolmentRequired).toBe(true)
   const enrolment = await c.post('/api/auth/second-factor/enrolment').expect(200)
-  const confirmed = await c.post('/api/auth/second-factor/enrolment/confirm', { code: authenticatorCode(enrolment.body.secret) }).expect(200)
+  const confirmed = await c
+    .post('/api/auth/second-factor/enrolment/confirm', { code: authenticatorCode(enrolment.body.secret) })
+    .expect(200)
   await c.post('/api/auth/logout').expect(204)
   return { secret: enrolment.body.secret, recoveryCodes: confirmed.body.recoveryCodes }
 }
@@ -56,48 +60,58 @@ describe('TOTP second factor for local accounts', () => {
     expect((await c.get('/api/auth/second-factor').expect(200)).body).toEqual({ enabled: false, recoveryCodesLeft: 0, required: true })
   })
 
-  it('when the admin enrols, then the QR code is an SVG drawn locally, a wrong code is refused, and a right one opens the app and ' +
-    'gives ten recovery codes stored hashed', async () => {
-    const c = new Client(t.app)
-    await c.signIn(admin.email, admin.password)
-    const enrolment = await c.post('/api/auth/second-factor/enrolment').expect(200)
-    expect(enrolment.body.secret).toMatch(/^[A-Z2-7]{32}$/)
-    expect(enrolment.body.qrCodeDataUrl).toMatch(/^data:image\/svg\+xml;base64,/)
-    const svg = Buffer.from(enrolment.body.qrCodeDataUrl.split(',')[1], 'base64').toString()
-    expect(svg).toMatch(/^<svg/)
-    expect(svg).not.toMatch(/https?:\/\/(?!www\.w3\.org)/)
-    const wrong = await c.post('/api/auth/second-factor/enrolment/confirm', { code: '000000' === authenticatorCode(enrolment.body.secret) ? '111111' : '000000' }).expect(400)
-    expect(wrong.body.error.fields.code).toBeTruthy()
-    const ok = await c.post('/api/auth/second-factor/enrolment/confirm', { code: authenticatorCode(enrolment.body.secret) }).expect(200)
-    expect(ok.body.recoveryCodes).toHaveLength(10)
-    expect(new Set(ok.body.recoveryCodes).size).toBe(10)
-    await c.get('/api/users').expect(200)
-    const stored = await RecoveryCode.findAll({ where: { userId: admin.id }, raw: true })
-    expect(stored).toHaveLength(10)
-    for (const code of ok.body.recoveryCodes) expect(JSON.stringify(stored)).not.toContain(code.replace(/-/g, ''))
-    expect(stored.every((r) => /^[0-9a-f]{64}$/.test(r.codeSha256))).toBe(true)
-    expect((await c.get('/api/auth/second-factor').expect(200)).body).toEqual({ enabled: true, recoveryCodesLeft: 10, required: false })
-    expect(await AuditEntry.count({ where: { action: 'enrol-second-factor', userId: admin.id } })).toBe(1)
-  })
+  it(
+    'when the admin enrols, then the QR code is an SVG drawn locally, a wrong code is refused, and a right one opens the app and ' +
+      'gives ten recovery codes stored hashed',
+    async () => {
+      const c = new Client(t.app)
+      await c.signIn(admin.email, admin.password)
+      const enrolment = await c.post('/api/auth/second-factor/enrolment').expect(200)
+      expect(enrolment.body.secret).toMatch(/^[A-Z2-7]{32}$/)
+      expect(enrolment.body.qrCodeDataUrl).toMatch(/^data:image\/svg\+xml;base64,/)
+      const svg = Buffer.from(enrolment.body.qrCodeDataUrl.split(',')[1], 'base64').toString()
+      expect(svg).toMatch(/^<svg/)
+      expect(svg).not.toMatch(/https?:\/\/(?!www\.w3\.org)/)
+      const wrong = await c
+        .post('/api/auth/second-factor/enrolment/confirm', {
+          code: '000000' === authenticatorCode(enrolment.body.secret) ? '111111' : '000000',
+        })
+        .expect(400)
+      expect(wrong.body.error.fields.code).toBeTruthy()
+      const ok = await c.post('/api/auth/second-factor/enrolment/confirm', { code: authenticatorCode(enrolment.body.secret) }).expect(200)
+      expect(ok.body.recoveryCodes).toHaveLength(10)
+      expect(new Set(ok.body.recoveryCodes).size).toBe(10)
+      await c.get('/api/users').expect(200)
+      const stored = await RecoveryCode.findAll({ where: { userId: admin.id }, raw: true })
+      expect(stored).toHaveLength(10)
+      for (const code of ok.body.recoveryCodes) expect(JSON.stringify(stored)).not.toContain(code.replace(/-/g, ''))
+      expect(stored.every((r) => /^[0-9a-f]{64}$/.test(r.codeSha256))).toBe(true)
+      expect((await c.get('/api/auth/second-factor').expect(200)).body).toEqual({ enabled: true, recoveryCodesLeft: 10, required: false })
+      expect(await AuditEntry.count({ where: { action: 'enrol-second-factor', userId: admin.id } })).toBe(1)
+    },
+  )
 
-  it('when an enrolled user gives the password, then nothing is open until the authenticator code is right, and a code cannot be ' +
-    'used twice', async () => {
-    const { secret } = await enrolledAdmin()
-    const c = await passwordStep()
-    await c.get('/api/auth/me').expect(401)
-    const wrong = await c.post('/api/auth/login/second-factor', { code: '12345' }).expect(401)
-    expect(wrong.body.error.code).toBe('invalid_code')
-    const code = authenticatorCode(secret, 1)
-    const ok = await c.post('/api/auth/login/second-factor', { code }).expect(200)
-    expect(ok.body.user).toMatchObject({ id: admin.id, role: 'admin' })
-    c.csrf = ok.body.csrfToken
-    await c.get('/api/users').expect(200)
-    const signIn = await AuditEntry.findOne({ where: { action: 'sign-in', userId: admin.id }, order: [['id', 'DESC']], raw: true })
-    expect(signIn?.after).toMatchObject({ via: 'password', secondFactor: 'totp' })
-    // The same code again, in a new sign-in: a replay.
-    const again = await passwordStep()
-    await again.post('/api/auth/login/second-factor', { code }).expect(401)
-  })
+  it(
+    'when an enrolled user gives the password, then nothing is open until the authenticator code is right, and a code cannot be ' +
+      'used twice',
+    async () => {
+      const { secret } = await enrolledAdmin()
+      const c = await passwordStep()
+      await c.get('/api/auth/me').expect(401)
+      const wrong = await c.post('/api/auth/login/second-factor', { code: '12345' }).expect(401)
+      expect(wrong.body.error.code).toBe('invalid_code')
+      const code = authenticatorCode(secret, 1)
+      const ok = await c.post('/api/auth/login/second-factor', { code }).expect(200)
+      expect(ok.body.user).toMatchObject({ id: admin.id, role: 'admin' })
+      c.csrf = ok.body.csrfToken
+      await c.get('/api/users').expect(200)
+      const signIn = await AuditEntry.findOne({ where: { action: 'sign-in', userId: admin.id }, order: [['id', 'DESC']], raw: true })
+      expect(signIn?.after).toMatchObject({ via: 'password', secondFactor: 'totp' })
+      // The same code again, in a new sign-in: a replay.
+      const again = await passwordStep()
+      await again.post('/api/auth/login/second-factor', { code }).expect(401)
+    },
+  )
 
   it('when a recovery code is used, then it signs in once and never again', async () => {
     const { recoveryCodes } = await enrolledAdmin()
@@ -150,7 +164,10 @@ describe('LOCAL_SIGN_IN', () => {
       const nurse = await makeStaff('nurse')
       const refused = await new Client(app.app).signIn(nurse.email, nurse.password)
       expect(refused.status).toBe(403)
-      expect(refused.body.error).toMatchObject({ code: 'local_sign_in_admins_only', message: expect.stringMatching(/Sign in with Test Hospital directory/) })
+      expect(refused.body.error).toMatchObject({
+        code: 'local_sign_in_admins_only',
+        message: expect.stringMatching(/Sign in with Test Hospital directory/),
+      })
       await new Client(app.app).mustSignIn(admin.email, admin.password)
       expect((await new Client(app.app).get('/api/auth/providers').expect(200)).body.local).toBe('admins-only')
     } finally {

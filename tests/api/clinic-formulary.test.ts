@@ -7,8 +7,12 @@ import { AuditEntry, IronProductRow } from '../../server/models/index'
 
 let t: TestApp
 let admin: Client
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   await loadStarterFormulary()
@@ -19,7 +23,12 @@ beforeEach(async () => {
 describe('formulary and clinic settings (admin)', () => {
   it('then every product carries the caution to check it against the local formulary and prescribing information', async () => {
     const res = await admin.get('/api/formulary').expect(200)
-    expect(res.body.rows.map((r: { code: string }) => r.code).sort()).toEqual(['ferric-carboxymaltose', 'ferric-derisomaltose', 'ferrous-sulfate-oral', 'iron-sucrose'])
+    expect(res.body.rows.map((r: { code: string }) => r.code).sort()).toEqual([
+      'ferric-carboxymaltose',
+      'ferric-derisomaltose',
+      'ferrous-sulfate-oral',
+      'iron-sucrose',
+    ])
     for (const row of res.body.rows) expect(row.caution).toMatch(/local formulary and the product's prescribing information/)
   })
 
@@ -33,7 +42,14 @@ describe('formulary and clinic settings (admin)', () => {
 
   it('when a cap is impossible (0 mg or an oral product without its dose), then 400 and nothing changes', async () => {
     expect((await admin.patch('/api/formulary/iron-sucrose', { maxSingleDoseMg: 0 })).status).toBe(400)
-    const oral = await admin.post('/api/formulary', { code: 'oral-x', name: 'Oral X', route: 'oral', maxSingleDoseMg: 60, minIntervalDays: 1, source: 'test' })
+    const oral = await admin.post('/api/formulary', {
+      code: 'oral-x',
+      name: 'Oral X',
+      route: 'oral',
+      maxSingleDoseMg: 60,
+      minIntervalDays: 1,
+      source: 'test',
+    })
     expect(oral.status).toBe(400)
     expect(oral.body.error.message).toMatch(/oralDailyMg/)
     expect((await IronProductRow.findOne({ where: { code: 'iron-sucrose' } }))!.maxSingleDoseMg).toBe(200)
@@ -43,7 +59,11 @@ describe('formulary and clinic settings (admin)', () => {
   it('when an admin sets the trigger, then the settings read back; an out-of-range value names the field', async () => {
     const ok = await admin.patch('/api/settings/clinic', { transfusionTriggerGL: 75 })
     expect(ok.status).toBe(200)
-    expect((await admin.get('/api/settings/clinic')).body).toMatchObject({ transfusionTriggerGL: 75, cardiovascularTriggerGL: 80, anaemiaCriteria: 'surgical' })
+    expect((await admin.get('/api/settings/clinic')).body).toMatchObject({
+      transfusionTriggerGL: 75,
+      cardiovascularTriggerGL: 80,
+      anaemiaCriteria: 'surgical',
+    })
     const bad = await admin.patch('/api/settings/clinic', { transfusionTriggerGL: 30 })
     expect(bad.status).toBe(400)
     expect(bad.body.error.fields.transfusionTriggerGL).toMatch(/at least 60/)

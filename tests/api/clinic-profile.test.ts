@@ -13,14 +13,21 @@ beforeAll(async () => {
   await cleanDatabase(t.sequelize)
   nurseCreds = await makeStaff('nurse')
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 describe('GET /api/clinic-profile', () => {
   it('when signed in, then it names the configured zone and clinic', async () => {
     const nurse = await new Client(t.app).mustSignIn(nurseCreds.email, nurseCreds.password)
     const res = await nurse.get('/api/clinic-profile')
     expect(res.status).toBe(200)
-    expect(res.body).toMatchObject({ timeZone: 'America/New_York', zoneLabel: 'America/New York', zoneName: 'local time (America/New_York)', name: 'Harbour Test Infirmary' })
+    expect(res.body).toMatchObject({
+      timeZone: 'America/New_York',
+      zoneLabel: 'America/New York',
+      zoneName: 'local time (America/New_York)',
+      name: 'Harbour Test Infirmary',
+    })
   })
 
   it('when not signed in, then 401', async () => {

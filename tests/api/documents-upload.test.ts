@@ -6,7 +6,19 @@ import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { makeEpisode } from '../helpers/clinicFactories'
-import { binary, elfBytes, gifBytes, jpegBytes, mzBytes, pdfBytes, pngBytes, privateUploadDir, storedFiles, textBytes, upload } from '../helpers/documentFixtures'
+import {
+  binary,
+  elfBytes,
+  gifBytes,
+  jpegBytes,
+  mzBytes,
+  pdfBytes,
+  pngBytes,
+  privateUploadDir,
+  storedFiles,
+  textBytes,
+  upload,
+} from '../helpers/documentFixtures'
 import { AuditEntry, EpisodeDocument, Referral } from '../../server/models/index'
 import { UPLOAD_MAX_BYTES } from '../../shared/schemas/documents'
 
@@ -29,7 +41,9 @@ beforeAll(async () => {
   surgeonClient = await new Client(t.app).mustSignIn(surgeon.email, surgeon.password)
   otherSurgeonClient = await new Client(t.app).mustSignIn(other.email, other.password)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 /** Nothing was stored: no row and no file beyond those already there. */
 async function expectNothingStored(rowsBefore: number, filesBefore: string[]) {
@@ -42,7 +56,13 @@ describe('uploading a document to an episode', () => {
     const bytes = await pdfBytes()
     const res = await upload(nurse, referralId, { bytes, name: 'gp-bloods.pdf' })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
-    expect(res.body).toMatchObject({ kind: 'outside-results', kindLabel: 'Results from elsewhere', originalName: 'gp-bloods.pdf', mediaType: 'application/pdf', sizeBytes: bytes.length })
+    expect(res.body).toMatchObject({
+      kind: 'outside-results',
+      kindLabel: 'Results from elsewhere',
+      originalName: 'gp-bloods.pdf',
+      mediaType: 'application/pdf',
+      sizeBytes: bytes.length,
+    })
     // SHA-256 (FIPS 180-4) of the bytes sent, computed here independently.
     expect(res.body.sha256).toBe(createHash('sha256').update(bytes).digest('hex'))
     const row = (await EpisodeDocument.findByPk(res.body.id, { raw: true }))!
@@ -59,7 +79,12 @@ describe('uploading a document to an episode', () => {
     const png = await upload(nurse, referralId, { bytes: pngBytes(), name: 'scan.jpg' })
     expect(png.status, JSON.stringify(png.body)).toBe(201)
     expect(png.body.mediaType).toBe('image/png')
-    const jpeg = await upload(nurse, referralId, { bytes: jpegBytes(), name: 'photo.jpeg' }, { kind: 'referral-letter', title: 'Referral letter photo' })
+    const jpeg = await upload(
+      nurse,
+      referralId,
+      { bytes: jpegBytes(), name: 'photo.jpeg' },
+      { kind: 'referral-letter', title: 'Referral letter photo' },
+    )
     expect(jpeg.status, JSON.stringify(jpeg.body)).toBe(201)
     expect(jpeg.body.mediaType).toBe('image/jpeg')
   })
@@ -106,7 +131,10 @@ describe('uploading a document to an episode', () => {
 
   it('when the file is exactly 10 MB, then it is accepted (the limit is inclusive)', async () => {
     const pdf = await pdfBytes()
-    const res = await upload(nurse, referralId, { bytes: Buffer.concat([pdf, Buffer.alloc(UPLOAD_MAX_BYTES - pdf.length)]), name: 'exactly-10mb.pdf' })
+    const res = await upload(nurse, referralId, {
+      bytes: Buffer.concat([pdf, Buffer.alloc(UPLOAD_MAX_BYTES - pdf.length)]),
+      name: 'exactly-10mb.pdf',
+    })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.sizeBytes).toBe(UPLOAD_MAX_BYTES)
   })
@@ -135,7 +163,9 @@ describe('downloading and who may see documents', () => {
     expect(res.headers['content-type']).toBe('application/pdf')
     expect(res.headers['x-content-type-options']).toBe('nosniff')
     // RFC 6266: attachment, with the UTF-8 name in filename* (RFC 8187).
-    expect(res.headers['content-disposition']).toMatch(/^attachment; filename="R.sum. des r.sultats\.pdf"; filename\*=UTF-8''R%C3%A9sum%C3%A9%20des%20r%C3%A9sultats\.pdf$/)
+    expect(res.headers['content-disposition']).toMatch(
+      /^attachment; filename="R.sum. des r.sultats\.pdf"; filename\*=UTF-8''R%C3%A9sum%C3%A9%20des%20r%C3%A9sultats\.pdf$/,
+    )
     expect((res.body as Buffer).equals(bytes)).toBe(true)
     expect(await AuditEntry.count({ where: { entity: 'document', action: 'download', entityId: String(up.body.id) } })).toBe(1)
   })

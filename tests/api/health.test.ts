@@ -8,8 +8,12 @@ import { existsSync, readFileSync } from 'node:fs'
 import path from 'node:path'
 
 let t: TestApp
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 
 async function poll(url: string, want: number, timeoutMs: number) {
   const deadline = Date.now() + timeoutMs
@@ -41,7 +45,13 @@ describe('health', () => {
       const res = await request(t.app).get('/api/health/ready')
       expect(res.status).toBe(503)
       expect(res.headers['retry-after']).toBe('5')
-      expect(res.body).toMatchObject({ status: 'not-ready', db: 'up', migrations: 'pending', reason: 'migrations-pending', error: { code: 'unavailable' } })
+      expect(res.body).toMatchObject({
+        status: 'not-ready',
+        db: 'up',
+        migrations: 'pending',
+        reason: 'migrations-pending',
+        error: { code: 'unavailable' },
+      })
       expect(res.body.error.message).toMatch(/upgrade/)
     } finally {
       await t.sequelize.query('INSERT INTO schema_migrations (name) VALUES (?)', { replacements: [newest], type: QueryTypes.INSERT })
@@ -49,24 +59,27 @@ describe('health', () => {
     expect((await request(t.app).get('/api/health/ready')).status).toBe(200)
   })
 
-  it('when the test stops its MariaDB, then ready reports 503 unavailable ' +
-    'while alive stays 200, and both recover by themselves', async () => {
-    const dataDir = process.env.MARIADB_DATA_DIR!
-    const pidFile = path.join(dataDir, 'mariadb.pid')
-    expect(existsSync(pidFile)).toBe(true)
-    const pid = Number(readFileSync(pidFile, 'utf8').trim())
-    process.kill(pid, 'SIGTERM')
-    const down = await poll('/api/health/ready', 503, 60_000)
-    expect(down.status).toBe(503)
-    expect(down.body).toMatchObject({ status: 'not-ready', db: 'down', reason: 'database-unreachable', error: { code: 'unavailable' } })
-    expect(down.headers['retry-after']).toBe('5')
-    const alive = await request(t.app).get('/api/health')
-    expect(alive.status).toBe(200)
+  it(
+    'when the test stops its MariaDB, then ready reports 503 unavailable ' + 'while alive stays 200, and both recover by themselves',
+    async () => {
+      const dataDir = process.env.MARIADB_DATA_DIR!
+      const pidFile = path.join(dataDir, 'mariadb.pid')
+      expect(existsSync(pidFile)).toBe(true)
+      const pid = Number(readFileSync(pidFile, 'utf8').trim())
+      process.kill(pid, 'SIGTERM')
+      const down = await poll('/api/health/ready', 503, 60_000)
+      expect(down.status).toBe(503)
+      expect(down.body).toMatchObject({ status: 'not-ready', db: 'down', reason: 'database-unreachable', error: { code: 'unavailable' } })
+      expect(down.headers['retry-after']).toBe('5')
+      const alive = await request(t.app).get('/api/health')
+      expect(alive.status).toBe(200)
 
-    // Restarted as npm test started it: a throw-away instance, commits flushed about once a second.
-    await startMariaDb({ dataDir, port: Number(process.env.DB_PORT), label: 'health-test', durability: 'relaxed' })
-    const up = await poll('/api/health/ready', 200, 30_000)
-    expect(up.status).toBe(200)
-    expect(up.body.status).toBe('ready')
-  }, 120_000)
+      // Restarted as npm test started it: a throw-away instance, commits flushed about once a second.
+      await startMariaDb({ dataDir, port: Number(process.env.DB_PORT), label: 'health-test', durability: 'relaxed' })
+      const up = await poll('/api/health/ready', 200, 30_000)
+      expect(up.status).toBe(200)
+      expect(up.body.status).toBe('ready')
+    },
+    120_000,
+  )
 })

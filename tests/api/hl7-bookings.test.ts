@@ -46,25 +46,36 @@ function siu(event: 'S12' | 'S13' | 'S14' | 'S15', o: { mrn?: string; placer?: s
 
 const flags = async () => {
   const r = (await Referral.findByPk(referralId))!
-  return referralFlags({ ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate }, todayInZone(t.config.clinic.timeZone), t.config.clinic.timeZone)
+  return referralFlags(
+    { ...r.get(), plannedSurgeryDate: r.plannedSurgeryDate },
+    todayInZone(t.config.clinic.timeZone),
+    t.config.clinic.timeZone,
+  )
 }
 
 describe('SIU theatre bookings', () => {
-  it('when a booking arrives, then the planned date is set and the placer id kept; a move keeps the history with its reason and ' +
-    'raises the date-change flag', async () => {
-    const booked = addDays(todayIso(), 40)
-    const [a1] = await send(port, siu('S12', { date: booked }))
-    expect(ackCode(a1!)).toBe('AA')
-    expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ plannedSurgeryDate: booked, placerAppointmentId: 'THR-5501', dateChangeRequestedAt: null })
-    const moved = addDays(todayIso(), 55)
-    const [a2] = await send(port, siu('S13', { date: moved, reason: 'Theatre list cancelled' }))
-    expect(ackCode(a2!)).toBe('AA')
-    const r = (await Referral.findByPk(referralId, { raw: true }))!
-    expect(r.plannedSurgeryDate).toBe(moved)
-    expect(r.surgeryDateHistory!.at(-1)).toMatchObject({ from: booked, to: moved, reason: 'Theatre list cancelled' })
-    expect(await flags()).toContain('date-change-requested')
-    expect(await AuditEntry.count({ where: { action: 'hl7-booking', entityId: String(referralId) } })).toBe(2)
-  })
+  it(
+    'when a booking arrives, then the planned date is set and the placer id kept; a move keeps the history with its reason and ' +
+      'raises the date-change flag',
+    async () => {
+      const booked = addDays(todayIso(), 40)
+      const [a1] = await send(port, siu('S12', { date: booked }))
+      expect(ackCode(a1!)).toBe('AA')
+      expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({
+        plannedSurgeryDate: booked,
+        placerAppointmentId: 'THR-5501',
+        dateChangeRequestedAt: null,
+      })
+      const moved = addDays(todayIso(), 55)
+      const [a2] = await send(port, siu('S13', { date: moved, reason: 'Theatre list cancelled' }))
+      expect(ackCode(a2!)).toBe('AA')
+      const r = (await Referral.findByPk(referralId, { raw: true }))!
+      expect(r.plannedSurgeryDate).toBe(moved)
+      expect(r.surgeryDateHistory!.at(-1)).toMatchObject({ from: booked, to: moved, reason: 'Theatre list cancelled' })
+      expect(await flags()).toContain('date-change-requested')
+      expect(await AuditEntry.count({ where: { action: 'hl7-booking', entityId: String(referralId) } })).toBe(2)
+    },
+  )
 
   it('when the booking is cancelled, then the history says so and the flag is raised', async () => {
     await send(port, siu('S12', { date: addDays(todayIso(), 40) }))
@@ -83,26 +94,30 @@ describe('SIU theatre bookings', () => {
     expect((await Referral.findByPk(referralId, { raw: true }))!.plannedSurgeryDate).toBe(addDays(todayIso(), 40))
   })
 
-  it('when a booking is for a patient Ferrolane does not know, then it waits in the queue for a nurse and is processed once the ' +
-    'patient is registered', async () => {
-    const date = addDays(todayIso(), 35)
-    const [ack] = await send(port, siu('S12', { mrn: 'HL72999', date }))
-    expect(ackCode(ack!)).toBe('AE')
-    const queued = (await Hl7MessageRow.findOne({ where: { needsAttention: true }, raw: true }))!
-    expect(queued.messageType).toBe('SIU^S12')
-    const p = await makePatient({ mrn: 'HL72999' })
-    const r = await makeReferral({ patientId: p.id, ...ids })
-    expect(await reprocess(t.sequelize, t.config, queued.id)).toMatchObject({ outcome: 'stored' })
-    expect((await Referral.findByPk(r.id, { raw: true }))!.plannedSurgeryDate).toBe(date)
-  })
+  it(
+    'when a booking is for a patient Ferrolane does not know, then it waits in the queue for a nurse and is processed once the ' +
+      'patient is registered',
+    async () => {
+      const date = addDays(todayIso(), 35)
+      const [ack] = await send(port, siu('S12', { mrn: 'HL72999', date }))
+      expect(ackCode(ack!)).toBe('AE')
+      const queued = (await Hl7MessageRow.findOne({ where: { needsAttention: true }, raw: true }))!
+      expect(queued.messageType).toBe('SIU^S12')
+      const p = await makePatient({ mrn: 'HL72999' })
+      const r = await makeReferral({ patientId: p.id, ...ids })
+      expect(await reprocess(t.sequelize, t.config, queued.id)).toMatchObject({ outcome: 'stored' })
+      expect((await Referral.findByPk(r.id, { raw: true }))!.plannedSurgeryDate).toBe(date)
+    },
+  )
 })
 
 describe('ADT^A08 demographics', () => {
-  const a08 = (o: { family?: string; given?: string; dob?: string; sex?: string }) => [
-    `MSH|^~\\&|KVPAS|KVH|FERROLANE|KVH|${hl7Ts(new Date())}||ADT^A08^ADT_A01|${controlId()}|P|2.4`,
-    `EVN|A08|${hl7Ts(new Date())}`,
-    `PID|1||HL72001^^^KVH^MR||${o.family ?? 'Testpatient'}^${o.given ?? 'Invented'}||${o.dob ?? '19600101'}|${o.sex ?? 'F'}`,
-  ].join('\r')
+  const a08 = (o: { family?: string; given?: string; dob?: string; sex?: string }) =>
+    [
+      `MSH|^~\\&|KVPAS|KVH|FERROLANE|KVH|${hl7Ts(new Date())}||ADT^A08^ADT_A01|${controlId()}|P|2.4`,
+      `EVN|A08|${hl7Ts(new Date())}`,
+      `PID|1||HL72001^^^KVH^MR||${o.family ?? 'Testpatient'}^${o.given ?? 'Invented'}||${o.dob ?? '19600101'}|${o.sex ?? 'F'}`,
+    ].join('\r')
 
   it('when the name changes, then the patient is updated and audited with before and after', async () => {
     const [ack] = await send(port, a08({ family: 'Renamed' }))

@@ -15,7 +15,12 @@ const MAX = 64 * 1024
 beforeAll(async () => {
   t = makeTestApp()
   // Small limits so the test is quick; the defaults (1 MB, 30 s, 300 s) are the same code path.
-  ;({ listener, port } = await startTestListener(t.sequelize, t.config, { maxMessageBytes: MAX, partialTimeoutSeconds: 1, idleTimeoutSeconds: 3, maxConnections: 50 }))
+  ;({ listener, port } = await startTestListener(t.sequelize, t.config, {
+    maxMessageBytes: MAX,
+    partialTimeoutSeconds: 1,
+    idleTimeoutSeconds: 3,
+    maxConnections: 50,
+  }))
 })
 afterAll(async () => {
   await listener.stop()
@@ -41,27 +46,33 @@ describe('the MLLP listener and what it is sent', () => {
     await stillAnswers()
   })
 
-  it('when a message has a header but no control id, or is only a bare MSH, then the answer is AR, nothing is stored, and the ' +
-    'listener keeps answering', async () => {
-    const noId = oru({ mrn: 'HL71001', control: '', obx: [{ value: '120' }] })
-    const { received } = await rawExchange(port, [`${VT}${noId}${END}`, `${VT}MSH|${END}`], { waitMs: 2000 })
-    expect(received.match(/MSA\|AR\|/g)?.length).toBe(2)
-    expect(received).toContain('control id is empty')
-    expect(await Hl7MessageRow.count()).toBe(0)
-    await stillAnswers()
-  })
+  it(
+    'when a message has a header but no control id, or is only a bare MSH, then the answer is AR, nothing is stored, and the ' +
+      'listener keeps answering',
+    async () => {
+      const noId = oru({ mrn: 'HL71001', control: '', obx: [{ value: '120' }] })
+      const { received } = await rawExchange(port, [`${VT}${noId}${END}`, `${VT}MSH|${END}`], { waitMs: 2000 })
+      expect(received.match(/MSA\|AR\|/g)?.length).toBe(2)
+      expect(received).toContain('control id is empty')
+      expect(await Hl7MessageRow.count()).toBe(0)
+      await stillAnswers()
+    },
+  )
 
-  it('when a message is larger than the limit, then the ' +
-    'connection is closed with AR and nothing is stored', { timeout: 15_000 }, async () => {
-    const big = oru({ mrn: 'HL71001', obx: [{ value: '120' }] }) + '\rNTE|1||' + 'x'.repeat(MAX + 10)
-    const { received, closedByServer } = await rawExchange(port, [VT, big, END], { waitMs: 8000 })
-    expect(closedByServer).toBe(true)
-    expect(received).toContain('MSA|AR|')
-    expect(received).toContain('exceeds')
-    expect(await Hl7MessageRow.count()).toBe(0)
-    expect(await Result.count()).toBe(0)
-    await stillAnswers()
-  })
+  it(
+    'when a message is larger than the limit, then the ' + 'connection is closed with AR and nothing is stored',
+    { timeout: 15_000 },
+    async () => {
+      const big = oru({ mrn: 'HL71001', obx: [{ value: '120' }] }) + '\rNTE|1||' + 'x'.repeat(MAX + 10)
+      const { received, closedByServer } = await rawExchange(port, [VT, big, END], { waitMs: 8000 })
+      expect(closedByServer).toBe(true)
+      expect(received).toContain('MSA|AR|')
+      expect(received).toContain('exceeds')
+      expect(await Hl7MessageRow.count()).toBe(0)
+      expect(await Result.count()).toBe(0)
+      await stillAnswers()
+    },
+  )
 
   it('when the connection drops mid-message, then nothing is stored', async () => {
     const msg = oru({ mrn: 'HL71001', obx: [{ value: '120' }] })
@@ -71,15 +82,17 @@ describe('the MLLP listener and what it is sent', () => {
     expect(await Result.count()).toBe(0)
   })
 
-  it('when a frame is left unfinished past the partial-frame timeout, then ' +
-    'the listener closes the connection and stores nothing', async () => {
-    const msg = oru({ mrn: 'HL71001', obx: [{ value: '120' }] })
-    const started = Date.now()
-    const { closedByServer } = await rawExchange(port, [VT, msg], { waitMs: 4000 })
-    expect(closedByServer).toBe(true)
-    expect(Date.now() - started).toBeLessThan(3500)
-    expect(await Hl7MessageRow.count()).toBe(0)
-  })
+  it(
+    'when a frame is left unfinished past the partial-frame timeout, then ' + 'the listener closes the connection and stores nothing',
+    async () => {
+      const msg = oru({ mrn: 'HL71001', obx: [{ value: '120' }] })
+      const started = Date.now()
+      const { closedByServer } = await rawExchange(port, [VT, msg], { waitMs: 4000 })
+      expect(closedByServer).toBe(true)
+      expect(Date.now() - started).toBeLessThan(3500)
+      expect(await Hl7MessageRow.count()).toBe(0)
+    },
+  )
 
   it('when a connection stays silent past the idle timeout, then it is closed', async () => {
     const { closedByServer } = await rawExchange(port, [], { waitMs: 6000 })
@@ -97,7 +110,11 @@ describe('the MLLP listener and what it is sent', () => {
 
   it('when twenty connections send at once, then every message is stored exactly once', async () => {
     const base = Date.now() - 30 * 3600_000
-    const acks = await Promise.all(Array.from({ length: 20 }, (_, i) => send(port, oru({ mrn: 'HL71001', obx: [{ value: String(100 + i), at: new Date(base + i * 60_000) }] }))))
+    const acks = await Promise.all(
+      Array.from({ length: 20 }, (_, i) =>
+        send(port, oru({ mrn: 'HL71001', obx: [{ value: String(100 + i), at: new Date(base + i * 60_000) }] })),
+      ),
+    )
     expect(acks.flat().map(ackCode)).toEqual(Array(20).fill('AA'))
     expect(await Hl7MessageRow.count()).toBe(20)
     expect(await Result.count({ where: { source: 'hl7' } })).toBe(20)
@@ -105,7 +122,9 @@ describe('the MLLP listener and what it is sent', () => {
 
   it('when messages from many connections are stored together and some fail or repeat, then each gets its own answer and a resend changes nothing', async () => {
     const base = Date.now() - 50 * 3600_000
-    const good = Array.from({ length: 8 }, (_, i) => oru({ mrn: 'HL71001', control: `GC-OK-${i}`, obx: [{ value: String(110 + i), at: new Date(base + i * 60_000) }] }))
+    const good = Array.from({ length: 8 }, (_, i) =>
+      oru({ mrn: 'HL71001', control: `GC-OK-${i}`, obx: [{ value: String(110 + i), at: new Date(base + i * 60_000) }] }),
+    )
     const unknown = [0, 1].map((i) => oru({ mrn: 'HL79999', control: `GC-AE-${i}`, obx: [{ value: '99' }] }))
     const old = oru({ mrn: 'HL71001', control: 'GC-AR', version: '2.2', obx: [{ value: '98' }] })
     const dup = oru({ mrn: 'HL71001', control: 'GC-DUP', obx: [{ value: '97', at: new Date(base - 60_000) }] })

@@ -25,14 +25,27 @@ beforeAll(async () => {
   const { patient, referral } = await makeEpisode({ surgeonId: surgeon.id })
   ids = { referralId: referral.id, patientId: patient.id }
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
-const PROTOTYPE_BODIES = ['{"toString":"x"}', '{"valueOf":1}', '{"hasOwnProperty":1}', '{"constructor":{"prototype":{}}}', '{"__proto__":{}}', '{"mrn":"ABC123","nested":{"isPrototypeOf":1}}']
+const PROTOTYPE_BODIES = [
+  '{"toString":"x"}',
+  '{"valueOf":1}',
+  '{"hasOwnProperty":1}',
+  '{"constructor":{"prototype":{}}}',
+  '{"__proto__":{}}',
+  '{"mrn":"ABC123","nested":{"isPrototypeOf":1}}',
+]
 
 describe('keys named like Object.prototype members', () => {
   it.each(PROTOTYPE_BODIES)('when a patient is registered with %s, then the answer is a 400 and nothing is stored', async (body) => {
     const before = await Patient.count()
-    const res = await asNurse.agent.post('/api/patients').set('X-CSRF-Token', asNurse.csrf).set('Content-Type', 'application/json').send(body)
+    const res = await asNurse.agent
+      .post('/api/patients')
+      .set('X-CSRF-Token', asNurse.csrf)
+      .set('Content-Type', 'application/json')
+      .send(body)
     expect(res.status, JSON.stringify(res.body)).toBe(400)
     expect(res.body.error.message).toMatch(/__proto__|constructor|toString|valueOf|hasOwnProperty|isPrototypeOf/)
     expect(await Patient.count()).toBe(before)
@@ -45,8 +58,13 @@ describe('keys named like Object.prototype members', () => {
   })
 
   it('when a multipart field carries one, then the 400 names the key', async () => {
-    const res = await asNurse.agent.post(`/api/referrals/${ids.referralId}/documents`).set('X-CSRF-Token', asNurse.csrf)
-      .field('valueOf', 'x').field('kind', 'other').field('title', 'A letter').attach('file', Buffer.from('%PDF-1.4\n%%EOF\n'), 'a.pdf')
+    const res = await asNurse.agent
+      .post(`/api/referrals/${ids.referralId}/documents`)
+      .set('X-CSRF-Token', asNurse.csrf)
+      .field('valueOf', 'x')
+      .field('kind', 'other')
+      .field('title', 'A letter')
+      .attach('file', Buffer.from('%PDF-1.4\n%%EOF\n'), 'a.pdf')
     expect(res.status, JSON.stringify(res.body)).toBe(400)
     expect(res.body.error.message).toContain('valueOf')
   })
@@ -81,11 +99,13 @@ describe('other inputs that were 500s', () => {
 
   it('when 20 wrong passwords arrive at once for one account, then no more than the limit reach the password check', async () => {
     const victim = await makeStaff('doctor')
-    const clients = await Promise.all(Array.from({ length: 20 }, async () => {
-      const c = new Client(t.app)
-      await c.fetchCsrf()
-      return c
-    }))
+    const clients = await Promise.all(
+      Array.from({ length: 20 }, async () => {
+        const c = new Client(t.app)
+        await c.fetchCsrf()
+        return c
+      }),
+    )
     const results = await Promise.all(clients.map((c) => c.signIn(victim.email, 'not-the-password')))
     const statuses = results.map((r) => r.status).sort()
     expect(statuses.filter((s) => s === 401)).toHaveLength(t.config.login.maxFailuresPerAccount)
@@ -95,14 +115,22 @@ describe('other inputs that were 500s', () => {
   })
 
   it('when the body is not JSON at all, then the answer is a 400 invalid_json', async () => {
-    const res = await asNurse.agent.post('/api/patients').set('X-CSRF-Token', asNurse.csrf).set('Content-Type', 'application/json').send('{"mrn": ')
+    const res = await asNurse.agent
+      .post('/api/patients')
+      .set('X-CSRF-Token', asNurse.csrf)
+      .set('Content-Type', 'application/json')
+      .send('{"mrn": ')
     expect(res.status).toBe(400)
     expect(res.body.error.code).toBe('invalid_json')
   })
 
   it('when the JSON is nested absurdly deep, then the answer is a 400', async () => {
     const body = '{"a":'.repeat(5000) + '1' + '}'.repeat(5000)
-    const res = await asNurse.agent.post('/api/patients').set('X-CSRF-Token', asNurse.csrf).set('Content-Type', 'application/json').send(body)
+    const res = await asNurse.agent
+      .post('/api/patients')
+      .set('X-CSRF-Token', asNurse.csrf)
+      .set('Content-Type', 'application/json')
+      .send(body)
     expect(res.status).toBe(400)
   })
 
@@ -117,7 +145,8 @@ describe('the audit of reads while a screen polls', () => {
 
   it('when a part of an episode is polled, then it is audited once per user and window', async () => {
     const before = await views('results', nurse.id)
-    for (let i = 0; i < 4; i += 1) expect((await asNurse.get(`/api/referrals/${ids.referralId}/results`).set('X-Ferrolane-Refetch', '1')).status).toBe(200)
+    for (let i = 0; i < 4; i += 1)
+      expect((await asNurse.get(`/api/referrals/${ids.referralId}/results`).set('X-Ferrolane-Refetch', '1')).status).toBe(200)
     expect((await asNurse.get(`/api/referrals/${ids.referralId}/results`)).status).toBe(200)
     expect(await views('results', nurse.id)).toBe(before + 1)
   })

@@ -17,8 +17,12 @@ let nurse: StaffFixture
 let admin: StaffFixture
 let c: Client
 let referralId: number
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   nurse = await makeStaff('nurse')
@@ -26,7 +30,9 @@ beforeEach(async () => {
   const surgeon = await makeStaff('surgeon')
   const procedureId = (await makeProcedure()).id
   const p = await makePatient({ mrn: 'CMT0001', sex: 'male' })
-  referralId = (await makeReferral({ patientId: p.id, procedureId, surgeonId: surgeon.id }, { plannedSurgeryDate: addDays(todayIso(), 14) })).id
+  referralId = (
+    await makeReferral({ patientId: p.id, procedureId, surgeonId: surgeon.id }, { plannedSurgeryDate: addDays(todayIso(), 14) })
+  ).id
   c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
 })
 
@@ -42,25 +48,27 @@ function hbRows(n: number, marker?: { at: number; value: number }): string {
 }
 
 describe('a commit is all or nothing', () => {
-  it('when the database refuses a row in the second chunk of 1000, then ' +
-    'nothing from the file is stored, not even the first chunk', async () => {
-    // A real failure inside MariaDB, mid-commit: a trigger refuses one marker value.
-    await t.sequelize.query(
-      `CREATE TRIGGER imports_test_refuse BEFORE INSERT ON results FOR EACH ROW
+  it(
+    'when the database refuses a row in the second chunk of 1000, then ' + 'nothing from the file is stored, not even the first chunk',
+    async () => {
+      // A real failure inside MariaDB, mid-commit: a trigger refuses one marker value.
+      await t.sequelize.query(
+        `CREATE TRIGGER imports_test_refuse BEFORE INSERT ON results FOR EACH ROW
        BEGIN IF NEW.value_reported = 77.7 THEN SIGNAL SQLSTATE '45000' SET MESSAGE_TEXT = 'refused by the test trigger'; END IF; END`,
-      { type: QueryTypes.RAW },
-    )
-    try {
-      const res = await uploadCsv(c, hbRows(1500, { at: 1400, value: 77.7 }), { commit: true })
-      expect(res.status).toBe(500)
-      expect(await Result.count()).toBe(0)
-      expect(await ImportBatch.count()).toBe(0)
-      expect(await AuditEntry.count({ where: { action: 'import' } })).toBe(0)
-      expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: null, anaemic: null })
-    } finally {
-      await t.sequelize.query('DROP TRIGGER IF EXISTS imports_test_refuse', { type: QueryTypes.RAW })
-    }
-  })
+        { type: QueryTypes.RAW },
+      )
+      try {
+        const res = await uploadCsv(c, hbRows(1500, { at: 1400, value: 77.7 }), { commit: true })
+        expect(res.status).toBe(500)
+        expect(await Result.count()).toBe(0)
+        expect(await ImportBatch.count()).toBe(0)
+        expect(await AuditEntry.count({ where: { action: 'import' } })).toBe(0)
+        expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: null, anaemic: null })
+      } finally {
+        await t.sequelize.query('DROP TRIGGER IF EXISTS imports_test_refuse', { type: QueryTypes.RAW })
+      }
+    },
+  )
 
   it('when the same 1500 rows are committed without the trigger, then all 1500 are stored in one batch and audited', async () => {
     const res = await uploadCsv(c, hbRows(1500), { commit: true }).expect(201)
@@ -70,13 +78,16 @@ describe('a commit is all or nothing', () => {
     expect(await AuditEntry.count({ where: { action: 'import-results', entity: 'referral', entityId: String(referralId) } })).toBe(1)
   })
 
-  it('when a row repeats one from an earlier chunk of the same file, then it is reported as repeated in the file, not as already ' +
-    'stored', async () => {
-    const body = hbRows(1200)
-    const firstRow = body.split('\r\n')[1]
-    const res = await uploadCsv(c, body + firstRow + '\r\n')
-    expect(res.body).toMatchObject({ accepted: 1200, skipCounts: { 'duplicate-in-file': 1 } })
-  })
+  it(
+    'when a row repeats one from an earlier chunk of the same file, then it is reported as repeated in the file, not as already ' +
+      'stored',
+    async () => {
+      const body = hbRows(1200)
+      const firstRow = body.split('\r\n')[1]
+      const res = await uploadCsv(c, body + firstRow + '\r\n')
+      expect(res.body).toMatchObject({ accepted: 1200, skipCounts: { 'duplicate-in-file': 1 } })
+    },
+  )
 })
 
 describe('a preview stores nothing and reports what the commit will store', () => {
@@ -89,43 +100,59 @@ describe('a preview stores nothing and reports what the commit will store', () =
     expect(await ImportBatch.count()).toBe(0)
     expect(await AuditEntry.count({ where: { action: ['import', 'import-results'] } })).toBe(0)
     const commit = await uploadCsv(c, file, { commit: true }).expect(201)
-    expect(commit.body).toMatchObject({ committed: true, accepted: preview.body.accepted, skippedTotal: preview.body.skippedTotal, skipCounts: preview.body.skipCounts })
+    expect(commit.body).toMatchObject({
+      committed: true,
+      accepted: preview.body.accepted,
+      skippedTotal: preview.body.skippedTotal,
+      skipCounts: preview.body.skipCounts,
+    })
     expect(await Result.count({ where: { importBatchId: commit.body.batchId } })).toBe(1200)
   })
 })
 
 describe('reversing a batch', () => {
-  it('when a doctor reverses a batch with a reason, then its results are gone, the episode is re-screened and the reversal is ' +
-    'audited', async () => {
-    const typed = await c.post(`/api/referrals/${referralId}/results`, { analyte: 'hb', value: 142, unit: 'g/L', takenAt: takenHoursAgo(100) })
-    expect(typed.status).toBe(201)
-    const res = await uploadCsv(c, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]), { commit: true }).expect(201)
-    // Hb 98 g/L in a man: anaemic by any threshold (WHO men 130 g/L).
-    expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 98, anaemic: 1 })
-    // Least privilege: an administrator reads no patient record and takes no results out.
-    const asAdmin = await new Client(t.app).mustSignIn(admin.email, admin.password)
-    const refused = await asAdmin.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'wrong patient file' })
-    expect(refused.status).toBe(403)
-    const adminUpload = await uploadCsv(asAdmin, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]))
-    expect(adminUpload.status).toBe(403)
+  it(
+    'when a doctor reverses a batch with a reason, then its results are gone, the episode is re-screened and the reversal is ' + 'audited',
+    async () => {
+      const typed = await c.post(`/api/referrals/${referralId}/results`, {
+        analyte: 'hb',
+        value: 142,
+        unit: 'g/L',
+        takenAt: takenHoursAgo(100),
+      })
+      expect(typed.status).toBe(201)
+      const res = await uploadCsv(c, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]), { commit: true }).expect(201)
+      // Hb 98 g/L in a man: anaemic by any threshold (WHO men 130 g/L).
+      expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 98, anaemic: 1 })
+      // Least privilege: an administrator reads no patient record and takes no results out.
+      const asAdmin = await new Client(t.app).mustSignIn(admin.email, admin.password)
+      const refused = await asAdmin.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'wrong patient file' })
+      expect(refused.status).toBe(403)
+      const adminUpload = await uploadCsv(asAdmin, csv([HEADER, ['CMT0001', 'HB', 98, 'g/L', takenHoursAgo(3)]]))
+      expect(adminUpload.status).toBe(403)
 
-    const doctor = await makeStaff('doctor')
-    const a = await new Client(t.app).mustSignIn(doctor.email, doctor.password)
-    const noReason = await a.post(`/api/imports/${res.body.batchId}/reversal`, {})
-    expect(noReason.status).toBe(400)
-    expect(noReason.body.error.fields.reason).toMatch(/required/)
-    const done = await a.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'File belonged to another hospital' })
-    expect(done.status, JSON.stringify(done.body)).toBe(200)
-    expect(done.body).toMatchObject({ reversalReason: 'File belonged to another hospital', resultsRemoved: 1, reversedBy: { id: doctor.id } })
-    expect(await Result.count({ where: { importBatchId: res.body.batchId } })).toBe(0)
-    // Back to the typed-in Hb: 142 g/L, not anaemic.
-    expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 142, anaemic: 0 })
-    expect(await AuditEntry.count({ where: { action: 'reverse', entity: 'import_batch' } })).toBe(1)
-    const again = await a.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'second time' })
-    expect(again.status).toBe(422)
-    const list = await a.get('/api/imports').expect(200)
-    expect(list.body.rows[0]).toMatchObject({ id: res.body.batchId, reversedAt: expect.any(String) })
-  })
+      const doctor = await makeStaff('doctor')
+      const a = await new Client(t.app).mustSignIn(doctor.email, doctor.password)
+      const noReason = await a.post(`/api/imports/${res.body.batchId}/reversal`, {})
+      expect(noReason.status).toBe(400)
+      expect(noReason.body.error.fields.reason).toMatch(/required/)
+      const done = await a.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'File belonged to another hospital' })
+      expect(done.status, JSON.stringify(done.body)).toBe(200)
+      expect(done.body).toMatchObject({
+        reversalReason: 'File belonged to another hospital',
+        resultsRemoved: 1,
+        reversedBy: { id: doctor.id },
+      })
+      expect(await Result.count({ where: { importBatchId: res.body.batchId } })).toBe(0)
+      // Back to the typed-in Hb: 142 g/L, not anaemic.
+      expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: 142, anaemic: 0 })
+      expect(await AuditEntry.count({ where: { action: 'reverse', entity: 'import_batch' } })).toBe(1)
+      const again = await a.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'second time' })
+      expect(again.status).toBe(422)
+      const list = await a.get('/api/imports').expect(200)
+      expect(list.body.rows[0]).toMatchObject({ id: res.body.batchId, reversedAt: expect.any(String) })
+    },
+  )
 })
 
 describe('reversing a batch that reached a closed episode', () => {
@@ -134,7 +161,10 @@ describe('reversing a batch that reached a closed episode', () => {
     await Referral.update({ stage: 'closed' }, { where: { id: referralId } })
     const refused = await c.post(`/api/imports/${res.body.batchId}/reversal`, { reason: 'wrong patient file' })
     expect(refused.status).toBe(422)
-    expect(refused.body.error).toMatchObject({ code: 'episode_closed', message: expect.stringMatching(/closed episode.*cannot be reversed/) })
+    expect(refused.body.error).toMatchObject({
+      code: 'episode_closed',
+      message: expect.stringMatching(/closed episode.*cannot be reversed/),
+    })
     expect(await Result.count({ where: { importBatchId: res.body.batchId } })).toBe(1)
     expect((await ImportBatch.findByPk(res.body.batchId, { raw: true }))!.reversedAt).toBeNull()
   })
@@ -150,12 +180,17 @@ describe('memory stays bounded', () => {
     // Live heap, not garbage: a full collection before each sample (gc exposed at run time).
     v8.setFlagsFromString('--expose-gc')
     const gc = vm.runInNewContext('gc') as () => void
-    const live = () => { gc(); return process.memoryUsage().heapUsed }
+    const live = () => {
+      gc()
+      return process.memoryUsage().heapUsed
+    }
     const before = live()
     let peak = before
     // A full collection every second: often enough to catch 230 000 rows held at once (they would
     // stay for many seconds), rarely enough not to starve the preview on a busy 2-core machine.
-    const timer = setInterval(() => { peak = Math.max(peak, live()) }, 1000)
+    const timer = setInterval(() => {
+      peak = Math.max(peak, live())
+    }, 1000)
     try {
       const res = await uploadCsv(c, content)
       expect(res.status, JSON.stringify(res.body).slice(0, 300)).toBe(200)

@@ -12,8 +12,12 @@ let nurse: StaffFixture
 let c: Client
 let openReferralId: number
 const T1 = takenHoursAgo(5)
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   nurse = await makeStaff('nurse')
@@ -21,7 +25,9 @@ beforeEach(async () => {
   const procedureId = (await makeProcedure()).id
   const a = await makePatient({ mrn: 'IMP0001', sex: 'female' })
   // Surgery in 10 days: an anaemic result should raise "surgery soon, still anaemic" (28-day window).
-  openReferralId = (await makeReferral({ patientId: a.id, procedureId, surgeonId: surgeon.id }, { plannedSurgeryDate: addDays(todayIso(), 10) })).id
+  openReferralId = (
+    await makeReferral({ patientId: a.id, procedureId, surgeonId: surgeon.id }, { plannedSurgeryDate: addDays(todayIso(), 10) })
+  ).id
   const b = await makePatient({ mrn: 'IMP0002' })
   await makeReferral({ patientId: b.id, procedureId, surgeonId: surgeon.id }, { stage: 'closed' })
   c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
@@ -58,37 +64,71 @@ describe('preview of a laboratory CSV', () => {
     expect(byRow[9]).toMatchObject({ code: 'bad-date', reason: expect.stringMatching(/yesterday/) })
     expect(byRow[10]).toMatchObject({ code: 'duplicate-in-file' })
     expect(byRow[11]).toMatchObject({ code: 'implausible-value', reason: expect.stringMatching(/below or above a limit/) })
-    expect(res.body.skipCounts).toEqual({ 'unknown-mrn': 1, 'no-open-referral': 1, 'unknown-analyte': 1, 'unknown-unit': 1, 'implausible-value': 2, 'bad-date': 1, 'duplicate-in-file': 1 })
-    expect(res.body.acceptedRows.map((r: { row: number; analyte: string; valueCanonical: number }) => [r.row, r.analyte, r.valueCanonical])).toEqual([[2, 'hb', 105], [3, 'ferritin', 12]])
+    expect(res.body.skipCounts).toEqual({
+      'unknown-mrn': 1,
+      'no-open-referral': 1,
+      'unknown-analyte': 1,
+      'unknown-unit': 1,
+      'implausible-value': 2,
+      'bad-date': 1,
+      'duplicate-in-file': 1,
+    })
+    expect(
+      res.body.acceptedRows.map((r: { row: number; analyte: string; valueCanonical: number }) => [r.row, r.analyte, r.valueCanonical]),
+    ).toEqual([
+      [2, 'hb', 105],
+      [3, 'ferritin', 12],
+    ])
     expect(await Result.count()).toBe(0)
     expect(await ImportBatch.count()).toBe(0)
   })
 
-  it('when units and codes are spelled as laboratories do (umol/L, LOINC 718-7, g/dL), then they are converted as typed-in results ' +
-    'are (Hb g/dL ×10)', async () => {
-    const res = await uploadCsv(c, csv([HEADER, ['IMP0001', '718-7', 10.4, 'g/dL', T1], ['IMP0001', 'Creatinine', 80, 'umol/L', T1]]))
-    expect(res.body.accepted).toBe(2)
-    expect(res.body.acceptedRows[0]).toMatchObject({ analyte: 'hb', valueCanonical: 104, unitCanonical: 'g/L' })
-    expect(res.body.acceptedRows[1]).toMatchObject({ analyte: 'creatinine', unit: 'µmol/L', valueCanonical: 80 })
-  })
+  it(
+    'when units and codes are spelled as laboratories do (umol/L, LOINC 718-7, g/dL), then they are converted as typed-in results ' +
+      'are (Hb g/dL ×10)',
+    async () => {
+      const res = await uploadCsv(c, csv([HEADER, ['IMP0001', '718-7', 10.4, 'g/dL', T1], ['IMP0001', 'Creatinine', 80, 'umol/L', T1]]))
+      expect(res.body.accepted).toBe(2)
+      expect(res.body.acceptedRows[0]).toMatchObject({ analyte: 'hb', valueCanonical: 104, unitCanonical: 'g/L' })
+      expect(res.body.acceptedRows[1]).toMatchObject({ analyte: 'creatinine', unit: 'µmol/L', valueCanonical: 80 })
+    },
+  )
 })
 
 describe('committing an import', () => {
-  it('when the mixed file is committed, then the 2 rows are stored in one batch, the episode is re-screened and the worklist flags ' +
-    'it', async () => {
-    const res = await uploadCsv(c, MIXED, { commit: true })
-    expect(res.status, JSON.stringify(res.body)).toBe(201)
-    expect(res.body).toMatchObject({ committed: true, accepted: 2, referralsAffected: 1 })
-    const rows = await Result.findAll({ where: { referralId: openReferralId }, raw: true })
-    expect(rows.map((r) => [r.analyte, r.source, r.importBatchId])).toEqual(expect.arrayContaining([['hb', 'lab-csv', res.body.batchId], ['ferritin', 'lab-csv', res.body.batchId]]))
-    // Hb 105 g/L in a woman: anaemic (surgical threshold 130, Muñoz 2017); ferritin 12: absolute deficiency.
-    expect(await Referral.findByPk(openReferralId, { raw: true })).toMatchObject({ anaemic: 1, ironStatus: 'absolute-deficiency', proposedStage: 'clinic', latestHbGL: 105 })
-    const flagged = await c.get('/api/worklist?flag=surgery-soon-anaemic').expect(200)
-    expect(flagged.body.rows.map((r: { id: number }) => r.id)).toEqual([openReferralId])
-    const batch = await c.get(`/api/imports/${res.body.batchId}`).expect(200)
-    expect(batch.body).toMatchObject({ kind: 'lab-csv', sourceName: 'Test laboratory', accepted: 2, skipped: 8, createdBy: { id: nurse.id } })
-    expect(batch.body.sha256).toMatch(/^[0-9a-f]{64}$/)
-  })
+  it(
+    'when the mixed file is committed, then the 2 rows are stored in one batch, the episode is re-screened and the worklist flags ' + 'it',
+    async () => {
+      const res = await uploadCsv(c, MIXED, { commit: true })
+      expect(res.status, JSON.stringify(res.body)).toBe(201)
+      expect(res.body).toMatchObject({ committed: true, accepted: 2, referralsAffected: 1 })
+      const rows = await Result.findAll({ where: { referralId: openReferralId }, raw: true })
+      expect(rows.map((r) => [r.analyte, r.source, r.importBatchId])).toEqual(
+        expect.arrayContaining([
+          ['hb', 'lab-csv', res.body.batchId],
+          ['ferritin', 'lab-csv', res.body.batchId],
+        ]),
+      )
+      // Hb 105 g/L in a woman: anaemic (surgical threshold 130, Muñoz 2017); ferritin 12: absolute deficiency.
+      expect(await Referral.findByPk(openReferralId, { raw: true })).toMatchObject({
+        anaemic: 1,
+        ironStatus: 'absolute-deficiency',
+        proposedStage: 'clinic',
+        latestHbGL: 105,
+      })
+      const flagged = await c.get('/api/worklist?flag=surgery-soon-anaemic').expect(200)
+      expect(flagged.body.rows.map((r: { id: number }) => r.id)).toEqual([openReferralId])
+      const batch = await c.get(`/api/imports/${res.body.batchId}`).expect(200)
+      expect(batch.body).toMatchObject({
+        kind: 'lab-csv',
+        sourceName: 'Test laboratory',
+        accepted: 2,
+        skipped: 8,
+        createdBy: { id: nurse.id },
+      })
+      expect(batch.body.sha256).toMatch(/^[0-9a-f]{64}$/)
+    },
+  )
 
   it('when the same file is imported again, then nothing is duplicated and the earlier batch is named', async () => {
     const first = await uploadCsv(c, MIXED, { commit: true }).expect(201)
@@ -104,7 +144,9 @@ describe('committing an import', () => {
 
   it('when an overlapping file is imported, then only its new row is stored', async () => {
     await uploadCsv(c, MIXED, { commit: true }).expect(201)
-    const res = await uploadCsv(c, csv([HEADER, ['IMP0001', 'HB', 105, 'g/L', T1], ['IMP0001', 'CRP', 4, 'mg/L', T1]]), { commit: true }).expect(201)
+    const res = await uploadCsv(c, csv([HEADER, ['IMP0001', 'HB', 105, 'g/L', T1], ['IMP0001', 'CRP', 4, 'mg/L', T1]]), {
+      commit: true,
+    }).expect(201)
     expect(res.body).toMatchObject({ accepted: 1, skipCounts: { 'duplicate-stored': 1 } })
     expect(await Result.count()).toBe(3)
   })
@@ -117,14 +159,21 @@ describe('committing an import', () => {
     expect(await Result.count()).toBe(2)
   })
 
-  it('when iron and TIBC of one sample and a creatinine arrive, then TSAT and eGFR are derived as for typed-in results (TSAT 10/60 = ' +
-    '16.7 %, reference §7)', async () => {
-    const res = await uploadCsv(c, csv([HEADER, ['IMP0001', 'FE', 10, 'umol/L', T1], ['IMP0001', 'TIBC', 60, 'umol/L', T1], ['IMP0001', 'CREAT', 80, 'umol/L', T1]]), { commit: true }).expect(201)
-    expect(res.body.derived).toBe(2)
-    const tsat = await Result.findOne({ where: { referralId: openReferralId, analyte: 'tsat' }, raw: true })
-    expect(tsat).toMatchObject({ valueCanonical: 16.7, source: 'derived', importBatchId: res.body.batchId })
-    expect(await Result.count({ where: { analyte: 'egfr' } })).toBe(1)
-  })
+  it(
+    'when iron and TIBC of one sample and a creatinine arrive, then TSAT and eGFR are derived as for typed-in results (TSAT 10/60 = ' +
+      '16.7 %, reference §7)',
+    async () => {
+      const res = await uploadCsv(
+        c,
+        csv([HEADER, ['IMP0001', 'FE', 10, 'umol/L', T1], ['IMP0001', 'TIBC', 60, 'umol/L', T1], ['IMP0001', 'CREAT', 80, 'umol/L', T1]]),
+        { commit: true },
+      ).expect(201)
+      expect(res.body.derived).toBe(2)
+      const tsat = await Result.findOne({ where: { referralId: openReferralId, analyte: 'tsat' }, raw: true })
+      expect(tsat).toMatchObject({ valueCanonical: 16.7, source: 'derived', importBatchId: res.body.batchId })
+      expect(await Result.count({ where: { analyte: 'egfr' } })).toBe(1)
+    },
+  )
 })
 
 describe('files and fields that are refused', () => {
@@ -142,7 +191,10 @@ describe('files and fields that are refused', () => {
   })
 
   it('when the file is a spreadsheet workbook, then 415 asks for CSV', async () => {
-    const res = await uploadCsv(c, 'a,b\n', { fileName: 'results.xlsx', contentType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' })
+    const res = await uploadCsv(c, 'a,b\n', {
+      fileName: 'results.xlsx',
+      contentType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+    })
     expect(res.status).toBe(415)
     expect(res.body.error.fields.file).toMatch(/CSV/)
   })
@@ -155,7 +207,11 @@ describe('files and fields that are refused', () => {
   })
 
   it('when no file or no source is sent, then 400 names the field', async () => {
-    const noFile = await c.agent.post('/api/imports/lab-results').set('X-CSRF-Token', c.csrf).field('source', 'Lab').field('commit', 'false')
+    const noFile = await c.agent
+      .post('/api/imports/lab-results')
+      .set('X-CSRF-Token', c.csrf)
+      .field('source', 'Lab')
+      .field('commit', 'false')
     expect(noFile.status).toBe(400)
     expect(noFile.body.error.fields.file).toMatch(/required/)
     const noSource = await c.agent.post('/api/imports/lab-results').set('X-CSRF-Token', c.csrf).attach('file', Buffer.from(MIXED), 'r.csv')
@@ -164,7 +220,13 @@ describe('files and fields that are refused', () => {
   })
 
   it('when the header lacks a mapped column, then 422 names it and what the header holds', async () => {
-    const res = await uploadCsv(c, csv([['patient', 'test_code', 'value', 'unit', 'taken_at'], ['IMP0001', 'HB', 100, 'g/L', T1]]))
+    const res = await uploadCsv(
+      c,
+      csv([
+        ['patient', 'test_code', 'value', 'unit', 'taken_at'],
+        ['IMP0001', 'HB', 100, 'g/L', T1],
+      ]),
+    )
     expect(res.status).toBe(422)
     expect(res.body.error.message).toMatch(/no column "mrn".*patient/)
   })
@@ -184,26 +246,38 @@ describe('files and fields that are refused', () => {
 })
 
 describe('column mappings saved per source', () => {
-  it('when a nurse saves a mapping for a source, then an upload naming that source is read with it (semicolons, day-first dates, own ' +
-    'codes)', async () => {
-    const mapping = { columns: { mrn: 'Hosp No', code: 'Test', value: 'Result', unit: 'Units', takenAt: 'Collected' }, delimiter: ';', dateOrder: 'dmy', codes: { HGBX: 'hb' } }
-    const saved = await c.put('/api/imports/mappings/Northgate Pathology', { mapping })
-    expect(saved.status, JSON.stringify(saved.body)).toBe(200)
-    expect(saved.body).toMatchObject({ sourceName: 'Northgate Pathology', saved: true, mapping: { delimiter: ';' } })
-    const d = new Date(Date.now() - 86_400_000)
-    const dmy = `${String(d.getUTCDate()).padStart(2, '0')}/${String(d.getUTCMonth() + 1).padStart(2, '0')}/${d.getUTCFullYear()} 08:15`
-    const file = `Hosp No;Test;Result;Units;Collected\nIMP0001;HGBX;11,2;g/dL;${dmy}\n`
-    const res = await uploadCsv(c, file, { source: 'Northgate Pathology' })
-    expect(res.body, JSON.stringify(res.body)).toMatchObject({ accepted: 1, acceptedRows: [{ analyte: 'hb', valueCanonical: 112 }] })
-    const list = await c.get('/api/imports/mappings').expect(200)
-    expect(list.body.rows.map((r: { sourceName: string }) => r.sourceName)).toEqual(['Northgate Pathology'])
-  })
+  it(
+    'when a nurse saves a mapping for a source, then an upload naming that source is read with it (semicolons, day-first dates, own ' +
+      'codes)',
+    async () => {
+      const mapping = {
+        columns: { mrn: 'Hosp No', code: 'Test', value: 'Result', unit: 'Units', takenAt: 'Collected' },
+        delimiter: ';',
+        dateOrder: 'dmy',
+        codes: { HGBX: 'hb' },
+      }
+      const saved = await c.put('/api/imports/mappings/Northgate Pathology', { mapping })
+      expect(saved.status, JSON.stringify(saved.body)).toBe(200)
+      expect(saved.body).toMatchObject({ sourceName: 'Northgate Pathology', saved: true, mapping: { delimiter: ';' } })
+      const d = new Date(Date.now() - 86_400_000)
+      const dmy = `${String(d.getUTCDate()).padStart(2, '0')}/${String(d.getUTCMonth() + 1).padStart(2, '0')}/${d.getUTCFullYear()} 08:15`
+      const file = `Hosp No;Test;Result;Units;Collected\nIMP0001;HGBX;11,2;g/dL;${dmy}\n`
+      const res = await uploadCsv(c, file, { source: 'Northgate Pathology' })
+      expect(res.body, JSON.stringify(res.body)).toMatchObject({ accepted: 1, acceptedRows: [{ analyte: 'hb', valueCanonical: 112 }] })
+      const list = await c.get('/api/imports/mappings').expect(200)
+      expect(list.body.rows.map((r: { sourceName: string }) => r.sourceName)).toEqual(['Northgate Pathology'])
+    },
+  )
 
   it('when a mapping maps two fields to one column or a code to an unknown analyte, then 400 names it', async () => {
-    const same = await c.put('/api/imports/mappings/Lab', { mapping: { columns: { mrn: 'a', code: 'a', value: 'b', unit: 'c', takenAt: 'd' } } })
+    const same = await c.put('/api/imports/mappings/Lab', {
+      mapping: { columns: { mrn: 'a', code: 'a', value: 'b', unit: 'c', takenAt: 'd' } },
+    })
     expect(same.status).toBe(400)
     expect(JSON.stringify(same.body.error.fields)).toMatch(/its own column/)
-    const bad = await c.put('/api/imports/mappings/Lab', { mapping: { columns: { mrn: 'a', code: 'b', value: 'c', unit: 'd', takenAt: 'e' }, codes: { X: 'glucose' } } })
+    const bad = await c.put('/api/imports/mappings/Lab', {
+      mapping: { columns: { mrn: 'a', code: 'b', value: 'c', unit: 'd', takenAt: 'e' }, codes: { X: 'glucose' } },
+    })
     expect(bad.status).toBe(400)
     expect(JSON.stringify(bad.body.error.fields)).toMatch(/glucose/)
   })

@@ -11,8 +11,12 @@ let t: TestApp
 let nurse: StaffFixture
 let c: Client
 let referralId: number
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   nurse = await makeStaff('nurse')
@@ -28,9 +32,22 @@ const AT = takenHoursAgo(6)
 
 describe('LOINC and UCUM tables', () => {
   it('then the codes named in issue #7 map to their analytes (LOINC table, from memory)', () => {
-    const want: Record<string, string> = { '718-7': 'hb', '787-2': 'mcv', '2276-4': 'ferritin', '2502-3': 'tsat', '2498-4': 'iron', '3034-6': 'transferrin', '1988-5': 'crp', '2160-0': 'creatinine', '2132-9': 'b12', '2284-8': 'folate' }
+    const want: Record<string, string> = {
+      '718-7': 'hb',
+      '787-2': 'mcv',
+      '2276-4': 'ferritin',
+      '2502-3': 'tsat',
+      '2498-4': 'iron',
+      '3034-6': 'transferrin',
+      '1988-5': 'crp',
+      '2160-0': 'creatinine',
+      '2132-9': 'b12',
+      '2284-8': 'folate',
+    }
     for (const [code, analyte] of Object.entries(want)) expect(analyteForLoinc(code)?.analyte, code).toBe(analyte)
-    expect(LOINC_CODES.every((e) => e.longName.length > 10 && /LOINC table \(Regenstrief\)/.test(e.source) && !/from memory/.test(e.source))).toBe(true)
+    expect(
+      LOINC_CODES.every((e) => e.longName.length > 10 && /LOINC table \(Regenstrief\)/.test(e.source) && !/from memory/.test(e.source)),
+    ).toBe(true)
   })
 
   it('then UCUM codes, which write micro as "u", become the units typed-in results use (UCUM specification)', () => {
@@ -43,11 +60,13 @@ describe('LOINC and UCUM tables', () => {
 
 describe('importing a FHIR R4 Bundle of Observations', () => {
   it('when every entry is valid, then each is accepted and stored in one fhir batch, converted to canonical units', async () => {
-    const res = await post(bundle([
-      observation({ mrn: 'FHR0001', loinc: '718-7', value: 10.9, ucum: 'g/dL', at: AT }),
-      observation({ mrn: 'FHR0001', loinc: '2276-4', value: 18, ucum: 'ug/L', at: AT }),
-      observation({ mrn: 'FHR0001', loinc: '2160-0', value: 0.9, ucum: 'mg/dL', at: AT }),
-    ]))
+    const res = await post(
+      bundle([
+        observation({ mrn: 'FHR0001', loinc: '718-7', value: 10.9, ucum: 'g/dL', at: AT }),
+        observation({ mrn: 'FHR0001', loinc: '2276-4', value: 18, ucum: 'ug/L', at: AT }),
+        observation({ mrn: 'FHR0001', loinc: '2160-0', value: 0.9, ucum: 'mg/dL', at: AT }),
+      ]),
+    )
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body).toMatchObject({ accepted: 3, invalid: 0, committed: true })
     expect(res.body.entries.map((e: { outcome: string }) => e.outcome)).toEqual(['accepted', 'accepted', 'accepted'])
@@ -59,7 +78,7 @@ describe('importing a FHIR R4 Bundle of Observations', () => {
     expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ anaemic: 1, ironStatus: 'absolute-deficiency' })
   })
 
-  it('when the subject is a Patient entry in the bundle, then it is matched by that Patient\'s identifier', async () => {
+  it("when the subject is a Patient entry in the bundle, then it is matched by that Patient's identifier", async () => {
     const b = bundle([
       { resourceType: 'Patient', id: 'p1', identifier: [{ type: { coding: [{ code: 'MR' }] }, value: 'FHR0001' }] },
       observation({ subject: { reference: 'Patient/p1' }, at: AT }),
@@ -69,15 +88,17 @@ describe('importing a FHIR R4 Bundle of Observations', () => {
   })
 
   it('when the bundle has invalid entries, then each reason is reported and nothing is stored', async () => {
-    const res = await post(bundle([
-      observation({ mrn: 'FHR0001', at: AT }),
-      // Not a resource a results bundle carries (clinical resources such as MedicationAdministration are skipped as holding no result).
-      { resourceType: 'Questionnaire', status: 'active' },
-      { ...observation({ mrn: 'FHR0001', at: AT }), valueQuantity: undefined },
-      observation({ mrn: 'FHR0001', loinc: '2345-7', at: AT }),
-      observation({ mrn: 'FHR0001', ucum: 'mcg/L', loinc: '2276-4', at: AT }),
-      observation({ mrn: 'FHR0001', status: 'preliminary', at: AT }),
-    ]))
+    const res = await post(
+      bundle([
+        observation({ mrn: 'FHR0001', at: AT }),
+        // Not a resource a results bundle carries (clinical resources such as MedicationAdministration are skipped as holding no result).
+        { resourceType: 'Questionnaire', status: 'active' },
+        { ...observation({ mrn: 'FHR0001', at: AT }), valueQuantity: undefined },
+        observation({ mrn: 'FHR0001', loinc: '2345-7', at: AT }),
+        observation({ mrn: 'FHR0001', ucum: 'mcg/L', loinc: '2276-4', at: AT }),
+        observation({ mrn: 'FHR0001', status: 'preliminary', at: AT }),
+      ]),
+    )
     expect(res.status).toBe(200)
     expect(res.body).toMatchObject({ invalid: 5, committed: false, notStored: expect.stringMatching(/5 entries are invalid/) })
     const reasons = res.body.entries.map((e: { reason?: string }) => e.reason ?? '')
@@ -90,19 +111,25 @@ describe('importing a FHIR R4 Bundle of Observations', () => {
     expect(await Result.count()).toBe(0)
   })
 
-  it('when the user chooses to store the valid entries of a mixed bundle, then those are stored in one batch and the invalid ones ' +
-    'reported', async () => {
-    const res = await post(bundle([
-      observation({ mrn: 'FHR0001', value: 101, at: AT }),
-      observation({ mrn: 'NOSUCH', at: AT }),
-      observation({ mrn: 'FHR0001', value: 1.01, at: AT }),
-    ]), 'commit=true&storeValid=true')
-    expect(res.status, JSON.stringify(res.body)).toBe(201)
-    expect(res.body).toMatchObject({ accepted: 1, invalid: 1, skipped: 1 })
-    expect(res.body.entries[1]).toMatchObject({ outcome: 'skipped', reason: expect.stringMatching(/NOSUCH/) })
-    expect(res.body.entries[2]).toMatchObject({ outcome: 'invalid', reason: expect.stringMatching(/between 20 and 250/) })
-    expect(await Result.count()).toBe(1)
-  })
+  it(
+    'when the user chooses to store the valid entries of a mixed bundle, then those are stored in one batch and the invalid ones ' +
+      'reported',
+    async () => {
+      const res = await post(
+        bundle([
+          observation({ mrn: 'FHR0001', value: 101, at: AT }),
+          observation({ mrn: 'NOSUCH', at: AT }),
+          observation({ mrn: 'FHR0001', value: 1.01, at: AT }),
+        ]),
+        'commit=true&storeValid=true',
+      )
+      expect(res.status, JSON.stringify(res.body)).toBe(201)
+      expect(res.body).toMatchObject({ accepted: 1, invalid: 1, skipped: 1 })
+      expect(res.body.entries[1]).toMatchObject({ outcome: 'skipped', reason: expect.stringMatching(/NOSUCH/) })
+      expect(res.body.entries[2]).toMatchObject({ outcome: 'invalid', reason: expect.stringMatching(/between 20 and 250/) })
+      expect(await Result.count()).toBe(1)
+    },
+  )
 
   it('when the document is not a Bundle, then 422 says so; when the query is wrong, 400 names it', async () => {
     const res = await post({ resourceType: 'Observation' })
@@ -115,7 +142,11 @@ describe('importing a FHIR R4 Bundle of Observations', () => {
 
   it('when a bundle is sent as application/fhir+json, then the raised limit of this route reads it', async () => {
     const b = bundle([observation({ mrn: 'FHR0001', at: AT })])
-    const res = await c.agent.post('/api/imports/fhir?commit=false').set('X-CSRF-Token', c.csrf).set('Content-Type', 'application/fhir+json').send(JSON.stringify(b))
+    const res = await c.agent
+      .post('/api/imports/fhir?commit=false')
+      .set('X-CSRF-Token', c.csrf)
+      .set('Content-Type', 'application/fhir+json')
+      .send(JSON.stringify(b))
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body).toMatchObject({ accepted: 1, committed: false })
     expect(await Result.count()).toBe(0)

@@ -25,7 +25,9 @@ beforeAll(async () => {
   doctor = await new Client(t.app).mustSignIn(d.email, d.password)
   surgeon = await new Client(t.app).mustSignIn(s.email, s.password)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 describe('the letter to the family doctor', () => {
   it('when a doctor writes it, then 201 returns the letter and its stored document, a PDF kept on the episode', async () => {
@@ -49,25 +51,28 @@ describe('the letter to the family doctor', () => {
     letterText = await pdfText(bytes)
   })
 
-  it("then its text names the patient, the hospital number, the latest Hb in g/L, ferritin and TSAT with units, the diagnosis, " +
-    "product and doses", () => {
-    expect(letterText).toContain(`Isolde ${ep.patient.familyName}`)
-    expect(letterText).toContain(ep.patient.mrn)
-    expect(letterText).toContain('Hollin Lane Surgery (invented)')
-    expect(letterText).toContain('Date of birth: 15 May 1960')
-    // Latest Hb is the second sample, 121 g/L = 12.1 g/dL (÷10, clinical reference units).
-    expect(letterText).toMatch(/121 g\/L \(12\.1 g\/dL\)/)
-    expect(letterText).toMatch(/12 µg\/L/)
-    expect(letterText).toMatch(/10\.6 %/)
-    expect(letterText).toContain('Absolute iron deficiency')
-    expect(letterText).toMatch(/Ferric carboxymaltose \(IV\), 1000 mg intravenously/)
-    expect(letterText).toMatch(/Ferric carboxymaltose \(IV\), 500 mg intravenously/)
-    expect(letterText).toMatch(/1500 mg of iron/)
-    expect(letterText).toContain('Ms Perpetua Arkwright')
-    expect(letterText).toContain('Dr Linnea Quarrie')
-    expect(letterText).toMatch(/Decision support only/)
-    expect(letterText).toMatch(/01632 960 418/)
-  })
+  it(
+    'then its text names the patient, the hospital number, the latest Hb in g/L, ferritin and TSAT with units, the diagnosis, ' +
+      'product and doses',
+    () => {
+      expect(letterText).toContain(`Isolde ${ep.patient.familyName}`)
+      expect(letterText).toContain(ep.patient.mrn)
+      expect(letterText).toContain('Hollin Lane Surgery (invented)')
+      expect(letterText).toContain('Date of birth: 15 May 1960')
+      // Latest Hb is the second sample, 121 g/L = 12.1 g/dL (÷10, clinical reference units).
+      expect(letterText).toMatch(/121 g\/L \(12\.1 g\/dL\)/)
+      expect(letterText).toMatch(/12 µg\/L/)
+      expect(letterText).toMatch(/10\.6 %/)
+      expect(letterText).toContain('Absolute iron deficiency')
+      expect(letterText).toMatch(/Ferric carboxymaltose \(IV\), 1000 mg intravenously/)
+      expect(letterText).toMatch(/Ferric carboxymaltose \(IV\), 500 mg intravenously/)
+      expect(letterText).toMatch(/1500 mg of iron/)
+      expect(letterText).toContain('Ms Perpetua Arkwright')
+      expect(letterText).toContain('Dr Linnea Quarrie')
+      expect(letterText).toMatch(/Decision support only/)
+      expect(letterText).toMatch(/01632 960 418/)
+    },
+  )
 
   it('when a surgeon tries to write one, then 403 and nothing is stored', async () => {
     const files = storedFiles(uploadDir)
@@ -76,41 +81,61 @@ describe('the letter to the family doctor', () => {
     expect(await Letter.count()).toBe(1)
   })
 
-  it('when a newer Hb was voided by the laboratory and a newer one is only preliminary, then the letter still states the final 121 ' +
-    'g/L', async () => {
-    const base = { referralId: ep.referral.id, patientId: ep.referral.patientId, analyte: 'hb' as const, unitCanonical: 'g/L', valueReported: null, unitReported: null, enteredBy: null, derivedFrom: null, source: 'hl7' }
-    const added = [
-      await Result.create({ ...base, valueCanonical: 66, takenAt: new Date(Date.now() - 2 * 3600_000), voidedAt: new Date(), voidReason: 'deleted by the laboratory' }),
-      await Result.create({ ...base, valueCanonical: 67, takenAt: new Date(Date.now() - 3600_000), status: 'preliminary' }),
-    ]
-    try {
-      const res = await doctor.post(`/api/referrals/${ep.referral.id}/letters`).expect(201)
-      const pdf = await doctor.get(`/api/letters/${res.body.id}`).buffer(true).parse(binary).expect(200)
-      const text = await pdfText(pdf.body as Buffer)
-      expect(text).toMatch(/121 g\/L \(12\.1 g\/dL\)/)
-      expect(text).not.toMatch(/\b6[67] g\/L/)
-    } finally {
-      await Result.destroy({ where: { id: added.map((r) => r.id) } })
-    }
-  })
+  it(
+    'when a newer Hb was voided by the laboratory and a newer one is only preliminary, then the letter still states the final 121 ' + 'g/L',
+    async () => {
+      const base = {
+        referralId: ep.referral.id,
+        patientId: ep.referral.patientId,
+        analyte: 'hb' as const,
+        unitCanonical: 'g/L',
+        valueReported: null,
+        unitReported: null,
+        enteredBy: null,
+        derivedFrom: null,
+        source: 'hl7',
+      }
+      const added = [
+        await Result.create({
+          ...base,
+          valueCanonical: 66,
+          takenAt: new Date(Date.now() - 2 * 3600_000),
+          voidedAt: new Date(),
+          voidReason: 'deleted by the laboratory',
+        }),
+        await Result.create({ ...base, valueCanonical: 67, takenAt: new Date(Date.now() - 3600_000), status: 'preliminary' }),
+      ]
+      try {
+        const res = await doctor.post(`/api/referrals/${ep.referral.id}/letters`).expect(201)
+        const pdf = await doctor.get(`/api/letters/${res.body.id}`).buffer(true).parse(binary).expect(200)
+        const text = await pdfText(pdf.body as Buffer)
+        expect(text).toMatch(/121 g\/L \(12\.1 g\/dL\)/)
+        expect(text).not.toMatch(/\b6[67] g\/L/)
+      } finally {
+        await Result.destroy({ where: { id: added.map((r) => r.id) } })
+      }
+    },
+  )
 })
 
 describe('a letter to the patient about an appointment', () => {
-  it('when a doctor writes one, then its text is the appointment e-mail ' +
-    'wording: the visit, the preparation steps and the place', async () => {
-    const a = ep.appointments[0]!
-    const res = await doctor.post(`/api/appointments/${a.id}/letter`)
-    expect(res.status, JSON.stringify(res.body)).toBe(201)
-    const pdf = await doctor.get(`/api/letters/${res.body.id}`).buffer(true).parse(binary).expect(200)
-    const text = await pdfText(pdf.body as Buffer)
-    expect(text).toContain('Your appointment is booked')
-    expect(text).toContain(`Dear Isolde,`)
-    expect(text).toContain(KIND_INFO['recheck-bloods'].label)
-    for (const step of KIND_INFO['recheck-bloods'].preparation) expect(text).toContain(step)
-    expect(text).toContain('Day Treatment Unit, Level 2')
-    expect(text).not.toMatch(/calendar file|e-mail/)
-    expect((await Letter.findByPk(res.body.id, { raw: true }))!).toMatchObject({ recipient: 'patient', appointmentId: a.id })
-  })
+  it(
+    'when a doctor writes one, then its text is the appointment e-mail ' + 'wording: the visit, the preparation steps and the place',
+    async () => {
+      const a = ep.appointments[0]!
+      const res = await doctor.post(`/api/appointments/${a.id}/letter`)
+      expect(res.status, JSON.stringify(res.body)).toBe(201)
+      const pdf = await doctor.get(`/api/letters/${res.body.id}`).buffer(true).parse(binary).expect(200)
+      const text = await pdfText(pdf.body as Buffer)
+      expect(text).toContain('Your appointment is booked')
+      expect(text).toContain(`Dear Isolde,`)
+      expect(text).toContain(KIND_INFO['recheck-bloods'].label)
+      for (const step of KIND_INFO['recheck-bloods'].preparation) expect(text).toContain(step)
+      expect(text).toContain('Day Treatment Unit, Level 2')
+      expect(text).not.toMatch(/calendar file|e-mail/)
+      expect((await Letter.findByPk(res.body.id, { raw: true }))!).toMatchObject({ recipient: 'patient', appointmentId: a.id })
+    },
+  )
 })
 
 describe('a closed episode', () => {

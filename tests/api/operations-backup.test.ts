@@ -34,8 +34,11 @@ describe('a backup and its restore', () => {
   it('when data changes after a backup, then restoring it brings back every table and file exactly', async () => {
     await makeStaff('nurse')
     await makePatient({ familyName: 'Backupton' })
-    await t.sequelize.query(`INSERT INTO audit_entries (at, user_id, action, entity, entity_id, ip, request_id) VALUES (UTC_TIMESTAMP(), NULL, ` +
-        `'login', 'user', '1', '127.0.0.1', 'backup-test')`, { type: QueryTypes.INSERT })
+    await t.sequelize.query(
+      `INSERT INTO audit_entries (at, user_id, action, entity, entity_id, ip, request_id) VALUES (UTC_TIMESTAMP(), NULL, ` +
+        `'login', 'user', '1', '127.0.0.1', 'backup-test')`,
+      { type: QueryTypes.INSERT },
+    )
     await mkdir(path.join(uploadDir, 'episode-1'), { recursive: true })
     await writeFile(path.join(uploadDir, 'episode-1', 'letter.pdf'), '%PDF-1.7 invented test document\n')
     const before = await tableChecksums(t.sequelize)
@@ -82,7 +85,10 @@ describe('a backup and its restore', () => {
     // Without a matching checksum line it is refused as damaged...
     await expect(verifyBackup(backup)).rejects.toThrow(/manifest\.json does not match its checksum/)
     // ...and with one, as a backup this version cannot read.
-    const sums = (await readFile(path.join(backup, 'SHA256SUMS'), 'utf8')).replace(/^\w{64} {2}manifest\.json$/m, `${await sha256File(manifestFile)}  manifest.json`)
+    const sums = (await readFile(path.join(backup, 'SHA256SUMS'), 'utf8')).replace(
+      /^\w{64} {2}manifest\.json$/m,
+      `${await sha256File(manifestFile)}  manifest.json`,
+    )
     await writeFile(path.join(backup, 'SHA256SUMS'), sums)
     await expect(restoreBackup(t.config, backup)).rejects.toThrow(/taken by a newer Ferrolane \(migrations 0999-from-the-future/)
   })

@@ -14,22 +14,30 @@ import { parsePrometheus } from '../helpers/prometheus'
 
 function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
-    const s = createServer().listen(0, '127.0.0.1', () => {
-      const p = (s.address() as { port: number }).port
-      s.close(() => resolve(p))
-    }).on('error', reject)
+    const s = createServer()
+      .listen(0, '127.0.0.1', () => {
+        const p = (s.address() as { port: number }).port
+        s.close(() => resolve(p))
+      })
+      .on('error', reject)
   })
 }
 
 /** This machine's own non-loopback address: a request to it arrives from it, not from 127.0.0.1. */
-const outside = Object.values(networkInterfaces()).flat().find((a) => a && a.family === 'IPv4' && !a.internal)?.address
+const outside = Object.values(networkInterfaces())
+  .flat()
+  .find((a) => a && a.family === 'IPv4' && !a.internal)?.address
 
 const TOKEN = 'metrics-token-for-the-test-run-only-0123'
 let t: TestApp
 let child: ChildProcess
 let port = 0
 let out = ''
-const lines = () => out.split('\n').filter((l) => l.startsWith('{')).map((l) => JSON.parse(l) as Record<string, unknown>)
+const lines = () =>
+  out
+    .split('\n')
+    .filter((l) => l.startsWith('{'))
+    .map((l) => JSON.parse(l) as Record<string, unknown>)
 
 beforeAll(async () => {
   t = makeTestApp()
@@ -39,11 +47,23 @@ beforeAll(async () => {
   // 0.0.0.0 so the same process can be reached from this machine's other address.
   child = spawn(server.cmd, server.args, {
     cwd: server.cwd,
-    env: { ...process.env, PORT: String(port), HOST: '0.0.0.0', STATIC_DIR: '', OUTBOX_POLL_MS: '3600000', LOG_LEVEL: 'info', METRICS_TOKEN: TOKEN },
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: '0.0.0.0',
+      STATIC_DIR: '',
+      OUTBOX_POLL_MS: '3600000',
+      LOG_LEVEL: 'info',
+      METRICS_TOKEN: TOKEN,
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   })
-  child.stdout!.on('data', (d: Buffer) => { out += d.toString() })
-  child.stderr!.on('data', (d: Buffer) => { out += d.toString() })
+  child.stdout!.on('data', (d: Buffer) => {
+    out += d.toString()
+  })
+  child.stderr!.on('data', (d: Buffer) => {
+    out += d.toString()
+  })
   const deadline = Date.now() + 60_000
   while (!out.includes('Ferrolane listening')) {
     if (Date.now() > deadline || child.exitCode !== null) throw new Error(`the compiled server did not start:\n${out}`)
@@ -68,27 +88,41 @@ describe('the compiled server under plain node', () => {
     expect((await c.get('/api/auth/me')).status).toBe(200)
   })
 
-  it('when a request carries patient details in its body and query, then the log has its route, user and status but none of those ' +
-    'details', async () => {
-    const base = `http://127.0.0.1:${port}`
-    const nurse = await makeStaff('nurse')
-    const c = await new Client(base).mustSignIn(nurse.email, nurse.password)
-    // Invented patient; each value is distinctive so a leak anywhere in the log is found.
-    const patient = { mrn: 'QX7731904', givenName: 'Ottoline', familyName: 'Brackenridge', dateOfBirth: '1947-11-23', sex: 'female', phone: '01632 960 487', email: 'o.brackenridge@example.net', heightCm: 158, weightKg: 61.4 }
-    const created = await c.post('/api/patients', patient)
-    expect(created.status, JSON.stringify(created.body)).toBe(201)
-    await c.get('/api/patients?q=Brackenridge').expect(200)
-    await c.get(`/api/patients/${created.body.id}`).expect(200)
-    await new Promise((r) => setTimeout(r, 300))
-    for (const value of ['QX7731904', 'Ottoline', 'Brackenridge', '1947-11-23', '960 487', 'example.net', '61.4', c.csrf]) expect(out).not.toContain(value)
-    // No raw URL, header or cookie is logged either.
-    expect(out).not.toMatch(/ferrolane\.sid|cookie|"url"/i)
-    const create = lines().find((l) => l.route === 'POST /api/patients')
-    expect(create).toMatchObject({ level: 30, msg: 'request finished', userId: nurse.id, res: { statusCode: 201 } })
-    expect(typeof (create!.req as { id: string }).id).toBe('string')
-    expect(typeof create!.ms).toBe('number')
-    expect(lines().some((l) => l.route === 'GET /api/patients/:id' && l.userId === nurse.id)).toBe(true)
-  })
+  it(
+    'when a request carries patient details in its body and query, then the log has its route, user and status but none of those ' +
+      'details',
+    async () => {
+      const base = `http://127.0.0.1:${port}`
+      const nurse = await makeStaff('nurse')
+      const c = await new Client(base).mustSignIn(nurse.email, nurse.password)
+      // Invented patient; each value is distinctive so a leak anywhere in the log is found.
+      const patient = {
+        mrn: 'QX7731904',
+        givenName: 'Ottoline',
+        familyName: 'Brackenridge',
+        dateOfBirth: '1947-11-23',
+        sex: 'female',
+        phone: '01632 960 487',
+        email: 'o.brackenridge@example.net',
+        heightCm: 158,
+        weightKg: 61.4,
+      }
+      const created = await c.post('/api/patients', patient)
+      expect(created.status, JSON.stringify(created.body)).toBe(201)
+      await c.get('/api/patients?q=Brackenridge').expect(200)
+      await c.get(`/api/patients/${created.body.id}`).expect(200)
+      await new Promise((r) => setTimeout(r, 300))
+      for (const value of ['QX7731904', 'Ottoline', 'Brackenridge', '1947-11-23', '960 487', 'example.net', '61.4', c.csrf])
+        expect(out).not.toContain(value)
+      // No raw URL, header or cookie is logged either.
+      expect(out).not.toMatch(/ferrolane\.sid|cookie|"url"/i)
+      const create = lines().find((l) => l.route === 'POST /api/patients')
+      expect(create).toMatchObject({ level: 30, msg: 'request finished', userId: nurse.id, res: { statusCode: 201 } })
+      expect(typeof (create!.req as { id: string }).id).toBe('string')
+      expect(typeof create!.ms).toBe('number')
+      expect(lines().some((l) => l.route === 'GET /api/patients/:id' && l.userId === nurse.id)).toBe(true)
+    },
+  )
 
   it('publishes /metrics to this machine and to the token, and hides it from another address however it names itself', async () => {
     const scrape = await request(`http://127.0.0.1:${port}`).get('/metrics').expect(200)
@@ -99,8 +133,19 @@ describe('the compiled server under plain node', () => {
     const routes = new Set(samples.filter((s) => s.name === 'ferrolane_http_requests_total').map((s) => s.labels.route))
     expect(routes).toContain('GET /api/patients/:id')
     expect([...routes].some((r) => /\/\d+/.test(r))).toBe(false)
-    for (const name of ['ferrolane_db_pool_in_use', 'ferrolane_db_pool_max', 'ferrolane_outbox_backlog', 'ferrolane_outbox_oldest_age_seconds', 'ferrolane_hl7_attention_queue', 'ferrolane_nodejs_eventloop_lag_seconds', 'ferrolane_process_resident_memory_bytes']) {
-      expect(samples.some((s) => s.name === name), name).toBe(true)
+    for (const name of [
+      'ferrolane_db_pool_in_use',
+      'ferrolane_db_pool_max',
+      'ferrolane_outbox_backlog',
+      'ferrolane_outbox_oldest_age_seconds',
+      'ferrolane_hl7_attention_queue',
+      'ferrolane_nodejs_eventloop_lag_seconds',
+      'ferrolane_process_resident_memory_bytes',
+    ]) {
+      expect(
+        samples.some((s) => s.name === name),
+        name,
+      ).toBe(true)
     }
     expect(samples.find((s) => s.name === 'ferrolane_outbox_backlog')!.value).toBe(0)
 

@@ -22,10 +22,12 @@ let nurse: StaffFixture
 
 function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
-    const s = createServer().listen(0, '127.0.0.1', () => {
-      const p = (s.address() as { port: number }).port
-      s.close(() => resolve(p))
-    }).on('error', reject)
+    const s = createServer()
+      .listen(0, '127.0.0.1', () => {
+        const p = (s.address() as { port: number }).port
+        s.close(() => resolve(p))
+      })
+      .on('error', reject)
   })
 }
 
@@ -50,7 +52,13 @@ afterAll(async () => {
   await db?.stop()
 }, 120_000)
 
-interface Answer { mrn: string; status: number; at: number; retryAfter?: string; code?: string }
+interface Answer {
+  mrn: string
+  status: number
+  at: number
+  retryAfter?: string
+  code?: string
+}
 
 describe('when MariaDB dies under a load of patient registrations and comes back', () => {
   it('then every answer is 201 or 503 with Retry-After, the app recovers by itself, and every acknowledged write is kept', async () => {
@@ -63,7 +71,13 @@ describe('when MariaDB dies under a load of patient registrations and comes back
       while (running) {
         n += 1
         const mrn = `OUT${w}${String(n).padStart(6, '0')}`
-        const res = await asNurse.post('/api/patients', { mrn, givenName: 'Outage', familyName: `Test${n}`, dateOfBirth: '1970-01-01', sex: 'female' })
+        const res = await asNurse.post('/api/patients', {
+          mrn,
+          givenName: 'Outage',
+          familyName: `Test${n}`,
+          dateOfBirth: '1970-01-01',
+          sex: 'female',
+        })
         answers.push({ mrn, status: res.status, at: Date.now(), retryAfter: res.headers['retry-after'], code: res.body?.error?.code })
         if (res.status !== 201) await sleep(20)
       }
@@ -88,7 +102,10 @@ describe('when MariaDB dies under a load of patient registrations and comes back
     await load
 
     const all = [...answers, ...reads]
-    expect(all.filter((a) => a.status !== 201 && a.status !== 200 && a.status !== 503), JSON.stringify(all.filter((a) => a.status >= 500 && a.status !== 503).slice(0, 3))).toEqual([])
+    expect(
+      all.filter((a) => a.status !== 201 && a.status !== 200 && a.status !== 503),
+      JSON.stringify(all.filter((a) => a.status >= 500 && a.status !== 503).slice(0, 3)),
+    ).toEqual([])
     const outage = all.filter((a) => a.status === 503)
     expect(outage.length).toBeGreaterThan(10)
     expect(outage.every((a) => a.retryAfter === '5' && a.code === 'unavailable')).toBe(true)
@@ -100,7 +117,10 @@ describe('when MariaDB dies under a load of patient registrations and comes back
     const acknowledged = answers.filter((a) => a.status === 201).map((a) => a.mrn)
     const stored = await t.sequelize.query<{ mrn: string }>('SELECT mrn FROM patients', { type: QueryTypes.SELECT })
     const kept = new Set(stored.map((r) => r.mrn))
-    expect(acknowledged.filter((m) => !kept.has(m)), 'acknowledged but lost').toEqual([])
+    expect(
+      acknowledged.filter((m) => !kept.has(m)),
+      'acknowledged but lost',
+    ).toEqual([])
     // A refused write left nothing half-written: each stored patient has its registration audit row.
     const [orphans] = await t.sequelize.query<{ n: number }>(
       `SELECT COUNT(*) AS n FROM patients p WHERE NOT EXISTS (SELECT 1 FROM audit_entries a WHERE a.entity = 'patient' AND ` +

@@ -22,16 +22,29 @@ beforeAll(async () => {
   asNurse = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
   asDoctor = await new Client(t.app).mustSignIn(doctor.email, doctor.password)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await Outcome.destroy({ where: {} })
   await StageTransition.destroy({ where: {} })
   await Referral.destroy({ where: {} })
 })
 
-const episodeAt = async (stage: 'operated' | 'withdrawn' | 'deferred') => (await makeEpisode({ surgeonId: surgeon.id, referral: { stage } })).referral
+const episodeAt = async (stage: 'operated' | 'withdrawn' | 'deferred') =>
+  (await makeEpisode({ surgeonId: surgeon.id, referral: { stage } })).referral
 const close = (id: number, version: number) => asNurse.post(`/api/referrals/${id}/transitions`, { to: 'closed', version })
-const outcome = { surgeryDate: todayIso(), bloodLossMl: 400, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched: 0, lowestHbGL: 101, dischargeHbGL: 104, lengthOfStayDays: 3, complications: ['none'] }
+const outcome = {
+  surgeryDate: todayIso(),
+  bloodLossMl: 400,
+  unitsTransfusedIntraOp: 0,
+  unitsTransfusedPostOp: 0,
+  unitsCrossmatched: 0,
+  lowestHbGL: 101,
+  dischargeHbGL: 104,
+  lengthOfStayDays: 3,
+  complications: ['none'],
+}
 
 async function unchanged(id: number) {
   const r = (await Referral.findByPk(id))!
@@ -60,7 +73,12 @@ describe('closing an episode after surgery', () => {
     expect(refused.body.error).toMatchObject({ code: 'follow_up_required', fields: { followUp: 'is not recorded yet' } })
     expect(refused.body.error.message).toMatch(/follow-up after discharge/)
     await unchanged(r.id)
-    const fu = await asNurse.post(`/api/referrals/${r.id}/follow-up`, { recheckHbGL: 115, recheckDate: todayIso(), ironAfterSurgery: false, version: rec.body.version })
+    const fu = await asNurse.post(`/api/referrals/${r.id}/follow-up`, {
+      recheckHbGL: 115,
+      recheckDate: todayIso(),
+      ironAfterSurgery: false,
+      version: rec.body.version,
+    })
     expect(fu.status, JSON.stringify(fu.body)).toBe(201)
     const closed = await asDoctor.post(`/api/referrals/${r.id}/transitions`, { to: 'closed', version: fu.body.version })
     expect(closed.status, JSON.stringify(closed.body)).toBe(200)
@@ -71,7 +89,15 @@ describe('closing an episode after surgery', () => {
     const w = await episodeAt('withdrawn')
     expect((await close(w.id, 1)).status).toBe(200)
     const d = await episodeAt('deferred')
-    expect((await asNurse.post(`/api/referrals/${d.id}/transitions`, { to: 'withdrawn', version: 1, reason: 'Operation cancelled by the patient' })).status).toBe(200)
+    expect(
+      (
+        await asNurse.post(`/api/referrals/${d.id}/transitions`, {
+          to: 'withdrawn',
+          version: 1,
+          reason: 'Operation cancelled by the patient',
+        })
+      ).status,
+    ).toBe(200)
     expect((await close(d.id, 2)).status).toBe(200)
     expect(await Outcome.count()).toBe(0)
   })
@@ -85,22 +111,24 @@ describe('closing an episode after surgery', () => {
 })
 
 describe('the demo scenario after surgery', () => {
-  it('then every closed demo episode that had surgery carries its ' +
-    'post-operative record and follow-up, dated before the close', async () => {
-    await cleanDatabase(t.sequelize)
-    expect(await loadDemoScenario(t.sequelize)).toBe(true)
-    const closedAfterSurgery = await Referral.findAll({ where: { stage: 'closed' }, include: [{ model: Patient, as: 'patient' }] })
-    let checked = 0
-    for (const r of closedAfterSurgery) {
-      if (!(await StageTransition.findOne({ where: { referralId: r.id, toStage: 'operated' } }))) continue
-      const o = await Outcome.findOne({ where: { referralId: r.id } })
-      const closedAt = (await StageTransition.findOne({ where: { referralId: r.id, toStage: 'closed' } }))!.at
-      expect(o?.followUpAt, `demo episode ${r.id}`).toBeInstanceOf(Date)
-      expect(o!.followUpAt!.getTime()).toBeLessThanOrEqual(closedAt.getTime())
-      expect(o!.followUpRecheckDate! >= o!.surgeryDate).toBe(true)
-      checked++
-    }
-    expect(checked).toBe(3)
-    await cleanDatabase(t.sequelize)
-  })
+  it(
+    'then every closed demo episode that had surgery carries its ' + 'post-operative record and follow-up, dated before the close',
+    async () => {
+      await cleanDatabase(t.sequelize)
+      expect(await loadDemoScenario(t.sequelize)).toBe(true)
+      const closedAfterSurgery = await Referral.findAll({ where: { stage: 'closed' }, include: [{ model: Patient, as: 'patient' }] })
+      let checked = 0
+      for (const r of closedAfterSurgery) {
+        if (!(await StageTransition.findOne({ where: { referralId: r.id, toStage: 'operated' } }))) continue
+        const o = await Outcome.findOne({ where: { referralId: r.id } })
+        const closedAt = (await StageTransition.findOne({ where: { referralId: r.id, toStage: 'closed' } }))!.at
+        expect(o?.followUpAt, `demo episode ${r.id}`).toBeInstanceOf(Date)
+        expect(o!.followUpAt!.getTime()).toBeLessThanOrEqual(closedAt.getTime())
+        expect(o!.followUpRecheckDate! >= o!.surgeryDate).toBe(true)
+        checked++
+      }
+      expect(checked).toBe(3)
+      await cleanDatabase(t.sequelize)
+    },
+  )
 })

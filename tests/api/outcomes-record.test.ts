@@ -13,8 +13,12 @@ let asNurse: Client
 let asSurgeon: Client
 let asOtherSurgeon: Client
 
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   surgeon = await makeStaff('surgeon')
@@ -29,8 +33,17 @@ const operated = (o: { stage?: 'operated' | 'closed' | 'cleared'; lossMl?: numbe
   makeEpisode({ surgeonId: surgeon.id, expectedBloodLossMl: o.lossMl ?? 500, referral: { stage: o.stage ?? 'operated' } })
 
 const body = (o: Record<string, unknown> = {}) => ({
-  surgeryDate: todayIso(), bloodLossMl: 400, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 1, unitsCrossmatched: 2,
-  lowestHbGL: 92, dischargeHbGL: 98, lengthOfStayDays: 4, complications: ['none'], version: 1, ...o,
+  surgeryDate: todayIso(),
+  bloodLossMl: 400,
+  unitsTransfusedIntraOp: 0,
+  unitsTransfusedPostOp: 1,
+  unitsCrossmatched: 2,
+  lowestHbGL: 92,
+  dischargeHbGL: 98,
+  lengthOfStayDays: 4,
+  complications: ['none'],
+  version: 1,
+  ...o,
 })
 
 describe('POST /api/referrals/:id/outcome', () => {
@@ -51,7 +64,10 @@ describe('POST /api/referrals/:id/outcome', () => {
 
   it('when blood loss is over 3× the usual 500 mL and the lowest Hb is 55 g/L, then it is saved with both warnings', async () => {
     const { referral } = await operated({ lossMl: 500 })
-    const res = await asNurse.post(`/api/referrals/${referral.id}/outcome`, body({ bloodLossMl: 1600, lowestHbGL: 55, dischargeHbGL: null }))
+    const res = await asNurse.post(
+      `/api/referrals/${referral.id}/outcome`,
+      body({ bloodLossMl: 1600, lowestHbGL: 55, dischargeHbGL: null }),
+    )
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.warnings.map((w: { field: string }) => w.field).sort()).toEqual(['bloodLossMl', 'lowestHbGL'])
   })
@@ -67,7 +83,10 @@ describe('POST /api/referrals/:id/outcome', () => {
     const { referral } = await operated()
     const res = await asNurse.post(`/api/referrals/${referral.id}/outcome`, body(patch))
     expect(res.status).toBe(400)
-    expect(Object.keys(res.body.error.fields).some((k) => k.startsWith(field)), JSON.stringify(res.body.error.fields)).toBe(true)
+    expect(
+      Object.keys(res.body.error.fields).some((k) => k.startsWith(field)),
+      JSON.stringify(res.body.error.fields),
+    ).toBe(true)
     expect(await Outcome.count()).toBe(0)
     expect(await AuditEntry.count({ where: { entity: 'outcome' } })).toBe(0)
   })
@@ -103,19 +122,39 @@ describe('POST /api/referrals/:id/follow-up', () => {
   it('when the outcome is recorded, then the follow-up is saved with an audit row, and the episode can then close', async () => {
     const { referral } = await operated()
     const first = await asNurse.post(`/api/referrals/${referral.id}/outcome`, body())
-    const res = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, { recheckHbGL: 110, recheckDate: todayIso(), ironAfterSurgery: true, notes: 'Oral iron for 3 months', version: first.body.version })
+    const res = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, {
+      recheckHbGL: 110,
+      recheckDate: todayIso(),
+      ironAfterSurgery: true,
+      notes: 'Oral iron for 3 months',
+      version: first.body.version,
+    })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.outcome.followUp).toMatchObject({ recheckHbGL: 110, ironAfterSurgery: true })
     expect(await AuditEntry.count({ where: { entity: 'follow-up' } })).toBe(1)
     const close = await asNurse.post(`/api/referrals/${referral.id}/transitions`, { to: 'closed', version: res.body.version })
     expect(close.status, JSON.stringify(close.body)).toBe(200)
-    const late = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, { recheckHbGL: 111, recheckDate: todayIso(), ironAfterSurgery: false, version: (await Referral.findByPk(referral.id))!.version })
+    const late = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, {
+      recheckHbGL: 111,
+      recheckDate: todayIso(),
+      ironAfterSurgery: false,
+      version: (await Referral.findByPk(referral.id))!.version,
+    })
     expect(late.status).toBe(422)
   })
 
   it('when there is no outcome yet, then 422; when ironAfterSurgery is missing, then 400', async () => {
     const { referral } = await operated()
-    expect((await asNurse.post(`/api/referrals/${referral.id}/follow-up`, { recheckHbGL: 110, recheckDate: todayIso(), ironAfterSurgery: false, version: 1 })).status).toBe(422)
+    expect(
+      (
+        await asNurse.post(`/api/referrals/${referral.id}/follow-up`, {
+          recheckHbGL: 110,
+          recheckDate: todayIso(),
+          ironAfterSurgery: false,
+          version: 1,
+        })
+      ).status,
+    ).toBe(422)
     const bad = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, { recheckHbGL: 110, recheckDate: todayIso(), version: 1 })
     expect(bad.status).toBe(400)
     expect(Object.keys(bad.body.error.fields)).toContain('ironAfterSurgery')

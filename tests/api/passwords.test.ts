@@ -5,11 +5,17 @@ import { makeStaff } from '../helpers/factories'
 import { User } from '../../server/models/index'
 
 let t: TestApp
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
-beforeEach(async () => { await cleanDatabase(t.sequelize) })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
+beforeEach(async () => {
+  await cleanDatabase(t.sequelize)
+})
 
-describe('changing one\'s own password', () => {
+describe("changing one's own password", () => {
   it('when the new password is shorter than 12 characters, then the 400 names newPassword', async () => {
     const s = await makeStaff('doctor')
     const c = await new Client(t.app).mustSignIn(s.email, s.password)

@@ -13,8 +13,12 @@ let c: Client
 let referralId: number
 let planned: string
 
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   nurse = await makeStaff('nurse')
@@ -22,7 +26,9 @@ beforeEach(async () => {
   const p = await makeProcedure()
   const pt = await makePatient()
   planned = addDays(todayIso(), 20)
-  referralId = (await makeReferral({ patientId: pt.id, procedureId: p.id, surgeonId: surgeon.id }, { stage: 'treating', plannedSurgeryDate: planned })).id
+  referralId = (
+    await makeReferral({ patientId: pt.id, procedureId: p.id, surgeonId: surgeon.id }, { stage: 'treating', plannedSurgeryDate: planned })
+  ).id
   c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
 })
 
@@ -33,26 +39,44 @@ const nothingChanged = async () => {
 }
 
 describe('POST /api/referrals/:id/cancellation', () => {
-  it('when a nurse cancels the planned operation for anaemia, then it is kept with who, when and why, audited, and stands until ' +
-    'rebooked', async () => {
-    const res = await cancel(c, { version: 1, reason: 'anaemia', note: 'Hb 96 g/L on the day before; iron first' })
-    expect(res.status, JSON.stringify(res.body)).toBe(200)
-    expect(res.body.version).toBe(2)
-    expect(res.body.surgeryCancelled).toMatchObject({ kind: 'cancelled', fromDate: planned, toDate: null, reason: 'anaemia', reasonLabel: 'Cancelled for anaemia', note: 'Hb 96 g/L on the day before; iron first', changedBy: { id: nurse.id } })
-    expect(await AuditEntry.count({ where: { action: 'cancel', entity: 'planned-operation' } })).toBe(1)
+  it(
+    'when a nurse cancels the planned operation for anaemia, then it is kept with who, when and why, audited, and stands until ' +
+      'rebooked',
+    async () => {
+      const res = await cancel(c, { version: 1, reason: 'anaemia', note: 'Hb 96 g/L on the day before; iron first' })
+      expect(res.status, JSON.stringify(res.body)).toBe(200)
+      expect(res.body.version).toBe(2)
+      expect(res.body.surgeryCancelled).toMatchObject({
+        kind: 'cancelled',
+        fromDate: planned,
+        toDate: null,
+        reason: 'anaemia',
+        reasonLabel: 'Cancelled for anaemia',
+        note: 'Hb 96 g/L on the day before; iron first',
+        changedBy: { id: nurse.id },
+      })
+      expect(await AuditEntry.count({ where: { action: 'cancel', entity: 'planned-operation' } })).toBe(1)
 
-    // A second cancellation is refused: nothing more is written.
-    const again = await cancel(c, { version: 2, reason: 'theatre-capacity' })
-    expect(again.status).toBe(422)
-    expect(Object.keys(again.body.error.fields)).toEqual(['reason'])
-    expect(await SurgeryDateChange.count()).toBe(1)
+      // A second cancellation is refused: nothing more is written.
+      const again = await cancel(c, { version: 2, reason: 'theatre-capacity' })
+      expect(again.status).toBe(422)
+      expect(Object.keys(again.body.error.fields)).toEqual(['reason'])
+      expect(await SurgeryDateChange.count()).toBe(1)
 
-    // A new date (with its reason) rebooks it; the history keeps both rows in order.
-    const rebooked = await c.patch(`/api/referrals/${referralId}`, { version: 2, plannedSurgeryDate: addDays(todayIso(), 60), dateChangeReason: 'anaemia' })
-    expect(rebooked.status, JSON.stringify(rebooked.body)).toBe(200)
-    expect(rebooked.body.surgeryCancelled).toBeNull()
-    expect(rebooked.body.dateChanges.map((d: { kind: string; reason: string }) => [d.kind, d.reason])).toEqual([['cancelled', 'anaemia'], ['moved', 'anaemia']])
-  })
+      // A new date (with its reason) rebooks it; the history keeps both rows in order.
+      const rebooked = await c.patch(`/api/referrals/${referralId}`, {
+        version: 2,
+        plannedSurgeryDate: addDays(todayIso(), 60),
+        dateChangeReason: 'anaemia',
+      })
+      expect(rebooked.status, JSON.stringify(rebooked.body)).toBe(200)
+      expect(rebooked.body.surgeryCancelled).toBeNull()
+      expect(rebooked.body.dateChanges.map((d: { kind: string; reason: string }) => [d.kind, d.reason])).toEqual([
+        ['cancelled', 'anaemia'],
+        ['moved', 'anaemia'],
+      ])
+    },
+  )
 
   it.each([
     [{ version: 1, reason: 'weather' }, 'reason'],
@@ -81,11 +105,15 @@ describe('POST /api/referrals/:id/cancellation', () => {
     await nothingChanged()
   })
 
-  it("when the operating surgeon cancels, then 200; another surgeon gets 403 and an admin 403", async () => {
+  it('when the operating surgeon cancels, then 200; another surgeon gets 403 and an admin 403', async () => {
     const other = await makeStaff('surgeon')
-    expect((await cancel(await new Client(t.app).mustSignIn(other.email, other.password), { version: 1, reason: 'anaemia' })).status).toBe(403)
+    expect((await cancel(await new Client(t.app).mustSignIn(other.email, other.password), { version: 1, reason: 'anaemia' })).status).toBe(
+      403,
+    )
     const admin = await makeStaff('admin')
-    expect((await cancel(await new Client(t.app).mustSignIn(admin.email, admin.password), { version: 1, reason: 'anaemia' })).status).toBe(403)
+    expect((await cancel(await new Client(t.app).mustSignIn(admin.email, admin.password), { version: 1, reason: 'anaemia' })).status).toBe(
+      403,
+    )
     await nothingChanged()
     const own = await cancel(await new Client(t.app).mustSignIn(surgeon.email, surgeon.password), { version: 1, reason: 'other-clinical' })
     expect(own.status).toBe(200)

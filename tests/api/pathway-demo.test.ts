@@ -33,7 +33,14 @@ describe('the demo scenario', () => {
 
   it("then each episode's stage history is a chain of allowed moves ending at its stage", async () => {
     for (const r of await Referral.findAll({ raw: true })) {
-      const history = await StageTransition.findAll({ where: { referralId: r.id }, order: [['at', 'ASC'], ['id', 'ASC']], raw: true })
+      const history = await StageTransition.findAll({
+        where: { referralId: r.id },
+        order: [
+          ['at', 'ASC'],
+          ['id', 'ASC'],
+        ],
+        raw: true,
+      })
       expect(history[0]).toMatchObject({ fromStage: null, toStage: 'referred' })
       for (const h of history.slice(1)) expect(findMove(h.fromStage!, h.toStage), `${h.fromStage}→${h.toStage}`).toBeDefined()
       expect(history[history.length - 1]!.toStage).toBe(r.stage)

@@ -9,15 +9,23 @@ import { addDays, todayIso } from '../../shared/pathway'
 let t: TestApp
 let nurse: StaffFixture
 let c: Client
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   nurse = await makeStaff('nurse')
   c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
 })
 
-const counts = async () => ({ patients: await Patient.count(), measurements: await PatientMeasurement.count(), audit: await AuditEntry.count() })
+const counts = async () => ({
+  patients: await Patient.count(),
+  measurements: await PatientMeasurement.count(),
+  audit: await AuditEntry.count(),
+})
 
 describe('registering a patient', () => {
   it('when a nurse registers a patient, then 201 with the id, current height and weight, and an audit row', async () => {

@@ -11,8 +11,12 @@ let nurse: StaffFixture
 let surgeon: StaffFixture
 let c: Client
 let patientId: number
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   nurse = await makeStaff('nurse')
@@ -22,16 +26,32 @@ beforeEach(async () => {
   c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
 })
 
-const body = (o: Record<string, unknown> = {}) => ({ patientId, procedureCode: 'TKR', surgeonId: surgeon.id, plannedSurgeryDate: addDays(todayIso(), 35), ...o })
-const counts = async () => ({ referrals: await Referral.count(), transitions: await StageTransition.count(), audit: await AuditEntry.count() })
+const body = (o: Record<string, unknown> = {}) => ({
+  patientId,
+  procedureCode: 'TKR',
+  surgeonId: surgeon.id,
+  plannedSurgeryDate: addDays(todayIso(), 35),
+  ...o,
+})
+const counts = async () => ({
+  referrals: await Referral.count(),
+  transitions: await StageTransition.count(),
+  audit: await AuditEntry.count(),
+})
 
 describe('referring a patient', () => {
   it('when a nurse refers a patient, then 201 with stage referred, version 1 and the episode detail', async () => {
     const res = await c.post('/api/referrals', body({ priority: 'cancer', referringSource: 'Orthopaedic outpatients' }))
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body).toMatchObject({
-      stage: 'referred', stageLabel: 'Awaiting screening', version: 1, priority: 'cancer', daysToSurgery: 35,
-      patient: { id: patientId, familyName: 'Ashdown' }, procedure: { code: 'TKR', expectedBloodLossMl: 1474 }, surgeon: { id: surgeon.id, name: 'Ms Test Surgeon' },
+      stage: 'referred',
+      stageLabel: 'Awaiting screening',
+      version: 1,
+      priority: 'cancer',
+      daysToSurgery: 35,
+      patient: { id: patientId, familyName: 'Ashdown' },
+      procedure: { code: 'TKR', expectedBloodLossMl: 1474 },
+      surgeon: { id: surgeon.id, name: 'Ms Test Surgeon' },
       screening: { anaemic: null, ironStatus: null, proposedStage: null, criteria: 'surgical' },
       flags: ['no-screening-result'],
     })
@@ -82,7 +102,11 @@ describe('referring a patient', () => {
 
   it('when the surgery date is moved with a stale version, then 409; with the current one, then 200 and audited', async () => {
     const r = (await c.post('/api/referrals', body()).expect(201)).body
-    const moved = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60), dateChangeReason: 'theatre-capacity' })
+    const moved = await c.patch(`/api/referrals/${r.id}`, {
+      version: 1,
+      plannedSurgeryDate: addDays(todayIso(), 60),
+      dateChangeReason: 'theatre-capacity',
+    })
     expect(moved.status).toBe(200)
     expect(moved.body).toMatchObject({ version: 2, daysToSurgery: 60 })
     expect((await c.patch(`/api/referrals/${r.id}`, { version: 1, priority: 'urgent' })).status).toBe(409)
@@ -97,13 +121,33 @@ describe('referring a patient', () => {
     expect(noReason.status).toBe(400)
     expect(Object.keys(noReason.body.error.fields)).toEqual(['dateChangeReason'])
     expect((await Referral.findByPk(r.id))!.plannedSurgeryDate).toBe(first)
-    const badReason = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60), dateChangeReason: 'weather' })
+    const badReason = await c.patch(`/api/referrals/${r.id}`, {
+      version: 1,
+      plannedSurgeryDate: addDays(todayIso(), 60),
+      dateChangeReason: 'weather',
+    })
     expect(badReason.status).toBe(400)
-    const a = await c.patch(`/api/referrals/${r.id}`, { version: 1, plannedSurgeryDate: addDays(todayIso(), 60), dateChangeReason: 'anaemia', dateChangeNote: 'Hb 98 g/L, iron first' })
+    const a = await c.patch(`/api/referrals/${r.id}`, {
+      version: 1,
+      plannedSurgeryDate: addDays(todayIso(), 60),
+      dateChangeReason: 'anaemia',
+      dateChangeNote: 'Hb 98 g/L, iron first',
+    })
     expect(a.status, JSON.stringify(a.body)).toBe(200)
-    const b = await c.patch(`/api/referrals/${r.id}`, { version: 2, plannedSurgeryDate: addDays(todayIso(), 70), dateChangeReason: 'patient-choice' })
+    const b = await c.patch(`/api/referrals/${r.id}`, {
+      version: 2,
+      plannedSurgeryDate: addDays(todayIso(), 70),
+      dateChangeReason: 'patient-choice',
+    })
     expect(b.body.dateChanges).toMatchObject([
-      { fromDate: first, toDate: addDays(todayIso(), 60), reason: 'anaemia', reasonLabel: 'Postponed for anaemia', note: 'Hb 98 g/L, iron first', changedBy: { id: nurse.id } },
+      {
+        fromDate: first,
+        toDate: addDays(todayIso(), 60),
+        reason: 'anaemia',
+        reasonLabel: 'Postponed for anaemia',
+        note: 'Hb 98 g/L, iron first',
+        changedBy: { id: nurse.id },
+      },
       { fromDate: addDays(todayIso(), 60), toDate: addDays(todayIso(), 70), reason: 'patient-choice' },
     ])
     // Changing something else needs no reason; a listing date in the future is refused.
@@ -133,18 +177,36 @@ describe('staff picker and operations catalogue', () => {
   it('then the catalogue lists each operation with its blood figures and their source', async () => {
     const res = await c.get('/api/procedures').expect(200)
     expect(res.body.rows[0]).toEqual({
-      code: 'TKR', name: 'Total knee replacement', specialty: 'Orthopaedics', expectedBloodLossMl: 1474, transfusionRate: 0.1,
-      usualBloodOrder: 'group-and-screen', usualUnits: 0, source: 'set locally (test)', active: true,
+      code: 'TKR',
+      name: 'Total knee replacement',
+      specialty: 'Orthopaedics',
+      expectedBloodLossMl: 1474,
+      transfusionRate: 0.1,
+      usualBloodOrder: 'group-and-screen',
+      usualUnits: 0,
+      source: 'set locally (test)',
+      active: true,
     })
   })
 
   it('when an admin adds and edits an operation, then it is audited; a duplicate code is 409; a retired one is hidden', async () => {
     const admin = await makeStaff('admin')
     const a = await new Client(t.app).mustSignIn(admin.email, admin.password)
-    const op = { code: 'cabg', name: 'CABG (on-pump)', specialty: 'Cardiac', expectedBloodLossMl: 750, transfusionRate: null, usualBloodOrder: 'crossmatch', usualUnits: 2, source: 'from memory — set locally' }
+    const op = {
+      code: 'cabg',
+      name: 'CABG (on-pump)',
+      specialty: 'Cardiac',
+      expectedBloodLossMl: 750,
+      transfusionRate: null,
+      usualBloodOrder: 'crossmatch',
+      usualUnits: 2,
+      source: 'from memory — set locally',
+    }
     expect((await a.post('/api/procedures', op)).status).toBe(201)
     expect((await a.post('/api/procedures', op)).status).toBe(409)
-    expect((await a.post('/api/procedures', { ...op, code: 'X1', expectedBloodLossMl: 50000 })).body.error.fields.expectedBloodLossMl).toMatch(/30000/)
+    expect(
+      (await a.post('/api/procedures', { ...op, code: 'X1', expectedBloodLossMl: 50000 })).body.error.fields.expectedBloodLossMl,
+    ).toMatch(/30000/)
     const edited = await a.patch('/api/procedures/CABG', { active: false })
     expect(edited.status).toBe(200)
     expect((await c.get('/api/procedures')).body.rows.map((r: { code: string }) => r.code)).toEqual(['TKR'])

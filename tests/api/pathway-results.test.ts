@@ -10,8 +10,12 @@ let nurse: StaffFixture
 let surgeon: StaffFixture
 let c: Client
 let procedureCode: string
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   nurse = await makeStaff('nurse')
@@ -26,15 +30,24 @@ async function episode(patient: Record<string, unknown> = {}) {
 const post = (id: number, body: object) => c.post(`/api/referrals/${id}/results`, body)
 
 describe('screening classification when results arrive', () => {
-  it('when a woman has Hb 125 g/L, then she is anaemic by the surgical threshold though WHO-normal (Muñoz 2017; WHO 2024 women 120 ' +
-    'g/L)', async () => {
-    const r = await episode({ sex: 'female' })
-    const res = await post(r.id, { analyte: 'hb', value: 125, unit: 'g/L', takenAt: hoursAgo(2) })
-    expect(res.status, JSON.stringify(res.body)).toBe(201)
-    expect(res.body.screening).toMatchObject({ anaemic: true, severity: 'mild', criteria: 'surgical', thresholdGL: 130, proposedStage: 'clinic' })
-    const detail = await c.get(`/api/referrals/${r.id}`).expect(200)
-    expect(detail.body.screening).toMatchObject({ anaemic: true, latestHbGL: 125 })
-  })
+  it(
+    'when a woman has Hb 125 g/L, then she is anaemic by the surgical threshold though WHO-normal (Muñoz 2017; WHO 2024 women 120 ' +
+      'g/L)',
+    async () => {
+      const r = await episode({ sex: 'female' })
+      const res = await post(r.id, { analyte: 'hb', value: 125, unit: 'g/L', takenAt: hoursAgo(2) })
+      expect(res.status, JSON.stringify(res.body)).toBe(201)
+      expect(res.body.screening).toMatchObject({
+        anaemic: true,
+        severity: 'mild',
+        criteria: 'surgical',
+        thresholdGL: 130,
+        proposedStage: 'clinic',
+      })
+      const detail = await c.get(`/api/referrals/${r.id}`).expect(200)
+      expect(detail.body.screening).toMatchObject({ anaemic: true, latestHbGL: 125 })
+    },
+  )
 
   it('when ferritin is 25 µg/L, then the iron status is absolute deficiency and clinic is proposed (Muñoz 2017, from memory)', async () => {
     const r = await episode()
@@ -93,20 +106,23 @@ describe('units and derived values', () => {
     expect(res.body.result).toMatchObject({ value: 25, unit: 'mg/L', valueReported: 2.5, unitReported: 'mg/dL' })
   })
 
-  it('when creatinine is 1.2 mg/dL in a 60-year-old man, then it is 106.1 µmol/L and eGFR 69.2 is derived (×88.4; CKD-EPI 2021, ' +
-    'reference §10)', async () => {
-    const today = new Date()
-    const dob = `${today.getFullYear() - 61}-01-01`
-    const r = await episode({ sex: 'male', dateOfBirth: dob })
-    // Taken on a day when he is 60 (between his 60th and 61st birthdays).
-    const takenAt = new Date(`${today.getFullYear() - 1}-06-01T09:00:00Z`).toISOString()
-    const res = await post(r.id, { analyte: 'creatinine', value: 1.2, unit: 'mg/dL', takenAt }).expect(201)
-    expect(res.body.result).toMatchObject({ unit: 'µmol/L' })
-    expect(res.body.result.value).toBeCloseTo(106.08, 2)
-    expect(res.body.derived).toHaveLength(1)
-    expect(res.body.derived[0]).toMatchObject({ analyte: 'egfr', source: 'derived', derivedFrom: [res.body.result.id] })
-    expect(res.body.derived[0].value).toBeCloseTo(69.2, 1)
-  })
+  it(
+    'when creatinine is 1.2 mg/dL in a 60-year-old man, then it is 106.1 µmol/L and eGFR 69.2 is derived (×88.4; CKD-EPI 2021, ' +
+      'reference §10)',
+    async () => {
+      const today = new Date()
+      const dob = `${today.getFullYear() - 61}-01-01`
+      const r = await episode({ sex: 'male', dateOfBirth: dob })
+      // Taken on a day when he is 60 (between his 60th and 61st birthdays).
+      const takenAt = new Date(`${today.getFullYear() - 1}-06-01T09:00:00Z`).toISOString()
+      const res = await post(r.id, { analyte: 'creatinine', value: 1.2, unit: 'mg/dL', takenAt }).expect(201)
+      expect(res.body.result).toMatchObject({ unit: 'µmol/L' })
+      expect(res.body.result.value).toBeCloseTo(106.08, 2)
+      expect(res.body.derived).toHaveLength(1)
+      expect(res.body.derived[0]).toMatchObject({ analyte: 'egfr', source: 'derived', derivedFrom: [res.body.result.id] })
+      expect(res.body.derived[0].value).toBeCloseTo(69.2, 1)
+    },
+  )
 
   it('when iron 10 µmol/L and TIBC 60 µmol/L come from the same sample, then TSAT 16.7 % is derived (reference §7)', async () => {
     const r = await episode()
@@ -116,17 +132,20 @@ describe('units and derived values', () => {
     expect(res.body.derived[0]).toMatchObject({ analyte: 'tsat', unit: '%', value: 16.7, source: 'derived' })
   })
 
-  it('when iron 56 µg/dL and transferrin 2.4 g/L come from one sample, then TSAT is 16.65 % ±0.05 (iron 10.03 µmol/L, TIBC 60.24; ' +
-    'reference §7, 25.1 factor from memory)', async () => {
-    const r = await episode()
-    const at = hoursAgo(4)
-    const iron = await post(r.id, { analyte: 'iron', value: 56, unit: 'µg/dL', takenAt: at }).expect(201)
-    expect(iron.body.result.value).toBeCloseTo(10.03, 2)
-    expect(iron.body.derived).toEqual([])
-    const res = await post(r.id, { analyte: 'transferrin', value: 2.4, unit: 'g/L', takenAt: at }).expect(201)
-    // 10.03 / 60.24 = 16.65 %, stored to one decimal.
-    expect(Math.abs(res.body.derived[0].value - 16.65)).toBeLessThanOrEqual(0.051)
-  })
+  it(
+    'when iron 56 µg/dL and transferrin 2.4 g/L come from one sample, then TSAT is 16.65 % ±0.05 (iron 10.03 µmol/L, TIBC 60.24; ' +
+      'reference §7, 25.1 factor from memory)',
+    async () => {
+      const r = await episode()
+      const at = hoursAgo(4)
+      const iron = await post(r.id, { analyte: 'iron', value: 56, unit: 'µg/dL', takenAt: at }).expect(201)
+      expect(iron.body.result.value).toBeCloseTo(10.03, 2)
+      expect(iron.body.derived).toEqual([])
+      const res = await post(r.id, { analyte: 'transferrin', value: 2.4, unit: 'g/L', takenAt: at }).expect(201)
+      // 10.03 / 60.24 = 16.65 %, stored to one decimal.
+      expect(Math.abs(res.body.derived[0].value - 16.65)).toBeLessThanOrEqual(0.051)
+    },
+  )
 
   it('when iron and transferrin come from different samples, then no TSAT is derived', async () => {
     const r = await episode()
@@ -156,8 +175,18 @@ describe('bad results are refused and nothing is written', () => {
     ['an unknown unit for Hb', { analyte: 'hb', value: 125, unit: 'mg/dL' }, 'unit', /g\/L, g\/dL, mmol\/L/],
     ['an unknown analyte', { analyte: 'glucose', value: 5, unit: 'mmol/L' }, 'analyte', /analyte must be one of/],
     ['a value that is not a number', { analyte: 'hb', value: 'low', unit: 'g/L' }, 'value', /number/],
-    ['Hb 8.0 in mmol/L without its unit confirmed (it fits g/dL too)', { analyte: 'hb', value: 8.0, unit: 'mmol/L' }, 'unitConfirmed', /fits both g\/dL \(2–25\) and mmol\/L \(1\.2–15\.5\).*80 g\/L as g\/dL but 128\.\d g\/L as mmol\/L/],
-    ['TSAT typed as a fraction (0.15)', { analyte: 'tsat', value: 0.15, unit: '%' }, 'value', /between 1 and 100 % \(got 0\.15\); it looks like a fraction: enter it as a percentage \(15 %\)/],
+    [
+      'Hb 8.0 in mmol/L without its unit confirmed (it fits g/dL too)',
+      { analyte: 'hb', value: 8.0, unit: 'mmol/L' },
+      'unitConfirmed',
+      /fits both g\/dL \(2–25\) and mmol\/L \(1\.2–15\.5\).*80 g\/L as g\/dL but 128\.\d g\/L as mmol\/L/,
+    ],
+    [
+      'TSAT typed as a fraction (0.15)',
+      { analyte: 'tsat', value: 0.15, unit: '%' },
+      'value',
+      /between 1 and 100 % \(got 0\.15\); it looks like a fraction: enter it as a percentage \(15 %\)/,
+    ],
     ['TSAT above 100 %', { analyte: 'tsat', value: 120, unit: '%' }, 'value', /between 1 and 100 %/],
     ['B12 in pmol/L (no sourced conversion, so not accepted)', { analyte: 'b12', value: 300, unit: 'pmol/L' }, 'unit', /ng\/L/],
   ]
@@ -215,7 +244,10 @@ describe('reading results', () => {
   it('then a result write is audited with the screening outcome before and after', async () => {
     const r = await episode()
     const res = await post(r.id, { analyte: 'hb', value: 100, unit: 'g/L', takenAt: hoursAgo(1) }).expect(201)
-    const audit = await AuditEntry.findOne({ where: { action: 'create', entity: 'result', entityId: String(res.body.result.id) }, raw: true })
+    const audit = await AuditEntry.findOne({
+      where: { action: 'create', entity: 'result', entityId: String(res.body.result.id) },
+      raw: true,
+    })
     expect(audit).toMatchObject({ userId: nurse.id, after: { screening: { anaemic: true, severity: 'moderate' } } })
   })
 })

@@ -22,7 +22,9 @@ beforeAll(async () => {
     as[role] = await new Client(t.app).mustSignIn(staff[role].email, staff[role].password)
   }
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await StageTransition.destroy({ where: {} })
   await clearAuditTrail(t.sequelize)
@@ -36,11 +38,24 @@ const screenedHb = { latestHbGL: 118, latestHbAt: new Date(Date.now() - 3_600_00
 const at = (o: Partial<ReferralOverrides>) => makeReferral(ids, { ...screenedHb, ...o })
 const move = (role: Role, id: number, body: object) => as[role].post(`/api/referrals/${id}/transitions`, body)
 // Closing after surgery needs the post-operative record and its follow-up on file (tests/api/outcomes-closing covers the refusal).
-const followUpOnFile = (referralId: number) => Outcome.create({
-  referralId, surgeryDate: todayIso(), bloodLossMl: 300, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched: 0, lowestHbGL: 110,
-  dischargeHbGL: 112, lengthOfStayDays: 3, complications: ['none'], recordedBy: null,
-  followUpRecheckHbGL: 120, followUpRecheckDate: todayIso(), followUpIronAfterSurgery: false, followUpAt: new Date(),
-})
+const followUpOnFile = (referralId: number) =>
+  Outcome.create({
+    referralId,
+    surgeryDate: todayIso(),
+    bloodLossMl: 300,
+    unitsTransfusedIntraOp: 0,
+    unitsTransfusedPostOp: 0,
+    unitsCrossmatched: 0,
+    lowestHbGL: 110,
+    dischargeHbGL: 112,
+    lengthOfStayDays: 3,
+    complications: ['none'],
+    recordedBy: null,
+    followUpRecheckHbGL: 120,
+    followUpRecheckDate: todayIso(),
+    followUpIronAfterSurgery: false,
+    followUpAt: new Date(),
+  })
 
 describe('who may make each move (the pathway table in shared/pathway)', () => {
   it('then every move in the table succeeds for exactly the roles it names and is 403 for the others', async () => {
@@ -75,19 +90,27 @@ describe('who may make each move (the pathway table in shared/pathway)', () => {
 })
 
 describe('pathway rules', () => {
-  it('when a nurse confirms screening with an Hb on file, then 200, the version goes up and the move is stored with who, when, from, ' +
-    'to and why', async () => {
-    const r = await at({ stage: 'referred' })
-    const res = await move('nurse', r.id, { to: 'screened', version: 1, reason: 'Bloods reviewed' })
-    expect(res.status).toBe(200)
-    expect(res.body).toMatchObject({ id: r.id, stage: 'screened', stageLabel: 'Screening to confirm', version: 2 })
-    const row = await StageTransition.findOne({ where: { referralId: r.id, toStage: 'screened' }, raw: true })
-    expect(row).toMatchObject({ fromStage: 'referred', toStage: 'screened', reason: 'Bloods reviewed', userId: staff.nurse.id })
-    expect(row!.at).toBeInstanceOf(Date)
-    const audit = await AuditEntry.findOne({ where: { action: 'transition', entityId: String(r.id) }, raw: true })
-    expect(audit).toMatchObject({ userId: staff.nurse.id, patientId: ids.patientId, before: { stage: 'referred' }, after: { stage: 'screened', reason: 'Bloods reviewed' } })
-    expect(res.body.timeline[0]).toMatchObject({ kind: 'transition', from: 'referred', to: 'screened', user: { id: staff.nurse.id } })
-  })
+  it(
+    'when a nurse confirms screening with an Hb on file, then 200, the version goes up and the move is stored with who, when, from, ' +
+      'to and why',
+    async () => {
+      const r = await at({ stage: 'referred' })
+      const res = await move('nurse', r.id, { to: 'screened', version: 1, reason: 'Bloods reviewed' })
+      expect(res.status).toBe(200)
+      expect(res.body).toMatchObject({ id: r.id, stage: 'screened', stageLabel: 'Screening to confirm', version: 2 })
+      const row = await StageTransition.findOne({ where: { referralId: r.id, toStage: 'screened' }, raw: true })
+      expect(row).toMatchObject({ fromStage: 'referred', toStage: 'screened', reason: 'Bloods reviewed', userId: staff.nurse.id })
+      expect(row!.at).toBeInstanceOf(Date)
+      const audit = await AuditEntry.findOne({ where: { action: 'transition', entityId: String(r.id) }, raw: true })
+      expect(audit).toMatchObject({
+        userId: staff.nurse.id,
+        patientId: ids.patientId,
+        before: { stage: 'referred' },
+        after: { stage: 'screened', reason: 'Bloods reviewed' },
+      })
+      expect(res.body.timeline[0]).toMatchObject({ kind: 'transition', from: 'referred', to: 'screened', user: { id: staff.nurse.id } })
+    },
+  )
 
   it('when there is no Hb result yet, then moving to screened is refused with 422 and nothing changes', async () => {
     const r = await makeReferral(ids, { stage: 'referred' })
@@ -111,7 +134,10 @@ describe('pathway rules', () => {
 
   it('when two moves race with the same version, then exactly one wins and the other gets 409', async () => {
     const r = await at({ stage: 'screened' })
-    const [a, b] = await Promise.all([move('nurse', r.id, { to: 'clinic', version: 1 }), move('doctor', r.id, { to: 'cleared', version: 1 })])
+    const [a, b] = await Promise.all([
+      move('nurse', r.id, { to: 'clinic', version: 1 }),
+      move('doctor', r.id, { to: 'cleared', version: 1 }),
+    ])
     expect([a.status, b.status].sort()).toEqual([200, 409])
     expect(await StageTransition.count({ where: { referralId: r.id } })).toBe(2) // creation + the winner
   })
@@ -153,7 +179,9 @@ describe('pathway rules', () => {
       expect(res.status).toBe(422)
       expect(res.body.error.code).toBe('closed_read_only')
     }
-    expect((await as.nurse.post(`/api/referrals/${r.id}/results`, { analyte: 'hb', value: 120, unit: 'g/L', takenAt: hoursAgo(1) })).status).toBe(422)
+    expect(
+      (await as.nurse.post(`/api/referrals/${r.id}/results`, { analyte: 'hb', value: 120, unit: 'g/L', takenAt: hoursAgo(1) })).status,
+    ).toBe(422)
     expect((await as.nurse.patch(`/api/referrals/${r.id}`, { version: 2, priority: 'urgent' })).status).toBe(422)
     const detail = await as.doctor.get(`/api/referrals/${r.id}`).expect(200)
     expect(detail.body).toMatchObject({ readOnly: true, allowedMoves: [] })

@@ -25,12 +25,17 @@ beforeAll(async () => {
   const proc = await makeProcedure({ code: 'TKR' })
   for (let i = 0; i < 3; i++) {
     const p = await makePatient({ mrn: `CC${i}0000` })
-    const r = await makeReferral({ patientId: p.id, procedureId: proc.id, surgeonId: surgeon.id }, { stage: 'screened', plannedSurgeryDate: addDays(todayIso(), 40 + i) })
+    const r = await makeReferral(
+      { patientId: p.id, procedureId: proc.id, surgeonId: surgeon.id },
+      { stage: 'screened', plannedSurgeryDate: addDays(todayIso(), 40 + i) },
+    )
     referralId = r.id
     version = r.version
   }
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 const total = async (query: string) => {
   const res = await nurse.get(`/api/worklist${query}`)
@@ -52,7 +57,9 @@ describe('worklist totals', () => {
     const other = await mariadb.createConnection({ host: db.host, port: db.port, user: db.user, password: db.password, database: db.name })
     try {
       await other.query("UPDATE referrals SET stage = 'screened' WHERE id = ?", [referralId])
-    } finally { await other.end() }
+    } finally {
+      await other.end()
+    }
     const rows = (await nurse.get('/api/worklist?stage=screened')).body as { rows: unknown[]; total: number }
     expect(rows.rows).toHaveLength(3)
     expect(rows.total).toBe(2) // kept from the read above: proves the total is not re-counted every time

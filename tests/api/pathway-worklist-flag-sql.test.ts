@@ -17,8 +17,16 @@ const NOW = new Date('2027-07-20T12:00:00Z')
 const d = (n: number) => addDays(TODAY, n)
 
 const base: FlagInput = {
-  stage: 'clinic', plannedSurgeryDate: d(60), anaemic: false, latestHbAt: '2027-07-10T09:00:00Z', recheckDueDate: null,
-  treatmentOrderedAt: null, treatmentGivenAt: null, dateChangeRequestedAt: null, noResponseToIron: false, hbFallingAfterIron: false,
+  stage: 'clinic',
+  plannedSurgeryDate: d(60),
+  anaemic: false,
+  latestHbAt: '2027-07-10T09:00:00Z',
+  recheckDueDate: null,
+  treatmentOrderedAt: null,
+  treatmentGivenAt: null,
+  dateChangeRequestedAt: null,
+  noResponseToIron: false,
+  hbFallingAfterIron: false,
 }
 const CASES: Record<string, Partial<FlagInput>> = {
   'anaemic, surgery in 28 days (NATA window edge)': { anaemic: true, plannedSurgeryDate: d(28) },
@@ -27,13 +35,27 @@ const CASES: Record<string, Partial<FlagInput>> = {
   'anaemic, surgery date passed': { anaemic: true, plannedSurgeryDate: d(-1) },
   'not yet screened, surgery soon': { anaemic: null, latestHbAt: null, plannedSurgeryDate: d(5) },
   'operated, every condition met': {
-    stage: 'operated', anaemic: true, plannedSurgeryDate: d(0), latestHbAt: null, treatmentOrderedAt: '2027-07-01T09:00:00Z',
-    dateChangeRequestedAt: '2027-07-02T09:00:00Z', noResponseToIron: true, hbFallingAfterIron: true,
+    stage: 'operated',
+    anaemic: true,
+    plannedSurgeryDate: d(0),
+    latestHbAt: null,
+    treatmentOrderedAt: '2027-07-01T09:00:00Z',
+    dateChangeRequestedAt: '2027-07-02T09:00:00Z',
+    noResponseToIron: true,
+    hbFallingAfterIron: true,
   },
   'treating, re-check due yesterday, Hb before it': { stage: 'treating', recheckDueDate: d(-1) },
   'treating, re-check due today': { stage: 'treating', recheckDueDate: d(0), latestHbAt: null },
-  'recheck, due on the 15th, Hb 00:30 clinic time on the 15th': { stage: 'recheck', recheckDueDate: '2027-07-15', latestHbAt: '2027-07-14T23:30:00Z' },
-  'recheck, due on the 15th, Hb 23:30 clinic time on the 14th': { stage: 'recheck', recheckDueDate: '2027-07-15', latestHbAt: '2027-07-14T22:30:00Z' },
+  'recheck, due on the 15th, Hb 00:30 clinic time on the 15th': {
+    stage: 'recheck',
+    recheckDueDate: '2027-07-15',
+    latestHbAt: '2027-07-14T23:30:00Z',
+  },
+  'recheck, due on the 15th, Hb 23:30 clinic time on the 14th': {
+    stage: 'recheck',
+    recheckDueDate: '2027-07-15',
+    latestHbAt: '2027-07-14T22:30:00Z',
+  },
   'recheck, due on the 15th, no Hb at all': { stage: 'recheck', recheckDueDate: '2027-07-15', latestHbAt: null },
   'clinic stage with a past re-check date': { stage: 'clinic', recheckDueDate: d(-5) },
   'treatment ordered, not given': { treatmentOrderedAt: '2027-07-01T09:00:00Z' },
@@ -55,9 +77,17 @@ async function sqlFlags(c: FlagInput): Promise<WorklistFlag[]> {
   const [out] = await t.sequelize.query<Record<string, number | null>>(`SELECT ${cols} FROM (${row}) r`, {
     type: QueryTypes.SELECT,
     replacements: {
-      ...flagParams(TODAY, ZONE, NOW), stage: c.stage, psd: c.plannedSurgeryDate, anaemic: bit(c.anaemic), hbAt: utc(c.latestHbAt),
-      recheck: c.recheckDueDate, ordered: utc(c.treatmentOrderedAt), given: utc(c.treatmentGivenAt), moveAsked: utc(c.dateChangeRequestedAt),
-      noResponse: bit(c.noResponseToIron), falling: bit(c.hbFallingAfterIron),
+      ...flagParams(TODAY, ZONE, NOW),
+      stage: c.stage,
+      psd: c.plannedSurgeryDate,
+      anaemic: bit(c.anaemic),
+      hbAt: utc(c.latestHbAt),
+      recheck: c.recheckDueDate,
+      ordered: utc(c.treatmentOrderedAt),
+      given: utc(c.treatmentGivenAt),
+      moveAsked: utc(c.dateChangeRequestedAt),
+      noResponse: bit(c.noResponseToIron),
+      falling: bit(c.hbFallingAfterIron),
     },
   })
   return WORKLIST_FLAGS.filter((_, i) => Number(out![`f${i}`]) === 1)
@@ -83,13 +113,25 @@ describe('the worklist filter SQL and the flag rule on the same cases', () => {
   it('when the cases are read by the rule, then every flag is both raised and not raised somewhere (no case set passes vacuously)', () => {
     const raised = Object.values(CASES).map((c) => referralFlags({ ...base, ...c }, TODAY, ZONE))
     for (const flag of WORKLIST_FLAGS) {
-      expect(raised.some((r) => r.includes(flag)), flag).toBe(true)
-      expect(raised.some((r) => !r.includes(flag)), flag).toBe(true)
+      expect(
+        raised.some((r) => r.includes(flag)),
+        flag,
+      ).toBe(true)
+      expect(
+        raised.some((r) => !r.includes(flag)),
+        flag,
+      ).toBe(true)
     }
     // The edges themselves, as the rule states them: 28 days in (NATA, Goodnough 2011), the Hb's clinic-calendar day.
-    expect(referralFlags({ ...base, ...CASES['anaemic, surgery in 28 days (NATA window edge)'] }, TODAY, ZONE)).toContain('surgery-soon-anaemic')
+    expect(referralFlags({ ...base, ...CASES['anaemic, surgery in 28 days (NATA window edge)'] }, TODAY, ZONE)).toContain(
+      'surgery-soon-anaemic',
+    )
     expect(referralFlags({ ...base, ...CASES['anaemic, surgery in 29 days'] }, TODAY, ZONE)).not.toContain('surgery-soon-anaemic')
-    expect(referralFlags({ ...base, ...CASES['recheck, due on the 15th, Hb 00:30 clinic time on the 15th'] }, TODAY, ZONE)).not.toContain('recheck-overdue')
-    expect(referralFlags({ ...base, ...CASES['recheck, due on the 15th, Hb 23:30 clinic time on the 14th'] }, TODAY, ZONE)).toContain('recheck-overdue')
+    expect(referralFlags({ ...base, ...CASES['recheck, due on the 15th, Hb 00:30 clinic time on the 15th'] }, TODAY, ZONE)).not.toContain(
+      'recheck-overdue',
+    )
+    expect(referralFlags({ ...base, ...CASES['recheck, due on the 15th, Hb 23:30 clinic time on the 14th'] }, TODAY, ZONE)).toContain(
+      'recheck-overdue',
+    )
   })
 })

@@ -27,7 +27,9 @@ beforeAll(async () => {
   doctor = await new Client(t.app).mustSignIn(d.email, d.password)
   await makeProcedure({ code: 'THR' })
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 const total = async (query: string) => {
   const res = await nurse.get(`/api/worklist?${query}`)
@@ -53,7 +55,11 @@ describe('worklist totals right after each kind of write', () => {
   it('when the surgery date is edited, then a date window counts it at once', async () => {
     const soon = addDays(todayIso(), 10)
     expect(await total(`from=${soon}&to=${soon}`)).toBe(0)
-    const res = await nurse.patch(`/api/referrals/${referral.id}`, { version: referral.version, plannedSurgeryDate: soon, dateChangeReason: 'theatre-capacity' })
+    const res = await nurse.patch(`/api/referrals/${referral.id}`, {
+      version: referral.version,
+      plannedSurgeryDate: soon,
+      dateChangeReason: 'theatre-capacity',
+    })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     referral.version = res.body.version
     expect(await total(`from=${soon}&to=${soon}`)).toBe(1)
@@ -62,7 +68,12 @@ describe('worklist totals right after each kind of write', () => {
   it('when a result is typed in, then the screening flags count it at once', async () => {
     expect(await total('flag=no-screening-result')).toBe(1)
     expect(await total('flag=surgery-soon-anaemic')).toBe(0)
-    const res = await nurse.post(`/api/referrals/${referral.id}/results`, { analyte: 'hb', value: 98, unit: 'g/L', takenAt: takenHoursAgo(2) })
+    const res = await nurse.post(`/api/referrals/${referral.id}/results`, {
+      analyte: 'hb',
+      value: 98,
+      unit: 'g/L',
+      takenAt: takenHoursAgo(2),
+    })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(await total('flag=no-screening-result')).toBe(0)
     expect(await total('flag=surgery-soon-anaemic')).toBe(1)
@@ -70,7 +81,11 @@ describe('worklist totals right after each kind of write', () => {
 
   it('when a referral is moved, then both queues count it at once', async () => {
     expect([await total('stage=referred'), await total('stage=screened')]).toEqual([1, 0])
-    const res = await nurse.post(`/api/referrals/${referral.id}/transitions`, { to: 'screened', version: referral.version, reason: 'Bloods taken' })
+    const res = await nurse.post(`/api/referrals/${referral.id}/transitions`, {
+      to: 'screened',
+      version: referral.version,
+      reason: 'Bloods taken',
+    })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     referral.version = res.body.version
     expect([await total('stage=referred'), await total('stage=screened')]).toEqual([0, 1])
@@ -100,7 +115,11 @@ describe('worklist totals right after each kind of write', () => {
 
   it('when a write is refused, then the cached total stays right', async () => {
     const before = await total('stage=screened')
-    const res = await nurse.post(`/api/referrals/${referral.id}/transitions`, { to: 'clinic', version: referral.version + 5, reason: 'stale' })
+    const res = await nurse.post(`/api/referrals/${referral.id}/transitions`, {
+      to: 'clinic',
+      version: referral.version + 5,
+      reason: 'stale',
+    })
     expect(res.status).toBe(409)
     expect(await total('stage=screened')).toBe(before)
   })

@@ -38,13 +38,23 @@ beforeAll(async () => {
   }
   await add(surgeonA, { stage: 'clinic', plannedSurgeryDate: d(10), anaemic: true, latestHbGL: 104, latestHbAt: ago(3) })
   await add(surgeonA, { stage: 'referred', plannedSurgeryDate: d(40) })
-  await add(surgeonA, { stage: 'treating', plannedSurgeryDate: d(60), anaemic: true, latestHbGL: 109, latestHbAt: ago(20), treatmentOrderedAt: ago(6), recheckDueDate: d(-2) })
+  await add(surgeonA, {
+    stage: 'treating',
+    plannedSurgeryDate: d(60),
+    anaemic: true,
+    latestHbGL: 109,
+    latestHbAt: ago(20),
+    treatmentOrderedAt: ago(6),
+    recheckDueDate: d(-2),
+  })
   await add(surgeonB, { stage: 'screened', plannedSurgeryDate: d(20), anaemic: true, latestHbGL: 111, latestHbAt: ago(2) })
   await add(surgeonB, { stage: 'referred', plannedSurgeryDate: d(35) })
   await add(surgeonB, { stage: 'referred', plannedSurgeryDate: d(36) })
   await add(surgeonB, { stage: 'operated', plannedSurgeryDate: d(0), anaemic: true, latestHbGL: 99, latestHbAt: ago(9) })
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 const worklistTotal = async (c: Client, query: string) => {
   const res = await c.get(`/api/worklist?pageSize=1${query}`)
@@ -73,8 +83,13 @@ describe('the count tiles in one request', () => {
     expect(await counts(nurse)).toEqual({
       total: 7,
       flags: {
-        'surgery-soon-anaemic': 2, 'no-screening-result': 3, 'recheck-overdue': 1, 'treatment-not-given': 1, 'date-change-requested': 0,
-        'no-response-to-iron': 0, 'hb-falling': 0,
+        'surgery-soon-anaemic': 2,
+        'no-screening-result': 3,
+        'recheck-overdue': 1,
+        'treatment-not-given': 1,
+        'date-change-requested': 0,
+        'no-response-to-iron': 0,
+        'hb-falling': 0,
       },
     })
   })
@@ -96,7 +111,12 @@ describe('the count tiles in one request', () => {
   })
 
   it('when the query is wrong, then a 400 names the field and paging words are ignored', async () => {
-    for (const [q, field] of [['?flag=late', 'flag[0]'], ['?stage=limbo', 'stage[0]'], [`?from=${d(5)}&to=${d(1)}`, 'to'], ['?surgeonId=abc', 'surgeonId']]) {
+    for (const [q, field] of [
+      ['?flag=late', 'flag[0]'],
+      ['?stage=limbo', 'stage[0]'],
+      [`?from=${d(5)}&to=${d(1)}`, 'to'],
+      ['?surgeonId=abc', 'surgeonId'],
+    ]) {
       const res = await nurse.get(`/api/worklist/counts${q}`)
       expect(res.status, q).toBe(400)
       expect(Object.keys(res.body.error.fields), q).toContain(field)
@@ -113,22 +133,24 @@ describe('the count tiles in one request', () => {
 })
 
 describe('conditional polls', () => {
-  it('when counts, worklist or an episode are asked again with their ETag, ' +
-    'then the answer is 304 with no body, still no-store', async () => {
-    for (const path of ['/api/worklist/counts', '/api/worklist?stage=referred', `/api/referrals/${anyReferral}`]) {
-      const first = await nurse.get(path)
-      expect(first.status, path).toBe(200)
-      expect(first.headers['cache-control'], path).toBe('no-store')
-      const etag = first.headers.etag as string
-      expect(etag, path).toMatch(/^W\/"/)
-      const again = await nurse.get(path).set('If-None-Match', etag)
-      expect(again.status, path).toBe(304)
-      expect(again.text ?? '', path).toBe('')
-      expect(again.headers['cache-control'], path).toBe('no-store')
-      // A different tag (the data changed since) gets the whole answer again.
-      expect((await nurse.get(path).set('If-None-Match', 'W/"stale"')).status, path).toBe(200)
-    }
-  })
+  it(
+    'when counts, worklist or an episode are asked again with their ETag, ' + 'then the answer is 304 with no body, still no-store',
+    async () => {
+      for (const path of ['/api/worklist/counts', '/api/worklist?stage=referred', `/api/referrals/${anyReferral}`]) {
+        const first = await nurse.get(path)
+        expect(first.status, path).toBe(200)
+        expect(first.headers['cache-control'], path).toBe('no-store')
+        const etag = first.headers.etag as string
+        expect(etag, path).toMatch(/^W\/"/)
+        const again = await nurse.get(path).set('If-None-Match', etag)
+        expect(again.status, path).toBe(304)
+        expect(again.text ?? '', path).toBe('')
+        expect(again.headers['cache-control'], path).toBe('no-store')
+        // A different tag (the data changed since) gets the whole answer again.
+        expect((await nurse.get(path).set('If-None-Match', 'W/"stale"')).status, path).toBe(200)
+      }
+    },
+  )
 
   it('when an episode changes between two polls, then the old ETag gets the new answer', async () => {
     const first = await nurse.get('/api/worklist/counts')

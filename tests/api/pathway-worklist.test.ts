@@ -32,18 +32,77 @@ beforeAll(async () => {
     const p = await makePatient({ familyName: family, mrn: `KV${String(Object.keys(named).length + 1).padStart(6, '0')}` })
     named[key] = (await makeReferral({ patientId: p.id, procedureId: proc.id, surgeonId: surgeon.id }, o)).id
   }
-  await add('soonAnaemic', 'Abbott', surgeonA, knee, { stage: 'clinic', plannedSurgeryDate: d(10), anaemic: true, latestHbGL: 104, latestHbAt: ago(3), priority: 'cancer' })
-  await add('soonNotAnaemic', 'Baxter', surgeonA, hip, { stage: 'cleared', plannedSurgeryDate: d(12), anaemic: false, latestHbGL: 141, latestHbAt: ago(5) })
-  await add('farAnaemic', 'Carver', surgeonB, knee, { stage: 'treating', plannedSurgeryDate: d(60), anaemic: true, latestHbGL: 109, latestHbAt: ago(20), treatmentOrderedAt: ago(6), recheckDueDate: d(-2) })
+  await add('soonAnaemic', 'Abbott', surgeonA, knee, {
+    stage: 'clinic',
+    plannedSurgeryDate: d(10),
+    anaemic: true,
+    latestHbGL: 104,
+    latestHbAt: ago(3),
+    priority: 'cancer',
+  })
+  await add('soonNotAnaemic', 'Baxter', surgeonA, hip, {
+    stage: 'cleared',
+    plannedSurgeryDate: d(12),
+    anaemic: false,
+    latestHbGL: 141,
+    latestHbAt: ago(5),
+  })
+  await add('farAnaemic', 'Carver', surgeonB, knee, {
+    stage: 'treating',
+    plannedSurgeryDate: d(60),
+    anaemic: true,
+    latestHbGL: 109,
+    latestHbAt: ago(20),
+    treatmentOrderedAt: ago(6),
+    recheckDueDate: d(-2),
+  })
   await add('noResult', 'Dunmore', surgeonB, hip, { stage: 'referred', plannedSurgeryDate: d(40), priority: 'urgent' })
-  await add('recheckDone', 'Ellery', surgeonA, knee, { stage: 'recheck', plannedSurgeryDate: d(30), anaemic: true, latestHbGL: 121, latestHbAt: ago(1), recheckDueDate: d(-3), treatmentOrderedAt: ago(30), treatmentGivenAt: ago(28) })
-  await add('operated', 'Fenwick', surgeonB, hip, { stage: 'operated', plannedSurgeryDate: d(0), anaemic: true, latestHbGL: 99, latestHbAt: ago(9) })
-  await add('soonAnaemic28', 'Garrow', surgeonB, knee, { stage: 'screened', plannedSurgeryDate: d(28), anaemic: true, latestHbGL: 126, latestHbAt: ago(2) })
-  await add('anaemic29', 'Hartley', surgeonA, hip, { stage: 'screened', plannedSurgeryDate: d(29), anaemic: true, latestHbGL: 128, latestHbAt: ago(2) })
+  await add('recheckDone', 'Ellery', surgeonA, knee, {
+    stage: 'recheck',
+    plannedSurgeryDate: d(30),
+    anaemic: true,
+    latestHbGL: 121,
+    latestHbAt: ago(1),
+    recheckDueDate: d(-3),
+    treatmentOrderedAt: ago(30),
+    treatmentGivenAt: ago(28),
+  })
+  await add('operated', 'Fenwick', surgeonB, hip, {
+    stage: 'operated',
+    plannedSurgeryDate: d(0),
+    anaemic: true,
+    latestHbGL: 99,
+    latestHbAt: ago(9),
+  })
+  await add('soonAnaemic28', 'Garrow', surgeonB, knee, {
+    stage: 'screened',
+    plannedSurgeryDate: d(28),
+    anaemic: true,
+    latestHbGL: 126,
+    latestHbAt: ago(2),
+  })
+  await add('anaemic29', 'Hartley', surgeonA, hip, {
+    stage: 'screened',
+    plannedSurgeryDate: d(29),
+    anaemic: true,
+    latestHbGL: 128,
+    latestHbAt: ago(2),
+  })
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
-type Row = { id: number; patientName: string; flags: string[]; stage: string; plannedSurgeryDate: string; latestHbGL: number | null; patient: { familyName: string }; priority: string }
+type Row = {
+  id: number
+  patientName: string
+  flags: string[]
+  stage: string
+  plannedSurgeryDate: string
+  latestHbGL: number | null
+  patient: { familyName: string }
+  priority: string
+}
 const list = async (query: string, c: Client = nurse) => {
   const res = await c.get(`/api/worklist${query}`)
   expect(res.status, JSON.stringify(res.body)).toBe(200)
@@ -57,9 +116,20 @@ describe('worklist filters', () => {
     const { rows, total } = await list('?q=Abbott')
     expect(total).toBe(1)
     expect(rows[0]).toMatchObject({
-      id: named.soonAnaemic, version: 1, stage: 'clinic', stageLabel: 'For anaemia clinic', nextAction: 'Review in anaemia clinic',
-      plannedSurgeryDate: d(10), daysToSurgery: 10, latestHbGL: 104, anaemic: true, priority: 'cancer', flags: ['surgery-soon-anaemic'],
-      patient: { familyName: 'Abbott' }, procedure: { code: 'TKR' }, surgeon: { id: surgeonA.id, name: 'Alpha Surgeon' },
+      id: named.soonAnaemic,
+      version: 1,
+      stage: 'clinic',
+      stageLabel: 'For anaemia clinic',
+      nextAction: 'Review in anaemia clinic',
+      plannedSurgeryDate: d(10),
+      daysToSurgery: 10,
+      latestHbGL: 104,
+      anaemic: true,
+      priority: 'cancer',
+      flags: ['surgery-soon-anaemic'],
+      patient: { familyName: 'Abbott' },
+      procedure: { code: 'TKR' },
+      surgeon: { id: surgeonA.id, name: 'Alpha Surgeon' },
     })
     expect(rows[0]!.patientName).toMatch(/^Abbott, /)
   })
@@ -120,7 +190,16 @@ describe('worklist sorting and paging', () => {
   })
 
   it('when sorted by stage, family name or priority, then in pathway order, alphabetical, and most pressing first', async () => {
-    expect((await list('?sort=stage')).rows.map((r) => r.stage)).toEqual(['referred', 'screened', 'screened', 'clinic', 'treating', 'recheck', 'cleared', 'operated'])
+    expect((await list('?sort=stage')).rows.map((r) => r.stage)).toEqual([
+      'referred',
+      'screened',
+      'screened',
+      'clinic',
+      'treating',
+      'recheck',
+      'cleared',
+      'operated',
+    ])
     const names = (await list('?sort=familyName')).rows.map((r) => r.patient.familyName)
     expect(names).toEqual([...names].sort())
     expect((await list('?sort=-familyName')).rows[0]!.patient.familyName).toBe('Hartley')
@@ -144,7 +223,14 @@ describe('worklist sorting and paging', () => {
   })
 
   it('when the query is malformed, then 400 names the parameter', async () => {
-    for (const [q, field] of [['?pageSize=500', 'pageSize'], ['?page=0', 'page'], ['?flag=late', 'flag[0]'], ['?stage=limbo', 'stage[0]'], [`?from=${d(5)}&to=${d(1)}`, 'to'], ['?from=2026-02-31', 'from']]) {
+    for (const [q, field] of [
+      ['?pageSize=500', 'pageSize'],
+      ['?page=0', 'page'],
+      ['?flag=late', 'flag[0]'],
+      ['?stage=limbo', 'stage[0]'],
+      [`?from=${d(5)}&to=${d(1)}`, 'to'],
+      ['?from=2026-02-31', 'from'],
+    ]) {
       const res = await nurse.get(`/api/worklist${q}`)
       expect(res.status, q).toBe(400)
       expect(Object.keys(res.body.error.fields), q).toContain(field)
@@ -163,26 +249,41 @@ describe('surgeons see their own patients', () => {
 })
 
 describe('the next visit on each row', () => {
-  it('when an episode has past, cancelled and future visits, then the row ' +
-    'shows the soonest future one still on; none gives null', async () => {
-    const { Appointment, Referral } = await import('../../server/models/index')
-    const referral = (await Referral.findByPk(named.farAnaemic!, { raw: true }))!
-    const visit = (inDays: number, kind: 'iron-infusion' | 'recheck-bloods', status: 'booked' | 'confirmed' | 'cancelled') => {
-      // Whole minutes: the column keeps seconds, not milliseconds.
-      const startsAt = new Date(Math.floor(Date.now() / 60_000) * 60_000 + inDays * 86_400_000)
-      return Appointment.create({
-        referralId: referral.id, patientId: referral.patientId, kind, startsAt, endsAt: new Date(startsAt.getTime() + 3_600_000),
-        durationMin: 60, location: 'Day Treatment Unit', infusionSessionId: null, status, remindAt: null, createdBy: null,
-      })
-    }
-    await visit(-2, 'recheck-bloods', 'confirmed')
-    await visit(3, 'iron-infusion', 'cancelled')
-    const next = await visit(5, 'iron-infusion', 'confirmed')
-    await visit(9, 'recheck-bloods', 'booked')
+  it(
+    'when an episode has past, cancelled and future visits, then the row ' + 'shows the soonest future one still on; none gives null',
+    async () => {
+      const { Appointment, Referral } = await import('../../server/models/index')
+      const referral = (await Referral.findByPk(named.farAnaemic!, { raw: true }))!
+      const visit = (inDays: number, kind: 'iron-infusion' | 'recheck-bloods', status: 'booked' | 'confirmed' | 'cancelled') => {
+        // Whole minutes: the column keeps seconds, not milliseconds.
+        const startsAt = new Date(Math.floor(Date.now() / 60_000) * 60_000 + inDays * 86_400_000)
+        return Appointment.create({
+          referralId: referral.id,
+          patientId: referral.patientId,
+          kind,
+          startsAt,
+          endsAt: new Date(startsAt.getTime() + 3_600_000),
+          durationMin: 60,
+          location: 'Day Treatment Unit',
+          infusionSessionId: null,
+          status,
+          remindAt: null,
+          createdBy: null,
+        })
+      }
+      await visit(-2, 'recheck-bloods', 'confirmed')
+      await visit(3, 'iron-infusion', 'cancelled')
+      const next = await visit(5, 'iron-infusion', 'confirmed')
+      await visit(9, 'recheck-bloods', 'booked')
 
-    const { rows } = await list('?q=Carver')
-    expect((rows[0] as unknown as { nextAppointment: unknown }).nextAppointment).toEqual({ kind: 'iron-infusion', startsAt: next.startsAt.toISOString(), status: 'confirmed' })
-    const other = await list('?q=Dunmore')
-    expect((other.rows[0] as unknown as { nextAppointment: unknown }).nextAppointment).toBeNull()
-  })
+      const { rows } = await list('?q=Carver')
+      expect((rows[0] as unknown as { nextAppointment: unknown }).nextAppointment).toEqual({
+        kind: 'iron-infusion',
+        startsAt: next.startsAt.toISOString(),
+        status: 'confirmed',
+      })
+      const other = await list('?q=Dunmore')
+      expect((other.rows[0] as unknown as { nextAppointment: unknown }).nextAppointment).toBeNull()
+    },
+  )
 })

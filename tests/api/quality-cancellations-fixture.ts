@@ -15,7 +15,10 @@ import { makeStaff, type StaffFixture } from '../helpers/factories'
  *   G S1 XM  not operated; planned 2025-06-10 cancelled for anaemia
  *   H S1 GS  not operated; planned 2026-01-05 cancelled for anaemia (outside the period)
  */
-export interface OrdersFixture { s1: StaffFixture; s2: StaffFixture }
+export interface OrdersFixture {
+  s1: StaffFixture
+  s2: StaffFixture
+}
 
 const noon = (d: string) => new Date(`${d}T12:00:00.000Z`)
 
@@ -33,13 +36,43 @@ export async function makeOrdersFixture(): Promise<OrdersFixture> {
     return r.id
   }
   const operated = (referralId: number, surgeryDate: string, unitsCrossmatched: number) =>
-    Outcome.create({ referralId, surgeryDate, bloodLossMl: 300, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched, lowestHbGL: 110, dischargeHbGL: null, lengthOfStayDays: 3, complications: ['none'], recordedBy: null })
+    Outcome.create({
+      referralId,
+      surgeryDate,
+      bloodLossMl: 300,
+      unitsTransfusedIntraOp: 0,
+      unitsTransfusedPostOp: 0,
+      unitsCrossmatched,
+      lowestHbGL: 110,
+      dischargeHbGL: null,
+      lengthOfStayDays: 3,
+      complications: ['none'],
+      recordedBy: null,
+    })
   const cancelled = (referralId: number, fromDate: string, reason: 'anaemia' | 'theatre-capacity') =>
-    SurgeryDateChange.create({ referralId, kind: 'cancelled', fromDate, toDate: null, reason, note: null, changedBy: null, changedAt: noon(fromDate) })
+    SurgeryDateChange.create({
+      referralId,
+      kind: 'cancelled',
+      fromDate,
+      toDate: null,
+      reason,
+      note: null,
+      changedBy: null,
+      changedAt: noon(fromDate),
+    })
 
   const a = await episode(s1.id, gs.id, 'operated')
   await operated(a, '2025-03-10', 0)
-  await SurgeryDateChange.create({ referralId: a, kind: 'moved', fromDate: '2025-02-20', toDate: '2025-03-10', reason: 'anaemia', note: null, changedBy: null, changedAt: noon('2025-02-01') })
+  await SurgeryDateChange.create({
+    referralId: a,
+    kind: 'moved',
+    fromDate: '2025-02-20',
+    toDate: '2025-03-10',
+    reason: 'anaemia',
+    note: null,
+    changedBy: null,
+    changedAt: noon('2025-02-01'),
+  })
   const b = await episode(s1.id, gs.id, 'operated')
   await cancelled(b, '2025-03-01', 'anaemia')
   await operated(b, '2025-03-20', 2)

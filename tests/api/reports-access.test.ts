@@ -22,7 +22,9 @@ beforeAll(async () => {
   asDoctor = await new Client(t.app).mustSignIn(d.email, d.password)
   asNurse = await new Client(t.app).mustSignIn(n.email, n.password)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 describe('who sees which figures', () => {
   it("when a surgeon asks for another surgeon's figures, then 403 on every report", async () => {
@@ -37,7 +39,9 @@ describe('who sees which figures', () => {
     expect(res.body.filters.surgeonId).toBe(f.s1.id)
     const referred = res.body.tables.funnel.rows.find((r: { step: string }) => r.step === 'referred')
     expect(referred.count).toBe(2)
-    const hip = (await asS1.get(`/api/reports/blood-ordering?${PERIOD}`)).body.tables.bloodOrdering.rows.map((r: { procedureCode: string }) => r.procedureCode)
+    const hip = (await asS1.get(`/api/reports/blood-ordering?${PERIOD}`)).body.tables.bloodOrdering.rows.map(
+      (r: { procedureCode: string }) => r.procedureCode,
+    )
     expect(hip).toEqual(['KNEE']) // S2's HIP episode is not in S1's audit
     const bySurgeon = (await asS1.get(`/api/reports/transfusion?${PERIOD}`)).body.tables.bySurgeon.rows
     expect(bySurgeon.every((r: { groupKey: string }) => r.groupKey === String(f.s1.id))).toBe(true)
@@ -52,8 +56,13 @@ describe('who sees which figures', () => {
 
 describe('CSV downloads', () => {
   it.each([
-    ['funnel', 'funnel'], ['waiting-times', 'waitingTimes'], ['haemoglobin', 'distribution'], ['haemoglobin', 'riseByProduct'],
-    ['transfusion', 'byOperation'], ['transfusion', 'bySurgeon'], ['blood-ordering', 'bloodOrdering'],
+    ['funnel', 'funnel'],
+    ['waiting-times', 'waitingTimes'],
+    ['haemoglobin', 'distribution'],
+    ['haemoglobin', 'riseByProduct'],
+    ['transfusion', 'byOperation'],
+    ['transfusion', 'bySurgeon'],
+    ['blood-ordering', 'bloodOrdering'],
   ])('when %s table %s is downloaded, then it is an attachment whose rows equal the JSON table', async (name, table) => {
     const json = (await asDoctor.get(`/api/reports/${name}?${PERIOD}`)).body.tables[table]
     const res = await asDoctor.get(`/api/reports/${name}?${PERIOD}&format=csv&table=${table}`)
@@ -62,7 +71,11 @@ describe('CSV downloads', () => {
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="?[\w.-]+\.csv"?$/)
     const rows = parseCsv(res.text)
     expect(rows.length).toBeGreaterThan(0)
-    expect(rows).toEqual(json.rows.map((r: Record<string, unknown>) => Object.fromEntries(json.columns.map((c: { key: string }) => [c.key, asCsvCell(r[c.key])]))))
+    expect(rows).toEqual(
+      json.rows.map((r: Record<string, unknown>) =>
+        Object.fromEntries(json.columns.map((c: { key: string }) => [c.key, asCsvCell(r[c.key])])),
+      ),
+    )
   })
 
   it('when a surgeon downloads a CSV for another surgeon, then 403', async () => {

@@ -19,7 +19,9 @@ beforeAll(async () => {
   const a = await makeStaff('admin')
   asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 async function report(name: string, extra = '') {
   const res = await asAdmin.get(`/api/reports/${name}?${PERIOD}${extra}`)
@@ -37,7 +39,16 @@ describe('GET /api/reports/funnel', () => {
     // cleared E1, E3 = 2; operated E1, E2, E3 = 3; first Hb ≥ 28 days before surgery:
     // E1 03-03→04-10 = 38 d yes, E2 03-20→04-05 = 16 d no, E3 05-02→06-15 = 44 d yes → 2 of 3.
     const counts = Object.fromEntries(Object.entries(steps).map(([k, v]) => [k, (v as { count: number }).count]))
-    expect(counts).toEqual({ referred: 4, screened: 3, anaemicOrDeficient: 2, treated: 1, rechecked: 1, cleared: 2, operated: 3, screenedEarly: 2 })
+    expect(counts).toEqual({
+      referred: 4,
+      screened: 3,
+      anaemicOrDeficient: 2,
+      treated: 1,
+      rechecked: 1,
+      cleared: 2,
+      operated: 3,
+      screenedEarly: 2,
+    })
     expect(steps.screenedEarly.percent).toBe(66.7) // 2 / 3 operated
     expect(steps.screened.percent).toBe(75) // 3 / 4 referred
     expect(body.tables.funnel.definitions.screenedEarly).toMatchObject({ denominator: 'Operated episodes' })
@@ -86,7 +97,14 @@ describe('GET /api/reports/haemoglobin', () => {
 describe('GET /api/reports/transfusion', () => {
   it('when split by operation and treatment, then still-anaemic share, transfusion rate and units per patient match', async () => {
     const body = await report('transfusion')
-    const rows = body.tables.byOperation.rows.map((r: Record<string, unknown>) => [r.groupKey, r.treated, r.patients, r.stillAnaemicPercent, r.transfusionRatePercent, r.unitsPerPatient])
+    const rows = body.tables.byOperation.rows.map((r: Record<string, unknown>) => [
+      r.groupKey,
+      r.treated,
+      r.patients,
+      r.stillAnaemicPercent,
+      r.transfusionRatePercent,
+      r.unitsPerPatient,
+    ])
     // Surgical criteria (< 130 g/L): E1 120 anaemic, transfused 1 unit; E2 125 anaemic, none;
     // E3 140 not anaemic, 2 units. HIP sorts before KNEE; untreated (false) before treated.
     expect(rows).toEqual([
@@ -95,9 +113,13 @@ describe('GET /api/reports/transfusion', () => {
       ['KNEE', true, 1, 100, 100, 1],
     ])
     const bySurgeon = body.tables.bySurgeon.rows.map((r: Record<string, unknown>) => [r.groupKey, r.groupName, r.treated, r.units])
-    expect(bySurgeon).toEqual(expect.arrayContaining([
-      [String(f.s1.id), 'Surgeon One', false, 0], [String(f.s1.id), 'Surgeon One', true, 1], [String(f.s2.id), 'Surgeon Two', false, 2],
-    ]))
+    expect(bySurgeon).toEqual(
+      expect.arrayContaining([
+        [String(f.s1.id), 'Surgeon One', false, 0],
+        [String(f.s1.id), 'Surgeon One', true, 1],
+        [String(f.s2.id), 'Surgeon Two', false, 2],
+      ]),
+    )
     expect(body.tables.byOperation.definitions.stillAnaemicPercent.numerator).toMatch(/130/)
   })
 })
@@ -108,26 +130,50 @@ describe('GET /api/reports/blood-ordering', () => {
     // KNEE: 2 + 2 = 4 units crossmatched, 1 unit transfused (E1) → C:T 4/1 = 4 (> 2.5);
     // 1 of 2 crossmatched patients transfused → T% 50; TI 1/2 = 0.5. Mean loss (600 + 400) / 2 = 500.
     expect(rows.KNEE).toMatchObject({
-      patients: 2, patientsCrossmatched: 2, unitsCrossmatched: 4, unitsTransfused: 1, ctRatio: 4, transfusionProbabilityPercent: 50, transfusionIndex: 0.5,
-      usualBloodOrder: 'crossmatch', usualUnits: 2, suggestion: 'fewer-units', meanBloodLossMl: 500, usualBloodLossMl: 500,
+      patients: 2,
+      patientsCrossmatched: 2,
+      unitsCrossmatched: 4,
+      unitsTransfused: 1,
+      ctRatio: 4,
+      transfusionProbabilityPercent: 50,
+      transfusionIndex: 0.5,
+      usualBloodOrder: 'crossmatch',
+      usualUnits: 2,
+      suggestion: 'fewer-units',
+      meanBloodLossMl: 500,
+      usualBloodLossMl: 500,
     })
     // HIP: nobody crossmatched (indices missing), but 1 of 1 was transfused on group-and-screen → crossmatch.
-    expect(rows.HIP).toMatchObject({ patients: 1, patientsCrossmatched: 0, ctRatio: null, transfusionIndex: null, usualBloodOrder: 'group-and-screen', suggestion: 'crossmatch', meanBloodLossMl: 1000 })
+    expect(rows.HIP).toMatchObject({
+      patients: 1,
+      patientsCrossmatched: 0,
+      ctRatio: null,
+      transfusionIndex: null,
+      usualBloodOrder: 'group-and-screen',
+      suggestion: 'crossmatch',
+      meanBloodLossMl: 1000,
+    })
   })
 })
 
 describe('definitions', () => {
-  it.each(['funnel', 'haemoglobin', 'transfusion', 'waiting-times', 'blood-ordering'])('when %s is read, then every definition states a numerator, a denominator and the period', async (name) => {
-    const body = await report(name)
-    for (const table of Object.values(body.tables) as { definitions: Record<string, Record<string, string>>; rows: { definition?: object }[] }[]) {
-      expect(Object.keys(table.definitions).length).toBeGreaterThan(0)
-      for (const d of Object.values(table.definitions)) {
-        expect(d.numerator.length * d.denominator.length).toBeGreaterThan(0)
-        expect(d.period).toContain('2025-01-01 to 2025-12-31')
+  it.each(['funnel', 'haemoglobin', 'transfusion', 'waiting-times', 'blood-ordering'])(
+    'when %s is read, then every definition states a numerator, a denominator and the period',
+    async (name) => {
+      const body = await report(name)
+      for (const table of Object.values(body.tables) as {
+        definitions: Record<string, Record<string, string>>
+        rows: { definition?: object }[]
+      }[]) {
+        expect(Object.keys(table.definitions).length).toBeGreaterThan(0)
+        for (const d of Object.values(table.definitions)) {
+          expect(d.numerator.length * d.denominator.length).toBeGreaterThan(0)
+          expect(d.period).toContain('2025-01-01 to 2025-12-31')
+        }
+        for (const row of table.rows) if ('definition' in row) expect(row.definition).toHaveProperty('period')
       }
-      for (const row of table.rows) if ('definition' in row) expect(row.definition).toHaveProperty('period')
-    }
-  })
+    },
+  )
 })
 
 describe('report names and dates', () => {
@@ -145,8 +191,19 @@ describe('voided and preliminary results in the reports', () => {
     const add = async (referralId: number, day: string, hbGL: number, o: { voided?: boolean; preliminary?: boolean }) => {
       const r = (await Referral.findByPk(referralId, { raw: true }))!
       return Result.create({
-        referralId, patientId: r.patientId, analyte: 'hb', valueCanonical: hbGL, unitCanonical: 'g/L', valueReported: hbGL, unitReported: 'g/L', takenAt: new Date(`${day}T09:00:00.000Z`),
-        enteredBy: null, derivedFrom: null, source: 'hl7', ...(o.preliminary ? { status: 'preliminary' as const } : {}), ...(o.voided ? { voidedAt: new Date(), voidReason: 'deleted by the laboratory' } : {}),
+        referralId,
+        patientId: r.patientId,
+        analyte: 'hb',
+        valueCanonical: hbGL,
+        unitCanonical: 'g/L',
+        valueReported: hbGL,
+        unitReported: 'g/L',
+        takenAt: new Date(`${day}T09:00:00.000Z`),
+        enteredBy: null,
+        derivedFrom: null,
+        source: 'hl7',
+        ...(o.preliminary ? { status: 'preliminary' as const } : {}),
+        ...(o.voided ? { voidedAt: new Date(), voidReason: 'deleted by the laboratory' } : {}),
       })
     }
     const [e1, e2, , e4] = f.ids

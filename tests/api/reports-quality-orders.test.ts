@@ -11,7 +11,12 @@ let asDoctor: Client
 const PERIOD = 'from=2025-01-01&to=2025-12-31'
 type Figure = { numerator: number; denominator: number; percent: number | null }
 type M = Figure & { id: string; title: string; definition: { numerator: string; denominator: string }; source: string }
-type Body = { measures: M[]; byOperation: { key: string; measures: Record<string, Figure> }[]; bySurgeon: { name: string; measures: Record<string, Figure> }[]; trend: { month: string; measures: Record<string, Figure> }[] }
+type Body = {
+  measures: M[]
+  byOperation: { key: string; measures: Record<string, Figure> }[]
+  bySurgeon: { name: string; measures: Record<string, Figure> }[]
+  trend: { month: string; measures: Record<string, Figure> }[]
+}
 
 beforeAll(async () => {
   t = makeTestApp()
@@ -20,7 +25,9 @@ beforeAll(async () => {
   const d = await makeStaff('doctor')
   asDoctor = await new Client(t.app).mustSignIn(d.email, d.password)
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 async function quality(c: Client, extra = ''): Promise<Body> {
   const res = await c.get(`/api/reports/quality?${PERIOD}${extra}`)
@@ -62,8 +69,13 @@ describe('cancellations and blood orders in the quality report (fixture in quali
   // May F (0 of 1); June G (1 of 1).
   it('when broken down by month, operation and surgeon, then cancellations fall where their planned day was', async () => {
     const b = await quality(asDoctor)
-    expect(b.trend.map((x) => [x.month, x.measures['cancelled-for-anaemia']!.numerator, x.measures['cancelled-for-anaemia']!.denominator])).toEqual([
-      ['2025-03', 1, 3], ['2025-04', 0, 2], ['2025-05', 0, 1], ['2025-06', 1, 1],
+    expect(
+      b.trend.map((x) => [x.month, x.measures['cancelled-for-anaemia']!.numerator, x.measures['cancelled-for-anaemia']!.denominator]),
+    ).toEqual([
+      ['2025-03', 1, 3],
+      ['2025-04', 0, 2],
+      ['2025-05', 0, 1],
+      ['2025-06', 1, 1],
     ])
     // GS: A, B, C operated + B's and F's cancellations = 5, anaemia B's → 1 / 5. XM: D + G's cancellation, anaemia G → 1 / 2.
     const op = Object.fromEntries(b.byOperation.map((r) => [r.key, r.measures]))

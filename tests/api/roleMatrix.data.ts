@@ -1,6 +1,10 @@
 import type { Action } from '../../shared/permissions'
 
-export interface MatrixEntry { method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'; path: string; action: Action }
+export interface MatrixEntry {
+  method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'
+  path: string
+  action: Action
+}
 
 /**
  * Every API route and the action it performs. Who may perform each action is the permission

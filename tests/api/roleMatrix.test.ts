@@ -16,7 +16,9 @@ beforeAll(async () => {
   for (const role of ROLES) staff[role] = await makeStaff(role)
   target = await makeStaff('nurse')
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 const key = (e: { method: string; path: string }) => `${e.method} ${e.path}`
 
@@ -35,11 +37,16 @@ async function call(entry: MatrixEntry, caller: Role | 'anonymous') {
   else await c.mustSignIn(staff[caller].email, staff[caller].password)
   const path = entry.path.replace(':id', String(target.id))
   switch (entry.method) {
-    case 'GET': return c.get(path)
-    case 'POST': return c.post(path, {})
-    case 'PATCH': return c.patch(path, {})
-    case 'PUT': return c.put(path, {})
-    case 'DELETE': return c.delete(path)
+    case 'GET':
+      return c.get(path)
+    case 'POST':
+      return c.post(path, {})
+    case 'PATCH':
+      return c.patch(path, {})
+    case 'PUT':
+      return c.put(path, {})
+    case 'DELETE':
+      return c.delete(path)
   }
 }
 
@@ -47,8 +54,14 @@ describe('role matrix', () => {
   it('then every mounted API route is in the matrix, and every matrix row is mounted', () => {
     const mounted = new Set(t.routes.map(key))
     const table = new Set(ROLE_MATRIX.map(key))
-    expect([...mounted].filter((k) => !table.has(k)), 'mounted but missing from the matrix').toEqual([])
-    expect([...table].filter((k) => !mounted.has(k)), 'in the matrix but not mounted').toEqual([])
+    expect(
+      [...mounted].filter((k) => !table.has(k)),
+      'mounted but missing from the matrix',
+    ).toEqual([])
+    expect(
+      [...table].filter((k) => !mounted.has(k)),
+      'in the matrix but not mounted',
+    ).toEqual([])
   })
 
   it('then every mounted route names an action that is in the permission table', () => {

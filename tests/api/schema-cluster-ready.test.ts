@@ -10,8 +10,12 @@ import { makeTestApp, type TestApp } from '../helpers/app'
  * Only InnoDB tables are replicated. Checked on the migrated test database.
  */
 let t: TestApp
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 
 function sourceFiles(dir: string): string[] {
   return readdirSync(dir).flatMap((name) => {
@@ -36,7 +40,9 @@ describe('the schema on a cluster', () => {
 
   it('then the server code takes no table locks and no named locks, which Galera does not replicate', () => {
     const root = path.resolve(import.meta.dirname, '..', '..', 'server')
-    const offenders = sourceFiles(root).filter((f) => /LOCK\s+TABLES|GET_LOCK\s*\(|SKIP\s+LOCKED/i.test(readFileSync(f, 'utf8').replace(/\/\*[\s\S]*?\*\/|\/\/.*$/gm, '')))
+    const offenders = sourceFiles(root).filter((f) =>
+      /LOCK\s+TABLES|GET_LOCK\s*\(|SKIP\s+LOCKED/i.test(readFileSync(f, 'utf8').replace(/\/\*[\s\S]*?\*\/|\/\/.*$/gm, '')),
+    )
     expect(offenders).toEqual([])
   })
 })

@@ -28,14 +28,21 @@ beforeAll(async () => {
   referralId = ep.referral.id
   version = ep.referral.version
 })
-afterAll(async () => { await t.close() })
+afterAll(async () => {
+  await t.close()
+})
 
 const today = todayIso()
 
 describe('every unbounded input has a limit, named in a 400', () => {
   it(`when a prescription lists more than ${LIMITS.prescriptionDoses} doses, then 400 names doses and nothing is stored`, async () => {
     const doses = Array.from({ length: LIMITS.prescriptionDoses + 1 }, (_, i) => ({ doseMg: 100, dayOffset: i }))
-    const res = await doctor.post(`/api/referrals/${referralId}/prescriptions`, { productCode: 'ferric-carboxymaltose', firstDoseDate: today, doses, version })
+    const res = await doctor.post(`/api/referrals/${referralId}/prescriptions`, {
+      productCode: 'ferric-carboxymaltose',
+      firstDoseDate: today,
+      doses,
+      version,
+    })
     expect(res.status).toBe(400)
     expect(res.body.error.fields.doses).toMatch(new RegExp(`at most ${LIMITS.prescriptionDoses} doses`))
     expect(await Prescription.count()).toBe(0)
@@ -99,7 +106,11 @@ describe('every unbounded input has a limit, named in a 400', () => {
 
   it(`when a FHIR Bundle has more than ${LIMITS.fhirEntries} entries, then 400 names the limit`, async () => {
     const bundle = { resourceType: 'Bundle', type: 'collection', entry: Array.from({ length: LIMITS.fhirEntries + 1 }, () => ({})) }
-    const res = await nurse.agent.post('/api/imports/fhir?commit=true&source=limits').set('X-CSRF-Token', nurse.csrf).set('Content-Type', 'application/fhir+json').send(JSON.stringify(bundle))
+    const res = await nurse.agent
+      .post('/api/imports/fhir?commit=true&source=limits')
+      .set('X-CSRF-Token', nurse.csrf)
+      .set('Content-Type', 'application/fhir+json')
+      .send(JSON.stringify(bundle))
     expect(res.status).toBe(400)
     expect(res.body.error.message).toMatch(new RegExp(`limit of ${LIMITS.fhirEntries}`))
     expect(await ImportBatch.count()).toBe(0)

@@ -15,14 +15,24 @@ let nurse: Client
 let patient: Client
 let appointmentId: number
 
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   await mail.clear()
   f = await bookingFixture({ givenName: 'Wren' })
   nurse = await new Client(t.app).mustSignIn(f.nurse.email, f.nurse.password)
-  const res = await nurse.post('/api/appointments', { referralId: f.referralId, kind: 'anaemia-clinic', startsAt: at(summerDay(), '10:00'), durationMin: 30, location: 'Outpatients B' })
+  const res = await nurse.post('/api/appointments', {
+    referralId: f.referralId,
+    kind: 'anaemia-clinic',
+    startsAt: at(summerDay(), '10:00'),
+    durationMin: 30,
+    location: 'Outpatients B',
+  })
   expect(res.status, JSON.stringify(res.body)).toBe(201)
   appointmentId = res.body.appointment.id
   await drainOutbox({ sequelize: t.sequelize, config: t.config })
@@ -66,16 +76,18 @@ describe('patient e-mail', () => {
 
 describe('the SMTP connection', () => {
   // The test relay (maildev) offers STARTTLS with a self-signed, expired certificate.
-  it('when SMTP_REQUIRE_TLS is on and the relay\'s certificate does not verify, then nothing is sent', async () => {
+  it("when SMTP_REQUIRE_TLS is on and the relay's certificate does not verify, then nothing is sent", async () => {
     const config = loadConfig({ ...process.env, NODE_ENV: 'test', SMTP_REQUIRE_TLS: 'true' })
     expect(config.smtp).toMatchObject({ requireTls: true, tlsRejectUnauthorized: true })
     const transport = createMailTransport(config.smtp)
-    await expect(transport.sendMail({ from: config.smtp.from, to: 'tls.check@hospital.test', subject: 'x', text: 'x' })).rejects.toThrow(/certificate/i)
+    await expect(transport.sendMail({ from: config.smtp.from, to: 'tls.check@hospital.test', subject: 'x', text: 'x' })).rejects.toThrow(
+      /certificate/i,
+    )
     expect(await mail.to('tls.check@hospital.test')).toHaveLength(0)
     transport.close()
   })
 
-  it('when the operator accepts the relay\'s certificate, then the message goes over TLS', async () => {
+  it("when the operator accepts the relay's certificate, then the message goes over TLS", async () => {
     const config = loadConfig({ ...process.env, NODE_ENV: 'test', SMTP_REQUIRE_TLS: 'true', SMTP_TLS_REJECT_UNAUTHORIZED: 'false' })
     const transport = createMailTransport(config.smtp)
     await transport.sendMail({ from: config.smtp.from, to: 'tls.ok@hospital.test', subject: 'x', text: 'x' })

@@ -9,9 +9,15 @@ import { hashPassword, hashWork, setPasswordCost } from '../../server/services/p
 import { loadConfig } from '../../server/config'
 
 let t: TestApp
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
-beforeEach(async () => { await cleanDatabase(t.sequelize) })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
+beforeEach(async () => {
+  await cleanDatabase(t.sequelize)
+})
 
 function sessionId(res: { headers: Record<string, unknown> }): string | undefined {
   const cookies = (res.headers['set-cookie'] as string[] | undefined) ?? []
@@ -60,7 +66,10 @@ describe('the absolute session lifetime', () => {
     const s = await makeStaff('nurse')
     const c = await new Client(t.app).mustSignIn(s.email, s.password)
     await c.get('/api/auth/me').expect(200)
-    const [row] = await t.sequelize.query<{ sid: string; data: string }>('SELECT sid, data FROM sessions WHERE user_id = ?', { replacements: [s.id], type: QueryTypes.SELECT })
+    const [row] = await t.sequelize.query<{ sid: string; data: string }>('SELECT sid, data FROM sessions WHERE user_id = ?', {
+      replacements: [s.id],
+      type: QueryTypes.SELECT,
+    })
     const data = JSON.parse(row!.data) as { signedInAt: number }
     // Still inside the idle timeout (the row's expiry is untouched), but 12 h and a minute since sign-in.
     data.signedInAt = Date.now() - (t.config.session.absoluteHours * 3_600_000 + 60_000)
@@ -95,14 +104,19 @@ describe('temporary passwords', () => {
 })
 
 describe('password hashing', () => {
-  it('then new hashes use the configured scrypt cost, and the default cost is OWASP\'s N=2^17, r=8, p=1', async () => {
+  it("then new hashes use the configured scrypt cost, and the default cost is OWASP's N=2^17, r=8, p=1", async () => {
     // OWASP Password Storage Cheat Sheet: scrypt with N=2^17, r=8, p=1 at least.
     expect(loadConfig({}).passwords.scryptLog2N).toBe(17)
     expect(loadConfig({ NODE_ENV: 'production', SESSION_SECRET: 'x'.repeat(32) }).passwords.scryptLog2N).toBe(17)
-    expect((await hashPassword('any-long-password-1')).split('$').slice(0, 4)).toEqual(['scrypt', String(2 ** t.config.passwords.scryptLog2N), '8', '1'])
+    expect((await hashPassword('any-long-password-1')).split('$').slice(0, 4)).toEqual([
+      'scrypt',
+      String(2 ** t.config.passwords.scryptLog2N),
+      '8',
+      '1',
+    ])
   })
 
-  it('when a user signs in with a hash made at an older cost, then it is rehashed at today\'s', async () => {
+  it("when a user signs in with a hash made at an older cost, then it is rehashed at today's", async () => {
     const s = await makeStaff('doctor')
     setPasswordCost(t.config.passwords.scryptLog2N - 1)
     const old = await hashPassword(s.password)
@@ -141,7 +155,11 @@ describe('security events in the audit trail', () => {
     const c = await new Client(t.app).mustSignIn(s.email, s.password)
     await c.get('/api/users').expect(403)
     await c.agent.post('/api/auth/logout').set('X-CSRF-Token', 'forged').expect(403)
-    const rows = await AuditEntry.findAll({ where: { action: ['sign-in-failed', 'forbidden', 'csrf-refused'] }, raw: true, order: [['id', 'ASC']] })
+    const rows = await AuditEntry.findAll({
+      where: { action: ['sign-in-failed', 'forbidden', 'csrf-refused'] },
+      raw: true,
+      order: [['id', 'ASC']],
+    })
     expect(rows.map((r) => r.action)).toEqual(['sign-in-failed', 'forbidden', 'csrf-refused'])
     expect(rows[0]!.after).toMatchObject({ email: s.email, reason: 'invalid_credentials' })
     expect(JSON.stringify(rows[0]!.after)).not.toContain('wrong-password')
@@ -163,7 +181,9 @@ describe('the audit trail in the database', () => {
     const s = await makeStaff('nurse')
     await new Client(t.app).mustSignIn(s.email, s.password)
     const entry = (await AuditEntry.findOne({ where: { action: 'sign-in' } }))!
-    await expect(t.sequelize.query('UPDATE audit_entries SET action = ? WHERE id = ?', { replacements: ['tampered', entry.id] })).rejects.toThrow(/append-only/)
+    await expect(
+      t.sequelize.query('UPDATE audit_entries SET action = ? WHERE id = ?', { replacements: ['tampered', entry.id] }),
+    ).rejects.toThrow(/append-only/)
     await expect(t.sequelize.query('DELETE FROM audit_entries WHERE id = ?', { replacements: [entry.id] })).rejects.toThrow(/append-only/)
     await expect(AuditEntry.destroy({ where: {} })).rejects.toThrow(/append-only/)
     expect((await AuditEntry.findByPk(entry.id, { raw: true }))!.action).toBe('sign-in')

@@ -8,14 +8,21 @@ import { serverCommand } from '../helpers/serverProcess'
 
 function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
-    const s = createServer().listen(0, '127.0.0.1', () => {
-      const p = (s.address() as { port: number }).port
-      s.close(() => resolve(p))
-    }).on('error', reject)
+    const s = createServer()
+      .listen(0, '127.0.0.1', () => {
+        const p = (s.address() as { port: number }).port
+        s.close(() => resolve(p))
+      })
+      .on('error', reject)
   })
 }
 
-interface Running { child: ChildProcess; port: number; exited: Promise<number | null>; output: () => string }
+interface Running {
+  child: ChildProcess
+  port: number
+  exited: Promise<number | null>
+  output: () => string
+}
 
 async function startServer(env: Record<string, string> = {}): Promise<Running> {
   const port = await freePort()
@@ -26,8 +33,12 @@ async function startServer(env: Record<string, string> = {}): Promise<Running> {
     env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', STATIC_DIR: '', OUTBOX_POLL_MS: '3600000', LOG_LEVEL: 'info', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   })
-  child.stdout!.on('data', (d: Buffer) => { out += d.toString() })
-  child.stderr!.on('data', (d: Buffer) => { out += d.toString() })
+  child.stdout!.on('data', (d: Buffer) => {
+    out += d.toString()
+  })
+  child.stderr!.on('data', (d: Buffer) => {
+    out += d.toString()
+  })
   const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => resolve(code)))
   const deadline = Date.now() + 30_000
   while (!out.includes('Ferrolane listening')) {
@@ -49,11 +60,15 @@ const BODY = '{"email":"nobody@hospital.test","password":"not-a-password"}'
 function startSlowRequest(s: Socket): Promise<string> {
   let answer = ''
   const done = new Promise<string>((resolve) => {
-    s.on('data', (d: Buffer) => { answer += d.toString() })
+    s.on('data', (d: Buffer) => {
+      answer += d.toString()
+    })
     s.on('close', () => resolve(answer))
   })
-  s.write(`POST /api/auth/login HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Type: application/json\r\nContent-Length: ` +
-      `${BODY.length}\r\nConnection: keep-alive\r\n\r\n${BODY.slice(0, 10)}`)
+  s.write(
+    `POST /api/auth/login HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Type: application/json\r\nContent-Length: ` +
+      `${BODY.length}\r\nConnection: keep-alive\r\n\r\n${BODY.slice(0, 10)}`,
+  )
   return done
 }
 

@@ -11,8 +11,12 @@ let surgeon: StaffFixture
 let asNurse: Client
 let asOtherSurgeon: Client
 
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   surgeon = await makeStaff('surgeon')
@@ -28,7 +32,14 @@ async function operated(o: { specialty?: string; withOutcome?: boolean } = {}) {
   if (o.specialty) await e.procedure.update({ specialty: o.specialty })
   if (o.withOutcome !== false) {
     const res = await asNurse.post(`/api/referrals/${e.referral.id}/outcome`, {
-      surgeryDate: todayIso(), bloodLossMl: 700, unitsCrossmatched: 2, lowestHbGL: 72, dischargeHbGL: 95, lengthOfStayDays: 4, complications: ['none'], version: 1,
+      surgeryDate: todayIso(),
+      bloodLossMl: 700,
+      unitsCrossmatched: 2,
+      lowestHbGL: 72,
+      dischargeHbGL: 95,
+      lengthOfStayDays: 4,
+      complications: ['none'],
+      version: 1,
     })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
   }
@@ -36,30 +47,50 @@ async function operated(o: { specialty?: string; withOutcome?: boolean } = {}) {
 }
 
 const unit = (o: Record<string, unknown> = {}) => ({
-  givenAt: new Date(Date.now() - 60_000).toISOString(), component: 'red-cells', units: 1, preTransfusionHbGL: 68,
-  reassessedBeforeNext: true, postTransfusionHbGL: 79, informationGiven: true, productCodes: ['E0336V00'], ...o,
+  givenAt: new Date(Date.now() - 60_000).toISOString(),
+  component: 'red-cells',
+  units: 1,
+  preTransfusionHbGL: 68,
+  reassessedBeforeNext: true,
+  postTransfusionHbGL: 79,
+  informationGiven: true,
+  productCodes: ['E0336V00'],
+  ...o,
 })
 
 describe('POST /api/referrals/:id/transfusions', () => {
-  it('when a red-cell unit below the threshold is recorded, then 201, the threshold is kept and the post-operative record counts the ' +
-    'unit', async () => {
-    const id = await operated({ specialty: 'Colorectal surgery' })
-    const res = await asNurse.post(`/api/referrals/${id}/transfusions`, unit())
-    expect(res.status, JSON.stringify(res.body)).toBe(201)
-    // Colorectal, no cardiovascular disease: 70 g/L (AABB 2023, stable adult inpatient).
-    expect(res.body.transfusion).toMatchObject({ component: 'red-cells', units: 1, phase: 'after-surgery', thresholdGL: 70, aboveThreshold: false, reassessedAfterEachUnit: true })
-    expect(res.body.redCellUnits).toEqual({ beforeSurgery: 0, duringSurgery: 0, afterSurgery: 1 })
-    expect((await Outcome.findOne({ where: { referralId: id } }))!.unitsTransfusedPostOp).toBe(1)
-    expect(await AuditEntry.count({ where: { entity: 'transfusion', action: 'create' } })).toBe(1)
-    const list = await asNurse.get(`/api/referrals/${id}/transfusions`)
-    expect(list.status).toBe(200)
-    expect(list.body.transfusions).toHaveLength(1)
-    expect(list.body.threshold.thresholdGL).toBe(70)
-  })
+  it(
+    'when a red-cell unit below the threshold is recorded, then 201, the threshold is kept and the post-operative record counts the ' +
+      'unit',
+    async () => {
+      const id = await operated({ specialty: 'Colorectal surgery' })
+      const res = await asNurse.post(`/api/referrals/${id}/transfusions`, unit())
+      expect(res.status, JSON.stringify(res.body)).toBe(201)
+      // Colorectal, no cardiovascular disease: 70 g/L (AABB 2023, stable adult inpatient).
+      expect(res.body.transfusion).toMatchObject({
+        component: 'red-cells',
+        units: 1,
+        phase: 'after-surgery',
+        thresholdGL: 70,
+        aboveThreshold: false,
+        reassessedAfterEachUnit: true,
+      })
+      expect(res.body.redCellUnits).toEqual({ beforeSurgery: 0, duringSurgery: 0, afterSurgery: 1 })
+      expect((await Outcome.findOne({ where: { referralId: id } }))!.unitsTransfusedPostOp).toBe(1)
+      expect(await AuditEntry.count({ where: { entity: 'transfusion', action: 'create' } })).toBe(1)
+      const list = await asNurse.get(`/api/referrals/${id}/transfusions`)
+      expect(list.status).toBe(200)
+      expect(list.body.transfusions).toHaveLength(1)
+      expect(list.body.threshold.thresholdGL).toBe(70)
+    },
+  )
 
   it('when two units are given during surgery, then the record counts them as intra-operative units', async () => {
     const id = await operated()
-    const res = await asNurse.post(`/api/referrals/${id}/transfusions`, unit({ units: 2, phase: 'during-surgery', productCodes: ['E0336V00', 'E0336V00'] }))
+    const res = await asNurse.post(
+      `/api/referrals/${id}/transfusions`,
+      unit({ units: 2, phase: 'during-surgery', productCodes: ['E0336V00', 'E0336V00'] }),
+    )
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.transfusion.reassessedAfterEachUnit).toBe(false) // two units at once: not single-unit
     expect((await Outcome.findOne({ where: { referralId: id } }))!.unitsTransfusedIntraOp).toBe(2)
@@ -93,7 +124,10 @@ describe('POST /api/referrals/:id/transfusions', () => {
 
   it('when the Hb is above the threshold and a reason is given, then it is saved and flagged above the threshold', async () => {
     const id = await operated({ specialty: 'Orthopaedics' })
-    const res = await asNurse.post(`/api/referrals/${id}/transfusions`, unit({ preTransfusionHbGL: 85, reason: 'Symptomatic: chest pain on mobilising' }))
+    const res = await asNurse.post(
+      `/api/referrals/${id}/transfusions`,
+      unit({ preTransfusionHbGL: 85, reason: 'Symptomatic: chest pain on mobilising' }),
+    )
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect(res.body.transfusion).toMatchObject({ thresholdGL: 80, aboveThreshold: true })
   })
@@ -105,7 +139,10 @@ describe('POST /api/referrals/:id/transfusions', () => {
 
   it('when platelets are given, then no pre-transfusion Hb is needed', async () => {
     const id = await operated()
-    const res = await asNurse.post(`/api/referrals/${id}/transfusions`, unit({ component: 'platelets', preTransfusionHbGL: null, productCodes: [] }))
+    const res = await asNurse.post(
+      `/api/referrals/${id}/transfusions`,
+      unit({ component: 'platelets', preTransfusionHbGL: null, productCodes: [] }),
+    )
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     expect((await Outcome.findOne({ where: { referralId: id } }))!.unitsTransfusedPostOp).toBe(0) // red cells only
   })
@@ -114,7 +151,19 @@ describe('POST /api/referrals/:id/transfusions', () => {
     const id = await operated({ withOutcome: false })
     // Referred 10 days ago, operated 8 days ago, 2 days' stay: discharged 6 days ago.
     await t.sequelize.query('UPDATE referrals SET created_at = DATE_SUB(NOW(), INTERVAL 10 DAY) WHERE id = ?', { replacements: [id] })
-    await Outcome.create({ referralId: id, surgeryDate: new Date(Date.now() - 8 * 86_400_000).toISOString().slice(0, 10), bloodLossMl: 500, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched: 0, lowestHbGL: 80, dischargeHbGL: null, lengthOfStayDays: 2, complications: ['none'], recordedBy: null })
+    await Outcome.create({
+      referralId: id,
+      surgeryDate: new Date(Date.now() - 8 * 86_400_000).toISOString().slice(0, 10),
+      bloodLossMl: 500,
+      unitsTransfusedIntraOp: 0,
+      unitsTransfusedPostOp: 0,
+      unitsCrossmatched: 0,
+      lowestHbGL: 80,
+      dischargeHbGL: null,
+      lengthOfStayDays: 2,
+      complications: ['none'],
+      recordedBy: null,
+    })
     const res = await asNurse.post(`/api/referrals/${id}/transfusions`, unit())
     expect(res.status).toBe(422)
     expect(Object.keys(res.body.error.fields)).toContain('givenAt')
@@ -143,7 +192,10 @@ describe('correcting and voiding a transfusion', () => {
     const noReason = await asNurse.put(`/api/referrals/${id}/transfusions/${tid}`, unit({ units: 2, productCodes: [] }))
     expect(noReason.status).toBe(400)
     expect(Object.keys(noReason.body.error.fields)).toContain('changeReason')
-    const res = await asNurse.put(`/api/referrals/${id}/transfusions/${tid}`, unit({ units: 2, productCodes: [], changeReason: 'Two units were given, not one' }))
+    const res = await asNurse.put(
+      `/api/referrals/${id}/transfusions/${tid}`,
+      unit({ units: 2, productCodes: [], changeReason: 'Two units were given, not one' }),
+    )
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body.redCellUnits.afterSurgery).toBe(2)
     const audit = await AuditEntry.findOne({ where: { entity: 'transfusion', action: 'update' } })

@@ -15,7 +15,9 @@ const TABLE = 'zz_unit_of_work_probe'
 
 beforeAll(async () => {
   t = makeTestApp()
-  await t.sequelize.query(`CREATE TABLE IF NOT EXISTS ${TABLE} (id INT PRIMARY KEY, n INT NOT NULL) ENGINE=InnoDB`, { type: QueryTypes.RAW })
+  await t.sequelize.query(`CREATE TABLE IF NOT EXISTS ${TABLE} (id INT PRIMARY KEY, n INT NOT NULL) ENGINE=InnoDB`, {
+    type: QueryTypes.RAW,
+  })
 })
 afterAll(async () => {
   await t.sequelize.query(`DROP TABLE IF EXISTS ${TABLE}`, { type: QueryTypes.RAW })
@@ -29,7 +31,10 @@ async function resetRows(): Promise<void> {
 }
 
 async function rowN(id: number): Promise<number> {
-  const rows = await t.sequelize.query<{ n: number }>(`SELECT n FROM ${TABLE} WHERE id = ?`, { replacements: [id], type: QueryTypes.SELECT })
+  const rows = await t.sequelize.query<{ n: number }>(`SELECT n FROM ${TABLE} WHERE id = ?`, {
+    replacements: [id],
+    type: QueryTypes.SELECT,
+  })
   return Number(rows[0].n)
 }
 
@@ -52,7 +57,10 @@ async function withProvokedDeadlock(idempotent: boolean): Promise<{ tries: numbe
     await t.sequelize.query(`UPDATE ${TABLE} SET n = n + 1 WHERE id = 2`, { type: QueryTypes.UPDATE, transaction: tx })
     return tries
   })
-  const settled = outcome.then(() => undefined, () => undefined)
+  const settled = outcome.then(
+    () => undefined,
+    () => undefined,
+  )
   await settled
   await otherDone
   await other.end()
@@ -82,7 +90,12 @@ describe('the transaction helper', () => {
   it('when an idempotent unit keeps losing, then it gives up after a bounded number of tries', async () => {
     let tries = 0
     const lost = Object.assign(new Error('Deadlock found when trying to get lock; try restarting transaction'), { errno: 1213 })
-    await expect(unitOfWork(t.sequelize, { idempotent: true, attempts: 3 }, async () => { tries += 1; throw lost })).rejects.toBe(lost)
+    await expect(
+      unitOfWork(t.sequelize, { idempotent: true, attempts: 3 }, async () => {
+        tries += 1
+        throw lost
+      }),
+    ).rejects.toBe(lost)
     expect(tries).toBe(3)
   })
 
@@ -101,7 +114,10 @@ describe('the transaction helper', () => {
       await t.sequelize.query(`UPDATE ${TABLE} SET n = n + 1 WHERE id = 2`, { type: QueryTypes.UPDATE, transaction: tx })
       return tries
     })
-    await outcome.then(() => undefined, () => undefined)
+    await outcome.then(
+      () => undefined,
+      () => undefined,
+    )
     return { tries, outcome }
   }
 
@@ -118,7 +134,10 @@ describe('the transaction helper', () => {
   it('when a unit without reconnectForMs loses its connection, then the error reaches the caller and nothing is saved', async () => {
     await resetRows()
     const { tries, outcome } = await withKilledConnection({ idempotent: true })
-    const err = await outcome.then(() => null, (e: unknown) => e)
+    const err = await outcome.then(
+      () => null,
+      (e: unknown) => e,
+    )
     expect(isDatabaseUnavailable(err)).toBe(true)
     expect(tries).toBe(1)
     expect(await rowN(1)).toBe(0)
@@ -127,10 +146,12 @@ describe('the transaction helper', () => {
 
   it('when a unit fails for any other reason, then it is not run again', async () => {
     let tries = 0
-    await expect(unitOfWork(t.sequelize, { idempotent: true }, async (tx) => {
-      tries += 1
-      await t.sequelize.query('SELECT * FROM no_such_table_here', { type: QueryTypes.SELECT, transaction: tx })
-    })).rejects.toMatchObject({ parent: { errno: 1146 } })
+    await expect(
+      unitOfWork(t.sequelize, { idempotent: true }, async (tx) => {
+        tries += 1
+        await t.sequelize.query('SELECT * FROM no_such_table_here', { type: QueryTypes.SELECT, transaction: tx })
+      }),
+    ).rejects.toMatchObject({ parent: { errno: 1146 } })
     expect(tries).toBe(1)
   })
 })

@@ -7,8 +7,12 @@ import { AuditEntry, User } from '../../server/models/index'
 let t: TestApp
 let admin: StaffFixture
 let c: Client
-beforeAll(() => { t = makeTestApp() })
-afterAll(async () => { await t.close() })
+beforeAll(() => {
+  t = makeTestApp()
+})
+afterAll(async () => {
+  await t.close()
+})
 beforeEach(async () => {
   await cleanDatabase(t.sequelize)
   admin = await makeStaff('admin')

@@ -23,7 +23,8 @@ beforeAll(async () => {
   browser = await launchBrowser()
   page = await (await browser.newContext({ locale: 'en-GB' })).newPage()
   page.on('request', (r) => {
-    if (new URL(r.url()).pathname === `/api/referrals/${referralId}`) episodeReads.push({ refetch: r.headers()['x-ferrolane-refetch'] === '1' })
+    if (new URL(r.url()).pathname === `/api/referrals/${referralId}`)
+      episodeReads.push({ refetch: r.headers()['x-ferrolane-refetch'] === '1' })
   })
 })
 afterAll(async () => {

@@ -68,10 +68,16 @@ describe('a doctor keeps documents and writes the family-doctor letter', () => {
     const filesBefore = storedFiles(uploadDir).length
     await page.getByText('Referral letter', { exact: true }).click()
     await page.fill('#doc-title', 'Referral from Hollin Lane')
-    await page.setInputFiles('#doc-file', { name: 'referral.pdf', mimeType: 'application/pdf', buffer: await pdfBytes('Referral letter (invented)') })
+    await page.setInputFiles('#doc-file', {
+      name: 'referral.pdf',
+      mimeType: 'application/pdf',
+      buffer: await pdfBytes('Referral letter (invented)'),
+    })
     await page.getByRole('button', { name: 'Upload document' }).click()
     await expect.poll(() => text(page, 'upload-saved')).toMatch(/Added “Referral from Hollin Lane” \(referral\.pdf\)/)
-    await expect.poll(() => text(page, 'documents-list')).toMatch(/Referral letter.*Referral from Hollin Lane.*referral\.pdf · PDF.*kB.*Dr Aurelio Penhallow/s)
+    await expect
+      .poll(() => text(page, 'documents-list'))
+      .toMatch(/Referral letter.*Referral from Hollin Lane.*referral\.pdf · PDF.*kB.*Dr Aurelio Penhallow/s)
     expect(await EpisodeDocument.count({ where: { referralId: ep.referral.id } })).toBe(1)
     expect(storedFiles(uploadDir)).toHaveLength(filesBefore + 1)
     await page.context().close()

@@ -24,10 +24,24 @@ beforeAll(async () => {
   const surgeon = await makeStaff('surgeon')
   // A woman of 66 (invented), 60 kg, Hb 95 g/L, iron deficient, low B12, surgery in 10 days.
   const { patient, referral } = await makeEpisode({
-    surgeonId: surgeon.id, weightKg: 60, heightCm: 160, hb: [{ hbGL: 95 }],
+    surgeonId: surgeon.id,
+    weightKg: 60,
+    heightCm: 160,
+    hb: [{ hbGL: 95 }],
     referral: { plannedSurgeryDate: addDays(todayIso(), 10), stage: 'clinic' },
   })
-  await Result.create({ referralId: referral.id, patientId: patient.id, analyte: 'b12', valueCanonical: 150, unitCanonical: 'ng/L', valueReported: 150, unitReported: 'ng/L', takenAt: new Date(Date.now() - 3_600_000), enteredBy: null, derivedFrom: null })
+  await Result.create({
+    referralId: referral.id,
+    patientId: patient.id,
+    analyte: 'b12',
+    valueCanonical: 150,
+    unitCanonical: 'ng/L',
+    valueReported: 150,
+    unitReported: 'ng/L',
+    takenAt: new Date(Date.now() - 3_600_000),
+    enteredBy: null,
+    derivedFrom: null,
+  })
   referralId = referral.id
   browser = await launchBrowser()
   page = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 1600 } })).newPage()
@@ -38,22 +52,31 @@ afterAll(async () => {
 })
 
 const text = async (testId: string) => (await page.getByTestId(testId).first().textContent()) ?? ''
-const shot = async (testId: string) => { if (SHOTS) await page.getByTestId(testId).first().screenshot({ path: `${SHOTS}/${testId}.png` }) }
+const shot = async (testId: string) => {
+  if (SHOTS)
+    await page
+      .getByTestId(testId)
+      .first()
+      .screenshot({ path: `${SHOTS}/${testId}.png` })
+}
 
 describe('a doctor sees size, age and the surgery date in the dose plan', () => {
-  it('when ferric carboxymaltose is picked 10 days before surgery, then the need comes from its product table and the timing caution ' +
-    'shows', async () => {
-    await signInThroughPage(page, served.baseUrl, doctor.email, doctor.password)
-    await page.waitForURL(`${served.baseUrl}/clinic`)
-    await page.goto(`${served.baseUrl}/referrals/${referralId}?tab=clinic`)
-    await pickOption(page, '#rx-product', 'Ferric carboxymaltose (IV)')
-    // Ferinject SmPC 4.2 Table 1: 35 to <70 kg and Hb < 10 g/dL → 1500 mg.
-    await expect.poll(() => text('dose-deficit')).toMatch(/1500\s*mg/)
-    expect(await text('dose-method')).toMatch(/Product dosing table \(Ferinject SmPC 4\.2, Table 1/)
-    expect(await text('dose-timing')).toMatch(/too late to raise Hb before surgery; consider post-operative iron/)
-    await page.getByTestId('dose-plan').scrollIntoViewIfNeeded()
-    await shot('dose-plan')
-  })
+  it(
+    'when ferric carboxymaltose is picked 10 days before surgery, then the need comes from its product table and the timing caution ' +
+      'shows',
+    async () => {
+      await signInThroughPage(page, served.baseUrl, doctor.email, doctor.password)
+      await page.waitForURL(`${served.baseUrl}/clinic`)
+      await page.goto(`${served.baseUrl}/referrals/${referralId}?tab=clinic`)
+      await pickOption(page, '#rx-product', 'Ferric carboxymaltose (IV)')
+      // Ferinject SmPC 4.2 Table 1: 35 to <70 kg and Hb < 10 g/dL → 1500 mg.
+      await expect.poll(() => text('dose-deficit')).toMatch(/1500\s*mg/)
+      expect(await text('dose-method')).toMatch(/Product dosing table \(Ferinject SmPC 4\.2, Table 1/)
+      expect(await text('dose-timing')).toMatch(/too late to raise Hb before surgery; consider post-operative iron/)
+      await page.getByTestId('dose-plan').scrollIntoViewIfNeeded()
+      await shot('dose-plan')
+    },
+  )
 
   it('then the review panel shows the work-up prompts, each with its source', async () => {
     expect(await text('prompt-b12-deficiency')).toMatch(/Devalia et al\., Br J Haematol 2014/)

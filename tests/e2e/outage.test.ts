@@ -45,38 +45,49 @@ async function nursePage(): Promise<Page> {
 }
 
 describe('the database is unreachable for a moment', () => {
-  it('when saving an Hb answers 503 unavailable, then an alert says the change was not saved, nothing is stored, and the next save ' +
-    'clears it', async () => {
-    const { referral } = await makeEpisode({ surgeonId: surgeon.id, hb: [], iron: null, referral: { stage: 'referred', plannedSurgeryDate: addDays(todayIso(), 30) } })
-    const page = await nursePage()
-    await page.goto(`${served.baseUrl}/referrals/${referral.id}`)
-    let refused = 0
-    await page.route(`**/api/referrals/${referral.id}/results`, async (route) => {
-      if (route.request().method() === 'POST' && refused === 0) {
-        refused += 1
-        return route.fulfill(UNAVAILABLE)
-      }
-      return route.continue()
-    })
-    await page.locator('#result-value').pressSequentially('112')
-    await page.getByRole('button', { name: 'Save result' }).click()
-    const alert = page.getByRole('alert').filter({ hasText: 'Ferrolane cannot reach its database; your last change was not saved' })
-    await alert.waitFor()
-    expect(refused).toBe(1)
-    expect(await Result.count({ where: { referralId: referral.id } })).toBe(0)
-    expect(await seriousViolations(page)).toEqual([])
-    await page.screenshot({ path: '/tmp/outage-unsaved-alert.png', fullPage: true })
+  it(
+    'when saving an Hb answers 503 unavailable, then an alert says the change was not saved, nothing is stored, and the next save ' +
+      'clears it',
+    async () => {
+      const { referral } = await makeEpisode({
+        surgeonId: surgeon.id,
+        hb: [],
+        iron: null,
+        referral: { stage: 'referred', plannedSurgeryDate: addDays(todayIso(), 30) },
+      })
+      const page = await nursePage()
+      await page.goto(`${served.baseUrl}/referrals/${referral.id}`)
+      let refused = 0
+      await page.route(`**/api/referrals/${referral.id}/results`, async (route) => {
+        if (route.request().method() === 'POST' && refused === 0) {
+          refused += 1
+          return route.fulfill(UNAVAILABLE)
+        }
+        return route.continue()
+      })
+      await page.locator('#result-value').pressSequentially('112')
+      await page.getByRole('button', { name: 'Save result' }).click()
+      const alert = page.getByRole('alert').filter({ hasText: 'Ferrolane cannot reach its database; your last change was not saved' })
+      await alert.waitFor()
+      expect(refused).toBe(1)
+      expect(await Result.count({ where: { referralId: referral.id } })).toBe(0)
+      expect(await seriousViolations(page)).toEqual([])
+      await page.screenshot({ path: '/tmp/outage-unsaved-alert.png', fullPage: true })
 
-    // The database is back: the same save goes through and the alert goes away.
-    await page.getByRole('button', { name: 'Save result' }).click()
-    await expect.poll(() => page.getByTestId('screening-hb').textContent()).toContain('112 g/L')
-    await alert.waitFor({ state: 'detached' })
-    expect(await Result.count({ where: { referralId: referral.id } })).toBe(1)
-    await page.context().close()
-  })
+      // The database is back: the same save goes through and the alert goes away.
+      await page.getByRole('button', { name: 'Save result' }).click()
+      await expect.poll(() => page.getByTestId('screening-hb').textContent()).toContain('112 g/L')
+      await alert.waitFor({ state: 'detached' })
+      expect(await Result.count({ where: { referralId: referral.id } })).toBe(1)
+      await page.context().close()
+    },
+  )
 
   it('when the worklist read answers 503 twice, then the page retries by itself, honouring Retry-After, and shows the list', async () => {
-    const { patient } = await makeEpisode({ surgeonId: surgeon.id, referral: { stage: 'referred', plannedSurgeryDate: addDays(todayIso(), 30) } })
+    const { patient } = await makeEpisode({
+      surgeonId: surgeon.id,
+      referral: { stage: 'referred', plannedSurgeryDate: addDays(todayIso(), 30) },
+    })
     const page = await nursePage()
     const answered: number[] = []
     await page.route('**/api/worklist**', async (route) => {

@@ -36,14 +36,26 @@ afterAll(async () => {
  * 3× caution line (shared/reports/outcomeWarnings).
  */
 async function operatedEpisode() {
-  return makeEpisode({ surgeonId: surgeon.id, expectedBloodLossMl: 500, referral: { stage: 'operated', plannedSurgeryDate: addDays(todayIso(), -3) } })
+  return makeEpisode({
+    surgeonId: surgeon.id,
+    expectedBloodLossMl: 500,
+    referral: { stage: 'operated', plannedSurgeryDate: addDays(todayIso(), -3) },
+  })
 }
 
 /** The post-operative record through the API, as the nurse's form sends it; returns the new version. */
 async function recordOutcomeThroughApi(c: Client, referralId: number, version = 1): Promise<number> {
   const res = await c.post(`/api/referrals/${referralId}/outcome`, {
-    surgeryDate: todayIso(), bloodLossMl: 1600, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 1, unitsCrossmatched: 2,
-    lowestHbGL: 55, dischargeHbGL: 84, lengthOfStayDays: 4, complications: ['none'], version,
+    surgeryDate: todayIso(),
+    bloodLossMl: 1600,
+    unitsTransfusedIntraOp: 0,
+    unitsTransfusedPostOp: 1,
+    unitsCrossmatched: 2,
+    lowestHbGL: 55,
+    dischargeHbGL: 84,
+    lengthOfStayDays: 4,
+    complications: ['none'],
+    version,
   })
   expect(res.status, JSON.stringify(res.body)).toBe(201)
   return Number(res.body.version)
@@ -59,41 +71,45 @@ async function signedIn(who: StaffFixture, home: string, options: Parameters<typ
 const text = async (page: Page, testId: string) => (await page.getByTestId(testId).first().textContent()) ?? ''
 
 describe('a nurse records what happened after surgery and closes the episode', () => {
-  it('when the lowest Hb is typed in g/dL below the caution line, then the ' +
-    'caution shows before saving and again from the server', async () => {
-    const referralId = (await operatedEpisode()).referral.id
-    const nursePage = await signedIn(nurse, '/screening')
-    await nursePage.selectOption('#hb-unit', 'g/dL')
-    await nursePage.goto(`${served.baseUrl}/referrals/${referralId}?tab=after-surgery`)
-    expect(await text(nursePage, 'close-needs')).toMatch(/post-operative record, then the follow-up/)
-    expect(await text(nursePage, 'close-needs-follow-up')).toMatch(/post-operative record and the follow-up first/)
-    expect(await nursePage.locator('[data-move="closed"]').isDisabled()).toBe(true)
-    // The episode was referred today (factory), so a surgery two days ago is refused by the server, under the field.
-    await nursePage.fill('#oc-date', addDays(todayIso(), -2))
-    await retype(nursePage, '#oc-loss', '1600')
-    await retype(nursePage, '#oc-xm', '2')
-    await retype(nursePage, '#oc-low', '5.5') // 5.5 g/dL = 55 g/L (× 10, clinical reference §7)
-    await retype(nursePage, '#oc-dis', '8.4')
-    await retype(nursePage, '#oc-stay', '4')
-    await nursePage.click('label[for="oc-c-none"]')
-    await expect.poll(() => text(nursePage, 'outcome-cautions')).toMatch(/more than 3× this operation's usual 500 mL/)
-    expect(await text(nursePage, 'outcome-cautions')).toMatch(/Lowest Hb 55 g\/L is below 60 g\/L/)
-    expect(await seriousViolations(nursePage)).toEqual([])
-    await nursePage.screenshot({ path: '/tmp/outcomes-record-form.png', fullPage: true })
-    await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
-    await expect.poll(() => nursePage.locator('#oc-date').locator('xpath=..').textContent()).toMatch(/Surgery date is before the referral date/)
-    expect(await Outcome.count({ where: { referralId } })).toBe(0)
-    await nursePage.fill('#oc-date', todayIso())
-    await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
-    await nursePage.getByTestId('outcome-summary').waitFor()
-    expect(await text(nursePage, 'outcome-summary')).toMatch(/1600 mL/)
-    expect(await text(nursePage, 'outcome-summary')).toMatch(/5\.5 g\/dL/)
-    expect(await text(nursePage, 'outcome-cautions')).toMatch(/Lowest Hb 55 g\/L/)
-    const saved = (await Outcome.findOne({ where: { referralId } }))!
-    expect(saved.lowestHbGL).toBe(55)
-    expect(saved.dischargeHbGL).toBe(84)
-    await nursePage.context().close()
-  })
+  it(
+    'when the lowest Hb is typed in g/dL below the caution line, then the ' + 'caution shows before saving and again from the server',
+    async () => {
+      const referralId = (await operatedEpisode()).referral.id
+      const nursePage = await signedIn(nurse, '/screening')
+      await nursePage.selectOption('#hb-unit', 'g/dL')
+      await nursePage.goto(`${served.baseUrl}/referrals/${referralId}?tab=after-surgery`)
+      expect(await text(nursePage, 'close-needs')).toMatch(/post-operative record, then the follow-up/)
+      expect(await text(nursePage, 'close-needs-follow-up')).toMatch(/post-operative record and the follow-up first/)
+      expect(await nursePage.locator('[data-move="closed"]').isDisabled()).toBe(true)
+      // The episode was referred today (factory), so a surgery two days ago is refused by the server, under the field.
+      await nursePage.fill('#oc-date', addDays(todayIso(), -2))
+      await retype(nursePage, '#oc-loss', '1600')
+      await retype(nursePage, '#oc-xm', '2')
+      await retype(nursePage, '#oc-low', '5.5') // 5.5 g/dL = 55 g/L (× 10, clinical reference §7)
+      await retype(nursePage, '#oc-dis', '8.4')
+      await retype(nursePage, '#oc-stay', '4')
+      await nursePage.click('label[for="oc-c-none"]')
+      await expect.poll(() => text(nursePage, 'outcome-cautions')).toMatch(/more than 3× this operation's usual 500 mL/)
+      expect(await text(nursePage, 'outcome-cautions')).toMatch(/Lowest Hb 55 g\/L is below 60 g\/L/)
+      expect(await seriousViolations(nursePage)).toEqual([])
+      await nursePage.screenshot({ path: '/tmp/outcomes-record-form.png', fullPage: true })
+      await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
+      await expect
+        .poll(() => nursePage.locator('#oc-date').locator('xpath=..').textContent())
+        .toMatch(/Surgery date is before the referral date/)
+      expect(await Outcome.count({ where: { referralId } })).toBe(0)
+      await nursePage.fill('#oc-date', todayIso())
+      await nursePage.getByRole('button', { name: 'Save the post-operative record' }).click()
+      await nursePage.getByTestId('outcome-summary').waitFor()
+      expect(await text(nursePage, 'outcome-summary')).toMatch(/1600 mL/)
+      expect(await text(nursePage, 'outcome-summary')).toMatch(/5\.5 g\/dL/)
+      expect(await text(nursePage, 'outcome-cautions')).toMatch(/Lowest Hb 55 g\/L/)
+      const saved = (await Outcome.findOne({ where: { referralId } }))!
+      expect(saved.lowestHbGL).toBe(55)
+      expect(saved.dischargeHbGL).toBe(84)
+      await nursePage.context().close()
+    },
+  )
 
   it('when the follow-up is recorded, then closing is offered, and the closed episode is read-only', async () => {
     // This test's own episode with its post-operative record already in (1600 mL, lowest Hb 55 g/L).
@@ -130,7 +146,12 @@ describe('an admin finds the patient in the audit trail', () => {
     const mrn = patient.mrn
     const asNurse = await new Client(served.app).mustSignIn(nurse.email, nurse.password)
     const afterOutcome = await recordOutcomeThroughApi(asNurse, referral.id)
-    const fu = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, { recheckHbGL: 108, recheckDate: todayIso(), ironAfterSurgery: true, version: afterOutcome })
+    const fu = await asNurse.post(`/api/referrals/${referral.id}/follow-up`, {
+      recheckHbGL: 108,
+      recheckDate: todayIso(),
+      ironAfterSurgery: true,
+      version: afterOutcome,
+    })
     expect(fu.status, JSON.stringify(fu.body)).toBe(201)
     const closed = await asNurse.post(`/api/referrals/${referral.id}/transitions`, { to: 'closed', version: fu.body.version })
     expect(closed.status, JSON.stringify(closed.body)).toBe(200)
@@ -146,7 +167,8 @@ describe('an admin finds the patient in the audit trail', () => {
     await row.locator('button').first().click()
     const diff = adminPage.getByTestId('audit-diff').first()
     await diff.waitFor()
-    const rowText = async (field: string) => (await diff.locator('tr', { has: adminPage.locator(`th:text-is("${field}")`) }).textContent()) ?? ''
+    const rowText = async (field: string) =>
+      (await diff.locator('tr', { has: adminPage.locator(`th:text-is("${field}")`) }).textContent()) ?? ''
     expect(await rowText('stage')).toMatch(/operated\s*closed\s*Changed/)
     expect(await seriousViolations(adminPage)).toEqual([])
     await adminPage.screenshot({ path: '/tmp/audit-trail.png', fullPage: true })
@@ -191,7 +213,8 @@ describe('the top bar fits for every role', () => {
       expect(await nursePage.locator('[data-nav="readiness"]').count()).toBe(1)
       expect(await adminPage.locator('[data-nav="admin-users"]').count()).toBe(0)
       // The imports page stays (the batch list names no patient); the clinical lists go.
-      for (const clinical of ['worklist', 'readiness']) expect(await adminPage.locator(`[data-nav="${clinical}"]`).count(), clinical).toBe(0)
+      for (const clinical of ['worklist', 'readiness'])
+        expect(await adminPage.locator(`[data-nav="${clinical}"]`).count(), clinical).toBe(0)
       // Keyboard: the Set-up button opens its menu with Enter, like any button.
       await adminPage.focus('[data-nav="set-up"]')
       await adminPage.keyboard.press('Enter')

@@ -29,27 +29,51 @@ beforeAll(async () => {
   doctor = await makeStaff('doctor')
   surgeon = await makeStaff('surgeon', { name: 'Ms Perpetua Willowherb' })
   const old = await makeEpisode({
-    surgeonId: surgeon.id, sex: 'male', weightKg: 80, heightCm: 178, expectedBloodLossMl: 500,
+    surgeonId: surgeon.id,
+    sex: 'male',
+    weightKg: 80,
+    heightCm: 178,
+    expectedBloodLossMl: 500,
     hb: [{ hbGL: 138, takenAt: new Date(Date.now() - 425 * DAY) }],
     referral: { plannedSurgeryDate: addDays(todayIso(), 20), stage: 'screened', anaemic: false, ironStatus: 'replete' },
   })
   oldHbId = old.referral.id
   oldHbName = old.patient.familyName
   await makeEpisode({
-    surgeonId: surgeon.id, sex: 'female', weightKg: 64, heightCm: 165, expectedBloodLossMl: 500, hb: [{ hbGL: 136 }],
+    surgeonId: surgeon.id,
+    sex: 'female',
+    weightKg: 64,
+    heightCm: 165,
+    expectedBloodLossMl: 500,
+    hb: [{ hbGL: 136 }],
     referral: { plannedSurgeryDate: addDays(todayIso(), 25), stage: 'screened', anaemic: false, ironStatus: 'indeterminate' },
   })
   // Recent Hb 141 g/L, but the only iron studies are 150 days old.
   const oldIron = await makeEpisode({
-    surgeonId: surgeon.id, sex: 'female', weightKg: 62, heightCm: 163, expectedBloodLossMl: 500, hb: [{ hbGL: 141 }],
+    surgeonId: surgeon.id,
+    sex: 'female',
+    weightKg: 62,
+    heightCm: 163,
+    expectedBloodLossMl: 500,
+    hb: [{ hbGL: 141 }],
     referral: { plannedSurgeryDate: addDays(todayIso(), 30), stage: 'screened', anaemic: false, ironStatus: 'replete' },
     iron: { ferritinUgL: 150, tsatPct: 25, takenAt: new Date(Date.now() - 150 * DAY) },
   })
   oldIronId = oldIron.referral.id
   // The response flag as the server keeps it (the rule itself is covered by tests/api/pathway-iron-response.test.ts).
   const noResponse = await makeEpisode({
-    surgeonId: surgeon.id, sex: 'male', weightKg: 75, heightCm: 175, hb: [{ hbGL: 104 }],
-    referral: { plannedSurgeryDate: addDays(todayIso(), 18), stage: 'recheck', anaemic: true, ironStatus: 'absolute-deficiency', noResponseToIron: true },
+    surgeonId: surgeon.id,
+    sex: 'male',
+    weightKg: 75,
+    heightCm: 175,
+    hb: [{ hbGL: 104 }],
+    referral: {
+      plannedSurgeryDate: addDays(todayIso(), 18),
+      stage: 'recheck',
+      anaemic: true,
+      ironStatus: 'absolute-deficiency',
+      noResponseToIron: true,
+    },
   })
   noResponseName = noResponse.patient.familyName
   browser = await launchBrowser()
@@ -69,20 +93,24 @@ describe('a doctor reads why the patient is not yet ready and records the antibo
     await doctorPage.waitForURL(`${served.baseUrl}/clinic`)
     await doctorPage.goto(`${served.baseUrl}/referrals/${oldHbId}?tab=readiness`)
     await expect.poll(() => text(doctorPage, 'readiness-verdict')).toContain('Results needed')
-    expect(await text(doctorPage, 'readiness-needs')).toMatch(/Needs a recent Hb: the latest \(138 g\/L, .*\) is 42\d days old; results count for 90 days/)
+    expect(await text(doctorPage, 'readiness-needs')).toMatch(
+      /Needs a recent Hb: the latest \(138 g\/L, .*\) is 42\d days old; results count for 90 days/,
+    )
     expect(await text(doctorPage, 'readiness-concerns')).toContain('Latest Hb too old')
   })
 
-  it('when the doctor records a positive antibody screen, then the blood order becomes a crossmatch and names the laboratory lead ' +
-    'time', async () => {
-    await doctorPage.getByLabel('Positive', { exact: true }).check()
-    await expect.poll(() => text(doctorPage, 'blood-order-rule')).toMatch(/Positive red-cell antibody screen: crossmatch is required/)
-    expect(await text(doctorPage, 'blood-order')).toMatch(/Crossmatch/)
-    expect(await text(doctorPage, 'blood-order-rule')).toMatch(/antigen-negative units/)
-    expect(await text(doctorPage, 'readiness-concerns')).toContain('Red-cell antibodies')
-    expect((await Referral.findByPk(oldHbId))!.redCellAntibodies).toBe(true)
-    await doctorPage.screenshot({ path: '/tmp/readiness-doctor-old-hb.png', fullPage: true })
-  })
+  it(
+    'when the doctor records a positive antibody screen, then the blood order becomes a crossmatch and names the laboratory lead ' + 'time',
+    async () => {
+      await doctorPage.getByLabel('Positive', { exact: true }).check()
+      await expect.poll(() => text(doctorPage, 'blood-order-rule')).toMatch(/Positive red-cell antibody screen: crossmatch is required/)
+      expect(await text(doctorPage, 'blood-order')).toMatch(/Crossmatch/)
+      expect(await text(doctorPage, 'blood-order-rule')).toMatch(/antigen-negative units/)
+      expect(await text(doctorPage, 'readiness-concerns')).toContain('Red-cell antibodies')
+      expect((await Referral.findByPk(oldHbId))!.redCellAntibodies).toBe(true)
+      await doctorPage.screenshot({ path: '/tmp/readiness-doctor-old-hb.png', fullPage: true })
+    },
+  )
 
   it('then the episode page with the evidence and blood plan facts passes axe', async () => {
     expect(await seriousViolations(doctorPage)).toEqual([])
@@ -123,7 +151,9 @@ describe('the surgeon sees what is missing on the board', () => {
     await expect.poll(async () => (await row.textContent()) ?? '').toContain('Results needed')
     expect(await row.textContent()).toContain('Needs a recent Hb')
     expect(await row.textContent()).toContain('Red-cell antibodies')
-    expect(await surgeonPage.getByTestId('readiness-row-needs').allTextContents()).toEqual(expect.arrayContaining([expect.stringContaining('Needs TSAT or CRP')]))
+    expect(await surgeonPage.getByTestId('readiness-row-needs').allTextContents()).toEqual(
+      expect.arrayContaining([expect.stringContaining('Needs TSAT or CRP')]),
+    )
     await surgeonPage.screenshot({ path: '/tmp/readiness-surgeon-board.png', fullPage: true })
   })
 

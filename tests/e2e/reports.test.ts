@@ -51,11 +51,16 @@ describe('a doctor reads the service funnel', () => {
     await table.locator('canvas').waitFor()
     // Hand count in tests/api/reports-fixture.ts and reports-figures.test.ts: 4 referred, 3 screened,
     // 2 anaemic or iron deficient, 1 treated, 1 re-checked, 2 cleared, 3 operated, 2 of 3 screened ≥ 28 days before.
-    const cells = async () => table.locator('tbody tr').evaluateAll((rows) => rows.map((r) => [...r.querySelectorAll('td')].map((td) => td.textContent?.trim() ?? '')))
+    const cells = async () =>
+      table
+        .locator('tbody tr')
+        .evaluateAll((rows) => rows.map((r) => [...r.querySelectorAll('td')].map((td) => td.textContent?.trim() ?? '')))
     await expect.poll(async () => (await cells()).map((c) => c[1])).toEqual(['4', '3', '2', '1', '1', '2', '3', '2'])
     expect((await cells())[7]).toEqual(['Screened ≥ 28 days before surgery', '2', '66.7'])
     const definitions = await table.getByTestId('report-definition').allTextContents()
-    expect(definitions.find((d) => d.startsWith('Screened ≥ 28 days'))).toMatch(/Out of:\s*Operated episodes.*Period:.*2025-01-01 to 2025-12-31/)
+    expect(definitions.find((d) => d.startsWith('Screened ≥ 28 days'))).toMatch(
+      /Out of:\s*Operated episodes.*Period:.*2025-01-01 to 2025-12-31/,
+    )
     expect(await seriousViolations(page)).toEqual([])
     await page.screenshot({ path: '/tmp/reports-funnel.png', fullPage: true })
 
@@ -70,7 +75,10 @@ describe('a doctor reads the service funnel', () => {
     const page = await doctorPage()
     await report2025(page, 'funnel')
     await page.locator('[data-report-table="funnel"] canvas').waitFor()
-    for (const [tab, table] of [['haemoglobin', 'distribution'], ['waiting-times', 'waitingTimes']] as const) {
+    for (const [tab, table] of [
+      ['haemoglobin', 'distribution'],
+      ['waiting-times', 'waitingTimes'],
+    ] as const) {
       await page.click(`[data-tab="${tab}"]`)
       const section = page.locator(`[data-report-table="${table}"]`)
       await section.locator('canvas').waitFor()

@@ -22,13 +22,39 @@ beforeAll(async () => {
   await cleanDatabase(served.sequelize)
   nurse = await makeStaff('nurse', { name: 'Nurse Dates' })
   const surgeon = await makeStaff('surgeon')
-  plannedId = (await makeEpisode({ surgeonId: surgeon.id, referral: { stage: 'treating', plannedSurgeryDate: addDays(todayIso(), 30) } })).referral.id
+  plannedId = (await makeEpisode({ surgeonId: surgeon.id, referral: { stage: 'treating', plannedSurgeryDate: addDays(todayIso(), 30) } }))
+    .referral.id
   operatedId = (await makeEpisode({ surgeonId: surgeon.id, referral: { stage: 'operated' } })).referral.id
-  await Outcome.create({ referralId: operatedId, surgeryDate: todayIso(), bloodLossMl: 900, unitsTransfusedIntraOp: 0, unitsTransfusedPostOp: 0, unitsCrossmatched: 2, lowestHbGL: 72, dischargeHbGL: null, lengthOfStayDays: 4, complications: ['none'], recordedBy: null })
-  const row = (hoursAgo: number, preHb: number) => Transfusion.create({
-    referralId: operatedId, givenAt: new Date(Date.now() - hoursAgo * 3_600_000), phase: 'after-surgery', component: 'red-cells', units: 1, preTransfusionHbGL: preHb,
-    postTransfusionHbGL: null, reassessedBeforeNext: false, informationGiven: true, productCodes: [], reason: null, thresholdGL: 80, thresholdBasis: 'Orthopaedic surgery: 80 g/L (AABB 2023)', recordedBy: null,
+  await Outcome.create({
+    referralId: operatedId,
+    surgeryDate: todayIso(),
+    bloodLossMl: 900,
+    unitsTransfusedIntraOp: 0,
+    unitsTransfusedPostOp: 0,
+    unitsCrossmatched: 2,
+    lowestHbGL: 72,
+    dischargeHbGL: null,
+    lengthOfStayDays: 4,
+    complications: ['none'],
+    recordedBy: null,
   })
+  const row = (hoursAgo: number, preHb: number) =>
+    Transfusion.create({
+      referralId: operatedId,
+      givenAt: new Date(Date.now() - hoursAgo * 3_600_000),
+      phase: 'after-surgery',
+      component: 'red-cells',
+      units: 1,
+      preTransfusionHbGL: preHb,
+      postTransfusionHbGL: null,
+      reassessedBeforeNext: false,
+      informationGiven: true,
+      productCodes: [],
+      reason: null,
+      thresholdGL: 80,
+      thresholdBasis: 'Orthopaedic surgery: 80 g/L (AABB 2023)',
+      recordedBy: null,
+    })
   firstRow = (await row(3, 72)).id
   secondRow = (await row(2, 74)).id
   browser = await launchBrowser()
@@ -71,7 +97,9 @@ describe('the Surgery dates panel on the episode', () => {
     await page.fill('#move-date', addDays(todayIso(), 58))
     // Without a reason the form says so and nothing moves.
     await page.getByTestId('confirm-move-date').click()
-    await expect.poll(async () => (await page.getByTestId('move-date-form').textContent()) ?? '').toMatch(/Choose why the surgery date is changing/)
+    await expect
+      .poll(async () => (await page.getByTestId('move-date-form').textContent()) ?? '')
+      .toMatch(/Choose why the surgery date is changing/)
     expect(await SurgeryDateChange.count()).toBe(0)
     await pickOption(page, '#move-reason', 'Postponed for anaemia')
     await page.fill('#move-note', 'Hb 101 g/L; second iron dose first')
@@ -95,7 +123,9 @@ describe('the Surgery dates panel on the episode', () => {
     await page.screenshot({ path: '/tmp/surgery-dates-cancel-dialog.png', fullPage: false })
     await page.getByTestId('confirm-cancel-op').click()
     await page.getByTestId('cancel-op-form').waitFor({ state: 'detached' })
-    await expect.poll(async () => (await page.getByTestId('operation-cancelled').textContent()) ?? '').toMatch(/^\s*Cancelled for anaemia\s*$/)
+    await expect
+      .poll(async () => (await page.getByTestId('operation-cancelled').textContent()) ?? '')
+      .toMatch(/^\s*Cancelled for anaemia\s*$/)
     expect(await page.getByTestId('date-history').textContent()).toMatch(/cancelled.*Cancelled for anaemia.*Hb 92/)
     expect(await page.getByTestId('move-date').textContent()).toMatch(/Rebook/)
     expect(await page.getByTestId('cancel-op').count()).toBe(0)
@@ -110,7 +140,10 @@ describe('correcting and voiding a transfusion row', () => {
   it('when the nurse voids a row from the keyboard, then the reason is required and the row stays struck through', async () => {
     await page.goto(`${served.baseUrl}/referrals/${operatedId}?tab=after-surgery`)
     await page.getByTestId('tx-table').waitFor()
-    await page.getByRole('button', { name: /^Void: Red cells/ }).first().focus()
+    await page
+      .getByRole('button', { name: /^Void: Red cells/ })
+      .first()
+      .focus()
     await page.keyboard.press('Enter')
     await page.getByTestId('tx-void-form').waitFor()
     await waitForStillness(page)
@@ -128,33 +161,40 @@ describe('correcting and voiding a transfusion row', () => {
     await page.keyboard.press('Tab')
     await page.keyboard.press('Enter')
     await page.getByTestId('tx-void-form').waitFor({ state: 'detached' })
-    await expect.poll(async () => (await page.getByTestId('tx-table').textContent()) ?? '').toMatch(/voided: Entered against the wrong patient episode/)
+    await expect
+      .poll(async () => (await page.getByTestId('tx-table').textContent()) ?? '')
+      .toMatch(/voided: Entered against the wrong patient episode/)
     expect((await Transfusion.findByPk(firstRow))!.voidReason).toBe('Entered against the wrong patient episode')
   })
 
-  it('when the nurse corrects the other row with the re-check, then the reason for the correction is required and the row counts as ' +
-    'reassessed', async () => {
-    await page.getByRole('button', { name: /^Correct: Red cells/ }).click()
-    await page.getByTestId('tx-edit-form').waitFor()
-    await waitForStillness(page)
-    // The dialog opens on the row as recorded, given-at time included.
-    expect(await page.inputValue('#tx-edit-given')).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/)
-    expect(await page.inputValue('#tx-edit-pre')).toBe('74')
-    expect(await seriousViolations(page)).toEqual([])
-    await page.click('#tx-edit-post')
-    await page.keyboard.type('83')
-    await page.click('label[for="tx-edit-reassessed"]')
-    await page.getByTestId('confirm-tx-edit').click()
-    await expect.poll(async () => (await page.getByTestId('tx-edit-form').textContent()) ?? '').toMatch(/Give the reason for the correction/)
-    expect((await Transfusion.findByPk(secondRow))!.postTransfusionHbGL).toBeNull()
-    await page.fill('#tx-edit-why', 'Re-check Hb came back after the entry')
-    await page.screenshot({ path: '/tmp/transfusion-correct-dialog.png', fullPage: false })
-    await page.getByTestId('confirm-tx-edit').click()
-    await page.getByTestId('tx-edit-form').waitFor({ state: 'detached' })
-    await expect.poll(async () => (await Transfusion.findByPk(secondRow))!.postTransfusionHbGL).toBe(83)
-    expect((await Transfusion.findByPk(secondRow))!.reassessedBeforeNext).toBe(true)
-    await expect.poll(async () => (await page.getByTestId('tx-table').textContent()) ?? '').toMatch(/83 g\/L/)
-    expect(await seriousViolations(page)).toEqual([])
-    await page.screenshot({ path: '/tmp/transfusions-corrected.png', fullPage: true })
-  })
+  it(
+    'when the nurse corrects the other row with the re-check, then the reason for the correction is required and the row counts as ' +
+      'reassessed',
+    async () => {
+      await page.getByRole('button', { name: /^Correct: Red cells/ }).click()
+      await page.getByTestId('tx-edit-form').waitFor()
+      await waitForStillness(page)
+      // The dialog opens on the row as recorded, given-at time included.
+      expect(await page.inputValue('#tx-edit-given')).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/)
+      expect(await page.inputValue('#tx-edit-pre')).toBe('74')
+      expect(await seriousViolations(page)).toEqual([])
+      await page.click('#tx-edit-post')
+      await page.keyboard.type('83')
+      await page.click('label[for="tx-edit-reassessed"]')
+      await page.getByTestId('confirm-tx-edit').click()
+      await expect
+        .poll(async () => (await page.getByTestId('tx-edit-form').textContent()) ?? '')
+        .toMatch(/Give the reason for the correction/)
+      expect((await Transfusion.findByPk(secondRow))!.postTransfusionHbGL).toBeNull()
+      await page.fill('#tx-edit-why', 'Re-check Hb came back after the entry')
+      await page.screenshot({ path: '/tmp/transfusion-correct-dialog.png', fullPage: false })
+      await page.getByTestId('confirm-tx-edit').click()
+      await page.getByTestId('tx-edit-form').waitFor({ state: 'detached' })
+      await expect.poll(async () => (await Transfusion.findByPk(secondRow))!.postTransfusionHbGL).toBe(83)
+      expect((await Transfusion.findByPk(secondRow))!.reassessedBeforeNext).toBe(true)
+      await expect.poll(async () => (await page.getByTestId('tx-table').textContent()) ?? '').toMatch(/83 g\/L/)
+      expect(await seriousViolations(page)).toEqual([])
+      await page.screenshot({ path: '/tmp/transfusions-corrected.png', fullPage: true })
+    },
+  )
 })

@@ -33,9 +33,28 @@ export class Client {
     return this
   }
 
-  get(path: string) { return this.agent.get(path) }
-  post(path: string, body?: object) { return this.agent.post(path).set('X-CSRF-Token', this.csrf).send(body ?? {}) }
-  patch(path: string, body?: object) { return this.agent.patch(path).set('X-CSRF-Token', this.csrf).send(body ?? {}) }
-  put(path: string, body?: object) { return this.agent.put(path).set('X-CSRF-Token', this.csrf).send(body ?? {}) }
-  delete(path: string) { return this.agent.delete(path).set('X-CSRF-Token', this.csrf) }
+  get(path: string) {
+    return this.agent.get(path)
+  }
+  post(path: string, body?: object) {
+    return this.agent
+      .post(path)
+      .set('X-CSRF-Token', this.csrf)
+      .send(body ?? {})
+  }
+  patch(path: string, body?: object) {
+    return this.agent
+      .patch(path)
+      .set('X-CSRF-Token', this.csrf)
+      .send(body ?? {})
+  }
+  put(path: string, body?: object) {
+    return this.agent
+      .put(path)
+      .set('X-CSRF-Token', this.csrf)
+      .send(body ?? {})
+  }
+  delete(path: string) {
+    return this.agent.delete(path).set('X-CSRF-Token', this.csrf)
+  }
 }

@@ -38,7 +38,8 @@ export async function cleanDatabase(sequelize: Sequelize): Promise<void> {
   // One transaction pins one connection, so the foreign-key switch applies to every DELETE.
   await sequelize.transaction(async (transaction) => {
     await sequelize.query('SET FOREIGN_KEY_CHECKS = 0', { type: QueryTypes.RAW, transaction })
-    for (const t of tables.filter((x) => x.name !== 'audit_entries')) await sequelize.query(`DELETE FROM \`${t.name}\``, { type: QueryTypes.BULKDELETE, transaction })
+    for (const t of tables.filter((x) => x.name !== 'audit_entries'))
+      await sequelize.query(`DELETE FROM \`${t.name}\``, { type: QueryTypes.BULKDELETE, transaction })
     await sequelize.query('SET FOREIGN_KEY_CHECKS = 1', { type: QueryTypes.RAW, transaction })
   })
 }

@@ -20,10 +20,18 @@ export function at(date: string, hhmm: string): string {
 export const inDays = (days: number) => addDays(todayIso(), days)
 
 let n = 0
-export interface BookingFixture { nurse: StaffFixture; surgeon: StaffFixture; patientId: number; referralId: number; email: string }
+export interface BookingFixture {
+  nurse: StaffFixture
+  surgeon: StaffFixture
+  patientId: number
+  referralId: number
+  email: string
+}
 
 /** A nurse, a surgeon, and one patient with an e-mail address on an open episode. */
-export async function bookingFixture(o: { givenName?: string; email?: string | null; surgeon?: StaffFixture } = {}): Promise<BookingFixture> {
+export async function bookingFixture(
+  o: { givenName?: string; email?: string | null; surgeon?: StaffFixture } = {},
+): Promise<BookingFixture> {
   n += 1
   const nurse = await makeStaff('nurse')
   const surgeon = o.surgeon ?? (await makeStaff('surgeon'))
@@ -37,7 +45,13 @@ export async function bookingFixture(o: { givenName?: string; email?: string | n
 
 /** An infusion session straight in the database, in clinic time. */
 export async function makeSession(date: string, start = '09:00', end = '12:00', chairs = 2, location = 'Day Treatment Unit, Level 2') {
-  return InfusionSession.create({ startsAt: zonedToUtc(date, start, CLINIC_TZ), endsAt: zonedToUtc(date, end, CLINIC_TZ), chairs, location, createdBy: null })
+  return InfusionSession.create({
+    startsAt: zonedToUtc(date, start, CLINIC_TZ),
+    endsAt: zonedToUtc(date, end, CLINIC_TZ),
+    chairs,
+    location,
+    createdBy: null,
+  })
 }
 
 /** The reply token from the link in a received e-mail's text part. */

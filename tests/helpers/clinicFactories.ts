@@ -38,8 +38,11 @@ export async function makeEpisode(spec: EpisodeSpec) {
   const patient = await makePatient({ sex: spec.sex ?? 'female', ...spec.patient, weightKg: null })
   if (spec.weightKg !== null) {
     await PatientMeasurement.create({
-      patientId: patient.id, heightCm: spec.heightCm === undefined ? 165 : spec.heightCm, weightKg: spec.weightKg ?? 70,
-      measuredAt: spec.weightMeasuredAt ?? new Date(), recordedBy: null,
+      patientId: patient.id,
+      heightCm: spec.heightCm === undefined ? 165 : spec.heightCm,
+      weightKg: spec.weightKg ?? 70,
+      measuredAt: spec.weightMeasuredAt ?? new Date(),
+      recordedBy: null,
     })
   }
   const procedure = await makeProcedure({ expectedBloodLossMl: spec.expectedBloodLossMl === undefined ? 1000 : spec.expectedBloodLossMl })
@@ -47,23 +50,50 @@ export async function makeEpisode(spec: EpisodeSpec) {
   const last = hb[hb.length - 1]
   const referral = await makeReferral(
     { patientId: patient.id, procedureId: procedure.id, surgeonId: spec.surgeonId },
-    { stage: 'clinic', anaemic: true, ironStatus: 'absolute-deficiency', latestHbGL: last?.hbGL ?? null, latestHbAt: last ? (last.takenAt ?? new Date()) : null, ...spec.referral },
+    {
+      stage: 'clinic',
+      anaemic: true,
+      ironStatus: 'absolute-deficiency',
+      latestHbGL: last?.hbGL ?? null,
+      latestHbAt: last ? (last.takenAt ?? new Date()) : null,
+      ...spec.referral,
+    },
   )
   for (const h of hb) {
     await Result.create({
-      referralId: referral.id, patientId: patient.id, analyte: 'hb', valueCanonical: h.hbGL, unitCanonical: 'g/L', valueReported: h.hbGL,
-      unitReported: 'g/L', takenAt: h.takenAt ?? new Date(Date.now() - 60_000), enteredBy: null, derivedFrom: null,
+      referralId: referral.id,
+      patientId: patient.id,
+      analyte: 'hb',
+      valueCanonical: h.hbGL,
+      unitCanonical: 'g/L',
+      valueReported: h.hbGL,
+      unitReported: 'g/L',
+      takenAt: h.takenAt ?? new Date(Date.now() - 60_000),
+      enteredBy: null,
+      derivedFrom: null,
     })
   }
   const iron = spec.iron === undefined ? IRON_FOR_STATUS[referral.ironStatus ?? ''] : spec.iron
   if (iron) {
     const takenAt = iron.takenAt ?? new Date(Date.now() - 60_000)
-    const rows: [StoredAnalyte, number | undefined, string][] = [['ferritin', iron.ferritinUgL, 'µg/L'], ['tsat', iron.tsatPct, '%'], ['crp', iron.crpMgL, 'mg/L']]
+    const rows: [StoredAnalyte, number | undefined, string][] = [
+      ['ferritin', iron.ferritinUgL, 'µg/L'],
+      ['tsat', iron.tsatPct, '%'],
+      ['crp', iron.crpMgL, 'mg/L'],
+    ]
     for (const [analyte, value, unit] of rows) {
       if (value === undefined) continue
       await Result.create({
-        referralId: referral.id, patientId: patient.id, analyte, valueCanonical: value, unitCanonical: unit, valueReported: value,
-        unitReported: unit, takenAt, enteredBy: null, derivedFrom: null,
+        referralId: referral.id,
+        patientId: patient.id,
+        analyte,
+        valueCanonical: value,
+        unitCanonical: unit,
+        valueReported: value,
+        unitReported: unit,
+        takenAt,
+        enteredBy: null,
+        derivedFrom: null,
       })
     }
   }

@@ -42,7 +42,14 @@ export async function startTestDirectory(people: DirectoryPerson[], appUrl = 'ht
 let counter = 0
 export function person(groups: string[], overrides: Partial<DirectoryPerson> = {}): DirectoryPerson {
   counter += 1
-  return { sub: `test-${counter}-${Date.now()}`, email: `dir${counter}.${Date.now()}@hospital.test`, name: `Directory person ${counter}`, password: 'directory-pass-1', groups, ...overrides }
+  return {
+    sub: `test-${counter}-${Date.now()}`,
+    email: `dir${counter}.${Date.now()}@hospital.test`,
+    name: `Directory person ${counter}`,
+    password: 'directory-pass-1',
+    groups,
+    ...overrides,
+  }
 }
 
 /** One browser's cookies at the provider (paths ignored: the provider is the only site it visits). */

@@ -47,7 +47,12 @@ export function storedFiles(dir: string): string[] {
   return existsSync(dir) ? readdirSync(dir).sort() : []
 }
 
-export function upload(c: Client, referralId: number, file: { bytes: Buffer; name: string }, fields: Record<string, string> = { kind: 'outside-results', title: 'Blood results from the family doctor' }) {
+export function upload(
+  c: Client,
+  referralId: number,
+  file: { bytes: Buffer; name: string },
+  fields: Record<string, string> = { kind: 'outside-results', title: 'Blood results from the family doctor' },
+) {
   let req = c.agent.post(`/api/referrals/${referralId}/documents`).set('X-CSRF-Token', c.csrf)
   for (const [k, v] of Object.entries(fields)) req = req.field(k, v)
   return req.attach('file', file.bytes, file.name)
@@ -72,7 +77,10 @@ export async function pdfText(bytes: Buffer): Promise<string> {
   }
   await pdf.destroy()
   // The font maps the micro sign to the Greek mu; both read "µ" to a person.
-  return pages.join('\n').replace(/\u03bc/g, 'µ').replace(/\s+/g, ' ')
+  return pages
+    .join('\n')
+    .replace(/\u03bc/g, 'µ')
+    .replace(/\s+/g, ' ')
 }
 
 const noon = (iso: string) => new Date(`${iso}T12:00:00Z`)
@@ -85,33 +93,135 @@ const noon = (iso: string) => new Date(`${iso}T12:00:00Z`)
 export async function fullEpisode(surgeonId: number) {
   const d0 = addDays(todayIso(), -30)
   const { patient, referral, procedure } = await makeEpisode({
-    surgeonId, weightKg: 70, heightCm: 165, sex: 'female',
-    hb: [{ hbGL: 104, takenAt: noon(d0) }, { hbGL: 121, takenAt: noon(addDays(d0, 25)) }],
+    surgeonId,
+    weightKg: 70,
+    heightCm: 165,
+    sex: 'female',
+    hb: [
+      { hbGL: 104, takenAt: noon(d0) },
+      { hbGL: 121, takenAt: noon(addDays(d0, 25)) },
+    ],
     referral: { stage: 'treating', plannedSurgeryDate: addDays(todayIso(), 21), recheckDueDate: addDays(todayIso(), 7) },
     iron: null, // this fixture stores its own iron studies below, with the sample's time
   })
-  await Patient.update({ givenName: 'Isolde', familyName: `Fernsby${patient.id}`, gpPractice: 'Hollin Lane Surgery (invented)' }, { where: { id: patient.id } })
+  await Patient.update(
+    { givenName: 'Isolde', familyName: `Fernsby${patient.id}`, gpPractice: 'Hollin Lane Surgery (invented)' },
+    { where: { id: patient.id } },
+  )
   const base = { referralId: referral.id, patientId: patient.id, takenAt: noon(d0), enteredBy: null }
-  const ferritin = await Result.create({ ...base, analyte: 'ferritin', valueCanonical: 12, unitCanonical: 'µg/L', valueReported: 12, unitReported: 'µg/L', derivedFrom: null })
-  const iron = await Result.create({ ...base, analyte: 'iron', valueCanonical: 8, unitCanonical: 'µmol/L', valueReported: 8, unitReported: 'µmol/L', derivedFrom: null })
-  const transferrin = await Result.create({ ...base, analyte: 'transferrin', valueCanonical: 3, unitCanonical: 'g/L', valueReported: 3, unitReported: 'g/L', derivedFrom: null })
-  // TSAT = iron / (25.1 × transferrin) = 8 / 75.3 = 10.6 % (clinical reference, TIBC factor 25.1); stored as 10.6.
-  await Result.create({ ...base, analyte: 'tsat', valueCanonical: 10.6, unitCanonical: '%', valueReported: null, unitReported: null, source: 'derived', derivedFrom: [iron.id, transferrin.id] })
-  await Result.create({ ...base, analyte: 'creatinine', valueCanonical: 88.4, unitCanonical: 'µmol/L', valueReported: 88.4, unitReported: 'µmol/L', derivedFrom: null })
-  await ClinicReview.create({ referralId: referral.id, diagnosis: 'absolute-iron-deficiency', notes: null, plan: 'IV iron in two doses, re-check in three weeks', reviewedBy: null, reviewedAt: noon(addDays(d0, 2)) })
-  const rx = await Prescription.create({
-    referralId: referral.id, productCode: 'ferric-carboxymaltose', route: 'iv', weightKg: 70, hbGL: 104, targetHbGL: 150, deficitMg: 1273, totalMg: 1500,
-    firstDoseDate: addDays(d0, 4), plan: { doses: [], warnings: [] }, cautions: {} as never, overrideReason: null, status: 'active', prescribedBy: null, prescribedAt: noon(addDays(d0, 2)),
+  const ferritin = await Result.create({
+    ...base,
+    analyte: 'ferritin',
+    valueCanonical: 12,
+    unitCanonical: 'µg/L',
+    valueReported: 12,
+    unitReported: 'µg/L',
+    derivedFrom: null,
   })
-  await Administration.create({ prescriptionId: rx.id, referralId: referral.id, doseMg: 1000, givenAt: noon(addDays(d0, 4)), batchNumber: 'FCM-TEST-1', reaction: 'none', reactionNotes: null, givenBy: null })
-  await Administration.create({ prescriptionId: rx.id, referralId: referral.id, doseMg: 500, givenAt: noon(addDays(d0, 11)), batchNumber: 'FCM-TEST-2', reaction: 'none', reactionNotes: null, givenBy: null })
+  const iron = await Result.create({
+    ...base,
+    analyte: 'iron',
+    valueCanonical: 8,
+    unitCanonical: 'µmol/L',
+    valueReported: 8,
+    unitReported: 'µmol/L',
+    derivedFrom: null,
+  })
+  const transferrin = await Result.create({
+    ...base,
+    analyte: 'transferrin',
+    valueCanonical: 3,
+    unitCanonical: 'g/L',
+    valueReported: 3,
+    unitReported: 'g/L',
+    derivedFrom: null,
+  })
+  // TSAT = iron / (25.1 × transferrin) = 8 / 75.3 = 10.6 % (clinical reference, TIBC factor 25.1); stored as 10.6.
+  await Result.create({
+    ...base,
+    analyte: 'tsat',
+    valueCanonical: 10.6,
+    unitCanonical: '%',
+    valueReported: null,
+    unitReported: null,
+    source: 'derived',
+    derivedFrom: [iron.id, transferrin.id],
+  })
+  await Result.create({
+    ...base,
+    analyte: 'creatinine',
+    valueCanonical: 88.4,
+    unitCanonical: 'µmol/L',
+    valueReported: 88.4,
+    unitReported: 'µmol/L',
+    derivedFrom: null,
+  })
+  await ClinicReview.create({
+    referralId: referral.id,
+    diagnosis: 'absolute-iron-deficiency',
+    notes: null,
+    plan: 'IV iron in two doses, re-check in three weeks',
+    reviewedBy: null,
+    reviewedAt: noon(addDays(d0, 2)),
+  })
+  const rx = await Prescription.create({
+    referralId: referral.id,
+    productCode: 'ferric-carboxymaltose',
+    route: 'iv',
+    weightKg: 70,
+    hbGL: 104,
+    targetHbGL: 150,
+    deficitMg: 1273,
+    totalMg: 1500,
+    firstDoseDate: addDays(d0, 4),
+    plan: { doses: [], warnings: [] },
+    cautions: {} as never,
+    overrideReason: null,
+    status: 'active',
+    prescribedBy: null,
+    prescribedAt: noon(addDays(d0, 2)),
+  })
+  await Administration.create({
+    prescriptionId: rx.id,
+    referralId: referral.id,
+    doseMg: 1000,
+    givenAt: noon(addDays(d0, 4)),
+    batchNumber: 'FCM-TEST-1',
+    reaction: 'none',
+    reactionNotes: null,
+    givenBy: null,
+  })
+  await Administration.create({
+    prescriptionId: rx.id,
+    referralId: referral.id,
+    doseMg: 500,
+    givenAt: noon(addDays(d0, 11)),
+    batchNumber: 'FCM-TEST-2',
+    reaction: 'none',
+    reactionNotes: null,
+    givenBy: null,
+  })
   const visit = (days: number, kind: 'iron-infusion' | 'recheck-bloods', status: 'confirmed' | 'rebook-requested' | 'cancelled') => {
     const startsAt = noon(addDays(todayIso(), days))
     return Appointment.create({
-      referralId: referral.id, patientId: patient.id, kind, startsAt, endsAt: new Date(startsAt.getTime() + 3_600_000), durationMin: 60,
-      location: 'Day Treatment Unit, Level 2', infusionSessionId: null, status, remindAt: null, createdBy: null, ...(status === 'cancelled' ? { cancelReason: 'Clinic closed for training' } : {}),
+      referralId: referral.id,
+      patientId: patient.id,
+      kind,
+      startsAt,
+      endsAt: new Date(startsAt.getTime() + 3_600_000),
+      durationMin: 60,
+      location: 'Day Treatment Unit, Level 2',
+      infusionSessionId: null,
+      status,
+      remindAt: null,
+      createdBy: null,
+      ...(status === 'cancelled' ? { cancelReason: 'Clinic closed for training' } : {}),
     })
   }
-  const appointments = [await visit(3, 'recheck-bloods', 'confirmed'), await visit(5, 'iron-infusion', 'rebook-requested'), await visit(6, 'iron-infusion', 'cancelled')]
+  const appointments = [
+    await visit(3, 'recheck-bloods', 'confirmed'),
+    await visit(5, 'iron-infusion', 'rebook-requested'),
+    await visit(6, 'iron-infusion', 'cancelled'),
+  ]
   return { patient: (await Patient.findByPk(patient.id))!, referral, procedure, ferritin, appointments }
 }

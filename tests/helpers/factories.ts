@@ -6,10 +6,18 @@ export const TEST_PASSWORD = 'correct-horse-battery-9'
 let hashed: Promise<string> | null = null
 
 let counter = 0
-export interface StaffFixture { id: number; email: string; role: Role; password: string }
+export interface StaffFixture {
+  id: number
+  email: string
+  role: Role
+  password: string
+}
 
 /** A staff account straight in the database (hashing once per file keeps tests quick). */
-export async function makeStaff(role: Role, overrides: Partial<{ email: string; name: string; active: boolean; mustChangePassword: boolean }> = {}): Promise<StaffFixture> {
+export async function makeStaff(
+  role: Role,
+  overrides: Partial<{ email: string; name: string; active: boolean; mustChangePassword: boolean }> = {},
+): Promise<StaffFixture> {
   hashed ??= hashPassword(TEST_PASSWORD)
   counter += 1
   const email = overrides.email ?? `${role}${counter}.${Date.now()}@hospital.test`

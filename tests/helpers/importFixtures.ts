@@ -20,15 +20,26 @@ export function takenHoursAgo(hours: number): string {
   return t.toISOString().replace('.000Z', 'Z')
 }
 
-export interface UploadOptions { commit?: boolean; source?: string; mapping?: object; fileName?: string; contentType?: string }
+export interface UploadOptions {
+  commit?: boolean
+  source?: string
+  mapping?: object
+  fileName?: string
+  contentType?: string
+}
 
 /** POST /api/imports/lab-results as the browser's form sends it (multipart). */
 export function uploadCsv(c: Client, content: string | Buffer, o: UploadOptions = {}) {
-  let req = c.agent.post('/api/imports/lab-results').set('X-CSRF-Token', c.csrf)
+  let req = c.agent
+    .post('/api/imports/lab-results')
+    .set('X-CSRF-Token', c.csrf)
     .field('commit', o.commit ? 'true' : 'false')
     .field('source', o.source ?? 'Test laboratory')
   if (o.mapping) req = req.field('mapping', JSON.stringify(o.mapping))
-  return req.attach('file', Buffer.isBuffer(content) ? content : Buffer.from(content, 'utf8'), { filename: o.fileName ?? 'results.csv', contentType: o.contentType ?? 'text/csv' })
+  return req.attach('file', Buffer.isBuffer(content) ? content : Buffer.from(content, 'utf8'), {
+    filename: o.fileName ?? 'results.csv',
+    contentType: o.contentType ?? 'text/csv',
+  })
 }
 
 /**
@@ -39,7 +50,9 @@ export function writeLargeCsv(file: string, mrns: string[], rows: number): numbe
   mkdirSync(path.dirname(file), { recursive: true })
   const fd = openSync(file, 'w')
   let bytes = 0
-  const put = (s: string) => { bytes += writeSync(fd, s) }
+  const put = (s: string) => {
+    bytes += writeSync(fd, s)
+  }
   put(HEADER.join(',') + '\n')
   const codes: [string, string, (i: number) => string][] = [
     ['HB', 'g/L', (i) => String(90 + (i % 70))],
@@ -54,7 +67,10 @@ export function writeLargeCsv(file: string, mrns: string[], rows: number): numbe
     // Each row its own draw minute, so no two rows share a natural key.
     const at = new Date(base + i * 60_000).toISOString().replace('.000Z', 'Z')
     buf += `${mrns[i % mrns.length]},${code},${value(i)},${unit},${at}\n`
-    if (buf.length > 64 * 1024) { put(buf); buf = '' }
+    if (buf.length > 64 * 1024) {
+      put(buf)
+      buf = ''
+    }
   }
   put(buf)
   closeSync(fd)
@@ -64,7 +80,15 @@ export function writeLargeCsv(file: string, mrns: string[], rows: number): numbe
 type Json = Record<string, unknown>
 
 /** A FHIR R4 Observation as a laboratory would send it (LOINC code, UCUM unit). */
-export function observation(o: { mrn?: string; loinc?: string; value?: number; ucum?: string; at?: string; status?: string; subject?: Json }): Json {
+export function observation(o: {
+  mrn?: string
+  loinc?: string
+  value?: number
+  ucum?: string
+  at?: string
+  status?: string
+  subject?: Json
+}): Json {
   return {
     resourceType: 'Observation',
     status: o.status ?? 'final',
@@ -76,5 +100,9 @@ export function observation(o: { mrn?: string; loinc?: string; value?: number; u
 }
 
 export function bundle(resources: Json[]): Json {
-  return { resourceType: 'Bundle', type: 'collection', entry: resources.map((resource, i) => ({ fullUrl: `urn:uuid:00000000-0000-4000-8000-${String(i).padStart(12, '0')}`, resource })) }
+  return {
+    resourceType: 'Bundle',
+    type: 'collection',
+    entry: resources.map((resource, i) => ({ fullUrl: `urn:uuid:00000000-0000-4000-8000-${String(i).padStart(12, '0')}`, resource })),
+  }
 }

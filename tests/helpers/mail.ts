@@ -4,7 +4,11 @@
  */
 import { createServer } from 'node:net'
 
-export interface ReceivedAttachment { filename: string; generatedFileName: string; contentType: string }
+export interface ReceivedAttachment {
+  filename: string
+  generatedFileName: string
+  contentType: string
+}
 export interface ReceivedMail {
   id: string
   subject: string
@@ -26,7 +30,9 @@ export class Maildev {
     return new Maildev(port)
   }
 
-  private url(path: string) { return `http://127.0.0.1:${this.webPort}/api${path}` }
+  private url(path: string) {
+    return `http://127.0.0.1:${this.webPort}/api${path}`
+  }
 
   async list(): Promise<ReceivedMail[]> {
     const res = await fetch(this.url('/email'))
@@ -65,12 +71,23 @@ export function freePort(): Promise<number> {
   })
 }
 
-export interface CalendarProperty { name: string; params: Record<string, string>; value: string }
-export interface Calendar { properties: CalendarProperty[]; events: CalendarProperty[][] }
+export interface CalendarProperty {
+  name: string
+  params: Record<string, string>
+  value: string
+}
+export interface Calendar {
+  properties: CalendarProperty[]
+  events: CalendarProperty[][]
+}
 
 /** Unfolds (RFC 5545 §3.1) and splits content lines; keeps VCALENDAR and VEVENT properties. */
 export function parseIcs(text: string): Calendar {
-  const lines = text.replace(/\r\n[ \t]/g, '').replace(/\n[ \t]/g, '').split(/\r?\n/).filter(Boolean)
+  const lines = text
+    .replace(/\r\n[ \t]/g, '')
+    .replace(/\n[ \t]/g, '')
+    .split(/\r?\n/)
+    .filter(Boolean)
   const cal: Calendar = { properties: [], events: [] }
   const stack: string[] = []
   let event: CalendarProperty[] | null = null

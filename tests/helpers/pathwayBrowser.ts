@@ -20,7 +20,9 @@ export async function waitForStillness(page: Page, timeoutMs = 10_000): Promise<
   const until = Date.now() + timeoutMs
   while (!(await page.evaluate(AT_REST))) {
     if (Date.now() > until) {
-      const what = await page.evaluate(`[...document.querySelectorAll('${MOVING}')].map((e) => e.className).join(' | ') || 'a CSS animation'`)
+      const what = await page.evaluate(
+        `[...document.querySelectorAll('${MOVING}')].map((e) => e.className).join(' | ') || 'a CSS animation'`,
+      )
       throw new Error(`the page was still moving after ${timeoutMs} ms: ${String(what)}`)
     }
     await new Promise((r) => setTimeout(r, 50))

@@ -7,7 +7,9 @@ import { forgetWorklistCounts } from '../../server/services/worklistCounts'
 let n = 0
 const next = () => ++n
 
-export async function makeProcedure(overrides: Partial<{ code: string; name: string; expectedBloodLossMl: number | null; active: boolean }> = {}) {
+export async function makeProcedure(
+  overrides: Partial<{ code: string; name: string; expectedBloodLossMl: number | null; active: boolean }> = {},
+) {
   const i = next()
   return Procedure.create({
     code: overrides.code ?? `OP${i}`,
@@ -22,7 +24,14 @@ export async function makeProcedure(overrides: Partial<{ code: string; name: str
   })
 }
 
-export interface PatientOverrides { mrn: string; givenName: string; familyName: string; dateOfBirth: string; sex: Sex; weightKg: number | null }
+export interface PatientOverrides {
+  mrn: string
+  givenName: string
+  familyName: string
+  dateOfBirth: string
+  sex: Sex
+  weightKg: number | null
+}
 
 export async function makePatient(overrides: Partial<PatientOverrides> = {}) {
   const i = next()
@@ -32,10 +41,20 @@ export async function makePatient(overrides: Partial<PatientOverrides> = {}) {
     familyName: overrides.familyName ?? `Family${i}`,
     dateOfBirth: overrides.dateOfBirth ?? '1960-05-15',
     sex: overrides.sex ?? 'female',
-    email: null, phone: null, gpPractice: null, notes: null, createdBy: null,
+    email: null,
+    phone: null,
+    gpPractice: null,
+    notes: null,
+    createdBy: null,
   })
   if (overrides.weightKg !== null) {
-    await PatientMeasurement.create({ patientId: p.id, heightCm: 165, weightKg: overrides.weightKg ?? 70, measuredAt: new Date(), recordedBy: null })
+    await PatientMeasurement.create({
+      patientId: p.id,
+      heightCm: 165,
+      weightKg: overrides.weightKg ?? 70,
+      measuredAt: new Date(),
+      recordedBy: null,
+    })
   }
   return p
 }
@@ -103,7 +122,12 @@ export function patientBody(overrides: Record<string, unknown> = {}) {
 }
 
 /** Registers a patient and a referral through the API, as the nurse's form does. */
-export async function registerThroughApi(c: Client, ids: { procedureCode: string; surgeonId: number }, patient: Record<string, unknown> = {}, referral: Record<string, unknown> = {}) {
+export async function registerThroughApi(
+  c: Client,
+  ids: { procedureCode: string; surgeonId: number },
+  patient: Record<string, unknown> = {},
+  referral: Record<string, unknown> = {},
+) {
   const p = await c.post('/api/patients', patientBody(patient))
   if (p.status !== 201) throw new Error(`patient: ${p.status} ${JSON.stringify(p.body)}`)
   const r = await c.post('/api/referrals', { patientId: p.body.id, plannedSurgeryDate: addDays(todayIso(), 42), ...ids, ...referral })

@@ -1,5 +1,9 @@
 /** One sample of Prometheus' text exposition format: `name{label="v",...} value`. */
-export interface Sample { name: string; labels: Record<string, string>; value: number }
+export interface Sample {
+  name: string
+  labels: Record<string, string>
+  value: number
+}
 
 /**
  * Reads a scrape the way a Prometheus server would need it to be: every line is a comment
@@ -11,7 +15,10 @@ export function parsePrometheus(text: string): { types: Map<string, string>; sam
   for (const line of text.split('\n')) {
     if (!line.trim()) continue
     const type = /^# TYPE (\S+) (counter|gauge|histogram|summary|untyped)$/.exec(line)
-    if (type) { types.set(type[1], type[2]); continue }
+    if (type) {
+      types.set(type[1], type[2])
+      continue
+    }
     if (line.startsWith('# HELP ')) continue
     const m = /^([a-zA-Z_:][a-zA-Z0-9_:]*)(?:\{(.*)\})? (\S+)$/.exec(line)
     if (!m) throw new Error(`not a Prometheus sample line: ${line}`)

@@ -2,12 +2,20 @@ import { describe, expect, it } from 'vitest'
 import { loadConfig } from '../../server/config'
 import { roleForGroups } from '../../server/services/directorySignIn'
 
-const base = { SESSION_SECRET: 'a-test-secret-of-enough-length', OIDC_ISSUER: 'https://login.hospital.test/realm', OIDC_CLIENT_ID: 'ferrolane' }
+const base = {
+  SESSION_SECRET: 'a-test-secret-of-enough-length',
+  OIDC_ISSUER: 'https://login.hospital.test/realm',
+  OIDC_CLIENT_ID: 'ferrolane',
+}
 
 describe('directory sign-in configuration', () => {
   it('when OIDC_GROUP_ROLES lists groups, then they keep their order and the first group held decides', () => {
     const config = loadConfig({ ...base, OIDC_GROUP_ROLES: 'Nurses=nurse, Admins = admin ,Surgeons=surgeon' })
-    expect(config.oidc?.groupRoles).toEqual([['Nurses', 'nurse'], ['Admins', 'admin'], ['Surgeons', 'surgeon']])
+    expect(config.oidc?.groupRoles).toEqual([
+      ['Nurses', 'nurse'],
+      ['Admins', 'admin'],
+      ['Surgeons', 'surgeon'],
+    ])
     expect(roleForGroups(config.oidc!.groupRoles, ['Surgeons', 'Admins'])).toBe('admin')
     expect(roleForGroups(config.oidc!.groupRoles, ['Porters'])).toBeNull()
     expect(roleForGroups(config.oidc!.groupRoles, [])).toBeNull()

@@ -21,7 +21,7 @@ describe('matching test codes against a large mapping', () => {
     expect(work).toBeLessThanOrEqual(5000 + 1000 + 10)
   })
 
-  it('then the source\'s own codes still win, ignoring case, spaces, dashes and underscores', () => {
+  it("then the source's own codes still win, ignoring case, spaces, dashes and underscores", () => {
     expect(analyteForCode('lab_3', codes)).toBe('hb')
     expect(analyteForCode('LAB 4', codes)).toBe('ferritin')
     expect(analyteForCode('HGB', codes)).toBe('hb')

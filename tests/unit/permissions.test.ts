@@ -1,6 +1,13 @@
 import { describe, expect, it } from 'vitest'
 import {
-  PERMISSIONS, allows, isAction, isOperatingSurgeon, maySeeEpisode, rolesFor, seesOwnPatientsOnly, type Action,
+  PERMISSIONS,
+  allows,
+  isAction,
+  isOperatingSurgeon,
+  maySeeEpisode,
+  rolesFor,
+  seesOwnPatientsOnly,
+  type Action,
 } from '../../shared/permissions'
 import { ROLES } from '../../shared/roles'
 import { TRANSITIONS } from '../../shared/pathway/transitions'
@@ -13,10 +20,28 @@ const ACTIONS = Object.keys(PERMISSIONS) as Action[]
  * leave the patient out for administrators (hl7.patientDetail).
  */
 const PATIENT_DATA: Action[] = [
-  'records.read', 'records.write', 'results.write', 'operations.cancel', 'pathway.move', 'reviews.write',
-  'prescriptions.plan', 'prescriptions.sign', 'administrations.record', 'readiness.answer', 'appointments.book',
-  'outbox.read', 'tasks.work', 'outcomes.record', 'transfusions.record', 'documents.attach', 'letters.write',
-  'reports.patientRows', 'imports.run', 'hl7.patientDetail', 'hl7.readMessage', 'hl7.processAgain',
+  'records.read',
+  'records.write',
+  'results.write',
+  'operations.cancel',
+  'pathway.move',
+  'reviews.write',
+  'prescriptions.plan',
+  'prescriptions.sign',
+  'administrations.record',
+  'readiness.answer',
+  'appointments.book',
+  'outbox.read',
+  'tasks.work',
+  'outcomes.record',
+  'transfusions.record',
+  'documents.attach',
+  'letters.write',
+  'reports.patientRows',
+  'imports.run',
+  'hl7.patientDetail',
+  'hl7.readMessage',
+  'hl7.processAgain',
 ]
 
 describe('the permission table', () => {

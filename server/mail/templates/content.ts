@@ -30,10 +30,14 @@ export function subjectFor(kind: MessageKind, s: AppointmentSnapshot, clinic: Cl
   const d = new Date(s.startsAt)
   const at = `${shortDate(d, clinic.timeZone)}, ${localTime(d, clinic.timeZone)}`
   switch (kind) {
-    case 'booking': return `${NEUTRAL_SUBJECT} is booked: ${at}`
-    case 'update': return `${NEUTRAL_SUBJECT} has changed: ${at}`
-    case 'cancellation': return `${NEUTRAL_SUBJECT} is cancelled: ${at}`
-    case 'reminder': return `${NEUTRAL_SUBJECT} is coming up: ${at}`
+    case 'booking':
+      return `${NEUTRAL_SUBJECT} is booked: ${at}`
+    case 'update':
+      return `${NEUTRAL_SUBJECT} has changed: ${at}`
+    case 'cancellation':
+      return `${NEUTRAL_SUBJECT} is cancelled: ${at}`
+    case 'reminder':
+      return `${NEUTRAL_SUBJECT} is coming up: ${at}`
   }
 }
 
@@ -83,9 +87,15 @@ export function messageContent(kind: MessageKind, s: AppointmentSnapshot, clinic
     ],
     preparation: cancelled ? null : KIND_INFO[s.kind].preparation,
     reply: replyUrl
-      ? { url: replyUrl, prompt: 'Please tell us whether you can come. If the time does not suit you, the same page lets you ask us for another.' }
+      ? {
+          url: replyUrl,
+          prompt: 'Please tell us whether you can come. If the time does not suit you, the same page lets you ask us for another.',
+        }
       : null,
-    closing: [`Questions, or cannot use the link? Call the ${clinic.service} on ${clinic.phone}.`, 'Please do not reply to this e-mail: the address is not read.'],
+    closing: [
+      `Questions, or cannot use the link? Call the ${clinic.service} on ${clinic.phone}.`,
+      'Please do not reply to this e-mail: the address is not read.',
+    ],
     clinic,
   }
 }

@@ -31,12 +31,40 @@ export async function exportReferralBundle(config: Config, viewer: Viewer, refer
   const [results, doses, appointments] = await Promise.all([
     // Not raw: the JSON column (derivedFrom) is parsed only through the model.
     // Observations are exported as final: voided and preliminary values stay out of the hand-over.
-    Result.findAll({ where: { referralId, ...FINAL_WHERE }, order: [['takenAt', 'ASC'], ['id', 'ASC']] }),
-    Administration.findAll({ where: { referralId }, order: [['givenAt', 'ASC'], ['id', 'ASC']], raw: true }),
-    Appointment.findAll({ where: { referralId }, order: [['startsAt', 'ASC'], ['id', 'ASC']], raw: true }),
+    Result.findAll({
+      where: { referralId, ...FINAL_WHERE },
+      order: [
+        ['takenAt', 'ASC'],
+        ['id', 'ASC'],
+      ],
+    }),
+    Administration.findAll({
+      where: { referralId },
+      order: [
+        ['givenAt', 'ASC'],
+        ['id', 'ASC'],
+      ],
+      raw: true,
+    }),
+    Appointment.findAll({
+      where: { referralId },
+      order: [
+        ['startsAt', 'ASC'],
+        ['id', 'ASC'],
+      ],
+      raw: true,
+    }),
   ])
-  const prescriptions = doses.length ? await Prescription.findAll({ where: { referralId }, attributes: ['id', 'productCode', 'route'], raw: true }) : []
-  const products = prescriptions.length ? await IronProductRow.findAll({ where: { code: [...new Set(prescriptions.map((p) => p.productCode))] }, attributes: ['code', 'name'], raw: true }) : []
+  const prescriptions = doses.length
+    ? await Prescription.findAll({ where: { referralId }, attributes: ['id', 'productCode', 'route'], raw: true })
+    : []
+  const products = prescriptions.length
+    ? await IronProductRow.findAll({
+        where: { code: [...new Set(prescriptions.map((p) => p.productCode))] },
+        attributes: ['code', 'name'],
+        raw: true,
+      })
+    : []
   const productName = new Map(products.map((p) => [p.code, p.name]))
   const rxById = new Map(prescriptions.map((p) => [p.id, p]))
 
@@ -56,11 +84,21 @@ export async function exportReferralBundle(config: Config, viewer: Viewer, refer
     }),
     ...appointments.map((a) => ({
       fullUrl: urlOf('Appointment', a.id),
-      resource: appointmentResource({ ...a, kindLabel: KIND_INFO[a.kind].label, cancelReason: a.cancelReason ?? null }, patientUrl, patientName),
+      resource: appointmentResource(
+        { ...a, kindLabel: KIND_INFO[a.kind].label, cancelReason: a.cancelReason ?? null },
+        patientUrl,
+        patientName,
+      ),
     })),
   ]
   const counts = { observations: results.length, medicationAdministrations: doses.length, appointments: appointments.length }
-  await recordAudit(null, viewer, { action: 'export', entity: 'referral', entityId: referralId, patientId: r.patientId, after: { format: 'FHIR R4 Bundle', ...counts } })
+  await recordAudit(null, viewer, {
+    action: 'export',
+    entity: 'referral',
+    entityId: referralId,
+    patientId: r.patientId,
+    after: { format: 'FHIR R4 Bundle', ...counts },
+  })
   return {
     resourceType: 'Bundle',
     identifier: { system: 'urn:ietf:rfc:3986', value: `urn:uuid:${randomUUID()}` },

@@ -8,10 +8,43 @@ import { LOINC_SYSTEM, UCUM_SYSTEM, loincValue } from '../../../shared/fhir/loin
  */
 type Json = Record<string, unknown>
 
-export interface PatientFacts { id: number; mrn: string; givenName: string; familyName: string; dateOfBirth: string; sex: 'female' | 'male' }
-export interface ResultFacts { id: number; analyte: StoredAnalyte; valueCanonical: number; unitCanonical: string; takenAt: Date; createdAt: Date; derivedFrom: number[] | null; source: string; status?: string }
-export interface DoseFacts { id: number; doseMg: number; givenAt: Date; productName: string; route: 'iv' | 'oral'; batchNumber: string }
-export interface AppointmentFacts { id: number; kindLabel: string; status: AppointmentStatus; startsAt: Date; endsAt: Date; durationMin: number; location: string; cancelReason: string | null }
+export interface PatientFacts {
+  id: number
+  mrn: string
+  givenName: string
+  familyName: string
+  dateOfBirth: string
+  sex: 'female' | 'male'
+}
+export interface ResultFacts {
+  id: number
+  analyte: StoredAnalyte
+  valueCanonical: number
+  unitCanonical: string
+  takenAt: Date
+  createdAt: Date
+  derivedFrom: number[] | null
+  source: string
+  status?: string
+}
+export interface DoseFacts {
+  id: number
+  doseMg: number
+  givenAt: Date
+  productName: string
+  route: 'iv' | 'oral'
+  batchNumber: string
+}
+export interface AppointmentFacts {
+  id: number
+  kindLabel: string
+  status: AppointmentStatus
+  startsAt: Date
+  endsAt: Date
+  durationMin: number
+  location: string
+  cancelReason: string | null
+}
 
 /** Entries refer to each other by these urn:uuid full URLs (the Bundle has no server base). */
 export type UrlOf = (type: string, id: number) => string
@@ -27,12 +60,14 @@ export function patientResource(p: PatientFacts, identifierSystem: string): Json
   return {
     resourceType: 'Patient',
     id: `patient-${p.id}`,
-    identifier: [{
-      use: 'usual',
-      type: { coding: [{ system: V2_0203, code: 'MR', display: 'Medical record number' }], text: 'Hospital number' },
-      system: identifierSystem,
-      value: p.mrn,
-    }],
+    identifier: [
+      {
+        use: 'usual',
+        type: { coding: [{ system: V2_0203, code: 'MR', display: 'Medical record number' }], text: 'Hospital number' },
+        system: identifierSystem,
+        value: p.mrn,
+      },
+    ],
     name: [{ use: 'official', family: p.familyName, given: [p.givenName], text: `${p.givenName} ${p.familyName}` }],
     gender: p.sex,
     birthDate: p.dateOfBirth,
@@ -41,8 +76,15 @@ export function patientResource(p: PatientFacts, identifierSystem: string): Json
 
 export function observationResource(r: ResultFacts, patientUrl: string, urlOf: UrlOf): Json {
   const { entry, value } = loincValue(r.analyte, r.valueCanonical)
-  const converted = entry.fromCanonical ? [{ text: `Stored in Ferrolane as ${r.valueCanonical} ${r.unitCanonical}; converted to ${entry.unit} to match the LOINC code's ` +
-            `property.` }] : []
+  const converted = entry.fromCanonical
+    ? [
+        {
+          text:
+            `Stored in Ferrolane as ${r.valueCanonical} ${r.unitCanonical}; converted to ${entry.unit} to match the LOINC code's ` +
+            `property.`,
+        },
+      ]
+    : []
   const derived = r.source === 'derived' ? [{ text: 'Calculated by Ferrolane from the results it is derived from.' }] : []
   return {
     resourceType: 'Observation',

@@ -21,7 +21,14 @@ export class Hl7Problem extends Error {
 }
 
 // Separators in free text would break the segment; the HL7 escape sequences keep them.
-const escape = (s: string) => s.replace(/\\/g, '\\E\\').replace(/\|/g, '\\F\\').replace(/\^/g, '\\S\\').replace(/&/g, '\\T\\').replace(/~/g, '\\R\\').replace(/[\r\n]+/g, ' ')
+const escape = (s: string) =>
+  s
+    .replace(/\\/g, '\\E\\')
+    .replace(/\|/g, '\\F\\')
+    .replace(/\^/g, '\\S\\')
+    .replace(/&/g, '\\T\\')
+    .replace(/~/g, '\\R\\')
+    .replace(/[\r\n]+/g, ' ')
 
 /** The ACK for a message: MSA with the code, and ERR (v2.3 ELD in ERR-1, v2.5 fields 2–8) on errors. */
 export function buildAck(msg: Hl7Message, code: AckCode, problem?: Hl7Problem): string {
@@ -33,7 +40,17 @@ export function buildAck(msg: Hl7Message, code: AckCode, problem?: Hl7Problem): 
   const text = escape(problem.message)
   const location = `${w.segment}^${w.seq ?? 1}^${w.field ?? ''}`
   const err = Hl7Segment.parse(
-    ['ERR', `${location}^${problem.hl7Code}&${text}`, location, `${problem.hl7Code}^${problem.code}^HL70357`, 'E', problem.code, '', '', text].join('|'),
+    [
+      'ERR',
+      `${location}^${problem.hl7Code}&${text}`,
+      location,
+      `${problem.hl7Code}^${problem.code}^HL70357`,
+      'E',
+      problem.code,
+      '',
+      '',
+      text,
+    ].join('|'),
     ack.context,
   )
   return new Hl7Message([...ack.segments, err], ack.context).toString()

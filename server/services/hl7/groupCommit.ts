@@ -3,7 +3,11 @@ import type { Sequelize } from 'sequelize'
 import type { Config } from '../../config'
 import { receiveBatch } from './inbox'
 
-interface Waiting { msg: Hl7Message; resolve: (ack: string) => void; reject: (err: unknown) => void }
+interface Waiting {
+  msg: Hl7Message
+  resolve: (ack: string) => void
+  reject: (err: unknown) => void
+}
 
 /** Messages taken into one transaction at most: bounds the locks a batch holds and its replay on a conflict. */
 const MAX_BATCH = 16
@@ -22,7 +26,11 @@ export class GroupCommit {
   // How batching went (transactions, messages, the largest batch): for the tests and the bench's notes.
   readonly stats = { batches: 0, messages: 0, largest: 0 }
 
-  constructor(private readonly sequelize: Sequelize, private readonly config: Config, private readonly maxBatch = MAX_BATCH) {}
+  constructor(
+    private readonly sequelize: Sequelize,
+    private readonly config: Config,
+    private readonly maxBatch = MAX_BATCH,
+  ) {}
 
   submit(msg: Hl7Message): Promise<string> {
     return new Promise<string>((resolve, reject) => {
@@ -38,7 +46,11 @@ export class GroupCommit {
     this.stats.batches += 1
     this.stats.messages += batch.length
     this.stats.largest = Math.max(this.stats.largest, batch.length)
-    void receiveBatch(this.sequelize, this.config, batch.map((w) => w.msg))
+    void receiveBatch(
+      this.sequelize,
+      this.config,
+      batch.map((w) => w.msg),
+    )
       .then(
         (outcomes) => outcomes.forEach((o, i) => (o.status === 'fulfilled' ? batch[i]!.resolve(o.value) : batch[i]!.reject(o.reason))),
         (err: unknown) => batch.forEach((w) => w.reject(err)),

@@ -16,7 +16,13 @@ import type { Hl7Change } from '../../../shared/hl7'
 /** Message types Ferrolane takes (MSH-9 type^event). */
 const HANDLED = ['ORU^R01', 'SIU^S12', 'SIU^S13', 'SIU^S14', 'SIU^S15', 'ADT^A08'] as const
 
-export interface Header { controlId: string; sendingApp: string; sendingFacility: string; type: string; version: string }
+export interface Header {
+  controlId: string
+  sendingApp: string
+  sendingFacility: string
+  type: string
+  version: string
+}
 
 const cut = (s: string, n: number) => s.trim().slice(0, n)
 
@@ -32,7 +38,14 @@ export function readHeader(msg: Hl7Message): Header {
 }
 
 /** What a message asks of Ferrolane, done inside `t`; throws Hl7Problem when it cannot be done. */
-async function apply(sequelize: Sequelize, config: Config, msg: Hl7Message, h: Header, messageId: number, t: Transaction): Promise<Hl7Change[]> {
+async function apply(
+  sequelize: Sequelize,
+  config: Config,
+  msg: Hl7Message,
+  h: Header,
+  messageId: number,
+  t: Transaction,
+): Promise<Hl7Change[]> {
   const actor: Actor = { userId: null, requestId: `hl7:${messageId}`, ip: null }
   if (h.type === 'ORU^R01') {
     // Local codes are the laboratory's own: the CSV import's saved mapping for that source (MSH-4).
@@ -45,12 +58,22 @@ async function apply(sequelize: Sequelize, config: Config, msg: Hl7Message, h: H
 }
 
 function checkHeader(h: Header): void {
-  if (!h.controlId) throw new Hl7Problem('AR', 'missing-control-id', 'MSH-10 message control id is empty', '101', { segment: 'MSH', field: 10 })
+  if (!h.controlId)
+    throw new Hl7Problem('AR', 'missing-control-id', 'MSH-10 message control id is empty', '101', { segment: 'MSH', field: 10 })
   if (!(SUPPORTED_VERSIONS as readonly string[]).includes(h.version)) {
-    throw new Hl7Problem('AR', 'unsupported-version', `HL7 version "${h.version}" is not supported (${SUPPORTED_VERSIONS.join(', ')})`, '203', { segment: 'MSH', field: 12 })
+    throw new Hl7Problem(
+      'AR',
+      'unsupported-version',
+      `HL7 version "${h.version}" is not supported (${SUPPORTED_VERSIONS.join(', ')})`,
+      '203',
+      { segment: 'MSH', field: 12 },
+    )
   }
   if (!(HANDLED as readonly string[]).includes(h.type)) {
-    throw new Hl7Problem('AR', 'unsupported-type', `message type ${h.type} is not one Ferrolane takes (${HANDLED.join(', ')})`, '200', { segment: 'MSH', field: 9 })
+    throw new Hl7Problem('AR', 'unsupported-type', `message type ${h.type} is not one Ferrolane takes (${HANDLED.join(', ')})`, '200', {
+      segment: 'MSH',
+      field: 9,
+    })
   }
 }
 
@@ -58,7 +81,12 @@ function mrnOf(msg: Hl7Message): string | null {
   return cut(msg.getSegment('PID')?.getComponent(3, 1) ?? '', 40) || null
 }
 
-interface Incoming { msg: Hl7Message; h: Header; raw: string; receivedAt: Date }
+interface Incoming {
+  msg: Hl7Message
+  h: Header
+  raw: string
+  receivedAt: Date
+}
 
 /**
  * One message in, one ACK out (a batch of one: see receiveBatch). Throws when the message could
@@ -111,7 +139,24 @@ async function storeInBatch(sequelize: Sequelize, config: Config, m: Incoming, n
   await sequelize.query(`SAVEPOINT ${savepoint}`, { transaction: t })
   try {
     const row = await Hl7MessageRow.create(
-      { receivedAt, controlId: h.controlId, sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, messageType: h.type, version: h.version, raw, outcome: 'stored', ackCode: 'AA', ack: '', errorCode: null, errorText: null, changes: null, patientMrn: mrnOf(msg), needsAttention: false, processedAt: receivedAt },
+      {
+        receivedAt,
+        controlId: h.controlId,
+        sendingApp: h.sendingApp,
+        sendingFacility: h.sendingFacility,
+        messageType: h.type,
+        version: h.version,
+        raw,
+        outcome: 'stored',
+        ackCode: 'AA',
+        ack: '',
+        errorCode: null,
+        errorText: null,
+        changes: null,
+        patientMrn: mrnOf(msg),
+        needsAttention: false,
+        processedAt: receivedAt,
+      },
       { transaction: t },
     )
     const changes = await apply(sequelize, config, msg, h, row.id, t)
@@ -134,7 +179,9 @@ async function storeInBatch(sequelize: Sequelize, config: Config, m: Incoming, n
  */
 async function answered(h: Header, t: Transaction): Promise<string | null> {
   const where = { sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, controlId: h.controlId }
-  const row = (await Hl7MessageRow.findOne({ where, attributes: ['ack'], raw: true, transaction: t })) ?? (await Hl7MessageRow.findOne({ where, attributes: ['ack'], raw: true }))
+  const row =
+    (await Hl7MessageRow.findOne({ where, attributes: ['ack'], raw: true, transaction: t })) ??
+    (await Hl7MessageRow.findOne({ where, attributes: ['ack'], raw: true }))
   return row?.ack ?? null
 }
 
@@ -142,10 +189,27 @@ async function record(m: Incoming, outcome: Hl7Outcome, code: AckCode, problem: 
   const { msg, h, raw, receivedAt } = m
   const ack = buildAck(msg, code, problem)
   try {
-    await Hl7MessageRow.create({
-      receivedAt, controlId: h.controlId, sendingApp: h.sendingApp, sendingFacility: h.sendingFacility, messageType: h.type, version: h.version, raw, outcome,
-      ackCode: code, ack, errorCode: problem.code, errorText: problem.message.slice(0, 1000), changes: null, patientMrn: mrnOf(msg), needsAttention: code === 'AE', processedAt: new Date(),
-    }, { transaction: t })
+    await Hl7MessageRow.create(
+      {
+        receivedAt,
+        controlId: h.controlId,
+        sendingApp: h.sendingApp,
+        sendingFacility: h.sendingFacility,
+        messageType: h.type,
+        version: h.version,
+        raw,
+        outcome,
+        ackCode: code,
+        ack,
+        errorCode: problem.code,
+        errorText: problem.message.slice(0, 1000),
+        changes: null,
+        patientMrn: mrnOf(msg),
+        needsAttention: code === 'AE',
+        processedAt: new Date(),
+      },
+      { transaction: t },
+    )
     return ack
   } catch (err) {
     // The same control id arrived twice: the first one's answer stands (a failed INSERT undoes only itself).
@@ -158,20 +222,41 @@ async function record(m: Incoming, outcome: Hl7Outcome, code: AckCode, problem: 
  * "Process again" for a message in the attention queue, once its cause is fixed (the patient is
  * registered, the code mapped): the same rules, in one transaction with the row's new outcome.
  */
-export async function reprocess(sequelize: Sequelize, config: Config, id: number): Promise<{ outcome: Hl7Outcome; errorText: string | null }> {
+export async function reprocess(
+  sequelize: Sequelize,
+  config: Config,
+  id: number,
+): Promise<{ outcome: Hl7Outcome; errorText: string | null }> {
   return sequelize.transaction(async (t) => {
     const row = await Hl7MessageRow.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
-    if (!row || !row.needsAttention) return { outcome: row?.outcome ?? 'rejected', errorText: row ? 'this message does not need attention' : 'no such message' }
+    if (!row || !row.needsAttention)
+      return { outcome: row?.outcome ?? 'rejected', errorText: row ? 'this message does not need attention' : 'no such message' }
     const msg = Hl7Message.parse(row.raw)
     const h = readHeader(msg)
     try {
       const changes = await sequelize.transaction({ transaction: t }, (inner) => apply(sequelize, config, msg, h, row.id, inner))
       const ack = buildAck(msg, 'AA')
-      await row.update({ outcome: changes.length ? 'stored' : 'nothing-new', ackCode: 'AA', ack, changes, errorCode: null, errorText: null, needsAttention: false, attempts: row.attempts + 1, processedAt: new Date() }, { transaction: t })
+      await row.update(
+        {
+          outcome: changes.length ? 'stored' : 'nothing-new',
+          ackCode: 'AA',
+          ack,
+          changes,
+          errorCode: null,
+          errorText: null,
+          needsAttention: false,
+          attempts: row.attempts + 1,
+          processedAt: new Date(),
+        },
+        { transaction: t },
+      )
       return { outcome: row.outcome, errorText: null }
     } catch (err) {
       if (!(err instanceof Hl7Problem)) throw err
-      await row.update({ errorCode: err.code, errorText: err.message.slice(0, 1000), attempts: row.attempts + 1, processedAt: new Date() }, { transaction: t })
+      await row.update(
+        { errorCode: err.code, errorText: err.message.slice(0, 1000), attempts: row.attempts + 1, processedAt: new Date() },
+        { transaction: t },
+      )
       return { outcome: row.outcome, errorText: err.message }
     }
   })

@@ -10,7 +10,12 @@ import { listenerState } from './listener'
 import { attentionCount, messageDetail, outcomeCounts, perHour } from './messages'
 
 export async function hl7Overview(sequelize: Sequelize, config: Config): Promise<Hl7Overview> {
-  return { listener: listenerState(config), perHour: await perHour(sequelize), attention: await attentionCount(), ...(await outcomeCounts(sequelize)) }
+  return {
+    listener: listenerState(config),
+    perHour: await perHour(sequelize),
+    attention: await attentionCount(),
+    ...(await outcomeCounts(sequelize)),
+  }
 }
 
 /** A message holds patient data: reading it is audited like reading the episode. */
@@ -24,7 +29,8 @@ export async function readMessage(viewer: Viewer, id: number): Promise<Hl7Messag
 export async function processAgain(sequelize: Sequelize, config: Config, viewer: Viewer, id: number): Promise<Hl7MessageDetail> {
   const row = await Hl7MessageRow.findByPk(id, { attributes: ['id', 'needsAttention'], raw: true })
   if (!row) return messageDetail(id)
-  if (!row.needsAttention) throw new RuleRefused('This message does not need attention; only messages in the queue are processed again', 'not_in_queue')
+  if (!row.needsAttention)
+    throw new RuleRefused('This message does not need attention; only messages in the queue are processed again', 'not_in_queue')
   const out = await reprocess(sequelize, config, id)
   await recordAudit(null, viewer, { action: 'hl7-reprocess', entity: 'hl7_message', entityId: id, after: out })
   return messageDetail(id)

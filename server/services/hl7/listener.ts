@@ -26,7 +26,15 @@ let running: MllpListener | null = null
 export function listenerState(config: Config): Hl7ListenerState {
   if (running) return running.state()
   const c = config.hl7
-  return { enabled: c.enabled, listening: false, host: c.host, port: null, connections: 0, maxMessageBytes: c.maxMessageBytes, retentionDays: c.retentionDays }
+  return {
+    enabled: c.enabled,
+    listening: false,
+    host: c.host,
+    port: null,
+    connections: 0,
+    maxMessageBytes: c.maxMessageBytes,
+    retentionDays: c.retentionDays,
+  }
 }
 
 export class MllpListener {
@@ -36,7 +44,11 @@ export class MllpListener {
   // Messages waiting on any connection are stored together, one transaction per batch.
   private readonly inbox: GroupCommit
 
-  constructor(private readonly sequelize: Sequelize, private readonly config: Config, private readonly log: (msg: string, err?: unknown) => void = () => {}) {
+  constructor(
+    private readonly sequelize: Sequelize,
+    private readonly config: Config,
+    private readonly log: (msg: string, err?: unknown) => void = () => {},
+  ) {
     this.inbox = new GroupCommit(sequelize, config)
   }
 
@@ -55,7 +67,8 @@ export class MllpListener {
     // The one listener of this process, for listenerState(); not an alias kept for a closure.
     // eslint-disable-next-line @typescript-eslint/no-this-alias -- a module-level registry, not a `self` alias
     running = this
-    const sweep = () => void deleteExpired(this.config.hl7.retentionDays).catch((err: Error) => this.log('[hl7] retention sweep failed', err))
+    const sweep = () =>
+      void deleteExpired(this.config.hl7.retentionDays).catch((err: Error) => this.log('[hl7] retention sweep failed', err))
     sweep()
     this.sweep = setInterval(sweep, 60 * 60_000)
     this.sweep.unref()
@@ -74,7 +87,15 @@ export class MllpListener {
 
   state(): Hl7ListenerState {
     const c = this.config.hl7
-    return { enabled: c.enabled, listening: this.server?.listening ?? false, host: c.host, port: this.port(), connections: this.sockets.size, maxMessageBytes: c.maxMessageBytes, retentionDays: c.retentionDays }
+    return {
+      enabled: c.enabled,
+      listening: this.server?.listening ?? false,
+      host: c.host,
+      port: this.port(),
+      connections: this.sockets.size,
+      maxMessageBytes: c.maxMessageBytes,
+      retentionDays: c.retentionDays,
+    }
   }
 
   async stop(): Promise<void> {
@@ -136,28 +157,37 @@ export class MllpListener {
       // The parser may still frame an oversize message from the chunk that was refused above: it is never processed.
       if (tooLarge) return
       waiting(1)
-      queue = queue.then(async () => {
-        try {
-          // This connection's next message is handed over only after this one's ACK: its order is kept.
-          const ack = await this.inbox.submit(event.message)
-          if (!socket.destroyed) conn.send(Hl7Message.parse(ack))
-        } catch (err) {
-          this.log('[hl7] message could not be processed', err)
-          // Nothing was stored (the transaction rolled back): AE tells the sender to send it again.
-          const problem = new Hl7Problem('AE', 'internal', 'the message could not be processed now; nothing was stored; send it again later')
-          if (!socket.destroyed) conn.send(Hl7Message.parse(buildAck(event.message, 'AE', problem)))
-        } finally {
-          waiting(-1)
-        }
-      }).catch(this.lost(socket))
+      queue = queue
+        .then(async () => {
+          try {
+            // This connection's next message is handed over only after this one's ACK: its order is kept.
+            const ack = await this.inbox.submit(event.message)
+            if (!socket.destroyed) conn.send(Hl7Message.parse(ack))
+          } catch (err) {
+            this.log('[hl7] message could not be processed', err)
+            // Nothing was stored (the transaction rolled back): AE tells the sender to send it again.
+            const problem = new Hl7Problem(
+              'AE',
+              'internal',
+              'the message could not be processed now; nothing was stored; send it again later',
+            )
+            if (!socket.destroyed) conn.send(Hl7Message.parse(buildAck(event.message, 'AE', problem)))
+          } finally {
+            waiting(-1)
+          }
+        })
+        .catch(this.lost(socket))
     })
     conn.addEventListener('error', (event: Hl7ErrorEvent) => {
       const err = event.error as Error & { code?: string }
       // Socket errors (a peer that reset) need no answer; a frame that was not HL7 gets an AR.
       if (err.code || socket.destroyed) return
-      queue = queue.then(() => {
-        if (!socket.destroyed) conn.send(Hl7Message.parse(rejectUnreadable(`the frame is not a readable HL7 v2 message (${err.message})`)))
-      }).catch(this.lost(socket))
+      queue = queue
+        .then(() => {
+          if (!socket.destroyed)
+            conn.send(Hl7Message.parse(rejectUnreadable(`the frame is not a readable HL7 v2 message (${err.message})`)))
+        })
+        .catch(this.lost(socket))
     })
   }
 

@@ -7,13 +7,30 @@ import { isoOrNull } from '../viewer'
 
 function summary(r: Hl7MessageRow): Hl7MessageSummary {
   return {
-    id: r.id, receivedAt: isoOrNull(r.receivedAt)!, controlId: r.controlId, sender: [r.sendingApp, r.sendingFacility].filter(Boolean).join(' / '),
-    messageType: r.messageType, version: r.version, outcome: r.outcome, ackCode: r.ackCode, errorCode: r.errorCode, errorText: r.errorText,
-    patientMrn: r.patientMrn, needsAttention: Boolean(r.needsAttention), attempts: r.attempts,
+    id: r.id,
+    receivedAt: isoOrNull(r.receivedAt)!,
+    controlId: r.controlId,
+    sender: [r.sendingApp, r.sendingFacility].filter(Boolean).join(' / '),
+    messageType: r.messageType,
+    version: r.version,
+    outcome: r.outcome,
+    ackCode: r.ackCode,
+    errorCode: r.errorCode,
+    errorText: r.errorText,
+    patientMrn: r.patientMrn,
+    needsAttention: Boolean(r.needsAttention),
+    attempts: r.attempts,
   }
 }
 
-export interface MessageQuery { q?: string; outcome?: Hl7Outcome; type?: string; attention?: boolean; limit: number; offset: number }
+export interface MessageQuery {
+  q?: string
+  outcome?: Hl7Outcome
+  type?: string
+  attention?: boolean
+  limit: number
+  offset: number
+}
 
 /** What a reader without a clinical role gets: no hospital number, no error text (it may name the patient). */
 function withoutPatient(s: Hl7MessageSummary): Hl7MessageSummary {
@@ -35,7 +52,13 @@ export async function listMessages(query: MessageQuery, patientDetail: boolean):
   if (query.type) where.push({ messageType: query.type })
   if (query.attention !== undefined) where.push({ needsAttention: query.attention })
   const { rows, count } = await Hl7MessageRow.findAndCountAll({
-    where: { [Op.and]: where }, order: [['receivedAt', 'DESC'], ['id', 'DESC']], limit: query.limit, offset: query.offset,
+    where: { [Op.and]: where },
+    order: [
+      ['receivedAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit: query.limit,
+    offset: query.offset,
     attributes: { exclude: ['raw', 'ack', 'changes'] },
   })
   const items = rows.map(summary)
@@ -53,7 +76,10 @@ export async function messageDetail(id: number): Promise<Hl7MessageDetail> {
       return { name: s.name, fields: s.name === 'MSH' && fields[0] !== '|' ? ['|', ...fields] : fields }
     })
   } catch {
-    segments = r.raw.split(/\r\n?|\n/).filter(Boolean).map((line) => ({ name: line.slice(0, 3), fields: line.split('|').slice(1) }))
+    segments = r.raw
+      .split(/\r\n?|\n/)
+      .filter(Boolean)
+      .map((line) => ({ name: line.slice(0, 3), fields: line.split('|').slice(1) }))
   }
   return { ...summary(r), segments, ack: r.ack, changes: r.changes ?? [] }
 }
@@ -80,7 +106,10 @@ export async function outcomeCounts(sequelize: Sequelize): Promise<Pick<Hl7Overv
       'error_code ORDER BY count DESC, code LIMIT 20',
     { type: QueryTypes.SELECT, replacements: [since] },
   )
-  return { outcomes: outcomes.map((o) => ({ outcome: o.outcome, count: Number(o.count) })), errorCodes: codes.map((c) => ({ code: c.code, count: Number(c.count) })) }
+  return {
+    outcomes: outcomes.map((o) => ({ outcome: o.outcome, count: Number(o.count) })),
+    errorCodes: codes.map((c) => ({ code: c.code, count: Number(c.count) })),
+  }
 }
 
 export async function attentionCount(): Promise<number> {
@@ -89,5 +118,7 @@ export async function attentionCount(): Promise<number> {
 
 /** Retention: messages past it go, except those still waiting for someone in the queue. */
 export async function deleteExpired(retentionDays: number): Promise<number> {
-  return Hl7MessageRow.destroy({ where: { receivedAt: { [Op.lt]: new Date(Date.now() - retentionDays * 86_400_000) }, needsAttention: false } })
+  return Hl7MessageRow.destroy({
+    where: { receivedAt: { [Op.lt]: new Date(Date.now() - retentionDays * 86_400_000) }, needsAttention: false },
+  })
 }

@@ -13,10 +13,23 @@ const who = (u?: User | null) => (u ? { id: u.id, name: u.name } : null)
 
 function toView(b: Row): BatchView {
   return {
-    id: b.id, kind: b.kind, sourceName: b.sourceName, fileName: b.fileName, sha256: b.sha256, createdAt: isoOrNull(b.createdAt)!,
-    createdBy: who(b.creator), rowsRead: b.rowsRead, accepted: b.accepted, skipped: b.skipped, derived: b.derived,
-    referralsAffected: b.referralsAffected, skipCounts: b.skipCounts ?? {}, reversedAt: isoOrNull(b.reversedAt), reversedBy: who(b.reverser),
-    reversalReason: b.reversalReason, resultsRemoved: b.resultsRemoved,
+    id: b.id,
+    kind: b.kind,
+    sourceName: b.sourceName,
+    fileName: b.fileName,
+    sha256: b.sha256,
+    createdAt: isoOrNull(b.createdAt)!,
+    createdBy: who(b.creator),
+    rowsRead: b.rowsRead,
+    accepted: b.accepted,
+    skipped: b.skipped,
+    derived: b.derived,
+    referralsAffected: b.referralsAffected,
+    skipCounts: b.skipCounts ?? {},
+    reversedAt: isoOrNull(b.reversedAt),
+    reversedBy: who(b.reverser),
+    reversalReason: b.reversalReason,
+    resultsRemoved: b.resultsRemoved,
   }
 }
 
@@ -59,16 +72,36 @@ export async function reverseBatch(sequelize: Sequelize, viewer: Viewer, id: num
       { type: QueryTypes.SELECT, replacements: [...READ_ONLY_STAGES, id], transaction: t },
     )
     if (closed.length) {
-      throw new RuleRefused(`Import batch ${id} added results to ${closed.length} closed episode${closed.length === 1 ? '' : 's'} ` +
-          `(${closed.map((c) => c.id).join(', ')}); a closed episode is read-only, so the batch cannot be reversed.`, 'episode_closed')
+      throw new RuleRefused(
+        `Import batch ${id} added results to ${closed.length} closed episode${closed.length === 1 ? '' : 's'} ` +
+          `(${closed.map((c) => c.id).join(', ')}); a closed episode is read-only, so the batch cannot be reversed.`,
+        'episode_closed',
+      )
     }
     await sequelize.query('DELETE FROM results WHERE import_batch_id = ?', { type: QueryTypes.DELETE, replacements: [id], transaction: t })
     const removedCount = affected.reduce((n, a) => n + Number(a.n), 0)
-    await refreshScreeningMany(sequelize, affected.map((a) => a.referralId), t)
-    await ImportBatch.update({ reversedAt: new Date(), reversedBy: viewer.userId, reversalReason: reason, resultsRemoved: removedCount }, { where: { id }, transaction: t })
-    await recordAudit(t, viewer, { action: 'reverse', entity: 'import_batch', entityId: id, before: { accepted: batch.accepted }, after: { reason, resultsRemoved: removedCount, referrals: affected.length } })
+    await refreshScreeningMany(
+      sequelize,
+      affected.map((a) => a.referralId),
+      t,
+    )
+    await ImportBatch.update(
+      { reversedAt: new Date(), reversedBy: viewer.userId, reversalReason: reason, resultsRemoved: removedCount },
+      { where: { id }, transaction: t },
+    )
+    await recordAudit(t, viewer, {
+      action: 'reverse',
+      entity: 'import_batch',
+      entityId: id,
+      before: { accepted: batch.accepted },
+      after: { reason, resultsRemoved: removedCount, referrals: affected.length },
+    })
     // One row per episode, as before, written a thousand per INSERT (resultStore.ts).
-    const rows = affected.map((a) => ({ referralId: a.referralId, patientId: a.patientId, after: { importBatchId: id, resultsRemoved: Number(a.n), reason } }))
+    const rows = affected.map((a) => ({
+      referralId: a.referralId,
+      patientId: a.patientId,
+      after: { importBatchId: id, resultsRemoved: Number(a.n), reason },
+    }))
     await insertEpisodeAudit(sequelize, viewer, rows, 'reverse-import', t)
   })
   return getBatch(id)

@@ -12,21 +12,34 @@ import { ImportRun } from './run'
  * way every entry's outcome is reported.
  */
 export async function importFhirBundle(
-  sequelize: Sequelize, viewer: Viewer, bundle: unknown, opts: { commit: boolean; storeValid: boolean; sourceName: string },
+  sequelize: Sequelize,
+  viewer: Viewer,
+  bundle: unknown,
+  opts: { commit: boolean; storeValid: boolean; sourceName: string },
 ): Promise<FhirImportResult> {
   const entryCount = (bundle as { entry?: unknown } | null)?.entry
   if (Array.isArray(entryCount) && entryCount.length > LIMITS.fhirEntries) {
-    throw new Invalid(`The Bundle has ${entryCount.length} entries, more than the limit of ${LIMITS.fhirEntries} for one upload; nothing was ` +
-        `imported. Send it in parts.`, { bundle: `must have at most ${LIMITS.fhirEntries} entries` })
+    throw new Invalid(
+      `The Bundle has ${entryCount.length} entries, more than the limit of ${LIMITS.fhirEntries} for one upload; nothing was ` +
+        `imported. Send it in parts.`,
+      { bundle: `must have at most ${LIMITS.fhirEntries} entries` },
+    )
   }
   const checked = checkFhirBundle(bundle, Date.now())
   if ('error' in checked) throw new RuleRefused(`${checked.error}. Nothing was imported.`, 'fhir_not_bundle', { bundle: checked.error })
   const invalid = checked.entries.filter((e) => e.kind === 'invalid').length
   const blocked = invalid > 0 && !opts.storeValid
-  const items = checked.entries.flatMap((e): { row: number; checked: Checked }[] => (e.kind === 'reading' ? [{ row: e.index, checked: { ok: true, reading: e.reading } }] : []))
+  const items = checked.entries.flatMap((e): { row: number; checked: Checked }[] =>
+    e.kind === 'reading' ? [{ row: e.index, checked: { ok: true, reading: e.reading } }] : [],
+  )
   const sha256 = createHash('sha256').update(JSON.stringify(bundle)).digest('hex')
   const id = bundle as { id?: unknown }
-  const run = new ImportRun(sequelize, viewer, { kind: 'fhir', commit: opts.commit && !blocked, sourceName: opts.sourceName, fileName: typeof id.id === 'string' ? `Bundle/${id.id}` : 'FHIR bundle' })
+  const run = new ImportRun(sequelize, viewer, {
+    kind: 'fhir',
+    commit: opts.commit && !blocked,
+    sourceName: opts.sourceName,
+    fileName: typeof id.id === 'string' ? `Bundle/${id.id}` : 'FHIR bundle',
+  })
   const outcomes = new Map<number, FhirEntryResult>()
   try {
     await run.begin()
@@ -51,8 +64,13 @@ export async function importFhirBundle(
       invalid,
       referralsAffected: summary.referralsAffected,
       sameFileAs: summary.sameFileAs,
-      ...(opts.commit && blocked ? { notStored: `${invalid} entr${invalid === 1 ? 'y is' : 'ies are'} invalid, so nothing was stored; store the valid entries only ` +
-              `if you mean to` } : {}),
+      ...(opts.commit && blocked
+        ? {
+            notStored:
+              `${invalid} entr${invalid === 1 ? 'y is' : 'ies are'} invalid, so nothing was stored; store the valid entries only ` +
+              `if you mean to`,
+          }
+        : {}),
     }
   } catch (err) {
     await run.abandon()

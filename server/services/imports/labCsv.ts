@@ -22,7 +22,11 @@ const CHUNK = 1000
 
 function csvRefusal(err: CsvError): RuleRefused {
   const line = (err as CsvError & { lines?: number }).lines
-  return new RuleRefused(`The file could not be read as CSV${line ? ` at line ${line}` : ''}: ${err.message.replace(/^[^:]*:\s*/, '')}. Nothing was imported.`, 'csv_unreadable', { file: 'is not readable CSV' })
+  return new RuleRefused(
+    `The file could not be read as CSV${line ? ` at line ${line}` : ''}: ${err.message.replace(/^[^:]*:\s*/, '')}. Nothing was imported.`,
+    'csv_unreadable',
+    { file: 'is not readable CSV' },
+  )
 }
 
 /**
@@ -30,41 +34,73 @@ function csvRefusal(err: CsvError): RuleRefused {
  * long the file is. A preview stores nothing; a commit stores every accepted row in one
  * transaction (or none, if anything fails), then derives, re-screens and audits.
  */
-export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: LabCsvInput, timeZone: string, maxRows: number = LIMITS.csvRows): Promise<ImportSummary> {
+export async function importLabCsv(
+  sequelize: Sequelize,
+  viewer: Viewer,
+  input: LabCsvInput,
+  timeZone: string,
+  maxRows: number = LIMITS.csvRows,
+): Promise<ImportSummary> {
   const hash = createHash('sha256')
   const file = createReadStream(input.filePath)
   file.on('data', (c) => hash.update(c))
   const parser = parse({
-    delimiter: input.mapping.delimiter, bom: true, columns: (h: string[]) => h.map((x) => x.trim()), skip_empty_lines: true,
-    relax_column_count: true, trim: true, max_record_size: 64 * 1024, info: true,
+    delimiter: input.mapping.delimiter,
+    bom: true,
+    columns: (h: string[]) => h.map((x) => x.trim()),
+    skip_empty_lines: true,
+    relax_column_count: true,
+    trim: true,
+    max_record_size: 64 * 1024,
+    info: true,
   })
   // pipeline, not pipe: a parse error destroys both streams and reaches the loop below.
   pipeline(file, parser, () => undefined)
-  const run = new ImportRun(sequelize, viewer, { kind: 'lab-csv', commit: input.commit, sourceName: input.sourceName, fileName: input.fileName })
+  const run = new ImportRun(sequelize, viewer, {
+    kind: 'lab-csv',
+    commit: input.commit,
+    sourceName: input.sourceName,
+    fileName: input.fileName,
+  })
   const now = Date.now()
   let chunk: { row: number; checked: Checked }[] = []
   let headerChecked = false
   try {
     await run.begin()
-    for await (const { record, info } of parser as AsyncIterable<{ record: Record<string, string>; info: { records: number; columns?: { name: string }[]; error?: unknown } }>) {
+    for await (const { record, info } of parser as AsyncIterable<{
+      record: Record<string, string>
+      info: { records: number; columns?: { name: string }[]; error?: unknown }
+    }>) {
       if (!headerChecked) {
         const header = (info.columns ?? []).map((c) => c.name)
         const missing = MAPPED_FIELDS.filter((f) => !header.includes(input.mapping.columns[f]))
         if (missing.length) {
           const names = missing.map((f) => `"${input.mapping.columns[f]}"`).join(', ')
-          throw new RuleRefused(`The file has no column ${names} (its header reads: ${header.join(', ') || 'nothing'}). Check the column mapping ` +
-              `for ${input.sourceName}.`, 'missing_columns', { mapping: `columns ${names} are not in the file` })
+          throw new RuleRefused(
+            `The file has no column ${names} (its header reads: ${header.join(', ') || 'nothing'}). Check the column mapping ` +
+              `for ${input.sourceName}.`,
+            'missing_columns',
+            { mapping: `columns ${names} are not in the file` },
+          )
         }
         headerChecked = true
       }
       const row = info.records + 1
       if (info.records > maxRows) {
-        throw new Invalid(`The file has more than ${maxRows} data rows, the limit for one upload; nothing was imported. Split it or export a ` +
-            `shorter period.`, { file: `must have at most ${maxRows} rows` })
+        throw new Invalid(
+          `The file has more than ${maxRows} data rows, the limit for one upload; nothing was imported. Split it or export a ` +
+            `shorter period.`,
+          { file: `must have at most ${maxRows} rows` },
+        )
       }
       const checked: Checked = info.error
-        ? { ok: false, code: 'bad-row', reason: `row has a different number of fields from the header (${Object.keys(record).length} of ` +
-              `${info.columns?.length ?? 0} read)` }
+        ? {
+            ok: false,
+            code: 'bad-row',
+            reason:
+              `row has a different number of fields from the header (${Object.keys(record).length} of ` +
+              `${info.columns?.length ?? 0} read)`,
+          }
         : checkCsvRecord(record, input.mapping, timeZone, now)
       chunk.push({ row, checked })
       if (chunk.length >= CHUNK) {
@@ -72,7 +108,8 @@ export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: 
         chunk = []
       }
     }
-    if (!headerChecked) throw new RuleRefused('The file is empty or has only a header; there is nothing to import', 'empty_file', { file: 'has no rows' })
+    if (!headerChecked)
+      throw new RuleRefused('The file is empty or has only a header; there is nothing to import', 'empty_file', { file: 'has no rows' })
     if (chunk.length) await run.addChunk(chunk)
     return await run.finish(hash.digest('hex'))
   } catch (err) {
@@ -81,4 +118,3 @@ export async function importLabCsv(sequelize: Sequelize, viewer: Viewer, input: 
     throw err instanceof CsvError ? csvRefusal(err) : err
   }
 }
-

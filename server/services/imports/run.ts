@@ -25,13 +25,37 @@ export class ImportRun {
     private readonly viewer: Viewer,
     private readonly opts: { kind: ImportKind; commit: boolean; sourceName: string; fileName: string },
   ) {
-    this.s = { kind: opts.kind, committed: false, rowsRead: 0, accepted: 0, skipped: [], skippedTotal: 0, skipCounts: {}, acceptedRows: [], listCap: LIST_CAP, referralsAffected: 0, derived: 0, derivationsRefused: 0 }
+    this.s = {
+      kind: opts.kind,
+      committed: false,
+      rowsRead: 0,
+      accepted: 0,
+      skipped: [],
+      skippedTotal: 0,
+      skipCounts: {},
+      acceptedRows: [],
+      listCap: LIST_CAP,
+      referralsAffected: 0,
+      derived: 0,
+      derivationsRefused: 0,
+    }
   }
 
   async begin(): Promise<void> {
     this.t = await this.sequelize.transaction()
     const batch = await ImportBatch.create(
-      { kind: this.opts.kind, sourceName: this.opts.sourceName, fileName: this.opts.fileName.slice(0, 255), sha256: '0'.repeat(64), createdBy: this.viewer.userId, skipCounts: null, reversedAt: null, reversedBy: null, reversalReason: null, resultsRemoved: null },
+      {
+        kind: this.opts.kind,
+        sourceName: this.opts.sourceName,
+        fileName: this.opts.fileName.slice(0, 255),
+        sha256: '0'.repeat(64),
+        createdBy: this.viewer.userId,
+        skipCounts: null,
+        reversedAt: null,
+        reversedBy: null,
+        reversalReason: null,
+        resultsRemoved: null,
+      },
       { transaction: this.t },
     )
     this.batchId = batch.id
@@ -54,24 +78,48 @@ export class ImportRun {
       if (this.s.acceptedRows.length < LIST_CAP) {
         const r = m.reading
         this.s.acceptedRows.push({
-          row: m.row, mrn: r.mrn, patient: m.patientName, referralId: m.referralId, analyte: r.analyte, analyteLabel: ANALYTE_DEFS[r.analyte].label,
-          value: r.value, unit: r.unit, valueCanonical: r.valueCanonical, unitCanonical: ANALYTE_DEFS[r.analyte].canonicalUnit, takenAt: r.takenAt.toISOString(),
+          row: m.row,
+          mrn: r.mrn,
+          patient: m.patientName,
+          referralId: m.referralId,
+          analyte: r.analyte,
+          analyteLabel: ANALYTE_DEFS[r.analyte].label,
+          value: r.value,
+          unit: r.unit,
+          valueCanonical: r.valueCanonical,
+          unitCanonical: ANALYTE_DEFS[r.analyte].canonicalUnit,
+          takenAt: r.takenAt.toISOString(),
         })
       }
     }
     if (this.t && out.accepted.length) {
-      await insertResults(this.sequelize, out.accepted.map((m) => ({
-        referralId: m.referralId, patientId: m.patientId, analyte: m.reading.analyte, valueCanonical: m.reading.valueCanonical,
-        valueReported: m.reading.value, unitReported: m.reading.unit, takenAt: m.reading.takenAt, enteredBy: this.viewer.userId,
-        source: this.opts.kind, importBatchId: this.batchId,
-      })), this.t)
+      await insertResults(
+        this.sequelize,
+        out.accepted.map((m) => ({
+          referralId: m.referralId,
+          patientId: m.patientId,
+          analyte: m.reading.analyte,
+          valueCanonical: m.reading.valueCanonical,
+          valueReported: m.reading.value,
+          unitReported: m.reading.unit,
+          takenAt: m.reading.takenAt,
+          enteredBy: this.viewer.userId,
+          source: this.opts.kind,
+          importBatchId: this.batchId,
+        })),
+        this.t,
+      )
     }
     return out
   }
 
   async finish(sha256: string): Promise<ImportSummary> {
     this.s.referralsAffected = this.perReferral.size
-    const earlier = await ImportBatch.findOne({ where: { sha256, reversedAt: null, ...(this.batchId ? { id: { [Op.ne]: this.batchId } } : {}) }, order: [['id', 'DESC']], transaction: this.t ?? undefined })
+    const earlier = await ImportBatch.findOne({
+      where: { sha256, reversedAt: null, ...(this.batchId ? { id: { [Op.ne]: this.batchId } } : {}) },
+      order: [['id', 'DESC']],
+      transaction: this.t ?? undefined,
+    })
     const sameFileAs = earlier ? { batchId: earlier.id, createdAt: isoOrNull(earlier.createdAt)! } : null
     const t = this.t
     if (!t) throw new Error('import run finished twice')
@@ -85,10 +133,19 @@ export class ImportRun {
     this.s.derived = d.derived
     this.s.derivationsRefused = d.refused
     await rescreenAndAudit(this.sequelize, this.viewer, this.perReferral, t, { action: 'import-results', batchId })
-    const counts = { rowsRead: this.s.rowsRead, accepted: this.s.accepted, skipped: this.s.skippedTotal, derived: d.derived, referralsAffected: this.perReferral.size, skipCounts: this.s.skipCounts }
+    const counts = {
+      rowsRead: this.s.rowsRead,
+      accepted: this.s.accepted,
+      skipped: this.s.skippedTotal,
+      derived: d.derived,
+      referralsAffected: this.perReferral.size,
+      skipCounts: this.s.skipCounts,
+    }
     await ImportBatch.update({ sha256, ...counts }, { where: { id: batchId }, transaction: t })
     await recordAudit(t, this.viewer, {
-      action: 'import', entity: 'import_batch', entityId: batchId,
+      action: 'import',
+      entity: 'import_batch',
+      entityId: batchId,
       after: { kind: this.opts.kind, source: this.opts.sourceName, fileName: this.opts.fileName, sha256, ...counts },
     })
     await t.commit()

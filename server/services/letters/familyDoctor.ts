@@ -8,24 +8,38 @@ import type { LetterContent } from './pdf'
 
 const noonUtc = (iso: string) => new Date(`${iso}T12:00:00Z`)
 // A date of birth is a calendar date: no weekday, no time zone.
-const birthDate = (iso: string) => new Intl.DateTimeFormat('en-GB', { timeZone: 'UTC', day: 'numeric', month: 'long', year: 'numeric' }).format(noonUtc(iso))
+const birthDate = (iso: string) =>
+  new Intl.DateTimeFormat('en-GB', { timeZone: 'UTC', day: 'numeric', month: 'long', year: 'numeric' }).format(noonUtc(iso))
 
 /**
  * The letter to the family doctor, in Ferrolane's words. Hb is given in g/L (the unit the clinic
  * stores and reads) with g/dL beside it, since practices report either.
  */
-export function familyDoctorLetter(r: LoadedReferral, f: LetterFacts, clinic: ClinicContact, author: { name: string; roleLabel: string }, now: Date): LetterContent {
+export function familyDoctorLetter(
+  r: LoadedReferral,
+  f: LetterFacts,
+  clinic: ClinicContact,
+  author: { name: string; roleLabel: string },
+  now: Date,
+): LetterContent {
   const tz = clinic.timeZone
   const day = (d: Date) => longDate(d, tz)
-  const result = (x: LatestResult | null, fmt: (x: LatestResult) => string) => (x ? `${fmt(x)} (taken ${day(x.takenAt)})` : 'not measured in this episode')
+  const result = (x: LatestResult | null, fmt: (x: LatestResult) => string) =>
+    x ? `${fmt(x)} (taken ${day(x.takenAt)})` : 'not measured in this episode'
   const p = r.patient
   const findings = [
-    { label: 'Haemoglobin', value: result(f.hb, (x) => `${x.value} g/L (${Math.round(convertHb(x.value, 'g/L', 'g/dL') * 10) / 10} g/dL)`) },
+    {
+      label: 'Haemoglobin',
+      value: result(f.hb, (x) => `${x.value} g/L (${Math.round(convertHb(x.value, 'g/L', 'g/dL') * 10) / 10} g/dL)`),
+    },
     { label: 'Ferritin', value: result(f.ferritin, (x) => `${x.value} ${x.unit}`) },
     { label: 'Transferrin saturation', value: result(f.tsat, (x) => `${x.value} ${x.unit}`) },
   ]
   const treatment = f.doses.length
-    ? f.doses.map((d) => ({ label: day(d.givenAt), value: `${d.productName}, ${d.doseMg} mg${d.route === 'oral' ? ' (oral)' : ' intravenously'}` }))
+    ? f.doses.map((d) => ({
+        label: day(d.givenAt),
+        value: `${d.productName}, ${d.doseMg} mg${d.route === 'oral' ? ' (oral)' : ' intravenously'}`,
+      }))
     : []
   const total = f.doses.reduce((s, d) => s + d.doseMg, 0)
   const plan = [
@@ -33,9 +47,10 @@ export function familyDoctorLetter(r: LoadedReferral, f: LetterFacts, clinic: Cl
     { label: 'Blood re-check', value: r.recheckDueDate ? `due by ${day(noonUtc(r.recheckDueDate))}` : 'not yet booked' },
     {
       label: 'Readiness',
-      value: 'unavailable' in f.readiness
-        ? `no surgery-day projection yet (${f.readiness.unavailable.replace(/^Cannot project surgery day: /, '')})`
-        : `${f.readiness.verdict}; predicted Hb on the day of surgery ${f.readiness.predictedSurgeryHbGL} g/L`,
+      value:
+        'unavailable' in f.readiness
+          ? `no surgery-day projection yet (${f.readiness.unavailable.replace(/^Cannot project surgery day: /, '')})`
+          : `${f.readiness.verdict}; predicted Hb on the day of surgery ${f.readiness.predictedSurgeryHbGL} g/L`,
     },
   ]
   return {
@@ -53,17 +68,24 @@ export function familyDoctorLetter(r: LoadedReferral, f: LetterFacts, clinic: Cl
       {
         heading: 'Diagnosis',
         lines: f.review
-          ? [`${f.review.diagnosis} (clinic review on ${day(f.review.reviewedAt)}).`, ...(f.review.plan ? [`Clinic plan: ${f.review.plan}`] : [])]
+          ? [
+              `${f.review.diagnosis} (clinic review on ${day(f.review.reviewedAt)}).`,
+              ...(f.review.plan ? [`Clinic plan: ${f.review.plan}`] : []),
+            ]
           : ['The patient has not yet been reviewed in the anaemia clinic.'],
       },
       {
         heading: 'Treatment given',
-        ...(treatment.length ? { rows: [...treatment, { label: 'Total', value: `${total} mg of iron` }] } : { lines: ['No iron has been given by the clinic so far.'] }),
+        ...(treatment.length
+          ? { rows: [...treatment, { label: 'Total', value: `${total} mg of iron` }] }
+          : { lines: ['No iron has been given by the clinic so far.'] }),
       },
       { heading: 'Plan', rows: plan },
       {
         heading: 'Who to contact',
-        lines: [`The ${clinic.service} at ${clinic.name}: telephone ${clinic.phone}, e-mail ${clinic.email}. Please quote the hospital number.`],
+        lines: [
+          `The ${clinic.service} at ${clinic.name}: telephone ${clinic.phone}, e-mail ${clinic.email}. Please quote the hospital number.`,
+        ],
       },
     ],
     closing: ['We will write again if the plan changes. If anything here does not match your records, please call us.'],

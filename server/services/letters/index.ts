@@ -22,15 +22,36 @@ async function authorOf(viewer: Viewer) {
 }
 
 async function storeLetter(
-  sequelize: Sequelize, config: Config, viewer: Viewer, r: LoadedReferral, content: LetterContent,
+  sequelize: Sequelize,
+  config: Config,
+  viewer: Viewer,
+  r: LoadedReferral,
+  content: LetterContent,
   letter: { title: string; fileName: string; recipient: 'family-doctor' | 'patient'; appointmentId: number | null; subject: string },
 ): Promise<WrittenLetter> {
   const author = await authorOf(viewer)
   const bytes = await renderLetterPdf(content, { author: author.name, subject: letter.subject })
-  return saveDocument(sequelize, config, viewer, r.id, { kind: 'letter', title: letter.title, originalName: letter.fileName, mediaType: 'application/pdf', bytes }, async (t, d) => {
-    const l = await Letter.create({ referralId: r.id, documentId: d.id, recipient: letter.recipient, appointmentId: letter.appointmentId, writtenBy: viewer.userId, writtenAt: d.uploadedAt }, { transaction: t })
-    return { id: l.id, documentId: d.id }
-  })
+  return saveDocument(
+    sequelize,
+    config,
+    viewer,
+    r.id,
+    { kind: 'letter', title: letter.title, originalName: letter.fileName, mediaType: 'application/pdf', bytes },
+    async (t, d) => {
+      const l = await Letter.create(
+        {
+          referralId: r.id,
+          documentId: d.id,
+          recipient: letter.recipient,
+          appointmentId: letter.appointmentId,
+          writtenBy: viewer.userId,
+          writtenAt: d.uploadedAt,
+        },
+        { transaction: t },
+      )
+      return { id: l.id, documentId: d.id }
+    },
+  )
 }
 
 /** Writes the family-doctor letter from the episode as it is now and keeps the PDF on the episode. */
@@ -48,7 +69,9 @@ export async function writeFamilyDoctorLetter(
   return storeLetter(sequelize, config, viewer, r, content, {
     title: `Letter to the family doctor, ${longDate(now, clinic.timeZone)}`,
     fileName: `family-doctor-letter-${r.patient.mrn}-${stamp}.pdf`,
-    recipient: 'family-doctor', appointmentId: null, subject: `Letter about ${r.patient.givenName} ${r.patient.familyName}, ${r.patient.mrn}`,
+    recipient: 'family-doctor',
+    appointmentId: null,
+    subject: `Letter about ${r.patient.givenName} ${r.patient.familyName}, ${r.patient.mrn}`,
   })
 }
 
@@ -71,7 +94,9 @@ export async function writeAppointmentLetter(
   return storeLetter(sequelize, config, viewer, r, content, {
     title: `Letter to the patient: ${message.subject}`,
     fileName: `appointment-letter-${patient.mrn}-${a.id}.pdf`,
-    recipient: 'patient', appointmentId: a.id, subject: `Appointment letter for ${fullName}, ${patient.mrn}`,
+    recipient: 'patient',
+    appointmentId: a.id,
+    subject: `Appointment letter for ${fullName}, ${patient.mrn}`,
   })
 }
 

@@ -33,7 +33,12 @@ export async function renderLetterPdf(c: LetterContent, meta: { author: string; 
   // Loaded on the first letter: pdfkit and its font engine hold tens of MB a server answering
   // worklists need not carry.
   const { default: PDFDocument } = await import('pdfkit')
-  const doc = new PDFDocument({ size: 'A4', margins: { top: MARGIN, bottom: MARGIN + 10, left: MARGIN, right: MARGIN }, bufferPages: true, info: { Title: c.title, Author: meta.author, Subject: meta.subject, Creator: 'Ferrolane' } })
+  const doc = new PDFDocument({
+    size: 'A4',
+    margins: { top: MARGIN, bottom: MARGIN + 10, left: MARGIN, right: MARGIN },
+    bufferPages: true,
+    info: { Title: c.title, Author: meta.author, Subject: meta.subject, Creator: 'Ferrolane' },
+  })
   const chunks: Buffer[] = []
   doc.on('data', (b: Buffer) => chunks.push(b))
   const done = new Promise<Buffer>((resolve, reject) => {
@@ -47,12 +52,29 @@ export async function renderLetterPdf(c: LetterContent, meta: { author: string; 
 
   // Header: the clinic on the left, how to reach it on the right, over a teal rule.
   const top = doc.y
-  doc.font('bold').fontSize(13).fillColor(TEAL).text(c.clinic.name, MARGIN, top, { width: width * 0.6 })
-  doc.font('regular').fontSize(10).fillColor(INK).text(c.clinic.service, { width: width * 0.6 })
+  doc
+    .font('bold')
+    .fontSize(13)
+    .fillColor(TEAL)
+    .text(c.clinic.name, MARGIN, top, { width: width * 0.6 })
+  doc
+    .font('regular')
+    .fontSize(10)
+    .fillColor(INK)
+    .text(c.clinic.service, { width: width * 0.6 })
   const left = doc.y
-  doc.font('regular').fontSize(9).fillColor(MUTED).text(`Telephone ${c.clinic.phone}\n${c.clinic.email}`, MARGIN + width * 0.6, top, { width: width * 0.4, align: 'right' })
+  doc
+    .font('regular')
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text(`Telephone ${c.clinic.phone}\n${c.clinic.email}`, MARGIN + width * 0.6, top, { width: width * 0.4, align: 'right' })
   doc.y = Math.max(left, doc.y) + 8
-  doc.moveTo(MARGIN, doc.y).lineTo(MARGIN + width, doc.y).lineWidth(2).strokeColor(TEAL).stroke()
+  doc
+    .moveTo(MARGIN, doc.y)
+    .lineTo(MARGIN + width, doc.y)
+    .lineWidth(2)
+    .strokeColor(TEAL)
+    .stroke()
   doc.moveDown(1)
 
   doc.font('regular').fontSize(10).fillColor(INK)
@@ -69,8 +91,14 @@ export async function renderLetterPdf(c: LetterContent, meta: { author: string; 
   doc.fillColor(INK)
   c.patient.forEach((p, i) => {
     const y = panelTop + 6 + i * 14
-    doc.font('semibold').fontSize(10).text(`${p.label}:`, MARGIN + 8, y, { width: 130 })
-    doc.font('regular').fontSize(10).text(p.value, MARGIN + 140, y, { width: width - 150 })
+    doc
+      .font('semibold')
+      .fontSize(10)
+      .text(`${p.label}:`, MARGIN + 8, y, { width: 130 })
+    doc
+      .font('regular')
+      .fontSize(10)
+      .text(p.value, MARGIN + 140, y, { width: width - 150 })
   })
   doc.y = panelTop + panelHeight + 12
   doc.x = MARGIN
@@ -85,7 +113,10 @@ export async function renderLetterPdf(c: LetterContent, meta: { author: string; 
       const y = doc.y
       doc.font('semibold').fontSize(10).text(row.label, MARGIN, y, { width: 150 })
       const after = doc.y
-      doc.font('regular').fontSize(10).text(row.value, MARGIN + 155, y, { width: width - 155 })
+      doc
+        .font('regular')
+        .fontSize(10)
+        .text(row.value, MARGIN + 155, y, { width: width - 155 })
       doc.y = Math.max(after, doc.y) + 2
     }
     for (const line of s.lines ?? []) doc.font('regular').fontSize(10).text(line, MARGIN, doc.y, { width, paragraphGap: 3 })
@@ -112,8 +143,15 @@ export async function renderLetterPdf(c: LetterContent, meta: { author: string; 
     doc.switchToPage(i)
     const bottom = doc.page.height - MARGIN + 4
     doc.page.margins.bottom = 0
-    doc.font('regular').fontSize(8).fillColor(MUTED)
-      .text(`${meta.subject}. Written with Ferrolane by ${meta.author}. Page ${i + 1} of ${range.count}.`, MARGIN, bottom, { width, align: 'center', lineBreak: false })
+    doc
+      .font('regular')
+      .fontSize(8)
+      .fillColor(MUTED)
+      .text(`${meta.subject}. Written with Ferrolane by ${meta.author}. Page ${i + 1} of ${range.count}.`, MARGIN, bottom, {
+        width,
+        align: 'center',
+        lineBreak: false,
+      })
   }
   doc.end()
   return done

@@ -24,35 +24,85 @@ export async function bloodOrderingReport(sequelize: Sequelize, f: ReportFilters
   const found = await select<Record<string, unknown>>(sequelize, SQL(w.sql), w.replacements)
   const rows = found.map((g) => {
     const c = {
-      unitsCrossmatched: num(g.unitsCrossmatched) ?? 0, unitsTransfused: num(g.unitsTransfused) ?? 0,
-      patientsCrossmatched: num(g.patientsCrossmatched) ?? 0, patientsTransfused: num(g.patientsTransfused) ?? 0,
-      patients: num(g.patients) ?? 0, patientsTransfusedAll: num(g.patientsTransfusedAll) ?? 0,
+      unitsCrossmatched: num(g.unitsCrossmatched) ?? 0,
+      unitsTransfused: num(g.unitsTransfused) ?? 0,
+      patientsCrossmatched: num(g.patientsCrossmatched) ?? 0,
+      patientsTransfused: num(g.patientsTransfused) ?? 0,
+      patients: num(g.patients) ?? 0,
+      patientsTransfusedAll: num(g.patientsTransfusedAll) ?? 0,
     }
     const current = { order: g.usualOrder as 'group-and-screen' | 'crossmatch', units: num(g.usualUnits) ?? 0 }
     const s = suggestBloodOrder(current, c)
     return {
-      procedureCode: String(g.code), procedureName: String(g.name), patients: c.patients,
-      patientsCrossmatched: c.patientsCrossmatched, unitsCrossmatched: c.unitsCrossmatched, patientsTransfused: c.patientsTransfused, unitsTransfused: c.unitsTransfused,
-      ctRatio: round2(crossmatchToTransfusionRatio(c)), transfusionProbabilityPercent: round1(transfusionProbabilityPercent(c)), transfusionIndex: round2(transfusionIndex(c)),
-      usualBloodOrder: current.order, usualUnits: current.units, suggestion: s.suggestion, suggestionReason: s.reason,
-      meanBloodLossMl: round1(num(g.meanLossMl)), usualBloodLossMl: num(g.usualLossMl),
+      procedureCode: String(g.code),
+      procedureName: String(g.name),
+      patients: c.patients,
+      patientsCrossmatched: c.patientsCrossmatched,
+      unitsCrossmatched: c.unitsCrossmatched,
+      patientsTransfused: c.patientsTransfused,
+      unitsTransfused: c.unitsTransfused,
+      ctRatio: round2(crossmatchToTransfusionRatio(c)),
+      transfusionProbabilityPercent: round1(transfusionProbabilityPercent(c)),
+      transfusionIndex: round2(transfusionIndex(c)),
+      usualBloodOrder: current.order,
+      usualUnits: current.units,
+      suggestion: s.suggestion,
+      suggestionReason: s.reason,
+      meanBloodLossMl: round1(num(g.meanLossMl)),
+      usualBloodLossMl: num(g.usualLossMl),
     }
   })
   const period = `${PERIOD_BASIS.surgery} (${f.from} to ${f.to})`
   const xm = 'crossmatched patients (units crossmatched > 0)'
   return {
-    report: 'blood-ordering', period: { from: f.from, to: f.to, basis: PERIOD_BASIS.surgery }, filters: { surgeonId: f.surgeonId, procedureCode: f.procedureCode },
+    report: 'blood-ordering',
+    period: { from: f.from, to: f.to, basis: PERIOD_BASIS.surgery },
+    filters: { surgeonId: f.surgeonId, procedureCode: f.procedureCode },
     tables: {
       bloodOrdering: {
-        columns: ['procedureCode', 'procedureName', 'patients', 'patientsCrossmatched', 'unitsCrossmatched', 'patientsTransfused', 'unitsTransfused', 'ctRatio', 'transfusionProbabilityPercent', 'transfusionIndex', 'usualBloodOrder', 'usualUnits', 'suggestion', 'suggestionReason', 'meanBloodLossMl', 'usualBloodLossMl'].map((key) => ({ key, label: key })),
+        columns: [
+          'procedureCode',
+          'procedureName',
+          'patients',
+          'patientsCrossmatched',
+          'unitsCrossmatched',
+          'patientsTransfused',
+          'unitsTransfused',
+          'ctRatio',
+          'transfusionProbabilityPercent',
+          'transfusionIndex',
+          'usualBloodOrder',
+          'usualUnits',
+          'suggestion',
+          'suggestionReason',
+          'meanBloodLossMl',
+          'usualBloodLossMl',
+        ].map((key) => ({ key, label: key })),
         rows,
         definitions: {
-          ctRatio: { numerator: 'Units crossmatched', denominator: `Units transfused to ${xm}; acceptable ≤ 2.5 (clinical reference §9)`, period },
+          ctRatio: {
+            numerator: 'Units crossmatched',
+            denominator: `Units transfused to ${xm}; acceptable ≤ 2.5 (clinical reference §9)`,
+            period,
+          },
           transfusionProbabilityPercent: { numerator: `Transfused ${xm} × 100`, denominator: xm, period },
-          transfusionIndex: { numerator: `Units transfused to ${xm}`, denominator: `${xm}; ≥ 0.5 justifies crossmatching (clinical reference §9)`, period },
-          meanBloodLossMl: { numerator: 'Sum of measured blood loss (mL)', denominator: 'Operated episodes with a post-operative record', period },
-          suggestion: { numerator: 'Crossmatch with TI < 0.5 and T% < 30 → group-and-screen; C:T > 2.5 → fewer units; group-and-screen with ≥ 30% ' +
-                'transfused → crossmatch', denominator: 'The catalogue\'s current order for the operation', period },
+          transfusionIndex: {
+            numerator: `Units transfused to ${xm}`,
+            denominator: `${xm}; ≥ 0.5 justifies crossmatching (clinical reference §9)`,
+            period,
+          },
+          meanBloodLossMl: {
+            numerator: 'Sum of measured blood loss (mL)',
+            denominator: 'Operated episodes with a post-operative record',
+            period,
+          },
+          suggestion: {
+            numerator:
+              'Crossmatch with TI < 0.5 and T% < 30 → group-and-screen; C:T > 2.5 → fewer units; group-and-screen with ≥ 30% ' +
+              'transfused → crossmatch',
+            denominator: "The catalogue's current order for the operation",
+            period,
+          },
         },
       },
     },

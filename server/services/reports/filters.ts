@@ -6,7 +6,12 @@ import { clinicToday } from '../clinicDay'
 import { LIMITS, windowTooLong } from '../../../shared/limits'
 import { seesOwnPatientsOnly } from '../../../shared/permissions'
 
-export interface ReportFilters { from: string; to: string; surgeonId: number | null; procedureCode: string | null }
+export interface ReportFilters {
+  from: string
+  to: string
+  surgeonId: number | null
+  procedureCode: string | null
+}
 
 const DATE = /^\d{4}-\d{2}-\d{2}$/
 
@@ -15,8 +20,12 @@ export function reportFilters(viewer: Viewer, q: Record<string, unknown>): Repor
   const str = (k: string) => (typeof q[k] === 'string' && q[k] !== '' ? (q[k] as string) : null)
   const to = str('to') ?? clinicToday()
   const from = str('from') ?? addDays(to, -365)
-  for (const [k, v] of [['from', from], ['to', to]] as const) {
-    if (!DATE.test(v) || Number.isNaN(Date.parse(v))) throw new Invalid(`${k} must be a date (YYYY-MM-DD)`, { [k]: 'must be a date (YYYY-MM-DD)' })
+  for (const [k, v] of [
+    ['from', from],
+    ['to', to],
+  ] as const) {
+    if (!DATE.test(v) || Number.isNaN(Date.parse(v)))
+      throw new Invalid(`${k} must be a date (YYYY-MM-DD)`, { [k]: 'must be a date (YYYY-MM-DD)' })
   }
   if (from > to) throw new Invalid('from must be on or before to', { from: 'must be on or before to' })
   const tooLong = windowTooLong(from, to, LIMITS.reportDays, 'The report period')
@@ -25,14 +34,16 @@ export function reportFilters(viewer: Viewer, q: Record<string, unknown>): Repor
   const rawSurgeon = str('surgeonId')
   if (rawSurgeon !== null) {
     surgeonId = Number(rawSurgeon)
-    if (!Number.isSafeInteger(surgeonId) || surgeonId <= 0) throw new Invalid('surgeonId must be a positive whole number', { surgeonId: 'must be a positive whole number' })
+    if (!Number.isSafeInteger(surgeonId) || surgeonId <= 0)
+      throw new Invalid('surgeonId must be a positive whole number', { surgeonId: 'must be a positive whole number' })
   }
   if (seesOwnPatientsOnly(viewer.role)) {
-    if (surgeonId !== null && surgeonId !== viewer.userId) throw new Forbidden("Surgeons see their own figures only", 'not_your_patient')
+    if (surgeonId !== null && surgeonId !== viewer.userId) throw new Forbidden('Surgeons see their own figures only', 'not_your_patient')
     surgeonId = viewer.userId
   }
   const procedureCode = str('procedureCode')
-  if (procedureCode !== null && procedureCode.length > 20) throw new Invalid('procedureCode is too long', { procedureCode: 'is at most 20 characters' })
+  if (procedureCode !== null && procedureCode.length > 20)
+    throw new Invalid('procedureCode is too long', { procedureCode: 'is at most 20 characters' })
   return { from, to, surgeonId, procedureCode }
 }
 
@@ -41,9 +52,10 @@ export function reportFilters(viewer: Viewer, q: Record<string, unknown>): Repor
  * for the surgery-date reports), with named replacements.
  */
 export function whereFor(f: ReportFilters, basis: 'referral' | 'surgery'): { sql: string; replacements: Record<string, unknown> } {
-  const parts = basis === 'referral'
-    ? ['r.created_at >= :from', 'r.created_at < DATE_ADD(:to, INTERVAL 1 DAY)']
-    : ['o.surgery_date >= :from', 'o.surgery_date <= :to']
+  const parts =
+    basis === 'referral'
+      ? ['r.created_at >= :from', 'r.created_at < DATE_ADD(:to, INTERVAL 1 DAY)']
+      : ['o.surgery_date >= :from', 'o.surgery_date <= :to']
   if (f.surgeonId !== null) parts.push('r.surgeon_id = :surgeonId')
   if (f.procedureCode !== null) parts.push('p.code = :procedureCode')
   return { sql: parts.join(' AND '), replacements: { from: f.from, to: f.to, surgeonId: f.surgeonId, procedureCode: f.procedureCode } }

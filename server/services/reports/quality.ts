@@ -1,8 +1,15 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS } from '../../../shared/reports'
 import {
-  FIGURES, MEASURES, QUALITY_MEASURE_IDS, TXA_EXPECTED_LOSS_ML,
-  type MeasureFigure, type QualityBreakdownRow, type QualityMeasure, type QualityMeasureId, type QualityReport,
+  FIGURES,
+  MEASURES,
+  QUALITY_MEASURE_IDS,
+  TXA_EXPECTED_LOSS_ML,
+  type MeasureFigure,
+  type QualityBreakdownRow,
+  type QualityMeasure,
+  type QualityMeasureId,
+  type QualityReport,
 } from '../../../shared/reports/quality'
 import { classifyAnaemia } from '../../../shared/clinical'
 import { getClinicSettings } from '../clinicSettings'
@@ -21,7 +28,10 @@ const COUNTS: Record<QualityMeasureId, [string, string]> = {
   'post-operative-iron': [`${IDA} AND COALESCE(x.postOpIron, 0) = 1`, IDA],
   'tranexamic-acid': ['x.moderateLoss AND COALESCE(x.txaGiven, 0) = 1', 'x.moderateLoss'],
   'reassessed-after-each-unit': ['x.rbcReassessed', 'x.rbcRows'],
-  'transfusion-information': ['x.anyTransfusions > 0 AND (COALESCE(x.infoOnRecord, 0) = 1 OR x.infoOnTransfusion = 1)', 'x.anyTransfusions > 0'],
+  'transfusion-information': [
+    'x.anyTransfusions > 0 AND (COALESCE(x.infoOnRecord, 0) = 1 OR x.infoOnTransfusion = 1)',
+    'x.anyTransfusions > 0',
+  ],
   'screened-28-days-before': ['x.firstHbAt IS NOT NULL AND DATEDIFF(x.surgeryDate, x.firstHbAt) >= 28', '1'],
   'screened-in-window-14-45': ['x.screenedInWindow', '1'],
   'anaemic-on-day-of-surgery': [ANAEMIC('x.surgeryDayHbGL'), 'x.surgeryDayHbGL IS NOT NULL'],
@@ -45,10 +55,19 @@ const NAMES_SQL = `SELECT 'p' AS kind, id, code AS groupKey, name FROM procedure
 type Sums = { operated: number; rbcUnits: number; n: number[]; d: number[] }
 const empty = (): Sums => ({ operated: 0, rbcUnits: 0, n: QUALITY_MEASURE_IDS.map(() => 0), d: QUALITY_MEASURE_IDS.map(() => 0) })
 function add(into: Sums, g: Sums): void {
-  into.operated += g.operated; into.rbcUnits += g.rbcUnits
-  g.n.forEach((v, i) => { into.n[i]! += v }); g.d.forEach((v, i) => { into.d[i]! += v })
+  into.operated += g.operated
+  into.rbcUnits += g.rbcUnits
+  g.n.forEach((v, i) => {
+    into.n[i]! += v
+  })
+  g.d.forEach((v, i) => {
+    into.d[i]! += v
+  })
 }
-const figures = (s: Sums) => Object.fromEntries(QUALITY_MEASURE_IDS.map((id, i) => [id, { numerator: s.n[i]!, denominator: s.d[i]!, percent: pct(s.n[i]!, s.d[i]!) }])) as Record<QualityMeasureId, MeasureFigure>
+const figures = (s: Sums) =>
+  Object.fromEntries(
+    QUALITY_MEASURE_IDS.map((id, i) => [id, { numerator: s.n[i]!, denominator: s.d[i]!, percent: pct(s.n[i]!, s.d[i]!) }]),
+  ) as Record<QualityMeasureId, MeasureFigure>
 
 export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Promise<QualityReport> {
   const settings = await getClinicSettings()
@@ -61,8 +80,15 @@ export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Pro
     qualityExtras(sequelize, f),
   ])
   const groups = groupRows.map((g) => ({
-    procedureId: num(g.procedureId)!, surgeonId: num(g.surgeonId)!, month: String(g.month),
-    sums: { operated: num(g.operated) ?? 0, rbcUnits: num(g.rbcUnits) ?? 0, n: QUALITY_MEASURE_IDS.map((_, i) => num(g[`n${i}`]) ?? 0), d: QUALITY_MEASURE_IDS.map((_, i) => num(g[`d${i}`]) ?? 0) },
+    procedureId: num(g.procedureId)!,
+    surgeonId: num(g.surgeonId)!,
+    month: String(g.month),
+    sums: {
+      operated: num(g.operated) ?? 0,
+      rbcUnits: num(g.rbcUnits) ?? 0,
+      n: QUALITY_MEASURE_IDS.map((_, i) => num(g[`n${i}`]) ?? 0),
+      d: QUALITY_MEASURE_IDS.map((_, i) => num(g[`d${i}`]) ?? 0),
+    },
   }))
   mergeExtras(groups, extras, QUALITY_MEASURE_IDS, empty)
   const total = empty()
@@ -73,32 +99,66 @@ export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Pro
   const measures: QualityMeasure[] = QUALITY_MEASURE_IDS.map((id) => {
     const m = MEASURES[id]
     return {
-      id, title: m.title, ...all[id], value: null, unit: null,
-      definition: { numerator: m.numerator, denominator: m.denominator, period }, source: m.source, ...(m.benchmark ? { benchmark: m.benchmark } : {}),
+      id,
+      title: m.title,
+      ...all[id],
+      value: null,
+      unit: null,
+      definition: { numerator: m.numerator, denominator: m.denominator, period },
+      source: m.source,
+      ...(m.benchmark ? { benchmark: m.benchmark } : {}),
     }
   })
   const hbGroups = preHb.map((g) => ({ value: num(g.value)!, n: num(g.n) ?? 0 }))
   const hbCount = hbGroups.reduce((s, g) => s + g.n, 0)
   const figureOf = (id: keyof typeof FIGURES, numerator: number, denominator: number, value: number | null): QualityMeasure => ({
-    id, title: FIGURES[id].title, numerator, denominator, percent: null, value, unit: FIGURES[id].unit,
-    definition: { numerator: FIGURES[id].numerator, denominator: FIGURES[id].denominator, period }, source: FIGURES[id].source,
+    id,
+    title: FIGURES[id].title,
+    numerator,
+    denominator,
+    percent: null,
+    value,
+    unit: FIGURES[id].unit,
+    definition: { numerator: FIGURES[id].numerator, denominator: FIGURES[id].denominator, period },
+    source: FIGURES[id].source,
   })
   measures.push(figureOf('median-pre-transfusion-hb', hbCount, hbCount, round1(groupedMedian(hbGroups))))
-  measures.push(figureOf('units-per-100-operated', total.rbcUnits, total.operated, total.operated > 0 ? round1((100 * total.rbcUnits) / total.operated) : null))
+  measures.push(
+    figureOf(
+      'units-per-100-operated',
+      total.rbcUnits,
+      total.operated,
+      total.operated > 0 ? round1((100 * total.rbcUnits) / total.operated) : null,
+    ),
+  )
 
-  const names = groups.length === 0 ? [] : await select<{ kind: string; id: number; groupKey: string; name: string }>(sequelize, NAMES_SQL, {
-    procedureIds: [...new Set(groups.map((g) => g.procedureId))], surgeonIds: [...new Set(groups.map((g) => g.surgeonId))],
-  })
+  const names =
+    groups.length === 0
+      ? []
+      : await select<{ kind: string; id: number; groupKey: string; name: string }>(sequelize, NAMES_SQL, {
+          procedureIds: [...new Set(groups.map((g) => g.procedureId))],
+          surgeonIds: [...new Set(groups.map((g) => g.surgeonId))],
+        })
   const breakdown = (kind: 'p' | 'u', idOf: (g: (typeof groups)[number]) => number): QualityBreakdownRow[] => {
     const sums = new Map<number, Sums>()
-    for (const g of groups) { const s = sums.get(idOf(g)) ?? empty(); add(s, g.sums); sums.set(idOf(g), s) }
-    return [...sums.entries()].map(([id, s]) => {
-      const n = names.find((x) => x.kind === kind && Number(x.id) === id)
-      return { key: n?.groupKey ?? String(id), name: n?.name ?? '', measures: figures(s) }
-    }).sort((a, b) => a.key.localeCompare(b.key))
+    for (const g of groups) {
+      const s = sums.get(idOf(g)) ?? empty()
+      add(s, g.sums)
+      sums.set(idOf(g), s)
+    }
+    return [...sums.entries()]
+      .map(([id, s]) => {
+        const n = names.find((x) => x.kind === kind && Number(x.id) === id)
+        return { key: n?.groupKey ?? String(id), name: n?.name ?? '', measures: figures(s) }
+      })
+      .sort((a, b) => a.key.localeCompare(b.key))
   }
   const months = new Map<string, Sums>()
-  for (const g of groups) { const s = months.get(g.month) ?? empty(); add(s, g.sums); months.set(g.month, s) }
+  for (const g of groups) {
+    const s = months.get(g.month) ?? empty()
+    add(s, g.sums)
+    months.set(g.month, s)
+  }
 
   return {
     period: { from: f.from, to: f.to, basis: PERIOD_BASIS.surgery },
@@ -107,7 +167,8 @@ export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Pro
     byOperation: breakdown('p', (g) => g.procedureId),
     bySurgeon: breakdown('u', (g) => g.surgeonId),
     trend: [...months.entries()].sort((a, b) => a[0].localeCompare(b[0])).map(([month, s]) => ({ month, measures: figures(s) })),
-    caution: 'Figures count what was recorded in Ferrolane; a measure is only as complete as its records. Benchmarks are national ' +
-        'audit figures for comparison, not targets set by the audit.',
+    caution:
+      'Figures count what was recorded in Ferrolane; a measure is only as complete as its records. Benchmarks are national ' +
+      'audit figures for comparison, not targets set by the audit.',
   }
 }

@@ -10,10 +10,10 @@ import { num, select, type ReportFilters } from './filters'
 export const EXTRA_MEASURE_IDS = ['cancelled-for-anaemia', 'crossmatch-against-schedule'] as const
 export type ExtraMeasureId = (typeof EXTRA_MEASURE_IDS)[number]
 
-const FILTERS = (f: ReportFilters) => [
-  ...(f.surgeonId !== null ? ['r.surgeon_id = :surgeonId'] : []),
-  ...(f.procedureCode !== null ? ['p.code = :procedureCode'] : []),
-].map((s) => ` AND ${s}`).join('')
+const FILTERS = (f: ReportFilters) =>
+  [...(f.surgeonId !== null ? ['r.surgeon_id = :surgeonId'] : []), ...(f.procedureCode !== null ? ['p.code = :procedureCode'] : [])]
+    .map((s) => ` AND ${s}`)
+    .join('')
 
 // Events: a planned operation date that ended in surgery (the operative record's date) or in a
 // recorded cancellation (the cancelled date). Positive red-cell antibodies need a crossmatch
@@ -31,12 +31,25 @@ SELECT e.procedureId, e.surgeonId, e.month, SUM(e.cn) AS cn, SUM(e.cd) AS cd, SU
   WHERE c.kind = 'cancelled' AND c.from_date >= :from AND c.from_date <= :to${FILTERS(f)}
 ) e GROUP BY e.procedureId, e.surgeonId, e.month`
 
-export interface ExtraGroup { procedureId: number; surgeonId: number; month: string; n: Record<ExtraMeasureId, number>; d: Record<ExtraMeasureId, number> }
+export interface ExtraGroup {
+  procedureId: number
+  surgeonId: number
+  month: string
+  n: Record<ExtraMeasureId, number>
+  d: Record<ExtraMeasureId, number>
+}
 
 export async function qualityExtras(sequelize: Sequelize, f: ReportFilters): Promise<ExtraGroup[]> {
-  const rows = await select<Record<string, unknown>>(sequelize, SQL(f), { from: f.from, to: f.to, surgeonId: f.surgeonId, procedureCode: f.procedureCode })
+  const rows = await select<Record<string, unknown>>(sequelize, SQL(f), {
+    from: f.from,
+    to: f.to,
+    surgeonId: f.surgeonId,
+    procedureCode: f.procedureCode,
+  })
   return rows.map((g) => ({
-    procedureId: num(g.procedureId)!, surgeonId: num(g.surgeonId)!, month: String(g.month),
+    procedureId: num(g.procedureId)!,
+    surgeonId: num(g.surgeonId)!,
+    month: String(g.month),
     n: { 'cancelled-for-anaemia': num(g.cn) ?? 0, 'crossmatch-against-schedule': num(g.xn) ?? 0 },
     d: { 'cancelled-for-anaemia': num(g.cd) ?? 0, 'crossmatch-against-schedule': num(g.xd) ?? 0 },
   }))
@@ -49,10 +62,14 @@ type Group = { procedureId: number; surgeonId: number; month: string; sums: Sums
 export function mergeExtras(groups: Group[], extras: ExtraGroup[], ids: readonly string[], empty: () => Sums): void {
   for (const x of extras) {
     let g = groups.find((y) => y.procedureId === x.procedureId && y.surgeonId === x.surgeonId && y.month === x.month)
-    if (!g) { g = { procedureId: x.procedureId, surgeonId: x.surgeonId, month: x.month, sums: empty() }; groups.push(g) }
+    if (!g) {
+      g = { procedureId: x.procedureId, surgeonId: x.surgeonId, month: x.month, sums: empty() }
+      groups.push(g)
+    }
     for (const id of EXTRA_MEASURE_IDS) {
       const i = ids.indexOf(id)
-      g.sums.n[i]! += x.n[id]; g.sums.d[i]! += x.d[id]
+      g.sums.n[i]! += x.n[id]
+      g.sums.d[i]! += x.d[id]
     }
   }
 }

@@ -22,28 +22,58 @@ WITH x AS (
 ), d AS (
   SELECT ${LEGS.map(([key, , a, b]) => `DATEDIFF(${b}, ${a}) AS ${key}`).join(', ')} FROM x
 )
-SELECT ${LEGS.map(([key]) => `COUNT(${key}) OVER () AS ${key}_n,
+SELECT ${LEGS.map(
+  ([key]) => `COUNT(${key}) OVER () AS ${key}_n,
   PERCENTILE_CONT(0.5) WITHIN GROUP (ORDER BY ${key}) OVER () AS ${key}_median,
-  PERCENTILE_CONT(0.9) WITHIN GROUP (ORDER BY ${key}) OVER () AS ${key}_p90`).join(',\n  ')}
+  PERCENTILE_CONT(0.9) WITHIN GROUP (ORDER BY ${key}) OVER () AS ${key}_p90`,
+).join(',\n  ')}
 FROM d LIMIT 1`
 
 export async function waitingTimesReport(sequelize: Sequelize, f: ReportFilters): Promise<Report> {
   const w = whereFor(f, 'referral')
   const [found] = await select<Record<string, unknown>>(sequelize, SQL(w.sql), w.replacements)
   const period = `${PERIOD_BASIS.referral} (${f.from} to ${f.to})`
-  const definitions = Object.fromEntries(LEGS.map(([key, label, a, b]) => [key, {
-    numerator: `Calendar days from ${a.replace(/_/g, ' ')} to ${b.replace(/_/g, ' ')} (${label}); median and 90th centile (linear ` +
+  const definitions = Object.fromEntries(
+    LEGS.map(([key, label, a, b]) => [
+      key,
+      {
+        numerator:
+          `Calendar days from ${a.replace(/_/g, ' ')} to ${b.replace(/_/g, ' ')} (${label}); median and 90th centile (linear ` +
           `interpolation)`,
-    denominator: 'Episodes where both dates exist (clinic = first move to clinic; treatment = first iron dose given; surgery = actual ' +
-            'surgery date)',
-    period,
-  }]))
+        denominator:
+          'Episodes where both dates exist (clinic = first move to clinic; treatment = first iron dose given; surgery = actual ' +
+          'surgery date)',
+        period,
+      },
+    ]),
+  )
   const rows = LEGS.map(([key, label]) => {
     const n = num(found?.[`${key}_n`]) ?? 0
-    return { leg: key, label, episodes: n, medianDays: n ? round1(num(found?.[`${key}_median`])) : null, p90Days: n ? round1(num(found?.[`${key}_p90`])) : null, definition: definitions[key]! }
+    return {
+      leg: key,
+      label,
+      episodes: n,
+      medianDays: n ? round1(num(found?.[`${key}_median`])) : null,
+      p90Days: n ? round1(num(found?.[`${key}_p90`])) : null,
+      definition: definitions[key]!,
+    }
   })
   return {
-    report: 'waiting-times', period: { from: f.from, to: f.to, basis: PERIOD_BASIS.referral }, filters: { surgeonId: f.surgeonId, procedureCode: f.procedureCode },
-    tables: { waitingTimes: { columns: [{ key: 'leg', label: 'Leg' }, { key: 'label', label: 'Label' }, { key: 'episodes', label: 'Episodes' }, { key: 'medianDays', label: 'Median (days)' }, { key: 'p90Days', label: '90th centile (days)' }], rows, definitions } },
+    report: 'waiting-times',
+    period: { from: f.from, to: f.to, basis: PERIOD_BASIS.referral },
+    filters: { surgeonId: f.surgeonId, procedureCode: f.procedureCode },
+    tables: {
+      waitingTimes: {
+        columns: [
+          { key: 'leg', label: 'Leg' },
+          { key: 'label', label: 'Label' },
+          { key: 'episodes', label: 'Episodes' },
+          { key: 'medianDays', label: 'Median (days)' },
+          { key: 'p90Days', label: '90th centile (days)' },
+        ],
+        rows,
+        definitions,
+      },
+    },
   }
 }

@@ -1,7 +1,13 @@
 import { describe, expect, it } from 'vitest'
 import { ApiError } from '../../../src/api/client'
 import { parseRetryAfter } from '../../../src/api/retryAfter'
-import { isDatabaseUnavailable, MAX_RETRY_DELAY_MS, retryDelayMs, shouldRetryRead, TRANSIENT_READ_RETRIES } from '../../../src/api/retryPolicy'
+import {
+  isDatabaseUnavailable,
+  MAX_RETRY_DELAY_MS,
+  retryDelayMs,
+  shouldRetryRead,
+  TRANSIENT_READ_RETRIES,
+} from '../../../src/api/retryPolicy'
 
 const unavailable = (retryAfterMs?: number) => new ApiError(503, 'unavailable', 'The database is not reachable', {}, {}, retryAfterMs)
 const offline = new ApiError(0, 'network_error', 'Ferrolane cannot reach the server.')
@@ -19,7 +25,15 @@ describe('when a read fails, the client decides whether to ask again', () => {
   })
 
   it('when the server answers 4xx, then it is never retried, not even once', () => {
-    for (const [status, code] of [[400, 'invalid'], [401, 'unauthenticated'], [403, 'forbidden'], [404, 'not_found'], [409, 'conflict'], [422, 'rule'], [429, 'too_many_requests']] as const) {
+    for (const [status, code] of [
+      [400, 'invalid'],
+      [401, 'unauthenticated'],
+      [403, 'forbidden'],
+      [404, 'not_found'],
+      [409, 'conflict'],
+      [422, 'rule'],
+      [429, 'too_many_requests'],
+    ] as const) {
       expect(shouldRetryRead(0, new ApiError(status, code, 'no')), `${status}`).toBe(false)
     }
   })

@@ -13,10 +13,12 @@ const errorsOf = async (body: object) => {
 }
 
 describe('Hb entry units', () => {
-  it('when Hb is 8.0 mmol/L, then it shows as 128.9 g/L and 12.9 g/dL (×16.11 ' +
-    'g/L per mmol/L, per Fe monomer; clinical reference §7)', () => {
-    expect(hbInAllUnits(8, 'mmol/L')).toEqual({ gL: 128.9, gDl: 12.9, mmolL: 8 })
-  })
+  it(
+    'when Hb is 8.0 mmol/L, then it shows as 128.9 g/L and 12.9 g/dL (×16.11 ' + 'g/L per mmol/L, per Fe monomer; clinical reference §7)',
+    () => {
+      expect(hbInAllUnits(8, 'mmol/L')).toEqual({ gL: 128.9, gDl: 12.9, mmolL: 8 })
+    },
+  )
 
   it('when the source is a point-of-care meter or an outside mmol/L laboratory, then its default unit is g/dL or mmol/L', () => {
     expect(hbDefaultUnit('hospital-lab')).toBe('g/L')
@@ -25,8 +27,12 @@ describe('Hb entry units', () => {
   })
 
   it('when Hb 8.5 is entered in mmol/L or g/dL without confirmation, then it is refused naming both readings and both ranges', async () => {
-    expect(hbUnitAmbiguity(8.5, 'mmol/L')).toMatch(/fits both g\/dL \(2–25\) and mmol\/L \(1\.2–15\.5\): it is 85 g\/L as g\/dL but 137 g\/L as mmol\/L/)
-    expect(await errorsOf({ analyte: 'hb', value: 8.5, unit: 'g/dL' })).toEqual([expect.stringMatching(/^unitConfirmed: Hb 8\.5 fits both/)])
+    expect(hbUnitAmbiguity(8.5, 'mmol/L')).toMatch(
+      /fits both g\/dL \(2–25\) and mmol\/L \(1\.2–15\.5\): it is 85 g\/L as g\/dL but 137 g\/L as mmol\/L/,
+    )
+    expect(await errorsOf({ analyte: 'hb', value: 8.5, unit: 'g/dL' })).toEqual([
+      expect.stringMatching(/^unitConfirmed: Hb 8\.5 fits both/),
+    ])
     expect(await errorsOf({ analyte: 'hb', value: 8.5, unit: 'g/dL', unitConfirmed: true })).toEqual([])
   })
 

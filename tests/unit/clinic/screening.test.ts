@@ -36,17 +36,31 @@ describe('screening outcome (one copy for results, imports and the seed)', () =>
 
 describe('derived results', () => {
   it('when iron is 10 µmol/L and TIBC 60 µmol/L in one sample, then TSAT is 16.7 % (TSAT = iron / TIBC × 100; reference §7)', () => {
-    expect(tsatFromSample([{ id: 1, analyte: 'iron', valueCanonical: 10 }, { id: 2, analyte: 'tibc', valueCanonical: 60 }])).toEqual({ value: 16.7, derivedFrom: [1, 2] })
+    expect(
+      tsatFromSample([
+        { id: 1, analyte: 'iron', valueCanonical: 10 },
+        { id: 2, analyte: 'tibc', valueCanonical: 60 },
+      ]),
+    ).toEqual({ value: 16.7, derivedFrom: [1, 2] })
   })
 
   it('when the laboratory reported a TSAT for the sample, then none is derived', () => {
-    expect(tsatFromSample([{ id: 1, analyte: 'iron', valueCanonical: 10 }, { id: 2, analyte: 'tibc', valueCanonical: 60 }, { id: 3, analyte: 'tsat', valueCanonical: 17 }])).toBeNull()
+    expect(
+      tsatFromSample([
+        { id: 1, analyte: 'iron', valueCanonical: 10 },
+        { id: 2, analyte: 'tibc', valueCanonical: 60 },
+        { id: 3, analyte: 'tsat', valueCanonical: 17 },
+      ]),
+    ).toBeNull()
   })
 
-  it('when a 55-year-old woman has creatinine 0.9 mg/dL (79.6 µmol/L), then eGFR is about 76 (CKD-EPI 2021, Inker NEJM 2021; a ' +
-    'secondary page gives ≈ 76)', () => {
-    expect(egfrFromCreatinine(0.9 * 88.4, '2027-06-01', { dateOfBirth: '1972-01-15', sex: 'female' })).toBeCloseTo(75.5, 0)
-  })
+  it(
+    'when a 55-year-old woman has creatinine 0.9 mg/dL (79.6 µmol/L), then eGFR is about 76 (CKD-EPI 2021, Inker NEJM 2021; a ' +
+      'secondary page gives ≈ 76)',
+    () => {
+      expect(egfrFromCreatinine(0.9 * 88.4, '2027-06-01', { dateOfBirth: '1972-01-15', sex: 'female' })).toBeCloseTo(75.5, 0)
+    },
+  )
 
   it('when a creatinine is taken at 00:30 London time on an 18th birthday, then the clinic day counts and eGFR is reported', () => {
     // 23:30 UTC on 14 July is 00:30 BST on 15 July, the birthday.

@@ -3,17 +3,34 @@ import { classifyAnaemia, classifyIronStatus, isIronDeficient } from '../../../s
 import { clinicalError } from './helpers'
 
 describe('anaemia by WHO 2024 cut-offs and the Muñoz 2017 surgical threshold', () => {
-  it('when a man has Hb 125 g/L, then he is mildly anaemic by WHO 2024 and ' +
-    'anaemic by the surgical threshold (clinical reference §5)', () => {
-    expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'who' })).toMatchObject({ anaemic: true, severity: 'mild', thresholdGL: 130 })
-    expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'surgical' })).toMatchObject({ anaemic: true, thresholdGL: 130 })
-  })
+  it(
+    'when a man has Hb 125 g/L, then he is mildly anaemic by WHO 2024 and ' + 'anaemic by the surgical threshold (clinical reference §5)',
+    () => {
+      expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'who' })).toMatchObject({
+        anaemic: true,
+        severity: 'mild',
+        thresholdGL: 130,
+      })
+      expect(classifyAnaemia({ hbGL: 125, sex: 'male', criteria: 'surgical' })).toMatchObject({ anaemic: true, thresholdGL: 130 })
+    },
+  )
 
-  it('when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 but is by the surgical 130 g/L threshold (Muñoz 2017, ' +
-    'secondary source)', () => {
-    expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'who' })).toMatchObject({ anaemic: false, severity: 'none', thresholdGL: 120 })
-    expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'surgical' })).toMatchObject({ anaemic: true, severity: 'mild', thresholdGL: 130 })
-  })
+  it(
+    'when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 but is by the surgical 130 g/L threshold (Muñoz 2017, ' +
+      'secondary source)',
+    () => {
+      expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'who' })).toMatchObject({
+        anaemic: false,
+        severity: 'none',
+        thresholdGL: 120,
+      })
+      expect(classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'surgical' })).toMatchObject({
+        anaemic: true,
+        severity: 'mild',
+        thresholdGL: 130,
+      })
+    },
+  )
 
   it('when Hb is exactly 130 g/L, then the patient is not anaemic (strict "<", WHO 2024 and Muñoz 2017)', () => {
     expect(classifyAnaemia({ hbGL: 130, sex: 'male', criteria: 'who' }).anaemic).toBe(false)
@@ -31,12 +48,24 @@ describe('anaemia by WHO 2024 cut-offs and the Muñoz 2017 surgical threshold', 
 
   it('when Hb is at the severity edges, then bands are mild ≥110, moderate 80–109, severe <80 (WHO 2011, from memory)', () => {
     const severity = (hbGL: number) => classifyAnaemia({ hbGL, sex: 'male', criteria: 'who' }).severity
-    expect([severity(110), severity(109.9), severity(80), severity(79.9), severity(40)]).toEqual(['mild', 'moderate', 'moderate', 'severe', 'severe'])
+    expect([severity(110), severity(109.9), severity(80), severity(79.9), severity(40)]).toEqual([
+      'mild',
+      'moderate',
+      'moderate',
+      'severe',
+      'severe',
+    ])
   })
 
   it('when a woman is pregnant, then the cut-off is 110 g/L, or 105 g/L in the second trimester (WHO 2024)', () => {
-    expect(classifyAnaemia({ hbGL: 108, sex: 'female', pregnant: true, pregnancyTrimester: 1, criteria: 'who' })).toMatchObject({ anaemic: true, thresholdGL: 110 })
-    expect(classifyAnaemia({ hbGL: 108, sex: 'female', pregnant: true, pregnancyTrimester: 2, criteria: 'who' })).toMatchObject({ anaemic: false, thresholdGL: 105 })
+    expect(classifyAnaemia({ hbGL: 108, sex: 'female', pregnant: true, pregnancyTrimester: 1, criteria: 'who' })).toMatchObject({
+      anaemic: true,
+      thresholdGL: 110,
+    })
+    expect(classifyAnaemia({ hbGL: 108, sex: 'female', pregnant: true, pregnancyTrimester: 2, criteria: 'who' })).toMatchObject({
+      anaemic: false,
+      thresholdGL: 105,
+    })
     expect(classifyAnaemia({ hbGL: 108, sex: 'female', pregnant: true, criteria: 'who' }).thresholdGL).toBe(110)
   })
 
@@ -53,7 +82,9 @@ describe('anaemia by WHO 2024 cut-offs and the Muñoz 2017 surgical threshold', 
     clinicalError(() => classifyAnaemia({ hbGL: 125, sex: 'male', pregnant: true, criteria: 'who' }))
     clinicalError(() => classifyAnaemia({ hbGL: 125, sex: 'female', criteria: 'nice' as never }))
     clinicalError(() => classifyAnaemia({ hbGL: 125, sex: 'female', pregnant: true, pregnancyTrimester: 4 as never, criteria: 'who' }))
-    expect(clinicalError(() => classifyAnaemia({ hbGL: 12.5, sex: 'female', criteria: 'who' })).message).toBe('hbGL must be between 20 and 250 g/L (got 12.5)')
+    expect(clinicalError(() => classifyAnaemia({ hbGL: 12.5, sex: 'female', criteria: 'who' })).message).toBe(
+      'hbGL must be between 20 and 250 g/L (got 12.5)',
+    )
   })
 })
 
@@ -98,11 +129,18 @@ describe('iron status (Muñoz 2017 consensus cut-offs, from memory)', () => {
   })
 
   it('when the status is deficiency or restriction, then isIronDeficient is true; otherwise false', () => {
-    expect(['absolute-deficiency', 'iron-restricted', 'replete', 'indeterminate'].map((s) => isIronDeficient(s as never))).toEqual([true, true, false, false])
+    expect(['absolute-deficiency', 'iron-restricted', 'replete', 'indeterminate'].map((s) => isIronDeficient(s as never))).toEqual([
+      true,
+      true,
+      false,
+      false,
+    ])
   })
 
   it('when TSAT is above 100 % or ferritin negative, then they are refused', () => {
-    expect(clinicalError(() => classifyIronStatus({ ferritinUgL: 60, tsatPct: 150 })).message).toBe('tsatPct must be between 0 and 100 % (got 150)')
+    expect(clinicalError(() => classifyIronStatus({ ferritinUgL: 60, tsatPct: 150 })).message).toBe(
+      'tsatPct must be between 0 and 100 % (got 150)',
+    )
     clinicalError(() => classifyIronStatus({ ferritinUgL: -1 }))
     clinicalError(() => classifyIronStatus({ ferritinUgL: 60, crpMgL: Number.NaN }))
   })

@@ -38,10 +38,13 @@ describe('Severinghaus 1979 eq. 1 (J Appl Physiol 46:599), values computed from 
     }
   })
 
-  it('when P50 is 19 mmHg (fetal-like), then SO2 at 26.8 mmHg is 0.7184 (computed from Severinghaus 1979 eq. 1 with Kelman 1966 P50 ' +
-    'shift)', () => {
-    expectWithin(saturationFromPo2(26.8, { p50MmHg: 19 }), 0.7184, 1e-4)
-  })
+  it(
+    'when P50 is 19 mmHg (fetal-like), then SO2 at 26.8 mmHg is 0.7184 (computed from Severinghaus 1979 eq. 1 with Kelman 1966 P50 ' +
+      'shift)',
+    () => {
+      expectWithin(saturationFromPo2(26.8, { p50MmHg: 19 }), 0.7184, 1e-4)
+    },
+  )
 
   it('when P50 is raised to 30 mmHg (late pregnancy, common practice), then SO2 at 40 mmHg falls (right shift)', () => {
     expect(saturationFromPo2(40, { p50MmHg: 30 })).toBeLessThan(saturationFromPo2(40))
@@ -73,36 +76,36 @@ describe('Hill equation (n 2.7, P50 26.8 mmHg), values computed from the formula
 })
 
 describe('PO2 from saturation', () => {
-  it('when SO2 is 0.5 / 0.75 / 0.9 / 0.975, then the exact inverse of eq. 1 gives 26.86 / 40.04 / 58.66 / 96.48 mmHg (Ellis 1989 ' +
-    'inverse values, from memory)', () => {
-    const cases: [number, number][] = [
-      [0.5, 26.86],
-      [0.75, 40.04],
-      [0.9, 58.66],
-      [0.975, 96.48],
-    ]
-    for (const [s, po2] of cases) expectWithin(po2FromSaturation(s), po2, 0.02)
-  })
+  it(
+    'when SO2 is 0.5 / 0.75 / 0.9 / 0.975, then the exact inverse of eq. 1 gives 26.86 / 40.04 / 58.66 / 96.48 mmHg (Ellis 1989 ' +
+      'inverse values, from memory)',
+    () => {
+      const cases: [number, number][] = [
+        [0.5, 26.86],
+        [0.75, 40.04],
+        [0.9, 58.66],
+        [0.975, 96.48],
+      ]
+      for (const [s, po2] of cases) expectWithin(po2FromSaturation(s), po2, 0.02)
+    },
+  )
 
-  it('when Severinghaus eq. 2 is used, then SO2 0.5 / 0.75 / 0.9 / 0.975 gives 26.83 / 40.21 / 57.98 / 96.56 mmHg (computed from ' +
-    'Severinghaus 1979 eq. 2)', () => {
-    const cases: [number, number][] = [
-      [0.5, 26.83],
-      [0.75, 40.21],
-      [0.9, 57.98],
-      [0.975, 96.56],
-    ]
-    for (const [s, po2] of cases) expectWithin(severinghausInversePo2(s), po2, 0.02)
-  })
+  it(
+    'when Severinghaus eq. 2 is used, then SO2 0.5 / 0.75 / 0.9 / 0.975 gives 26.83 / 40.21 / 57.98 / 96.56 mmHg (computed from ' +
+      'Severinghaus 1979 eq. 2)',
+    () => {
+      const cases: [number, number][] = [
+        [0.5, 26.83],
+        [0.75, 40.21],
+        [0.9, 57.98],
+        [0.975, 96.56],
+      ]
+      for (const [s, po2] of cases) expectWithin(severinghausInversePo2(s), po2, 0.02)
+    },
+  )
 
   it('when PO2 goes to SO2 and back, then it returns within 1e-6 mmHg for both models and shifted P50s', () => {
-    const options = [
-      {},
-      { p50MmHg: 19 },
-      { p50MmHg: 30 },
-      { model: 'hill' as const },
-      { model: 'hill' as const, p50MmHg: 19, hillN: 2.4 },
-    ]
+    const options = [{}, { p50MmHg: 19 }, { p50MmHg: 30 }, { model: 'hill' as const }, { model: 'hill' as const, p50MmHg: 19, hillN: 2.4 }]
     for (const option of options) {
       for (const po2 of [0.5, 5, 20, 26.8, 40, 60, 100, 200, 400]) {
         expectWithin(po2FromSaturation(saturationFromPo2(po2, option), option), po2, 1e-6)

@@ -4,20 +4,23 @@ import { clinicalError } from './helpers'
 
 // Hb in the sheet is g/dL; here ×10 to g/L with the 0.24 factor.
 describe('Ganzoni iron deficit (Ganzoni 1970, Schweiz Med Wochenschr 100:301, citation from memory; formula as in SmPCs)', () => {
-  it('when a 70 kg patient has Hb 90 g/L and target 150, then the deficit is 1508 mg (computed from Ganzoni 1970\'s formula)', () => {
+  it("when a 70 kg patient has Hb 90 g/L and target 150, then the deficit is 1508 mg (computed from Ganzoni 1970's formula)", () => {
     expect(ganzoniIronDeficit({ weightKg: 70, hbGL: 90, targetHbGL: 150 })).toBe(1508)
   })
 
-  it('when a 70 kg patient has Hb 80 g/L and target 120, then the deficit is 1172 mg (computed from Ganzoni 1970\'s formula)', () => {
+  it("when a 70 kg patient has Hb 80 g/L and target 120, then the deficit is 1172 mg (computed from Ganzoni 1970's formula)", () => {
     expect(ganzoniIronDeficit({ weightKg: 70, hbGL: 80, targetHbGL: 120 })).toBe(1172)
   })
 
-  it('when a 30 kg patient has Hb 80 g/L and target 130, then stores are 15 mg/kg and the deficit is 810 mg (computed from Ganzoni ' +
-    '1970\'s formula)', () => {
-    expect(ganzoniIronDeficit({ weightKg: 30, hbGL: 80, targetHbGL: 130 })).toBe(810)
-  })
+  it(
+    'when a 30 kg patient has Hb 80 g/L and target 130, then stores are 15 mg/kg and the deficit is 810 mg (computed from Ganzoni ' +
+      "1970's formula)",
+    () => {
+      expect(ganzoniIronDeficit({ weightKg: 30, hbGL: 80, targetHbGL: 130 })).toBe(810)
+    },
+  )
 
-  it('when a 60 kg patient has Hb 125 g/L and target 130, then the deficit is 572 mg (computed from Ganzoni 1970\'s formula)', () => {
+  it("when a 60 kg patient has Hb 125 g/L and target 130, then the deficit is 572 mg (computed from Ganzoni 1970's formula)", () => {
     expect(ganzoniIronDeficit({ weightKg: 60, hbGL: 125, targetHbGL: 130 })).toBe(572)
   })
 

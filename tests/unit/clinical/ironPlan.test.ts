@@ -38,39 +38,45 @@ const oralAlternate: IronProduct = {
 }
 
 describe('IV iron dose plan', () => {
-  it('when a 45 kg patient with Hb 90 g/L gets a carboxymaltose-like product, then the first dose is 900 mg (20 mg/kg cap, EU SmPC; ' +
-    'sheet test case)', () => {
-    const plan = ironDosePlan({ product: carboxymaltoseLike, weightKg: 45, hbGL: 90, targetHbGL: 150 })
-    // Ganzoni: 45 × 60 × 0.24 + 500 = 1148 mg (computed from Ganzoni 1970's formula), to the nearest 100 mg vial step.
-    expect(plan.deficitMg).toBe(1148)
-    expect(plan.totalMg).toBe(1100)
-    expect(plan.doses.map((d) => [d.doseMg, d.dayOffset])).toEqual([
-      [900, 0],
-      [200, 7],
-    ])
-    expect(plan.doses[0].cappedBy).toEqual(['maxSingleDoseMgPerKg'])
-    expect(plan.appliedCaps.perDoseLimitMg).toBe(900)
-    expect(plan.warnings.some((w) => w.includes('given as 2 doses'))).toBe(true)
-  })
+  it(
+    'when a 45 kg patient with Hb 90 g/L gets a carboxymaltose-like product, then the first dose is 900 mg (20 mg/kg cap, EU SmPC; ' +
+      'sheet test case)',
+    () => {
+      const plan = ironDosePlan({ product: carboxymaltoseLike, weightKg: 45, hbGL: 90, targetHbGL: 150 })
+      // Ganzoni: 45 × 60 × 0.24 + 500 = 1148 mg (computed from Ganzoni 1970's formula), to the nearest 100 mg vial step.
+      expect(plan.deficitMg).toBe(1148)
+      expect(plan.totalMg).toBe(1100)
+      expect(plan.doses.map((d) => [d.doseMg, d.dayOffset])).toEqual([
+        [900, 0],
+        [200, 7],
+      ])
+      expect(plan.doses[0].cappedBy).toEqual(['maxSingleDoseMgPerKg'])
+      expect(plan.appliedCaps.perDoseLimitMg).toBe(900)
+      expect(plan.warnings.some((w) => w.includes('given as 2 doses'))).toBe(true)
+    },
+  )
 
   it('when a start date is given, then each dose carries its calendar date', () => {
     const plan = ironDosePlan({ product: carboxymaltoseLike, weightKg: 45, hbGL: 90, targetHbGL: 150, startDate: '2025-03-28' })
     expect(plan.doses.map((d) => d.date)).toEqual(['2025-03-28', '2025-04-04'])
   })
 
-  it('when a 70 kg patient needs 1508 mg of an iron-sucrose-like product, then 200 mg doses run three a week, within 600 mg in any 7 ' +
-    'days', () => {
-    const plan = ironDosePlan({ product: sucroseLike, weightKg: 70, hbGL: 90, targetHbGL: 150 })
-    expect(plan.totalMg).toBe(1500)
-    expect(plan.doses.map((d) => d.doseMg)).toEqual([200, 200, 200, 200, 200, 200, 200, 100])
-    expect(plan.doses.map((d) => d.dayOffset)).toEqual([0, 2, 4, 7, 9, 11, 14, 16])
-    expect(plan.doses[3].cappedBy).toContain('maxWeeklyMg')
-    for (const dose of plan.doses) {
-      const week = plan.doses.filter((d) => d.dayOffset > dose.dayOffset - 7 && d.dayOffset <= dose.dayOffset)
-      expect(week.reduce((s, d) => s + d.doseMg, 0)).toBeLessThanOrEqual(600)
-    }
-    expect(plan.warnings.some((w) => w.includes('8 doses are needed'))).toBe(true)
-  })
+  it(
+    'when a 70 kg patient needs 1508 mg of an iron-sucrose-like product, then 200 mg doses run three a week, within 600 mg in any 7 ' +
+      'days',
+    () => {
+      const plan = ironDosePlan({ product: sucroseLike, weightKg: 70, hbGL: 90, targetHbGL: 150 })
+      expect(plan.totalMg).toBe(1500)
+      expect(plan.doses.map((d) => d.doseMg)).toEqual([200, 200, 200, 200, 200, 200, 200, 100])
+      expect(plan.doses.map((d) => d.dayOffset)).toEqual([0, 2, 4, 7, 9, 11, 14, 16])
+      expect(plan.doses[3].cappedBy).toContain('maxWeeklyMg')
+      for (const dose of plan.doses) {
+        const week = plan.doses.filter((d) => d.dayOffset > dose.dayOffset - 7 && d.dayOffset <= dose.dayOffset)
+        expect(week.reduce((s, d) => s + d.doseMg, 0)).toBeLessThanOrEqual(600)
+      }
+      expect(plan.warnings.some((w) => w.includes('8 doses are needed'))).toBe(true)
+    },
+  )
 
   it('when the product has a course maximum, then the total is capped and says so', () => {
     const plan = ironDosePlan({ product: { ...carboxymaltoseLike, maxTotalMg: 1000 }, weightKg: 80, hbGL: 90, targetHbGL: 150 })
@@ -89,8 +95,12 @@ describe('IV iron dose plan', () => {
   })
 
   it('when the weight is under 35 kg, or heavy with no height recorded, then a weight warning is given', () => {
-    expect(ironDosePlan({ product: carboxymaltoseLike, weightKg: 30, hbGL: 90, targetHbGL: 130 }).warnings.join(' ')).toContain('under 35 kg')
-    expect(ironDosePlan({ product: carboxymaltoseLike, weightKg: 150, hbGL: 90, targetHbGL: 130 }).warnings.join(' ')).toContain('obesity cannot be judged')
+    expect(ironDosePlan({ product: carboxymaltoseLike, weightKg: 30, hbGL: 90, targetHbGL: 130 }).warnings.join(' ')).toContain(
+      'under 35 kg',
+    )
+    expect(ironDosePlan({ product: carboxymaltoseLike, weightKg: 150, hbGL: 90, targetHbGL: 130 }).warnings.join(' ')).toContain(
+      'obesity cannot be judged',
+    )
   })
 
   it('when the mg/kg cap is below one vial step, then no dose is planned and a warning explains why', () => {

@@ -6,10 +6,13 @@ import { clinicalError, expectWithin } from './helpers'
 const umol = (mgDl: number) => mgDl * 88.4
 
 describe('eGFR by CKD-EPI 2021 (Inker, N Engl J Med 2021;385:1737), values computed from its formula', () => {
-  it('when a 55-year-old woman has creatinine 0.9 mg/dL, then eGFR is 75.5 mL/min/1.73 m² (computed from Inker 2021; a secondary ' +
-    'page gives ≈76)', () => {
-    expectWithin(egfrCkdEpi2021({ creatinineUmolL: umol(0.9), ageYears: 55, sex: 'female' }), 75.5, 0.1)
-  })
+  it(
+    'when a 55-year-old woman has creatinine 0.9 mg/dL, then eGFR is 75.5 mL/min/1.73 m² (computed from Inker 2021; a secondary ' +
+      'page gives ≈76)',
+    () => {
+      expectWithin(egfrCkdEpi2021({ creatinineUmolL: umol(0.9), ageYears: 55, sex: 'female' }), 75.5, 0.1)
+    },
+  )
 
   it('when a 60-year-old man has creatinine 1.2 mg/dL, then eGFR is 69.2 (computed from Inker 2021)', () => {
     expectWithin(egfrCkdEpi2021({ creatinineUmolL: umol(1.2), ageYears: 60, sex: 'male' }), 69.2, 0.1)

@@ -18,10 +18,12 @@ describe('oxygen content', () => {
     expectWithin(oxygenContent({ hbGL: 80, so2: 0.98, po2MmHg: 100 }), 10.806, 0.001)
   })
 
-  it('when mixed venous SvO2 is 0.75 and PvO2 40 mmHg with Hb 150 g/L, then CvO2 is 15.195 mL/dL (computed from the standard ' +
-    'formula)', () => {
-    expectWithin(oxygenContent({ hbGL: 150, so2: 0.75, po2MmHg: 40 }), 15.195, 0.001)
-  })
+  it(
+    'when mixed venous SvO2 is 0.75 and PvO2 40 mmHg with Hb 150 g/L, then CvO2 is 15.195 mL/dL (computed from the standard ' + 'formula)',
+    () => {
+      expectWithin(oxygenContent({ hbGL: 150, so2: 0.75, po2MmHg: 40 }), 15.195, 0.001)
+    },
+  )
 
   it('when the solubility is 0.0031, then the dissolved part at 100 mmHg is 0.31 rather than 0.3 mL/dL', () => {
     const a = oxygenContent({ hbGL: 150, so2: 0.98, po2MmHg: 100, solubilityMlDlMmHg: 0.0031 })
@@ -51,12 +53,15 @@ describe('oxygen content', () => {
 })
 
 describe('delivery, consumption and extraction', () => {
-  it('when CO is 5 L/min, CaO2 19.998 and CvO2 15.195, then DO2 999.9, VO2 240.15 mL/min and O2ER 0.2402 (computed from the standard ' +
-    'formulas)', () => {
-    expectWithin(oxygenDelivery({ cardiacOutputLMin: 5, cao2MlDl: 19.998 }), 999.9, 0.01)
-    expectWithin(oxygenConsumption({ cardiacOutputLMin: 5, cao2MlDl: 19.998, cvo2MlDl: 15.195 }), 240.15, 0.01)
-    expectWithin(oxygenExtraction({ cao2MlDl: 19.998, cvo2MlDl: 15.195 }), 0.2402, 0.0001)
-  })
+  it(
+    'when CO is 5 L/min, CaO2 19.998 and CvO2 15.195, then DO2 999.9, VO2 240.15 mL/min and O2ER 0.2402 (computed from the standard ' +
+      'formulas)',
+    () => {
+      expectWithin(oxygenDelivery({ cardiacOutputLMin: 5, cao2MlDl: 19.998 }), 999.9, 0.01)
+      expectWithin(oxygenConsumption({ cardiacOutputLMin: 5, cao2MlDl: 19.998, cvo2MlDl: 15.195 }), 240.15, 0.01)
+      expectWithin(oxygenExtraction({ cao2MlDl: 19.998, cvo2MlDl: 15.195 }), 0.2402, 0.0001)
+    },
+  )
 
   it('when venous content exceeds arterial content, then the fields are refused as swapped', () => {
     expect(clinicalError(() => oxygenExtraction({ cao2MlDl: 15, cvo2MlDl: 20 })).input).toBe('cvo2MlDl')

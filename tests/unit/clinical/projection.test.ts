@@ -47,12 +47,20 @@ describe('Hb projection to the surgery date', () => {
       treatment: { kind: 'oral', firstDoseDate: '2025-03-01' },
     })
     expectWithin(p.hbGL, 109, 1e-9)
-    const far = projectHb({ targetDate: '2026-01-01', measurements: [{ takenAt: '2025-02-25', hbGL: 105 }], treatment: { kind: 'oral', firstDoseDate: '2025-03-01' } })
+    const far = projectHb({
+      targetDate: '2026-01-01',
+      measurements: [{ takenAt: '2025-02-25', hbGL: 105 }],
+      treatment: { kind: 'oral', firstDoseDate: '2025-03-01' },
+    })
     expectWithin(far.hbGL, 115, 1e-9)
   })
 
   it('when surgery is within the first week after the dose, then no rise is assumed yet', () => {
-    const p = projectHb({ targetDate: '2025-03-05', measurements: [{ takenAt: '2025-03-01', hbGL: 100 }], treatment: { kind: 'iv', firstDoseDate: '2025-03-01' } })
+    const p = projectHb({
+      targetDate: '2025-03-05',
+      measurements: [{ takenAt: '2025-03-01', hbGL: 100 }],
+      treatment: { kind: 'iv', firstDoseDate: '2025-03-01' },
+    })
     expect(p.hbGL).toBe(100)
   })
 
@@ -94,21 +102,24 @@ describe('Hb projection to the surgery date', () => {
     expect(p).toMatchObject({ method: 'trend', hbGL: 120 })
   })
 
-  it('when Hb is falling despite iron, then the fall is extended to the target date (not floored at the lowest re-check) and a ' +
-    'review is asked for', () => {
-    const p = projectHb({
-      targetDate: '2025-06-01',
-      measurements: [
-        { takenAt: '2025-02-28', hbGL: 110 },
-        { takenAt: '2025-03-28', hbGL: 104 },
-      ],
-      treatment: { kind: 'iv', firstDoseDate: '2025-03-01' },
-    })
-    // Two points, so the line passes through both: −6 g/L in 28 days; 28 Mar → 1 Jun is 65 days,
-    // so 104 − 6 × 65/28 = 90.07 g/L (by hand). The old floor showed 104 and hid the fall.
-    expectWithin(p.hbGL, 90.07, 0.01)
-    expect(p.assumptions.join(' ')).toContain('falling despite iron')
-  })
+  it(
+    'when Hb is falling despite iron, then the fall is extended to the target date (not floored at the lowest re-check) and a ' +
+      'review is asked for',
+    () => {
+      const p = projectHb({
+        targetDate: '2025-06-01',
+        measurements: [
+          { takenAt: '2025-02-28', hbGL: 110 },
+          { takenAt: '2025-03-28', hbGL: 104 },
+        ],
+        treatment: { kind: 'iv', firstDoseDate: '2025-03-01' },
+      })
+      // Two points, so the line passes through both: −6 g/L in 28 days; 28 Mar → 1 Jun is 65 days,
+      // so 104 − 6 × 65/28 = 90.07 g/L (by hand). The old floor showed 104 and hid the fall.
+      expectWithin(p.hbGL, 90.07, 0.01)
+      expect(p.assumptions.join(' ')).toContain('falling despite iron')
+    },
+  )
 
   it('when the only re-check is within the first week, then the expected response is used instead of a trend', () => {
     const p = projectHb({
@@ -136,17 +147,20 @@ describe('Hb projection to the surgery date', () => {
     expect(p.assumptions.join(' ')).toMatch(/200 mg of iron given against a calculated deficit of 1200 mg \(17 %\)/)
   })
 
-  it('when a full IV course was given 8 weeks before surgery, then the assumed rise lies within the 10–20 g/L over 4–8 weeks that ' +
-    'reviews report', () => {
-    // "IV iron typically raises Hb 10–20 g/L over 4–8 weeks" (secondary source, clinical reference §6 [V2]).
-    const p = projectHb({
-      targetDate: '2025-04-26', // 56 days after the dose
-      measurements: [{ takenAt: '2025-02-25', hbGL: 100 }],
-      treatment: { kind: 'iv', firstDoseDate: '2025-03-01', totalMg: 1000, deficitMg: 1000 },
-    })
-    expect(p.hbGL - 100).toBeGreaterThanOrEqual(10)
-    expect(p.hbGL - 100).toBeLessThanOrEqual(20)
-  })
+  it(
+    'when a full IV course was given 8 weeks before surgery, then the assumed rise lies within the 10–20 g/L over 4–8 weeks that ' +
+      'reviews report',
+    () => {
+      // "IV iron typically raises Hb 10–20 g/L over 4–8 weeks" (secondary source, clinical reference §6 [V2]).
+      const p = projectHb({
+        targetDate: '2025-04-26', // 56 days after the dose
+        measurements: [{ takenAt: '2025-02-25', hbGL: 100 }],
+        treatment: { kind: 'iv', firstDoseDate: '2025-03-01', totalMg: 1000, deficitMg: 1000 },
+      })
+      expect(p.hbGL - 100).toBeGreaterThanOrEqual(10)
+      expect(p.hbGL - 100).toBeLessThanOrEqual(20)
+    },
+  )
 
   it('when an Hb is taken on the morning of surgery in the clinic zone, then it counts in the projection', () => {
     const p = projectHb({
@@ -188,8 +202,16 @@ describe('Hb projection to the surgery date', () => {
     clinicalError(() => projectHb({ targetDate: '2025-04-01', measurements: [] }))
     clinicalError(() => projectHb({ targetDate: 'next week', measurements: [{ takenAt: '2025-03-01', hbGL: 100 }] }))
     clinicalError(() => projectHb({ targetDate: '2025-01-01', measurements: [{ takenAt: '2025-03-01', hbGL: 100 }] }))
-    expect(clinicalError(() => projectHb({ targetDate: '2025-04-01', measurements: [{ takenAt: '2025-03-01', hbGL: 10 }] })).input).toBe('measurements[0].hbGL')
-    clinicalError(() => projectHb({ targetDate: '2025-04-01', measurements: [{ takenAt: '2025-03-01', hbGL: 100 }], treatment: { kind: 'im' as never, firstDoseDate: '2025-03-01' } }))
+    expect(clinicalError(() => projectHb({ targetDate: '2025-04-01', measurements: [{ takenAt: '2025-03-01', hbGL: 10 }] })).input).toBe(
+      'measurements[0].hbGL',
+    )
+    clinicalError(() =>
+      projectHb({
+        targetDate: '2025-04-01',
+        measurements: [{ takenAt: '2025-03-01', hbGL: 100 }],
+        treatment: { kind: 'im' as never, firstDoseDate: '2025-03-01' },
+      }),
+    )
   })
 
   it('when a projection is displayed, then it rounds to a whole g/L', () => {

@@ -70,12 +70,21 @@ describe(`property-style checks (mulberry32 seed ${SEED}, ${RUNS} runs each)`, (
       const a = classifyAnaemia({ hbGL: hb, sex, criteria: 'surgical' })
       expect(a.anaemic, ctx).toBe(hb < 130)
       expect(['absolute-deficiency', 'iron-restricted', 'replete', 'indeterminate']).toContain(
-        classifyIronStatus({ ferritinUgL: uniform(r, 0, 2000), tsatPct: r() < 0.8 ? uniform(r, 0, 100) : undefined, crpMgL: r() < 0.8 ? uniform(r, 0, 300) : undefined }),
+        classifyIronStatus({
+          ferritinUgL: uniform(r, 0, 2000),
+          tsatPct: r() < 0.8 ? uniform(r, 0, 100) : undefined,
+          crpMgL: r() < 0.8 ? uniform(r, 0, 300) : undefined,
+        }),
       )
 
       const egfr = egfrCkdEpi2021({ creatinineUmolL: uniform(r, 10, 3000), ageYears: uniform(r, 18, 120), sex })
       expect(finiteIn(egfr, 0, 250), ctx).toBe(true)
-      expect(finiteIn(bmi({ heightCm, weightKg }), 0.3, 2200) && finiteIn(bsaMosteller({ heightCm, weightKg }), 0.04, 5) && finiteIn(bsaDuBois({ heightCm, weightKg }), 0.04, 5), ctx).toBe(true)
+      expect(
+        finiteIn(bmi({ heightCm, weightKg }), 0.3, 2200) &&
+          finiteIn(bsaMosteller({ heightCm, weightKg }), 0.04, 5) &&
+          finiteIn(bsaDuBois({ heightCm, weightKg }), 0.04, 5),
+        ctx,
+      ).toBe(true)
 
       const gL = convertHb(convertHb(hb, 'g/L', 'mmol/L'), 'mmol/L', 'g/L')
       expect(Math.abs(gL - hb) < 1e-9, ctx).toBe(true)
@@ -110,14 +119,21 @@ describe(`property-style checks (mulberry32 seed ${SEED}, ${RUNS} runs each)`, (
       const plan = ironDosePlan({ product, weightKg, hbGL: uniform(r, 60, 160), targetHbGL: pick(r, [120, 130, 150]) })
       const ctx = `run ${i}: ${JSON.stringify(product)} ${weightKg}`
       if (plan.doses.length === 0) continue
-      expect(plan.doses.reduce((s, d) => s + d.doseMg, 0), ctx).toBe(plan.totalMg)
+      expect(
+        plan.doses.reduce((s, d) => s + d.doseMg, 0),
+        ctx,
+      ).toBe(plan.totalMg)
       if (product.maxTotalMg !== undefined) expect(plan.totalMg, ctx).toBeLessThanOrEqual(product.maxTotalMg)
       plan.doses.forEach((d, k) => {
         expect(d.doseMg, ctx).toBeLessThanOrEqual(plan.appliedCaps.perDoseLimitMg)
         expect(d.doseMg % (product.roundToMg ?? 1), ctx).toBe(0)
         if (k > 0) expect(d.dayOffset - plan.doses[k - 1].dayOffset, ctx).toBeGreaterThanOrEqual(product.minIntervalDays)
         const week = plan.doses.filter((e) => e.dayOffset > d.dayOffset - 7 && e.dayOffset <= d.dayOffset)
-        if (product.maxWeeklyMg !== undefined) expect(week.reduce((s, e) => s + e.doseMg, 0), ctx).toBeLessThanOrEqual(product.maxWeeklyMg)
+        if (product.maxWeeklyMg !== undefined)
+          expect(
+            week.reduce((s, e) => s + e.doseMg, 0),
+            ctx,
+          ).toBeLessThanOrEqual(product.maxWeeklyMg)
       })
     }
   })
@@ -137,7 +153,14 @@ describe(`property-style checks (mulberry32 seed ${SEED}, ${RUNS} runs each)`, (
   it('when inputs are random nonsense, then every function throws ClinicalInputError', () => {
     const r = mulberry32(SEED + 4)
     const bad = (min: number, max: number): number =>
-      pick(r, [Number.NaN, Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY, min - 1 - r() * 1000, max + 0.5 + r() * 1000, -r() * 100 - 1e-3])
+      pick(r, [
+        Number.NaN,
+        Number.POSITIVE_INFINITY,
+        Number.NEGATIVE_INFINITY,
+        min - 1 - r() * 1000,
+        max + 0.5 + r() * 1000,
+        -r() * 100 - 1e-3,
+      ])
     const calls: ((r: () => number) => unknown)[] = [
       () => saturationFromPo2(bad(0, 700)),
       () => po2FromSaturation(pick(r, [bad(0, 1), uniform(r, 1.01, 100)])),

@@ -11,7 +11,12 @@ const ROOT = path.resolve(__dirname, '../../..')
 const DIR = path.join(ROOT, 'docs/clinical-safety')
 const FIELDS = ['Hazard', 'Cause', 'Effect', 'Severity', 'Likelihood', 'Control', 'Test'] as const
 
-interface Hazard { id: string; title: string; fields: Record<string, string[]>; file: string }
+interface Hazard {
+  id: string
+  title: string
+  fields: Record<string, string[]>
+  file: string
+}
 
 export function parseHazards(text: string, file: string): Hazard[] {
   const out: Hazard[] = []
@@ -75,9 +80,15 @@ describe('the clinical hazard log', () => {
     for (const h of hazards) {
       for (const ref of h.fields.Test ?? []) {
         const t = parseTestRef(ref)
-        if (!t) { broken.push(`${h.file} ${h.id}: cannot read test reference ${ref}`); continue }
+        if (!t) {
+          broken.push(`${h.file} ${h.id}: cannot read test reference ${ref}`)
+          continue
+        }
         const file = path.join(ROOT, t.file)
-        if (!existsSync(file)) { broken.push(`${h.file} ${h.id}: no file ${t.file}`); continue }
+        if (!existsSync(file)) {
+          broken.push(`${h.file} ${h.id}: no file ${t.file}`)
+          continue
+        }
         if (!testTitles(readFileSync(file, 'utf8')).has(t.title)) broken.push(`${h.file} ${h.id}: no test "${t.title}" in ${t.file}`)
       }
     }

@@ -22,7 +22,11 @@ describe('the audit entry before/after, field by field', () => {
 
 describe('report tables on screen', () => {
   const funnel = {
-    columns: [{ key: 'step', label: 'Step' }, { key: 'label', label: 'Label' }, { key: 'count', label: 'Episodes' }],
+    columns: [
+      { key: 'step', label: 'Step' },
+      { key: 'label', label: 'Label' },
+      { key: 'count', label: 'Episodes' },
+    ],
     rows: [{ step: 'referred', label: 'Referred', count: 4 }],
     definitions: { referred: { numerator: 'Episodes referred', denominator: 'Episodes referred', period: 'p' } },
   }
@@ -36,7 +40,12 @@ describe('report tables on screen', () => {
     expect(cellText('suggestion', 'fewer-units')).toBe('Crossmatch fewer units')
   })
   it('then only the funnel, the Hb distribution and the waiting times are drawn', () => {
-    expect([chartFor('funnel', 'funnel'), chartFor('haemoglobin', 'distribution'), chartFor('haemoglobin', 'riseByProduct'), chartFor('waiting-times', 'waitingTimes'), chartFor('blood-ordering', 'bloodOrdering')])
-      .toEqual(['funnel', 'distribution', null, 'waiting', null])
+    expect([
+      chartFor('funnel', 'funnel'),
+      chartFor('haemoglobin', 'distribution'),
+      chartFor('haemoglobin', 'riseByProduct'),
+      chartFor('waiting-times', 'waitingTimes'),
+      chartFor('blood-ordering', 'bloodOrdering'),
+    ]).toEqual(['funnel', 'distribution', null, 'waiting', null])
   })
 })

@@ -25,8 +25,13 @@ describe("the clinic's today", () => {
 
 describe('flags on the clinic calendar around midnight', () => {
   const base: FlagInput = {
-    stage: 'recheck', plannedSurgeryDate: '2027-08-30', anaemic: false,
-    latestHbAt: null, recheckDueDate: '2027-07-14', treatmentOrderedAt: null, treatmentGivenAt: null,
+    stage: 'recheck',
+    plannedSurgeryDate: '2027-08-30',
+    anaemic: false,
+    latestHbAt: null,
+    recheckDueDate: '2027-07-14',
+    treatmentOrderedAt: null,
+    treatmentGivenAt: null,
   }
 
   it('when the re-check Hb is taken at 00:30 clinic time on its due date, then the re-check is not overdue', () => {

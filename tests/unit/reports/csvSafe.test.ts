@@ -3,9 +3,12 @@ import { neutralise, safeCsv } from '../../../server/services/reports/csvSafe'
 
 // The characters a spreadsheet reads as the start of a formula (OWASP, CSV injection).
 describe('neutralise', () => {
-  it.each(['=1+1', '+SUM(A1)', '-2+3', '@cmd', '\tx', '\rx'])('when a text cell starts like a formula (%j), then it gets a leading apostrophe', (v) => {
-    expect(neutralise(v)).toBe(`'${v}`)
-  })
+  it.each(['=1+1', '+SUM(A1)', '-2+3', '@cmd', '\tx', '\rx'])(
+    'when a text cell starts like a formula (%j), then it gets a leading apostrophe',
+    (v) => {
+      expect(neutralise(v)).toBe(`'${v}`)
+    },
+  )
   it('when the cell is a number (even negative), then it is written as a number', () => expect(neutralise(-5)).toBe('-5'))
   it('when the cell is ordinary text or empty, then it is unchanged', () => {
     expect(neutralise('TKR')).toBe('TKR')

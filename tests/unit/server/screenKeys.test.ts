@@ -12,13 +12,18 @@ const refusal = (value: unknown) => {
 }
 
 describe('input keys that shadow Object.prototype members', () => {
-  it.each(['toString', 'valueOf', 'hasOwnProperty', 'constructor', '__proto__', 'isPrototypeOf', '__defineGetter__'])('when a body has the key %s, then it is refused naming the key', (key) => {
-    const body = JSON.parse(`{"${key}": 1}`)
-    expect(refusal(body)).toEqual({ message: `The field "${key}" is not accepted`, fields: { [key]: 'This field name is not accepted' } })
-  })
+  it.each(['toString', 'valueOf', 'hasOwnProperty', 'constructor', '__proto__', 'isPrototypeOf', '__defineGetter__'])(
+    'when a body has the key %s, then it is refused naming the key',
+    (key) => {
+      const body = JSON.parse(`{"${key}": 1}`)
+      expect(refusal(body)).toEqual({ message: `The field "${key}" is not accepted`, fields: { [key]: 'This field name is not accepted' } })
+    },
+  )
 
   it('when the key is nested in a list, then the refusal names its path', () => {
-    expect(refusal({ rows: [{ ok: 1 }, { valueOf: 2 }] })).toMatchObject({ fields: { 'rows.1.valueOf': 'This field name is not accepted' } })
+    expect(refusal({ rows: [{ ok: 1 }, { valueOf: 2 }] })).toMatchObject({
+      fields: { 'rows.1.valueOf': 'This field name is not accepted' },
+    })
   })
 
   it('when values merely contain such words, then they pass', () => {

@@ -45,13 +45,19 @@ export function useCreateIronProductMutation() {
 
 export function useUpdateIronProductMutation() {
   const onSuccess = useInvalidate(formularyKeys.all)
-  return useMutation({ mutationFn: ({ code, changes }: { code: string; changes: UpdateIronProductInput }) => updateIronProduct(code, changes), onSuccess })
+  return useMutation({
+    mutationFn: ({ code, changes }: { code: string; changes: UpdateIronProductInput }) => updateIronProduct(code, changes),
+    onSuccess,
+  })
 }
 
 /** A product's own dosing table changes every plan made with it: formulary and episodes refetch. */
 export function useSaveDosingTableMutation() {
   const onSuccess = useInvalidate(formularyKeys.all)
-  return useMutation({ mutationFn: ({ code, input }: { code: string; input: DosingTableInput }) => saveDosingTable(code, input), onSuccess })
+  return useMutation({
+    mutationFn: ({ code, input }: { code: string; input: DosingTableInput }) => saveDosingTable(code, input),
+    onSuccess,
+  })
 }
 
 export function useUpdateClinicSettingsMutation() {
@@ -66,5 +72,8 @@ export function useCreateProcedureMutation() {
 
 export function useUpdateProcedureMutation() {
   const onSuccess = useInvalidate(procedureKeys.all)
-  return useMutation({ mutationFn: ({ code, changes }: { code: string; changes: UpdateProcedureInput }) => updateProcedure(code, changes), onSuccess })
+  return useMutation({
+    mutationFn: ({ code, changes }: { code: string; changes: UpdateProcedureInput }) => updateProcedure(code, changes),
+    onSuccess,
+  })
 }

@@ -15,7 +15,12 @@ export interface EditableTable {
   source: string
 }
 
-const blank = (): EditableTable => ({ weightBands: [{ from: 0, below: null }], hbBands: [{ from: 0, below: null }], needMg: [[null]], source: '' })
+const blank = (): EditableTable => ({
+  weightBands: [{ from: 0, below: null }],
+  hbBands: [{ from: 0, below: null }],
+  needMg: [[null]],
+  source: '',
+})
 
 /**
  * The editor's working copy of a dosing table, with band add/remove that keeps the grid square.
@@ -56,7 +61,10 @@ export function useDosingTableDraft() {
   /** The payload if the shared schema accepts it; otherwise null, with every message in errors. */
   async function checked(): Promise<DosingTableInput | null> {
     try {
-      const value = await dosingTableSchema.validate({ dosedByTable: dosedByTable.value, table: draft }, { abortEarly: false, stripUnknown: true })
+      const value = await dosingTableSchema.validate(
+        { dosedByTable: dosedByTable.value, table: draft },
+        { abortEarly: false, stripUnknown: true },
+      )
       errors.value = {}
       return value
     } catch (err) {

@@ -29,8 +29,14 @@ export function useAuditUrl() {
   const filters = computed<AuditFilters>(() => {
     const q = route.query
     return {
-      userId: id(one(q, 'userId')), patientId: id(one(q, 'patientId')), mrn: one(q, 'mrn')?.slice(0, 40), entity: one(q, 'entity'), action: one(q, 'action'),
-      from: date(one(q, 'from')), to: date(one(q, 'to')), page: id(one(q, 'page')),
+      userId: id(one(q, 'userId')),
+      patientId: id(one(q, 'patientId')),
+      mrn: one(q, 'mrn')?.slice(0, 40),
+      entity: one(q, 'entity'),
+      action: one(q, 'action'),
+      from: date(one(q, 'from')),
+      to: date(one(q, 'to')),
+      page: id(one(q, 'page')),
     }
   })
   function update(changes: Partial<AuditFilters>): void {

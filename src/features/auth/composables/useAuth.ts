@@ -2,8 +2,15 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
 import { useRouter } from 'vue-router'
 import type { ChangePasswordInput, LoginInput } from '@shared/schemas/auth'
 import {
-  changePassword, confirmSecondFactorEnrolment, fetchProviders, fetchSecondFactorStatus, login, loginSecondFactor, logout,
-  startSecondFactorEnrolment, type SignInStep,
+  changePassword,
+  confirmSecondFactorEnrolment,
+  fetchProviders,
+  fetchSecondFactorStatus,
+  login,
+  loginSecondFactor,
+  logout,
+  startSecondFactorEnrolment,
+  type SignInStep,
 } from '@/api/auth'
 import { useSessionStore } from '@/stores/session'
 

@@ -3,7 +3,13 @@ import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tansta
 import type { AdministrationInput, DosePlanPreviewInput, PrescriptionInput, ReviewInput } from '@shared/schemas/clinic'
 import { isApiError } from '@/api/client'
 import {
-  listAdministrations, listPrescriptions, listReviews, prescribe, previewDosePlan, recordAdministration, recordReview,
+  listAdministrations,
+  listPrescriptions,
+  listReviews,
+  prescribe,
+  previewDosePlan,
+  recordAdministration,
+  recordReview,
 } from '@/api/clinic'
 import { referralKeys } from './useReferrals'
 
@@ -65,7 +71,10 @@ export function useRecordReviewMutation() {
 
 export function usePrescribeMutation() {
   const invalidate = useInvalidateReferrals()
-  return useMutation({ mutationFn: ({ id, input }: { id: number; input: PrescriptionInput }) => prescribe(id, input), onSettled: invalidate })
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: PrescriptionInput }) => prescribe(id, input),
+    onSettled: invalidate,
+  })
 }
 
 export function useRecordAdministrationMutation() {

@@ -36,10 +36,16 @@ function useInvalidateReferrals() {
 export function useRecordOutcomeMutation() {
   const invalidate = useInvalidateReferrals()
   // A 409 means our version is stale: refetch either way.
-  return useMutation({ mutationFn: ({ id, input }: { id: number; input: OutcomeInput }) => recordOutcome(id, input), onSettled: invalidate })
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: OutcomeInput }) => recordOutcome(id, input),
+    onSettled: invalidate,
+  })
 }
 
 export function useRecordFollowUpMutation() {
   const invalidate = useInvalidateReferrals()
-  return useMutation({ mutationFn: ({ id, input }: { id: number; input: FollowUpInput }) => recordFollowUp(id, input), onSettled: invalidate })
+  return useMutation({
+    mutationFn: ({ id, input }: { id: number; input: FollowUpInput }) => recordFollowUp(id, input),
+    onSettled: invalidate,
+  })
 }

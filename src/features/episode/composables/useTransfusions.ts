@@ -10,7 +10,11 @@ export const transfusionKeys = {
 }
 
 export function useTransfusionsQuery(id: MaybeRefOrGetter<number>) {
-  return useQuery({ queryKey: computed(() => transfusionKeys.list(toValue(id))), queryFn: () => listTransfusions(toValue(id)), retry: retryUnlessRefused })
+  return useQuery({
+    queryKey: computed(() => transfusionKeys.list(toValue(id))),
+    queryFn: () => listTransfusions(toValue(id)),
+    retry: retryUnlessRefused,
+  })
 }
 
 export function useRecordTransfusionMutation() {
@@ -24,7 +28,8 @@ export function useRecordTransfusionMutation() {
 export function useVoidTransfusionMutation() {
   const queryClient = useQueryClient()
   return useMutation({
-    mutationFn: ({ id, transfusionId, reason }: { id: number; transfusionId: number; reason: string }) => voidTransfusion(id, transfusionId, reason),
+    mutationFn: ({ id, transfusionId, reason }: { id: number; transfusionId: number; reason: string }) =>
+      voidTransfusion(id, transfusionId, reason),
     onSettled: (_d, _e, v) => queryClient.invalidateQueries({ queryKey: referralKeys.detail(v.id) }),
   })
 }
@@ -32,7 +37,15 @@ export function useVoidTransfusionMutation() {
 export function useEditTransfusionMutation() {
   const queryClient = useQueryClient()
   return useMutation({
-    mutationFn: ({ id, transfusionId, input }: { id: number; transfusionId: number; input: TransfusionPayload & { changeReason: string } }) => editTransfusion(id, transfusionId, input),
+    mutationFn: ({
+      id,
+      transfusionId,
+      input,
+    }: {
+      id: number
+      transfusionId: number
+      input: TransfusionPayload & { changeReason: string }
+    }) => editTransfusion(id, transfusionId, input),
     onSettled: (_d, _e, v) => queryClient.invalidateQueries({ queryKey: referralKeys.detail(v.id) }),
   })
 }

@@ -1,7 +1,16 @@
 import { computed, toValue, type MaybeRefOrGetter } from 'vue'
 import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query'
 import type { ColumnMapping } from '@shared/imports/mapping'
-import { getMapping, listBatches, reverseBatch, saveMapping, uploadFhirBundle, uploadLabResults, type FhirUpload, type LabUpload } from '@/api/imports'
+import {
+  getMapping,
+  listBatches,
+  reverseBatch,
+  saveMapping,
+  uploadFhirBundle,
+  uploadLabResults,
+  type FhirUpload,
+  type LabUpload,
+} from '@/api/imports'
 import { referralKeys } from '@/features/episode/composables/useReferrals'
 
 export const importKeys = {
@@ -34,11 +43,7 @@ export function useSaveMappingMutation() {
 /** Stored results change classifications and flags: the worklist, episodes and the readiness board (all under referralKeys) refetch. */
 function useInvalidateAfterStore() {
   const qc = useQueryClient()
-  return () =>
-    Promise.all([
-      qc.invalidateQueries({ queryKey: importKeys.batches() }),
-      qc.invalidateQueries({ queryKey: referralKeys.all }),
-    ])
+  return () => Promise.all([qc.invalidateQueries({ queryKey: importKeys.batches() }), qc.invalidateQueries({ queryKey: referralKeys.all })])
 }
 
 /** A preview and a commit are the same call; only a commit changes anything to refetch. */

@@ -51,7 +51,10 @@ describe('the worklist filters', () => {
 
   it('when Clear filters is pressed, then the address holds no filter and the search box empties', async () => {
     const { router, wrapper } = await mountAt('/worklist?q=Demo&stage=clinic&priority=urgent')
-    await wrapper.findAll('button').find((b) => b.text().includes('Clear filters'))!.trigger('click')
+    await wrapper
+      .findAll('button')
+      .find((b) => b.text().includes('Clear filters'))!
+      .trigger('click')
     await flushPromises()
     expect(router.currentRoute.value.query).toEqual({})
     expect((wrapper.get('#wl-q').element as HTMLInputElement).value).toBe('')

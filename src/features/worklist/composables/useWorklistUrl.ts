@@ -13,7 +13,10 @@ function one(query: LocationQuery, key: string): string | undefined {
 }
 
 function many(query: LocationQuery, key: string): string[] {
-  return (one(query, key) ?? '').split(',').map((s) => s.trim()).filter(Boolean)
+  return (one(query, key) ?? '')
+    .split(',')
+    .map((s) => s.trim())
+    .filter(Boolean)
 }
 
 const isPriority = (v: string): v is Priority => (PRIORITIES as readonly string[]).includes(v)

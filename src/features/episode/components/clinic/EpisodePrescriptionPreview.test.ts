@@ -8,24 +8,49 @@ import EpisodePrescriptionPreview from './EpisodePrescriptionPreview.vue'
 
 // An invented formulary entry (demo data): 1000 mg or 20 mg/kg a dose, 7 days apart, 100 mg vials.
 const product: IronProduct = {
-  code: 'demo-iv-a', name: 'Demo IV iron A', route: 'iv', maxSingleDoseMg: 1000, maxSingleDoseMgPerKg: 20,
-  minIntervalDays: 7, roundToMg: 100, phosphateCheckOnRepeat: true,
+  code: 'demo-iv-a',
+  name: 'Demo IV iron A',
+  route: 'iv',
+  maxSingleDoseMg: 1000,
+  maxSingleDoseMgPerKg: 20,
+  minIntervalDays: 7,
+  roundToMg: 100,
+  phosphateCheckOnRepeat: true,
 }
 const inputs = {
-  weightKg: 45, weightMeasuredAt: '2026-03-02', heightCm: null, ageYears: 61, hbGL: 80, hbTakenAt: '2026-03-01',
-  targetHbGL: 150, firstDoseDate: '2026-03-09', plannedSurgeryDate: '2026-06-15',
+  weightKg: 45,
+  weightMeasuredAt: '2026-03-02',
+  heightCm: null,
+  ageYears: 61,
+  hbGL: 80,
+  hbTakenAt: '2026-03-01',
+  targetHbGL: 150,
+  firstDoseDate: '2026-03-09',
+  plannedSurgeryDate: '2026-06-15',
 }
 const weightWarning = 'The weight (45 kg) was measured 120 days ago, more than 90: re-weigh the patient before relying on this dose.'
 const phosphateMessage = 'A repeat course of Demo IV iron A: check serum phosphate before the first dose.'
 
 /** The server's answer: the plan from the shared rules, and what the server adds around it. */
 function preview(extra: { weightOld?: boolean; phosphate?: boolean } = {}): DosePlanPreview {
-  const plan = ironDosePlan({ product, weightKg: inputs.weightKg, hbGL: inputs.hbGL, targetHbGL: inputs.targetHbGL, startDate: inputs.firstDoseDate, ageYears: inputs.ageYears })
+  const plan = ironDosePlan({
+    product,
+    weightKg: inputs.weightKg,
+    hbGL: inputs.hbGL,
+    targetHbGL: inputs.targetHbGL,
+    startDate: inputs.firstDoseDate,
+    ageYears: inputs.ageYears,
+  })
   const warnings = [...(extra.weightOld ? [weightWarning] : []), ...plan.warnings, ...(extra.phosphate ? [phosphateMessage] : [])]
   return {
-    product, productSource: 'Local formulary (demo).', inputs, plan: { ...plan, warnings },
+    product,
+    productSource: 'Local formulary (demo).',
+    inputs,
+    plan: { ...plan, warnings },
     phosphate: { needed: !!extra.phosphate, message: extra.phosphate ? phosphateMessage : '' },
-    methods: { deficit: 'Ganzoni, actual weight', caps: 'Caps from the formulary.' }, cautions: [], cautionQuestions: [],
+    methods: { deficit: 'Ganzoni, actual weight', caps: 'Caps from the formulary.' },
+    cautions: [],
+    cautionQuestions: [],
   }
 }
 
@@ -68,7 +93,9 @@ describe('the prescription preview', () => {
 
   it('when the answer carries no warning, then no warning list and no alert are shown', () => {
     const base = preview()
-    const wrapper = mountInApp(EpisodePrescriptionPreview, { props: { preview: { ...base, plan: { ...base.plan, warnings: [] } }, updating: false } })
+    const wrapper = mountInApp(EpisodePrescriptionPreview, {
+      props: { preview: { ...base, plan: { ...base.plan, warnings: [] } }, updating: false },
+    })
     expect(wrapper.find('[data-testid="dose-warnings"]').exists()).toBe(false)
     expect(wrapper.find('[data-testid="weight-warning"]').exists()).toBe(false)
     expect(wrapper.find('[data-testid="phosphate-needed"]').exists()).toBe(false)

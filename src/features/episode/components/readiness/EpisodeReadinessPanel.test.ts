@@ -11,25 +11,58 @@ afterEach(() => vi.unstubAllGlobals())
 
 // Only the fields the panel and its parts read; an invented demo episode.
 const episode = {
-  id: 7, surgeonId: 3, surgeon: { id: 3, name: 'Demo Surgeon' }, readOnly: false, version: 1, stage: 'clinic',
-  redCellAntibodies: false, declinesTransfusion: false, plannedSurgeryDate: '2026-06-15', screening: { thresholdGL: 130 },
+  id: 7,
+  surgeonId: 3,
+  surgeon: { id: 3, name: 'Demo Surgeon' },
+  readOnly: false,
+  version: 1,
+  stage: 'clinic',
+  redCellAntibodies: false,
+  declinesTransfusion: false,
+  plannedSurgeryDate: '2026-06-15',
+  screening: { thresholdGL: 130 },
 } as unknown as ReferralDetail
 
 /** The server's answer, from the shared projection rules with the clinic's default settings. */
 function projection(hbGL: number) {
-  return buildProjection({
-    today: '2026-05-01', timeZone: 'Europe/London', plannedSurgeryDate: '2026-06-15', sex: 'female', heightCm: 165, weightKg: 70,
-    hbMeasurements: [{ takenAt: '2026-04-28T09:00:00Z', hbGL }], treatment: null,
-    procedure: { code: 'demo-hip', name: 'Demo hip replacement', expectedBloodLossMl: 1000, usualBloodOrder: 'group-and-screen', usualUnits: 0, transfusionRate: null },
-    priority: 'routine', cardiovascularDisease: false, ironStatus: null, antibodiesPositive: false, declinesTransfusion: false,
-    saO2: DEFAULT_CLINIC_SETTINGS.defaultSaO2, paO2MmHg: DEFAULT_CLINIC_SETTINGS.defaultPaO2MmHg, cardiacOutputLMin: null,
-  }, DEFAULT_CLINIC_SETTINGS)
+  return buildProjection(
+    {
+      today: '2026-05-01',
+      timeZone: 'Europe/London',
+      plannedSurgeryDate: '2026-06-15',
+      sex: 'female',
+      heightCm: 165,
+      weightKg: 70,
+      hbMeasurements: [{ takenAt: '2026-04-28T09:00:00Z', hbGL }],
+      treatment: null,
+      procedure: {
+        code: 'demo-hip',
+        name: 'Demo hip replacement',
+        expectedBloodLossMl: 1000,
+        usualBloodOrder: 'group-and-screen',
+        usualUnits: 0,
+        transfusionRate: null,
+      },
+      priority: 'routine',
+      cardiovascularDisease: false,
+      ironStatus: null,
+      antibodiesPositive: false,
+      declinesTransfusion: false,
+      saO2: DEFAULT_CLINIC_SETTINGS.defaultSaO2,
+      paO2MmHg: DEFAULT_CLINIC_SETTINGS.defaultPaO2MmHg,
+      cardiacOutputLMin: null,
+    },
+    DEFAULT_CLINIC_SETTINGS,
+  )
 }
 
 describe('the readiness panel', () => {
   it('when the server projects the surgery day, then the verdict is a word and the decision-support caution is shown', async () => {
     const p = projection(95)
-    answerFetch({ 'GET /referrals/7/projection': { status: 200, body: p }, 'GET /referrals/7/readiness': { status: 200, body: { rows: [] } } })
+    answerFetch({
+      'GET /referrals/7/projection': { status: 200, body: p },
+      'GET /referrals/7/readiness': { status: 200, body: { rows: [] } },
+    })
     const wrapper = mountInApp(EpisodeReadinessPanel, { props: { episode } })
     await vi.waitFor(() => expect(wrapper.find('[data-testid="readiness-verdict"]').exists()).toBe(true))
     expect(p.readiness.verdict).not.toBeNull()

@@ -66,7 +66,9 @@ describe('the result form', () => {
     const seen = answerFetch({
       'POST /referrals/7/results': {
         status: 422,
-        body: { error: { code: 'invalid', message: 'The result was not saved', fields: { takenAt: 'must not be before the referral was made' } } },
+        body: {
+          error: { code: 'invalid', message: 'The result was not saved', fields: { takenAt: 'must not be before the referral was made' } },
+        },
       },
     })
     const { wrapper, typeValue, submit } = mountForm()
@@ -81,7 +83,10 @@ describe('the result form', () => {
 
   it('when the server refuses the whole result, then its message is shown above the form and nothing says saved', async () => {
     answerFetch({
-      'POST /referrals/7/results': { status: 409, body: { error: { code: 'episode_closed', message: 'This episode is closed: results can no longer be added.' } } },
+      'POST /referrals/7/results': {
+        status: 409,
+        body: { error: { code: 'episode_closed', message: 'This episode is closed: results can no longer be added.' } },
+      },
     })
     const { wrapper, typeValue, submit } = mountForm()
     await typeValue(118)
