@@ -69,16 +69,14 @@ export const errorHandler: ErrorRequestHandler = async (err, req, res, next) => 
   if (e instanceof ValidationError) e = toInvalid(e)
   if (e instanceof AppError && e.status === 403) await recordRefusal(req, e)
   if (e instanceof AppError) {
-    res
-      .status(e.status)
-      .json({
-        error: {
-          code: e.code,
-          message: e.message,
-          ...(e.fields ? { fields: e.fields } : {}),
-          ...(e.details ? { details: e.details } : {}),
-        },
-      })
+    res.status(e.status).json({
+      error: {
+        code: e.code,
+        message: e.message,
+        ...(e.fields ? { fields: e.fields } : {}),
+        ...(e.details ? { details: e.details } : {}),
+      },
+    })
     return
   }
   if (isDatabaseUnavailable(err)) {
@@ -93,14 +91,12 @@ export const errorHandler: ErrorRequestHandler = async (err, req, res, next) => 
   // A deadlock or a lost cluster certification that was not (or no longer) retried: nothing of the
   // request was saved, and sending it again is the whole remedy.
   if (isRetryableConflict(err)) {
-    res
-      .status(409)
-      .json({
-        error: {
-          code: 'write_conflict',
-          message: 'Another change to the same records was being saved at the same moment, so nothing was saved; please try again',
-        },
-      })
+    res.status(409).json({
+      error: {
+        code: 'write_conflict',
+        message: 'Another change to the same records was being saved at the same moment, so nothing was saved; please try again',
+      },
+    })
     return
   }
   const { status, type, expose } = err as { status?: number; type?: string; expose?: boolean }

@@ -37,7 +37,8 @@ export interface NewResult {
   abnormalFlags?: string | null
 }
 
-const COLUMNS = `(referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported, taken_at, entered_by, source,
+const COLUMNS = `(referral_id, patient_id, analyte, value_canonical, unit_canonical, value_reported, unit_reported,
+  taken_at, entered_by, source,
   derived_from, import_batch_id, status, comparator, hl7_message_id, reference_range, abnormal_flags, created_at)`
 const PLACEHOLDERS = `(${new Array(18).fill('?').join(', ')})`
 const unitOf = (analyte: StoredAnalyte) =>
@@ -166,7 +167,8 @@ export async function deriveForBatch(
     dob: string | Date
     sex: Sex
   }>(
-    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.taken_at AS takenAt, r.value_canonical AS valueCanonical, p.date_of_birth AS dob, p.sex
+    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.taken_at AS takenAt,
+      r.value_canonical AS valueCanonical, p.date_of_birth AS dob, p.sex
      FROM results r JOIN patients p ON p.id = r.patient_id WHERE r.import_batch_id = ? AND r.analyte = 'creatinine'`,
     { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },
   )
@@ -191,8 +193,10 @@ export async function deriveForBatch(
   }
   // Every iron-study row of each sample this batch touched, wherever it came from.
   const samples = await sequelize.query<SampleRow & { referralId: number; patientId: number; takenAt: Date }>(
-    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.analyte, r.value_canonical AS valueCanonical, r.taken_at AS takenAt
-     FROM results r JOIN (SELECT DISTINCT referral_id, taken_at FROM results WHERE import_batch_id = ? AND analyte IN ('iron', 'tibc', 'transferrin')) d
+    `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, r.analyte, r.value_canonical AS valueCanonical,
+      r.taken_at AS takenAt
+     FROM results r JOIN (SELECT DISTINCT referral_id,
+       taken_at FROM results WHERE import_batch_id = ? AND analyte IN ('iron', 'tibc', 'transferrin')) d
        ON d.referral_id = r.referral_id AND d.taken_at = r.taken_at
      WHERE r.analyte IN ('iron', 'tibc', 'transferrin', 'tsat') AND ${screenableSql('r')}`,
     { type: QueryTypes.SELECT, replacements: [batchId], transaction: t },

@@ -34,7 +34,8 @@ export function toResultView(r: Result & { enteredByUser?: User | null }): Resul
 
 /**
  * Stores one result, derives what follows from it, and re-classifies the episode, all in one
- * transaction with its audit row, through the one result-persistence module (resultStore.ts). The referral row is locked so two results arriving at once
+ * transaction with its audit row, through the one result-persistence module (resultStore.ts). The referral row is
+ * locked so two results arriving at once
  * cannot leave a stale "latest Hb" behind.
  */
 export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId: number, input: CreateResultInput): Promise<AddedResult> {

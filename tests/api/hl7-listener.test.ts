@@ -120,27 +120,31 @@ describe('the MLLP listener and what it is sent', () => {
     expect(await Result.count({ where: { source: 'hl7' } })).toBe(20)
   })
 
-  it('when messages from many connections are stored together and some fail or repeat, then each gets its own answer and a resend changes nothing', async () => {
-    const base = Date.now() - 50 * 3600_000
-    const good = Array.from({ length: 8 }, (_, i) =>
-      oru({ mrn: 'HL71001', control: `GC-OK-${i}`, obx: [{ value: String(110 + i), at: new Date(base + i * 60_000) }] }),
-    )
-    const unknown = [0, 1].map((i) => oru({ mrn: 'HL79999', control: `GC-AE-${i}`, obx: [{ value: '99' }] }))
-    const old = oru({ mrn: 'HL71001', control: 'GC-AR', version: '2.2', obx: [{ value: '98' }] })
-    const dup = oru({ mrn: 'HL71001', control: 'GC-DUP', obx: [{ value: '97', at: new Date(base - 60_000) }] })
-    const all = [...good, ...unknown, old, dup, dup]
-    const first = (await Promise.all(all.map((m) => send(port, m)))).flat()
-    expect(first.map(ackCode)).toEqual([...Array(8).fill('AA'), 'AE', 'AE', 'AR', 'AA', 'AA'])
-    // The two copies sent at once get the very same answer; the message and its result are stored once.
-    expect(first[12]!.toString()).toBe(first[11]!.toString())
-    expect(await Hl7MessageRow.count()).toBe(12)
-    expect(await Hl7MessageRow.count({ where: { needsAttention: true } })).toBe(2)
-    expect(await Result.count({ where: { source: 'hl7' } })).toBe(9)
-    // Several messages went into one transaction, so the failures above were rolled back alone.
-    expect(listener.batchStats().largest).toBeGreaterThan(1)
-    const again = (await Promise.all(all.map((m) => send(port, m)))).flat()
-    expect(again.map((a) => a.toString())).toEqual(first.map((a) => a.toString()))
-    expect(await Hl7MessageRow.count()).toBe(12)
-    expect(await Result.count({ where: { source: 'hl7' } })).toBe(9)
-  })
+  it(
+    'when messages from many connections are stored together and some fail or repeat, then each gets its ' +
+      'own answer and a resend changes nothing',
+    async () => {
+      const base = Date.now() - 50 * 3600_000
+      const good = Array.from({ length: 8 }, (_, i) =>
+        oru({ mrn: 'HL71001', control: `GC-OK-${i}`, obx: [{ value: String(110 + i), at: new Date(base + i * 60_000) }] }),
+      )
+      const unknown = [0, 1].map((i) => oru({ mrn: 'HL79999', control: `GC-AE-${i}`, obx: [{ value: '99' }] }))
+      const old = oru({ mrn: 'HL71001', control: 'GC-AR', version: '2.2', obx: [{ value: '98' }] })
+      const dup = oru({ mrn: 'HL71001', control: 'GC-DUP', obx: [{ value: '97', at: new Date(base - 60_000) }] })
+      const all = [...good, ...unknown, old, dup, dup]
+      const first = (await Promise.all(all.map((m) => send(port, m)))).flat()
+      expect(first.map(ackCode)).toEqual([...Array(8).fill('AA'), 'AE', 'AE', 'AR', 'AA', 'AA'])
+      // The two copies sent at once get the very same answer; the message and its result are stored once.
+      expect(first[12]!.toString()).toBe(first[11]!.toString())
+      expect(await Hl7MessageRow.count()).toBe(12)
+      expect(await Hl7MessageRow.count({ where: { needsAttention: true } })).toBe(2)
+      expect(await Result.count({ where: { source: 'hl7' } })).toBe(9)
+      // Several messages went into one transaction, so the failures above were rolled back alone.
+      expect(listener.batchStats().largest).toBeGreaterThan(1)
+      const again = (await Promise.all(all.map((m) => send(port, m)))).flat()
+      expect(again.map((a) => a.toString())).toEqual(first.map((a) => a.toString()))
+      expect(await Hl7MessageRow.count()).toBe(12)
+      expect(await Result.count({ where: { source: 'hl7' } })).toBe(9)
+    },
+  )
 })

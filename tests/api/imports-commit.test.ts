@@ -91,23 +91,27 @@ describe('a commit is all or nothing', () => {
 })
 
 describe('a preview stores nothing and reports what the commit will store', () => {
-  it('when a 1200-row file with a repeat across chunks is previewed then committed, then both report the same figures and the preview left no row, batch or audit', async () => {
-    const body = hbRows(1200)
-    const file = body + body.split('\r\n')[1] + '\r\n'
-    const preview = await uploadCsv(c, file).expect(200)
-    expect(preview.body).toMatchObject({ committed: false, accepted: 1200, skippedTotal: 1, skipCounts: { 'duplicate-in-file': 1 } })
-    expect(await Result.count()).toBe(0)
-    expect(await ImportBatch.count()).toBe(0)
-    expect(await AuditEntry.count({ where: { action: ['import', 'import-results'] } })).toBe(0)
-    const commit = await uploadCsv(c, file, { commit: true }).expect(201)
-    expect(commit.body).toMatchObject({
-      committed: true,
-      accepted: preview.body.accepted,
-      skippedTotal: preview.body.skippedTotal,
-      skipCounts: preview.body.skipCounts,
-    })
-    expect(await Result.count({ where: { importBatchId: commit.body.batchId } })).toBe(1200)
-  })
+  it(
+    'when a 1200-row file with a repeat across chunks is previewed then committed, then both report the ' +
+      'same figures and the preview left no row, batch or audit',
+    async () => {
+      const body = hbRows(1200)
+      const file = body + body.split('\r\n')[1] + '\r\n'
+      const preview = await uploadCsv(c, file).expect(200)
+      expect(preview.body).toMatchObject({ committed: false, accepted: 1200, skippedTotal: 1, skipCounts: { 'duplicate-in-file': 1 } })
+      expect(await Result.count()).toBe(0)
+      expect(await ImportBatch.count()).toBe(0)
+      expect(await AuditEntry.count({ where: { action: ['import', 'import-results'] } })).toBe(0)
+      const commit = await uploadCsv(c, file, { commit: true }).expect(201)
+      expect(commit.body).toMatchObject({
+        committed: true,
+        accepted: preview.body.accepted,
+        skippedTotal: preview.body.skippedTotal,
+        skipCounts: preview.body.skipCounts,
+      })
+      expect(await Result.count({ where: { importBatchId: commit.body.batchId } })).toBe(1200)
+    },
+  )
 })
 
 describe('reversing a batch', () => {

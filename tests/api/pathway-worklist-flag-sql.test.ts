@@ -71,8 +71,10 @@ const bit = (v: boolean | number | null | undefined) => (v == null ? null : v ? 
 
 async function sqlFlags(c: FlagInput): Promise<WorklistFlag[]> {
   const cols = WORKLIST_FLAGS.map((f, i) => `${FLAG_SQL[f]} AS f${i}`).join(', ')
-  const row = `SELECT :stage AS stage, CAST(:psd AS DATE) AS planned_surgery_date, :anaemic AS anaemic, CAST(:hbAt AS DATETIME) AS latest_hb_at,
-    CAST(:recheck AS DATE) AS recheck_due_date, CAST(:ordered AS DATETIME) AS treatment_ordered_at, CAST(:given AS DATETIME) AS treatment_given_at,
+  const row = `SELECT :stage AS stage, CAST(:psd AS DATE) AS planned_surgery_date, :anaemic AS anaemic,
+    CAST(:hbAt AS DATETIME) AS latest_hb_at,
+    CAST(:recheck AS DATE) AS recheck_due_date, CAST(:ordered AS DATETIME) AS treatment_ordered_at,
+      CAST(:given AS DATETIME) AS treatment_given_at,
     CAST(:moveAsked AS DATETIME) AS date_change_requested_at, :noResponse AS no_response_to_iron, :falling AS hb_falling_after_iron`
   const [out] = await t.sequelize.query<Record<string, number | null>>(`SELECT ${cols} FROM (${row}) r`, {
     type: QueryTypes.SELECT,

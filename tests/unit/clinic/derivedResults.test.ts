@@ -39,14 +39,18 @@ describe('derived TSAT (TSAT % = serum iron / TIBC × 100; clinical reference §
     expect(tsat).toEqual({ value: 20, derivedFrom: [3, 2] })
   })
 
-  it('when iron exceeds the binding capacity, then no TSAT is derived and the entry is refused as an error (a saturation above 100 % is impossible)', () => {
-    expect(() =>
-      tsatFromSample([
-        { id: 1, analyte: 'iron', valueCanonical: 70 },
-        { id: 2, analyte: 'tibc', valueCanonical: 60 },
-      ]),
-    ).toThrow(ClinicalInputError)
-  })
+  it(
+    'when iron exceeds the binding capacity, then no TSAT is derived and the entry is refused as an ' +
+      'error (a saturation above 100 % is impossible)',
+    () => {
+      expect(() =>
+        tsatFromSample([
+          { id: 1, analyte: 'iron', valueCanonical: 70 },
+          { id: 2, analyte: 'tibc', valueCanonical: 60 },
+        ]),
+      ).toThrow(ClinicalInputError)
+    },
+  )
 
   it('when a sample has iron but no transferrin or TIBC, then nothing is derived', () => {
     expect(tsatFromSample([{ id: 1, analyte: 'iron', valueCanonical: 10 }])).toBeNull()
@@ -72,48 +76,72 @@ describe('derived eGFR (CKD-EPI 2021, Inker et al., N Engl J Med 2021;385:1737; 
 })
 
 describe('screening outcome thresholds (clinical reference §5)', () => {
-  it('when a man has Hb 129 g/L under the surgical criteria, then he is anaemic; at 130 g/L he is not (Muñoz, Anaesthesia 2017;72:233: Hb < 130 g/L)', () => {
-    expect(screeningOutcome({ hb: { value: 129, takenAt: at }, ferritin: 150, tsat: 25 }, 'male', 'surgical').anaemic).toBe(true)
-    expect(screeningOutcome({ hb: { value: 130, takenAt: at }, ferritin: 150, tsat: 25 }, 'male', 'surgical').anaemic).toBe(false)
-  })
+  it(
+    'when a man has Hb 129 g/L under the surgical criteria, then he is anaemic; at 130 g/L he is not ' +
+      '(Muñoz, Anaesthesia 2017;72:233: Hb < 130 g/L)',
+    () => {
+      expect(screeningOutcome({ hb: { value: 129, takenAt: at }, ferritin: 150, tsat: 25 }, 'male', 'surgical').anaemic).toBe(true)
+      expect(screeningOutcome({ hb: { value: 130, takenAt: at }, ferritin: 150, tsat: 25 }, 'male', 'surgical').anaemic).toBe(false)
+    },
+  )
 
-  it('when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 (< 120 g/L) but is by the surgical criteria (< 130 g/L, Muñoz 2017)', () => {
-    expect(screeningOutcome({ hb: { value: 125, takenAt: at } }, 'female', 'who').anaemic).toBe(false)
-    expect(screeningOutcome({ hb: { value: 125, takenAt: at } }, 'female', 'surgical')).toMatchObject({
-      anaemic: true,
-      anaemiaSeverity: 'mild',
-    })
-  })
+  it(
+    'when a woman has Hb 125 g/L, then she is not anaemic by WHO 2024 (< 120 g/L) but is by the surgical ' +
+      'criteria (< 130 g/L, Muñoz 2017)',
+    () => {
+      expect(screeningOutcome({ hb: { value: 125, takenAt: at } }, 'female', 'who').anaemic).toBe(false)
+      expect(screeningOutcome({ hb: { value: 125, takenAt: at } }, 'female', 'surgical')).toMatchObject({
+        anaemic: true,
+        anaemiaSeverity: 'mild',
+      })
+    },
+  )
 
-  it('when a man has Hb 125 g/L under WHO criteria, then he is mildly anaemic (WHO 2024: < 130 g/L in men; WHO 2011 bands, from memory)', () => {
-    expect(screeningOutcome({ hb: { value: 125, takenAt: at } }, 'male', 'who')).toMatchObject({
-      anaemic: true,
-      anaemiaSeverity: 'mild',
-      proposedStage: 'clinic',
-    })
-  })
+  it(
+    'when a man has Hb 125 g/L under WHO criteria, then he is mildly anaemic (WHO 2024: < 130 g/L in ' +
+      'men; WHO 2011 bands, from memory)',
+    () => {
+      expect(screeningOutcome({ hb: { value: 125, takenAt: at } }, 'male', 'who')).toMatchObject({
+        anaemic: true,
+        anaemiaSeverity: 'mild',
+        proposedStage: 'clinic',
+      })
+    },
+  )
 
-  it('when ferritin is 25 µg/L, then iron is absolutely deficient and the patient goes to clinic (Muñoz 2017 ferritin < 30, from memory)', () => {
-    expect(screeningOutcome({ hb: { value: 140, takenAt: at }, ferritin: 25 }, 'male', 'surgical')).toMatchObject({
-      ironStatus: 'absolute-deficiency',
-      proposedStage: 'clinic',
-    })
-  })
+  it(
+    'when ferritin is 25 µg/L, then iron is absolutely deficient and the patient goes to clinic (Muñoz ' +
+      '2017 ferritin < 30, from memory)',
+    () => {
+      expect(screeningOutcome({ hb: { value: 140, takenAt: at }, ferritin: 25 }, 'male', 'surgical')).toMatchObject({
+        ironStatus: 'absolute-deficiency',
+        proposedStage: 'clinic',
+      })
+    },
+  )
 
-  it('when ferritin is 150 µg/L with TSAT 15 %, then iron is restricted (sequestration) and the patient goes to clinic (Muñoz 2017, from memory)', () => {
-    expect(screeningOutcome({ hb: { value: 140, takenAt: at }, ferritin: 150, tsat: 15 }, 'male', 'surgical')).toMatchObject({
-      ironStatus: 'iron-restricted',
-      proposedStage: 'clinic',
-    })
-  })
+  it(
+    'when ferritin is 150 µg/L with TSAT 15 %, then iron is restricted (sequestration) and the patient ' +
+      'goes to clinic (Muñoz 2017, from memory)',
+    () => {
+      expect(screeningOutcome({ hb: { value: 140, takenAt: at }, ferritin: 150, tsat: 15 }, 'male', 'surgical')).toMatchObject({
+        ironStatus: 'iron-restricted',
+        proposedStage: 'clinic',
+      })
+    },
+  )
 
-  it('when Hb is 138 g/L with ferritin 150 µg/L and TSAT 25 %, then the patient is proposed for clearance (neither anaemic nor iron deficient)', () => {
-    expect(screeningOutcome({ hb: { value: 138, takenAt: at }, ferritin: 150, tsat: 25 }, 'female', 'surgical')).toMatchObject({
-      anaemic: false,
-      ironStatus: 'replete',
-      proposedStage: 'cleared',
-    })
-  })
+  it(
+    'when Hb is 138 g/L with ferritin 150 µg/L and TSAT 25 %, then the patient is proposed for clearance ' +
+      '(neither anaemic nor iron deficient)',
+    () => {
+      expect(screeningOutcome({ hb: { value: 138, takenAt: at }, ferritin: 150, tsat: 25 }, 'female', 'surgical')).toMatchObject({
+        anaemic: false,
+        ironStatus: 'replete',
+        proposedStage: 'cleared',
+      })
+    },
+  )
 
   it('when there is no Hb, or a non-anaemic patient has no ferritin, then the screen is incomplete and nothing is proposed', () => {
     expect(screeningOutcome({ ferritin: 150, tsat: 25 }, 'female', 'surgical')).toMatchObject({

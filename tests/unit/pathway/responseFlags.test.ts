@@ -85,31 +85,43 @@ describe('the response flags kept on the referral row (shared/clinic/responseFla
     { givenAt: '2027-02-08T10:00:00Z', doseMg: 500, route: 'iv' as const },
   ]
 
-  it('when two 500 mg doses were recorded, then the course is 1000 mg from the first dose to the last, and a dose with no route counts as IV', () => {
-    expect(treatmentFromDoses(doses)).toEqual({
-      kind: 'iv',
-      firstDoseAt: doses[0]!.givenAt,
-      lastDoseAt: doses[1]!.givenAt,
-      totalMg: 1000,
-      deficitMg: null,
-    })
-    expect(treatmentFromDoses([])).toBeNull()
-  })
+  it(
+    'when two 500 mg doses were recorded, then the course is 1000 mg from the first dose to the last, ' +
+      'and a dose with no route counts as IV',
+    () => {
+      expect(treatmentFromDoses(doses)).toEqual({
+        kind: 'iv',
+        firstDoseAt: doses[0]!.givenAt,
+        lastDoseAt: doses[1]!.givenAt,
+        totalMg: 1000,
+        deficitMg: null,
+      })
+      expect(treatmentFromDoses([])).toBeNull()
+    },
+  )
 
-  it('when Hb goes 100 → 106 g/L 5 weeks after the last IV dose, then the row keeps "no response" and not "falling" (< 10 g/L rise by 4 weeks, common practice, reference §11)', () => {
-    const hb = [
-      { takenAt: '2027-01-28T09:00:00Z', hbGL: 100 },
-      { takenAt: '2027-03-15T09:00:00Z', hbGL: 106 },
-    ]
-    expect(responseFlags(hb, doses, ZONE)).toEqual({ noResponseToIron: true, hbFallingAfterIron: false })
-  })
+  it(
+    'when Hb goes 100 → 106 g/L 5 weeks after the last IV dose, then the row keeps "no response" and not ' +
+      '"falling" (< 10 g/L rise by 4 weeks, common practice, reference §11)',
+    () => {
+      const hb = [
+        { takenAt: '2027-01-28T09:00:00Z', hbGL: 100 },
+        { takenAt: '2027-03-15T09:00:00Z', hbGL: 106 },
+      ]
+      expect(responseFlags(hb, doses, ZONE)).toEqual({ noResponseToIron: true, hbFallingAfterIron: false })
+    },
+  )
 
-  it('when Hb falls 120 → 114 g/L after iron, then the row keeps "Hb falling" (a fall of 5 g/L or more, common practice); without doses neither flag', () => {
-    const hb = [
-      { takenAt: '2027-01-28T09:00:00Z', hbGL: 120 },
-      { takenAt: '2027-02-20T09:00:00Z', hbGL: 114 },
-    ]
-    expect(responseFlags(hb, doses, ZONE).hbFallingAfterIron).toBe(true)
-    expect(responseFlags(hb, [], ZONE)).toEqual({ noResponseToIron: false, hbFallingAfterIron: false })
-  })
+  it(
+    'when Hb falls 120 → 114 g/L after iron, then the row keeps "Hb falling" (a fall of 5 g/L or more, ' +
+      'common practice); without doses neither flag',
+    () => {
+      const hb = [
+        { takenAt: '2027-01-28T09:00:00Z', hbGL: 120 },
+        { takenAt: '2027-02-20T09:00:00Z', hbGL: 114 },
+      ]
+      expect(responseFlags(hb, doses, ZONE).hbFallingAfterIron).toBe(true)
+      expect(responseFlags(hb, [], ZONE)).toEqual({ noResponseToIron: false, hbFallingAfterIron: false })
+    },
+  )
 })
