@@ -21,6 +21,15 @@ if (typeof window !== 'undefined' && !window.matchMedia) {
     }) as MediaQueryList
 }
 
+// Nor ResizeObserver; PrimeVue's auto-resizing Textarea asks for one. Nothing is ever resized in jsdom.
+if (typeof window !== 'undefined' && !window.ResizeObserver) {
+  window.ResizeObserver = class {
+    observe(): void {}
+    unobserve(): void {}
+    disconnect(): void {}
+  }
+}
+
 /**
  * Mounts a component as the app runs it: real PrimeVue (unstyled: jsdom draws nothing), a fresh
  * Pinia and a fresh query cache. Only the HTTP answer is faked, at fetch (answerFetch below).
