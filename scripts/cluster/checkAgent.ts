@@ -55,7 +55,8 @@ export function startCheckAgent(port: number, socketPath: string, user = 'root',
 
 /**
  * On a database server: CHECK_PORT=9200 NODE_SOCKET=/run/mysqld/mysqld.sock CHECK_USER=... \
- * CHECK_PASSWORD=... CHECK_HOST=10.0.0.11 tsx scripts/cluster/checkAgent.ts
+ * CHECK_PASSWORD=... CHECK_HOST=10.0.0.11 node dist-server/scripts/cluster/checkAgent.js
+ * (compiled by npm run build; deploy/systemd/ferrolane-galera-check.service runs it)
  */
 if (process.argv[1] && import.meta.filename === process.argv[1]) {
   const port = Number(process.env.CHECK_PORT || 9200)
