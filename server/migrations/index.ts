@@ -18,6 +18,7 @@ import * as m0017 from './0017-dosing-table-choice'
 import * as m0018 from './0018-operation-cancellations'
 import * as m0019 from './0019-result-range-flags'
 import * as m0024 from './0024-report-covering-index'
+import * as m0025 from './0025-report-range-indexes'
 
 export interface Migration {
   name: string
@@ -46,4 +47,5 @@ export const migrations: Migration[] = [
   { name: '0018-operation-cancellations', ...m0018 },
   { name: '0019-result-range-flags', ...m0019 },
   { name: '0024-report-covering-index', ...m0024 },
+  { name: '0025-report-range-indexes', ...m0025 },
 ]

@@ -48,8 +48,11 @@ export function reportFilters(viewer: Viewer, q: Record<string, unknown>): Repor
 }
 
 /**
- * The WHERE clause shared by every report (referrals r joined to procedures p, and outcomes o
- * for the surgery-date reports), with named replacements.
+ * The WHERE clause shared by every report (referrals r, and outcomes o for the surgery-date
+ * reports), with named replacements. The operation is matched by its id (one constant lookup of
+ * the unique code), so the referral-period reports need no join to procedures: with that join
+ * MariaDB walked referrals per procedure and read every full row instead of the period's range of
+ * the covering index (migration 0025).
  */
 export function whereFor(f: ReportFilters, basis: 'referral' | 'surgery'): { sql: string; replacements: Record<string, unknown> } {
   const parts =
@@ -57,7 +60,7 @@ export function whereFor(f: ReportFilters, basis: 'referral' | 'surgery'): { sql
       ? ['r.created_at >= :from', 'r.created_at < DATE_ADD(:to, INTERVAL 1 DAY)']
       : ['o.surgery_date >= :from', 'o.surgery_date <= :to']
   if (f.surgeonId !== null) parts.push('r.surgeon_id = :surgeonId')
-  if (f.procedureCode !== null) parts.push('p.code = :procedureCode')
+  if (f.procedureCode !== null) parts.push('r.procedure_id = (SELECT pc.id FROM procedures pc WHERE pc.code = :procedureCode)')
   return { sql: parts.join(' AND '), replacements: { from: f.from, to: f.to, surgeonId: f.surgeonId, procedureCode: f.procedureCode } }
 }
 

@@ -14,7 +14,7 @@ SELECT COUNT(*) AS referred,
   SUM(o.id IS NOT NULL OR COALESCE(st.operated, 0)) AS operated,
   SUM((o.id IS NOT NULL OR COALESCE(st.operated, 0)) AND fh.first_hb_at IS NOT NULL
     AND DATEDIFF(COALESCE(o.surgery_date, r.planned_surgery_date), fh.first_hb_at) >= 28) AS screenedEarly
-FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
+FROM referrals r LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
 WHERE ${where}`
 
 const STEPS = [

@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, round1, select, whereFor, type ReportFilters } from './filters'
 import { MILESTONE_JOINS, WHOLE_PASSES } from './milestones'
+import { groupedPercentile } from './percentile'
 
 const LEGS = [
   ['referralToScreening', 'Referral → first screening result', 'created_at', 'first_hb_at'],
@@ -11,27 +12,36 @@ const LEGS = [
   ['referralToSurgery', 'Referral → surgery', 'created_at', 'surgery_date'],
 ] as const
 
-// One pass over the episodes: each leg is a column of day counts (NULL where an end is missing),
-// and MariaDB's PERCENTILE_CONT and COUNT skip the NULLs, so no leg is evaluated twice.
-// The milestones come from grouped passes (milestones.ts), not a probe per referral.
+// Each episode's legs are day counts (NULL where an end is missing) over its milestones
+// (milestones.ts). MariaDB groups the episodes by their five legs (t), then counts episodes per
+// leg and day (a few hundred rows); the median and 90th centile are read off those counts in
+// groupedPercentile. Issue #19: ten PERCENTILE_CONT window sorts over every episode cost about as
+// much MariaDB CPU again as the milestones themselves.
+// Where each end comes from (outcomes also has a created_at, so every column names its table).
+const COLUMN = {
+  created_at: 'r.created_at',
+  first_hb_at: 'fh.first_hb_at',
+  clinic_at: 'st.clinic_at',
+  first_dose_at: 'fd.first_dose_at',
+  surgery_date: 'o.surgery_date',
+}
+const LEG_DAYS = LEGS.map((_, i) => `WHEN ${i} THEN t.l${i}`).join(' ')
 const SQL = (where: string) => `${WHOLE_PASSES}
-WITH x AS (
-  SELECT r.created_at, fh.first_hb_at, st.clinic_at, fd.first_dose_at, o.surgery_date
-  FROM referrals r JOIN procedures p ON p.id = r.procedure_id LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
+WITH t AS (
+  SELECT ${LEGS.map(([, , a, b], i) => `DATEDIFF(${COLUMN[b]}, ${COLUMN[a]}) AS l${i}`).join(', ')}, COUNT(*) AS n
+  FROM referrals r LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
   WHERE ${where}
-), d AS (
-  SELECT ${LEGS.map(([key, , a, b]) => `DATEDIFF(${b}, ${a}) AS ${key}`).join(', ')} FROM x
+  GROUP BY ${LEGS.map((_, i) => `l${i}`).join(', ')}
 )
-SELECT ${LEGS.map(
-  ([key]) => `COUNT(${key}) OVER () AS ${key}_n,
-  PERCENTILE_CONT(0.5) WITHIN GROUP (ORDER BY ${key}) OVER () AS ${key}_median,
-  PERCENTILE_CONT(0.9) WITHIN GROUP (ORDER BY ${key}) OVER () AS ${key}_p90`,
-).join(',\n  ')}
-FROM d LIMIT 1`
+SELECT k.leg, CASE k.leg ${LEG_DAYS} END AS days, SUM(t.n) AS n
+FROM t JOIN (${LEGS.map((_, i) => `SELECT ${i} AS leg`).join(' UNION ALL ')}) k
+GROUP BY k.leg, days HAVING days IS NOT NULL`
 
 export async function waitingTimesReport(sequelize: Sequelize, f: ReportFilters): Promise<Report> {
   const w = whereFor(f, 'referral')
-  const [found] = await select<Record<string, unknown>>(sequelize, SQL(w.sql), w.replacements)
+  const counts = LEGS.map(() => [] as { value: number; n: number }[])
+  for (const g of await select<{ leg: unknown; days: unknown; n: unknown }>(sequelize, SQL(w.sql), w.replacements))
+    counts[num(g.leg)!]!.push({ value: num(g.days)!, n: num(g.n) ?? 0 })
   const period = `${PERIOD_BASIS.referral} (${f.from} to ${f.to})`
   const definitions = Object.fromEntries(
     LEGS.map(([key, label, a, b]) => [
@@ -47,14 +57,14 @@ export async function waitingTimesReport(sequelize: Sequelize, f: ReportFilters)
       },
     ]),
   )
-  const rows = LEGS.map(([key, label]) => {
-    const n = num(found?.[`${key}_n`]) ?? 0
+  const rows = LEGS.map(([key, label], i) => {
+    const days = counts[i]!
     return {
       leg: key,
       label,
-      episodes: n,
-      medianDays: n ? round1(num(found?.[`${key}_median`])) : null,
-      p90Days: n ? round1(num(found?.[`${key}_p90`])) : null,
+      episodes: days.reduce((s, g) => s + g.n, 0),
+      medianDays: round1(groupedPercentile(days, 0.5)),
+      p90Days: round1(groupedPercentile(days, 0.9)),
       definition: definitions[key]!,
     }
   })
