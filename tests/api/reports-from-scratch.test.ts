@@ -1,0 +1,311 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { QueryTypes } from 'sequelize'
+import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
+import { Client } from '../helpers/agent'
+import { makeStaff, type StaffFixture } from '../helpers/factories'
+import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
+import { Administration, Outcome, Prescription, Referral, Result, StageTransition } from '../../server/models/index'
+import { STAGES } from '../../shared/pathway'
+
+/**
+ * Issue #19: the funnel and waiting times are computed by grouped SQL passes and grouped day counts
+ * (server/services/reports/funnel.ts, waitingTimes.ts). Here the same figures are worked out from
+ * the raw rows in plain TypeScript, one episode at a time, on a varied fixture: every stage, Hb
+ * values voided or preliminary (never counted), several moves to clinic, missing dates, operations
+ * with and without a post-operative record, referrals on both edges of the period, two surgeons and
+ * two operations. The answers must be equal for an admin, for one operation, and for a surgeon (who
+ * sees only their own patients whatever they ask for).
+ */
+let t: TestApp
+let s1: StaffFixture
+let s2: StaffFixture
+let asAdmin: Client
+let asSurgeon: Client
+
+const FROM = '2025-03-01'
+const TO = '2025-06-30'
+const DAY = 86_400_000
+
+// A small deterministic PRNG, so the fixture is the same on every run.
+function prng(seed: number) {
+  return () => {
+    seed = (seed + 0x6d2b79f5) | 0
+    let x = Math.imul(seed ^ (seed >>> 15), 1 | seed)
+    x = (x + Math.imul(x ^ (x >>> 7), 61 | x)) ^ x
+    return ((x ^ (x >>> 14)) >>> 0) / 4294967296
+  }
+}
+
+const at = (day: string, time = '12:00:00') => new Date(`${day}T${time}.000Z`)
+const plus = (d: Date, days: number) => new Date(d.getTime() + days * DAY)
+const iso = (d: Date) => d.toISOString().slice(0, 10)
+
+beforeAll(async () => {
+  t = makeTestApp()
+  await cleanDatabase(t.sequelize)
+  s1 = await makeStaff('surgeon', { name: 'Surgeon Scratch One' })
+  s2 = await makeStaff('surgeon', { name: 'Surgeon Scratch Two' })
+  const knee = await makeProcedure({ code: 'SCRKNEE' })
+  const hip = await makeProcedure({ code: 'SCRHIP' })
+  const rand = prng(19_04)
+  const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)]!
+  // The period's edges, then days from two weeks before it to two weeks after it.
+  const created = ['2025-03-01 00:00:00', '2025-02-28 23:59:59', '2025-06-30 23:59:59', '2025-07-01 00:00:00']
+  for (let i = 0; i < 56; i++) {
+    const createdAt = created[i] ? new Date(`${created[i]!.replace(' ', 'T')}.000Z`) : plus(at('2025-02-15'), Math.floor(rand() * 150))
+    const p = await makePatient({ sex: pick(['female', 'male'] as const) })
+    const r = await makeReferral(
+      { patientId: p.id, procedureId: pick([knee.id, hip.id]), surgeonId: pick([s1.id, s2.id]) },
+      {
+        stage: pick(STAGES),
+        plannedSurgeryDate: iso(plus(createdAt, 20 + Math.floor(rand() * 60))),
+        anaemic: pick([true, false, null]),
+        ironStatus: pick(['absolute-deficiency', 'iron-restricted', 'replete', null] as const),
+      },
+    )
+    await t.sequelize.query('UPDATE referrals SET created_at = ? WHERE id = ?', {
+      type: QueryTypes.UPDATE,
+      replacements: [createdAt, r.id],
+    })
+    // Hb results: none, or up to four, each final, corrected, preliminary or voided.
+    const hbCount = pick([0, 1, 2, 3, 4])
+    for (let k = 0; k < hbCount; k++) {
+      const kind = pick(['final', 'final', 'corrected', 'preliminary', 'voided'] as const)
+      await Result.create({
+        referralId: r.id,
+        patientId: p.id,
+        analyte: 'hb',
+        valueCanonical: 90 + Math.floor(rand() * 60),
+        unitCanonical: 'g/L',
+        valueReported: 100,
+        unitReported: 'g/L',
+        takenAt: plus(createdAt, Math.floor(rand() * 50) - 3),
+        enteredBy: null,
+        derivedFrom: null,
+        status: kind === 'voided' ? 'final' : kind,
+        voidedAt: kind === 'voided' ? plus(createdAt, 60) : null,
+        voidReason: kind === 'voided' ? 'entered on the wrong episode (test)' : null,
+      })
+    }
+    // Moves: to clinic (none, once or twice), cleared, operated.
+    for (let k = pick([0, 0, 1, 2]); k > 0; k--)
+      await StageTransition.create({
+        referralId: r.id,
+        fromStage: null,
+        toStage: 'clinic',
+        reason: null,
+        userId: null,
+        at: plus(createdAt, 5 + Math.floor(rand() * 30)),
+      })
+    if (rand() < 0.4)
+      await StageTransition.create({
+        referralId: r.id,
+        fromStage: null,
+        toStage: 'cleared',
+        reason: null,
+        userId: null,
+        at: plus(createdAt, 40),
+      })
+    if (rand() < 0.3)
+      await StageTransition.create({
+        referralId: r.id,
+        fromStage: null,
+        toStage: 'operated',
+        reason: null,
+        userId: null,
+        at: plus(createdAt, 55),
+      })
+    // Treatment: a prescription alone, or with one or two doses given.
+    if (rand() < 0.5) {
+      const rx = await Prescription.create({
+        referralId: r.id,
+        productCode: 'ferric-carboxymaltose',
+        route: 'iv',
+        weightKg: 70,
+        hbGL: 100,
+        targetHbGL: 150,
+        deficitMg: 1000,
+        totalMg: 1000,
+        firstDoseDate: iso(plus(createdAt, 10)),
+        plan: { doses: [], warnings: [] },
+        cautions: {} as never,
+        overrideReason: null,
+        status: 'completed',
+        prescribedBy: null,
+        prescribedAt: plus(createdAt, 8),
+      })
+      for (let k = pick([0, 1, 2]); k > 0; k--)
+        await Administration.create({
+          prescriptionId: rx.id,
+          referralId: r.id,
+          doseMg: 500,
+          givenAt: plus(createdAt, 9 + Math.floor(rand() * 25)),
+          batchNumber: 'SCRATCH',
+          reaction: 'none',
+          reactionNotes: null,
+          givenBy: null,
+        })
+    }
+    if (rand() < 0.45)
+      await Outcome.create({
+        referralId: r.id,
+        surgeryDate: iso(plus(createdAt, 30 + Math.floor(rand() * 40))),
+        bloodLossMl: 300,
+        unitsTransfusedIntraOp: 0,
+        unitsTransfusedPostOp: 0,
+        unitsCrossmatched: 0,
+        lowestHbGL: 90,
+        dischargeHbGL: null,
+        lengthOfStayDays: 3,
+        complications: ['none'],
+        recordedBy: null,
+      })
+  }
+  const a = await makeStaff('admin')
+  asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
+  asSurgeon = await new Client(t.app).mustSignIn(s1.email, s1.password)
+})
+afterAll(async () => {
+  await t.close()
+})
+
+/** Each referral of the period (filters applied in TypeScript) with its milestones, from the raw rows. */
+async function episodes(filter: { surgeonId?: number; procedureCode?: string }) {
+  const [referrals, results, moves, prescriptions, doses, outcomes] = await Promise.all([
+    Referral.findAll({ include: ['procedure'] }),
+    Result.findAll(),
+    StageTransition.findAll(),
+    Prescription.findAll(),
+    Administration.findAll(),
+    Outcome.findAll(),
+  ])
+  const lo = at(FROM, '00:00:00').getTime()
+  const hi = at(TO, '00:00:00').getTime() + DAY
+  return referrals
+    .filter((r) => r.createdAt.getTime() >= lo && r.createdAt.getTime() < hi)
+    .filter((r) => filter.surgeonId === undefined || r.surgeonId === filter.surgeonId)
+    .filter(
+      (r) =>
+        filter.procedureCode === undefined || (r as unknown as { procedure: { code: string } }).procedure.code === filter.procedureCode,
+    )
+    .map((r) => {
+      const hb = results
+        .filter((x) => x.referralId === r.id && x.analyte === 'hb' && x.voidedAt === null && x.status !== 'preliminary')
+        .map((x) => x.takenAt.getTime())
+      const given = doses.filter((x) => x.referralId === r.id).map((x) => x.givenAt.getTime())
+      const mine = moves.filter((x) => x.referralId === r.id)
+      const clinic = mine.filter((x) => x.toStage === 'clinic').map((x) => x.at.getTime())
+      const outcome = outcomes.find((x) => x.referralId === r.id)
+      return {
+        r,
+        firstHb: hb.length ? Math.min(...hb) : null,
+        lastHb: hb.length ? Math.max(...hb) : null,
+        firstDose: given.length ? Math.min(...given) : null,
+        clinicAt: clinic.length ? Math.min(...clinic) : null,
+        prescribed: prescriptions.some((x) => x.referralId === r.id),
+        cleared: mine.some((x) => x.toStage === 'cleared'),
+        operated: outcome !== undefined || mine.some((x) => x.toStage === 'operated'),
+        surgeryDate: outcome ? String(outcome.surgeryDate) : null,
+      }
+    })
+}
+
+// Calendar days between two instants (or dates), as MariaDB's DATEDIFF counts them in UTC.
+const dayNo = (v: number | string) => Math.floor((typeof v === 'string' ? Date.parse(`${v}T00:00:00Z`) : v) / DAY)
+const days = (a: number | string | null, b: number | string | null) => (a === null || b === null ? null : dayNo(b) - dayNo(a))
+
+async function expectedFunnel(filter: { surgeonId?: number; procedureCode?: string }) {
+  const es = await episodes(filter)
+  const count = (f: (e: (typeof es)[number]) => boolean) => es.filter(f).length
+  return {
+    referred: es.length,
+    screened: count((e) => e.firstHb !== null),
+    anaemicOrDeficient: count(
+      (e) => e.r.anaemic === true || e.r.ironStatus === 'absolute-deficiency' || e.r.ironStatus === 'iron-restricted' || e.prescribed,
+    ),
+    treated: count((e) => e.firstDose !== null),
+    rechecked: count((e) => e.firstDose !== null && e.lastHb !== null && e.lastHb > e.firstDose),
+    cleared: count((e) => e.cleared),
+    operated: count((e) => e.operated),
+    screenedEarly: count((e) => e.operated && e.firstHb !== null && days(e.firstHb, e.surgeryDate ?? e.r.plannedSurgeryDate)! >= 28),
+  }
+}
+
+/** PERCENTILE_CONT over every episode's value, sorted in full: no grouping. */
+function centile(values: number[], p: number): number | null {
+  if (values.length === 0) return null
+  const v = [...values].sort((a, b) => a - b)
+  const pos = p * (v.length - 1)
+  const below = v[Math.floor(pos)]!
+  return Math.round((below + (pos - Math.floor(pos)) * (v[Math.ceil(pos)]! - below)) * 10) / 10
+}
+
+async function expectedWaitingTimes(filter: { surgeonId?: number; procedureCode?: string }) {
+  const es = await episodes(filter)
+  const legs = {
+    referralToScreening: es.map((e) => days(e.r.createdAt.getTime(), e.firstHb)),
+    screeningToClinic: es.map((e) => days(e.firstHb, e.clinicAt)),
+    clinicToTreatment: es.map((e) => days(e.clinicAt, e.firstDose)),
+    treatmentToSurgery: es.map((e) => days(e.firstDose, e.surgeryDate)),
+    referralToSurgery: es.map((e) => days(e.r.createdAt.getTime(), e.surgeryDate)),
+  }
+  return Object.entries(legs).map(([leg, all]) => {
+    const v = all.filter((x): x is number => x !== null)
+    return { leg, episodes: v.length, medianDays: centile(v, 0.5), p90Days: centile(v, 0.9) }
+  })
+}
+
+async function answer(client: Client, name: string, extra = '') {
+  const res = await client.get(`/api/reports/${name}?from=${FROM}&to=${TO}${extra}`)
+  expect(res.status, JSON.stringify(res.body)).toBe(200)
+  return res.body.tables
+}
+
+const CASES = [
+  ['an admin, the whole period', () => asAdmin, '', {}],
+  ['an admin, one operation', () => asAdmin, '&procedureCode=SCRHIP', { procedureCode: 'SCRHIP' }],
+  ['an admin, one surgeon', () => asAdmin, '', { surgeon: 2 }],
+  ['a surgeon (own patients only, whatever is asked)', () => asSurgeon, '', { surgeon: 1 }],
+] as const
+
+describe('funnel and waiting times against a count from scratch', () => {
+  it('when the fixture is varied, then it has what the comparison needs', async () => {
+    const es = await episodes({})
+    // Both edges of the period are in it; the day before and the day after are not.
+    expect(es.map((e) => e.r.createdAt.toISOString())).toEqual(
+      expect.arrayContaining(['2025-03-01T00:00:00.000Z', '2025-06-30T23:59:59.000Z']),
+    )
+    expect(es.some((e) => e.r.createdAt.toISOString() === '2025-02-28T23:59:59.000Z')).toBe(false)
+    expect(es.some((e) => e.r.createdAt.toISOString() === '2025-07-01T00:00:00.000Z')).toBe(false)
+    const f = await expectedFunnel({})
+    for (const v of Object.values(f)) expect(v).toBeGreaterThan(0)
+    expect(f.referred).toBeGreaterThan(f.screened)
+    const [{ n }] = await t.sequelize.query<{ n: number }>(
+      "SELECT COUNT(*) AS n FROM results WHERE voided_at IS NOT NULL OR status = 'preliminary'",
+      { type: QueryTypes.SELECT },
+    )
+    expect(Number(n)).toBeGreaterThan(5)
+  })
+
+  it.each(CASES)('when %s asks for the funnel, then each step is the count from scratch', async (_, client, extra, o) => {
+    const filter = {
+      ...('procedureCode' in o ? { procedureCode: o.procedureCode } : {}),
+      ...('surgeon' in o ? { surgeonId: (o.surgeon === 1 ? s1 : s2).id } : {}),
+    }
+    const q = 'surgeon' in o && client() === asAdmin ? `${extra}&surgeonId=${filter.surgeonId}` : extra
+    const rows = (await answer(client(), 'funnel', q)).funnel.rows as { step: string; count: number }[]
+    expect(Object.fromEntries(rows.map((r) => [r.step, r.count]))).toEqual(await expectedFunnel(filter))
+  })
+
+  it.each(CASES)('when %s asks for waiting times, then each leg is the from-scratch count and centiles', async (_, client, extra, o) => {
+    const filter = {
+      ...('procedureCode' in o ? { procedureCode: o.procedureCode } : {}),
+      ...('surgeon' in o ? { surgeonId: (o.surgeon === 1 ? s1 : s2).id } : {}),
+    }
+    const q = 'surgeon' in o && client() === asAdmin ? `${extra}&surgeonId=${filter.surgeonId}` : extra
+    const rows = (await answer(client(), 'waiting-times', q)).waitingTimes.rows as Record<string, unknown>[]
+    const expected = await expectedWaitingTimes(filter)
+    expect(rows.map((r) => ({ leg: r.leg, episodes: r.episodes, medianDays: r.medianDays, p90Days: r.p90Days }))).toEqual(expected)
+    expect(expected.filter((l) => l.episodes > 1).length).toBeGreaterThanOrEqual(4)
+  })
+})
