@@ -64,6 +64,15 @@ export function whereFor(f: ReportFilters, basis: 'referral' | 'surgery'): { sql
   return { sql: parts.join(' AND '), replacements: { from: f.from, to: f.to, surgeonId: f.surgeonId, procedureCode: f.procedureCode } }
 }
 
+/**
+ * For the reports that group per-episode facts (a derived table x of correlated lookups): MariaDB
+ * otherwise merges x into the grouping query, and every reference to a fact re-runs its lookup (the
+ * quality report names the first Hb four times, so it was looked up four times per episode). With
+ * x materialized each lookup runs once per episode. Issue #19, on the bench database: MariaDB CPU for
+ * the quality query 224 → 152 ms, haemoglobin 122 → 100, transfusion 100 → 90. For that statement only.
+ */
+export const FACTS_ONCE = "SET STATEMENT optimizer_switch = 'derived_merge=off' FOR"
+
 export function select<T extends object>(sequelize: Sequelize, sql: string, replacements: Record<string, unknown>): Promise<T[]> {
   return sequelize.query<T>(sql, { type: QueryTypes.SELECT, replacements })
 }

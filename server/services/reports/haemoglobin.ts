@@ -1,13 +1,13 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
-import { num, round1, select, whereFor, type ReportFilters } from './filters'
+import { num, round1, select, whereFor, FACTS_ONCE, type ReportFilters } from './filters'
 import { SURGERY_DAY_SQL } from './surgeryDay'
 
 const BIN_GL = 10
 
 // One pass: the per-episode lookups run once and are grouped by (product, screening band,
 // surgery-day band, rise); the few hundred groups are then summed and the medians read off.
-const SQL = (where: string) => `
+const SQL = (where: string) => `${FACTS_ONCE}
 SELECT COALESCE(x.product, 'untreated') AS product,
   FLOOR(x.first_hb / ${BIN_GL}) * ${BIN_GL} AS firstBin, FLOOR(x.surgery_hb / ${BIN_GL}) * ${BIN_GL} AS surgeryBin,
   x.surgery_hb - x.first_hb AS rise, COUNT(*) AS n

@@ -13,7 +13,7 @@ import {
 } from '../../../shared/reports/quality'
 import { classifyAnaemia } from '../../../shared/clinical'
 import { getClinicSettings } from '../clinicSettings'
-import { num, pct, round1, select, whereFor, type ReportFilters } from './filters'
+import { num, pct, round1, select, whereFor, FACTS_ONCE, type ReportFilters } from './filters'
 import { groupedMedian } from './haemoglobin'
 import { EPISODE_FACTS_SQL, PRE_HB_SQL } from './qualitySql'
 import { mergeExtras, qualityExtras } from './qualityExtras'
@@ -43,7 +43,7 @@ const COUNTS: Record<QualityMeasureId, [string, string]> = {
   'crossmatch-against-schedule': ['0', '0'],
 }
 
-const SQL = (where: string) => `
+const SQL = (where: string) => `${FACTS_ONCE}
 SELECT x.procedureId, x.surgeonId, x.month, COUNT(*) AS operated, SUM(x.rbcUnits) AS rbcUnits,
   ${QUALITY_MEASURE_IDS.map((id, i) => `SUM(${COUNTS[id][0]}) AS n${i}, SUM(${COUNTS[id][1]}) AS d${i}`).join(',\n  ')}
 FROM (${EPISODE_FACTS_SQL(where)}) x

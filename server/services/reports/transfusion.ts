@@ -2,13 +2,13 @@ import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Definition, type Report, type ReportTable } from '../../../shared/reports'
 import { classifyAnaemia } from '../../../shared/clinical'
 import { getClinicSettings } from '../clinicSettings'
-import { num, pct, round1, select, whereFor, type ReportFilters } from './filters'
+import { num, pct, round1, select, whereFor, FACTS_ONCE, type ReportFilters } from './filters'
 import { SURGERY_DAY_SQL } from './surgeryDay'
 
 // The anaemia thresholds come from the clinical library under the clinic's criteria, so the
 // SQL classifies exactly as screening does (strict "<"); pregnancy is not applied after surgery.
 // One pass, grouped by operation, surgeon and treatment; the two tables add those groups up.
-const SQL = (where: string) => `
+const SQL = (where: string) => `${FACTS_ONCE}
 SELECT x.procedure_id AS procedureId, x.surgeon_id AS surgeonId, (x.product IS NOT NULL) AS treated,
   COUNT(*) AS patients,
   SUM(x.surgery_hb IS NOT NULL) AS withHb,
