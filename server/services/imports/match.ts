@@ -24,12 +24,16 @@ export interface PatientMatch {
 // Stages after which an episode takes no new results; imports match only the open ones.
 const ENDED = ['closed', 'withdrawn']
 
-/** Patients by MRN with their newest open episode (one query for a chunk of rows). */
+/**
+ * Patients by MRN with their newest open episode (one query for a chunk of rows). MAX(id), not
+ * ORDER BY id DESC LIMIT 1: the same episode at about half MariaDB's CPU for 1000 MRNs (6 against
+ * 10 ms); a join of the chunk's MRNs as a VALUES table to a grouped MAX was no cheaper (README).
+ */
 export async function findPatients(sequelize: Sequelize, mrns: string[], t?: Transaction): Promise<Map<string, PatientMatch>> {
   if (!mrns.length) return new Map()
   const rows = await sequelize.query<Omit<PatientMatch, 'dob'> & { dob: string | Date }>(
     `SELECT p.mrn, p.id AS patientId, CONCAT(p.given_name, ' ', p.family_name) AS name, p.date_of_birth AS dob, p.sex,
-       (SELECT r.id FROM referrals r WHERE r.patient_id = p.id AND r.stage NOT IN (:ended) ORDER BY r.id DESC LIMIT 1) AS referralId
+       (SELECT MAX(r.id) FROM referrals r WHERE r.patient_id = p.id AND r.stage NOT IN (:ended)) AS referralId
      FROM patients p WHERE p.mrn IN (:mrns)`,
     { type: QueryTypes.SELECT, replacements: { mrns, ended: ENDED }, transaction: t },
   )
