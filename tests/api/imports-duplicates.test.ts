@@ -91,4 +91,21 @@ describe('duplicates found by the natural key', () => {
     expect(again.body).toMatchObject({ accepted: 0, skipCounts: { 'duplicate-stored': 6 } })
     expect(await Result.count()).toBe(5)
   })
+
+  it(
+    'when a later chunk repeats, within its unit rounding, a value accepted in the first chunk, then preview and commit both call ' +
+      'it repeated in the file',
+    async () => {
+      const T2 = takenHoursAgo(30)
+      const filler = Array.from({ length: 1099 }, (_, i) => ['DUP0001', 'HB', 100 + (i % 50), 'g/L', takenHoursAgo(40 + i / 60)])
+      // Row 2: 17.9 µmol/L; row 1102, in the second chunk of 1000: 100 µg/dL = 17.91 ± 0.09 µmol/L.
+      const file = csv([HEADER, ['DUP0001', 'FE', 17.9, 'umol/L', T2], ...filler, ['DUP0001', 'FE', 100, 'ug/dL', T2]])
+      const preview = await uploadCsv(c, file).expect(200)
+      const commit = await uploadCsv(c, file, { commit: true }).expect(201)
+      for (const res of [preview, commit]) {
+        expect(res.body).toMatchObject({ rowsRead: 1101, accepted: 1100, skippedTotal: 1, skipCounts: { 'duplicate-in-file': 1 } })
+        expect(res.body.skipped).toEqual([expect.objectContaining({ row: 1102, code: 'duplicate-in-file' })])
+      }
+    },
+  )
 })

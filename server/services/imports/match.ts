@@ -1,6 +1,7 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { naturalKey, type Checked, type Reading, type SkippedRow } from '../../../shared/imports'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
+import { PREVIEW_KEYS } from './previewKeys'
 import type { Sex } from '../../../shared/clinical'
 
 /** A row that will be stored: the reading and the episode it belongs to. */
@@ -53,13 +54,24 @@ export async function findPatients(sequelize: Sequelize, mrns: string[], t?: Tra
  * An OR of a thousand key ranges here cost MariaDB's range optimiser about a third of a second
  * per chunk, most of an import's time (README, performance notes).
  */
-async function storedKeys(sequelize: Sequelize, rows: MatchedRow[], t?: Transaction): Promise<Map<string, number | null>> {
+async function storedKeys(
+  sequelize: Sequelize,
+  rows: MatchedRow[],
+  run: { batchId: number | null; previewKeys?: boolean },
+  t?: Transaction,
+): Promise<Map<string, number | null>> {
   if (!rows.length) return new Map()
+  // A preview keeps the rows it accepted in its own key table (previewKeys.ts), as this batch's.
+  const earlierInFile = run.previewKeys
+    ? `UNION ALL SELECT STRAIGHT_JOIN k.i, p.value_canonical, ${Number(run.batchId)}
+     FROM k JOIN ${PREVIEW_KEYS} p ON p.referral_id = k.referral_id AND p.analyte = k.analyte AND p.taken_at = k.taken_at
+       AND p.value_canonical BETWEEN k.lo AND k.hi`
+    : ''
   const found = await sequelize.query<{ i: number; valueCanonical: number; batchId: number | null }>(
     `WITH k (i, referral_id, analyte, taken_at, lo, hi) AS (VALUES ${rows.map(() => '(?, ?, ?, ?, ?, ?)').join(', ')})
      SELECT STRAIGHT_JOIN k.i, r.value_canonical AS valueCanonical, r.import_batch_id AS batchId
      FROM k JOIN results r ON r.referral_id = k.referral_id AND r.analyte = k.analyte AND r.taken_at = k.taken_at
-       AND r.value_canonical BETWEEN k.lo AND k.hi`,
+       AND r.value_canonical BETWEEN k.lo AND k.hi ${earlierInFile}`,
     {
       type: QueryTypes.SELECT,
       transaction: t,
@@ -69,6 +81,8 @@ async function storedKeys(sequelize: Sequelize, rows: MatchedRow[], t?: Transact
       }),
     },
   )
+  // Nearest stored value first, whichever table holds it, so a preview and its commit agree.
+  found.sort((a, b) => Number(a.i) - Number(b.i) || a.valueCanonical - b.valueCanonical)
   const out = new Map<string, number | null>()
   for (const f of found) {
     const r = rows[Number(f.i)]!
@@ -92,7 +106,7 @@ export interface ChunkOutcome {
 export async function matchChunk(
   sequelize: Sequelize,
   items: { row: number; checked: Checked }[],
-  run: { batchId: number | null; seen: Set<string> },
+  run: { batchId: number | null; seen: Set<string>; previewKeys?: boolean },
   t?: Transaction,
 ): Promise<ChunkOutcome> {
   const skipped: SkippedRow[] = []
@@ -116,7 +130,7 @@ export async function matchChunk(
       skipped.push({ row: v.row, code: 'bad-date', reason: 'time taken is before the date of birth' })
     else matched.push({ row: v.row, reading: v.reading, referralId: p.referralId, patientId: p.patientId, patientName: p.name })
   }
-  const stored = await storedKeys(sequelize, matched, t)
+  const stored = await storedKeys(sequelize, matched, run, t)
   const accepted: MatchedRow[] = []
   for (const m of matched) {
     const key = naturalKey(m.referralId, m.reading.analyte, m.reading.takenAt, m.reading.valueCanonical)
