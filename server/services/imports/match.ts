@@ -45,7 +45,8 @@ export async function findPatients(sequelize: Sequelize, mrns: string[], t?: Tra
 }
 
 /**
- * Which of these rows are already stored (inside the commit's transaction, earlier chunks count),
+ * Which of these rows are already stored (inside the run's transaction, earlier chunks count:
+ * a commit's inserted rows, a preview's key table),
  * keyed by each row's own natural key. A value converted from another unit matches a stored one
  * within its tolerance (an exported µg/dL rounds the stored µmol/L), so a re-import is no new row.
  *
@@ -81,13 +82,13 @@ async function storedKeys(
       }),
     },
   )
-  // Nearest stored value first, whichever table holds it, so a preview and its commit agree.
+  // Lowest matching value first, whichever table holds it: one order for a preview and its commit.
   found.sort((a, b) => Number(a.i) - Number(b.i) || a.valueCanonical - b.valueCanonical)
   const out = new Map<string, number | null>()
   for (const f of found) {
     const r = rows[Number(f.i)]!
     const key = naturalKey(r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical)
-    // The first stored row within tolerance answers, as before (index order: by value).
+    // The first stored row within tolerance answers, as before.
     if (!out.has(key) && Math.abs(f.valueCanonical - r.reading.valueCanonical) <= (r.reading.tolerance ?? 0)) out.set(key, f.batchId)
   }
   return out
