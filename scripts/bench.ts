@@ -72,7 +72,7 @@ async function main(): Promise<void> {
     const databasePid = Number(readFileSync(path.join(benchDir, 'mariadb.pid'), 'utf8').trim())
     if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail, databasePid)))
     if (wants('reports')) console.log(JSON.stringify(await benchReports(env, databasePid)))
-    if (wants('imports')) console.log(JSON.stringify(await benchImports(env, data.nurseEmail, benchDir)))
+    if (wants('imports')) console.log(JSON.stringify(await benchImports(env, data.nurseEmail, benchDir, databasePid)))
     if (wants('hl7')) console.log(JSON.stringify(await benchHl7(env)))
     if (wants('polls')) console.log(JSON.stringify(await benchPolls(env, dist)))
   } finally {

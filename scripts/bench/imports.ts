@@ -4,11 +4,11 @@
  * Each committed batch is reversed afterwards, so the next run meets no duplicates and the
  * bench database keeps its size.
  */
-import { mkdirSync, openAsBlob, openSync, writeSync, closeSync, rmSync } from 'node:fs'
+import { mkdirSync, openAsBlob, openSync, writeSync, closeSync, readFileSync, rmSync } from 'node:fs'
 import path from 'node:path'
 import { checkCsvRecord, codeWork, DEFAULT_MAPPING, type ColumnMapping } from '../../shared/imports'
 import { BENCH_PASSWORD, BENCH_SIZE } from './benchData'
-import { memoryMb, signIn, startBenchServer } from './server'
+import { cpuMs, memoryMb, signIn, startBenchServer } from './server'
 
 const SIZES = [25_000, 100_000]
 const MAX_SECONDS = 20
@@ -92,7 +92,14 @@ async function upload(
   return { ms, body }
 }
 
-export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, dataDir: string) {
+/** The 1-minute load average, printed beside every figure: wall times on a shared machine follow it. */
+const loadAverage = () => Number(readFileSync('/proc/loadavg', 'utf8').split(' ')[0])
+
+/**
+ * `databasePid`: MariaDB's process. Beside each wall time, the CPU the server and MariaDB spent on
+ * that step (from /proc; the load of a shared machine moves these far less than wall time).
+ */
+export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, dataDir: string, databasePid?: number) {
   const matching = codeMatching()
   const server = await startBenchServer(env, 8099)
   // rssBeforeMb beside peakRssMb shows how far one file raises the server's memory.
@@ -105,6 +112,9 @@ export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, d
     accepted: number
     skipped: number
     reverseMs: number
+    serverCpuMs: { preview: number; commit: number; reverse: number }
+    databaseCpuMs?: { preview: number; commit: number; reverse: number }
+    loadAverage: number[]
   }[] = []
   try {
     const nurse = await signIn(server.url, nurseEmail, BENCH_PASSWORD)
@@ -116,9 +126,14 @@ export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, d
       const sampler = setInterval(() => {
         peak = Math.max(peak, memoryMb(server.pid).rssMb)
       }, 100)
+      const cpu = () => [cpuMs(server.pid), databasePid ? cpuMs(databasePid) : 0] as const
+      const load = [loadAverage()]
       try {
+        const c0 = cpu()
         const preview = await upload(server.url, nurse, file, false)
+        const c1 = cpu()
         const commit = await upload(server.url, nurse, file, true)
+        const c2 = cpu()
         if (commit.body.accepted !== preview.body.accepted)
           throw new Error(`preview accepted ${preview.body.accepted} but the commit stored ${commit.body.accepted}`)
         const t0 = performance.now()
@@ -128,6 +143,10 @@ export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, d
           body: JSON.stringify({ reason: 'bench run: taken back out so the next run starts clean' }),
         })
         if (!rev.ok) throw new Error(`reversal failed: ${rev.status} ${await rev.text()}`)
+        const reverseMs = Math.round(performance.now() - t0)
+        const c3 = cpu()
+        load.push(loadAverage())
+        const step = (i: 0 | 1) => ({ preview: c1[i] - c0[i], commit: c2[i] - c1[i], reverse: c3[i] - c2[i] })
         runs.push({
           rows,
           previewMs: preview.ms,
@@ -136,7 +155,10 @@ export async function benchImports(env: NodeJS.ProcessEnv, nurseEmail: string, d
           rssBeforeMb,
           accepted: commit.body.accepted,
           skipped: commit.body.skippedTotal,
-          reverseMs: Math.round(performance.now() - t0),
+          reverseMs,
+          serverCpuMs: step(0),
+          ...(databasePid ? { databaseCpuMs: step(1) } : {}),
+          loadAverage: load,
         })
       } finally {
         clearInterval(sampler)

@@ -6,13 +6,16 @@ import { recordAudit } from '../audit'
 import { isoOrNull, type Viewer } from '../viewer'
 import { matchChunk, type ChunkOutcome } from './match'
 import { deriveForBatch, insertResults, rescreenAndAudit } from '../resultStore'
+import { addPreviewKeys, createPreviewKeys, dropPreviewKeys } from './previewKeys'
 
 /**
  * One import, preview or commit, fed chunk by chunk. Both hold one transaction from the first
- * chunk to the last and insert rows as they come, so duplicates against earlier chunks are
- * found by the table's own natural key and memory holds one chunk, never the file. A preview is
- * that same run rolled back before anything is derived (its figures are the commit's figures);
- * a commit derives, re-screens, audits and commits, or rolls back together if anything fails.
+ * chunk to the last. A commit inserts rows as they come, so duplicates against earlier chunks are
+ * found by the table's own natural key; a preview puts only the accepted rows' keys into a
+ * temporary table that the same look-up reads (previewKeys.ts), so its figures are the commit's
+ * without writing results. Memory holds one chunk, never the file. A preview is rolled back
+ * before anything is derived; a commit derives, re-screens, audits and commits, or rolls back
+ * together if anything fails.
  */
 export class ImportRun {
   private t: Transaction | null = null
@@ -59,11 +62,17 @@ export class ImportRun {
       { transaction: this.t },
     )
     this.batchId = batch.id
+    if (!this.opts.commit) await createPreviewKeys(this.sequelize, this.t)
   }
 
   async addChunk(items: { row: number; checked: Checked }[]): Promise<ChunkOutcome> {
     // Earlier chunks are already in the table (uncommitted); only this chunk needs remembering.
-    const out = await matchChunk(this.sequelize, items, { batchId: this.batchId, seen: new Set() }, this.t ?? undefined)
+    const out = await matchChunk(
+      this.sequelize,
+      items,
+      { batchId: this.batchId, seen: new Set(), previewKeys: !this.opts.commit },
+      this.t ?? undefined,
+    )
     this.s.rowsRead += items.length
     this.s.accepted += out.accepted.length
     this.s.skippedTotal += out.skipped.length
@@ -92,7 +101,8 @@ export class ImportRun {
         })
       }
     }
-    if (this.t && out.accepted.length) {
+    if (this.t && out.accepted.length && !this.opts.commit) await addPreviewKeys(this.sequelize, out.accepted, this.t)
+    else if (this.t && out.accepted.length) {
       await insertResults(
         this.sequelize,
         out.accepted.map((m) => ({
@@ -161,6 +171,8 @@ export class ImportRun {
   async abandon(): Promise<void> {
     const t = this.t
     this.t = null
+    // A temporary table outlives a rollback on its pooled connection: dropped first.
+    if (t && !this.opts.commit) await dropPreviewKeys(this.sequelize, t).catch(() => undefined)
     if (t) await t.rollback().catch(() => undefined)
   }
 }
