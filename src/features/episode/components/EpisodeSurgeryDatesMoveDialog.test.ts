@@ -47,7 +47,7 @@ describe('moving the surgery date', () => {
     await submit()
     await vi.waitFor(() => expect(seen).toHaveLength(1))
     expect(seen[0]!.body).toEqual({ version: 3, plannedSurgeryDate: '2027-01-20', dateChangeReason: 'anaemia', dateChangeNote: null })
-    await vi.waitFor(() => expect(document.querySelector('.dates-dialog__msg')?.textContent).toContain('Someone changed this episode'))
+    await vi.waitFor(() => expect(document.querySelector('.form-dialog__msg')?.textContent).toContain('Someone changed this episode'))
     wrapper.unmount()
   })
 

@@ -2,7 +2,7 @@
 import { afterEach, describe, expect, it } from 'vitest'
 import { flushPromises } from '@vue/test-utils'
 import { mountInApp } from '@/testing/component'
-import EpisodeSurgeryDatesDialog from './EpisodeSurgeryDatesDialog.vue'
+import FormDialog from './FormDialog.vue'
 
 afterEach(() => {
   document.body.innerHTML = ''
@@ -10,7 +10,7 @@ afterEach(() => {
 
 const props = {
   visible: true,
-  header: 'A surgery-date change',
+  header: 'A change to record',
   width: '30rem',
   formId: 'frame-form',
   failure: null as string | null,
@@ -22,13 +22,13 @@ const props = {
 }
 const slots = { intro: '<p class="intro">Words above the fields.</p>', default: '<label for="f">A field</label><input id="f" />' }
 
-describe('the frame the surgery-date dialogs share', () => {
+describe('the frame of a dialog holding one form', () => {
   it('when it opens, then the words, the fields and a submit button that names the form stand in one modal dialog', async () => {
-    const wrapper = mountInApp(EpisodeSurgeryDatesDialog, { props, slots, attachTo: document.body })
+    const wrapper = mountInApp(FormDialog, { props, slots, attachTo: document.body })
     await flushPromises()
     const dialog = document.querySelector('[role="dialog"]')!
     expect(dialog.getAttribute('aria-modal')).toBe('true')
-    expect(dialog.textContent).toContain('A surgery-date change')
+    expect(dialog.textContent).toContain('A change to record')
     const form = dialog.querySelector('form#frame-form')!
     expect(form.getAttribute('data-testid')).toBe('frame-form')
     expect(form.querySelector('.intro')?.textContent).toBe('Words above the fields.')
@@ -38,7 +38,7 @@ describe('the frame the surgery-date dialogs share', () => {
   })
 
   it('when the form is submitted, then the dialog hands the event on; a refusal shows above the fields; Close closes', async () => {
-    const wrapper = mountInApp(EpisodeSurgeryDatesDialog, {
+    const wrapper = mountInApp(FormDialog, {
       props: { ...props, failure: 'Someone changed this episode' },
       slots,
       attachTo: document.body,
