@@ -72,7 +72,10 @@ async function wrongTypes(schema: AnyObjectSchema, input: unknown): Promise<Inva
   return new Invalid('A field holds a value of the wrong type (a list or an object where text or a number belongs)')
 }
 
-/** Replaces req.body with the schema's cast, unknown keys stripped; routes pick fields from it. */
+/**
+ * Replaces req.body with the schema's cast, unknown keys stripped: only the schema's fields remain, so a route
+ * passes it to its service whole, typed by the schema's InferType (`req.body as CreatePatientInput`).
+ */
 export function validate(schema: AnyObjectSchema, where: 'body' | 'query' = 'body'): RequestHandler {
   return async (req, res, next) => {
     const value = await validateInput(schema, req[where])

@@ -56,7 +56,7 @@ export function createMetrics(sequelize: Sequelize, poolMax: number): AppMetrics
   dbErrors.inc({ kind: 'query' }, 0)
 
   // Sequelize's pool (sequelize-pool) keeps its figures on the connection manager.
-  const pool = () => (sequelize.connectionManager as unknown as { pool?: PoolLike }).pool ?? {}
+  const pool = () => (sequelize.connectionManager as Sequelize['connectionManager'] & { pool?: PoolLike }).pool ?? {}
   new Gauge({
     name: 'ferrolane_db_pool_max',
     help: 'Most connections the pool may open (DB_POOL_MAX)',

@@ -17,15 +17,7 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
   const api = new ApiRouter('/api/appointments')
 
   api.post('', { action: 'appointments.book' }, validate(createAppointmentSchema), async (req, res) => {
-    const b = req.body as CreateAppointmentInput
-    const input: CreateAppointmentInput = {
-      referralId: b.referralId,
-      kind: b.kind,
-      startsAt: b.startsAt,
-      durationMin: b.durationMin,
-      location: b.location,
-    }
-    res.status(201).json(await bookAppointment(sequelize, config, viewerOf(req), input))
+    res.status(201).json(await bookAppointment(sequelize, config, viewerOf(req), req.body as CreateAppointmentInput))
   })
 
   api.get('/:id', { action: 'records.read' }, async (req, res) => {
@@ -33,14 +25,11 @@ export function appointmentRoutes({ sequelize, config }: AppContext): ApiRouter 
   })
 
   api.patch('/:id', { action: 'appointments.book' }, validate(moveAppointmentSchema), async (req, res) => {
-    const b = req.body as MoveAppointmentInput
-    const input: MoveAppointmentInput = { version: b.version, startsAt: b.startsAt, durationMin: b.durationMin, location: b.location }
-    res.json(await moveAppointment(sequelize, config, viewerOf(req), idParam(req), input))
+    res.json(await moveAppointment(sequelize, config, viewerOf(req), idParam(req), req.body as MoveAppointmentInput))
   })
 
   api.post('/:id/cancel', { action: 'appointments.book' }, validate(cancelAppointmentSchema), async (req, res) => {
-    const b = req.body as CancelAppointmentInput
-    res.json(await cancelAppointment(sequelize, config, viewerOf(req), idParam(req), { reason: b.reason }))
+    res.json(await cancelAppointment(sequelize, config, viewerOf(req), idParam(req), req.body as CancelAppointmentInput))
   })
 
   return api

@@ -29,63 +29,25 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
     res.json({ rows: await listReviews(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/reviews', { action: 'reviews.write' }, validate(reviewSchema), async (req, res) => {
-    const b = req.body as ReviewInput
-    res.status(201).json(
-      await recordReview(sequelize, viewerOf(req), idParam(req), {
-        diagnosis: b.diagnosis,
-        notes: b.notes,
-        plan: b.plan,
-        cardiovascularDisease: b.cardiovascularDisease,
-        version: b.version,
-      }),
-    )
+    res.status(201).json(await recordReview(sequelize, viewerOf(req), idParam(req), req.body as ReviewInput))
   })
 
   // Computed by the server with the clinical library, shown before saving.
   api.post('/:id/dose-plan', { action: 'prescriptions.plan' }, validate(dosePlanPreviewSchema), async (req, res) => {
-    const b = req.body as DosePlanPreviewInput
-    res.json(
-      await previewDosePlan(viewerOf(req), idParam(req), {
-        productCode: b.productCode,
-        targetHbGL: b.targetHbGL,
-        firstDoseDate: b.firstDoseDate,
-      }),
-    )
+    res.json(await previewDosePlan(viewerOf(req), idParam(req), req.body as DosePlanPreviewInput))
   })
   api.get('/:id/prescriptions', { action: 'records.read' }, async (req, res) => {
     res.json({ rows: await listPrescriptions(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/prescriptions', { action: 'prescriptions.sign' }, validate(prescriptionSchema), async (req, res) => {
-    const b = req.body as PrescriptionInput
-    res.status(201).json(
-      await prescribe(sequelize, viewerOf(req), idParam(req), {
-        productCode: b.productCode,
-        targetHbGL: b.targetHbGL,
-        firstDoseDate: b.firstDoseDate,
-        doses: b.doses,
-        cautions: b.cautions,
-        overrideReason: b.overrideReason,
-        version: b.version,
-      }),
-    )
+    res.status(201).json(await prescribe(sequelize, viewerOf(req), idParam(req), req.body as PrescriptionInput))
   })
 
   api.get('/:id/administrations', { action: 'records.read' }, async (req, res) => {
     res.json({ rows: await listAdministrations(viewerOf(req), idParam(req)) })
   })
   api.post('/:id/administrations', { action: 'administrations.record' }, validate(administrationSchema), async (req, res) => {
-    const b = req.body as AdministrationInput
-    res.status(201).json(
-      await recordAdministration(sequelize, viewerOf(req), idParam(req), {
-        prescriptionId: b.prescriptionId,
-        doseMg: b.doseMg,
-        givenAt: b.givenAt,
-        batchNumber: b.batchNumber,
-        reaction: b.reaction,
-        reactionNotes: b.reactionNotes,
-        overrideReason: b.overrideReason,
-      }),
-    )
+    res.status(201).json(await recordAdministration(sequelize, viewerOf(req), idParam(req), req.body as AdministrationInput))
   })
 
   api.get('/:id/projection', { action: 'records.read' }, async (req, res) => {
@@ -105,8 +67,7 @@ export function clinicRoutes({ sequelize }: AppContext): ApiRouter {
   })
   // Only the operating surgeon answers; a nurse cannot acknowledge on a surgeon's behalf.
   api.post('/:id/readiness', { action: 'readiness.answer' }, validate(readinessActionSchema), async (req, res) => {
-    const b = req.body as ReadinessActionInput
-    res.status(201).json(await recordReadinessAction(sequelize, viewerOf(req), idParam(req), { action: b.action, reason: b.reason }))
+    res.status(201).json(await recordReadinessAction(sequelize, viewerOf(req), idParam(req), req.body as ReadinessActionInput))
   })
   return api
 }

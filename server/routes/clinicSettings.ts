@@ -10,22 +10,7 @@ export function clinicSettingsRoutes({ sequelize }: AppContext): ApiRouter {
     res.json(await getClinicSettings())
   })
   api.patch('', { action: 'settings.manage' }, validate(clinicSettingsSchema), async (req, res) => {
-    const b = req.body as ClinicSettingsInput
-    res.json(
-      await updateClinicSettings(sequelize, actorOf(req), {
-        anaemiaCriteria: b.anaemiaCriteria,
-        transfusionTriggerGL: b.transfusionTriggerGL,
-        cardiovascularTriggerGL: b.cardiovascularTriggerGL,
-        ironTargetHbGL: b.ironTargetHbGL,
-        recheckDaysAfterLastDose: b.recheckDaysAfterLastDose,
-        defaultSaO2: b.defaultSaO2,
-        defaultPaO2MmHg: b.defaultPaO2MmHg,
-        defaultCardiacIndexLMinM2: b.defaultCardiacIndexLMinM2,
-        weightMaxAgeDays: b.weightMaxAgeDays,
-        resultMaxAgeDays: b.resultMaxAgeDays,
-        ironStudiesMaxAgeDays: b.ironStudiesMaxAgeDays,
-      }),
-    )
+    res.json(await updateClinicSettings(sequelize, actorOf(req), req.body as ClinicSettingsInput))
   })
   return api
 }

@@ -21,28 +21,11 @@ export function infusionSessionRoutes({ sequelize, config }: AppContext): ApiRou
   })
 
   api.post('', { action: 'infusionSessions.manage' }, validate(createInfusionSessionSchema), async (req, res) => {
-    const b = req.body as CreateInfusionSessionInput
-    const input: CreateInfusionSessionInput = {
-      date: b.date,
-      startTime: b.startTime,
-      endTime: b.endTime,
-      chairs: b.chairs,
-      location: b.location,
-    }
-    res.status(201).json(await createInfusionSession(sequelize, config, viewerOf(req), input))
+    res.status(201).json(await createInfusionSession(sequelize, config, viewerOf(req), req.body as CreateInfusionSessionInput))
   })
 
   api.patch('/:id', { action: 'infusionSessions.manage' }, validate(updateInfusionSessionSchema), async (req, res) => {
-    const b = req.body as UpdateInfusionSessionInput
-    const input: UpdateInfusionSessionInput = {
-      version: b.version,
-      date: b.date,
-      startTime: b.startTime,
-      endTime: b.endTime,
-      chairs: b.chairs,
-      location: b.location,
-    }
-    res.json(await updateInfusionSession(sequelize, config, viewerOf(req), idParam(req), input))
+    res.json(await updateInfusionSession(sequelize, config, viewerOf(req), idParam(req), req.body as UpdateInfusionSessionInput))
   })
 
   return api

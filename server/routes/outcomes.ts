@@ -13,39 +13,10 @@ export function outcomeRoutes({ sequelize }: AppContext): ApiRouter {
     res.json(await getOutcome(viewerOf(req), idParam(req)))
   })
   api.post('/:id/outcome', { action: 'outcomes.record' }, validate(outcomeSchema), async (req, res) => {
-    const b = req.body as OutcomeInput
-    res.status(201).json(
-      await recordOutcome(sequelize, viewerOf(req), idParam(req), {
-        surgeryDate: b.surgeryDate,
-        bloodLossMl: b.bloodLossMl,
-        unitsCrossmatched: b.unitsCrossmatched,
-        lowestHbGL: b.lowestHbGL,
-        dischargeHbGL: b.dischargeHbGL,
-        lengthOfStayDays: b.lengthOfStayDays,
-        complications: b.complications,
-        version: b.version,
-        tranexamicAcidGiven: b.tranexamicAcidGiven,
-        tranexamicAcidDoseMg: b.tranexamicAcidDoseMg,
-        tranexamicAcidTiming: b.tranexamicAcidTiming,
-        cellSalvageUsed: b.cellSalvageUsed,
-        cellSalvageReturnedMl: b.cellSalvageReturnedMl,
-        transfusionInformationGiven: b.transfusionInformationGiven,
-        transfusionConsent: b.transfusionConsent,
-        postOperativeIronGiven: b.postOperativeIronGiven,
-      }),
-    )
+    res.status(201).json(await recordOutcome(sequelize, viewerOf(req), idParam(req), req.body as OutcomeInput))
   })
   api.post('/:id/follow-up', { action: 'outcomes.record' }, validate(followUpSchema), async (req, res) => {
-    const b = req.body as FollowUpInput
-    res.status(201).json(
-      await recordFollowUp(sequelize, viewerOf(req), idParam(req), {
-        recheckHbGL: b.recheckHbGL,
-        recheckDate: b.recheckDate,
-        ironAfterSurgery: b.ironAfterSurgery,
-        notes: b.notes,
-        version: b.version,
-      }),
-    )
+    res.status(201).json(await recordFollowUp(sequelize, viewerOf(req), idParam(req), req.body as FollowUpInput))
   })
   return api
 }

@@ -19,22 +19,7 @@ export function patientRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   api.post('', { action: 'records.write' }, validate(createPatientSchema), async (req, res) => {
-    const b = req.body as CreatePatientInput
-    const input: CreatePatientInput = {
-      mrn: b.mrn,
-      givenName: b.givenName,
-      familyName: b.familyName,
-      dateOfBirth: b.dateOfBirth,
-      sex: b.sex,
-      heightCm: b.heightCm,
-      weightKg: b.weightKg,
-      measuredAt: b.measuredAt,
-      email: b.email,
-      phone: b.phone,
-      gpPractice: b.gpPractice,
-      notes: b.notes,
-    }
-    res.status(201).json(await createPatient(sequelize, viewerOf(req), input))
+    res.status(201).json(await createPatient(sequelize, viewerOf(req), req.body as CreatePatientInput))
   })
 
   api.get('/:id', { action: 'records.read' }, async (req, res) => {
@@ -42,23 +27,7 @@ export function patientRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   api.patch('/:id', { action: 'records.write' }, validate(updatePatientSchema), async (req, res) => {
-    const b = req.body as UpdatePatientInput
-    const input: UpdatePatientInput = {
-      version: b.version,
-      mrn: b.mrn,
-      givenName: b.givenName,
-      familyName: b.familyName,
-      dateOfBirth: b.dateOfBirth,
-      sex: b.sex,
-      heightCm: b.heightCm,
-      weightKg: b.weightKg,
-      measuredAt: b.measuredAt,
-      email: b.email,
-      phone: b.phone,
-      gpPractice: b.gpPractice,
-      notes: b.notes,
-    }
-    res.json(await updatePatient(sequelize, viewerOf(req), idParam(req), input))
+    res.json(await updatePatient(sequelize, viewerOf(req), idParam(req), req.body as UpdatePatientInput))
   })
 
   return api

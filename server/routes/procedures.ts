@@ -17,34 +17,11 @@ export function procedureRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   api.post('', { action: 'procedures.manage' }, validate(createProcedureSchema), async (req, res) => {
-    const b = req.body as CreateProcedureInput
-    const input: CreateProcedureInput = {
-      code: b.code,
-      name: b.name,
-      specialty: b.specialty,
-      expectedBloodLossMl: b.expectedBloodLossMl,
-      transfusionRate: b.transfusionRate,
-      usualBloodOrder: b.usualBloodOrder,
-      usualUnits: b.usualUnits,
-      source: b.source,
-      active: b.active,
-    }
-    res.status(201).json(await createProcedure(sequelize, signedInActor(req), input))
+    res.status(201).json(await createProcedure(sequelize, signedInActor(req), req.body as CreateProcedureInput))
   })
 
   api.patch('/:code', { action: 'procedures.manage' }, validate(updateProcedureSchema), async (req, res) => {
-    const b = req.body as UpdateProcedureInput
-    const input: UpdateProcedureInput = {
-      name: b.name,
-      specialty: b.specialty,
-      expectedBloodLossMl: b.expectedBloodLossMl,
-      transfusionRate: b.transfusionRate,
-      usualBloodOrder: b.usualBloodOrder,
-      usualUnits: b.usualUnits,
-      source: b.source,
-      active: b.active,
-    }
-    res.json(await updateProcedure(sequelize, signedInActor(req), String(req.params.code).toUpperCase(), input))
+    res.json(await updateProcedure(sequelize, signedInActor(req), String(req.params.code).toUpperCase(), req.body as UpdateProcedureInput))
   })
 
   return api

@@ -24,17 +24,7 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
 
   api.post('', { action: 'records.write' }, validate(createReferralSchema), async (req, res) => {
-    const b = req.body as CreateReferralInput
-    const input: CreateReferralInput = {
-      patientId: b.patientId,
-      procedureCode: b.procedureCode,
-      surgeonId: b.surgeonId,
-      plannedSurgeryDate: b.plannedSurgeryDate,
-      priority: b.priority,
-      referringSource: b.referringSource,
-      listingDate: b.listingDate,
-    }
-    res.status(201).json(await createReferral(sequelize, viewerOf(req), input))
+    res.status(201).json(await createReferral(sequelize, viewerOf(req), req.body as CreateReferralInput))
   })
 
   api.get('/:id', { action: 'records.read' }, async (req, res) => {
@@ -42,45 +32,21 @@ export function referralRoutes({ sequelize }: AppContext): ApiRouter {
   })
 
   api.patch('/:id', { action: 'records.write' }, validate(updateReferralSchema), async (req, res) => {
-    const b = req.body as UpdateReferralInput
-    const input: UpdateReferralInput = {
-      version: b.version,
-      procedureCode: b.procedureCode,
-      surgeonId: b.surgeonId,
-      plannedSurgeryDate: b.plannedSurgeryDate,
-      priority: b.priority,
-      referringSource: b.referringSource,
-      redCellAntibodies: b.redCellAntibodies,
-      declinesTransfusion: b.declinesTransfusion,
-      listingDate: b.listingDate,
-      dateChangeReason: b.dateChangeReason,
-      dateChangeNote: b.dateChangeNote,
-    }
-    res.json(await updateReferral(sequelize, viewerOf(req), idParam(req), input))
+    res.json(await updateReferral(sequelize, viewerOf(req), idParam(req), req.body as UpdateReferralInput))
   })
 
   // Surgeons record the operation and may postpone or withdraw; the pathway table decides the rest.
   api.post('/:id/transitions', { action: 'pathway.move' }, validate(transitionSchema), async (req, res) => {
-    const b = req.body as TransitionInput
-    res.json(await moveReferral(sequelize, viewerOf(req), idParam(req), { to: b.to, reason: b.reason, version: b.version }))
+    res.json(await moveReferral(sequelize, viewerOf(req), idParam(req), req.body as TransitionInput))
   })
 
   // Surgeons may cancel their own patients' operations (the service checks whose), as they may postpone them.
   api.post('/:id/cancellation', { action: 'operations.cancel' }, validate(cancelOperationSchema), async (req, res) => {
-    const b = req.body as CancelOperationInput
-    res.json(await cancelPlannedOperation(sequelize, viewerOf(req), idParam(req), { version: b.version, reason: b.reason, note: b.note }))
+    res.json(await cancelPlannedOperation(sequelize, viewerOf(req), idParam(req), req.body as CancelOperationInput))
   })
 
   api.post('/:id/results', { action: 'results.write' }, validate(createResultSchema), async (req, res) => {
-    const b = req.body as CreateResultInput
-    const input: CreateResultInput = {
-      analyte: b.analyte,
-      value: b.value,
-      unit: b.unit,
-      takenAt: b.takenAt,
-      unitConfirmed: b.unitConfirmed,
-    }
-    res.status(201).json(await addResult(sequelize, viewerOf(req), idParam(req), input))
+    res.status(201).json(await addResult(sequelize, viewerOf(req), idParam(req), req.body as CreateResultInput))
   })
 
   api.get('/:id/results', { action: 'records.read' }, async (req, res) => {

@@ -12,19 +12,6 @@ import {
 } from '../../shared/schemas/transfusions'
 import { editTransfusion, listTransfusions, recordTransfusion, voidTransfusion } from '../services/transfusions'
 
-const pick = (b: TransfusionInput): TransfusionInput => ({
-  givenAt: b.givenAt,
-  phase: b.phase,
-  component: b.component,
-  units: b.units,
-  preTransfusionHbGL: b.preTransfusionHbGL,
-  reassessedBeforeNext: b.reassessedBeforeNext,
-  postTransfusionHbGL: b.postTransfusionHbGL,
-  informationGiven: b.informationGiven,
-  productCodes: b.productCodes,
-  reason: b.reason,
-})
-
 /** The transfusion record: written by those who keep the post-operative record (surgeons for their own patients, in the service). */
 export function transfusionRoutes({ sequelize }: AppContext): ApiRouter {
   const api = new ApiRouter('/api/referrals')
@@ -33,16 +20,10 @@ export function transfusionRoutes({ sequelize }: AppContext): ApiRouter {
     res.json(await listTransfusions(viewerOf(req), idParam(req)))
   })
   api.post('/:id/transfusions', { action: 'transfusions.record' }, validate(transfusionSchema), async (req, res) => {
-    res.status(201).json(await recordTransfusion(sequelize, viewerOf(req), idParam(req), pick(req.body as TransfusionInput)))
+    res.status(201).json(await recordTransfusion(sequelize, viewerOf(req), idParam(req), req.body as TransfusionInput))
   })
   api.put('/:id/transfusions/:transfusionId', { action: 'transfusions.record' }, validate(editTransfusionSchema), async (req, res) => {
-    const b = req.body as EditTransfusionInput
-    res.json(
-      await editTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), {
-        ...pick(b),
-        changeReason: b.changeReason,
-      }),
-    )
+    res.json(await editTransfusion(sequelize, viewerOf(req), idParam(req), idParam(req, 'transfusionId'), req.body as EditTransfusionInput))
   })
   api.post(
     '/:id/transfusions/:transfusionId/void',

@@ -12,13 +12,11 @@ export function userRoutes({ sequelize, config }: AppContext): ApiRouter {
   })
 
   api.post('', { action: 'users.manage' }, validate(createUserSchema), async (req, res) => {
-    const { email, name, role } = req.body as CreateUserInput
-    res.status(201).json(await createStaff(sequelize, signedInActor(req), { email, name, role }, config.passwords.temporaryHours))
+    res.status(201).json(await createStaff(sequelize, signedInActor(req), req.body as CreateUserInput, config.passwords.temporaryHours))
   })
 
   api.patch('/:id', { action: 'users.manage' }, validate(updateUserSchema), async (req, res) => {
-    const { name, role, active } = req.body as UpdateUserInput
-    res.json(await updateStaff(sequelize, signedInActor(req), idParam(req), { name, role, active }))
+    res.json(await updateStaff(sequelize, signedInActor(req), idParam(req), req.body as UpdateUserInput))
   })
 
   api.post('/:id/reset-password', { action: 'users.manage' }, async (req, res) => {

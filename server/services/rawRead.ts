@@ -1,12 +1,15 @@
+import type { Connection } from 'mariadb'
 import type { Sequelize } from 'sequelize'
 
-interface DriverConnection {
-  query<T>(q: { sql: string; namedPlaceholders: true }, values: Record<string, unknown>): Promise<T[]>
-}
-interface Pool {
-  getConnection(o: { type: 'read' | 'write' }): Promise<DriverConnection>
-  releaseConnection(c: DriverConnection): Promise<void>
-}
+/**
+ * What Sequelize calls its `logging` option with: the statement, then the query's options. Sequelize's
+ * typings say the second argument is a time in ms, which it is only with `benchmark`; the bench's
+ * statement counter (scripts/bench/worklist.ts) reads `rawValues` from it.
+ */
+type StatementLog = (sql: string, options?: { rawValues?: Record<string, unknown> }) => void
+
+/** Sequelize keeps its constructor options as a public property at run time; its typings omit it. */
+type SequelizeWithOptions = Sequelize & { readonly options: { logging?: boolean | StatementLog } }
 
 /**
  * A SELECT sent straight through the mariadb driver on a connection of Sequelize's own pool, for
@@ -17,15 +20,16 @@ interface Pool {
  * Sequelize's `logging` option still sees each statement, its values as `rawValues`.
  */
 export async function rawSelect<T>(sequelize: Sequelize, sql: string, values: Record<string, unknown> = {}): Promise<T[]> {
-  // Sequelize's typings omit `options`; it is a public property at run time.
-  const log = (sequelize as unknown as { options: { logging?: unknown } }).options.logging
-  if (typeof log === 'function') (log as (sql: string, o: { rawValues: unknown }) => void)(sql, { rawValues: values })
-  const pool = (sequelize as unknown as { connectionManager: Pool }).connectionManager
-  const conn = await pool.getConnection({ type: 'read' })
+  const log = (sequelize as SequelizeWithOptions).options.logging
+  if (typeof log === 'function') log(sql, { rawValues: values })
+  const manager = sequelize.connectionManager
+  // The mariadb dialect's pool lends the driver's own (promise) connections; Sequelize types them as `object`.
+  const conn = (await manager.getConnection({ type: 'read' })) as Connection
   try {
     // The driver's rows array carries a non-enumerable `meta`; callers get a plain array.
-    return Array.from(await conn.query<T>({ sql, namedPlaceholders: true }, values))
+    return Array.from(await conn.query<T[]>({ sql, namedPlaceholders: true }, values))
   } finally {
-    await pool.releaseConnection(conn)
+    // Typed `void`, but Sequelize's implementation is async: wait for the pool to take it back, as before.
+    await manager.releaseConnection(conn)
   }
 }

@@ -1,28 +1,19 @@
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
-import { makeStaff, type StaffFixture } from '../helpers/factories'
-import { loadStarterFormulary, makeEpisode } from '../helpers/clinicFactories'
+import { beforeEach, describe, expect, it } from 'vitest'
+import type { Client } from '../helpers/agent'
+import type { StaffFixture } from '../helpers/factories'
+import { makeEpisode } from '../helpers/clinicFactories'
+import { clinicTestApp } from '../helpers/clinicApp'
 import { AuditEntry, IronProductRow } from '../../server/models/index'
 
-let t: TestApp
+const clinic = clinicTestApp()
 let admin: Client
 let doctor: Client
 let surgeon: StaffFixture
-beforeAll(() => {
-  t = makeTestApp()
-})
-afterAll(async () => {
-  await t.close()
-})
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  await loadStarterFormulary()
-  const a = await makeStaff('admin')
-  const d = await makeStaff('doctor')
-  surgeon = await makeStaff('surgeon')
-  admin = await new Client(t.app).mustSignIn(a.email, a.password)
-  doctor = await new Client(t.app).mustSignIn(d.email, d.password)
+  const staff = await clinic.reset('admin', 'doctor', 'surgeon')
+  surgeon = staff.surgeon
+  admin = await clinic.signIn(staff.admin)
+  doctor = await clinic.signIn(staff.doctor)
 })
 
 // Ferinject (ferric carboxymaltose) SmPC 4.2, Table 1 "Determination of the iron need" (MHRA,

@@ -1,23 +1,12 @@
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
-import { makeStaff } from '../helpers/factories'
-import { loadStarterFormulary } from '../helpers/clinicFactories'
+import { beforeEach, describe, expect, it } from 'vitest'
+import type { Client } from '../helpers/agent'
+import { clinicTestApp } from '../helpers/clinicApp'
 import { AuditEntry, IronProductRow } from '../../server/models/index'
 
-let t: TestApp
+const clinic = clinicTestApp()
 let admin: Client
-beforeAll(() => {
-  t = makeTestApp()
-})
-afterAll(async () => {
-  await t.close()
-})
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  await loadStarterFormulary()
-  const a = await makeStaff('admin')
-  admin = await new Client(t.app).mustSignIn(a.email, a.password)
+  admin = await clinic.signIn((await clinic.reset('admin')).admin)
 })
 
 describe('formulary and clinic settings (admin)', () => {

@@ -1,31 +1,21 @@
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
-import { makeStaff, type StaffFixture } from '../helpers/factories'
-import { loadStarterFormulary, makeEpisode } from '../helpers/clinicFactories'
+import { beforeEach, describe, expect, it } from 'vitest'
+import type { Client } from '../helpers/agent'
+import type { StaffFixture } from '../helpers/factories'
+import { makeEpisode } from '../helpers/clinicFactories'
+import { clinicTestApp, noCautions } from '../helpers/clinicApp'
 import { Administration, Prescription, Referral, StageTransition } from '../../server/models/index'
 import { addDays, todayIso } from '../../shared/pathway'
 
-let t: TestApp
+const clinic = clinicTestApp()
 let doctor: Client
 let nurse: Client
 let surgeon: StaffFixture
-const noCautions = { previousHypersensitivity: false, activeInfection: false, firstTrimester: false, severeLiverDisease: false }
 
-beforeAll(() => {
-  t = makeTestApp()
-})
-afterAll(async () => {
-  await t.close()
-})
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  await loadStarterFormulary()
-  const d = await makeStaff('doctor')
-  const n = await makeStaff('nurse')
-  surgeon = await makeStaff('surgeon')
-  doctor = await new Client(t.app).mustSignIn(d.email, d.password)
-  nurse = await new Client(t.app).mustSignIn(n.email, n.password)
+  const staff = await clinic.reset('doctor', 'nurse', 'surgeon')
+  surgeon = staff.surgeon
+  doctor = await clinic.signIn(staff.doctor)
+  nurse = await clinic.signIn(staff.nurse)
 })
 
 describe('dose plan preview', () => {
@@ -160,7 +150,7 @@ describe('saving a prescription', () => {
 
   it('when a surgeon tries to prescribe, then 403', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id })
-    const s = await new Client(t.app).mustSignIn(surgeon.email, surgeon.password)
+    const s = await clinic.signIn(surgeon)
     const res = await s.post(`/api/referrals/${referral.id}/prescriptions`, {
       productCode: 'ferric-carboxymaltose',
       firstDoseDate: todayIso(),

@@ -1,35 +1,27 @@
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
+import { beforeEach, describe, expect, it } from 'vitest'
+import type { Client } from '../helpers/agent'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
-import { loadStarterFormulary, makeEpisode } from '../helpers/clinicFactories'
+import { makeEpisode } from '../helpers/clinicFactories'
+import { clinicTestApp } from '../helpers/clinicApp'
 import { AuditEntry, ReadinessReview, Referral, Result } from '../../server/models/index'
 import { allowableBloodLoss, estimatedBloodVolume, oxygenContent } from '../../shared/clinical'
 import { addDays, todayIso } from '../../shared/pathway'
 
-let t: TestApp
+const clinic = clinicTestApp()
 let surgeon: StaffFixture
 let otherSurgeon: StaffFixture
 let asSurgeon: Client
 let asDoctor: Client
 let asNurse: Client
 
-beforeAll(() => {
-  t = makeTestApp()
-})
-afterAll(async () => {
-  await t.close()
-})
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  await loadStarterFormulary()
-  surgeon = await makeStaff('surgeon')
+  surgeon = (await clinic.reset('surgeon')).surgeon
   otherSurgeon = await makeStaff('surgeon')
   const d = await makeStaff('doctor')
   const n = await makeStaff('nurse')
-  asSurgeon = await new Client(t.app).mustSignIn(surgeon.email, surgeon.password)
-  asDoctor = await new Client(t.app).mustSignIn(d.email, d.password)
-  asNurse = await new Client(t.app).mustSignIn(n.email, n.password)
+  asSurgeon = await clinic.signIn(surgeon)
+  asDoctor = await clinic.signIn(d)
+  asNurse = await clinic.signIn(n)
 })
 
 const inDays = (d: number) => addDays(todayIso(), d)
@@ -60,7 +52,7 @@ describe('GET /api/referrals/:id/projection', () => {
       }
       // The admin's setting widens the window, and the same studies count again.
       const a = await makeStaff('admin')
-      const asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
+      const asAdmin = await clinic.signIn(a)
       expect((await asAdmin.patch('/api/settings/clinic').send({ ironStudiesMaxAgeDays: 200 })).status).toBe(200)
       expect((await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body.readiness.verdict).toBe('ready')
     },
@@ -80,7 +72,7 @@ describe('GET /api/referrals/:id/projection', () => {
       })
       expect((await asSurgeon.get(`/api/referrals/${referral.id}/projection`)).body.readiness.verdict).toBe('ready')
       const a = await makeStaff('admin')
-      const asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
+      const asAdmin = await clinic.signIn(a)
       const saved = await asAdmin.patch('/api/settings/clinic').send({ resultMaxAgeDays: 30 })
       expect(saved.status).toBe(200)
       expect(saved.body.resultMaxAgeDays).toBe(30)
@@ -244,7 +236,7 @@ describe('GET /api/referrals/:id/projection', () => {
 
   it("when another surgeon asks for this surgeon's patient, then 403", async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id })
-    const other = await new Client(t.app).mustSignIn(otherSurgeon.email, otherSurgeon.password)
+    const other = await clinic.signIn(otherSurgeon)
     expect((await other.get(`/api/referrals/${referral.id}/projection`)).status).toBe(403)
   })
 })
@@ -295,7 +287,7 @@ describe('readiness: acknowledging and asking to move the date', () => {
   it('when a nurse or another surgeon tries to acknowledge, then 403', async () => {
     const { referral } = await makeEpisode({ surgeonId: surgeon.id })
     expect((await asNurse.post(`/api/referrals/${referral.id}/readiness`, { action: 'acknowledge' })).status).toBe(403)
-    const other = await new Client(t.app).mustSignIn(otherSurgeon.email, otherSurgeon.password)
+    const other = await clinic.signIn(otherSurgeon)
     expect((await other.post(`/api/referrals/${referral.id}/readiness`, { action: 'acknowledge' })).status).toBe(403)
     expect(await ReadinessReview.count()).toBe(0)
   })

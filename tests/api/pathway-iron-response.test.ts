@@ -1,35 +1,25 @@
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
-import { makeStaff, type StaffFixture } from '../helpers/factories'
-import { loadStarterFormulary, makeEpisode } from '../helpers/clinicFactories'
+import { beforeEach, describe, expect, it } from 'vitest'
+import type { Client } from '../helpers/agent'
+import type { StaffFixture } from '../helpers/factories'
+import { makeEpisode } from '../helpers/clinicFactories'
+import { clinicTestApp, noCautions } from '../helpers/clinicApp'
 import { Referral } from '../../server/models/index'
 import { addDays, todayIso } from '../../shared/pathway'
 import { clinicTimeZone, setClinicTimeZone } from '../../server/services/clinicDay'
 
 // Non-response: a rise under 10 g/L by 4 weeks after IV iron (common practice, clinical
 // reference §11); falling: 5 g/L or more below the value before treatment (common practice).
-let t: TestApp
+const clinic = clinicTestApp()
 let doctor: Client
 let nurse: Client
 let surgeon: StaffFixture
-const noCautions = { previousHypersensitivity: false, activeInfection: false, firstTrimester: false, severeLiverDisease: false }
 const daysAgo = (n: number) => new Date(Date.now() - n * 86_400_000)
 
-beforeAll(() => {
-  t = makeTestApp()
-})
-afterAll(async () => {
-  await t.close()
-})
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  await loadStarterFormulary()
-  const d = await makeStaff('doctor')
-  const n = await makeStaff('nurse')
-  surgeon = await makeStaff('surgeon')
-  doctor = await new Client(t.app).mustSignIn(d.email, d.password)
-  nurse = await new Client(t.app).mustSignIn(n.email, n.password)
+  const staff = await clinic.reset('doctor', 'nurse', 'surgeon')
+  surgeon = staff.surgeon
+  doctor = await clinic.signIn(staff.doctor)
+  nurse = await clinic.signIn(staff.nurse)
 })
 
 /** An episode with a baseline Hb, 1000 mg ferric carboxymaltose given `doseDaysAgo`, through the API. */
