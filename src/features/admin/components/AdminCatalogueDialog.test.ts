@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import { flushPromises } from '@vue/test-utils'
 import type { ProcedureView } from '@shared/pathway/views'
 import { answerFetch, mountInApp } from '@/testing/component'
+import { bloodOrderText } from '@/display/labels'
 import AdminCatalogueDialog from './AdminCatalogueDialog.vue'
 
 afterEach(() => {
@@ -78,6 +79,26 @@ describe('the operation dialog', () => {
     button('Cancel').click()
     await flushPromises()
     expect(wrapper.emitted('update:visible')?.at(-1)).toEqual([false])
+    wrapper.unmount()
+  })
+
+  it('when an operation was edited and the dialog closed, then "Add" opens an empty form with the usual defaults', async () => {
+    answerFetch({})
+    const crossmatched: ProcedureView = { ...hip, usualBloodOrder: 'crossmatch', usualUnits: 2, active: false }
+    const { wrapper, button } = await mountDialog(crossmatched)
+    expect(document.querySelector<HTMLInputElement>('#op-name')?.value).toBe('Total hip replacement')
+    button('Cancel').click()
+    await flushPromises()
+    await wrapper.setProps({ visible: false })
+    // As the list page does: the entry is cleared and the dialog opened in the same tick.
+    await wrapper.setProps({ procedure: null, visible: true })
+    await flushPromises()
+    expect(document.querySelector('[role="dialog"]')?.textContent).toContain('Add an operation')
+    const value = (id: string) => document.querySelector<HTMLInputElement>(`#${id}`)?.value
+    for (const id of ['op-code', 'op-name', 'op-specialty', 'op-loss', 'op-rate', 'op-source']) expect(value(id), id).toBe('')
+    expect(value('op-units')).toBe('0')
+    expect(document.querySelector<HTMLInputElement>('#op-active')?.checked).toBe(true)
+    expect(document.querySelector('[role="dialog"]')?.textContent).toContain(bloodOrderText({ kind: 'group-and-screen', units: 0 }))
     wrapper.unmount()
   })
 })

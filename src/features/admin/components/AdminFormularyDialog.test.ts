@@ -58,4 +58,38 @@ describe('the formulary product dialog', () => {
     await vi.waitFor(() => expect(wrapper.emitted('update:visible')?.at(-1)).toEqual([false]))
     wrapper.unmount()
   })
+
+  it('when a product was edited and the dialog closed, then "Add" opens an empty form, not that product\'s caps', async () => {
+    // Every cap filled in, so a leak of any of them shows.
+    const capped: FormularyEntry = {
+      ...product,
+      maxSingleDoseMgPerKg: 20,
+      maxWeeklyMg: 1000,
+      maxTotalMg: 2000,
+      roundToMg: 100,
+      licensedFromAgeYears: 14,
+      paediatricMaxSingleDoseMgPerKg: 15,
+      paediatricMaxSingleDoseMg: 500,
+      phosphateCheckOnRepeat: true,
+      active: false,
+    }
+    answerFetch({})
+    const { wrapper, button } = await mountDialog(capped)
+    expect(document.querySelector<HTMLInputElement>('#fp-name')?.value).toBe('Demo IV iron')
+    button('Cancel').click()
+    await flushPromises()
+    await wrapper.setProps({ visible: false })
+    // As the list page does: the entry is cleared and the dialog opened in the same tick.
+    await wrapper.setProps({ product: null, visible: true })
+    await flushPromises()
+    expect(document.querySelector('[role="dialog"]')?.textContent).toContain('Add a product')
+    const value = (id: string) => document.querySelector<HTMLInputElement>(`#${id}`)?.value
+    for (const id of ['fp-code', 'fp-name', 'fp-max', 'fp-perkg', 'fp-interval', 'fp-weekly', 'fp-total', 'fp-step'])
+      expect(value(id), id).toBe('')
+    for (const id of ['fp-age', 'fp-child-perkg', 'fp-child-max', 'fp-source']) expect(value(id), id).toBe('')
+    expect(document.querySelector<HTMLInputElement>('#fp-phosphate')?.checked).toBe(false)
+    expect(document.querySelector<HTMLInputElement>('#fp-active')?.checked).toBe(true)
+    expect(document.querySelector('[role="dialog"]')?.textContent).toContain('Intravenous')
+    wrapper.unmount()
+  })
 })
