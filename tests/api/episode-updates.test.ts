@@ -35,29 +35,32 @@ describe('one poll for an open episode', () => {
     expect(body.messages).toEqual((await nurse.get(`/api/outbox?referralId=${f.referralId}`)).body)
   })
 
-  it('when nothing changed, then the ETag gets a 304 with no body; after a booking, the same tag gets the new appointment and message', async () => {
-    const path = `/api/referrals/${f.referralId}/updates`
-    const first = await nurse.get(path)
-    const etag = first.headers.etag as string
-    expect(etag).toMatch(/^W\/"/)
-    expect(first.headers['cache-control']).toBe('no-store')
-    const same = await nurse.get(path).set('If-None-Match', etag)
-    expect(same.status).toBe(304)
-    expect(same.text ?? '').toBe('')
-    const booked = await nurse.post('/api/appointments', {
-      referralId: f.referralId,
-      kind: 'anaemia-clinic',
-      startsAt: at(summerDay(), '10:00'),
-      durationMin: 30,
-      location: 'Anaemia Clinic, Outpatients B',
-    })
-    expect(booked.status, JSON.stringify(booked.body)).toBe(201)
-    const changed = await nurse.get(path).set('If-None-Match', etag)
-    expect(changed.status).toBe(200)
-    const body = changed.body as EpisodeUpdates
-    expect(body.appointments.rows.map((a) => a.id)).toContain(booked.body.appointment.id)
-    expect(body.messages!.rows.length).toBe((first.body as EpisodeUpdates).messages!.rows.length + 1)
-  })
+  it(
+    'when nothing changed, then the ETag gets a 304 with no body; ' + 'after a booking, the same tag gets the new appointment and message',
+    async () => {
+      const path = `/api/referrals/${f.referralId}/updates`
+      const first = await nurse.get(path)
+      const etag = first.headers.etag as string
+      expect(etag).toMatch(/^W\/"/)
+      expect(first.headers['cache-control']).toBe('no-store')
+      const same = await nurse.get(path).set('If-None-Match', etag)
+      expect(same.status).toBe(304)
+      expect(same.text ?? '').toBe('')
+      const booked = await nurse.post('/api/appointments', {
+        referralId: f.referralId,
+        kind: 'anaemia-clinic',
+        startsAt: at(summerDay(), '10:00'),
+        durationMin: 30,
+        location: 'Anaemia Clinic, Outpatients B',
+      })
+      expect(booked.status, JSON.stringify(booked.body)).toBe(201)
+      const changed = await nurse.get(path).set('If-None-Match', etag)
+      expect(changed.status).toBe(200)
+      const body = changed.body as EpisodeUpdates
+      expect(body.appointments.rows.map((a) => a.id)).toContain(booked.body.appointment.id)
+      expect(body.messages!.rows.length).toBe((first.body as EpisodeUpdates).messages!.rows.length + 1)
+    },
+  )
 
   it("when the patient's own surgeon polls, then the messages are left out (null), as the outbox refuses surgeons", async () => {
     const res = await surgeon.get(`/api/referrals/${f.referralId}/updates`)
