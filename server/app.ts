@@ -32,6 +32,7 @@ import { procedureRoutes } from './routes/procedures'
 import { referralRoutes } from './routes/referrals'
 import { worklistRoutes } from './routes/worklist'
 import { appointmentRoutes, referralAppointmentRoutes } from './routes/appointments'
+import { episodeUpdateRoutes } from './routes/episodeUpdates'
 import { infusionSessionRoutes } from './routes/infusionSessions'
 import { outboxRoutes } from './routes/outbox'
 import { appointmentTaskRoutes } from './routes/appointmentTasks'
@@ -152,6 +153,7 @@ export function createApp(config: Config, sequelize: Sequelize, opts: { logger?:
     readinessRoutes(ctx),
     appointmentRoutes(ctx),
     referralAppointmentRoutes(ctx),
+    episodeUpdateRoutes(ctx),
     infusionSessionRoutes(ctx),
     outboxRoutes(ctx),
     appointmentTaskRoutes(ctx),

@@ -1,6 +1,6 @@
 /** A real Ferrolane server process on the bench database, and a signed-in cookie for it. */
 import { spawn, type ChildProcess } from 'node:child_process'
-import { readFileSync } from 'node:fs'
+import { readFileSync, writeFileSync } from 'node:fs'
 import { repoRoot } from '../lib/stack'
 
 export interface BenchServer {
@@ -66,6 +66,19 @@ export function memoryMb(pid: number): { rssMb: number; peakMb: number } {
   const status = readFileSync(`/proc/${pid}/status`, 'utf8')
   const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? 0)
   return { rssMb: Math.round(kb('VmRSS') / 1024), peakMb: Math.round(kb('VmHWM') / 1024) }
+}
+
+/**
+ * Starts the kernel's peak (VmHWM) again from the present resident size, so a later memoryMb()
+ * reports the peak of what ran since; false where the kernel does not allow it.
+ */
+export function resetPeakMemory(pid: number): boolean {
+  try {
+    writeFileSync(`/proc/${pid}/clear_refs`, '5')
+    return true
+  } catch {
+    return false
+  }
 }
 
 /** CPU time (user + system) a process has used so far, in ms; Linux clock ticks are 10 ms. */

@@ -11,7 +11,7 @@ import { initModels, User } from '../../server/models/index'
 import { worklist } from '../../server/services/worklist'
 import type { WorklistQuery } from '../../shared/schemas/referrals'
 import { BENCH_PASSWORD } from './benchData'
-import { cpuMs, memoryMb, signIn, startBenchServer } from './server'
+import { cpuMs, memoryMb, resetPeakMemory, signIn, startBenchServer } from './server'
 
 const CONNECTIONS = 32
 const DURATION_S = 10
@@ -109,6 +109,9 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, 
     // Resident memory at rest, signed in, before any load.
     await new Promise((r) => setTimeout(r, 2000))
     const idle = memoryMb(server.pid)
+    // The sign-in's one scrypt derivation (128 MiB at OWASP's cost) sets the process's peak before
+    // any load; `loadPeakMb` is the peak of the load alone, `peakMb` stays the whole run's.
+    const loadPeakMeasured = resetPeakMemory(server.pid)
     const latencies: number[] = []
     const instance = autocannon({
       url: server.url,
@@ -127,7 +130,9 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, 
       databaseMs: +((cpuMs(databasePid) - cpuBefore.database) / latencies.length).toFixed(2),
     }
     const http = { ...summary(latencies, DURATION_S), non2xx: result.non2xx, errors: result.errors, cpuPerRequest }
-    const memory = memoryMb(server.pid)
+    const afterLoad = memoryMb(server.pid)
+    const memory = { rssMb: afterLoad.rssMb, peakMb: Math.max(idle.peakMb, afterLoad.peakMb) }
+    const loadPeakMb = loadPeakMeasured ? afterLoad.peakMb : null
 
     const seq = createSequelize(loadConfig(env))
     initModels(seq)
@@ -147,9 +152,16 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, 
       // Issue 19's figures, under keys of their own so the ones above stay comparable.
       rpsRatio: +(http.rps / direct.rps).toFixed(2),
       idleMemory: { rssMb: idle.rssMb },
+      startPeakMb: idle.peakMb,
+      loadPeakMb,
       issue19: {
         targets: { rpsRatioMin: 0.75, p95RatioMax: 1.3, peakMbMax: 200 },
-        met: { rpsRatio: http.rps / direct.rps >= 0.75, p95Ratio: http.p95Ms / direct.p95Ms <= 1.3, peakMb: memory.peakMb <= 200 },
+        met: {
+          rpsRatio: http.rps / direct.rps >= 0.75,
+          p95Ratio: http.p95Ms / direct.p95Ms <= 1.3,
+          peakMb: memory.peakMb <= 200,
+          loadPeakMb: loadPeakMb !== null && loadPeakMb <= 200,
+        },
       },
     }
   } finally {

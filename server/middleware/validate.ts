@@ -77,10 +77,33 @@ async function wrongTypes(schema: AnyObjectSchema, input: unknown): Promise<Inva
  * passes it to its service whole, typed by the schema's InferType (`req.body as CreatePatientInput`).
  */
 export function validate(schema: AnyObjectSchema, where: 'body' | 'query' = 'body'): RequestHandler {
+  if (where === 'query') return validateQuery(schema)
+  return async (req, _res, next) => {
+    req.body = await validateInput(schema, req.body)
+    next()
+  }
+}
+
+const QUERY_MEMO_SIZE = 500
+
+/**
+ * A poll sends the same query string every few seconds, and yup's cast of it was a thirtieth of a
+ * worklist request's server CPU. The query schemas are pure (the same text always casts to the
+ * same value), so each route keeps the values of the query strings it has accepted; each request
+ * gets its own copy. Refused strings, and strings longer than any poll's, are not kept: they are validated again and refused again.
+ */
+function validateQuery(schema: AnyObjectSchema): RequestHandler {
+  const accepted = new Map<string, unknown>()
   return async (req, res, next) => {
-    const value = await validateInput(schema, req[where])
-    if (where === 'body') req.body = value
-    else res.locals.query = value
+    const at = req.originalUrl.indexOf('?')
+    const text = at < 0 ? '' : req.originalUrl.slice(at + 1)
+    let value = accepted.get(text)
+    if (value === undefined) {
+      value = await validateInput(schema, req.query)
+      if (accepted.size >= QUERY_MEMO_SIZE) accepted.clear()
+      if (text.length <= 500) accepted.set(text, value)
+    }
+    res.locals.query = structuredClone(value)
     next()
   }
 }

@@ -1,7 +1,6 @@
 import { pino, type DestinationStream, type Logger } from 'pino'
-import { pinoHttp } from 'pino-http'
 import type { IncomingMessage, ServerResponse } from 'node:http'
-import type { Request, Response } from 'express'
+import type { RequestHandler, Response } from 'express'
 import type { LogLevel } from '../config'
 
 /**
@@ -52,23 +51,48 @@ export function routeLabel(req: IncomingMessage, res: ServerResponse): string {
 // Load balancers ask for these every few seconds; a line each would bury everything else.
 const QUIET = /^\/(api\/health(\/ready)?|metrics)(\?|$)/
 
-/** One line per finished request, at info (warn for 4xx, error for 5xx). */
-export function httpLogger(logger: Logger) {
-  return pinoHttp({
-    logger,
-    genReqId: (req) => (req as Request).id,
-    wrapSerializers: false,
-    serializers: {
-      req: (req: IncomingMessage & { id?: string }) => ({ id: req.id, method: req.method }),
-      res: (res: ServerResponse) => ({ statusCode: res.statusCode }),
-      err: safeError,
-    },
-    // Read when the response has finished (before that the route is not known yet).
-    customProps: (req, res) => (res.headersSent ? { route: routeLabel(req, res), userId: (req as Request).user?.id ?? null } : {}),
-    customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
-    customSuccessMessage: () => 'request finished',
-    customErrorMessage: () => 'request failed',
-    customAttributeKeys: { responseTime: 'ms' },
-    autoLogging: { ignore: (req) => QUIET.test(req.url ?? '') && req.method === 'GET' },
-  })
+declare module 'http' {
+  interface IncomingMessage {
+    /** The app's logger bound to this request's id and method (made on first use: only errors log through it). */
+    log: Logger
+  }
+}
+
+/**
+ * One line per finished request, at info (warn for 4xx, error for 5xx): `{ req: { id, method },
+ * res: { statusCode }, route, userId, ms }`. Written by hand rather than by pino-http, which made
+ * three child loggers per request (a twentieth of a worklist request's server CPU, with the
+ * garbage they leave); the line and its fields are the same.
+ */
+export function httpLogger(logger: Logger): RequestHandler {
+  return (req, res, next) => {
+    let child: Logger | undefined
+    Object.defineProperty(req, 'log', {
+      configurable: true,
+      get: () => (child ??= logger.child({ req: { id: req.id, method: req.method } })),
+    })
+    if (req.method === 'GET' && QUIET.test(req.url)) return next()
+    const started = Date.now()
+    let done = false
+    const finished = () => {
+      if (done) return
+      done = true
+      const status = res.statusCode
+      const failed = status >= 500
+      const line = {
+        req: { id: req.id, method: req.method },
+        res: { statusCode: status },
+        ...(failed ? { err: safeError(new Error(`failed with status code ${status}`)) } : {}),
+        route: routeLabel(req, res),
+        userId: req.user?.id ?? null,
+        ms: Date.now() - started,
+      }
+      if (failed) logger.error(line, 'request failed')
+      else if (status >= 400) logger.warn(line, 'request finished')
+      else logger.info(line, 'request finished')
+    }
+    res.once('finish', finished)
+    res.once('close', finished)
+    next()
+  }
 }

@@ -27,11 +27,21 @@ function params(N: number, r: number, p: number): ScryptOptions {
 /** scrypt runs so far: lets a test prove every sign-in path pays one (no timing oracle). */
 export const hashWork = { derivations: 0 }
 
+// Each derivation holds 128·N·r bytes (128 MiB at the default cost) while it runs, on one of
+// libuv's four threads. Run side by side, a handful of sign-ins (or the start-up's dummy hash
+// beside the first sign-in) took the process's resident memory up by several times that: they
+// take turns instead, so a burst of sign-ins costs time, not memory, and leaves threads for files.
+let previous: Promise<unknown> = Promise.resolve()
+
 function derive(password: string, salt: Buffer, options: ScryptOptions): Promise<Buffer> {
   hashWork.derivations += 1
-  return new Promise((resolve, reject) =>
-    scrypt(password.normalize('NFKC'), salt, KEY_LENGTH, options, (err, key) => (err ? reject(err) : resolve(key))),
+  const input = password.normalize('NFKC')
+  const run = previous.then(
+    () =>
+      new Promise<Buffer>((resolve, reject) => scrypt(input, salt, KEY_LENGTH, options, (err, key) => (err ? reject(err) : resolve(key)))),
   )
+  previous = run.catch(() => undefined)
+  return run
 }
 
 /** Stored as `scrypt$N$r$p$salt$hash` so the cost can rise later without breaking old hashes. */

@@ -1,4 +1,6 @@
 import type { AppointmentKind, AppointmentStatus } from '../appointments'
+import type { AppointmentView, OutboxRow } from '../appointments/views'
+import type { Rows } from '../types'
 import type { AnaemiaCriteria, AnaemiaSeverity, IronStatus, Sex } from '../clinical'
 import type { Role } from '../roles'
 import type { DateChangeView } from './dateChanges'
@@ -230,4 +232,15 @@ export interface StaffOption {
   id: number
   name: string
   role: Role
+}
+
+/**
+ * GET /api/referrals/:id/updates: what changes on an open episode, in one conditional answer, so
+ * the episode screen polls once instead of once per part. `messages` is null for a role that may
+ * not read the patient's messages (outbox.read).
+ */
+export interface EpisodeUpdates {
+  detail: ReferralDetail
+  appointments: Rows<AppointmentView>
+  messages: Rows<OutboxRow> | null
 }

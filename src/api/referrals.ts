@@ -2,7 +2,12 @@ import type { CreateReferralInput, TransitionInput, UpdateReferralInput } from '
 import type { CreateResultInput } from '@shared/schemas/results'
 import type { CancelOperationInput } from '@shared/schemas/cancellations'
 import { api } from './client'
-import type { AddedResult, ReferralDetail } from '@shared/pathway/views'
+import type { AddedResult, EpisodeUpdates, ReferralDetail } from '@shared/pathway/views'
+
+/** The open episode's one poll: always a re-read of what the screen shows (audited as a refetch). */
+export function getEpisodeUpdates(id: number, previous?: EpisodeUpdates): Promise<EpisodeUpdates> {
+  return api.poll<EpisodeUpdates>(`/referrals/${id}/updates`, previous, { refetch: true })
+}
 
 /** `refetch`: the episode is already on screen (a poll); opening it is audited every time, polls are not. */
 export function getReferral(id: number, opts: { refetch?: boolean; previous?: ReferralDetail } = {}): Promise<ReferralDetail> {

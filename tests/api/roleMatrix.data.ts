@@ -77,6 +77,7 @@ export const ROLE_MATRIX: MatrixEntry[] = [
   { method: 'PATCH', path: '/api/appointments/:id', action: 'appointments.book' },
   { method: 'POST', path: '/api/appointments/:id/cancel', action: 'appointments.book' },
   { method: 'GET', path: '/api/referrals/:id/appointments', action: 'records.read' },
+  { method: 'GET', path: '/api/referrals/:id/updates', action: 'records.read' },
   { method: 'GET', path: '/api/infusion-sessions', action: 'infusionSessions.read' },
   { method: 'POST', path: '/api/infusion-sessions', action: 'infusionSessions.manage' },
   { method: 'PATCH', path: '/api/infusion-sessions/:id', action: 'infusionSessions.manage' },

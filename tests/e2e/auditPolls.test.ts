@@ -23,7 +23,8 @@ beforeAll(async () => {
   browser = await launchBrowser()
   page = await (await browser.newContext({ locale: 'en-GB' })).newPage()
   page.on('request', (r) => {
-    if (new URL(r.url()).pathname === `/api/referrals/${referralId}`)
+    // The episode is opened by its own route and then polled with its appointments and messages.
+    if ([`/api/referrals/${referralId}`, `/api/referrals/${referralId}/updates`].includes(new URL(r.url()).pathname))
       episodeReads.push({ refetch: r.headers()['x-ferrolane-refetch'] === '1' })
   })
 })

@@ -23,9 +23,6 @@ export const appointmentKeys = {
   tasks: () => [...appointmentKeys.all, 'tasks', 'open'] as const,
 }
 
-// Patients answer from their e-mail and the worker sends in the background: keep both fresh.
-const LIST_POLL_MS = 10_000
-const OUTBOX_POLL_MS = 8_000
 const TASKS_POLL_MS = 15_000
 
 // Polls ask "has it changed?" (ETag, 304) with the data already shown, and stop while the tab is
@@ -37,8 +34,8 @@ export function useAppointmentsQuery(referralId: MaybeRefOrGetter<number>) {
   return useQuery({
     queryKey: computed(() => appointmentKeys.list(toValue(referralId))),
     queryFn: ({ queryKey }) => listAppointments(toValue(referralId), queryClient.getQueryData<{ rows: AppointmentView[] }>(queryKey)),
-    refetchInterval: LIST_POLL_MS,
-    ...POLLING,
+    // Kept fresh by the episode screen's one poll (useEpisodeUpdates), which writes it here.
+    refetchOnWindowFocus: false,
   })
 }
 
@@ -48,8 +45,8 @@ export function useOutboxQuery(referralId: MaybeRefOrGetter<number>, enabled: Ma
     queryKey: computed(() => appointmentKeys.outbox(toValue(referralId))),
     queryFn: ({ queryKey }) => listOutbox(toValue(referralId), queryClient.getQueryData<{ rows: OutboxRow[] }>(queryKey)),
     enabled: computed(() => toValue(enabled)),
-    refetchInterval: OUTBOX_POLL_MS,
-    ...POLLING,
+    // Kept fresh by the episode screen's one poll (useEpisodeUpdates), which writes it here.
+    refetchOnWindowFocus: false,
   })
 }
 

@@ -22,7 +22,6 @@ export const referralKeys = {
 // Polls are conditional (a 304 when nothing changed) and stop while the tab is hidden; coming
 // back to the tab refetches at once.
 const WORKLIST_POLL_MS = 8_000
-const DETAIL_POLL_MS = 12_000
 const POLLING = { refetchIntervalInBackground: false, refetchOnWindowFocus: true } as const
 
 /** One page of the worklist; the previous page stays on screen while the next one loads. */
@@ -61,8 +60,8 @@ export function useReferralQuery(id: MaybeRefOrGetter<number>) {
       opened = current
       return getReferral(current, { refetch, previous: queryClient.getQueryData<ReferralDetail>(queryKey) })
     },
-    refetchInterval: DETAIL_POLL_MS,
-    ...POLLING,
+    // Kept fresh by the episode screen's one poll (useEpisodeUpdates), which writes it here.
+    refetchOnWindowFocus: false,
   })
 }
 
