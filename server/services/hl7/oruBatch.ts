@@ -142,6 +142,9 @@ function distinctSamples(resolved: Resolved[]): boolean {
   return resolved.every((r) => new Set(r.g.obx.map((o) => `${o.reading.analyte}|${o.reading.takenAt.getTime()}`)).size === r.g.obx.length)
 }
 
+/** Batches and messages stored by this path in this process (the tests check the batch path was taken). */
+export const oruBatchStats = { batches: 0, messages: 0 }
+
 /** Everything the batch stores, one statement per kind of row; the ACKs in the batch's order. */
 async function write(
   sequelize: Sequelize,
@@ -233,6 +236,8 @@ async function write(
   })
   await insertResultAudits(sequelize, audits, t)
   await setChanges(sequelize, messageChanges, t)
+  oruBatchStats.batches += 1
+  oruBatchStats.messages += batch.length
   return plans.map((p, i) => (p.kind === 'answered' || p.kind === 'no-row' ? p.ack : p.kind === 'repeat' ? acks[p.of]! : acks[i]!))
 }
 
