@@ -106,4 +106,29 @@ describe('HL7 results stored a batch at a time', () => {
       expect(await AuditEntry.count({ where: { action: 'hl7-results' } })).toBe(7)
     },
   )
+
+  it(
+    'when four senders each wait for their ACK before the next message, then their messages are stored ' +
+      'together rather than one by one, each exactly once',
+    async () => {
+      const base = Date.now() - 80 * 3600_000
+      const before = { ...oruBatchStats }
+      const acks = await Promise.all(
+        MRNS.slice(0, 4).map((mrn, c) =>
+          send(
+            port,
+            ...Array.from({ length: 12 }, (_, i) =>
+              oru({ mrn, control: `LS-${c}-${i}`, obx: [{ value: String(100 + i), at: new Date(base + i * 60_000) }] }),
+            ),
+          ),
+        ),
+      )
+      expect(acks.flat().map(ackCode)).toEqual(Array(48).fill('AA'))
+      expect(await Result.count({ where: { source: 'hl7' } })).toBe(48)
+      expect(await Hl7MessageRow.count({ where: { outcome: 'stored' } })).toBe(48)
+      // Without waiting for the senders just answered, batches alternate 1 and 3 messages (2 on average).
+      const perBatch = (oruBatchStats.messages - before.messages) / (oruBatchStats.batches - before.batches)
+      expect(perBatch).toBeGreaterThan(2.5)
+    },
+  )
 })
