@@ -5,7 +5,7 @@ import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFact
 import { ackCode, ackError, oru, send } from '../helpers/hl7'
 import { AuditEntry, Hl7MessageRow, Referral, Result } from '../../server/models/index'
 import type { MllpListener } from '../../server/services/hl7/listener'
-import { oruBatchStats } from '../../server/services/hl7/oruBatch'
+import { oruBatchStats } from '../../server/services/hl7/oruBatchWrite'
 import { startTestListener } from '../helpers/hl7Listener'
 
 let t: TestApp

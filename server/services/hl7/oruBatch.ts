@@ -1,36 +1,23 @@
 import type { Sequelize, Transaction } from 'sequelize'
 import type { Config } from '../../config'
 import { codesFor } from '../imports/mappings'
-import { insertResultsReturningIds, type NewResult } from '../resultStore'
-import { rescreenReferrals, screeningView } from '../screening'
 import { buildAck, Hl7Problem } from './ack'
-import { checkHeader, mrnOf, type Incoming } from './header'
-import { addedDetail, decideObx, hl7Result, movesScreening } from './obxDecision'
+import { checkHeader, type Incoming } from './header'
+import { decideObx, type ObxDecision } from './obxDecision'
 import { readOru, type ObxReading, type OruGroup } from './oruRead'
-import {
-  insertMessages,
-  insertResultAudits,
-  lockPatients,
-  messageKey,
-  sampleKey,
-  sampleRows,
-  setChanges,
-  storedAcks,
-  type LockedPatient,
-  type MessageRow,
-  type ResultAudit,
-} from './oruBatchSql'
-import { deriveForGroup, noOpenReferral, takenBeforeBirth, unknownMrn, type Change } from './oruStore'
+import { lockPatients, messageKey, sampleKey, sampleRows, storedAcks, type LockedPatient } from './oruBatchSql'
+import { writeOruBatch } from './oruBatchWrite'
+import { noOpenReferral, takenBeforeBirth, unknownMrn } from './oruStore'
 
 /** A group (one PID) whose patient and open episode were found: its OBX go to that episode. */
-interface Resolved {
+export interface Resolved {
   g: OruGroup
   patient: LockedPatient
   referral: NonNullable<LockedPatient['referral']>
 }
 
 /** What one message of the batch comes to, decided before anything is written. */
-type Plan =
+export type Plan =
   | { kind: 'no-row'; ack: string } // no control id: AR, nothing to key a row on
   | { kind: 'answered'; ack: string } // the control id was answered before: that answer again
   | { kind: 'repeat'; of: number } // the control id came earlier in this batch: its answer
@@ -85,7 +72,7 @@ export async function storeOruBatch(sequelize: Sequelize, config: Config, batch:
     resolved.flatMap((r) => r.g.obx.map((o) => ({ referralId: r.referral.id, analyte: o.reading.analyte, takenAt: o.reading.takenAt }))),
     t,
   )
-  const decisions = new Map<ObxReading, ReturnType<typeof decideObx>>()
+  const decisions = new Map<ObxReading, ObxDecision>()
   for (const [i, p] of plans.entries()) {
     if (p.kind !== 'oru') continue
     for (const r of p.resolved)
@@ -96,7 +83,7 @@ export async function storeOruBatch(sequelize: Sequelize, config: Config, batch:
         decisions.set(o, d)
       }
   }
-  return write(sequelize, batch, plans, decisions, t)
+  return writeOruBatch(sequelize, batch, plans, decisions, t)
 }
 
 const isHandled = (m: Incoming) => {
@@ -140,145 +127,4 @@ function distinctSamples(resolved: Resolved[]): boolean {
   const referrals = new Set(resolved.map((r) => r.referral.id))
   if (referrals.size !== resolved.length) return false
   return resolved.every((r) => new Set(r.g.obx.map((o) => `${o.reading.analyte}|${o.reading.takenAt.getTime()}`)).size === r.g.obx.length)
-}
-
-/** Batches and messages stored by this path in this process (the tests check the batch path was taken). */
-export const oruBatchStats = { batches: 0, messages: 0 }
-
-/** Everything the batch stores, one statement per kind of row; the ACKs in the batch's order. */
-async function write(
-  sequelize: Sequelize,
-  batch: Incoming[],
-  plans: Plan[],
-  decisions: Map<ObxReading, ReturnType<typeof decideObx>>,
-  t: Transaction,
-): Promise<string[]> {
-  const acks: (string | null)[] = plans.map((p, i) =>
-    p.kind === 'problem' ? buildAck(batch[i]!.msg, p.problem.ack, p.problem) : p.kind === 'oru' ? buildAck(batch[i]!.msg, 'AA') : null,
-  )
-  const messageRows: MessageRow[] = []
-  plans.forEach((p, i) => {
-    if (p.kind === 'problem' || p.kind === 'oru') messageRows.push(messageRow(batch[i]!, p, acks[i]!, decisions))
-  })
-  const messageIds = await insertMessages(sequelize, messageRows, t)
-  const idOf = (i: number) => messageIds.get(messageKey(batch[i]!.h))!
-  // The new results, in OBX order, and who each one is for.
-  const news: { result: NewResult; o: ObxReading; change: string; changes: Change[] }[] = []
-  const perGroup = new Map<Resolved, Change[]>()
-  plans.forEach((p, i) => {
-    if (p.kind !== 'oru') return
-    for (const r of p.resolved) {
-      const changes: Change[] = []
-      perGroup.set(r, changes)
-      for (const o of r.g.obx) {
-        const w = decisions.get(o)!.write
-        if (w.kind === 'insert')
-          news.push({
-            result: hl7Result(o, { referralId: r.referral.id, patientId: r.patient.patientId, hl7MessageId: idOf(i) }),
-            o,
-            change: w.change,
-            changes,
-          })
-      }
-    }
-  })
-  const resultIds = await insertResultsReturningIds(
-    sequelize,
-    news.map((n) => n.result),
-    t,
-  )
-  news.forEach((n, k) =>
-    n.changes.push({
-      kind: n.change as Change['kind'],
-      resultId: resultIds[k]!,
-      referralId: n.result.referralId,
-      analyte: n.result.analyte,
-      detail: addedDetail(n.o),
-    }),
-  )
-  // Derived values (only when the batch brings iron studies or a creatinine), then one re-screening of the episodes that moved.
-  const rescreen: Resolved[] = []
-  for (const [r, changes] of perGroup) {
-    if (!changes.length) continue
-    const tsat = await deriveForGroup(r.g, { referralId: r.referral.id, patientId: r.patient.patientId }, r.patient, changes, t)
-    const moved = r.g.obx.some((o) =>
-      movesScreening(
-        o,
-        news.filter((n) => n.o === o).map((n) => n.change),
-      ),
-    )
-    if (tsat || moved) rescreen.push(r)
-  }
-  const screened = await rescreenReferrals(
-    sequelize,
-    rescreen.map((r) => ({ id: r.referral.id, sex: r.patient.sex, criteria: r.referral.anaemiaCriteria })),
-    t,
-  )
-  const audits: ResultAudit[] = []
-  const messageChanges = new Map<number, Change[]>()
-  plans.forEach((p, i) => {
-    if (p.kind !== 'oru') return
-    const all: Change[] = []
-    for (const r of p.resolved) {
-      const changes = perGroup.get(r)!
-      if (!changes.length) continue
-      const after = { ...r.referral, ...screened.get(r.referral.id) }
-      audits.push({
-        referralId: r.referral.id,
-        patientId: r.patient.patientId,
-        requestId: `hl7:${idOf(i)}`,
-        before: { screening: screeningView(r.referral, r.patient.sex) },
-        after: { hl7MessageId: idOf(i), controlId: batch[i]!.h.controlId, changes, screening: screeningView(after, r.patient.sex) },
-      })
-      all.push(...changes)
-    }
-    if (all.length) messageChanges.set(idOf(i), all)
-  })
-  await insertResultAudits(sequelize, audits, t)
-  await setChanges(sequelize, messageChanges, t)
-  oruBatchStats.batches += 1
-  oruBatchStats.messages += batch.length
-  return plans.map((p, i) => (p.kind === 'answered' || p.kind === 'no-row' ? p.ack : p.kind === 'repeat' ? acks[p.of]! : acks[i]!))
-}
-
-/** The message log's row, as the per-message path leaves it (the change list follows once results have ids). */
-function messageRow(
-  m: Incoming,
-  p: Plan & { kind: 'problem' | 'oru' },
-  ack: string,
-  decisions: Map<ObxReading, ReturnType<typeof decideObx>>,
-): MessageRow {
-  const base = {
-    receivedAt: m.receivedAt,
-    controlId: m.h.controlId,
-    sendingApp: m.h.sendingApp,
-    sendingFacility: m.h.sendingFacility,
-    messageType: m.h.type,
-    version: m.h.version,
-    raw: m.raw,
-    ack,
-    patientMrn: mrnOf(m.msg),
-  }
-  if (p.kind === 'problem') {
-    const ae = p.problem.ack === 'AE'
-    return {
-      ...base,
-      outcome: ae ? 'error' : 'rejected',
-      ackCode: p.problem.ack,
-      errorCode: p.problem.code,
-      errorText: p.problem.message.slice(0, 1000),
-      changes: null,
-      needsAttention: ae,
-    }
-  }
-  const adds = p.resolved.some((r) => r.g.obx.some((o) => decisions.get(o)!.write.kind === 'insert'))
-  return {
-    ...base,
-    outcome: adds ? 'stored' : 'nothing-new',
-    ackCode: 'AA',
-    errorCode: null,
-    errorText: null,
-    changes: [],
-    needsAttention: false,
-  }
 }
