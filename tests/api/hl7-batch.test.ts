@@ -2,11 +2,13 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { makeStaff } from '../helpers/factories'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
+import { Hl7Message } from '@medplum/core'
 import { ackCode, ackError, oru, send } from '../helpers/hl7'
 import { AuditEntry, Hl7MessageRow, Referral, Result } from '../../server/models/index'
 import type { MllpListener } from '../../server/services/hl7/listener'
 import { oruBatchStats } from '../../server/services/hl7/oruBatchWrite'
 import { startTestListener } from '../helpers/hl7Listener'
+import { receive } from '../../server/services/hl7/inbox'
 
 let t: TestApp
 let listener: MllpListener
@@ -129,6 +131,44 @@ describe('HL7 results stored a batch at a time', () => {
       // Without waiting for the senders just answered, batches alternate 1 and 3 messages (2 on average).
       const perBatch = (oruBatchStats.messages - before.messages) / (oruBatchStats.batches - before.batches)
       expect(perBatch).toBeGreaterThan(2.5)
+    },
+  )
+
+  it(
+    'when another server stores the same control id while the batch is being written, then the batch path gives way ' +
+      'and the message gets the answer stored there',
+    async () => {
+      const text = oru({ mrn: 'HB70001', control: 'BT-RACE', obx: [{ value: '97' }] })
+      // Another node's transaction holds the control id (not yet committed: the batch's read does not see it).
+      const other = await t.sequelize.transaction()
+      const now = new Date()
+      await Hl7MessageRow.create(
+        {
+          receivedAt: now,
+          controlId: 'BT-RACE',
+          sendingApp: 'KVLAB',
+          sendingFacility: 'KVH-PATH',
+          messageType: 'ORU^R01',
+          version: '2.5.1',
+          raw: text,
+          outcome: 'stored',
+          ackCode: 'AA',
+          ack: 'ANSWER-FROM-THE-OTHER-NODE',
+          errorCode: null,
+          errorText: null,
+          changes: [],
+          patientMrn: 'HB70001',
+          needsAttention: false,
+          processedAt: now,
+        },
+        { transaction: other },
+      )
+      const answer = receive(t.sequelize, t.config, Hl7Message.parse(text))
+      await new Promise((r) => setTimeout(r, 300))
+      await other.commit()
+      expect(await answer).toBe('ANSWER-FROM-THE-OTHER-NODE')
+      expect(await Hl7MessageRow.count({ where: { controlId: 'BT-RACE' } })).toBe(1)
+      expect(await Result.count({ where: { source: 'hl7' } })).toBe(0)
     },
   )
 })

@@ -53,14 +53,21 @@ export async function receive(sequelize: Sequelize, config: Config, msg: Hl7Mess
  * A control id already answered gets that answer again and changes nothing; a message row and
  * everything it changes are stored together or not at all. The ACKs exist only once the
  * transaction has committed. A deadlock replays the batch (unitOfWork); any other failure rolls
- * it back and each message is stored again alone, so only the one that fails gets an error.
+ * it back and each message is stored again alone the per-message way (`batchPath` false: a control
+ * id or result another node stored meanwhile is then found behind its savepoint), so only the one
+ * that fails gets an error.
  */
-export async function receiveBatch(sequelize: Sequelize, config: Config, msgs: Hl7Message[]): Promise<PromiseSettledResult<string>[]> {
+export async function receiveBatch(
+  sequelize: Sequelize,
+  config: Config,
+  msgs: Hl7Message[],
+  batchPath = true,
+): Promise<PromiseSettledResult<string>[]> {
   const incoming = msgs.map((msg): Incoming => ({ msg, h: readHeader(msg), raw: msg.toString(), receivedAt: new Date() }))
   try {
     const acks = await unitOfWork(sequelize, { idempotent: true }, async (t) => {
       // Plain results: a few statements for the whole batch. Anything else: one message at a time below.
-      const fast = await storeOruBatch(sequelize, config, incoming, t)
+      const fast = batchPath ? await storeOruBatch(sequelize, config, incoming, t) : null
       if (fast) return fast
       const out: string[] = []
       for (const [i, m] of incoming.entries()) out.push(await storeInBatch(sequelize, config, m, i, t))
@@ -68,9 +75,9 @@ export async function receiveBatch(sequelize: Sequelize, config: Config, msgs: H
     })
     return acks.map((value) => ({ status: 'fulfilled', value }))
   } catch (err) {
-    if (msgs.length === 1) return [{ status: 'rejected', reason: err }]
+    if (msgs.length === 1 && !batchPath) return [{ status: 'rejected', reason: err }]
     const out: PromiseSettledResult<string>[] = []
-    for (const msg of msgs) out.push(...(await receiveBatch(sequelize, config, [msg])))
+    for (const msg of msgs) out.push(...(await receiveBatch(sequelize, config, [msg], false)))
     return out
   }
 }
