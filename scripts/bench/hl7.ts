@@ -80,6 +80,15 @@ async function baseline(conn: Db): Promise<{ selectOnePerSecond: number; loadAve
   return { selectOnePerSecond: Math.round(n / ((performance.now() - t0) / 1000)), loadAverage1m: Math.round(os.loadavg()[0]! * 10) / 10 }
 }
 
+/**
+ * Statements the database server has been sent so far, by every client (MariaDB's global
+ * `Questions` counter): the load-independent cost of a message is the delta over the run.
+ */
+async function questions(conn: Db): Promise<number> {
+  const rows: { Value: string }[] = await conn.query("SHOW GLOBAL STATUS LIKE 'Questions'")
+  return Number(rows[0]?.Value ?? 0)
+}
+
 /** What the database holds for this run: each count worked out independently of the ACKs. */
 async function verify(conn: Db, run: string) {
   const like = `${run}-%`
@@ -166,7 +175,10 @@ export async function benchHl7(env: NodeJS.ProcessEnv) {
   const latencies: number[] = []
   const codes: Record<string, number> = {}
   const firstAcks = new Map<number, string>()
+  // The bench's own connection reads the statement counter before and after the sends (2 statements of its own).
+  const counter = await db()
   try {
+    const q0 = await questions(counter)
     const cpu0 = cpuMs(server.pid)
     const t0 = performance.now()
     await Promise.all(
@@ -188,6 +200,7 @@ export async function benchHl7(env: NodeJS.ProcessEnv) {
     )
     const seconds = (performance.now() - t0) / 1000
     const cpu = cpuMs(server.pid) - cpu0
+    const statements = (await questions(counter)) - q0 - 1
     latencies.sort((a, b) => a - b)
     const conn = await db()
     let stored: Awaited<ReturnType<typeof verify>>
@@ -224,6 +237,8 @@ export async function benchHl7(env: NodeJS.ProcessEnv) {
       stored,
       resend,
       serverCpuMsPerMessage: Math.round((cpu / MESSAGES) * 100) / 100,
+      // SQL statements the server sent per message (global Questions delta over the sends, the counter's own read taken out).
+      statementsPerMessage: Math.round((statements / MESSAGES) * 100) / 100,
       serverRssMb: memoryMb(server.pid).rssMb,
       // Messages per second for every 1000 plain round trips per second the machine managed in this run.
       baseline: {
@@ -236,6 +251,7 @@ export async function benchHl7(env: NodeJS.ProcessEnv) {
       exactlyOnce,
     }
   } finally {
+    await counter.end()
     await server.stop()
   }
 }

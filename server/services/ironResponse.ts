@@ -52,26 +52,26 @@ export async function refreshIronResponse(
           { type: QueryTypes.SELECT, replacements: { treated }, transaction: t },
         )
       : []
-    const groups = { none: [] as number[], noResponse: [] as number[], falling: [] as number[], both: [] as number[] }
+    const noResponse: number[] = []
+    const falling: number[] = []
     // Grouped once: filtering every row per episode was 500 × rows per chunk.
     const hbOf = groupBy(hb, (h) => ({ takenAt: h.takenAt, hbGL: Number(h.hbGL) }))
     const dosesOf = groupBy(doses, (d) => d)
     for (const id of ids) {
       const f = responseFlags(hbOf.get(id) ?? [], dosesOf.get(id) ?? [], clinicTimeZone())
-      groups[
-        f.noResponseToIron && f.hbFallingAfterIron ? 'both' : f.noResponseToIron ? 'noResponse' : f.hbFallingAfterIron ? 'falling' : 'none'
-      ].push(id)
+      if (f.noResponseToIron) noResponse.push(id)
+      if (f.hbFallingAfterIron) falling.push(id)
     }
-    const set: Record<keyof typeof groups, [number, number]> = { none: [0, 0], noResponse: [1, 0], falling: [0, 1], both: [1, 1] }
-    for (const [key, list] of Object.entries(groups) as [keyof typeof groups, number[]][]) {
-      if (!list.length) continue
-      // Derived data, not an edit: the version (the optimistic lock on decisions) stays.
-      worklistChanged('referral', t)
-      await sequelize.query('UPDATE referrals SET no_response_to_iron = :nr, hb_falling_after_iron = :fa WHERE id IN (:list)', {
+    // Derived data, not an edit: the version (the optimistic lock on decisions) stays. One UPDATE
+    // for the chunk (0 is no referral's id: it stands for an empty list).
+    worklistChanged('referral', t)
+    await sequelize.query(
+      'UPDATE referrals SET no_response_to_iron = id IN (:nr), hb_falling_after_iron = id IN (:fa) WHERE id IN (:ids)',
+      {
         type: QueryTypes.UPDATE,
-        replacements: { nr: set[key][0], fa: set[key][1], list },
+        replacements: { nr: noResponse.length ? noResponse : [0], fa: falling.length ? falling : [0], ids },
         transaction: t,
-      })
-    }
+      },
+    )
   }
 }

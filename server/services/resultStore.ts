@@ -53,32 +53,50 @@ export async function insertResults(sequelize: Sequelize, rows: readonly NewResu
   const now = new Date()
   for (let i = 0; i < rows.length; i += chunk) {
     const part = rows.slice(i, i + chunk)
-    const values = part.flatMap((r) => [
-      r.referralId,
-      r.patientId,
-      r.analyte,
-      r.valueCanonical,
-      unitOf(r.analyte),
-      r.valueReported,
-      r.unitReported,
-      r.takenAt,
-      r.enteredBy,
-      r.source,
-      r.derivedFrom ? JSON.stringify(r.derivedFrom) : null,
-      r.importBatchId ?? null,
-      r.status ?? 'final',
-      r.comparator ?? null,
-      r.hl7MessageId ?? null,
-      r.referenceRange ?? null,
-      r.abnormalFlags ?? null,
-      now,
-    ])
     await sequelize.query(`INSERT INTO results ${COLUMNS} VALUES ${part.map(() => PLACEHOLDERS).join(', ')}`, {
       type: QueryTypes.INSERT,
-      replacements: values,
+      replacements: part.flatMap((r) => rowValues(r, now)),
       transaction: t,
     })
   }
+}
+
+/**
+ * insertResults for a few rows whose ids the caller needs (an HL7 batch: the message log names
+ * them): one INSERT ... RETURNING (MariaDB 10.5+), ids in the rows' order, never assumed consecutive.
+ */
+export async function insertResultsReturningIds(sequelize: Sequelize, rows: readonly NewResult[], t: Transaction): Promise<number[]> {
+  if (!rows.length) return []
+  const now = new Date()
+  const out = await sequelize.query<{ id: number }>(
+    `INSERT INTO results ${COLUMNS} VALUES ${rows.map(() => PLACEHOLDERS).join(', ')} RETURNING id`,
+    { type: QueryTypes.SELECT, replacements: rows.flatMap((r) => rowValues(r, now)), transaction: t },
+  )
+  if (out.length !== rows.length) throw new Error(`INSERT ... RETURNING gave ${out.length} ids for ${rows.length} results`)
+  return out.map((r) => r.id)
+}
+
+function rowValues(r: NewResult, now: Date): unknown[] {
+  return [
+    r.referralId,
+    r.patientId,
+    r.analyte,
+    r.valueCanonical,
+    unitOf(r.analyte),
+    r.valueReported,
+    r.unitReported,
+    r.takenAt,
+    r.enteredBy,
+    r.source,
+    r.derivedFrom ? JSON.stringify(r.derivedFrom) : null,
+    r.importBatchId ?? null,
+    r.status ?? 'final',
+    r.comparator ?? null,
+    r.hl7MessageId ?? null,
+    r.referenceRange ?? null,
+    r.abnormalFlags ?? null,
+    now,
+  ]
 }
 
 /** One result whose row the caller needs back (typed-in, HL7): the same columns as insertResults. */

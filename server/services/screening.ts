@@ -50,7 +50,7 @@ export async function refreshScreening(referral: Referral, sex: Sex, t: Transact
   return next
 }
 
-interface ReferralScreeningRow {
+export interface ReferralScreeningRow {
   id: number
   sex: Sex
   criteria: AnaemiaCriteria
@@ -74,50 +74,72 @@ export async function refreshScreeningMany(
       `SELECT r.id, p.sex, r.anaemia_criteria AS criteria FROM referrals r JOIN patients p ON p.id = r.patient_id WHERE r.id IN (:ids)`,
       { type: QueryTypes.SELECT, replacements: { ids }, transaction: t },
     )
-    const rows = await sequelize.query<{ referralId: number; analyte: string; valueCanonical: number; takenAt: Date }>(
-      `SELECT referral_id AS referralId, analyte, value_canonical AS valueCanonical, taken_at AS takenAt FROM results
-       WHERE referral_id IN (:ids) AND analyte IN (:analytes) AND ${screenableSql()} ORDER BY referral_id, taken_at DESC, id DESC`,
-      { type: QueryTypes.SELECT, replacements: { ids, analytes: [...SCREENING_ANALYTES] }, transaction: t },
-    )
-    const byReferral = new Map<number, typeof rows>()
-    for (const r of rows) {
-      const list = byReferral.get(r.referralId) ?? []
-      list.push(r)
-      byReferral.set(r.referralId, list)
-    }
-    const values: unknown[] = []
-    const selects = refs.map((ref) => {
-      const next = screeningOutcome(latestFromRows(byReferral.get(ref.id) ?? []), ref.sex, ref.criteria)
-      values.push(
-        ref.id,
-        next.anaemic == null ? null : next.anaemic ? 1 : 0,
-        next.anaemiaSeverity,
-        next.ironStatus,
-        next.proposedStage,
-        next.latestHbGL,
-        next.latestHbAt,
-      )
-      return (
-        'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
-        'CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at'
-      )
-    })
-    if (!selects.length) continue
-    // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.
-    worklistChanged('referral', t)
-    await sequelize.query(
-      `UPDATE referrals r JOIN (${selects.join(' UNION ALL ')}) v ON v.id = r.id
-       SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,
-           r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?`,
-      { type: QueryTypes.UPDATE, replacements: [...values, new Date()], transaction: t },
-    )
-    await refreshIronResponse(sequelize, ids, t)
-    updated += refs.length
+    updated += (await rescreenReferrals(sequelize, refs, t)).size
   }
   return updated
 }
 
-export function screeningView(r: Referral, sex: Sex): ScreeningView {
+/**
+ * refreshScreeningMany for referrals whose sex and criteria the caller has already read (the HL7
+ * batch path reads them with its lock): the latest values in one query, the outcomes in one
+ * UPDATE, the iron-response flags once; returns each referral's new screening columns.
+ */
+export async function rescreenReferrals(
+  sequelize: Sequelize,
+  refs: readonly ReferralScreeningRow[],
+  t: Transaction,
+): Promise<Map<number, ScreeningColumns>> {
+  const out = new Map<number, ScreeningColumns>()
+  if (!refs.length) return out
+  const ids = refs.map((r) => r.id)
+  const rows = await sequelize.query<{ referralId: number; analyte: string; valueCanonical: number; takenAt: Date }>(
+    `SELECT referral_id AS referralId, analyte, value_canonical AS valueCanonical, taken_at AS takenAt FROM results
+     WHERE referral_id IN (:ids) AND analyte IN (:analytes) AND ${screenableSql()} ORDER BY referral_id, taken_at DESC, id DESC`,
+    { type: QueryTypes.SELECT, replacements: { ids, analytes: [...SCREENING_ANALYTES] }, transaction: t },
+  )
+  const byReferral = new Map<number, typeof rows>()
+  for (const r of rows) {
+    const list = byReferral.get(r.referralId) ?? []
+    list.push(r)
+    byReferral.set(r.referralId, list)
+  }
+  const values: unknown[] = []
+  const selects = refs.map((ref) => {
+    const next = screeningOutcome(latestFromRows(byReferral.get(ref.id) ?? []), ref.sex, ref.criteria)
+    out.set(ref.id, next)
+    values.push(
+      ref.id,
+      next.anaemic == null ? null : next.anaemic ? 1 : 0,
+      next.anaemiaSeverity,
+      next.ironStatus,
+      next.proposedStage,
+      next.latestHbGL,
+      next.latestHbAt,
+    )
+    return (
+      'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
+      'CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at'
+    )
+  })
+  // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.
+  worklistChanged('referral', t)
+  await sequelize.query(
+    `UPDATE referrals r JOIN (${selects.join(' UNION ALL ')}) v ON v.id = r.id
+     SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,
+         r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?`,
+    { type: QueryTypes.UPDATE, replacements: [...values, new Date()], transaction: t },
+  )
+  await refreshIronResponse(sequelize, ids, t)
+  return out
+}
+
+/** What screeningView reads of a referral: its screening columns and criteria (a model or a plain row). */
+export type ScreenedReferral = Pick<
+  Referral,
+  'anaemic' | 'anaemiaSeverity' | 'ironStatus' | 'proposedStage' | 'anaemiaCriteria' | 'latestHbGL' | 'latestHbAt'
+>
+
+export function screeningView(r: ScreenedReferral, sex: Sex): ScreeningView {
   // The threshold depends only on criteria and sex; 130 stands in when no Hb exists yet.
   const rule = classifyAnaemia({ hbGL: r.latestHbGL ?? 130, sex, criteria: r.anaemiaCriteria })
   return {

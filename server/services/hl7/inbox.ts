@@ -1,6 +1,6 @@
 import { Hl7Message } from '@medplum/core'
 import { UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize'
-import { SUPPORTED_VERSIONS, type Hl7Outcome } from '../../../shared/hl7'
+import type { Hl7Outcome } from '../../../shared/hl7'
 import type { Config } from '../../config'
 import { Hl7MessageRow } from '../../models/index'
 import { codesFor } from '../imports/mappings'
@@ -10,32 +10,10 @@ import { readOru } from './oruRead'
 import { storeOru } from './oruStore'
 import { storeSiu } from './siu'
 import { storeAdt } from './adt'
+import { checkHeader, mrnOf, readHeader, type Header, type Incoming } from './header'
+import { storeOruBatch } from './oruBatch'
 import { unitOfWork } from '../../unitOfWork'
 import type { Hl7Change } from '../../../shared/hl7'
-
-/** Message types Ferrolane takes (MSH-9 type^event). */
-const HANDLED = ['ORU^R01', 'SIU^S12', 'SIU^S13', 'SIU^S14', 'SIU^S15', 'ADT^A08'] as const
-
-export interface Header {
-  controlId: string
-  sendingApp: string
-  sendingFacility: string
-  type: string
-  version: string
-}
-
-const cut = (s: string, n: number) => s.trim().slice(0, n)
-
-export function readHeader(msg: Hl7Message): Header {
-  const msh = msg.header
-  return {
-    controlId: cut(msh.getComponent(10, 1), 100),
-    sendingApp: cut(msh.getComponent(3, 1), 100),
-    sendingFacility: cut(msh.getComponent(4, 1), 100),
-    type: cut(`${msh.getComponent(9, 1)}^${msh.getComponent(9, 2)}`, 20),
-    version: cut(msh.getComponent(12, 1), 10),
-  }
-}
 
 /** What a message asks of Ferrolane, done inside `t`; throws Hl7Problem when it cannot be done. */
 async function apply(
@@ -57,37 +35,6 @@ async function apply(
   return storeAdt(config, msg, { messageId, actor }, t)
 }
 
-function checkHeader(h: Header): void {
-  if (!h.controlId)
-    throw new Hl7Problem('AR', 'missing-control-id', 'MSH-10 message control id is empty', '101', { segment: 'MSH', field: 10 })
-  if (!(SUPPORTED_VERSIONS as readonly string[]).includes(h.version)) {
-    throw new Hl7Problem(
-      'AR',
-      'unsupported-version',
-      `HL7 version "${h.version}" is not supported (${SUPPORTED_VERSIONS.join(', ')})`,
-      '203',
-      { segment: 'MSH', field: 12 },
-    )
-  }
-  if (!(HANDLED as readonly string[]).includes(h.type)) {
-    throw new Hl7Problem('AR', 'unsupported-type', `message type ${h.type} is not one Ferrolane takes (${HANDLED.join(', ')})`, '200', {
-      segment: 'MSH',
-      field: 9,
-    })
-  }
-}
-
-function mrnOf(msg: Hl7Message): string | null {
-  return cut(msg.getSegment('PID')?.getComponent(3, 1) ?? '', 40) || null
-}
-
-interface Incoming {
-  msg: Hl7Message
-  h: Header
-  raw: string
-  receivedAt: Date
-}
-
 /**
  * One message in, one ACK out (a batch of one: see receiveBatch). Throws when the message could
  * not be processed at all (nothing of it was stored).
@@ -100,26 +47,37 @@ export async function receive(sequelize: Sequelize, config: Config, msg: Hl7Mess
 
 /**
  * Messages in, their ACKs out, in order; all stored in one transaction (group commit: one commit
- * and one log flush for the batch). Each message is behind its own savepoint, so one that cannot
+ * and one log flush for the batch). Plain results take the batch path (oruBatch.ts: a few
+ * statements for the whole batch); otherwise each message is behind its own savepoint, so one that cannot
  * be applied (AE, AR) is rolled back alone and kept with its reason while the others are stored.
  * A control id already answered gets that answer again and changes nothing; a message row and
  * everything it changes are stored together or not at all. The ACKs exist only once the
  * transaction has committed. A deadlock replays the batch (unitOfWork); any other failure rolls
- * it back and each message is stored again alone, so only the one that fails gets an error.
+ * it back and each message is stored again alone the per-message way (`batchPath` false: a control
+ * id or result another node stored meanwhile is then found behind its savepoint), so only the one
+ * that fails gets an error.
  */
-export async function receiveBatch(sequelize: Sequelize, config: Config, msgs: Hl7Message[]): Promise<PromiseSettledResult<string>[]> {
+export async function receiveBatch(
+  sequelize: Sequelize,
+  config: Config,
+  msgs: Hl7Message[],
+  batchPath = true,
+): Promise<PromiseSettledResult<string>[]> {
   const incoming = msgs.map((msg): Incoming => ({ msg, h: readHeader(msg), raw: msg.toString(), receivedAt: new Date() }))
   try {
     const acks = await unitOfWork(sequelize, { idempotent: true }, async (t) => {
+      // Plain results: a few statements for the whole batch. Anything else: one message at a time below.
+      const fast = batchPath ? await storeOruBatch(sequelize, config, incoming, t) : null
+      if (fast) return fast
       const out: string[] = []
       for (const [i, m] of incoming.entries()) out.push(await storeInBatch(sequelize, config, m, i, t))
       return out
     })
     return acks.map((value) => ({ status: 'fulfilled', value }))
   } catch (err) {
-    if (msgs.length === 1) return [{ status: 'rejected', reason: err }]
+    if (msgs.length === 1 && !batchPath) return [{ status: 'rejected', reason: err }]
     const out: PromiseSettledResult<string>[] = []
-    for (const msg of msgs) out.push(...(await receiveBatch(sequelize, config, [msg])))
+    for (const msg of msgs) out.push(...(await receiveBatch(sequelize, config, [msg], false)))
     return out
   }
 }

@@ -161,7 +161,7 @@ export class MllpListener {
         .then(async () => {
           try {
             // This connection's next message is handed over only after this one's ACK: its order is kept.
-            const ack = await this.inbox.submit(event.message)
+            const ack = await this.inbox.submit(event.message, socket)
             if (!socket.destroyed) conn.send(Hl7Message.parse(ack))
           } catch (err) {
             this.log('[hl7] message could not be processed', err)

@@ -1,10 +1,11 @@
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { Patient, Referral, Result } from '../../models/index'
-import { SCREENING_ANALYTES } from '../../../shared/clinic/screening'
+import type { ResultStatus } from '../../../shared/pathway/views'
 import { recordAudit, type Actor } from '../audit'
 import { deriveEgfr, deriveTsat, storeResult } from '../resultStore'
 import { refreshScreening, screeningView } from '../screening'
 import { Hl7Problem } from './ack'
+import { addedDetail, decideObx, hl7Result, movesScreening } from './obxDecision'
 import type { ObxReading, OruGroup } from './oruRead'
 
 // Stages after which an episode takes no results (as for imports and bookings).
@@ -38,10 +39,8 @@ async function voidRows(sequelize: Sequelize, ids: number[], reason: string, t: 
 }
 
 /**
- * One OBX against the episode: a final value is added (replacing a preliminary one of the same
- * sample), a correction replaces every earlier value of the sample, a deletion voids them, a
- * preliminary is kept but not screened and never overrides a final. The same value of the same
- * sample is the same row (the results' natural key): nothing new is stored for it.
+ * One OBX against the episode, as decideObx (obxDecision.ts) decides it from the sample's rows:
+ * the voiding, reviving or re-labelling of stored rows, or the new row, written here.
  */
 async function applyObx(
   sequelize: Sequelize,
@@ -59,38 +58,15 @@ async function applyObx(
     transaction: t,
     raw: true,
   })
-  const live = rows.filter((l) => l.voidedAt === null)
+  const decision = decideObx(o, rows, ctx.controlId)
   const changes: Change[] = []
   const note = (kind: Change['kind'], resultId: number, detail?: string) =>
     changes.push({ kind, resultId, referralId: ctx.referralId, analyte: r.analyte, ...(detail ? { detail } : {}) })
-  if (o.action === 'void') {
-    const voided = await voidRows(
-      sequelize,
-      live.map((l) => l.id),
-      `deleted by the laboratory (message ${ctx.controlId})`,
-      t,
-    )
-    voided.forEach((id) => note('result-voided', id))
-    return changes
-  }
-  if (o.action === 'preliminary' && live.some((l) => l.status !== 'preliminary')) return changes
-  const tol = r.tolerance ?? 0
-  const matches = rows.filter((l) => l.valueCanonical >= r.valueCanonical - tol && l.valueCanonical <= r.valueCanonical + tol)
-  const same = matches.find((l) => l.voidedAt === null) ?? matches[0]
-  const replace = o.action === 'corrected' ? live : o.action === 'final' ? live.filter((l) => l.status === 'preliminary') : []
-  const toVoid = replace.filter((l) => l.id !== same?.id).map((l) => l.id)
-  const why =
-    o.action === 'corrected'
-      ? `corrected by the laboratory (message ${ctx.controlId})`
-      : `replaced by the final value (message ${ctx.controlId})`
-  ;(await voidRows(sequelize, toVoid, why, t)).forEach((id) => note('result-voided', id))
-  const status = o.action
-  if (same) {
-    const unchanged =
-      same.voidedAt === null &&
-      (same.status === status || (status === 'final' && same.status === 'corrected')) &&
-      same.comparator === o.comparator
-    if (unchanged) return changes
+  ;(await voidRows(sequelize, decision.voidIds, decision.voidReason, t)).forEach((id) => note('result-voided', id))
+  const w = decision.write
+  if (w.kind === 'nothing') return changes
+  const status = o.action as ResultStatus
+  if (w.kind === 'update') {
     await Result.update(
       {
         status,
@@ -100,41 +76,16 @@ async function applyObx(
         referenceRange: o.range || null,
         abnormalFlags: o.flags || null,
       },
-      { where: { id: same.id }, transaction: t },
+      { where: { id: w.resultId }, transaction: t },
     )
-    note(status === 'corrected' ? 'result-corrected' : 'result-promoted', same.id)
+    note(w.change, w.resultId)
     return changes
   }
-  const created = await storeResult(
-    {
-      ...sample,
-      patientId: ctx.patientId,
-      valueCanonical: r.valueCanonical,
-      valueReported: r.value,
-      unitReported: r.unit,
-      enteredBy: null,
-      source: 'hl7',
-      status,
-      comparator: o.comparator,
-      hl7MessageId: ctx.messageId,
-      referenceRange: o.range || null,
-      abnormalFlags: o.flags || null,
-    },
-    t,
-  )
-  note(
-    status === 'corrected' ? 'result-corrected' : 'result-added',
-    created.id,
-    `${o.comparator ?? ''}${r.value} ${r.unit}${status === 'preliminary' ? ' (preliminary)' : ''}`,
-  )
+  const created = await storeResult(hl7Result(o, { ...ctx, hl7MessageId: ctx.messageId }), t)
+  note(w.change, created.id, addedDetail(o))
   return changes
 }
 
-/**
- * Stores an ORU^R01's results through the same rules as a typed-in result: the referral row is
- * locked, values derived (TSAT, eGFR) and the episode re-screened in the message's transaction,
- * with one audit row per episode naming the message.
- */
 /**
  * The patient's newest open episode, locked, with what the rules need of the patient, in one
  * read; only when there is none does a second read tell an unknown patient from one with no
@@ -149,22 +100,54 @@ async function openReferral(mrn: string, t: Transaction): Promise<Referral & { p
     lock: t.LOCK.UPDATE,
   })) as (Referral & { patient: Patient }) | null
   if (r) return r
-  if (!(await Patient.count({ where: { mrn }, transaction: t })))
-    throw new Hl7Problem('AE', 'unknown-mrn', `no patient has MRN ${mrn}`, '204', { segment: 'PID', field: 3 })
-  throw new Hl7Problem('AE', 'no-open-referral', `patient ${mrn} has no open episode`, '204', { segment: 'PID', field: 3 })
+  if (!(await Patient.count({ where: { mrn }, transaction: t }))) throw unknownMrn(mrn)
+  throw noOpenReferral(mrn)
 }
 
-/** Whether a change can move the screening: anything but adding a value the screening never reads. */
-function movesScreening(o: ObxReading, changes: Change[]): boolean {
-  if (changes.some((c) => c.kind !== 'result-added')) return true
-  // Preliminary values and values beyond a limit are never screened; nor are tests outside the screening set.
-  return (
-    changes.length > 0 &&
-    o.action !== 'preliminary' &&
-    o.comparator === null &&
-    (SCREENING_ANALYTES as readonly string[]).includes(o.reading.analyte)
-  )
+// The AEs of a group whose results cannot be stored: the same words from both paths (per message, per batch).
+export const unknownMrn = (mrn: string) =>
+  new Hl7Problem('AE', 'unknown-mrn', `no patient has MRN ${mrn}`, '204', { segment: 'PID', field: 3 })
+export const noOpenReferral = (mrn: string) =>
+  new Hl7Problem('AE', 'no-open-referral', `patient ${mrn} has no open episode`, '204', { segment: 'PID', field: 3 })
+
+/** An OBX taken before the patient was born: the whole message is refused. */
+export function takenBeforeBirth(g: OruGroup, dateOfBirth: string): Hl7Problem | null {
+  const early = g.obx.find((o) => o.action !== 'void' && o.reading.takenAt.toISOString().slice(0, 10) < dateOfBirth)
+  return early
+    ? new Hl7Problem('AE', 'bad-date', 'time taken is before the date of birth', '102', { segment: 'OBX', seq: early.seq, field: 14 })
+    : null
 }
+
+/**
+ * TSAT for each sample whose iron, TIBC or transferrin the group brought, and eGFR for each
+ * creatinine it added, appended to `changes` (both paths: per message and per batch). Says whether
+ * a TSAT was derived (it moves the screening).
+ */
+export async function deriveForGroup(
+  g: OruGroup,
+  ids: { referralId: number; patientId: number },
+  patient: Pick<Patient, 'dateOfBirth' | 'sex'>,
+  changes: Change[],
+  t: Transaction,
+): Promise<boolean> {
+  let tsatDerived = false
+  const usable = g.obx.filter((o) => o.action === 'final' || o.action === 'corrected')
+  const samples = new Set(usable.filter((o) => IRON_FAMILY.includes(o.reading.analyte)).map((o) => o.reading.takenAt.getTime()))
+  for (const at of samples) {
+    const tsat = await deriveTsat({ ...ids, takenAt: new Date(at), enteredBy: null }, t)
+    if (tsat) changes.push({ kind: 'derived', resultId: tsat.id, referralId: ids.referralId, analyte: 'tsat' })
+    if (tsat) tsatDerived = true
+  }
+  for (const c of changes.filter((x) => x.analyte === 'creatinine' && x.kind !== 'result-voided')) {
+    const row = await Result.findByPk(c.resultId, { transaction: t })
+    const egfr = row && row.status !== 'preliminary' && !row.comparator ? await deriveEgfr(row, patient, t) : null
+    if (egfr) changes.push({ kind: 'derived', resultId: egfr.id, referralId: ids.referralId, analyte: 'egfr' })
+  }
+  return tsatDerived
+}
+
+/** The analytes from which TSAT is worked out (with the sample's other two). */
+export const IRON_FAMILY: readonly string[] = ['iron', 'tibc', 'transferrin']
 
 /**
  * Stores an ORU^R01's results through the same rules as a typed-in result: the referral row is
@@ -181,9 +164,8 @@ export async function storeOru(
   for (const g of groups) {
     const referral = await openReferral(g.mrn, t)
     const patient = referral.patient
-    const early = g.obx.find((o) => o.action !== 'void' && o.reading.takenAt.toISOString().slice(0, 10) < patient.dateOfBirth)
-    if (early)
-      throw new Hl7Problem('AE', 'bad-date', 'time taken is before the date of birth', '102', { segment: 'OBX', seq: early.seq, field: 14 })
+    const early = takenBeforeBirth(g, patient.dateOfBirth)
+    if (early) throw early
     const before = screeningView(referral, patient.sex)
     const changes: Change[] = []
     let rescreen = false
@@ -194,24 +176,14 @@ export async function storeOru(
         { referralId: referral.id, patientId: patient.id, messageId: ctx.messageId, controlId: ctx.controlId },
         t,
       )
-      rescreen ||= movesScreening(o, done)
+      rescreen ||= movesScreening(
+        o,
+        done.map((c) => c.kind),
+      )
       changes.push(...done)
     }
     if (!changes.length) continue
-    const usable = g.obx.filter((o) => o.action === 'final' || o.action === 'corrected')
-    const samples = new Set(
-      usable.filter((o) => ['iron', 'tibc', 'transferrin'].includes(o.reading.analyte)).map((o) => o.reading.takenAt.getTime()),
-    )
-    for (const at of samples) {
-      const tsat = await deriveTsat({ referralId: referral.id, patientId: patient.id, takenAt: new Date(at), enteredBy: null }, t)
-      if (tsat) changes.push({ kind: 'derived', resultId: tsat.id, referralId: referral.id, analyte: 'tsat' })
-      if (tsat) rescreen = true
-    }
-    for (const c of changes.filter((x) => x.analyte === 'creatinine' && x.kind !== 'result-voided')) {
-      const row = await Result.findByPk(c.resultId, { transaction: t })
-      const egfr = row && row.status !== 'preliminary' && !row.comparator ? await deriveEgfr(row, patient, t) : null
-      if (egfr) changes.push({ kind: 'derived', resultId: egfr.id, referralId: referral.id, analyte: 'egfr' })
-    }
+    if (await deriveForGroup(g, { referralId: referral.id, patientId: patient.id }, patient, changes, t)) rescreen = true
     // The columns just written are the only ones that changed: set them here rather than read the row again.
     if (rescreen) referral.set(await refreshScreening(referral, patient.sex, t), { raw: true })
     await recordAudit(t, ctx.actor, {
