@@ -138,6 +138,28 @@ describe("an admin edits a product's own dosing table", () => {
   }, 60_000)
 })
 
+describe('an admin adds a product after editing another', () => {
+  it("when the admin edits one product, cancels and presses Add, then the new product's form holds none of its caps", async () => {
+    page = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 1000 } })).newPage()
+    await signInThroughPage(page, served.baseUrl, admin.email, admin.password)
+    await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
+    await page.goto(`${served.baseUrl}/admin/formulary`)
+    await page.getByRole('button', { name: 'Edit Ferric carboxymaltose (IV)' }).click()
+    await expect.poll(() => page.locator('#fp-name').inputValue()).toBe('Ferric carboxymaltose (IV)')
+    await dialog().getByRole('button', { name: 'Cancel' }).click()
+    await expect.poll(() => dialog().count()).toBe(0)
+    await page.getByRole('button', { name: 'Add a product' }).click()
+    await expect.poll(() => dialog().textContent()).toMatch(/Add a product/)
+    const filled = await dialog()
+      .locator('input[type="text"], input:not([type]), input[inputmode], textarea')
+      .evaluateAll((els) => els.filter((e) => (e as HTMLInputElement).value !== '').map((e) => `${e.id}=${(e as HTMLInputElement).value}`))
+    expect(filled).toEqual([])
+    expect(await page.locator('#fp-phosphate').isChecked()).toBe(false)
+    await shot('formulary-add-after-edit', dialog())
+    await page.context().close()
+  }, 60_000)
+})
+
 describe('a doctor sees the product table, the timing caution and the small-patient rules on the prescription screen', () => {
   const open = async (id: number) => {
     await page.goto(`${served.baseUrl}/referrals/${id}?tab=clinic`)
