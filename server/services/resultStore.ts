@@ -7,6 +7,7 @@ import { SCREENABLE_WHERE, screenableSql, type ResultSource, type ResultStatus }
 import { clinicTimeZone } from './clinicDay'
 import { refreshScreeningMany } from './screening'
 import { clinical, type Viewer } from './viewer'
+import { rawInTransaction, type RawValue } from './rawTransaction'
 
 /**
  * The one place results are written: typed-in (services/results.ts), CSV and FHIR imports
@@ -53,11 +54,12 @@ export async function insertResults(sequelize: Sequelize, rows: readonly NewResu
   const now = new Date()
   for (let i = 0; i < rows.length; i += chunk) {
     const part = rows.slice(i, i + chunk)
-    await sequelize.query(`INSERT INTO results ${COLUMNS} VALUES ${part.map(() => PLACEHOLDERS).join(', ')}`, {
-      type: QueryTypes.INSERT,
-      replacements: part.flatMap((r) => rowValues(r, now)),
-      transaction: t,
-    })
+    await rawInTransaction(
+      sequelize,
+      t,
+      `INSERT INTO results ${COLUMNS} VALUES ${part.map(() => PLACEHOLDERS).join(', ')}`,
+      part.flatMap((r) => rowValues(r, now)),
+    )
   }
 }
 
@@ -76,7 +78,7 @@ export async function insertResultsReturningIds(sequelize: Sequelize, rows: read
   return out.map((r) => r.id)
 }
 
-function rowValues(r: NewResult, now: Date): unknown[] {
+function rowValues(r: NewResult, now: Date): RawValue[] {
   return [
     r.referralId,
     r.patientId,
@@ -289,23 +291,21 @@ export async function insertEpisodeAudit(
   const at = new Date()
   for (let i = 0; i < rows.length; i += 1000) {
     const part = rows.slice(i, i + 1000)
-    await sequelize.query(
+    await rawInTransaction(
+      sequelize,
+      t,
       `INSERT INTO audit_entries (at, user_id, action, entity, entity_id, patient_id, \`before\`, \`after\`, request_id, ip)
        VALUES ${part.map(() => "(?, ?, ?, 'referral', ?, ?, NULL, ?, ?, ?)").join(', ')}`,
-      {
-        type: QueryTypes.INSERT,
-        transaction: t,
-        replacements: part.flatMap((r) => [
-          at,
-          viewer.userId,
-          action,
-          String(r.referralId),
-          r.patientId,
-          JSON.stringify(r.after),
-          viewer.requestId,
-          viewer.ip,
-        ]),
-      },
+      part.flatMap((r) => [
+        at,
+        viewer.userId,
+        action,
+        String(r.referralId),
+        r.patientId,
+        JSON.stringify(r.after),
+        viewer.requestId,
+        viewer.ip,
+      ]),
     )
   }
 }

@@ -2,6 +2,7 @@ import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { naturalKey, type Checked, type Reading, type SkippedRow } from '../../../shared/imports'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
 import { PREVIEW_KEYS } from './previewKeys'
+import { rawInTransaction } from '../rawTransaction'
 import type { Sex } from '../../../shared/clinical'
 
 /** A row that will be stored: the reading and the episode it belongs to. */
@@ -68,19 +69,17 @@ async function storedKeys(
      FROM k JOIN ${PREVIEW_KEYS} p ON p.referral_id = k.referral_id AND p.analyte = k.analyte AND p.taken_at = k.taken_at
        AND p.value_canonical BETWEEN k.lo AND k.hi`
     : ''
-  const found = await sequelize.query<{ i: number; valueCanonical: number; batchId: number | null }>(
+  const found = await rawInTransaction<{ i: number; valueCanonical: number; batchId: number | null }[]>(
+    sequelize,
+    t,
     `WITH k (i, referral_id, analyte, taken_at, lo, hi) AS (VALUES ${rows.map(() => '(?, ?, ?, ?, ?, ?)').join(', ')})
      SELECT STRAIGHT_JOIN k.i, r.value_canonical AS valueCanonical, r.import_batch_id AS batchId
      FROM k JOIN results r ON r.referral_id = k.referral_id AND r.analyte = k.analyte AND r.taken_at = k.taken_at
        AND r.value_canonical BETWEEN k.lo AND k.hi ${earlierInFile}`,
-    {
-      type: QueryTypes.SELECT,
-      transaction: t,
-      replacements: rows.flatMap((r, i) => {
-        const tol = r.reading.tolerance ?? 0
-        return [i, r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical - tol, r.reading.valueCanonical + tol]
-      }),
-    },
+    rows.flatMap((r, i) => {
+      const tol = r.reading.tolerance ?? 0
+      return [i, r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical - tol, r.reading.valueCanonical + tol]
+    }),
   )
   // Lowest matching value first, whichever table holds it: one order for a preview and its commit.
   found.sort((a, b) => Number(a.i) - Number(b.i) || a.valueCanonical - b.valueCanonical)

@@ -1,5 +1,6 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import type { MatchedRow } from './match'
+import { rawInTransaction } from '../rawTransaction'
 
 /**
  * A preview's accepted rows, by natural key only, in a temporary table of the run's own
@@ -23,11 +24,12 @@ export async function createPreviewKeys(sequelize: Sequelize, t: Transaction): P
 export async function addPreviewKeys(sequelize: Sequelize, rows: readonly MatchedRow[], t: Transaction): Promise<void> {
   for (let i = 0; i < rows.length; i += 1000) {
     const part = rows.slice(i, i + 1000)
-    await sequelize.query(`INSERT INTO ${PREVIEW_KEYS} VALUES ${part.map(() => '(?, ?, ?, ?)').join(', ')}`, {
-      type: QueryTypes.INSERT,
-      transaction: t,
-      replacements: part.flatMap((m) => [m.referralId, m.reading.analyte, m.reading.takenAt, m.reading.valueCanonical]),
-    })
+    await rawInTransaction(
+      sequelize,
+      t,
+      `INSERT INTO ${PREVIEW_KEYS} VALUES ${part.map(() => '(?, ?, ?, ?)').join(', ')}`,
+      part.flatMap((m) => [m.referralId, m.reading.analyte, m.reading.takenAt, m.reading.valueCanonical]),
+    )
   }
 }
 
