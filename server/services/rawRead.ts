@@ -12,6 +12,14 @@ type StatementLog = (sql: string, options?: { rawValues?: Record<string, unknown
 type SequelizeWithOptions = Sequelize & { readonly options: { logging?: boolean | StatementLog } }
 
 /**
+ * A Date as the UTC text MariaDB reads. The driver writes a Date in the process's local time while
+ * the connections run in UTC (db.ts), so a server outside UTC would shift every time it sends.
+ */
+export function utcParam<T>(v: T): T | string {
+  return v instanceof Date ? v.toISOString().slice(0, 23).replace('T', ' ') : v
+}
+
+/**
  * A SELECT sent straight through the mariadb driver on a connection of Sequelize's own pool, for
  * the reads made on every request (the worklist, the session lookup). Sequelize's query path
  * (tokenising the SQL for :name replacements, escaping, result handling) was about a seventh of
@@ -27,7 +35,8 @@ export async function rawSelect<T>(sequelize: Sequelize, sql: string, values: Re
   const conn = (await manager.getConnection({ type: 'read' })) as Connection
   try {
     // The driver's rows array carries a non-enumerable `meta`; callers get a plain array.
-    return Array.from(await conn.query<T[]>({ sql, namedPlaceholders: true }, values))
+    const params = Object.fromEntries(Object.entries(values).map(([k, v]) => [k, utcParam(v)]))
+    return Array.from(await conn.query<T[]>({ sql, namedPlaceholders: true }, params))
   } finally {
     // Typed `void`, but Sequelize's implementation is async: wait for the pool to take it back, as before.
     await manager.releaseConnection(conn)

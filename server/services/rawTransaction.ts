@@ -1,4 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize'
+import { utcParam } from './rawRead'
 
 /** A value the bulk statements send: numbers and strings as they are, dates as UTC. */
 export type RawValue = string | number | Date | null
@@ -37,8 +38,7 @@ export async function rawInTransaction<T = unknown>(
   }
   const log = seq.options.logging
   if (typeof log === 'function') (log as (sql: string, o: { rawValues: unknown }) => void)(sql, { rawValues: values })
-  // The driver writes a Date in the process's local time; the connections run in UTC (db.ts).
-  const params = values.map((v) => (v instanceof Date ? v.toISOString().slice(0, 23).replace('T', ' ') : v))
+  const params = values.map(utcParam)
   const own = t ? null : await seq.connectionManager.getConnection({ type: 'write' })
   const conn = own ?? (t as unknown as { connection: DriverConnection }).connection
   const stack = new Error().stack
