@@ -16,6 +16,7 @@ import { benchReports } from './bench/reports'
 import { benchImports } from './bench/imports'
 import { benchHl7 } from './bench/hl7'
 import { benchPolls } from './bench/polls'
+import { benchSummary } from './bench/summary'
 
 const benchDir = path.resolve(repoRoot, process.env.BENCH_DATA_DIR || '.bench-data')
 const only = process.argv.slice(2)
@@ -34,8 +35,18 @@ async function main(): Promise<void> {
   const dist = path.join(benchDir, 'dist')
   // The browser bench serves the built client, so it builds it too when run on its own.
   if (wants('bundle') || (wants('polls') && !process.env.BENCH_POLL_DIST)) buildClient(dist)
-  if (wants('bundle')) console.log(JSON.stringify(await bundleReport(dist)))
-  if (!['worklist', 'reports', 'imports', 'hl7', 'polls'].some(wants)) return
+  const parts: Parameters<typeof benchSummary>[0] = {}
+  // Each part's line is printed as it finishes; the summary closes the run.
+  const print = <T>(part: keyof typeof parts, result: T): T => {
+    ;(parts as Record<string, unknown>)[part] = result
+    console.log(JSON.stringify(result))
+    return result
+  }
+  if (wants('bundle')) print('bundle', await bundleReport(dist))
+  if (!['worklist', 'reports', 'imports', 'hl7', 'polls'].some(wants)) {
+    console.log(JSON.stringify(benchSummary(parts)))
+    return
+  }
   const stack = await startStack({
     label: 'bench',
     dataDir: benchDir,
@@ -70,11 +81,12 @@ async function main(): Promise<void> {
     })
     if (data.loaded) console.error(`[bench] loaded the bench database in ${((Date.now() - t0) / 1000).toFixed(1)} s`)
     const databasePid = Number(readFileSync(path.join(benchDir, 'mariadb.pid'), 'utf8').trim())
-    if (wants('worklist')) console.log(JSON.stringify(await benchWorklist(env, data.nurseEmail, databasePid)))
-    if (wants('reports')) console.log(JSON.stringify(await benchReports(env, databasePid)))
-    if (wants('imports')) console.log(JSON.stringify(await benchImports(env, data.nurseEmail, benchDir, databasePid)))
-    if (wants('hl7')) console.log(JSON.stringify(await benchHl7(env)))
-    if (wants('polls')) console.log(JSON.stringify(await benchPolls(env, dist)))
+    if (wants('worklist')) print('worklist', await benchWorklist(env, data.nurseEmail, databasePid))
+    if (wants('reports')) print('reports', await benchReports(env, databasePid))
+    if (wants('imports')) print('imports', await benchImports(env, data.nurseEmail, benchDir, databasePid))
+    if (wants('hl7')) print('hl7', await benchHl7(env))
+    if (wants('polls')) print('polls', await benchPolls(env, dist))
+    console.log(JSON.stringify(benchSummary(parts)))
   } finally {
     await stack.stop()
   }

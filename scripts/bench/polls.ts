@@ -19,6 +19,8 @@ interface Tally {
   requests: number
   notModified: number
   bytes: number
+  /** Requests per endpoint, ids replaced by :id and the query left off (which poll makes them). */
+  byPath: Record<string, number>
 }
 
 /** The bench database has nurses and surgeons only; the doctor is added once, with the same password. */
@@ -51,17 +53,21 @@ async function prepareDoctor(env: NodeJS.ProcessEnv): Promise<number> {
 }
 
 function tally(page: Page): { take(): Tally } {
-  let t: Tally = { requests: 0, notModified: 0, bytes: 0 }
+  const empty = (): Tally => ({ requests: 0, notModified: 0, bytes: 0, byPath: {} })
+  let t = empty()
   page.on('response', (res) => {
-    if (!new URL(res.url()).pathname.startsWith('/api/')) return
+    const pathname = new URL(res.url()).pathname
+    if (!pathname.startsWith('/api/')) return
     t.requests += 1
+    const key = pathname.replace(/\/\d+(?=\/|$)/g, '/:id')
+    t.byPath[key] = (t.byPath[key] ?? 0) + 1
     if (res.status() === 304) t.notModified += 1
     t.bytes += Number(res.headers()['content-length'] ?? 0)
   })
   return {
     take: () => {
       const out = t
-      t = { requests: 0, notModified: 0, bytes: 0 }
+      t = empty()
       return out
     },
   }
@@ -104,6 +110,8 @@ async function watch(page: Page, url: string, ready: string) {
     fullAnswersPerMin: perMin(shown.requests - shown.notModified, WATCH_S),
     bodyKBPerMin: +((shown.bytes * 60) / WATCH_S / 1024).toFixed(1),
     hiddenRequestsPerMin: perMin(hidden.requests, HIDDEN_S),
+    // New key: requests per minute by endpoint while shown, to tell which poll makes them.
+    requestsPerMinByPath: Object.fromEntries(Object.entries(shown.byPath).map(([k, n]) => [k, perMin(n, WATCH_S)])),
     refetchedOnReturn: back.requests > 0,
   }
 }
