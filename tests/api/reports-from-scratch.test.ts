@@ -164,6 +164,119 @@ beforeAll(async () => {
         recordedBy: null,
       })
   }
+  // Operated episodes made for the quality report's Hb measures (referred today, so outside the funnel's
+  // period): the first Hb differs from the last one, an Hb just after the surgery day, two Hb at the same
+  // instant (the later id is the later one), voided and preliminary values, and the screening window's edges.
+  const S = '2025-05-20'
+  const hbAt = async (
+    r: { id: number; patientId: number },
+    takenAt: Date,
+    gl: number,
+    kind: 'final' | 'preliminary' | 'voided' = 'final',
+  ) =>
+    Result.create({
+      referralId: r.id,
+      patientId: r.patientId,
+      analyte: 'hb',
+      valueCanonical: gl,
+      unitCanonical: 'g/L',
+      valueReported: gl,
+      unitReported: 'g/L',
+      takenAt,
+      enteredBy: null,
+      derivedFrom: null,
+      status: kind === 'preliminary' ? 'preliminary' : 'final',
+      voidedAt: kind === 'voided' ? at('2025-05-01') : null,
+      voidReason: kind === 'voided' ? 'entered on the wrong episode (test)' : null,
+    })
+  const shaped: [string, 'female' | 'male', [string, string, number, ('final' | 'preliminary' | 'voided')?][]][] = [
+    [
+      'A',
+      'female',
+      [
+        ['2025-04-01', '09:00:00', 140],
+        ['2025-05-10', '09:00:00', 140],
+        ['2025-05-21', '00:00:00', 100],
+      ],
+    ],
+    [
+      'B',
+      'male',
+      [
+        ['2025-04-01', '09:00:00', 100],
+        [S, '23:59:59', 140],
+      ],
+    ],
+    [
+      'C',
+      'female',
+      [
+        ['2025-04-05', '10:00:00', 100],
+        ['2025-04-05', '10:00:00', 140],
+      ],
+    ],
+    [
+      'D',
+      'male',
+      [
+        ['2025-03-01', '09:00:00', 100, 'voided'],
+        ['2025-04-01', '09:00:00', 140],
+        ['2025-05-19', '09:00:00', 100, 'preliminary'],
+      ],
+    ],
+    ['E', 'female', [['2025-04-05', '00:00:00', 100]]],
+    ['F', 'male', [['2025-05-07', '00:00:00', 140]]],
+  ]
+  for (const [label, sex, hbs] of shaped) {
+    const p = await makePatient({ sex })
+    const r = await makeReferral(
+      { patientId: p.id, procedureId: knee.id, surgeonId: s1.id },
+      { stage: 'operated', ironStatus: 'absolute-deficiency' },
+    )
+    for (const [day, time, gl, kind] of hbs) await hbAt({ id: r.id, patientId: p.id }, at(day, time), gl, kind)
+    if (label === 'B') {
+      const rx = await Prescription.create({
+        referralId: r.id,
+        productCode: 'ferric-carboxymaltose',
+        route: 'iv',
+        weightKg: 70,
+        hbGL: 100,
+        targetHbGL: 150,
+        deficitMg: 1000,
+        totalMg: 1000,
+        firstDoseDate: '2025-04-10',
+        plan: { doses: [], warnings: [] },
+        cautions: {} as never,
+        overrideReason: null,
+        status: 'completed',
+        prescribedBy: null,
+        prescribedAt: at('2025-04-08'),
+      })
+      await Administration.create({
+        prescriptionId: rx.id,
+        referralId: r.id,
+        doseMg: 1000,
+        givenAt: at('2025-04-10'),
+        batchNumber: 'SCRATCH',
+        reaction: 'none',
+        reactionNotes: null,
+        givenBy: null,
+      })
+    }
+    await Outcome.create({
+      referralId: r.id,
+      surgeryDate: S,
+      bloodLossMl: 300,
+      unitsTransfusedIntraOp: 0,
+      unitsTransfusedPostOp: 0,
+      unitsCrossmatched: 0,
+      lowestHbGL: 90,
+      dischargeHbGL: null,
+      lengthOfStayDays: 3,
+      complications: ['none'],
+      recordedBy: null,
+    })
+  }
   const a = await makeStaff('admin')
   asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
   asSurgeon = await new Client(t.app).mustSignIn(s1.email, s1.password)
