@@ -15,12 +15,13 @@ import { classifyAnaemia } from '../../../shared/clinical'
 import { getClinicSettings } from '../clinicSettings'
 import { num, pct, round1, select, whereFor, FACTS_ONCE, type ReportFilters } from './filters'
 import { groupedMedian } from './haemoglobin'
-import { EPISODE_FACTS_SQL, PRE_HB_SQL } from './qualitySql'
+import { EPISODE_FACTS_SQL, HB_FLAGS, PRE_HB_SQL } from './qualitySql'
 import { mergeExtras, qualityExtras } from './qualityExtras'
 
-// Anaemia is judged as screening judges it (clinic criteria, strict "<"), as in the transfusion report.
-const ANAEMIC = (col: string) => `(${col} < IF(x.sex = 'male', :maleGL, :femaleGL))`
-const IDA = `(${ANAEMIC('x.firstHbGL')} AND x.ironDeficient)`
+// The Hb facts are bits of x.hbFlags (HB_FLAGS in qualitySql.ts, one lookup per episode); anaemia is judged
+// there as screening judges it (clinic criteria, strict "<"), as in the transfusion report.
+const HB = (bit: number) => `(x.hbFlags & ${bit}) > 0`
+const IDA = `(${HB(1)} AND x.ironDeficient)`
 
 /** Each measure's numerator and denominator as sums over the episode facts. */
 const COUNTS: Record<QualityMeasureId, [string, string]> = {
@@ -32,9 +33,9 @@ const COUNTS: Record<QualityMeasureId, [string, string]> = {
     'x.anyTransfusions > 0 AND (COALESCE(x.infoOnRecord, 0) = 1 OR x.infoOnTransfusion = 1)',
     'x.anyTransfusions > 0',
   ],
-  'screened-28-days-before': ['x.firstHbAt IS NOT NULL AND DATEDIFF(x.surgeryDate, x.firstHbAt) >= 28', '1'],
-  'screened-in-window-14-45': ['x.screenedInWindow', '1'],
-  'anaemic-on-day-of-surgery': [ANAEMIC('x.surgeryDayHbGL'), 'x.surgeryDayHbGL IS NOT NULL'],
+  'screened-28-days-before': [HB(8), '1'],
+  'screened-in-window-14-45': [HB(16), '1'],
+  'anaemic-on-day-of-surgery': [HB(4), HB(2)],
   transfused: ['x.rbcUnits > 0', '1'],
   'single-unit-red-cell-transfusions': ['x.rbcSingle', 'x.rbcRows'],
   'postponed-for-anaemia': ['x.postponementsForAnaemia > 0', '1'],
@@ -46,7 +47,7 @@ const COUNTS: Record<QualityMeasureId, [string, string]> = {
 const SQL = (where: string) => `${FACTS_ONCE}
 SELECT x.procedureId, x.surgeonId, x.month, COUNT(*) AS operated, SUM(x.rbcUnits) AS rbcUnits,
   ${QUALITY_MEASURE_IDS.map((id, i) => `SUM(${COUNTS[id][0]}) AS n${i}, SUM(${COUNTS[id][1]}) AS d${i}`).join(',\n  ')}
-FROM (${EPISODE_FACTS_SQL(where)}) x
+FROM (${EPISODE_FACTS_SQL(where, HB_FLAGS)}) x
 GROUP BY x.procedureId, x.surgeonId, x.month`
 
 const NAMES_SQL = `SELECT 'p' AS kind, id, code AS groupKey, name FROM procedures WHERE id IN (:procedureIds)

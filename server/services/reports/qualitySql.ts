@@ -3,20 +3,8 @@ import { finalSql } from '../../models/result'
 // Voided and preliminary Hb values do not count in any figure.
 const COUNTED = finalSql('h')
 
-/**
- * One row per operated episode in the period with every fact a quality measure needs. Each
- * lookup is an indexed probe per episode; the transfusion facts come from one grouped pass.
- * Shared by the quality report (grouped) and the national-audit export (row by row).
- */
-export const EPISODE_FACTS_SQL = (where: string) => `
-SELECT r.id, r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, p.code AS procedureCode, pt.sex, pt.date_of_birth AS dateOfBirth,
-  r.created_at AS referredAt, r.listing_date AS listingDate, r.planned_surgery_date AS plannedSurgeryDate, o.surgery_date AS surgeryDate,
-  DATE_FORMAT(o.surgery_date, '%Y-%m') AS month,
-  p.expected_blood_loss_ml AS expectedLossMl, o.blood_loss_ml AS bloodLossMl, o.units_crossmatched AS unitsCrossmatched,
-  o.length_of_stay_days AS lengthOfStayDays,
-  (p.expected_blood_loss_ml IS NOT NULL AND p.expected_blood_loss_ml >= :txaLossMl) AS moderateLoss,
-  o.tranexamic_acid_given AS txaGiven, o.cell_salvage_used AS cellSalvageUsed, o.cell_salvage_returned_ml AS cellSalvageMl,
-  o.transfusion_information_given AS infoOnRecord, o.transfusion_consent AS consent, o.post_operative_iron_given AS postOpIron,
+/** The Hb facts as values (the national-audit export prints them): four indexed lookups per episode. */
+export const HB_VALUES = `
   (SELECT MIN(h.taken_at) FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}) AS firstHbAt,
   (SELECT h.value_canonical FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED} ORDER BY h.taken_at,
     h.id LIMIT 1) AS firstHbGL,
@@ -25,7 +13,42 @@ SELECT r.id, r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, p.code AS
      ORDER BY h.taken_at DESC, h.id DESC LIMIT 1) AS surgeryDayHbGL,
   EXISTS (SELECT 1 FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}
      AND h.taken_at >= DATE_SUB(o.surgery_date, INTERVAL 45 DAY) AND h.taken_at < DATE_SUB(o.surgery_date, INTERVAL 13 DAY)) AS
-       screenedInWindow,
+       screenedInWindow`
+
+/**
+ * The Hb facts the quality measures need, as bits of one number from ONE lookup per episode (issue #19:
+ * each lookup is an index descent, and the four of HB_VALUES were about half of the quality statement's
+ * MariaDB CPU). Each counted Hb gets a key that sorts as (taken_at, id) do, with its anaemia verdict
+ * (clinic thresholds :maleGL / :femaleGL, strict "<") in the last bit, so MIN
+ * and MAX of the key carry the verdict of the first Hb and of the last one on or before the surgery day.
+ * Bits: 1 first Hb anaemic, 2 an Hb on or before the surgery day, 4 the last of those anaemic,
+ * 8 an Hb 28 days or more before surgery (the first Hb is, exactly when any is), 16 an Hb 14 to 45 days before.
+ * 0 when the episode has no counted Hb. Needs the patient as pt and the outcome as o.
+ */
+const HB_KEY = `((CAST(TO_SECONDS(h.taken_at) AS DECIMAL(20)) * 4294967296 + h.id) * 2 + (h.value_canonical < IF(pt.sex = 'male', :maleGL,
+  :femaleGL)))`
+export const HB_FLAGS = `COALESCE((SELECT MOD(MIN(${HB_KEY}), 2)
+    + 2 * MAX(h.taken_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY))
+    + 4 * COALESCE(MOD(MAX(IF(h.taken_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY), ${HB_KEY}, NULL)), 2), 0)
+    + 8 * MAX(DATEDIFF(o.surgery_date, h.taken_at) >= 28)
+    + 16 * MAX(h.taken_at >= DATE_SUB(o.surgery_date, INTERVAL 45 DAY) AND h.taken_at < DATE_SUB(o.surgery_date, INTERVAL 13 DAY))
+  FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}), 0) AS hbFlags`
+
+/**
+ * One row per operated episode in the period with every fact a quality measure needs. Each
+ * lookup is an indexed probe per episode; the transfusion facts come from one grouped pass.
+ * Shared by the quality report (grouped) and the national-audit export (row by row).
+ */
+export const EPISODE_FACTS_SQL = (where: string, hb: string = HB_VALUES) => `
+SELECT r.id, r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, p.code AS procedureCode, pt.sex, pt.date_of_birth AS dateOfBirth,
+  r.created_at AS referredAt, r.listing_date AS listingDate, r.planned_surgery_date AS plannedSurgeryDate, o.surgery_date AS surgeryDate,
+  DATE_FORMAT(o.surgery_date, '%Y-%m') AS month,
+  p.expected_blood_loss_ml AS expectedLossMl, o.blood_loss_ml AS bloodLossMl, o.units_crossmatched AS unitsCrossmatched,
+  o.length_of_stay_days AS lengthOfStayDays,
+  (p.expected_blood_loss_ml IS NOT NULL AND p.expected_blood_loss_ml >= :txaLossMl) AS moderateLoss,
+  o.tranexamic_acid_given AS txaGiven, o.cell_salvage_used AS cellSalvageUsed, o.cell_salvage_returned_ml AS cellSalvageMl,
+  o.transfusion_information_given AS infoOnRecord, o.transfusion_consent AS consent, o.post_operative_iron_given AS postOpIron,
+  ${hb.trim()},
   (r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id =
     r.id)) AS ironDeficient,
   EXISTS (SELECT 1 FROM administrations a WHERE a.referral_id = r.id AND a.given_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY))
