@@ -10,7 +10,9 @@ export interface BenchServer {
 }
 
 /** `staticDir`: a built client to serve as well (the browser benches); none by default. */
-export async function startBenchServer(env: NodeJS.ProcessEnv, port: number, staticDir = ''): Promise<BenchServer> {
+export async function startBenchServer(env: NodeJS.ProcessEnv, fixedPort: number, staticDir = ''): Promise<BenchServer> {
+  // BENCH_PORT_OFFSET moves the fixed ports, so two benches on one machine do not collide.
+  const port = fixedPort + Number(env.BENCH_PORT_OFFSET || 0)
   const url = `http://127.0.0.1:${port}`
   // The compiled server as production runs it (BENCH_SERVER_ENTRY, set by bench.ts), or with
   // BENCH_SERVER=tsx the TypeScript under `node --import tsx` (not the tsx CLI, so the pid
