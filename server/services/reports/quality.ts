@@ -15,7 +15,7 @@ import { classifyAnaemia } from '../../../shared/clinical'
 import { getClinicSettings } from '../clinicSettings'
 import { num, pct, round1, select, whereFor, FACTS_ONCE, type ReportFilters } from './filters'
 import { groupedMedian } from './haemoglobin'
-import { EPISODE_FACTS_SQL, HB_FLAGS, PRE_HB_SQL } from './qualitySql'
+import { QUALITY_FACTS_SQL, PRE_HB_SQL } from './qualitySql'
 import { mergeExtras, qualityExtras } from './qualityExtras'
 
 // The Hb facts are bits of x.hbFlags (HB_FLAGS in qualitySql.ts, one lookup per episode); anaemia is judged
@@ -39,15 +39,17 @@ const COUNTS: Record<QualityMeasureId, [string, string]> = {
   transfused: ['x.rbcUnits > 0', '1'],
   'single-unit-red-cell-transfusions': ['x.rbcSingle', 'x.rbcRows'],
   'postponed-for-anaemia': ['x.postponementsForAnaemia > 0', '1'],
-  // Counted by their own query (qualityExtras.ts) and added to the groups below.
-  'cancelled-for-anaemia': ['0', '0'],
-  'crossmatch-against-schedule': ['0', '0'],
+  // Every operated episode is a planned operation that went ahead; the cancelled ones are counted by their own
+  // query (qualityExtras.ts) and added to the groups below.
+  'cancelled-for-anaemia': ['0', '1'],
+  // Positive red-cell antibodies need a crossmatch whatever the schedule says: those episodes leave the denominator.
+  'crossmatch-against-schedule': ['x.groupAndScreenOnly AND x.crossmatched', 'x.groupAndScreenOnly'],
 }
 
 const SQL = (where: string) => `${FACTS_ONCE}
 SELECT x.procedureId, x.surgeonId, x.month, COUNT(*) AS operated, SUM(x.rbcUnits) AS rbcUnits,
   ${QUALITY_MEASURE_IDS.map((id, i) => `SUM(${COUNTS[id][0]}) AS n${i}, SUM(${COUNTS[id][1]}) AS d${i}`).join(',\n  ')}
-FROM (${EPISODE_FACTS_SQL(where, HB_FLAGS)}) x
+FROM (${QUALITY_FACTS_SQL(where)}) x
 GROUP BY x.procedureId, x.surgeonId, x.month`
 
 const NAMES_SQL = `SELECT 'p' AS kind, id, code AS groupKey, name FROM procedures WHERE id IN (:procedureIds)

@@ -2,10 +2,11 @@ import type { Sequelize } from 'sequelize'
 import { num, select, type ReportFilters } from './filters'
 
 /**
- * The two measures that are not counted from the operated-episode facts: cancellations (an
- * operation that was cancelled may never have happened) and the blood order against the
- * schedule. Kept apart from the main quality SQL so each can change without the other.
- * Grouped by operation, surgeon and month like the main query, so breakdowns and trend add up.
+ * The cancelled planned operations, for the measures whose events are not only operated episodes (an
+ * operation that was cancelled may never have happened). The operated episodes' share of those two
+ * measures (the cancellation measure's denominator, the blood order against the schedule) is counted
+ * with the other episode facts (quality.ts). Grouped by operation, surgeon and month like the main query,
+ * so breakdowns and trend add up.
  */
 export const EXTRA_MEASURE_IDS = ['cancelled-for-anaemia', 'crossmatch-against-schedule'] as const
 export type ExtraMeasureId = (typeof EXTRA_MEASURE_IDS)[number]
@@ -15,21 +16,13 @@ const FILTERS = (f: ReportFilters) =>
     .map((s) => ` AND ${s}`)
     .join('')
 
-// Events: a planned operation date that ended in surgery (the operative record's date) or in a
-// recorded cancellation (the cancelled date). Positive red-cell antibodies need a crossmatch
-// whatever the schedule says, so those episodes leave the schedule measure's denominator.
+// Events: a planned operation date that ended in a recorded cancellation (the cancelled date).
 const SQL = (f: ReportFilters) => `
-SELECT e.procedureId, e.surgeonId, e.month, SUM(e.cn) AS cn, SUM(e.cd) AS cd, SUM(e.xn) AS xn, SUM(e.xd) AS xd FROM (
-  SELECT r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, DATE_FORMAT(o.surgery_date, '%Y-%m') AS month, 0 AS cn, 1 AS cd,
-    (p.usual_blood_order = 'group-and-screen' AND COALESCE(r.red_cell_antibodies, 0) = 0 AND o.units_crossmatched > 0) AS xn,
-    (p.usual_blood_order = 'group-and-screen' AND COALESCE(r.red_cell_antibodies, 0) = 0) AS xd
-  FROM outcomes o JOIN referrals r ON r.id = o.referral_id JOIN procedures p ON p.id = r.procedure_id
-  WHERE o.surgery_date >= :from AND o.surgery_date <= :to${FILTERS(f)}
-  UNION ALL
-  SELECT r.procedure_id, r.surgeon_id, DATE_FORMAT(c.from_date, '%Y-%m'), (c.reason = 'anaemia'), 1, 0, 0
-  FROM surgery_date_changes c JOIN referrals r ON r.id = c.referral_id JOIN procedures p ON p.id = r.procedure_id
-  WHERE c.kind = 'cancelled' AND c.from_date >= :from AND c.from_date <= :to${FILTERS(f)}
-) e GROUP BY e.procedureId, e.surgeonId, e.month`
+SELECT r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, DATE_FORMAT(c.from_date, '%Y-%m') AS month,
+  SUM(c.reason = 'anaemia') AS cn, COUNT(*) AS cd, 0 AS xn, 0 AS xd
+FROM surgery_date_changes c JOIN referrals r ON r.id = c.referral_id JOIN procedures p ON p.id = r.procedure_id
+WHERE c.kind = 'cancelled' AND c.from_date >= :from AND c.from_date <= :to${FILTERS(f)}
+GROUP BY r.procedure_id, r.surgeon_id, DATE_FORMAT(c.from_date, '%Y-%m')`
 
 export interface ExtraGroup {
   procedureId: number

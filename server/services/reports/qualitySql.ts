@@ -34,30 +34,18 @@ export const HB_FLAGS = `COALESCE((SELECT MOD(MIN(${HB_KEY}), 2)
     + 16 * MAX(h.taken_at >= DATE_SUB(o.surgery_date, INTERVAL 45 DAY) AND h.taken_at < DATE_SUB(o.surgery_date, INTERVAL 13 DAY))
   FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}), 0) AS hbFlags`
 
-/**
- * One row per operated episode in the period with every fact a quality measure needs. Each
- * lookup is an indexed probe per episode; the transfusion facts come from one grouped pass.
- * Shared by the quality report (grouped) and the national-audit export (row by row).
- */
-export const EPISODE_FACTS_SQL = (where: string, hb: string = HB_VALUES) => `
-SELECT r.id, r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, p.code AS procedureCode, pt.sex, pt.date_of_birth AS dateOfBirth,
-  r.created_at AS referredAt, r.listing_date AS listingDate, r.planned_surgery_date AS plannedSurgeryDate, o.surgery_date AS surgeryDate,
-  DATE_FORMAT(o.surgery_date, '%Y-%m') AS month,
-  p.expected_blood_loss_ml AS expectedLossMl, o.blood_loss_ml AS bloodLossMl, o.units_crossmatched AS unitsCrossmatched,
-  o.length_of_stay_days AS lengthOfStayDays,
-  (p.expected_blood_loss_ml IS NOT NULL AND p.expected_blood_loss_ml >= :txaLossMl) AS moderateLoss,
-  o.tranexamic_acid_given AS txaGiven, o.cell_salvage_used AS cellSalvageUsed, o.cell_salvage_returned_ml AS cellSalvageMl,
-  o.transfusion_information_given AS infoOnRecord, o.transfusion_consent AS consent, o.post_operative_iron_given AS postOpIron,
-  ${hb.trim()},
-  (r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id =
-    r.id)) AS ironDeficient,
+// Per-episode lookups both readers need (each an indexed probe per episode).
+const LOOKUPS = `(r.iron_status IN ('absolute-deficiency', 'iron-restricted')
+    OR EXISTS (SELECT 1 FROM prescriptions rx WHERE rx.referral_id = r.id)) AS ironDeficient,
   EXISTS (SELECT 1 FROM administrations a WHERE a.referral_id = r.id AND a.given_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY))
     AS ironBefore,
   (SELECT COUNT(*) FROM surgery_date_changes c WHERE c.referral_id = r.id AND c.reason = 'anaemia') AS postponementsForAnaemia,
   COALESCE(tx.rbcRows, 0) AS rbcRows, COALESCE(tx.rbcUnits, 0) AS rbcUnits, COALESCE(tx.rbcSingle, 0) AS rbcSingle,
-  COALESCE(tx.rbcReassessed, 0) AS rbcReassessed, COALESCE(tx.anyRows, 0) AS anyTransfusions, COALESCE(tx.info, 0) AS infoOnTransfusion,
-  COALESCE(tx.otherUnits, 0) AS otherUnits, tx.lowestPreHbGL
-FROM outcomes o JOIN referrals r ON r.id = o.referral_id JOIN procedures p ON p.id = r.procedure_id JOIN patients pt ON pt.id = r.patient_id
+  COALESCE(tx.rbcReassessed, 0) AS rbcReassessed, COALESCE(tx.anyRows, 0) AS anyTransfusions, COALESCE(tx.info, 0) AS infoOnTransfusion`
+
+// The operated episodes with their referral, operation and patient, and the transfusion facts from one grouped pass.
+const EPISODES = `FROM outcomes o JOIN referrals r ON r.id = o.referral_id JOIN procedures p ON p.id = r.procedure_id
+JOIN patients pt ON pt.id = r.patient_id
 LEFT JOIN (
   SELECT t.referral_id,
     SUM(t.component = 'red-cells') AS rbcRows,
@@ -69,7 +57,41 @@ LEFT JOIN (
     MIN(IF(t.component = 'red-cells', t.pre_transfusion_hb_gl, NULL)) AS lowestPreHbGL,
     COUNT(*) AS anyRows, MAX(t.information_given) AS info
   FROM transfusions t WHERE t.voided_at IS NULL GROUP BY t.referral_id
-) tx ON tx.referral_id = r.id
+) tx ON tx.referral_id = r.id`
+
+/**
+ * One row per operated episode in the period with every fact the national-audit export prints
+ * (row by row).
+ */
+export const EPISODE_FACTS_SQL = (where: string) => `
+SELECT r.id, r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, p.code AS procedureCode, pt.sex, pt.date_of_birth AS dateOfBirth,
+  r.created_at AS referredAt, r.listing_date AS listingDate, r.planned_surgery_date AS plannedSurgeryDate, o.surgery_date AS surgeryDate,
+  DATE_FORMAT(o.surgery_date, '%Y-%m') AS month,
+  p.expected_blood_loss_ml AS expectedLossMl, o.blood_loss_ml AS bloodLossMl, o.units_crossmatched AS unitsCrossmatched,
+  o.length_of_stay_days AS lengthOfStayDays,
+  (p.expected_blood_loss_ml IS NOT NULL AND p.expected_blood_loss_ml >= :txaLossMl) AS moderateLoss,
+  o.tranexamic_acid_given AS txaGiven, o.cell_salvage_used AS cellSalvageUsed, o.cell_salvage_returned_ml AS cellSalvageMl,
+  o.transfusion_information_given AS infoOnRecord, o.transfusion_consent AS consent, o.post_operative_iron_given AS postOpIron,
+  ${HB_VALUES.trim()},
+  ${LOOKUPS},
+  COALESCE(tx.otherUnits, 0) AS otherUnits, tx.lowestPreHbGL
+${EPISODES}
+WHERE ${where}`
+
+/**
+ * The same episodes with only what the quality report's grouping reads (issue #19: every column is
+ * written to the materialized derived table), the Hb facts as HB_FLAGS bits, and the blood-order
+ * schedule facts that a second pass over the same episodes used to count (qualityExtras.ts).
+ */
+export const QUALITY_FACTS_SQL = (where: string) => `
+SELECT r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, DATE_FORMAT(o.surgery_date, '%Y-%m') AS month,
+  (p.expected_blood_loss_ml IS NOT NULL AND p.expected_blood_loss_ml >= :txaLossMl) AS moderateLoss,
+  o.tranexamic_acid_given AS txaGiven, o.transfusion_information_given AS infoOnRecord, o.post_operative_iron_given AS postOpIron,
+  (p.usual_blood_order = 'group-and-screen' AND COALESCE(r.red_cell_antibodies, 0) = 0) AS groupAndScreenOnly,
+  o.units_crossmatched > 0 AS crossmatched,
+  ${HB_FLAGS.trim()},
+  ${LOOKUPS}
+${EPISODES}
 WHERE ${where}`
 
 /** Pre-transfusion Hb values of the period's red-cell transfusions, grouped for the median. */
