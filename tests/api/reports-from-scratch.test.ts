@@ -4,9 +4,18 @@ import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
-import { Administration, Outcome, Patient, Prescription, Referral, Result, StageTransition } from '../../server/models/index'
+import {
+  Administration,
+  ClinicSettingsRow,
+  Outcome,
+  Patient,
+  Prescription,
+  Referral,
+  Result,
+  StageTransition,
+} from '../../server/models/index'
 import { STAGES } from '../../shared/pathway'
-import { classifyAnaemia } from '../../shared/clinical'
+import { classifyAnaemia, type AnaemiaCriteria } from '../../shared/clinical'
 import { DEFAULT_CLINIC_SETTINGS } from '../../shared/clinic/settings'
 
 /**
@@ -431,7 +440,10 @@ describe('funnel and waiting times against a count from scratch', () => {
  * last one on or before the surgery day, judged with the clinic's thresholds (the default settings:
  * the fixture changes none), for the operated episodes whose surgery date is in the period.
  */
-async function expectedQuality(filter: { surgeonId?: number; procedureCode?: string }) {
+async function expectedQuality(
+  filter: { surgeonId?: number; procedureCode?: string },
+  criteria: AnaemiaCriteria = DEFAULT_CLINIC_SETTINGS.anaemiaCriteria,
+) {
   const [referrals, patients, results, prescriptions, doses, outcomes] = await Promise.all([
     Referral.findAll({ include: ['procedure'] }),
     Patient.findAll(),
@@ -440,8 +452,7 @@ async function expectedQuality(filter: { surgeonId?: number; procedureCode?: str
     Administration.findAll(),
     Outcome.findAll(),
   ])
-  const threshold = (sex: string) =>
-    classifyAnaemia({ hbGL: 100, sex: sex === 'male' ? 'male' : 'female', criteria: DEFAULT_CLINIC_SETTINGS.anaemiaCriteria }).thresholdGL
+  const threshold = (sex: string) => classifyAnaemia({ hbGL: 100, sex: sex === 'male' ? 'male' : 'female', criteria }).thresholdGL
   const tally = { iron: [0, 0], screened28: [0, 0], window: [0, 0], dayOfSurgery: [0, 0] }
   for (const o of outcomes) {
     const surgery = String(o.surgeryDate)
@@ -501,6 +512,62 @@ describe('quality measures built on Hb against a count from scratch', () => {
     if (Object.keys(o).length === 0) {
       expect(Object.values(expected).every(([n]) => n! > 0)).toBe(true)
       expect(Object.values(expected).filter(([n, d]) => d! > n!).length).toBeGreaterThanOrEqual(2)
+    }
+  })
+})
+
+// The report reads the patient's sex only when the clinic's thresholds differ by sex (the default criteria
+// judge both alike, so the cases above never read it): the WHO criteria, against the same count from scratch.
+describe('quality measures built on Hb with thresholds that differ by sex', () => {
+  it('when the clinic uses the WHO criteria, then each Hb measure is the count from scratch with those thresholds', async () => {
+    // A woman whose only Hb (125 g/L) is anaemic by the surgical consensus (130 for both) but not by WHO's 120 for women.
+    const p = await makePatient({ sex: 'female' })
+    const r = await makeReferral(
+      { patientId: p.id, procedureId: (await makeProcedure({ code: 'SCRWHO' })).id, surgeonId: s1.id },
+      { stage: 'operated', ironStatus: 'absolute-deficiency' },
+    )
+    await Result.create({
+      referralId: r.id,
+      patientId: p.id,
+      analyte: 'hb',
+      valueCanonical: 125,
+      unitCanonical: 'g/L',
+      valueReported: 125,
+      unitReported: 'g/L',
+      takenAt: at('2025-04-10'),
+      enteredBy: null,
+      derivedFrom: null,
+      status: 'final',
+      voidedAt: null,
+      voidReason: null,
+    })
+    await Outcome.create({
+      referralId: r.id,
+      surgeryDate: '2025-05-20',
+      bloodLossMl: 300,
+      unitsTransfusedIntraOp: 0,
+      unitsTransfusedPostOp: 0,
+      unitsCrossmatched: 0,
+      lowestHbGL: 90,
+      dischargeHbGL: null,
+      lengthOfStayDays: 3,
+      complications: ['none'],
+      recordedBy: null,
+    })
+    await ClinicSettingsRow.upsert({ id: 1, values: { anaemiaCriteria: 'who' }, updatedBy: null, updatedAt: new Date() })
+    try {
+      const res = await asAdmin.get(`/api/reports/quality?from=${FROM}&to=${TO}`)
+      expect(res.status, JSON.stringify(res.body)).toBe(200)
+      const expected = await expectedQuality({}, 'who')
+      const measures = res.body.measures as { id: string; numerator: number; denominator: number }[]
+      const got = Object.fromEntries(
+        Object.keys(expected).map((id) => [id, measures.filter((m) => m.id === id).map((m) => [m.numerator, m.denominator])[0]]),
+      )
+      expect(got).toEqual(expected)
+      // The fixture must hold Hb values that the two criteria judge differently, or this case proves nothing.
+      expect(expected).not.toEqual(await expectedQuality({}, 'surgical'))
+    } finally {
+      await ClinicSettingsRow.destroy({ where: { id: 1 } })
     }
   })
 })

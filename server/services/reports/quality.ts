@@ -46,10 +46,10 @@ const COUNTS: Record<QualityMeasureId, [string, string]> = {
   'crossmatch-against-schedule': ['x.groupAndScreenOnly AND x.crossmatched', 'x.groupAndScreenOnly'],
 }
 
-const SQL = (where: string) => `${FACTS_ONCE}
+const SQL = (where: string, sameThresholdForBoth: boolean) => `${FACTS_ONCE}
 SELECT x.procedureId, x.surgeonId, x.month, COUNT(*) AS operated, SUM(x.rbcUnits) AS rbcUnits,
   ${QUALITY_MEASURE_IDS.map((id, i) => `SUM(${COUNTS[id][0]}) AS n${i}, SUM(${COUNTS[id][1]}) AS d${i}`).join(',\n  ')}
-FROM (${QUALITY_FACTS_SQL(where)}) x
+FROM (${QUALITY_FACTS_SQL(where, sameThresholdForBoth)}) x
 GROUP BY x.procedureId, x.surgeonId, x.month`
 
 const NAMES_SQL = `SELECT 'p' AS kind, id, code AS groupKey, name FROM procedures WHERE id IN (:procedureIds)
@@ -101,11 +101,13 @@ export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Pro
   const settings = await getClinicSettings()
   const threshold = (sex: 'male' | 'female') => classifyAnaemia({ hbGL: 100, sex, criteria: settings.anaemiaCriteria }).thresholdGL
   const w = whereFor(f, 'surgery')
-  const replacements = { ...w.replacements, maleGL: threshold('male'), femaleGL: threshold('female'), txaLossMl: TXA_EXPECTED_LOSS_ML }
+  const [maleGL, femaleGL] = [threshold('male'), threshold('female')]
+  const sameForBoth = maleGL === femaleGL
+  const replacements = { ...w.replacements, maleGL, femaleGL, txaLossMl: TXA_EXPECTED_LOSS_ML }
   const [shares, preHb, extras] = await Promise.all([
     Promise.all(
       Array.from({ length: SHARES }, (_, i) =>
-        select<Record<string, unknown>>(sequelize, SQL(`${w.sql} AND MOD(o.referral_id, ${SHARES}) = ${i}`), replacements),
+        select<Record<string, unknown>>(sequelize, SQL(`${w.sql} AND MOD(o.referral_id, ${SHARES}) = ${i}`, sameForBoth), replacements),
       ),
     ),
     select<{ value: unknown; n: unknown }>(sequelize, PRE_HB_SQL(w.sql), w.replacements),
