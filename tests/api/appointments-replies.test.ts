@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
+import { makeTestApp, type TestApp } from '../helpers/app'
+import type { Client } from '../helpers/agent'
 import { Maildev } from '../helpers/mail'
-import { at, bookingFixture, replyTokenIn, summerDay, type BookingFixture } from '../helpers/appointmentFactories'
+import { at, bookedAppointment, replyTokenIn, summerDay, type BookingFixture } from '../helpers/appointmentFactories'
 import { drainOutbox } from '../../server/services/outboxWorker'
 import { hashReplyToken } from '../../server/services/appointmentTokens'
 import { Appointment, AppointmentEvent, AppointmentReplyToken, AppointmentTask } from '../../server/models/index'
@@ -22,23 +22,12 @@ afterAll(async () => {
   await t.close()
 })
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  await mail.clear()
-  f = await bookingFixture({ givenName: 'Linnet' })
-  nurse = await new Client(t.app).mustSignIn(f.nurse.email, f.nurse.password)
-  const res = await nurse.post('/api/appointments', {
-    referralId: f.referralId,
-    kind: 'anaemia-clinic',
-    startsAt: at(summerDay(), '10:00'),
-    durationMin: 30,
-    location: 'Anaemia Clinic, Outpatients B',
-  })
-  appointmentId = res.body.appointment.id
-  await drainOutbox({ sequelize: t.sequelize, config: t.config })
+  const b = await bookedAppointment(t, mail, { givenName: 'Linnet', location: 'Anaemia Clinic, Outpatients B' })
+  f = b.f
+  nurse = b.nurse
+  appointmentId = b.appointmentId
+  patient = b.patient
   token = replyTokenIn((await mail.to(f.email))[0]!)
-  // The patient has no account: only the CSRF token of an anonymous session.
-  patient = new Client(t.app)
-  await patient.fetchCsrf()
 })
 
 const status = async () => (await Appointment.findByPk(appointmentId, { raw: true }))!.status

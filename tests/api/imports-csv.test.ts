@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
-import { makeStaff, type StaffFixture } from '../helpers/factories'
-import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
-import { csv, HEADER, takenHoursAgo, uploadCsv } from '../helpers/importFixtures'
+import { makeTestApp, type TestApp } from '../helpers/app'
+import type { Client } from '../helpers/agent'
+import type { StaffFixture } from '../helpers/factories'
+import { makePatient, makeReferral } from '../helpers/pathwayFactories'
+import { csv, HEADER, importSetUp, takenHoursAgo, uploadCsv } from '../helpers/importFixtures'
 import { ImportBatch, Referral, Result } from '../../server/models/index'
 import { addDays, todayIso } from '../../shared/pathway'
 
@@ -19,18 +19,13 @@ afterAll(async () => {
   await t.close()
 })
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  nurse = await makeStaff('nurse')
-  const surgeon = await makeStaff('surgeon')
-  const procedureId = (await makeProcedure()).id
-  const a = await makePatient({ mrn: 'IMP0001', sex: 'female' })
   // Surgery in 10 days: an anaemic result should raise "surgery soon, still anaemic" (28-day window).
-  openReferralId = (
-    await makeReferral({ patientId: a.id, procedureId, surgeonId: surgeon.id }, { plannedSurgeryDate: addDays(todayIso(), 10) })
-  ).id
+  const ready = await importSetUp(t, 'IMP0001', { plannedSurgeryDate: addDays(todayIso(), 10) })
+  c = ready.c
+  nurse = ready.nurse
+  openReferralId = ready.referralId
   const b = await makePatient({ mrn: 'IMP0002' })
-  await makeReferral({ patientId: b.id, procedureId, surgeonId: surgeon.id }, { stage: 'closed' })
-  c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
+  await makeReferral({ patientId: b.id, procedureId: ready.procedureId, surgeonId: ready.surgeonId }, { stage: 'closed' })
 })
 
 /** One row for every reason a row is skipped, beside two good rows (file rows 2 and 3). */

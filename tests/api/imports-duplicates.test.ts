@@ -1,9 +1,7 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
-import { Client } from '../helpers/agent'
-import { makeStaff } from '../helpers/factories'
-import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
-import { csv, HEADER, takenHoursAgo, uploadCsv } from '../helpers/importFixtures'
+import { makeTestApp, type TestApp } from '../helpers/app'
+import type { Client } from '../helpers/agent'
+import { csv, HEADER, importSetUp, takenHoursAgo, uploadCsv } from '../helpers/importFixtures'
 import { Result } from '../../server/models/index'
 
 /**
@@ -22,15 +20,12 @@ afterAll(async () => {
   await t.close()
 })
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  const nurse = await makeStaff('nurse')
-  const surgeon = await makeStaff('surgeon')
-  const procedureId = (await makeProcedure()).id
-  const p = await makePatient({ mrn: 'DUP0001', sex: 'female' })
-  referralId = (await makeReferral({ patientId: p.id, procedureId, surgeonId: surgeon.id })).id
+  const ready = await importSetUp(t, 'DUP0001')
+  c = ready.c
+  referralId = ready.referralId
   const base = {
     referralId,
-    patientId: p.id,
+    patientId: ready.patientId,
     takenAt: new Date(T1),
     valueReported: null,
     unitReported: null,
@@ -43,7 +38,6 @@ beforeEach(async () => {
   await Result.create({ ...base, analyte: 'iron', unitCanonical: 'µmol/L', valueCanonical: 17.9 })
   await Result.create({ ...base, analyte: 'hb', unitCanonical: 'g/L', valueCanonical: 110, voidedAt: new Date(), voidReason: 'deleted' })
   await Result.create({ ...base, analyte: 'ferritin', unitCanonical: 'µg/L', valueCanonical: 30, status: 'preliminary' })
-  c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
 })
 
 // File rows 2..7. 100 µg/dL of iron is 17.91 µmol/L (× 0.1791, clinical reference §7): within the

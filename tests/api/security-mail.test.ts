@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
+import { makeTestApp, type TestApp } from '../helpers/app'
 import { Client } from '../helpers/agent'
 import { Maildev } from '../helpers/mail'
-import { at, bookingFixture, replyTokenIn, summerDay, type BookingFixture } from '../helpers/appointmentFactories'
-import { drainOutbox } from '../../server/services/outboxWorker'
+import { bookedAppointment, replyTokenIn, type BookingFixture } from '../helpers/appointmentFactories'
 import { createMailTransport } from '../../server/mail/transport'
 import { AppointmentReplyToken } from '../../server/models/index'
 import { loadConfig } from '../../server/config'
@@ -11,7 +10,6 @@ import { loadConfig } from '../../server/config'
 let t: TestApp
 const mail = Maildev.fromEnv()
 let f: BookingFixture
-let nurse: Client
 let patient: Client
 let appointmentId: number
 
@@ -22,22 +20,11 @@ afterAll(async () => {
   await t.close()
 })
 beforeEach(async () => {
-  await cleanDatabase(t.sequelize)
-  await mail.clear()
-  f = await bookingFixture({ givenName: 'Wren' })
-  nurse = await new Client(t.app).mustSignIn(f.nurse.email, f.nurse.password)
-  const res = await nurse.post('/api/appointments', {
-    referralId: f.referralId,
-    kind: 'anaemia-clinic',
-    startsAt: at(summerDay(), '10:00'),
-    durationMin: 30,
-    location: 'Outpatients B',
-  })
-  expect(res.status, JSON.stringify(res.body)).toBe(201)
-  appointmentId = res.body.appointment.id
-  await drainOutbox({ sequelize: t.sequelize, config: t.config })
-  patient = new Client(t.app)
-  await patient.fetchCsrf()
+  const b = await bookedAppointment(t, mail, { givenName: 'Wren', location: 'Outpatients B' })
+  expect(b.booked.status, JSON.stringify(b.booked.body)).toBe(201)
+  f = b.f
+  appointmentId = b.appointmentId
+  patient = b.patient
 })
 
 describe('patient e-mail', () => {

@@ -1,9 +1,12 @@
 import { InfusionSession, Patient } from '../../server/models/index'
+import { drainOutbox } from '../../server/services/outboxWorker'
 import { zonedToUtc } from '../../shared/appointments'
 import { addDays, todayIso } from '../../shared/pathway'
 import { makeStaff, type StaffFixture } from './factories'
 import { makePatient, makeProcedure, makeReferral } from './pathwayFactories'
-import type { ReceivedMail } from './mail'
+import type { Maildev, ReceivedMail } from './mail'
+import { Client } from './agent'
+import { cleanDatabase, type TestApp } from './app'
 
 export const CLINIC_TZ = 'Europe/London'
 
@@ -41,6 +44,30 @@ export async function bookingFixture(
   await Patient.update({ email }, { where: { id: patient.id } })
   const referral = await makeReferral({ patientId: patient.id, procedureId: procedure.id, surgeonId: surgeon.id }, { stage: 'treating' })
   return { nurse, surgeon, patientId: patient.id, referralId: referral.id, email: email ?? '' }
+}
+
+/**
+ * A clean database and mailbox, a 30-minute anaemia clinic appointment booked by a nurse (signed in
+ * as `nurse`) at 10:00 on a summer day, its confirmation e-mail sent, and the patient's browser: no
+ * account, only the CSRF token of an anonymous session. `booked` is the booking's answer.
+ */
+export async function bookedAppointment(t: TestApp, mail: Maildev, o: { givenName: string; location: string }) {
+  await cleanDatabase(t.sequelize)
+  await mail.clear()
+  const f = await bookingFixture({ givenName: o.givenName })
+  const nurse = await new Client(t.app).mustSignIn(f.nurse.email, f.nurse.password)
+  const booked = await nurse.post('/api/appointments', {
+    referralId: f.referralId,
+    kind: 'anaemia-clinic',
+    startsAt: at(summerDay(), '10:00'),
+    durationMin: 30,
+    location: o.location,
+  })
+  const appointmentId: number = booked.body.appointment?.id
+  await drainOutbox({ sequelize: t.sequelize, config: t.config })
+  const patient = new Client(t.app)
+  await patient.fetchCsrf()
+  return { f, nurse, booked, appointmentId, patient }
 }
 
 /** An infusion session straight in the database, in clinic time. */

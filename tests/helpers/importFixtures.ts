@@ -1,6 +1,9 @@
 import { mkdirSync, openSync, writeSync, closeSync } from 'node:fs'
 import path from 'node:path'
-import type { Client } from './agent'
+import { Client } from './agent'
+import { cleanDatabase, type TestApp } from './app'
+import { makeStaff } from './factories'
+import { makePatient, makeProcedure, makeReferral } from './pathwayFactories'
 
 /** One CSV line per row, quoted where RFC 4180 requires it (a comma, a quote or a line break). */
 export function csv(rows: (string | number)[][]): string {
@@ -40,6 +43,22 @@ export function uploadCsv(c: Client, content: string | Buffer, o: UploadOptions 
     filename: o.fileName ?? 'results.csv',
     contentType: o.contentType ?? 'text/csv',
   })
+}
+
+/**
+ * The start of an import test: a clean database, a woman with the MRN given on an open referral
+ * (`referral` sets its fields), and a nurse signed in to upload. The surgeon and operation are for
+ * a test's further referrals.
+ */
+export async function importSetUp(t: TestApp, mrn: string, referral: Parameters<typeof makeReferral>[1] = {}) {
+  await cleanDatabase(t.sequelize)
+  const nurse = await makeStaff('nurse')
+  const surgeon = await makeStaff('surgeon')
+  const procedureId = (await makeProcedure()).id
+  const patient = await makePatient({ mrn, sex: 'female' })
+  const referralId = (await makeReferral({ patientId: patient.id, procedureId, surgeonId: surgeon.id }, referral)).id
+  const c = await new Client(t.app).mustSignIn(nurse.email, nurse.password)
+  return { c, nurse, surgeonId: surgeon.id, procedureId, patientId: patient.id, referralId }
 }
 
 /**
