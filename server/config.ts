@@ -255,7 +255,7 @@ export function loadConfig(env: Env = process.env): Config {
     },
     passwords: {
       // The test run lowers the cost: its hundreds of sign-ins would otherwise take minutes.
-      scryptLog2N: int(env, 'PASSWORD_SCRYPT_LOG2N', nodeEnv === 'test' ? 14 : 15, 10, 20),
+      scryptLog2N: int(env, 'PASSWORD_SCRYPT_LOG2N', nodeEnv === 'test' ? 13 : 15, 10, 20),
       temporaryHours: int(env, 'TEMP_PASSWORD_HOURS', 72, 1, 24 * 30),
     },
     trustProxy: int(env, 'TRUST_PROXY', 0, 0, 10),
