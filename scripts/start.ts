@@ -111,7 +111,12 @@ async function main(): Promise<void> {
     }
     server = dev
       ? spawn(path.join(repoRoot, 'node_modules/.bin/tsx'), ['watch', 'server/index.ts'], { cwd: repoRoot, env, stdio: 'inherit' })
-      : spawn(process.execPath, ['dist-server/server/index.js'], { cwd: repoRoot, env, stdio: 'inherit' })
+      : // Through the one launcher that sets node's flags (scripts/node-server.sh), as production does.
+        spawn('sh', ['scripts/node-server.sh', 'dist-server/server/index.js'], {
+          cwd: repoRoot,
+          env: { ...env, NODE: process.execPath },
+          stdio: 'inherit',
+        })
     server.on('exit', (code) => {
       if (!stopping) {
         console.error(`[start] the server exited (${code}); stopping the rest`)

@@ -29,7 +29,7 @@ export interface Config {
     /** COOKIE_SECURE: true behind TLS */ cookieSecure: boolean
   }
   passwords: {
-    /** PASSWORD_SCRYPT_LOG2N: scrypt cost as a power of two (OWASP: at least 17) */ scryptLog2N: number
+    /** PASSWORD_SCRYPT_LOG2N: scrypt cost N as a power of two, with r=8, p=3 (OWASP: at least 15 at p=3) */ scryptLog2N: number
     /** TEMP_PASSWORD_HOURS: a temporary password from an administrator stops working after this */ temporaryHours: number
   }
   /** TRUST_PROXY: hops of reverse proxy to trust for the client address */ trustProxy: number
@@ -255,7 +255,7 @@ export function loadConfig(env: Env = process.env): Config {
     },
     passwords: {
       // The test run lowers the cost: its hundreds of sign-ins would otherwise take minutes.
-      scryptLog2N: int(env, 'PASSWORD_SCRYPT_LOG2N', nodeEnv === 'test' ? 14 : 17, 10, 20),
+      scryptLog2N: int(env, 'PASSWORD_SCRYPT_LOG2N', nodeEnv === 'test' ? 13 : 15, 10, 20),
       temporaryHours: int(env, 'TEMP_PASSWORD_HOURS', 72, 1, 24 * 30),
     },
     trustProxy: int(env, 'TRUST_PROXY', 0, 0, 10),

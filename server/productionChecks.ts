@@ -33,7 +33,7 @@ export function configProblems(config: Config): string[] {
     )
   }
   if (config.passwords.scryptLog2N < OWASP_LOG2N)
-    problems.push(`PASSWORD_SCRYPT_LOG2N is ${config.passwords.scryptLog2N}: OWASP asks for at least ${OWASP_LOG2N}`)
+    problems.push(`PASSWORD_SCRYPT_LOG2N is ${config.passwords.scryptLog2N}: OWASP asks for at least ${OWASP_LOG2N} at r=8, p=3`)
   return problems
 }
 

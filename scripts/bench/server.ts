@@ -19,12 +19,18 @@ export async function startBenchServer(env: NodeJS.ProcessEnv, fixedPort: number
   // measured is the server itself), to compare the two.
   // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server to look for where time goes.
   const entry = env.BENCH_SERVER_ENTRY ? [env.BENCH_SERVER_ENTRY] : ['--import', 'tsx', 'server/index.ts']
+  // Started through the launcher that sets node's flags, as production is; it execs node, so the pid
+  // measured is the server's.
   const child: ChildProcess = spawn(
-    process.execPath,
-    [...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []), ...entry],
+    'sh',
+    [
+      'scripts/node-server.sh',
+      ...(process.env.BENCH_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=' + process.env.BENCH_CPU_PROF] : []),
+      ...entry,
+    ],
     {
       cwd: repoRoot,
-      env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: staticDir },
+      env: { ...env, PORT: String(port), NODE_ENV: 'production', FERROLANE_DEMO: 'true', STATIC_DIR: staticDir, NODE: process.execPath },
       stdio: ['ignore', 'ignore', 'inherit'],
     },
   )

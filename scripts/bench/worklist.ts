@@ -109,7 +109,7 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, 
     // Resident memory at rest, signed in, before any load.
     await new Promise((r) => setTimeout(r, 2000))
     const idle = memoryMb(server.pid)
-    // The sign-in's one scrypt derivation (128 MiB at OWASP's cost) sets the process's peak before
+    // The sign-in's one scrypt derivation (32 MiB at N=2^15, r=8) can set the process's peak before
     // any load; `loadPeakMb` is the peak of the load alone, `peakMb` stays the whole run's.
     const loadPeakMeasured = resetPeakMemory(server.pid)
     const latencies: number[] = []

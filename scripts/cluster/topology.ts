@@ -143,11 +143,11 @@ export async function startTopology(opts: TopologyOptions): Promise<Topology> {
     mkdirSync(logDir, { recursive: true })
     const startApp = async (i: number) => {
       const log = createWriteStream(path.join(logDir, `app${i + 1}.log`), { flags: 'a' })
-      // The compiled server under plain node, as production runs it (no TypeScript loader), and
-      // node itself so that a SIGKILL to this child really kills the server.
-      const child = spawn(process.execPath, ['dist-server/server/index.js'], {
+      // The compiled server under plain node, as production runs it (no TypeScript loader), through
+      // the launcher that sets node's flags; it execs node, so a SIGKILL to this child kills the server.
+      const child = spawn('sh', ['scripts/node-server.sh', 'dist-server/server/index.js'], {
         cwd: repoRoot,
-        env: { ...appEnv, PORT: String(ports.apps[i]) },
+        env: { ...appEnv, PORT: String(ports.apps[i]), NODE: process.execPath },
         stdio: ['ignore', 'pipe', 'pipe'],
       })
       child.stdout!.pipe(log)

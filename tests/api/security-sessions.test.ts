@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
+import { randomBytes, scryptSync } from 'node:crypto'
 import { QueryTypes } from 'sequelize'
 import request from 'supertest'
 import { makeTestApp, cleanDatabase, type TestApp } from '../helpers/app'
@@ -104,15 +105,16 @@ describe('temporary passwords', () => {
 })
 
 describe('password hashing', () => {
-  it("then new hashes use the configured scrypt cost, and the default cost is OWASP's N=2^17, r=8, p=1", async () => {
-    // OWASP Password Storage Cheat Sheet: scrypt with N=2^17, r=8, p=1 at least.
-    expect(loadConfig({}).passwords.scryptLog2N).toBe(17)
-    expect(loadConfig({ NODE_ENV: 'production', SESSION_SECRET: 'x'.repeat(32) }).passwords.scryptLog2N).toBe(17)
+  it("then new hashes use the configured scrypt cost, and the default cost is OWASP's N=2^15, r=8, p=3", async () => {
+    // OWASP Password Storage Cheat Sheet (scrypt): N=2^15 (32 MiB), r=8, p=3 is one of its five settings
+    // that "provide a similar minimal level of defense" (with N=2^17, r=8, p=1); the lead chose it (issue #19).
+    expect(loadConfig({}).passwords.scryptLog2N).toBe(15)
+    expect(loadConfig({ NODE_ENV: 'production', SESSION_SECRET: 'x'.repeat(32) }).passwords.scryptLog2N).toBe(15)
     expect((await hashPassword('any-long-password-1')).split('$').slice(0, 4)).toEqual([
       'scrypt',
       String(2 ** t.config.passwords.scryptLog2N),
       '8',
-      '1',
+      '3',
     ])
   })
 
@@ -126,6 +128,23 @@ describe('password hashing', () => {
     const now = (await User.findByPk(s.id))!.passwordHash
     expect(now).not.toBe(old)
     expect(now.split('$')[1]).toBe(String(2 ** t.config.passwords.scryptLog2N))
+    await new Client(t.app).mustSignIn(s.email, s.password)
+  })
+
+  it('when a user signs in with a hash made with the earlier p=1, then it verifies and is rehashed at p=3', async () => {
+    // Hashes stored before issue #19 read scrypt$131072$8$1$…: made here by node:crypto directly (at the
+    // test run's N, so it stays quick; only p differs from today's), not by the code under test.
+    const s = await makeStaff('nurse')
+    const N = 2 ** t.config.passwords.scryptLog2N
+    const salt = randomBytes(16)
+    const key = scryptSync(s.password.normalize('NFKC'), salt, 32, { N, r: 8, p: 1, maxmem: 256 * N * 8 })
+    const legacy = ['scrypt', N, 8, 1, salt.toString('base64'), key.toString('base64')].join('$')
+    await User.update({ passwordHash: legacy }, { where: { id: s.id } })
+    expect((await new Client(t.app).signIn(s.email, 'not-the-password-at-all')).status).toBe(401)
+    expect((await User.findByPk(s.id))!.passwordHash).toBe(legacy)
+    await new Client(t.app).mustSignIn(s.email, s.password)
+    const now = (await User.findByPk(s.id))!.passwordHash
+    expect(now.split('$').slice(0, 4)).toEqual(['scrypt', String(N), '8', '3'])
     await new Client(t.app).mustSignIn(s.email, s.password)
   })
 
