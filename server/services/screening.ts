@@ -1,4 +1,4 @@
-import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize'
+import { Op, type Sequelize, type Transaction } from 'sequelize'
 import { classifyAnaemia, IRON_STATUS_CRITERIA, type AnaemiaCriteria, type Sex } from '../../shared/clinical'
 import {
   SCREENING_ANALYTES,
@@ -14,7 +14,10 @@ import { Referral, Result } from '../models/index'
 import { screenableSql, SCREENABLE_WHERE } from '../models/result'
 import { isoOrNull } from './viewer'
 import { worklistChanged } from './worklistCounts'
-import { refreshIronResponse } from './ironResponse'
+import { dosesOf, ironFlags, refreshIronResponse } from './ironResponse'
+import type { DoseGiven } from '../../shared/clinic/responseFlags'
+import { rawInTransaction, type RawValue } from './rawTransaction'
+import { utcText } from './utcText'
 import type { ScreeningView } from '../../shared/pathway/views'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
@@ -57,56 +60,104 @@ export interface ReferralScreeningRow {
 }
 
 /**
- * The same re-screening as refreshScreening, for many referrals at once (a laboratory import):
- * the latest values come from one query per chunk and one UPDATE writes the outcomes, so a
- * 100 000-row file does not cost two round trips per episode. Same rules, same columns.
+ * The same re-screening as refreshScreening, for many referrals at once (a laboratory import or
+ * its reversal, once per episode at the end), a thousand episodes per chunk: three reads and one
+ * UPDATE each, all through the driver (rawTransaction.ts). The transaction's one connection runs
+ * statements in the order sent, so the next chunk's reads are sent before this chunk's rules run
+ * on the server: MariaDB reads while the server computes. A write is sent only once the one
+ * before it has succeeded, so after a failed one (a deadlock rolls the transaction back) nothing
+ * more is written. Same rules, same columns.
  */
 export async function refreshScreeningMany(
   sequelize: Sequelize,
   referralIds: readonly number[],
   t: Transaction,
-  chunk = 500,
+  chunk = 1000,
 ): Promise<number> {
+  const chunks: number[][] = []
+  for (let i = 0; i < referralIds.length; i += chunk) chunks.push(referralIds.slice(i, i + chunk))
   let updated = 0
-  for (let i = 0; i < referralIds.length; i += chunk) {
-    const ids = referralIds.slice(i, i + chunk)
-    const refs = await sequelize.query<ReferralScreeningRow>(
-      `SELECT r.id, p.sex, r.anaemia_criteria AS criteria FROM referrals r JOIN patients p ON p.id = r.patient_id WHERE r.id IN (:ids)`,
-      { type: QueryTypes.SELECT, replacements: { ids }, transaction: t },
-    )
-    updated += (await rescreenReferrals(sequelize, refs, t)).size
+  let next = chunks.length ? readChunk(sequelize, chunks[0]!, t) : null
+  let write: Promise<unknown> = Promise.resolve()
+  for (let i = 0; next; i++) {
+    const read = await next
+    await write
+    next = i + 1 < chunks.length ? readChunk(sequelize, chunks[i + 1]!, t) : null
+    write = writeOutcomes(sequelize, read, t).written
+    updated += read.refs.length
   }
+  await write
   return updated
 }
 
+interface ScreeningRow {
+  referralId: number
+  analyte: string
+  valueCanonical: number
+  takenAt: Date
+}
+type ScreeningText = Omit<ScreeningRow, 'takenAt'> & { takenAt: string }
+interface ChunkRead {
+  refs: readonly ReferralScreeningRow[]
+  rows: ScreeningText[]
+  doses: Map<number, DoseGiven[]>
+}
+
 /**
- * refreshScreeningMany for referrals whose sex and criteria the caller has already read (the HL7
- * batch path reads them with its lock): the latest values in one query, the outcomes in one
- * UPDATE, the iron-response flags once; returns each referral's new screening columns.
+ * What one chunk's re-screening reads, sent together: the referrals' sex and criteria (unless the
+ * caller read them), every screening result (newest first, the time as text: utcText.ts) and the
+ * doses. A promise left waiting is marked handled at once, so a failure is reported where it is awaited.
  */
-export async function rescreenReferrals(
-  sequelize: Sequelize,
-  refs: readonly ReferralScreeningRow[],
-  t: Transaction,
-): Promise<Map<number, ScreeningColumns>> {
-  const out = new Map<number, ScreeningColumns>()
-  if (!refs.length) return out
-  const ids = refs.map((r) => r.id)
-  const rows = await sequelize.query<{ referralId: number; analyte: string; valueCanonical: number; takenAt: Date }>(
-    `SELECT referral_id AS referralId, analyte, value_canonical AS valueCanonical, taken_at AS takenAt FROM results
-     WHERE referral_id IN (:ids) AND analyte IN (:analytes) AND ${screenableSql()} ORDER BY referral_id, taken_at DESC, id DESC`,
-    { type: QueryTypes.SELECT, replacements: { ids, analytes: [...SCREENING_ANALYTES] }, transaction: t },
+function readChunk(sequelize: Sequelize, ids: readonly number[], t: Transaction, known?: readonly ReferralScreeningRow[]) {
+  const list = ids.map(() => '?').join(', ')
+  const refs =
+    known ??
+    rawInTransaction<ReferralScreeningRow[]>(
+      sequelize,
+      t,
+      `SELECT r.id, p.sex, r.anaemia_criteria AS criteria FROM referrals r JOIN patients p ON p.id = r.patient_id WHERE r.id IN (${list})`,
+      ids,
+    )
+  const rows = rawInTransaction<ScreeningText[]>(
+    sequelize,
+    t,
+    `SELECT referral_id AS referralId, analyte, value_canonical AS valueCanonical, ${utcText('taken_at')} AS takenAt FROM results
+     WHERE referral_id IN (${list}) AND analyte IN (${SCREENING_ANALYTES.map(() => '?').join(', ')})
+       AND ${screenableSql()} ORDER BY referral_id, taken_at DESC, id DESC`,
+    [...ids, ...SCREENING_ANALYTES],
   )
-  const byReferral = new Map<number, typeof rows>()
-  for (const r of rows) {
-    const list = byReferral.get(r.referralId) ?? []
-    list.push(r)
-    byReferral.set(r.referralId, list)
+  const doses = dosesOf(sequelize, ids, t)
+  const all = Promise.all([refs, rows, doses]).then(([r, w, d]): ChunkRead => ({ refs: r, rows: w, doses: d }))
+  all.catch(() => undefined)
+  return all
+}
+
+const OUTCOME_SELECT =
+  'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
+  'CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at, CAST(? AS SIGNED) AS nr, CAST(? AS SIGNED) AS fa'
+
+/**
+ * The rules for one chunk (pure, shared/clinic) and the one UPDATE that stores the outcomes and the
+ * iron-response flags together (the flags read the same Hb rows oldest first: refreshIronResponse's
+ * rule, for an episode given iron). `written` is sent, not awaited, and already marked handled.
+ */
+function writeOutcomes(sequelize: Sequelize, read: ChunkRead, t: Transaction) {
+  const out = new Map<number, ScreeningColumns>()
+  const byReferral = new Map<number, ScreeningRow[]>()
+  for (const text of read.rows) {
+    const r = { referralId: text.referralId, analyte: text.analyte, valueCanonical: text.valueCanonical, takenAt: new Date(text.takenAt) }
+    const list = byReferral.get(r.referralId)
+    if (list) list.push(r)
+    else byReferral.set(r.referralId, [r])
   }
-  const values: unknown[] = []
-  const selects = refs.map((ref) => {
-    const next = screeningOutcome(latestFromRows(byReferral.get(ref.id) ?? []), ref.sex, ref.criteria)
+  const values: RawValue[] = []
+  for (const ref of read.refs) {
+    const own = byReferral.get(ref.id) ?? []
+    const next = screeningOutcome(latestFromRows(own), ref.sex, ref.criteria)
     out.set(ref.id, next)
+    const given = read.doses.get(ref.id)
+    const hb = given ? own.filter((r) => r.analyte === 'hb').map((r) => ({ takenAt: r.takenAt, hbGL: Number(r.valueCanonical) })) : []
+    const flags = ironFlags(hb.reverse(), given)
     values.push(
       ref.id,
       next.anaemic == null ? null : next.anaemic ? 1 : 0,
@@ -115,21 +166,46 @@ export async function rescreenReferrals(
       next.proposedStage,
       next.latestHbGL,
       next.latestHbAt,
+      flags.noResponseToIron ? 1 : 0,
+      flags.hbFallingAfterIron ? 1 : 0,
     )
-    return (
-      'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
-      'CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at'
-    )
-  })
+  }
   // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.
   worklistChanged('referral', t)
-  await sequelize.query(
-    `UPDATE referrals r JOIN (${selects.join(' UNION ALL ')}) v ON v.id = r.id
-     SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,
-         r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?`,
-    { type: QueryTypes.UPDATE, replacements: [...values, new Date()], transaction: t },
+  const written = read.refs.length
+    ? rawInTransaction(
+        sequelize,
+        t,
+        `UPDATE referrals r JOIN (${read.refs.map(() => OUTCOME_SELECT).join(' UNION ALL ')}) v ON v.id = r.id
+         SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,
+             r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?,
+             r.no_response_to_iron = v.nr, r.hb_falling_after_iron = v.fa`,
+        [...values, new Date()],
+      )
+    : Promise.resolve()
+  written.catch(() => undefined)
+  return { out, written }
+}
+
+/**
+ * refreshScreeningMany for referrals whose sex and criteria the caller has already read (the HL7
+ * batch path reads them with its lock): the same reads and one UPDATE; returns each referral's new
+ * screening columns.
+ */
+export async function rescreenReferrals(
+  sequelize: Sequelize,
+  refs: readonly ReferralScreeningRow[],
+  t: Transaction,
+): Promise<Map<number, ScreeningColumns>> {
+  if (!refs.length) return new Map()
+  const read = await readChunk(
+    sequelize,
+    refs.map((r) => r.id),
+    t,
+    refs,
   )
-  await refreshIronResponse(sequelize, ids, t)
+  const { out, written } = writeOutcomes(sequelize, read, t)
+  await written
   return out
 }
 

@@ -1,4 +1,4 @@
-import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
+import type { Sequelize, Transaction } from 'sequelize'
 import { naturalKey, type Checked, type Reading, type SkippedRow } from '../../../shared/imports'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
 import { PREVIEW_KEYS } from './previewKeys'
@@ -33,15 +33,19 @@ const ENDED = ['closed', 'withdrawn']
  */
 export async function findPatients(sequelize: Sequelize, mrns: string[], t?: Transaction): Promise<Map<string, PatientMatch>> {
   if (!mrns.length) return new Map()
-  const rows = await sequelize.query<Omit<PatientMatch, 'dob'> & { dob: string | Date }>(
-    `SELECT p.mrn, p.id AS patientId, CONCAT(p.given_name, ' ', p.family_name) AS name, p.date_of_birth AS dob, p.sex,
-       (SELECT MAX(r.id) FROM referrals r WHERE r.patient_id = p.id AND r.stage NOT IN (:ended)) AS referralId
-     FROM patients p WHERE p.mrn IN (:mrns)`,
-    { type: QueryTypes.SELECT, replacements: { mrns, ended: ENDED }, transaction: t },
+  // Through the driver on the run's connection (rawTransaction.ts), the date of birth as text:
+  // Sequelize's query path and its DATE type cast were a third of this statement's server CPU.
+  const rows = await rawInTransaction<PatientMatch[]>(
+    sequelize,
+    t,
+    `SELECT p.mrn, p.id AS patientId, CONCAT(p.given_name, ' ', p.family_name) AS name,
+       DATE_FORMAT(p.date_of_birth, '%Y-%m-%d') AS dob, p.sex,
+       (SELECT MAX(r.id) FROM referrals r WHERE r.patient_id = p.id AND r.stage NOT IN (${ENDED.map(() => '?').join(', ')})) AS referralId
+     FROM patients p WHERE p.mrn IN (${mrns.map(() => '?').join(', ')})`,
+    [...ENDED, ...mrns],
   )
   const out = new Map<string, PatientMatch>()
-  for (const r of rows)
-    out.set(r.mrn.toUpperCase(), { ...r, dob: r.dob instanceof Date ? r.dob.toISOString().slice(0, 10) : String(r.dob) })
+  for (const r of rows) out.set(r.mrn.toUpperCase(), { ...r })
   return out
 }
 

@@ -22,6 +22,8 @@ export class ImportRun {
   private batchId: number | null = null
   private readonly perReferral = new Map<number, { patientId: number; count: number }>()
   private readonly s: Omit<ImportSummary, 'batchId' | 'sameFileAs'>
+  /** The last chunk's write, sent and not yet awaited (see addChunk); marked handled when sent. */
+  private written: Promise<unknown> = Promise.resolve()
 
   constructor(
     private readonly sequelize: Sequelize,
@@ -66,6 +68,8 @@ export class ImportRun {
   }
 
   async addChunk(items: { row: number; checked: Checked }[]): Promise<ChunkOutcome> {
+    // The previous chunk's write first: it failed, or it is in the table before this chunk is matched.
+    await this.written
     // Earlier chunks are already in the table (uncommitted); only this chunk needs remembering.
     const out = await matchChunk(
       this.sequelize,
@@ -101,9 +105,12 @@ export class ImportRun {
         })
       }
     }
-    if (this.t && out.accepted.length && !this.opts.commit) await addPreviewKeys(this.sequelize, out.accepted, this.t)
+    // The write is sent, not awaited: the run's one connection runs it before anything sent later,
+    // so the server parses and checks the next chunk while MariaDB stores this one (two cores at
+    // work). The next addChunk, finish or abandon waits for it, so only one write is ever in flight.
+    if (this.t && out.accepted.length && !this.opts.commit) this.written = addPreviewKeys(this.sequelize, out.accepted, this.t)
     else if (this.t && out.accepted.length) {
-      await insertResults(
+      this.written = insertResults(
         this.sequelize,
         out.accepted.map((m) => ({
           referralId: m.referralId,
@@ -120,10 +127,12 @@ export class ImportRun {
         this.t,
       )
     }
+    this.written.catch(() => undefined)
     return out
   }
 
   async finish(sha256: string): Promise<ImportSummary> {
+    await this.written
     this.s.referralsAffected = this.perReferral.size
     const earlier = await ImportBatch.findOne({
       where: { sha256, reversedAt: null, ...(this.batchId ? { id: { [Op.ne]: this.batchId } } : {}) },
@@ -171,6 +180,7 @@ export class ImportRun {
   async abandon(): Promise<void> {
     const t = this.t
     this.t = null
+    await this.written.catch(() => undefined)
     // A temporary table outlives a rollback on its pooled connection: dropped first.
     if (t && !this.opts.commit) await dropPreviewKeys(this.sequelize, t).catch(() => undefined)
     if (t) await t.rollback().catch(() => undefined)
