@@ -1,5 +1,15 @@
 import type { Sequelize } from 'sequelize'
-import { PRIORITIES, STAGES, STAGE_LABELS, daysBetween, nextAction, referralFlags, type Priority, type Stage } from '../../shared/pathway'
+import {
+  PRIORITIES,
+  STAGES,
+  STAGE_LABELS,
+  daysBetween,
+  nextAction,
+  referralFlags,
+  type FlagInput,
+  type Priority,
+  type Stage,
+} from '../../shared/pathway'
 import type { IronStatus, Sex } from '../../shared/clinical'
 import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals'
 import type { AppointmentKind, AppointmentStatus } from '../../shared/appointments'
@@ -154,6 +164,22 @@ function nextVisitOf(text: string | null): NextAppointment | null {
   return { kind: kind as AppointmentKind, startsAt: startsAt!, status: status as AppointmentStatus }
 }
 
+/** What referralFlags reads, without copying the whole row. */
+function flagInput(row: WorklistSqlRow, anaemic: boolean | null): FlagInput {
+  return {
+    stage: row.stage,
+    plannedSurgeryDate: row.plannedSurgeryDate,
+    anaemic,
+    latestHbAt: row.latestHbAt,
+    recheckDueDate: row.recheckDueDate,
+    treatmentOrderedAt: row.treatmentOrderedAt,
+    treatmentGivenAt: row.treatmentGivenAt,
+    dateChangeRequestedAt: row.dateChangeRequestedAt,
+    noResponseToIron: row.noResponseToIron,
+    hbFallingAfterIron: row.hbFallingAfterIron,
+  }
+}
+
 function toWorklistRow(row: WorklistSqlRow, today: string, next: Map<number, NextAppointment> | null): WorklistRow {
   const anaemic = row.anaemic == null ? null : Boolean(row.anaemic)
   return {
@@ -170,7 +196,7 @@ function toWorklistRow(row: WorklistSqlRow, today: string, next: Map<number, Nex
     ironStatus: row.ironStatus,
     anaemic,
     proposedStage: row.proposedStage,
-    flags: referralFlags({ ...row, anaemic }, today, clinicTimeZone()),
+    flags: referralFlags(flagInput(row, anaemic), today, clinicTimeZone()),
     mrn: row.mrn,
     patientName: `${row.familyName}, ${row.givenName}`,
     patient: {
