@@ -81,8 +81,8 @@ interface WorklistSqlRow {
  * OFFSET). Where it sorts the joined rows (name sort, search) it evaluates it for every row before
  * sorting (25 000 loops for a name sort), so those pages look the visits up afterwards instead.
  * Kind and status are words of fixed lists without spaces (APPOINTMENT_KINDS, APPOINTMENT_STATUSES);
- * the time is written as the ISO instant the API
- * sends (the connection runs in UTC, db.ts; starts_at is whole seconds, DATETIME).
+ * the time is written as the ISO instant the API sends (the connection runs in UTC, db.ts;
+ * starts_at is whole seconds, DATETIME).
  */
 const NEXT_VISIT_SQL = `(SELECT CONCAT(a.kind, ' ', a.status, ' ', DATE_FORMAT(a.starts_at, '%Y-%m-%dT%H:%i:%s.000Z'))
     FROM appointments a WHERE a.referral_id = r.id AND a.status <> 'cancelled' AND a.starts_at >= :now
