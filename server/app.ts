@@ -1,4 +1,4 @@
-import express, { type Express } from 'express'
+import express, { type Express, type Request, type RequestHandler, type Response } from 'express'
 import session from 'express-session'
 import helmet from 'helmet'
 import path from 'node:path'
@@ -89,6 +89,36 @@ function contentSecurityPolicy(config: Config) {
   })
 }
 
+/**
+ * Helmet's headers are the same on every answer here (no nonces, nothing read from the request),
+ * yet its middleware rebuilds them per request (the policy's text among them). They are taken
+ * from helmet once, at start-up, and set by one loop; helmet still decides what they are. A
+ * middleware that did not answer at once (it would depend on the request) is used as it is.
+ */
+function fixedHeaders(middleware: RequestHandler): RequestHandler {
+  const set: [string, number | string | readonly string[]][] = []
+  const removed: string[] = []
+  const recorder = {
+    setHeader(name: string, value: number | string | readonly string[]) {
+      set.push([name, value])
+      return recorder
+    },
+    removeHeader(name: string) {
+      removed.push(name)
+    },
+  }
+  let answered = false
+  void middleware({} as Request, recorder as unknown as Response, (err?: unknown) => {
+    answered = err === undefined
+  })
+  if (!answered) return middleware
+  return (_req, res, next) => {
+    for (const name of removed) res.removeHeader(name)
+    for (const [name, value] of set) res.setHeader(name, value)
+    next()
+  }
+}
+
 /** Builds the whole app without listening, so tests can drive it with Supertest. */
 export function createApp(config: Config, sequelize: Sequelize, opts: { logger?: Logger } = {}): FerrolaneApp {
   initModels(sequelize)
@@ -106,7 +136,7 @@ export function createApp(config: Config, sequelize: Sequelize, opts: { logger?:
   app.use(httpLogger(logger))
   app.use(metrics.observe)
   app.get('/metrics', metricsRoute(config, metrics))
-  app.use(contentSecurityPolicy(config))
+  app.use(fixedHeaders(contentSecurityPolicy(config)))
 
   const sessionStore = new MariaDbSessionStore(config.session.idleMinutes * 60_000)
   const passport = createPassport() as unknown as PassportStatic

@@ -73,6 +73,18 @@ interface Statement {
   values?: Record<string, unknown>
 }
 
+/** MariaDB's count of statements received so far (all connections). */
+async function questions(env: NodeJS.ProcessEnv): Promise<number> {
+  const where = env.DB_SOCKET ? { socketPath: env.DB_SOCKET } : { host: env.DB_HOST, port: Number(env.DB_PORT) }
+  const conn = await mariadb.createConnection({ ...where, user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME })
+  try {
+    const rows: { Value: string }[] = await conn.query("SHOW GLOBAL STATUS LIKE 'Questions'")
+    return Number(rows[0]!.Value)
+  } finally {
+    await conn.end()
+  }
+}
+
 async function directSql(env: NodeJS.ProcessEnv, statements: Statement[][]) {
   // The same transport as the server's, so the baseline differs only by the app's own work.
   const where = env.DB_SOCKET ? { socketPath: env.DB_SOCKET } : { host: env.DB_HOST, port: Number(env.DB_PORT) }
@@ -122,14 +134,17 @@ export async function benchWorklist(env: NodeJS.ProcessEnv, nurseEmail: string, 
     instance.on('response', (_client: unknown, status: number, _bytes: number, ms: number) => {
       if (status === 200) latencies.push(ms)
     })
-    // CPU per request does not depend on what else the machine is doing, unlike requests/s.
+    // CPU per request does not depend on what else the machine is doing, unlike requests/s; nor do
+    // the statements a request sends (MariaDB's global Questions counter, less the reading itself).
     const cpuBefore = { server: cpuMs(server.pid), database: cpuMs(databasePid) }
+    const questionsBefore = await questions(env)
     const result = await instance
     const cpuPerRequest = {
       serverMs: +((cpuMs(server.pid) - cpuBefore.server) / latencies.length).toFixed(2),
       databaseMs: +((cpuMs(databasePid) - cpuBefore.database) / latencies.length).toFixed(2),
     }
-    const http = { ...summary(latencies, DURATION_S), non2xx: result.non2xx, errors: result.errors, cpuPerRequest }
+    const statementsPerRequest = +(((await questions(env)) - questionsBefore - 1) / (latencies.length + result.non2xx)).toFixed(2)
+    const http = { ...summary(latencies, DURATION_S), non2xx: result.non2xx, errors: result.errors, cpuPerRequest, statementsPerRequest }
     const afterLoad = memoryMb(server.pid)
     const memory = { rssMb: afterLoad.rssMb, peakMb: Math.max(idle.peakMb, afterLoad.peakMb) }
     const loadPeakMb = loadPeakMeasured ? afterLoad.peakMb : null

@@ -7,7 +7,21 @@
 // Building a formatter costs far more than using one; imports read a zone per row.
 const formatters = new Map<string, Intl.DateTimeFormat>()
 
-function parts(instant: Date, timeZone: string): Record<string, number> {
+// The clock's fields change only from one second to the next, and every request asks for "now"
+// (the clinic's day, the zone's offset) more than once: the last second asked is remembered per zone.
+const lastParts = new Map<string, { second: number; out: Readonly<Record<string, number>> }>()
+
+function parts(instant: Date, timeZone: string): Readonly<Record<string, number>> {
+  const second = Math.floor(instant.getTime() / 1000)
+  const last = lastParts.get(timeZone)
+  if (last && last.second === second) return last.out
+  const out = formatParts(instant, timeZone)
+  if (lastParts.size > 50) lastParts.clear()
+  lastParts.set(timeZone, { second, out })
+  return out
+}
+
+function formatParts(instant: Date, timeZone: string): Record<string, number> {
   let fmt = formatters.get(timeZone)
   if (!fmt) {
     fmt = new Intl.DateTimeFormat('en-GB', {

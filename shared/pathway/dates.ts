@@ -64,6 +64,10 @@ export function todayIso(now: Date = new Date()): string {
 }
 
 function utcDay(iso: string): number {
+  // 'YYYY-MM-DD' read by position (a worklist page reads three dates a row); anything else by splitting.
+  if (iso.length === 10 && iso.charCodeAt(4) === 45 && iso.charCodeAt(7) === 45) {
+    return Date.UTC(Number(iso.slice(0, 4)), Number(iso.slice(5, 7)) - 1, Number(iso.slice(8, 10))) / 86_400_000
+  }
   const [y, m, d] = iso.split('-').map(Number)
   return Date.UTC(y!, m! - 1, d!) / 86_400_000
 }

@@ -286,4 +286,23 @@ describe('the next visit on each row', () => {
       expect((other.rows[0] as unknown as { nextAppointment: unknown }).nextAppointment).toBeNull()
     },
   )
+
+  it(
+    'when the list is read in its sort order (no search), then each row carries the same next visit ' +
+      'as the searched list, on every page and in every sort',
+    async () => {
+      // The visits of the test above: the sorts read referrals in index order look them up in the page's own statement.
+      const nextOf = (r: unknown) => (r as { id: number; nextAppointment: unknown }).nextAppointment
+      const searched = (await list('?q=Carver')).rows[0]!
+      expect(nextOf(searched)).toMatchObject({ kind: 'iron-infusion', status: 'confirmed' })
+      for (const sort of WORKLIST_SORTS) {
+        const seen = new Map<number, unknown>()
+        for (const page of [1, 2, 3, 4, 5, 6]) {
+          for (const r of (await list(`?sort=${sort}&pageSize=2&page=${page}`)).rows) seen.set(r.id, nextOf(r))
+        }
+        expect(seen.get(named.farAnaemic!), sort).toEqual(nextOf(searched))
+        expect(seen.get(named.noResult!), sort).toBeNull()
+      }
+    },
+  )
 })
