@@ -31,3 +31,29 @@ export async function rawInTransaction<T = unknown>(
     }
   })
 }
+
+/**
+ * One INSERT with one row of `?` placeholders, sent for many rows through the driver's `batch()`
+ * (MariaDB's binary bulk protocol: the statement is prepared once and the rows go as binary values),
+ * on the transaction's own connection. For an import's result rows: the text multi-row INSERT cost
+ * the server about 0.9 s of CPU per 100 000 rows in building and MariaDB's parsing of the text. Same
+ * transaction, same error mapping and dates as UTC text, as rawInTransaction.
+ */
+export async function rawBatchInTransaction(
+  sequelize: Sequelize,
+  t: Transaction | undefined,
+  sql: string,
+  rows: readonly (readonly RawValue[])[],
+): Promise<void> {
+  if (!rows.length) return
+  logRawStatement(sequelize, sql, rows)
+  const params = rows.map((r) => r.map(utcParam))
+  await withDriverConnection(sequelize, { type: 'write', transaction: t }, async (conn) => {
+    const stack = new Error().stack
+    try {
+      await conn.batch(sql, params)
+    } catch (err) {
+      throw await driverError(sequelize, conn, t, err, stack)
+    }
+  })
+}

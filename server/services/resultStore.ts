@@ -7,7 +7,7 @@ import { SCREENABLE_WHERE, screenableSql, type ResultSource, type ResultStatus }
 import { clinicTimeZone } from './clinicDay'
 import { refreshScreeningMany } from './screening'
 import { clinical, type Viewer } from './viewer'
-import { rawInTransaction, type RawValue } from './rawTransaction'
+import { rawBatchInTransaction, rawInTransaction, type RawValue } from './rawTransaction'
 import { utcText } from './utcText'
 
 /**
@@ -47,21 +47,19 @@ const unitOf = (analyte: StoredAnalyte) =>
   analyte === 'tsat' || analyte === 'egfr' ? DERIVED_UNITS[analyte] : ANALYTE_DEFS[analyte].canonicalUnit
 
 /**
- * One multi-row INSERT per chunk (not one ORM call per row). The natural key (referral, analyte,
- * time taken, value) is a unique index, so a row stored twice fails the whole chunk rather than
+ * One bulk INSERT for all the rows (not one ORM call per row). The natural key (referral, analyte,
+ * time taken, value) is a unique index, so a row stored twice fails the whole call rather than
  * slipping in: callers find duplicates first (by the natural key, in bulk for imports) and refuse or skip them.
  */
-export async function insertResults(sequelize: Sequelize, rows: readonly NewResult[], t: Transaction, chunk = 1000): Promise<void> {
+export async function insertResults(sequelize: Sequelize, rows: readonly NewResult[], t: Transaction): Promise<void> {
   const now = new Date()
-  for (let i = 0; i < rows.length; i += chunk) {
-    const part = rows.slice(i, i + chunk)
-    await rawInTransaction(
-      sequelize,
-      t,
-      `INSERT INTO results ${COLUMNS} VALUES ${part.map(() => PLACEHOLDERS).join(', ')}`,
-      part.flatMap((r) => rowValues(r, now)),
-    )
-  }
+  // The driver's bulk protocol: prepared once, rows sent as binary values (rawTransaction.ts).
+  await rawBatchInTransaction(
+    sequelize,
+    t,
+    `INSERT INTO results ${COLUMNS} VALUES ${PLACEHOLDERS}`,
+    rows.map((r) => rowValues(r, now)),
+  )
 }
 
 /**

@@ -106,11 +106,12 @@ export interface ChunkOutcome {
  * Matches one chunk of checked rows to patients and episodes and removes duplicates, both of
  * stored results (earlier chunks of this file are already in the run's transaction) and of
  * rows met earlier in this chunk (`run.seen`); a stored row of this very batch is a repeat in the file.
+ * `run.before`: the run's previous write, awaited before the duplicate look-up.
  */
 export async function matchChunk(
   sequelize: Sequelize,
   items: { row: number; checked: Checked }[],
-  run: { batchId: number | null; seen: Set<string>; previewKeys?: boolean },
+  run: { batchId: number | null; seen: Set<string>; previewKeys?: boolean; before?: Promise<unknown> },
   t?: Transaction,
 ): Promise<ChunkOutcome> {
   const skipped: SkippedRow[] = []
@@ -119,7 +120,10 @@ export async function matchChunk(
     if (it.checked.ok) valid.push({ row: it.row, reading: it.checked.reading })
     else skipped.push({ row: it.row, code: it.checked.code, reason: it.checked.reason })
   }
-  const patients = await findPatients(sequelize, [...new Set(valid.map((v) => v.reading.mrn))], t)
+  // The patient match reads no results, so it is sent before the previous chunk's write has
+  // answered (`run.before`); the duplicate look-up reads that write, so it waits for it, and if
+  // the write failed its error is thrown here and nothing more is sent.
+  const [patients] = await Promise.all([findPatients(sequelize, [...new Set(valid.map((v) => v.reading.mrn))], t), run.before])
   const matched: MatchedRow[] = []
   for (const v of valid) {
     const p = patients.get(v.reading.mrn.toUpperCase())

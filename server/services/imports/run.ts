@@ -24,6 +24,7 @@ export class ImportRun {
   private readonly s: Omit<ImportSummary, 'batchId' | 'sameFileAs'>
   /** The last chunk's write, sent and not yet awaited (see addChunk); marked handled when sent. */
   private written: Promise<unknown> = Promise.resolve()
+  private writeFailed = false
 
   constructor(
     private readonly sequelize: Sequelize,
@@ -68,13 +69,15 @@ export class ImportRun {
   }
 
   async addChunk(items: { row: number; checked: Checked }[]): Promise<ChunkOutcome> {
-    // The previous chunk's write first: it failed, or it is in the table before this chunk is matched.
-    await this.written
-    // Earlier chunks are already in the table (uncommitted); only this chunk needs remembering.
+    // A write already known to have failed: nothing more is sent (its connection may be rolled back and returned).
+    if (this.writeFailed) await this.written
+    // Earlier chunks are already in the table (uncommitted); only this chunk needs remembering. The
+    // previous chunk's write is awaited inside, after the patient match is sent and before the
+    // duplicate look-up: it failed (thrown there), or it is in the table before it is read.
     const out = await matchChunk(
       this.sequelize,
       items,
-      { batchId: this.batchId, seen: new Set(), previewKeys: !this.opts.commit },
+      { batchId: this.batchId, seen: new Set(), previewKeys: !this.opts.commit, before: this.written },
       this.t ?? undefined,
     )
     this.s.rowsRead += items.length
@@ -127,7 +130,9 @@ export class ImportRun {
         this.t,
       )
     }
-    this.written.catch(() => undefined)
+    this.written.catch(() => {
+      this.writeFailed = true
+    })
     return out
   }
 
