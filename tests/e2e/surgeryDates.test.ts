@@ -25,6 +25,11 @@ beforeAll(async () => {
   plannedId = (await makeEpisode({ surgeonId: surgeon.id, referral: { stage: 'treating', plannedSurgeryDate: addDays(todayIso(), 30) } }))
     .referral.id
   operatedId = (await makeEpisode({ surgeonId: surgeon.id, referral: { stage: 'operated' } })).referral.id
+  // Referred a week ago: the rows below are given 2 and 3 hours ago, which is yesterday just after midnight,
+  // and a transfusion dated before its referral's day is refused (the test failed between 00:00 and 03:00 UTC).
+  await served.sequelize.query('UPDATE referrals SET created_at = ? WHERE id = ?', {
+    replacements: [new Date(Date.now() - 7 * 86_400_000), operatedId],
+  })
   await Outcome.create({
     referralId: operatedId,
     surgeryDate: todayIso(),
