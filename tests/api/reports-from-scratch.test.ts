@@ -158,20 +158,7 @@ beforeAll(async () => {
           givenBy: null,
         })
     }
-    if (rand() < 0.45)
-      await Outcome.create({
-        referralId: r.id,
-        surgeryDate: iso(plus(createdAt, 30 + Math.floor(rand() * 40))),
-        bloodLossMl: 300,
-        unitsTransfusedIntraOp: 0,
-        unitsTransfusedPostOp: 0,
-        unitsCrossmatched: 0,
-        lowestHbGL: 90,
-        dischargeHbGL: null,
-        lengthOfStayDays: 3,
-        complications: ['none'],
-        recordedBy: null,
-      })
+    if (rand() < 0.45) await plainOutcome(r.id, iso(plus(createdAt, 30 + Math.floor(rand() * 40))))
   }
   // Operated episodes made for the quality report's Hb measures (referred today, so outside the funnel's
   // period): the first Hb differs from the last one, an Hb just after the surgery day, two Hb at the same
@@ -272,19 +259,7 @@ beforeAll(async () => {
         givenBy: null,
       })
     }
-    await Outcome.create({
-      referralId: r.id,
-      surgeryDate: S,
-      bloodLossMl: 300,
-      unitsTransfusedIntraOp: 0,
-      unitsTransfusedPostOp: 0,
-      unitsCrossmatched: 0,
-      lowestHbGL: 90,
-      dischargeHbGL: null,
-      lengthOfStayDays: 3,
-      complications: ['none'],
-      recordedBy: null,
-    })
+    await plainOutcome(r.id, S)
   }
   const a = await makeStaff('admin')
   asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
@@ -392,6 +367,23 @@ const CASES = [
   ['an admin, one surgeon', () => asAdmin, '', { surgeon: 2 }],
   ['a surgeon (own patients only, whatever is asked)', () => asSurgeon, '', { surgeon: 1 }],
 ] as const
+
+/** An operated episode's post-operative record with nothing of note: only the referral and the surgery day vary. */
+function plainOutcome(referralId: number, surgeryDate: string) {
+  return Outcome.create({
+    referralId,
+    surgeryDate,
+    bloodLossMl: 300,
+    unitsTransfusedIntraOp: 0,
+    unitsTransfusedPostOp: 0,
+    unitsCrossmatched: 0,
+    lowestHbGL: 90,
+    dischargeHbGL: null,
+    lengthOfStayDays: 3,
+    complications: ['none'],
+    recordedBy: null,
+  })
+}
 
 describe('funnel and waiting times against a count from scratch', () => {
   it('when the fixture is varied, then it has what the comparison needs', async () => {
@@ -541,19 +533,7 @@ describe('quality measures built on Hb with thresholds that differ by sex', () =
       voidedAt: null,
       voidReason: null,
     })
-    await Outcome.create({
-      referralId: r.id,
-      surgeryDate: '2025-05-20',
-      bloodLossMl: 300,
-      unitsTransfusedIntraOp: 0,
-      unitsTransfusedPostOp: 0,
-      unitsCrossmatched: 0,
-      lowestHbGL: 90,
-      dischargeHbGL: null,
-      lengthOfStayDays: 3,
-      complications: ['none'],
-      recordedBy: null,
-    })
+    await plainOutcome(r.id, '2025-05-20')
     await ClinicSettingsRow.upsert({ id: 1, values: { anaemiaCriteria: 'who' }, updatedBy: null, updatedAt: new Date() })
     try {
       const res = await asAdmin.get(`/api/reports/quality?from=${FROM}&to=${TO}`)
