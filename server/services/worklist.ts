@@ -14,10 +14,10 @@ import type { IronStatus, Sex } from '../../shared/clinical'
 import type { WorklistQuery, WorklistSort } from '../../shared/schemas/referrals'
 import type { AppointmentKind, AppointmentStatus } from '../../shared/appointments'
 import type { NextAppointment, WorklistPage, WorklistRow } from '../../shared/pathway/views'
-import { isoOrNull, type Viewer } from './viewer'
+import type { Viewer } from './viewer'
 import { clinicTimeZone } from './clinicDay'
 import { BY_DATE, countWorklist, quoted, worklistFilter } from './worklistFilter'
-import { rawSelect } from './rawRead'
+import { isoFromUtcText, rawSelect } from './rawRead'
 
 const byDate = BY_DATE
 // Every order ends in r.id so pages never overlap or skip rows that tie.
@@ -42,6 +42,7 @@ const SORT_SQL: Record<WorklistSort, string> = {
   '-createdAt': `r.created_at DESC, r.id DESC`,
 }
 
+/** A page row as rawSelect returns it: DATE and DATETIME columns as UTC text (rawRead.ts). */
 interface WorklistSqlRow {
   id: number
   version: number
@@ -49,14 +50,14 @@ interface WorklistSqlRow {
   priority: Priority
   plannedSurgeryDate: string
   latestHbGL: number | null
-  latestHbAt: Date | string | null
+  latestHbAt: string | null
   ironStatus: IronStatus | null
   anaemic: number | boolean | null
   proposedStage: Stage | null
   recheckDueDate: string | null
-  treatmentOrderedAt: Date | string | null
-  treatmentGivenAt: Date | string | null
-  dateChangeRequestedAt: Date | string | null
+  treatmentOrderedAt: string | null
+  treatmentGivenAt: string | null
+  dateChangeRequestedAt: string | null
   noResponseToIron: number | boolean
   hbFallingAfterIron: number | boolean
   patientId: number
@@ -146,7 +147,7 @@ export async function worklist(sequelize: Sequelize, viewer: Viewer, q: Worklist
 async function nextAppointments(sequelize: Sequelize, referralIds: number[]): Promise<Map<number, NextAppointment>> {
   const out = new Map<number, NextAppointment>()
   if (!referralIds.length) return out
-  const rows = await rawSelect<{ referralId: number; kind: AppointmentKind; startsAt: Date | string; status: AppointmentStatus }>(
+  const rows = await rawSelect<{ referralId: number; kind: AppointmentKind; startsAt: string; status: AppointmentStatus }>(
     sequelize,
     `SELECT referral_id AS referralId, kind, starts_at AS startsAt, status FROM appointments
      WHERE referral_id IN (:ids) AND status <> 'cancelled' AND starts_at >= :now
@@ -155,7 +156,7 @@ async function nextAppointments(sequelize: Sequelize, referralIds: number[]): Pr
   )
   // Rows come soonest first per episode, so the first one seen is the next visit.
   for (const r of rows)
-    if (!out.has(r.referralId)) out.set(r.referralId, { kind: r.kind, startsAt: isoOrNull(r.startsAt)!, status: r.status })
+    if (!out.has(r.referralId)) out.set(r.referralId, { kind: r.kind, startsAt: isoFromUtcText(r.startsAt)!, status: r.status })
   return out
 }
 
@@ -165,13 +166,13 @@ function nextVisitOf(text: string | null): NextAppointment | null {
   return { kind: kind as AppointmentKind, startsAt: startsAt!, status: status as AppointmentStatus }
 }
 
-/** What referralFlags reads, without copying the whole row. */
-function flagInput(row: WorklistSqlRow, anaemic: boolean | null): FlagInput {
+/** What referralFlags reads, without copying the whole row; `latestHbAt` as an ISO instant. */
+function flagInput(row: WorklistSqlRow, anaemic: boolean | null, latestHbAt: string | null): FlagInput {
   return {
     stage: row.stage,
     plannedSurgeryDate: row.plannedSurgeryDate,
     anaemic,
-    latestHbAt: row.latestHbAt,
+    latestHbAt,
     recheckDueDate: row.recheckDueDate,
     treatmentOrderedAt: row.treatmentOrderedAt,
     treatmentGivenAt: row.treatmentGivenAt,
@@ -183,6 +184,7 @@ function flagInput(row: WorklistSqlRow, anaemic: boolean | null): FlagInput {
 
 function toWorklistRow(row: WorklistSqlRow, today: string, next: Map<number, NextAppointment> | null): WorklistRow {
   const anaemic = row.anaemic == null ? null : Boolean(row.anaemic)
+  const latestHbAt = isoFromUtcText(row.latestHbAt)
   return {
     id: row.id,
     version: row.version,
@@ -193,11 +195,11 @@ function toWorklistRow(row: WorklistSqlRow, today: string, next: Map<number, Nex
     plannedSurgeryDate: row.plannedSurgeryDate,
     daysToSurgery: daysBetween(today, row.plannedSurgeryDate),
     latestHbGL: row.latestHbGL,
-    latestHbAt: isoOrNull(row.latestHbAt),
+    latestHbAt,
     ironStatus: row.ironStatus,
     anaemic,
     proposedStage: row.proposedStage,
-    flags: referralFlags(flagInput(row, anaemic), today, clinicTimeZone()),
+    flags: referralFlags(flagInput(row, anaemic, latestHbAt), today, clinicTimeZone()),
     mrn: row.mrn,
     patientName: `${row.familyName}, ${row.givenName}`,
     patient: {

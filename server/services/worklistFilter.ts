@@ -112,7 +112,12 @@ export function countWorklist(sequelize: Sequelize, f: WorklistFilter): Promise<
     `${countFrom} ${f.whereSql} ${JSON.stringify(f.params)}`,
     countSources(f.searched, 'procedureCode' in f.params),
     async () => {
-      const r = await rawSelect<{ total: number | bigint }>(sequelize, `SELECT COUNT(*) AS total ${countFrom} ${f.whereSql}`, f.params)
+      // Sent as text, not prepared: a total is counted once per slice every few seconds, so a prepared
+      // statement saves nothing, and MariaDB was seen to count a prepared whole-list COUNT(*) by reading
+      // the table's rows instead of its smallest index.
+      const r = await rawSelect<{ total: number | bigint }>(sequelize, `SELECT COUNT(*) AS total ${countFrom} ${f.whereSql}`, f.params, {
+        prepared: false,
+      })
       return Number(r[0]?.total ?? 0)
     },
   )
