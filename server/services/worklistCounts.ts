@@ -44,15 +44,29 @@ export function forgetWorklistCounts(): void {
   for (const s of Object.keys(generation) as WorklistSource[]) forget(s)
 }
 
+/** Totals being counted now, with the generations they started in. */
+const counting = new Map<string, { seen: number[]; total: Promise<number> }>()
+
 export async function cachedCount(key: string, sources: readonly WorklistSource[], count: () => Promise<number>): Promise<number> {
   const hit = totals.get(key)
   if (hit && same(hit.seen, snapshot(hit.sources)) && Date.now() - hit.at < COUNT_CACHE_MS) return hit.total
+  // Requests that miss while the same total is being counted, with nothing it reads changed by this
+  // process since that count started, share it: it is as fresh as a kept total, and under load every
+  // request that missed ran its own scan of the queue (a tenth of a statement per worklist request).
+  const running = counting.get(key)
+  if (running && same(running.seen, snapshot(sources))) return running.total
   const startedIn = snapshot(sources)
-  const total = await count()
-  // A change committed while this count ran may not be in it: use it once, do not keep it.
-  if (same(startedIn, snapshot(sources))) {
-    if (totals.size >= MAX_ENTRIES) totals.clear()
-    totals.set(key, { total, at: Date.now(), sources, seen: startedIn })
+  const pending = count()
+  counting.set(key, { seen: startedIn, total: pending })
+  try {
+    const total = await pending
+    // A change committed while this count ran may not be in it: use it once, do not keep it.
+    if (same(startedIn, snapshot(sources))) {
+      if (totals.size >= MAX_ENTRIES) totals.clear()
+      totals.set(key, { total, at: Date.now(), sources, seen: startedIn })
+    }
+    return total
+  } finally {
+    if (counting.get(key)?.total === pending) counting.delete(key)
   }
-  return total
 }
