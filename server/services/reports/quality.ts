@@ -18,7 +18,7 @@ import { groupedMedian } from './haemoglobin'
 import { QUALITY_FACTS_SQL, PRE_HB_SQL } from './qualitySql'
 import { mergeExtras, qualityExtras } from './qualityExtras'
 
-// The Hb facts are bits of x.hbFlags (HB_FLAGS in qualitySql.ts, one lookup per episode); anaemia is judged
+// The Hb facts are bits of x.hbFlags (HB_FLAGS in qualitySql.ts, from the pre-aggregate's values); anaemia is judged
 // there as screening judges it (clinic criteria, strict "<"), as in the transfusion report.
 const HB = (bit: number) => `(x.hbFlags & ${bit}) > 0`
 const IDA = `(${HB(1)} AND x.ironDeficient)`
