@@ -11,6 +11,9 @@ const CHUNK = 1000
  * that writes an outcome, a result, a dose, a prescription, a transfusion or a surgery-date change calls
  * it once with the referrals it touched (no row triggers: an import pays one statement per thousand
  * episodes, not one per row). Referrals without an outcome produce no row (and lose theirs).
+ * In REPEATABLE READ (the default here) INSERT … SELECT reads the child rows with InnoDB's locking read (the
+ * newest committed rows, not the transaction's snapshot) and locks the fact row, so of two writers to one
+ * episode the later one's refresh sees the earlier one's committed rows.
  */
 export async function refreshEpisodeFacts(t: Transaction, referralIds: Iterable<number>): Promise<void> {
   const ids = [...new Set(referralIds)].filter((id) => Number.isSafeInteger(id) && id > 0)

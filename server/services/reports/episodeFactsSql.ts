@@ -7,6 +7,9 @@ import { finalSql } from '../../models/result'
  * thresholds (and the patient's sex), so a settings change needs no rebuild. Facts from the referral and
  * procedure rows (iron status, operation, surgeon, antibodies, blood order, expected loss) and the outcome's
  * own answers are read live. The one writer is episodeFacts.ts.
+ * Migration 0026 runs REBUILD_SQL as this file has it when the migration runs: a change of the table's
+ * columns comes with a new migration that alters the table and rebuilds it, and must keep the columns
+ * 0026 creates so that 0026 still runs on a new database.
  */
 export const FACT_COLUMNS = [
   'surgery_date',
