@@ -68,13 +68,15 @@ function add(into: Sums, g: Sums): void {
   })
 }
 /**
- * Issue #19: the main statement costs MariaDB a few primary-key reads per operated episode (about 45 ms of
- * CPU at 25 000 referrals with the episode_facts pre-aggregate, 125 ms before it), and one statement runs on
- * one core. The episodes are split by referral id
- * into SHARES statements on their own pool connections (no transaction holds them), so MariaDB runs them
- * side by side; a group can appear in each share, and its sums are added here.
+ * Issue #19: the main statement can be split by referral id into SHARES statements on their own pool
+ * connections (no transaction holds them), so MariaDB runs them side by side; a group can appear in each share,
+ * and its sums are added here. With the correlated lookups (125 ms of MariaDB CPU) two shares halved the
+ * critical path. With the episode_facts pre-aggregate the statement costs about 45 ms, and the server's
+ * decoding of the grouped rows (each share returns about as many groups as the whole) became the larger part:
+ * one share, measured interleaved on the bench database, server CPU per report 107 → 74 ms, wall median
+ * 167 → 124 ms (load 5). Kept as a setting for a larger database.
  */
-const SHARES = 2
+const SHARES = 1
 function addShares(rows: Record<string, unknown>[]): { procedureId: number; surgeonId: number; month: string; sums: Sums }[] {
   const byKey = new Map<string, { procedureId: number; surgeonId: number; month: string; sums: Sums }>()
   for (const g of rows) {
