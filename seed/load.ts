@@ -6,6 +6,7 @@ import { loadDemoEpisodes } from './demo/episodes'
 import { loadDemoOutcomes } from './demo/outcomes'
 import { loadDemoAppointments } from './demo/appointments'
 import { loadDemoDateRequest, loadDemoTreatments, loadFormulary } from './demo/clinic'
+import { rebuildEpisodeFacts } from '../server/services/reports/episodeFacts'
 
 /**
  * Loads the invented demo scenario, only into an empty database (so a restart keeps real work).
@@ -31,5 +32,8 @@ export async function loadDemoScenario(sequelize: Sequelize): Promise<boolean> {
   })
   // Needs the committed episodes: the stored request carries the projection the surgeon saw.
   await loadDemoDateRequest(sequelize)
+  // The demo rows were written straight to the tables, not through the services: the quality report's
+  // per-episode facts are built from them from scratch, as after any hand-written data.
+  await rebuildEpisodeFacts(sequelize)
   return true
 }

@@ -19,6 +19,7 @@ import * as m0018 from './0018-operation-cancellations'
 import * as m0019 from './0019-result-range-flags'
 import * as m0024 from './0024-report-covering-index'
 import * as m0025 from './0025-report-range-indexes'
+import * as m0026 from './0026-episode-facts'
 
 export interface Migration {
   name: string
@@ -48,4 +49,5 @@ export const migrations: Migration[] = [
   { name: '0019-result-range-flags', ...m0019 },
   { name: '0024-report-covering-index', ...m0024 },
   { name: '0025-report-range-indexes', ...m0025 },
+  { name: '0026-episode-facts', ...m0026 },
 ]

@@ -18,6 +18,7 @@ import { refreshIronResponse } from './ironResponse'
 import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 export function toAdministrationView(a: Administration & { giver?: User | null }): AdministrationView {
   return {
@@ -110,6 +111,7 @@ export async function recordAdministration(
     worklistChanged('referral', t)
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
     await refreshIronResponse(sequelize, [referralId], t)
+    await refreshEpisodeFacts(t, [referralId]) // iron before surgery
     const view = toAdministrationView(a)
     await recordAudit(t, viewer, {
       action: 'create',

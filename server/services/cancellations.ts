@@ -8,6 +8,7 @@ import { referralDetail } from './referralDetail'
 import { staleVersion, type Viewer } from './viewer'
 import { RuleRefused } from '../errors'
 import type { ReferralDetail } from '../../shared/pathway/views'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 // Once the operation is done or the episode has left the pathway there is no planned operation to cancel.
 const NO_PLANNED_OPERATION = new Set(['operated', 'withdrawn', 'closed'])
@@ -60,6 +61,7 @@ export async function cancelPlannedOperation(
       },
       { transaction: t },
     )
+    await refreshEpisodeFacts(t, [id]) // a change for anaemia counts as a postponement of an operated episode
     await recordAudit(t, viewer, {
       action: 'cancel',
       entity: 'planned-operation',

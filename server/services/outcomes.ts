@@ -9,6 +9,7 @@ import { loadReferral, type LoadedReferral } from './episode'
 import { redCellUnitsByPhase } from './transfusionCounts'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 function toOutcomeView(o: Outcome): OutcomeView {
   return {
@@ -104,6 +105,8 @@ export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referr
       row = await Outcome.create({ referralId, ...values, recordedBy: viewer.userId }, { transaction: t })
     }
     const version = await bumpVersion(t, r)
+    // The surgery date moves every fact that is counted against it.
+    await refreshEpisodeFacts(t, [referralId])
     const view = toOutcomeView(row)
     const diff = before ? changedFields(before, view) : { before: null, after: view }
     await recordAudit(t, viewer, {

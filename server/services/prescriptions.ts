@@ -17,6 +17,7 @@ import { findProduct, toIronProduct, FORMULARY_CAUTION } from './formulary'
 import { clinical, isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Invalid, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 export const PHOSPHATE_SOURCE =
   'Ferinject SmPC 4.4; MHRA Drug Safety Update 2020: check serum phosphate before repeated high doses (hypophosphataemia, osteomalacia)'
@@ -213,6 +214,7 @@ export async function prescribe(
       { where: { id: referralId, version: locked.version }, transaction: t },
     )
     if (count !== 1) throw staleVersion('This referral')
+    await refreshEpisodeFacts(t, [referralId]) // a prescription marks the episode iron deficient
     const view = toPrescriptionView(p)
     await recordAudit(t, viewer, { action: 'create', entity: 'prescription', entityId: p.id, patientId: locked.patientId, after: view })
     return { prescription: view, version: locked.version + 1 }

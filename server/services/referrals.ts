@@ -11,6 +11,7 @@ import { Invalid, NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
 import { unitOfWork } from '../unitOfWork'
 import type { ReferralDetail } from '../../shared/pathway/views'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 async function procedureIdFor(code: string): Promise<number> {
   const p = await findActiveProcedure(code)
@@ -136,6 +137,7 @@ export async function updateReferral(
         },
         { transaction: t },
       )
+      await refreshEpisodeFacts(t, [id]) // postponements for anaemia
     }
     await r.reload({ transaction: t })
     await recordAudit(t, viewer, {

@@ -9,6 +9,7 @@ import { refreshScreeningMany } from './screening'
 import { clinical, type Viewer } from './viewer'
 import { rawBatchInTransaction, rawInTransaction, type RawValue } from './rawTransaction'
 import { utcText } from './utcText'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 /**
  * The one place results are written: typed-in (services/results.ts), CSV and FHIR imports
@@ -261,6 +262,7 @@ export async function rescreenAndAudit(
 ): Promise<void> {
   const ids = [...perReferral.keys()]
   await refreshScreeningMany(sequelize, ids, t)
+  await refreshEpisodeFacts(t, ids)
   await insertEpisodeAudit(
     sequelize,
     viewer,

@@ -9,6 +9,7 @@ import { refreshScreening, screeningView } from './screening'
 import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer'
 import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
 import { unitOfWork } from '../unitOfWork'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 export function toResultView(r: Result & { enteredByUser?: User | null }): ResultView {
   return {
@@ -78,6 +79,7 @@ export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId
     }
     const before = screeningView(referral, patient.sex)
     await refreshScreening(referral, patient.sex, t)
+    await refreshEpisodeFacts(t, [referral.id])
     await referral.reload({ transaction: t })
     const screening = screeningView(referral, patient.sex)
     const view = toResultView(result)

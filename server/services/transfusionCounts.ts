@@ -1,5 +1,6 @@
 import { Op, type Transaction } from 'sequelize'
 import { Outcome, Transfusion } from '../models/index'
+import { refreshEpisodeFacts } from './reports/episodeFacts'
 
 /** Red-cell units of the episode's standing (not voided) transfusions, by phase. */
 export async function redCellUnitsByPhase(referralId: number, t?: Transaction) {
@@ -14,7 +15,8 @@ export async function redCellUnitsByPhase(referralId: number, t?: Transaction) {
 
 /**
  * The post-operative record's unit counts are derived from the transfusion rows; rewritten in
- * the same transaction as every transfusion write so the outcome reports never disagree.
+ * the same transaction as every transfusion write (record, correct, void) so the outcome reports
+ * never disagree, and so are the quality report's transfusion facts (episode_facts).
  */
 export async function syncOutcomeUnits(referralId: number, t: Transaction) {
   const counts = await redCellUnitsByPhase(referralId, t)
@@ -22,5 +24,6 @@ export async function syncOutcomeUnits(referralId: number, t: Transaction) {
     { unitsTransfusedIntraOp: counts.duringSurgery, unitsTransfusedPostOp: counts.afterSurgery },
     { where: { referralId }, transaction: t },
   )
+  await refreshEpisodeFacts(t, [referralId])
   return counts
 }

@@ -1,6 +1,7 @@
 import { Outcome, SurgeryDateChange } from '../../server/models/index'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
+import { factsAfterHandWrites } from '../helpers/episodeFacts'
 
 /**
  * Cancellations and blood orders, small enough to count by hand (see reports-quality-orders).
@@ -82,5 +83,6 @@ export async function makeOrdersFixture(): Promise<OrdersFixture> {
   await cancelled(await episode(s2.id, gs.id, 'cleared'), '2025-05-02', 'theatre-capacity')
   await cancelled(await episode(s1.id, xm.id, 'cleared'), '2025-06-10', 'anaemia')
   await cancelled(await episode(s1.id, gs.id, 'cleared'), '2026-01-05', 'anaemia')
+  await factsAfterHandWrites()
   return { s1, s2 }
 }

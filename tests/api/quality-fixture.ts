@@ -1,6 +1,7 @@
 import { Administration, Outcome, Prescription, Result, SurgeryDateChange, Transfusion } from '../../server/models/index'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
+import { factsAfterHandWrites } from '../helpers/episodeFacts'
 
 /**
  * Four operated episodes in 2025 and one in 2024, small enough that every quality measure can
@@ -163,5 +164,6 @@ export async function makeQualityFixture(): Promise<QualityFixture> {
   await outcome(q5, '2024-12-15')
   await tx(q5, '2024-12-15', { units: 3, preTransfusionHbGL: 60 })
 
+  await factsAfterHandWrites()
   return { s1, s2, ids: { q1: q1.referralId, q2: q2.referralId, q3: q3.referralId, q4: q4.referralId, q5: q5.referralId } }
 }

@@ -17,6 +17,7 @@ import {
 import { STAGES } from '../../shared/pathway'
 import { classifyAnaemia, type AnaemiaCriteria } from '../../shared/clinical'
 import { DEFAULT_CLINIC_SETTINGS } from '../../shared/clinic/settings'
+import { factsAfterHandWrites, factsFromScratch, storedFacts } from '../helpers/episodeFacts'
 
 /**
  * Issue #19: the funnel and waiting times are computed by grouped SQL passes and grouped day counts
@@ -25,8 +26,9 @@ import { DEFAULT_CLINIC_SETTINGS } from '../../shared/clinic/settings'
  * values voided or preliminary (never counted), several moves to clinic, missing dates, operations
  * with and without a post-operative record, referrals on both edges of the period, two surgeons and
  * two operations. The answers must be equal for an admin, for one operation, and for a surgeon (who
- * sees only their own patients whatever they ask for). The quality report's Hb measures (one lookup per
- * operated episode packing the first and the surgery-day Hb into bits, qualitySql.ts) are checked the same way.
+ * sees only their own patients whatever they ask for). The quality report's Hb measures (read from the
+ * per-episode pre-aggregate episode_facts, judged live against the clinic's thresholds, qualitySql.ts) are
+ * checked the same way, and the pre-aggregate itself against the raw rows (tests/helpers/episodeFacts.ts).
  */
 let t: TestApp
 let s1: StaffFixture
@@ -261,6 +263,7 @@ beforeAll(async () => {
     }
     await plainOutcome(r.id, S)
   }
+  await factsAfterHandWrites()
   const a = await makeStaff('admin')
   asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
   asSurgeon = await new Client(t.app).mustSignIn(s1.email, s1.password)
@@ -483,6 +486,12 @@ async function expectedQuality(
 }
 
 describe('quality measures built on Hb against a count from scratch', () => {
+  it('when the per-episode pre-aggregate is rebuilt, then every operated episode has the row its raw rows give', async () => {
+    const scratch = await factsFromScratch()
+    expect(scratch.size).toBeGreaterThan(20)
+    expect(await storedFacts(t.sequelize)).toEqual(scratch)
+  })
+
   it.each(CASES)('when %s asks for the quality report, then each Hb measure is the count from scratch', async (_, client, extra, o) => {
     const filter = {
       ...('procedureCode' in o ? { procedureCode: o.procedureCode } : {}),
@@ -534,6 +543,7 @@ describe('quality measures built on Hb with thresholds that differ by sex', () =
       voidReason: null,
     })
     await plainOutcome(r.id, '2025-05-20')
+    await factsAfterHandWrites()
     await ClinicSettingsRow.upsert({ id: 1, values: { anaemiaCriteria: 'who' }, updatedBy: null, updatedAt: new Date() })
     try {
       const res = await asAdmin.get(`/api/reports/quality?from=${FROM}&to=${TO}`)

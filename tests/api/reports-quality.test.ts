@@ -6,6 +6,7 @@ import { makeQualityFixture, type QualityFixture } from './quality-fixture'
 import { parseCsv } from './reports-fixture'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { AuditEntry, Outcome, Referral, Result } from '../../server/models/index'
+import { factsAfterHandWrites } from '../helpers/episodeFacts'
 
 let t: TestApp
 let f: QualityFixture
@@ -252,6 +253,7 @@ describe('GET /api/reports/quality/national-audit and the measures CSV', () => {
       complications: ['none'],
       recordedBy: null,
     })
+    await factsAfterHandWrites()
     const c = await new Client(t.app).mustSignIn(f.s1.email, f.s1.password)
     const res = await c.get(`/api/reports/quality/national-audit?${PERIOD}`)
     const row = parseCsv(res.text).find((x) => Number(x.episodeId) === r.id)!
@@ -302,9 +304,11 @@ describe('voided and preliminary results in the quality measures', () => {
     }
     try {
       expect(added.length).toBeGreaterThan(0)
+      await factsAfterHandWrites()
       expect(await quality(asAdmin)).toEqual(before)
     } finally {
       await Result.destroy({ where: { id: added } })
+      await factsAfterHandWrites()
     }
   })
 })

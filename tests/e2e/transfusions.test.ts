@@ -7,6 +7,7 @@ import { makeEpisode } from '../helpers/clinicFactories'
 import { seriousViolations } from '../helpers/pathwayBrowser'
 import { retype } from '../helpers/clinicBrowser'
 import { Outcome, Transfusion } from '../../server/models/index'
+import { factsAfterHandWrites } from '../helpers/episodeFacts'
 import { todayIso } from '../../shared/pathway'
 
 let served: ServedApp
@@ -61,6 +62,7 @@ beforeAll(async () => {
     thresholdBasis: 'Orthopaedic surgery: 80 g/L (AABB 2023)',
     recordedBy: null,
   })
+  await factsAfterHandWrites()
   browser = await launchBrowser()
   nursePage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 } })).newPage()
   doctorPage = await (await browser.newContext({ locale: 'en-GB', viewport: { width: 1280, height: 900 } })).newPage()

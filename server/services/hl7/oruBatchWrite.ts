@@ -8,6 +8,7 @@ import type { ObxReading } from './oruRead'
 import type { Plan, Resolved } from './oruBatch'
 import { insertMessages, insertResultAudits, messageKey, setChanges, type MessageRow, type ResultAudit } from './oruBatchSql'
 import { deriveForGroup, type Change } from './oruStore'
+import { refreshEpisodeFacts } from '../reports/episodeFacts'
 
 /**
  * The write side of the HL7 batch path (oruBatch.ts decides, this writes): one statement per kind
@@ -85,6 +86,11 @@ export async function writeOruBatch(
     sequelize,
     rescreen.map((r) => ({ id: r.referral.id, sex: r.patient.sex, criteria: r.referral.anaemiaCriteria })),
     t,
+  )
+  // Every episode that got a result (not only those whose screening moved): the quality report's Hb facts.
+  await refreshEpisodeFacts(
+    t,
+    [...perGroup].filter(([, changes]) => changes.length).map(([r]) => r.referral.id),
   )
   const audits: ResultAudit[] = []
   const messageChanges = new Map<number, Change[]>()

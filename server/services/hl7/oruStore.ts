@@ -7,6 +7,7 @@ import { refreshScreening, screeningView } from '../screening'
 import { Hl7Problem } from './ack'
 import { addedDetail, decideObx, hl7Result, movesScreening } from './obxDecision'
 import type { ObxReading, OruGroup } from './oruRead'
+import { refreshEpisodeFacts } from '../reports/episodeFacts'
 
 // Stages after which an episode takes no results (as for imports and bookings).
 const ENDED = ['closed', 'withdrawn']
@@ -186,6 +187,7 @@ export async function storeOru(
     if (await deriveForGroup(g, { referralId: referral.id, patientId: patient.id }, patient, changes, t)) rescreen = true
     // The columns just written are the only ones that changed: set them here rather than read the row again.
     if (rescreen) referral.set(await refreshScreening(referral, patient.sex, t), { raw: true })
+    await refreshEpisodeFacts(t, [referral.id]) // added, corrected, voided or promoted: the quality report's Hb facts
     await recordAudit(t, ctx.actor, {
       action: 'hl7-results',
       entity: 'referral',

@@ -7,6 +7,7 @@ import { isoOrNull, type Viewer } from '../viewer'
 import { NotFound, RuleRefused } from '../../errors'
 import type { BatchView } from '../../../shared/imports'
 import { READ_ONLY_STAGES } from '../../../shared/pathway/stages'
+import { refreshEpisodeFacts } from '../reports/episodeFacts'
 
 type Row = ImportBatch & { creator?: User | null; reverser?: User | null }
 const who = (u?: User | null) => (u ? { id: u.id, name: u.name } : null)
@@ -84,6 +85,10 @@ export async function reverseBatch(sequelize: Sequelize, viewer: Viewer, id: num
       sequelize,
       affected.map((a) => a.referralId),
       t,
+    )
+    await refreshEpisodeFacts(
+      t,
+      affected.map((a) => a.referralId),
     )
     await ImportBatch.update(
       { reversedAt: new Date(), reversedBy: viewer.userId, reversalReason: reason, resultsRemoved: removedCount },

@@ -18,7 +18,7 @@ import { groupedMedian } from './haemoglobin'
 import { QUALITY_FACTS_SQL, PRE_HB_SQL } from './qualitySql'
 import { mergeExtras, qualityExtras } from './qualityExtras'
 
-// The Hb facts are bits of x.hbFlags (HB_FLAGS in qualitySql.ts, one lookup per episode); anaemia is judged
+// The Hb facts are bits of x.hbFlags (HB_FLAGS in qualitySql.ts, from the pre-aggregate's values); anaemia is judged
 // there as screening judges it (clinic criteria, strict "<"), as in the transfusion report.
 const HB = (bit: number) => `(x.hbFlags & ${bit}) > 0`
 const IDA = `(${HB(1)} AND x.ironDeficient)`
@@ -68,12 +68,15 @@ function add(into: Sums, g: Sums): void {
   })
 }
 /**
- * Issue #19: the main statement costs MariaDB one set of indexed probes per operated episode (about 125 ms
- * of CPU at 25 000 referrals), and one statement runs on one core. The episodes are split by referral id
- * into SHARES statements on their own pool connections (no transaction holds them), so MariaDB runs them
- * side by side; a group can appear in each share, and its sums are added here.
+ * Issue #19: the main statement can be split by referral id into SHARES statements on their own pool
+ * connections (no transaction holds them), so MariaDB runs them side by side; a group can appear in each share,
+ * and its sums are added here. With the correlated lookups (125 ms of MariaDB CPU) two shares halved the
+ * critical path. With the episode_facts pre-aggregate the statement costs about 45 ms, and the server's
+ * decoding of the grouped rows (each share returns about as many groups as the whole) became the larger part:
+ * one share, measured interleaved on the bench database, server CPU per report 107 → 74 ms, wall median
+ * 167 → 124 ms (load 5). Kept as a setting for a larger database.
  */
-const SHARES = 2
+const SHARES = 1
 function addShares(rows: Record<string, unknown>[]): { procedureId: number; surgeonId: number; month: string; sums: Sums }[] {
   const byKey = new Map<string, { procedureId: number; surgeonId: number; month: string; sums: Sums }>()
   for (const g of rows) {

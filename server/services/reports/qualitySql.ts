@@ -16,24 +16,14 @@ export const HB_VALUES = `
        screenedInWindow`
 
 /**
- * The Hb facts the quality measures need, as bits of one number from ONE lookup per episode (issue #19:
- * each lookup is an index descent, and the four of HB_VALUES were about half of the quality statement's
- * MariaDB CPU). Each counted Hb gets a key that sorts as (taken_at, id) do, with its anaemia verdict
- * (below `threshold`, strict "<") in the last bit, so MIN
- * and MAX of the key carry the verdict of the first Hb and of the last one on or before the surgery day.
- * Bits: 1 first Hb anaemic, 2 an Hb on or before the surgery day, 4 the last of those anaemic,
- * 8 an Hb 28 days or more before surgery (the first Hb is, exactly when any is), 16 an Hb 14 to 45 days before.
- * 0 when the episode has no counted Hb. Needs the outcome as o.
+ * The Hb facts the quality measures need, as bits of one number (the report's COUNTS read them), judged from
+ * the values the pre-aggregate keeps (episode_facts, migration 0026) against `threshold` (strict "<", as
+ * screening judges). Bits: 1 first Hb anaemic, 2 an Hb on or before the surgery day, 4 the last of those
+ * anaemic, 8 an Hb 28 days or more before surgery, 16 an Hb 14 to 45 days before. 0 without a counted Hb.
  */
-const HB_FLAGS = (threshold: string) => {
-  const key = `((CAST(TO_SECONDS(h.taken_at) AS DECIMAL(20)) * 4294967296 + h.id) * 2 + (h.value_canonical < ${threshold}))`
-  return `COALESCE((SELECT MOD(MIN(${key}), 2)
-    + 2 * MAX(h.taken_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY))
-    + 4 * COALESCE(MOD(MAX(IF(h.taken_at < DATE_ADD(o.surgery_date, INTERVAL 1 DAY), ${key}, NULL)), 2), 0)
-    + 8 * MAX(DATEDIFF(o.surgery_date, h.taken_at) >= 28)
-    + 16 * MAX(h.taken_at >= DATE_SUB(o.surgery_date, INTERVAL 45 DAY) AND h.taken_at < DATE_SUB(o.surgery_date, INTERVAL 13 DAY))
-  FROM results h WHERE h.referral_id = r.id AND h.analyte = 'hb' AND ${COUNTED}), 0) AS hbFlags`
-}
+const HB_FLAGS = (threshold: string) => `(COALESCE(f.first_hb_gl < ${threshold}, 0) + 2 * (f.surgery_day_hb_gl IS NOT NULL)
+    + 4 * COALESCE(f.surgery_day_hb_gl < ${threshold}, 0) + 8 * f.screened_28_days_before + 16 * f.screened_14_45_days_before)
+    AS hbFlags`
 
 /**
  * The anaemia threshold of the episode's patient (clinic thresholds :maleGL / :femaleGL). When the clinic's
@@ -88,9 +78,10 @@ ${EPISODES}
 WHERE ${where}`
 
 /**
- * The same episodes with only what the quality report's grouping reads (issue #19: every column is
- * written to the materialized derived table), the Hb facts as HB_FLAGS bits, and the blood-order
- * schedule facts that a second pass over the same episodes used to count (qualityExtras.ts).
+ * The same episodes with only what the quality report's grouping reads: the facts from the episode's child
+ * tables come from the pre-aggregate f (episode_facts, one primary-key read per episode instead of a set of
+ * correlated lookups: issue #19 point 4), the referral's, operation's and outcome's own answers are read live.
+ * The blood-order schedule facts are counted here too (qualityExtras.ts counts the cancellations).
  */
 export const QUALITY_FACTS_SQL = (where: string, sameThresholdForBoth: boolean) => `
 SELECT r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, DATE_FORMAT(o.surgery_date, '%Y-%m') AS month,
@@ -99,8 +90,12 @@ SELECT r.procedure_id AS procedureId, r.surgeon_id AS surgeonId, DATE_FORMAT(o.s
   (p.usual_blood_order = 'group-and-screen' AND COALESCE(r.red_cell_antibodies, 0) = 0) AS groupAndScreenOnly,
   o.units_crossmatched > 0 AS crossmatched,
   ${HB_FLAGS(threshold(sameThresholdForBoth))},
-  ${LOOKUPS}
-${EPISODES}
+  (r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR f.iron_prescribed) AS ironDeficient,
+  f.iron_before_surgery AS ironBefore, f.postponements_for_anaemia AS postponementsForAnaemia,
+  f.rbc_rows AS rbcRows, f.rbc_units AS rbcUnits, f.rbc_single AS rbcSingle, f.rbc_reassessed AS rbcReassessed,
+  f.any_transfusions AS anyTransfusions, f.information_on_transfusion AS infoOnTransfusion
+FROM outcomes o JOIN episode_facts f ON f.referral_id = o.referral_id JOIN referrals r ON r.id = o.referral_id
+  JOIN procedures p ON p.id = r.procedure_id LEFT JOIN patients pt ON pt.id = r.patient_id
 WHERE ${where}`
 
 /** Pre-transfusion Hb values of the period's red-cell transfusions, grouped for the median. */
