@@ -10,6 +10,7 @@ import { clinical, type Viewer } from './viewer'
 import { rawBatchInTransaction, rawInTransaction, type RawValue } from './rawTransaction'
 import { utcText } from './utcText'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
+import { utcParam } from './rawRead'
 
 /**
  * The one place results are written: typed-in (services/results.ts), CSV and FHIR imports
@@ -53,8 +54,9 @@ const unitOf = (analyte: StoredAnalyte) =>
  * slipping in: callers find duplicates first (by the natural key, in bulk for imports) and refuse or skip them.
  */
 export async function insertResults(sequelize: Sequelize, rows: readonly NewResult[], t: Transaction): Promise<void> {
-  const now = new Date()
   // The driver's bulk protocol: prepared once, rows sent as binary values (rawTransaction.ts).
+  // The creation time as UTC text once, not formatted again for every row.
+  const now = utcParam(new Date())
   await rawBatchInTransaction(
     sequelize,
     t,
@@ -78,7 +80,7 @@ export async function insertResultsReturningIds(sequelize: Sequelize, rows: read
   return out.map((r) => r.id)
 }
 
-function rowValues(r: NewResult, now: Date): RawValue[] {
+function rowValues(r: NewResult, now: Date | string): RawValue[] {
   return [
     r.referralId,
     r.patientId,

@@ -17,6 +17,7 @@ import { worklistChanged } from './worklistCounts'
 import { dosesOf, ironFlags, refreshIronResponse } from './ironResponse'
 import type { DoseGiven } from '../../shared/clinic/responseFlags'
 import { rawInTransaction, type RawValue } from './rawTransaction'
+import { utcParam } from './rawRead'
 import { utcText } from './utcText'
 import type { ScreeningView } from '../../shared/pathway/views'
 
@@ -132,9 +133,16 @@ function readChunk(sequelize: Sequelize, ids: readonly number[], t: Transaction,
   return all
 }
 
-const OUTCOME_SELECT =
-  'SELECT CAST(? AS UNSIGNED) AS id, CAST(? AS SIGNED) AS anaemic, CAST(? AS CHAR(10)) AS sev, CAST(? AS CHAR(20)) AS iron, ' +
-  'CAST(? AS CHAR(12)) AS prop, CAST(? AS DOUBLE) AS hb, CAST(? AS DATETIME) AS hb_at, CAST(? AS SIGNED) AS nr, CAST(? AS SIGNED) AS fa'
+/**
+ * The chunk's outcomes as one JSON parameter read by JSON_TABLE (MariaDB 10.6+), one array per
+ * episode: the types are those the UNION ALL of one cast SELECT per episode gave, which cost
+ * MariaDB about 76 ms of CPU per 1000 episodes to parse and plan against about 32 ms for this
+ * (the same rows written; README, performance notes), and the server no longer builds and scans a
+ * statement of 9000 placeholders. A JSON null reads as NULL.
+ */
+const OUTCOMES = `JSON_TABLE(?, '$[*]' COLUMNS (id BIGINT UNSIGNED PATH '$[0]', anaemic BIGINT PATH '$[1]', sev CHAR(10) PATH '$[2]',
+  iron CHAR(20) PATH '$[3]', prop CHAR(12) PATH '$[4]', hb DOUBLE PATH '$[5]', hb_at DATETIME PATH '$[6]', nr BIGINT PATH '$[7]',
+  fa BIGINT PATH '$[8]'))`
 
 /**
  * The rules for one chunk (pure, shared/clinic) and the one UPDATE that stores the outcomes and the
@@ -150,7 +158,7 @@ function writeOutcomes(sequelize: Sequelize, read: ChunkRead, t: Transaction) {
     if (list) list.push(r)
     else byReferral.set(r.referralId, [r])
   }
-  const values: RawValue[] = []
+  const values: RawValue[][] = []
   for (const ref of read.refs) {
     const own = byReferral.get(ref.id) ?? []
     const next = screeningOutcome(latestFromRows(own), ref.sex, ref.criteria)
@@ -158,17 +166,17 @@ function writeOutcomes(sequelize: Sequelize, read: ChunkRead, t: Transaction) {
     const given = read.doses.get(ref.id)
     const hb = given ? own.filter((r) => r.analyte === 'hb').map((r) => ({ takenAt: r.takenAt, hbGL: Number(r.valueCanonical) })) : []
     const flags = ironFlags(hb.reverse(), given)
-    values.push(
+    values.push([
       ref.id,
       next.anaemic == null ? null : next.anaemic ? 1 : 0,
       next.anaemiaSeverity,
       next.ironStatus,
       next.proposedStage,
       next.latestHbGL,
-      next.latestHbAt,
+      next.latestHbAt ? utcParam(next.latestHbAt) : null,
       flags.noResponseToIron ? 1 : 0,
       flags.hbFallingAfterIron ? 1 : 0,
-    )
+    ])
   }
   // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.
   worklistChanged('referral', t)
@@ -176,11 +184,11 @@ function writeOutcomes(sequelize: Sequelize, read: ChunkRead, t: Transaction) {
     ? rawInTransaction(
         sequelize,
         t,
-        `UPDATE referrals r JOIN (${read.refs.map(() => OUTCOME_SELECT).join(' UNION ALL ')}) v ON v.id = r.id
+        `UPDATE referrals r JOIN ${OUTCOMES} v ON v.id = r.id
          SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,
              r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?,
              r.no_response_to_iron = v.nr, r.hb_falling_after_iron = v.fa`,
-        [...values, new Date()],
+        [JSON.stringify(values), new Date()],
       )
     : Promise.resolve()
   written.catch(() => undefined)

@@ -47,12 +47,10 @@ export function checkReading(input: { mrn: string; analyte: Analyte; unit: strin
   const { analyte, value } = input
   const unit = normaliseUnit(input.unit)
   const def = ANALYTE_DEFS[analyte]
-  const fromExport = unitsFor(analyte).includes(unit) ? undefined : exportUnit(analyte, unit)
-  if (!unitsFor(analyte).includes(unit) && !fromExport) {
-    const accepted = [
-      ...unitsFor(analyte),
-      ...(LOINC[analyte].toCanonical && !unitsFor(analyte).includes(LOINC[analyte].unit) ? [LOINC[analyte].unit] : []),
-    ]
+  const units = unitsFor(analyte)
+  const fromExport = units.includes(unit) ? undefined : exportUnit(analyte, unit)
+  if (!units.includes(unit) && !fromExport) {
+    const accepted = [...units, ...(LOINC[analyte].toCanonical && !units.includes(LOINC[analyte].unit) ? [LOINC[analyte].unit] : [])]
     return fail('unknown-unit', `unit for ${def.label} must be one of ${accepted.join(', ')} (got ${input.unit || 'nothing'})`)
   }
   // Three decimals, as toCanonical (shared/pathway/analytes) stores every converted value.

@@ -110,13 +110,21 @@ export const ANALYTE_DEFS: Record<Analyte, AnalyteDef> = {
 
 export const DERIVED_UNITS = { tsat: '%', egfr: 'mL/min/1.73 m²' } as const
 
+// Each accepted unit by its folded spelling, the first analyte's first in table order, built on first
+// use: walking every analyte's units for every call folded each of them again for each row of an import.
+let unitByKey: Map<string, string> | null = null
+
 /** Lab systems spell units many ways (umol/l, μmol/L with a Greek mu, G/DL); one spelling is stored. */
 export function normaliseUnit(unit: string): string {
-  const key = unit.trim().replace(/[µμ]/g, 'u').toLowerCase()
-  for (const def of Object.values(ANALYTE_DEFS)) {
-    for (const u of Object.keys(def.units)) if (u.replace('µ', 'u').toLowerCase() === key) return u
+  if (!unitByKey) {
+    unitByKey = new Map()
+    for (const def of Object.values(ANALYTE_DEFS))
+      for (const u of Object.keys(def.units)) {
+        const folded = u.replace('µ', 'u').toLowerCase()
+        if (!unitByKey.has(folded)) unitByKey.set(folded, u)
+      }
   }
-  return unit.trim()
+  return unitByKey.get(unit.trim().replace(/[µμ]/g, 'u').toLowerCase()) ?? unit.trim()
 }
 
 export function unitsFor(analyte: Analyte): string[] {
