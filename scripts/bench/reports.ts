@@ -6,7 +6,9 @@ import mariadb, { type ConnectionConfig } from 'mariadb'
 import { hashPassword } from '../../server/services/passwords'
 import { BENCH_PASSWORD } from './benchData'
 import { cpuMs, signIn, startBenchServer } from './server'
-import { REBUILD_SQL } from '../../server/services/reports/episodeFactsSql'
+import { loadConfig } from '../../server/config'
+import { createSequelize } from '../../server/db'
+import { rebuildEpisodeFacts } from '../../server/services/reports/episodeFacts'
 
 // 'quality' answers at /api/reports/quality with its own shape; timed the same way.
 const REPORTS = ['funnel', 'haemoglobin', 'transfusion', 'waiting-times', 'blood-ordering', 'quality']
@@ -93,19 +95,17 @@ async function ensureCancellationData(db: ConnectionConfig): Promise<boolean> {
 /**
  * The rows above are written straight to the tables, not through the services that keep the quality report's
  * per-episode pre-aggregate (episode_facts, migration 0026): after them it is rebuilt from scratch, as ops do after
- * hand-written data. Returns the rebuild's time, a figure of its own.
+ * hand-written data, by the same rebuildEpisodeFacts that `npm run db:episode-facts` runs. Returns the rebuild's time, a
+ * figure of its own.
  */
-async function rebuildFacts(db: ConnectionConfig): Promise<number> {
-  const conn = await mariadb.createConnection(db)
+async function rebuildFacts(env: NodeJS.ProcessEnv): Promise<number> {
+  const sequelize = createSequelize(loadConfig(env))
   try {
     const t0 = performance.now()
-    await conn.beginTransaction()
-    await conn.query('DELETE FROM episode_facts')
-    await conn.query(REBUILD_SQL)
-    await conn.commit()
+    await rebuildEpisodeFacts(sequelize)
     return Math.round(performance.now() - t0)
   } finally {
-    await conn.end()
+    await sequelize.close()
   }
 }
 
@@ -113,7 +113,7 @@ async function rebuildFacts(db: ConnectionConfig): Promise<number> {
 export async function benchReports(env: NodeJS.ProcessEnv, databasePid?: number) {
   const db = { host: env.DB_HOST, port: Number(env.DB_PORT), user: env.DB_USER, password: env.DB_PASSWORD, database: env.DB_NAME }
   const added = [await ensureReportData(db), await ensureQualityData(db), await ensureCancellationData(db)]
-  const factsRebuildMs = added.some(Boolean) ? await rebuildFacts(db) : null
+  const factsRebuildMs = added.some(Boolean) ? await rebuildFacts(env) : null
   const server = await startBenchServer(env, 8098)
   try {
     const cookie = await signIn(server.url, ADMIN, BENCH_PASSWORD)
