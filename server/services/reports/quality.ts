@@ -68,32 +68,23 @@ function add(into: Sums, g: Sums): void {
   })
 }
 /**
- * Issue #19: the main statement can be split by referral id into SHARES statements on their own pool
- * connections (no transaction holds them), so MariaDB runs them side by side; a group can appear in each share,
- * and its sums are added here. With the correlated lookups (125 ms of MariaDB CPU) two shares halved the
- * critical path. With the episode_facts pre-aggregate the statement costs about 45 ms, and the server's
- * decoding of the grouped rows (each share returns about as many groups as the whole) became the larger part:
- * one share, measured interleaved on the bench database, server CPU per report 107 → 74 ms, wall median
- * 167 → 124 ms (load 5). Kept as a setting for a larger database.
+ * The main statement returns one row per procedure, surgeon and month (its GROUP BY). Issue #19: it was once
+ * split by referral id into statements on two pool connections, which paid while it ran correlated lookups;
+ * since it reads the episode_facts pre-aggregate, one statement is faster (server CPU per report 107 → 74 ms,
+ * wall median 167 → 124 ms, measured interleaved on the bench database), so the split was taken out.
  */
-const SHARES = 1
-function addShares(rows: Record<string, unknown>[]): { procedureId: number; surgeonId: number; month: string; sums: Sums }[] {
-  const byKey = new Map<string, { procedureId: number; surgeonId: number; month: string; sums: Sums }>()
-  for (const g of rows) {
-    const key = `${String(g.procedureId)}/${String(g.surgeonId)}/${String(g.month)}`
-    let group = byKey.get(key)
-    if (!group) {
-      group = { procedureId: num(g.procedureId)!, surgeonId: num(g.surgeonId)!, month: String(g.month), sums: empty() }
-      byKey.set(key, group)
-    }
-    add(group.sums, {
+function toGroups(rows: Record<string, unknown>[]): { procedureId: number; surgeonId: number; month: string; sums: Sums }[] {
+  return rows.map((g) => ({
+    procedureId: num(g.procedureId)!,
+    surgeonId: num(g.surgeonId)!,
+    month: String(g.month),
+    sums: {
       operated: num(g.operated) ?? 0,
       rbcUnits: num(g.rbcUnits) ?? 0,
       n: QUALITY_MEASURE_IDS.map((_, i) => num(g[`n${i}`]) ?? 0),
       d: QUALITY_MEASURE_IDS.map((_, i) => num(g[`d${i}`]) ?? 0),
-    })
-  }
-  return [...byKey.values()]
+    },
+  }))
 }
 const figures = (s: Sums) =>
   Object.fromEntries(
@@ -107,16 +98,12 @@ export async function qualityReport(sequelize: Sequelize, f: ReportFilters): Pro
   const [maleGL, femaleGL] = [threshold('male'), threshold('female')]
   const sameForBoth = maleGL === femaleGL
   const replacements = { ...w.replacements, maleGL, femaleGL, txaLossMl: TXA_EXPECTED_LOSS_ML }
-  const [shares, preHb, extras] = await Promise.all([
-    Promise.all(
-      Array.from({ length: SHARES }, (_, i) =>
-        select<Record<string, unknown>>(sequelize, SQL(`${w.sql} AND MOD(o.referral_id, ${SHARES}) = ${i}`, sameForBoth), replacements),
-      ),
-    ),
+  const [main, preHb, extras] = await Promise.all([
+    select<Record<string, unknown>>(sequelize, SQL(w.sql, sameForBoth), replacements),
     select<{ value: unknown; n: unknown }>(sequelize, PRE_HB_SQL(w.sql), w.replacements),
     qualityExtras(sequelize, f),
   ])
-  const groups = addShares(shares.flat())
+  const groups = toGroups(main)
   mergeExtras(groups, extras, QUALITY_MEASURE_IDS, empty)
   const total = empty()
   for (const g of groups) add(total, g.sums)
