@@ -3,7 +3,7 @@
  * directory inside the repository, its own port on loopback, never the system's 3306.
  */
 import { spawn, execFileSync, type ChildProcess } from 'node:child_process'
-import { existsSync, mkdirSync, readFileSync } from 'node:fs'
+import { existsSync, mkdirSync, readFileSync, renameSync, rmSync } from 'node:fs'
 import { createHash } from 'node:crypto'
 import { tmpdir } from 'node:os'
 import path from 'node:path'
@@ -66,11 +66,23 @@ export function findMariaDbd(): string | null {
 function initialise(dataDir: string, label: string): void {
   const db = path.join(dataDir, 'db')
   if (existsSync(path.join(db, 'mysql'))) return
-  mkdirSync(db, { recursive: true })
   console.log(`[${label}] initialising a new MariaDB data directory in ${db}`)
-  const args = ['--no-defaults', `--datadir=${db}`, '--auth-root-authentication-method=normal', '--skip-test-db', '--skip-name-resolve']
+  // Installed beside and renamed once complete: an install killed or failed half-way would otherwise leave a
+  // directory that looks ready (it has mysql/), and every later run would skip the install and be refused as root.
+  const partial = `${db}.partial`
+  rmSync(partial, { recursive: true, force: true })
+  mkdirSync(partial, { recursive: true })
+  const args = [
+    '--no-defaults',
+    `--datadir=${partial}`,
+    '--auth-root-authentication-method=normal',
+    '--skip-test-db',
+    '--skip-name-resolve',
+  ]
   if (runningAsRoot()) args.push('--user=root')
   execFileSync('mariadb-install-db', args, { stdio: ['ignore', 'ignore', 'inherit'] })
+  rmSync(db, { recursive: true, force: true })
+  renameSync(partial, db)
 }
 
 async function canConnect(socket: string): Promise<boolean> {
