@@ -40,9 +40,12 @@ export function refreshHbMilestones(t: Transaction, referralIds: Iterable<number
 /**
  * Every row from scratch, deterministically (migration 0027; `npm run db:episode-facts` after writing to the
  * tables by hand; the demo seed; the bench). One transaction: readers see the old table or the new one.
+ * Then the table's statistics: with those of the empty table the refresh's DELETE read the whole table for each
+ * thousand ids instead of their primary keys (measured on the bench database: 360 against 45 ms of MariaDB CPU
+ * for all 25 000 referrals).
  */
 export async function rebuildMilestones(sequelize: Sequelize): Promise<number> {
-  return sequelize.transaction(async (t) => {
+  const n = await sequelize.transaction(async (t) => {
     await sequelize.query('DELETE FROM referral_milestones', { transaction: t })
     await sequelize.query(REBUILD_SQL, { transaction: t })
     const [row] = await sequelize.query<{ n: unknown }>('SELECT COUNT(*) AS n FROM referral_milestones', {
@@ -51,4 +54,6 @@ export async function rebuildMilestones(sequelize: Sequelize): Promise<number> {
     })
     return Number(row?.n ?? 0)
   })
+  await sequelize.query('ANALYZE TABLE referral_milestones')
+  return n
 }
