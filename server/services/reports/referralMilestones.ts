@@ -54,6 +54,6 @@ export async function rebuildMilestones(sequelize: Sequelize): Promise<number> {
     })
     return Number(row?.n ?? 0)
   })
-  await sequelize.query('ANALYZE TABLE referral_milestones')
+  await sequelize.query('ANALYZE TABLE referral_milestones', { type: QueryTypes.SELECT })
   return n
 }
