@@ -7,6 +7,7 @@ import { loadDemoOutcomes } from './demo/outcomes'
 import { loadDemoAppointments } from './demo/appointments'
 import { loadDemoDateRequest, loadDemoTreatments, loadFormulary } from './demo/clinic'
 import { rebuildEpisodeFacts } from '../server/services/reports/episodeFacts'
+import { rebuildMilestones } from '../server/services/reports/referralMilestones'
 
 /**
  * Loads the invented demo scenario, only into an empty database (so a restart keeps real work).
@@ -33,7 +34,9 @@ export async function loadDemoScenario(sequelize: Sequelize): Promise<boolean> {
   // Needs the committed episodes: the stored request carries the projection the surgeon saw.
   await loadDemoDateRequest(sequelize)
   // The demo rows were written straight to the tables, not through the services: the quality report's
-  // per-episode facts are built from them from scratch, as after any hand-written data.
+  // per-episode facts and the funnel's per-referral milestones are built from them from scratch, as after any
+  // hand-written data.
   await rebuildEpisodeFacts(sequelize)
+  await rebuildMilestones(sequelize)
   return true
 }

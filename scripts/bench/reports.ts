@@ -9,6 +9,7 @@ import { cpuMs, signIn, startBenchServer } from './server'
 import { loadConfig } from '../../server/config'
 import { createSequelize } from '../../server/db'
 import { rebuildEpisodeFacts } from '../../server/services/reports/episodeFacts'
+import { rebuildMilestones } from '../../server/services/reports/referralMilestones'
 
 // 'quality' answers at /api/reports/quality with its own shape; timed the same way.
 const REPORTS = ['funnel', 'haemoglobin', 'transfusion', 'waiting-times', 'blood-ordering', 'quality']
@@ -94,15 +95,16 @@ async function ensureCancellationData(db: ConnectionConfig): Promise<boolean> {
 
 /**
  * The rows above are written straight to the tables, not through the services that keep the quality report's
- * per-episode pre-aggregate (episode_facts, migration 0026): after them it is rebuilt from scratch, as ops do after
- * hand-written data, by the same rebuildEpisodeFacts that `npm run db:episode-facts` runs. Returns the rebuild's time, a
- * figure of its own.
+ * per-episode pre-aggregate (episode_facts, migration 0026) and the funnel's per-referral milestones
+ * (referral_milestones, 0027): after them both are rebuilt from scratch, as ops do after hand-written data, by what
+ * `npm run db:episode-facts` runs. Returns the rebuilds' time, a figure of its own.
  */
 async function rebuildFacts(env: NodeJS.ProcessEnv): Promise<number> {
   const sequelize = createSequelize(loadConfig(env))
   try {
     const t0 = performance.now()
     await rebuildEpisodeFacts(sequelize)
+    await rebuildMilestones(sequelize)
     return Math.round(performance.now() - t0)
   } finally {
     await sequelize.close()

@@ -19,6 +19,7 @@ import { isoOrNull, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
+import { refreshMilestones } from './reports/referralMilestones'
 
 export function toAdministrationView(a: Administration & { giver?: User | null }): AdministrationView {
   return {
@@ -112,6 +113,7 @@ export async function recordAdministration(
     await Referral.update({ treatmentGivenAt: givenAt, recheckDueDate }, { where: { id: referralId }, transaction: t })
     await refreshIronResponse(sequelize, [referralId], t)
     await refreshEpisodeFacts(t, [referralId]) // iron before surgery
+    await refreshMilestones(t, [referralId]) // the first dose (and the move to treating, refreshed by recordMove too)
     const view = toAdministrationView(a)
     await recordAudit(t, viewer, {
       action: 'create',

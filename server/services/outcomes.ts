@@ -10,6 +10,7 @@ import { redCellUnitsByPhase } from './transfusionCounts'
 import { isoOrNull, staleVersion, type Viewer } from './viewer'
 import { NotFound, RuleRefused } from '../errors'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
+import { refreshMilestones } from './reports/referralMilestones'
 
 function toOutcomeView(o: Outcome): OutcomeView {
   return {
@@ -107,6 +108,7 @@ export async function recordOutcome(sequelize: Sequelize, viewer: Viewer, referr
     const version = await bumpVersion(t, r)
     // The surgery date moves every fact that is counted against it.
     await refreshEpisodeFacts(t, [referralId])
+    await refreshMilestones(t, [referralId]) // the episode counts as operated, with this surgery date
     const view = toOutcomeView(row)
     const diff = before ? changedFields(before, view) : { before: null, after: view }
     await recordAudit(t, viewer, {

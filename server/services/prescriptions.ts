@@ -18,6 +18,7 @@ import { clinical, isoOrNull, staleVersion, type Viewer } from './viewer'
 import { Invalid, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
+import { refreshMilestones } from './reports/referralMilestones'
 
 export const PHOSPHATE_SOURCE =
   'Ferinject SmPC 4.4; MHRA Drug Safety Update 2020: check serum phosphate before repeated high doses (hypophosphataemia, osteomalacia)'
@@ -215,6 +216,7 @@ export async function prescribe(
     )
     if (count !== 1) throw staleVersion('This referral')
     await refreshEpisodeFacts(t, [referralId]) // a prescription marks the episode iron deficient
+    await refreshMilestones(t, [referralId])
     const view = toPrescriptionView(p)
     await recordAudit(t, viewer, { action: 'create', entity: 'prescription', entityId: p.id, patientId: locked.patientId, after: view })
     return { prescription: view, version: locked.version + 1 }

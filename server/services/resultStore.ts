@@ -10,6 +10,7 @@ import { clinical, type Viewer } from './viewer'
 import { rawBatchInTransaction, rawInTransaction, type RawValue } from './rawTransaction'
 import { utcText } from './utcText'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
+import { refreshHbMilestones } from './reports/referralMilestones'
 import { utcParam } from './rawRead'
 
 /**
@@ -265,6 +266,7 @@ export async function rescreenAndAudit(
   const ids = [...perReferral.keys()]
   await refreshScreeningMany(sequelize, ids, t)
   await refreshEpisodeFacts(t, ids)
+  await refreshHbMilestones(t, ids)
   await insertEpisodeAudit(
     sequelize,
     viewer,

@@ -10,6 +10,7 @@ import { assertMaySeeReferral, clinical, isoOrNull, type Viewer } from './viewer
 import { Conflict, Invalid, NotFound, RuleRefused } from '../errors'
 import { unitOfWork } from '../unitOfWork'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
+import { refreshHbMilestones } from './reports/referralMilestones'
 
 export function toResultView(r: Result & { enteredByUser?: User | null }): ResultView {
   return {
@@ -80,6 +81,7 @@ export async function addResult(sequelize: Sequelize, viewer: Viewer, referralId
     const before = screeningView(referral, patient.sex)
     await refreshScreening(referral, patient.sex, t)
     await refreshEpisodeFacts(t, [referral.id])
+    await refreshHbMilestones(t, [referral.id]) // the funnel's and waiting times' first and last Hb
     await referral.reload({ transaction: t })
     const screening = screeningView(referral, patient.sex)
     const view = toResultView(result)

@@ -7,6 +7,7 @@ import { referralDetail } from './referralDetail'
 import { assertMaySeeReferral, staleVersion, type Viewer } from './viewer'
 import { Forbidden, NotFound, RuleRefused } from '../errors'
 import { worklistChanged } from './worklistCounts'
+import { refreshMilestones } from './reports/referralMilestones'
 import type { ReferralDetail } from '../../shared/pathway/views'
 
 /**
@@ -88,6 +89,7 @@ export async function recordMove(t: Transaction, viewer: Viewer, r: Referral, to
     { referralId: r.id, fromStage: r.stage, toStage: to, reason, userId: viewer.userId },
     { transaction: t },
   )
+  await refreshMilestones(t, [r.id]) // cleared, operated and the first move to clinic (funnel, waiting times)
   await recordAudit(t, viewer, {
     action: 'transition',
     entity: 'referral',

@@ -9,6 +9,7 @@ import { csv, HEADER, uploadCsv } from '../helpers/importFixtures'
 import { ackCode, oru, send } from '../helpers/hl7'
 import { startTestListener } from '../helpers/hl7Listener'
 import { factsFromScratch, storedFacts, type EpisodeFacts } from '../helpers/episodeFacts'
+import { milestonesFromScratch, storedMilestones, type Milestones } from '../helpers/referralMilestones'
 import type { MllpListener } from '../../server/services/hl7/listener'
 import { Referral } from '../../server/models/index'
 import { addDays, todayIso } from '../../shared/pathway'
@@ -21,6 +22,9 @@ import { addDays, todayIso } from '../../shared/pathway'
  * recorded, corrected and voided, the post-operative record and a move of its surgery date, a postponement
  * for anaemia. After each step the table must equal the facts worked out from the raw rows in TypeScript
  * (tests/helpers/episodeFacts.ts), and the quality report the count from those facts.
+ * The funnel's and waiting times' per-referral milestones (referral_milestones, migration 0027) are kept by the
+ * same writers and by every stage move: after each step that table must equal the milestones worked out from the
+ * raw rows (tests/helpers/referralMilestones.ts) too.
  */
 let t: TestApp
 let listener: MllpListener
@@ -28,7 +32,7 @@ let port: number
 let doctor: Client
 let nurse: Client
 let asAdmin: Client
-const ids = { e1: 0, e2: 0, e3: 0, e4: 0 }
+const ids = { e1: 0, e2: 0, e3: 0, e4: 0, e5: 0 }
 
 const today = todayIso()
 const day = (n: number) => addDays(today, n)
@@ -48,7 +52,7 @@ beforeAll(async () => {
   nurse = await new Client(t.app).mustSignIn(n.email, n.password)
   asAdmin = await new Client(t.app).mustSignIn(a.email, a.password)
   // Operated episodes referred 90 days ago, with no Hb yet (the results come through the routes below).
-  const episode = async (mrn: string, sex: 'female' | 'male', stage: 'operated' | 'clinic') => {
+  const episode = async (mrn: string, sex: 'female' | 'male', stage: 'operated' | 'clinic' | 'screened') => {
     const e = await makeEpisode({
       surgeonId: surgeon.id,
       sex,
@@ -67,6 +71,7 @@ beforeAll(async () => {
   ids.e2 = await episode('QEF0002', 'male', 'operated')
   ids.e3 = await episode('QEF0003', 'female', 'operated')
   ids.e4 = await episode('QEF0004', 'female', 'clinic')
+  ids.e5 = await episode('QEF0005', 'male', 'screened')
 })
 afterAll(async () => {
   await listener.stop()
@@ -74,8 +79,15 @@ afterAll(async () => {
 })
 
 async function expectFactsFromScratch(): Promise<Map<number, EpisodeFacts>> {
+  await expectMilestonesFromScratch()
   const scratch = await factsFromScratch()
   expect(await storedFacts(t.sequelize)).toEqual(scratch)
+  return scratch
+}
+
+async function expectMilestonesFromScratch(): Promise<Map<number, Milestones>> {
+  const scratch = await milestonesFromScratch()
+  expect(await storedMilestones(t.sequelize)).toEqual(scratch)
   return scratch
 }
 
@@ -207,6 +219,36 @@ describe('the quality pre-aggregate after writes through the routes', () => {
       anyTransfusions: 1,
       informationOnTransfusion: 0,
     })
+  })
+
+  it('when the laboratory deletes an HL7 Hb, then the last Hb is the one before it again', async () => {
+    const at = new Date(`${noon(-1)}`)
+    const [added] = await send(port, oru({ mrn: 'QEF0004', at, obx: [{ value: '99', unit: 'g/L', at }] }))
+    expect(ackCode(added!)).toBe('AA')
+    expect((await expectMilestonesFromScratch()).get(ids.e4)).toMatchObject({ firstHbAt: noon(-2), lastHbAt: noon(-1) })
+    const [deleted] = await send(port, oru({ mrn: 'QEF0004', at, obx: [{ value: '', unit: 'g/L', status: 'D', at }] }))
+    expect(ackCode(deleted!)).toBe('AA')
+    expect((await expectMilestonesFromScratch()).get(ids.e4)).toMatchObject({ firstHbAt: noon(-2), lastHbAt: noon(-2) })
+  })
+
+  it('when an imported Hb is reversed and the episode moves to clinic, cleared and operated, then its milestones follow', async () => {
+    expect((await expectMilestonesFromScratch()).has(ids.e5)).toBe(false)
+    const imported = await uploadCsv(nurse, csv([HEADER, ['QEF0005', 'HB', 140, 'g/L', noon(-8).replace('.000Z', 'Z')]]), {
+      commit: true,
+    })
+    expect(imported.status, JSON.stringify(imported.body)).toBe(201)
+    expect((await expectMilestonesFromScratch()).get(ids.e5)).toMatchObject({ firstHbAt: noon(-8), lastHbAt: noon(-8) })
+    const reversed = await doctor.post(`/api/imports/${imported.body.batchId}/reversal`, { reason: 'File of another hospital' })
+    expect(reversed.status, JSON.stringify(reversed.body)).toBe(200)
+    // Nothing left: no row, as a referral without milestones has none.
+    expect((await expectMilestonesFromScratch()).has(ids.e5)).toBe(false)
+    for (const to of ['clinic', 'cleared', 'operated'] as const) {
+      const res = await doctor.post(`/api/referrals/${ids.e5}/transitions`, { to, version: await version(ids.e5) })
+      expect(res.status, JSON.stringify(res.body)).toBe(200)
+      await expectMilestonesFromScratch()
+    }
+    expect((await expectMilestonesFromScratch()).get(ids.e5)).toMatchObject({ cleared: 1, operated: 1, surgeryDate: null })
+    expect((await expectMilestonesFromScratch()).get(ids.e5)?.clinicAt).not.toBeNull()
   })
 
   it('when the quality report is asked for, then each measure built on the facts is the count from the raw rows', async () => {

@@ -2,6 +2,7 @@ import { QueryTypes, type Sequelize } from 'sequelize'
 import { Administration, Outcome, Prescription, Result, StageTransition } from '../../server/models/index'
 import { makePatient, makeProcedure, makeReferral } from '../helpers/pathwayFactories'
 import { makeStaff, type StaffFixture } from '../helpers/factories'
+import { factsAfterHandWrites } from '../helpers/episodeFacts'
 
 /**
  * Four episodes in 2025 and one referred in 2024, small enough that every report figure can
@@ -126,6 +127,8 @@ export async function makeReportFixture(sequelize: Sequelize): Promise<ReportFix
 
   await episode(s2.id, hip.id, '2025-06-01', { stage: 'referred' })
   await episode(s1.id, knee.id, '2024-12-01', { stage: 'referred' })
+  // Written straight to the tables: the reports' pre-aggregates are built from scratch after them.
+  await factsAfterHandWrites()
   return { s1, s2, ids }
 }
 

@@ -1,14 +1,17 @@
 import { QueryTypes, type Sequelize } from 'sequelize'
 import { Administration, Outcome, Prescription, Result, SurgeryDateChange, Transfusion } from '../../server/models/index'
 import { rebuildEpisodeFacts } from '../../server/services/reports/episodeFacts'
+import { rebuildMilestones } from '../../server/services/reports/referralMilestones'
 
 /**
- * Fixtures that write straight to the tables (not through the services, which keep the quality report's
- * pre-aggregate in their own transactions) then build it from scratch, as ops do after hand-written data
- * (`npm run db:episode-facts`).
+ * Fixtures that write straight to the tables (not through the services, which keep the reports' pre-aggregates
+ * in their own transactions) then build them from scratch, as ops do after hand-written data
+ * (`npm run db:episode-facts`): the quality report's episode facts and the funnel's referral milestones.
  */
-export function factsAfterHandWrites(): Promise<number> {
-  return rebuildEpisodeFacts(Outcome.sequelize!)
+export async function factsAfterHandWrites(): Promise<number> {
+  const n = await rebuildEpisodeFacts(Outcome.sequelize!)
+  await rebuildMilestones(Outcome.sequelize!)
+  return n
 }
 
 /** One operated episode's facts, as episode_facts (migration 0026) holds them. */

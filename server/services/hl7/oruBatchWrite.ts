@@ -9,6 +9,7 @@ import type { Plan, Resolved } from './oruBatch'
 import { insertMessages, insertResultAudits, messageKey, setChanges, type MessageRow, type ResultAudit } from './oruBatchSql'
 import { deriveForGroup, type Change } from './oruStore'
 import { refreshEpisodeFacts } from '../reports/episodeFacts'
+import { refreshHbMilestones } from '../reports/referralMilestones'
 
 /**
  * The write side of the HL7 batch path (oruBatch.ts decides, this writes): one statement per kind
@@ -88,10 +89,9 @@ export async function writeOruBatch(
     t,
   )
   // Every episode that got a result (not only those whose screening moved): the quality report's Hb facts.
-  await refreshEpisodeFacts(
-    t,
-    [...perGroup].filter(([, changes]) => changes.length).map(([r]) => r.referral.id),
-  )
+  const changed = [...perGroup].filter(([, changes]) => changes.length).map(([r]) => r.referral.id)
+  await refreshEpisodeFacts(t, changed)
+  await refreshHbMilestones(t, changed) // the funnel's and waiting times' first and last Hb
   const audits: ResultAudit[] = []
   const messageChanges = new Map<number, Change[]>()
   plans.forEach((p, i) => {

@@ -8,6 +8,7 @@ import { Hl7Problem } from './ack'
 import { addedDetail, decideObx, hl7Result, movesScreening } from './obxDecision'
 import type { ObxReading, OruGroup } from './oruRead'
 import { refreshEpisodeFacts } from '../reports/episodeFacts'
+import { refreshHbMilestones } from '../reports/referralMilestones'
 
 // Stages after which an episode takes no results (as for imports and bookings).
 const ENDED = ['closed', 'withdrawn']
@@ -188,6 +189,7 @@ export async function storeOru(
     // The columns just written are the only ones that changed: set them here rather than read the row again.
     if (rescreen) referral.set(await refreshScreening(referral, patient.sex, t), { raw: true })
     await refreshEpisodeFacts(t, [referral.id]) // added, corrected, voided or promoted: the quality report's Hb facts
+    await refreshHbMilestones(t, [referral.id]) // and the funnel's and waiting times' first and last Hb
     await recordAudit(t, ctx.actor, {
       action: 'hl7-results',
       entity: 'referral',

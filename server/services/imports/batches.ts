@@ -8,6 +8,7 @@ import { NotFound, RuleRefused } from '../../errors'
 import type { BatchView } from '../../../shared/imports'
 import { READ_ONLY_STAGES } from '../../../shared/pathway/stages'
 import { refreshEpisodeFacts } from '../reports/episodeFacts'
+import { refreshHbMilestones } from '../reports/referralMilestones'
 
 type Row = ImportBatch & { creator?: User | null; reverser?: User | null }
 const who = (u?: User | null) => (u ? { id: u.id, name: u.name } : null)
@@ -87,6 +88,10 @@ export async function reverseBatch(sequelize: Sequelize, viewer: Viewer, id: num
       t,
     )
     await refreshEpisodeFacts(
+      t,
+      affected.map((a) => a.referralId),
+    )
+    await refreshHbMilestones(
       t,
       affected.map((a) => a.referralId),
     )

@@ -1,20 +1,22 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, pct, select, whereFor, type ReportFilters } from './filters'
-import { MILESTONE_JOINS, WHOLE_PASSES } from './milestones'
+import { MILESTONE_JOIN } from './milestones'
 
-// One pass over the period's referrals with each one's milestones (milestones.ts).
-const SQL = (where: string) => `${WHOLE_PASSES}
+// One pass over the period's referrals with each one's milestones (milestones.ts). An episode has a
+// post-operative record exactly when m.surgery_date is set (the record's surgery date is NOT NULL).
+const SQL = (where: string) => `
 SELECT COUNT(*) AS referred,
-  SUM(fh.first_hb_at IS NOT NULL) AS screened,
-  SUM(r.anaemic = 1 OR r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR rx.referral_id IS NOT NULL) AS anaemicOrDeficient,
-  SUM(fd.first_dose_at IS NOT NULL) AS treated,
-  SUM(fd.first_dose_at IS NOT NULL AND fh.last_hb_at > fd.first_dose_at) AS rechecked,
-  SUM(COALESCE(st.cleared, 0)) AS cleared,
-  SUM(o.id IS NOT NULL OR COALESCE(st.operated, 0)) AS operated,
-  SUM((o.id IS NOT NULL OR COALESCE(st.operated, 0)) AND fh.first_hb_at IS NOT NULL
-    AND DATEDIFF(COALESCE(o.surgery_date, r.planned_surgery_date), fh.first_hb_at) >= 28) AS screenedEarly
-FROM referrals r LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
+  SUM(m.first_hb_at IS NOT NULL) AS screened,
+  SUM(r.anaemic = 1 OR r.iron_status IN ('absolute-deficiency', 'iron-restricted') OR COALESCE(m.prescribed, 0) = 1)
+    AS anaemicOrDeficient,
+  SUM(m.first_dose_at IS NOT NULL) AS treated,
+  SUM(m.first_dose_at IS NOT NULL AND m.last_hb_at > m.first_dose_at) AS rechecked,
+  SUM(COALESCE(m.cleared, 0)) AS cleared,
+  SUM(m.surgery_date IS NOT NULL OR COALESCE(m.operated, 0)) AS operated,
+  SUM((m.surgery_date IS NOT NULL OR COALESCE(m.operated, 0)) AND m.first_hb_at IS NOT NULL
+    AND DATEDIFF(COALESCE(m.surgery_date, r.planned_surgery_date), m.first_hb_at) >= 28) AS screenedEarly
+FROM referrals r${MILESTONE_JOIN}
 WHERE ${where}`
 
 const STEPS = [

@@ -1,7 +1,7 @@
 import type { Sequelize } from 'sequelize'
 import { PERIOD_BASIS, type Report } from '../../../shared/reports'
 import { num, round1, select, whereFor, type ReportFilters } from './filters'
-import { MILESTONE_JOINS, WHOLE_PASSES } from './milestones'
+import { MILESTONE_JOIN } from './milestones'
 import { groupedPercentile } from './percentile'
 
 const LEGS = [
@@ -17,19 +17,19 @@ const LEGS = [
 // leg and day (a few hundred rows); the median and 90th centile are read off those counts in
 // groupedPercentile. Issue #19: ten PERCENTILE_CONT window sorts over every episode cost about as
 // much MariaDB CPU again as the milestones themselves.
-// Where each end comes from (outcomes also has a created_at, so every column names its table).
+// Where each end comes from (the surgery date is the post-operative record's, NULL without one).
 const COLUMN = {
   created_at: 'r.created_at',
-  first_hb_at: 'fh.first_hb_at',
-  clinic_at: 'st.clinic_at',
-  first_dose_at: 'fd.first_dose_at',
-  surgery_date: 'o.surgery_date',
+  first_hb_at: 'm.first_hb_at',
+  clinic_at: 'm.clinic_at',
+  first_dose_at: 'm.first_dose_at',
+  surgery_date: 'm.surgery_date',
 }
 const LEG_DAYS = LEGS.map((_, i) => `WHEN ${i} THEN t.l${i}`).join(' ')
-const SQL = (where: string) => `${WHOLE_PASSES}
+const SQL = (where: string) => `
 WITH t AS (
   SELECT ${LEGS.map(([, , a, b], i) => `DATEDIFF(${COLUMN[b]}, ${COLUMN[a]}) AS l${i}`).join(', ')}, COUNT(*) AS n
-  FROM referrals r LEFT JOIN outcomes o ON o.referral_id = r.id${MILESTONE_JOINS}
+  FROM referrals r${MILESTONE_JOIN}
   WHERE ${where}
   GROUP BY ${LEGS.map((_, i) => `l${i}`).join(', ')}
 )
