@@ -72,7 +72,7 @@ export async function insertResults(sequelize: Sequelize, rows: readonly NewResu
  * sometimes whole (eGFR 61 after 60.8, an Hb of 120 after a ferritin of 8.5) went as thousands of
  * commands: 2 700 for the bench's 15 775 derived eGFR rows. MariaDB reads the text into the DOUBLE
  * column as it reads a number in the text protocol (correctly rounded; JavaScript's shortest
- * round-trip form), so the stored double is the same (README, performance notes: hashed against main).
+ * round-trip form), so the stored double is the same (hazard H-125; README, performance notes: hashed against main).
  */
 function bulkRowValues(r: NewResult, now: Date | string): RawValue[] {
   const v = rowValues(r, now)
