@@ -21,6 +21,7 @@ import * as m0024 from './0024-report-covering-index'
 import * as m0025 from './0025-report-range-indexes'
 import * as m0026 from './0026-episode-facts'
 import * as m0027 from './0027-referral-milestones'
+import * as m0028 from './0028-referrals-open-episode-index'
 
 export interface Migration {
   name: string
@@ -52,4 +53,5 @@ export const migrations: Migration[] = [
   { name: '0025-report-range-indexes', ...m0025 },
   { name: '0026-episode-facts', ...m0026 },
   { name: '0027-referral-milestones', ...m0027 },
+  { name: '0028-referrals-open-episode-index', ...m0028 },
 ]

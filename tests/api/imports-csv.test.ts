@@ -169,6 +169,38 @@ describe('committing an import', () => {
       expect(await Result.count({ where: { analyte: 'egfr' } })).toBe(1)
     },
   )
+
+  it(
+    'when whole and fractional values alternate in one file, then each is stored exactly as read (the bulk insert sends them as ' +
+      'decimal text, H-126)',
+    async () => {
+      const T2 = takenHoursAgo(4)
+      const res = await uploadCsv(
+        c,
+        csv([
+          HEADER,
+          ['IMP0001', 'HB', 105, 'g/L', T1],
+          ['IMP0001', 'FERR', 8.5, 'ug/L', T1],
+          ['IMP0001', 'CRP', 0.3, 'mg/L', T1],
+          ['IMP0001', 'CREAT', 79.56, 'umol/L', T1],
+          ['IMP0001', 'HB', 12.3, 'g/dL', T2],
+          ['IMP0001', 'FERR', 30, 'ug/L', T2],
+        ]),
+        { commit: true },
+      ).expect(201)
+      expect(res.body).toMatchObject({ accepted: 6 })
+      const stored = await Result.findAll({ where: { importBatchId: res.body.batchId, source: 'lab-csv' }, raw: true })
+      const seen = stored.map((r) => [r.analyte, r.valueCanonical, r.valueReported]).sort((a, b) => String(a).localeCompare(String(b)))
+      expect(seen).toEqual([
+        ['creatinine', 79.56, 79.56],
+        ['crp', 0.3, 0.3],
+        ['ferritin', 30, 30],
+        ['ferritin', 8.5, 8.5],
+        ['hb', 105, 105],
+        ['hb', 123, 12.3],
+      ])
+    },
+  )
 })
 
 describe('files and fields that are refused', () => {
