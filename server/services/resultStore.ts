@@ -29,6 +29,8 @@ export interface NewResult {
   valueReported: number | null
   unitReported: string | null
   takenAt: Date
+  /** takenAt as the UTC text insertResults sends, when the caller has it already (an import's matched rows). */
+  takenAtUtc?: string
   enteredBy: number | null
   source: ResultSource
   derivedFrom?: number[] | null
@@ -61,7 +63,7 @@ export async function insertResults(sequelize: Sequelize, rows: readonly NewResu
     sequelize,
     t,
     `INSERT INTO results ${COLUMNS} VALUES ${PLACEHOLDERS}`,
-    rows.map((r) => rowValues(r, now)),
+    rows.map((r) => rowValues(r, now, r.takenAtUtc ?? utcParam(r.takenAt))),
   )
 }
 
@@ -80,7 +82,7 @@ export async function insertResultsReturningIds(sequelize: Sequelize, rows: read
   return out.map((r) => r.id)
 }
 
-function rowValues(r: NewResult, now: Date | string): RawValue[] {
+function rowValues(r: NewResult, now: Date | string, takenAt: Date | string = r.takenAt): RawValue[] {
   return [
     r.referralId,
     r.patientId,
@@ -89,7 +91,7 @@ function rowValues(r: NewResult, now: Date | string): RawValue[] {
     unitOf(r.analyte),
     r.valueReported,
     r.unitReported,
-    r.takenAt,
+    takenAt,
     r.enteredBy,
     r.source,
     r.derivedFrom ? JSON.stringify(r.derivedFrom) : null,
