@@ -3,7 +3,14 @@ import { createReadStream } from 'node:fs'
 import { pipeline } from 'node:stream'
 import { parse, CsvError } from 'csv-parse'
 import type { Sequelize } from 'sequelize'
-import { checkCsvFields, mappedColumnIndexes, MAPPED_FIELDS, type Checked, type ColumnMapping, type MappedField } from '../../../shared/imports'
+import {
+  checkCsvFields,
+  mappedColumnIndexes,
+  MAPPED_FIELDS,
+  type Checked,
+  type ColumnMapping,
+  type MappedField,
+} from '../../../shared/imports'
 import { Invalid, RuleRefused } from '../../errors'
 import { LIMITS } from '../../../shared/limits'
 import type { Viewer } from '../viewer'
@@ -112,7 +119,8 @@ export async function importLabCsv(
               ok: false,
               code: 'bad-row',
               reason:
-                `row has a different number of fields from the header (${distinctNames(header, fields.length)} of ` + `${header.length} read)`,
+                `row has a different number of fields from the header (${distinctNames(header, fields.length)} of ` +
+                `${header.length} read)`,
             }
           : checkCsvFields(fields, columns!, input.mapping, timeZone, now)
       chunk.push({ row, checked })
