@@ -29,7 +29,7 @@ export async function rawInTransaction<T = unknown>(
     const site = new Error()
     try {
       const options = how.plainRows ? { sql, typeCast: undefined } : sql
-      return await (how.prepared ? conn.execute<T>(options, params) : conn.query<T>(options, params))
+      return await conn.query<T>(options, params)
     } catch (err) {
       throw await driverError(sequelize, conn, t, err, site.stack)
     }
@@ -37,15 +37,12 @@ export async function rawInTransaction<T = unknown>(
 }
 
 /**
- * How rawInTransaction sends a statement. `prepared`: as a server-side prepared statement (the driver's
- * `execute`, binary protocol), kept per connection by its text, so a statement sent once per chunk of
- * an import with a thousand rows of `?` is parsed by MariaDB once and its values are sent as binary,
- * not escaped into text. `plainRows`: rows come back without the connection's type cast (Sequelize's,
- * which only turns DATE and DATETIME into other types but wraps every value it reads), for a read
- * that returns no DATE or DATETIME column.
+ * How rawInTransaction sends a statement. `plainRows`: rows come back without the connection's type cast
+ * (Sequelize's, which only turns DATE and DATETIME into other types but wraps every value it reads), for
+ * a read that returns no DATE or DATETIME column. (Sending the import's chunk statements as server-side
+ * prepared statements was measured and cost more server CPU, not less: README, performance notes.)
  */
 export interface RawHow {
-  prepared?: boolean
   plainRows?: boolean
 }
 
