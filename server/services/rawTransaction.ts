@@ -19,17 +19,31 @@ export async function rawInTransaction<T = unknown>(
   t: Transaction | undefined,
   sql: string,
   values: readonly RawValue[],
+  how: RawHow = {},
 ): Promise<T> {
   logRawStatement(sequelize, sql, values)
-  const params = values.map(utcParam)
+  // A copy only when there is a Date to write as UTC text (an import's chunks send theirs as text already).
+  const params = values.some((v) => v instanceof Date) ? values.map(utcParam) : values
   return withDriverConnection(sequelize, { type: 'write', transaction: t }, async (conn) => {
-    const stack = new Error().stack
+    // The call site's stack, formatted only if the statement fails (formatting it is the dear part).
+    const site = new Error()
     try {
-      return await conn.query<T>(sql, params)
+      const options = how.plainRows ? { sql, typeCast: undefined } : sql
+      return await conn.query<T>(options, params)
     } catch (err) {
-      throw await driverError(sequelize, conn, t, err, stack)
+      throw await driverError(sequelize, conn, t, err, site.stack)
     }
   })
+}
+
+/**
+ * How rawInTransaction sends a statement. `plainRows`: rows come back without the connection's type cast
+ * (Sequelize's, which only turns DATE and DATETIME into other types but wraps every value it reads), for
+ * a read that returns no DATE or DATETIME column. (Sending the import's chunk statements as server-side
+ * prepared statements was measured and cost more server CPU, not less: README, performance notes.)
+ */
+export interface RawHow {
+  plainRows?: boolean
 }
 
 /**
@@ -47,13 +61,14 @@ export async function rawBatchInTransaction(
 ): Promise<void> {
   if (!rows.length) return
   logRawStatement(sequelize, sql, rows)
-  const params = rows.map((r) => r.map(utcParam))
+  // A row without a Date (an import's rows carry their times as UTC text already) is sent as it is.
+  const params = rows.map((r) => (r.some((v) => v instanceof Date) ? r.map(utcParam) : r))
   await withDriverConnection(sequelize, { type: 'write', transaction: t }, async (conn) => {
-    const stack = new Error().stack
+    const site = new Error()
     try {
-      await conn.batch(sql, params)
+      await conn.batch(sql, params as RawValue[][])
     } catch (err) {
-      throw await driverError(sequelize, conn, t, err, stack)
+      throw await driverError(sequelize, conn, t, err, site.stack)
     }
   })
 }

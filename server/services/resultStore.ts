@@ -30,6 +30,8 @@ export interface NewResult {
   valueReported: number | null
   unitReported: string | null
   takenAt: Date
+  /** takenAt as the UTC text insertResults sends, when the caller has it already (an import's matched rows). */
+  takenAtUtc?: string
   enteredBy: number | null
   source: ResultSource
   derivedFrom?: number[] | null
@@ -76,9 +78,9 @@ export async function insertResults(sequelize: Sequelize, rows: readonly NewResu
  * round-trip form), so the stored double is the same (hazard H-126; README, performance notes: hashed against main).
  */
 function bulkRowValues(r: NewResult, now: Date | string): RawValue[] {
-  const v = rowValues(r, now)
-  v[3] = asText(r.valueCanonical)
-  v[5] = asText(r.valueReported)
+  const v = rowValues(r, now, r.takenAtUtc ?? utcParam(r.takenAt))
+  v[VALUE_CANONICAL] = asText(r.valueCanonical)
+  v[VALUE_REPORTED] = asText(r.valueReported)
   return v
 }
 const asText = (n: number | null) => (n == null ? null : String(n))
@@ -98,7 +100,10 @@ export async function insertResultsReturningIds(sequelize: Sequelize, rows: read
   return out.map((r) => r.id)
 }
 
-function rowValues(r: NewResult, now: Date | string): RawValue[] {
+const VALUE_CANONICAL = 3
+const VALUE_REPORTED = 5
+
+function rowValues(r: NewResult, now: Date | string, takenAt: Date | string = r.takenAt): RawValue[] {
   return [
     r.referralId,
     r.patientId,
@@ -107,7 +112,7 @@ function rowValues(r: NewResult, now: Date | string): RawValue[] {
     unitOf(r.analyte),
     r.valueReported,
     r.unitReported,
-    r.takenAt,
+    takenAt,
     r.enteredBy,
     r.source,
     r.derivedFrom ? JSON.stringify(r.derivedFrom) : null,

@@ -48,15 +48,52 @@ export function zoneOffsetMs(instant: Date, timeZone: string): number {
   return asUtc - Math.floor(instant.getTime() / 1000) * 1000
 }
 
+const DAY_MS = 86_400_000
+// The UTC offset of each zone over each UTC day, or null on a day whose offset changes.
+const dayOffsets = new Map<string, Map<number, number | null>>()
+
+/**
+ * The zone's offset over the whole UTC day `day` (days since 1970), or null when it changes that
+ * day. Intl's formatToParts costs about 40 µs a call, so each day is asked about once (its first
+ * and last second) instead of once per instant: re-screening reads the clinic day of every Hb, and
+ * a laboratory file in wall-clock time converts every row's time (README, performance notes).
+ */
+export function steadyOffsetOnUtcDay(day: number, timeZone: string): number | null {
+  let zone = dayOffsets.get(timeZone)
+  if (!zone) dayOffsets.set(timeZone, (zone = new Map()))
+  let offset = zone.get(day)
+  if (offset === undefined) {
+    const first = zoneOffsetMs(new Date(day * DAY_MS), timeZone)
+    const last = zoneOffsetMs(new Date((day + 1) * DAY_MS - 1000), timeZone)
+    offset = first === last ? first : null
+    if (zone.size >= 20_000) zone.clear()
+    zone.set(day, offset)
+  }
+  return offset
+}
+
+/** zoneOffsetMs at a whole-minute instant, from the day's steady offset when it has one (1900–2199), else from Intl. */
+function offsetAtMinute(ms: number, timeZone: string): number {
+  if (ms >= -2_208_988_800_000 && ms < 7_258_118_400_000) {
+    const steady = steadyOffsetOnUtcDay(Math.floor(ms / DAY_MS), timeZone)
+    if (steady !== null) return steady
+  }
+  return zoneOffsetMs(new Date(ms), timeZone)
+}
+
+/** zonedToUtc from numbers (month 1–12), as a time in ms: an import converts every row's wall-clock time. */
+export function zonedPartsToUtcMs(y: number, m: number, d: number, h: number, min: number, timeZone: string): number {
+  const wall = Date.UTC(y, m - 1, d, h, min)
+  // Two passes settle the offset on either side of a clock change.
+  const guess = wall - offsetAtMinute(wall, timeZone)
+  return wall - offsetAtMinute(guess, timeZone)
+}
+
 /** The instant at which the clinic's clocks show `dateIso` `hhmm` ('2026-03-31', '09:30'). */
 export function zonedToUtc(dateIso: string, hhmm: string, timeZone: string): Date {
   const [y, m, d] = dateIso.split('-').map(Number)
   const [h, min] = hhmm.split(':').map(Number)
-  const wall = Date.UTC(y!, m! - 1, d!, h!, min!)
-  // Two passes settle the offset on either side of a clock change.
-  let guess = wall - zoneOffsetMs(new Date(wall), timeZone)
-  guess = wall - zoneOffsetMs(new Date(guess), timeZone)
-  return new Date(guess)
+  return new Date(zonedPartsToUtcMs(y!, m!, d!, h!, min!, timeZone))
 }
 
 const pad = (n: number) => String(n).padStart(2, '0')

@@ -1,4 +1,4 @@
-import { zonedToUtc } from '../appointments/time'
+import { zonedPartsToUtcMs } from '../appointments/time'
 import type { DateOrder } from './mapping'
 
 const ISO_OFFSET = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.\d+)?)?(Z|[+-]\d{2}:?\d{2})$/
@@ -10,12 +10,13 @@ function validParts(y: number, m: number, d: number, h: number, min: number, s: 
   return probe.getUTCFullYear() === y && probe.getUTCMonth() === m - 1 && probe.getUTCDate() === d && h < 24 && min < 60 && s < 60
 }
 
-const pad = (n: number) => String(n).padStart(2, '0')
-
 function local(y: number, m: number, d: number, h: number, min: number, s: number, timeZone: string): Date | null {
   if (!validParts(y, m, d, h, min, s)) return null
-  return new Date(zonedToUtc(`${y}-${pad(m)}-${pad(d)}`, `${pad(h)}:${pad(min)}`, timeZone).getTime() + s * 1000)
+  return new Date(zonedPartsToUtcMs(y, m, d, h, min, timeZone) + s * 1000)
 }
+
+// A regular expression's groups as numbers, a missing one (no seconds) as 0; read by position, not through slice and map.
+const num = (m: RegExpExecArray, i: number) => Number(m[i] ?? 0)
 
 /**
  * The instant a sample was taken, from a laboratory's text: ISO 8601 with an offset, or a
@@ -26,21 +27,18 @@ export function parseTakenAt(text: string, order: DateOrder, timeZone: string): 
   const v = text.trim()
   let m = ISO_OFFSET.exec(v)
   if (m) {
-    const [y, mo, d, h, mi, s] = m.slice(1, 7).map((x) => Number(x ?? 0)) as [number, number, number, number, number, number]
-    if (!validParts(y, mo, d, h, mi, s)) return null
+    if (!validParts(num(m, 1), num(m, 2), num(m, 3), num(m, 4), num(m, 5), num(m, 6))) return null
     const at = new Date(v.replace(' ', 'T'))
     return Number.isNaN(at.getTime()) ? null : at
   }
   m = ISO_LOCAL.exec(v)
   if (m) {
-    const [y, mo, d, h, mi, s] = m.slice(1, 7).map((x) => Number(x ?? 0)) as [number, number, number, number, number, number]
-    return local(y, mo, d, h, mi, s, timeZone)
+    return local(num(m, 1), num(m, 2), num(m, 3), num(m, 4), num(m, 5), num(m, 6), timeZone)
   }
   if (order === 'dmy') {
     m = DMY_LOCAL.exec(v)
     if (m) {
-      const [d, mo, y, h, mi, s] = m.slice(1, 7).map((x) => Number(x ?? 0)) as [number, number, number, number, number, number]
-      return local(y, mo, d, h, mi, s, timeZone)
+      return local(num(m, 3), num(m, 2), num(m, 1), num(m, 4), num(m, 5), num(m, 6), timeZone)
     }
   }
   return null

@@ -3,7 +3,7 @@
  * hospital's local calendar, so they are never turned into instants (which would shift a day
  * across time zones).
  */
-import { localDate, zoneOffsetMs } from '../appointments/time'
+import { localDate, steadyOffsetOnUtcDay } from '../appointments/time'
 
 const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/
 
@@ -26,31 +26,20 @@ export function todayInZone(timeZone: string, now: Date = new Date()): string {
 }
 
 const DAY_MS = 86_400_000
-// The UTC offset of each zone over each UTC day, or null on a day whose offset changes.
-const dayOffsets = new Map<string, Map<number, number | null>>()
 
 /**
  * The clinic's calendar date of an instant (a sample's time taken, a dose given). Intl's
  * formatToParts costs about 40 µs a call, and re-screening an import's 20 000 episodes reads
  * every Hb's clinic day (2.3 s of server CPU): so the zone's offset is looked up once per UTC day
- * (at its first and last second) and, on a day when it does not change, the date is the UTC date
- * of the shifted instant. A day with a clock change, or a time outside 1900–2199, asks Intl.
+ * (steadyOffsetOnUtcDay: its first and last second) and, on a day when it does not change, the
+ * date is the UTC date of the shifted instant. A day with a clock change, or a time outside
+ * 1900–2199, asks Intl.
  */
 export function dateInZone(instant: Date | string, timeZone: string): string {
   const at = typeof instant === 'string' ? new Date(instant) : instant
   const ms = at.getTime()
   if (!(ms >= -2_208_988_800_000 && ms < 7_258_118_400_000)) return localDate(at, timeZone)
-  const day = Math.floor(ms / DAY_MS)
-  let zone = dayOffsets.get(timeZone)
-  if (!zone) dayOffsets.set(timeZone, (zone = new Map()))
-  let offset = zone.get(day)
-  if (offset === undefined) {
-    const first = zoneOffsetMs(new Date(day * DAY_MS), timeZone)
-    const last = zoneOffsetMs(new Date((day + 1) * DAY_MS - 1000), timeZone)
-    offset = first === last ? first : null
-    if (zone.size >= 20_000) zone.clear()
-    zone.set(day, offset)
-  }
+  const offset = steadyOffsetOnUtcDay(Math.floor(ms / DAY_MS), timeZone)
   return offset === null ? localDate(at, timeZone) : new Date(ms + offset).toISOString().slice(0, 10)
 }
 

@@ -3,7 +3,14 @@ import { createReadStream } from 'node:fs'
 import { pipeline } from 'node:stream'
 import { parse, CsvError } from 'csv-parse'
 import type { Sequelize } from 'sequelize'
-import { checkCsvRecord, MAPPED_FIELDS, type Checked, type ColumnMapping } from '../../../shared/imports'
+import {
+  checkCsvFields,
+  mappedColumnIndexes,
+  MAPPED_FIELDS,
+  type Checked,
+  type ColumnMapping,
+  type MappedField,
+} from '../../../shared/imports'
 import { Invalid, RuleRefused } from '../../errors'
 import { LIMITS } from '../../../shared/limits'
 import type { Viewer } from '../viewer'
@@ -19,6 +26,11 @@ export interface LabCsvInput {
 }
 
 const CHUNK = 1000
+
+/** How many distinct header names the first `count` fields of a short or long row fill (the keys an object of them would have). */
+function distinctNames(header: readonly string[], count: number): number {
+  return new Set(header.slice(0, count)).size
+}
 
 function csvRefusal(err: CsvError): RuleRefused {
   const line = (err as CsvError & { lines?: number }).lines
@@ -66,6 +78,7 @@ export async function importLabCsv(
   let chunk: { row: number; checked: Checked }[] = []
   let headerChecked = false
   let header: string[] | null = null
+  let columns: Record<MappedField, number> | null = null
   let records = 0
   try {
     await run.begin()
@@ -88,6 +101,7 @@ export async function importLabCsv(
           )
         }
         headerChecked = true
+        columns = mappedColumnIndexes(header, input.mapping)
       }
       const row = records + 1
       if (records > maxRows) {
@@ -97,17 +111,18 @@ export async function importLabCsv(
           { file: `must have at most ${maxRows} rows` },
         )
       }
-      // As csv-parse's own objects: the header's names in order, a repeated name keeps its last field.
-      const record: Record<string, string> = {}
-      for (let i = 0; i < fields.length && i < header.length; i++) record[header[i]!] = fields[i]!
+      // The fields are read by the mapped columns' positions (a repeated name keeps its last field, as
+      // csv-parse's own objects did), not copied into an object per row.
       const checked: Checked =
         fields.length !== header.length
           ? {
               ok: false,
               code: 'bad-row',
-              reason: `row has a different number of fields from the header (${Object.keys(record).length} of ` + `${header.length} read)`,
+              reason:
+                `row has a different number of fields from the header (${distinctNames(header, fields.length)} of ` +
+                `${header.length} read)`,
             }
-          : checkCsvRecord(record, input.mapping, timeZone, now)
+          : checkCsvFields(fields, columns!, input.mapping, timeZone, now)
       chunk.push({ row, checked })
       if (chunk.length >= CHUNK) {
         await run.addChunk(chunk)

@@ -3,6 +3,7 @@ import { naturalKey, type Checked, type Reading, type SkippedRow } from '../../.
 import { ANALYTE_DEFS } from '../../../shared/pathway'
 import { PREVIEW_KEYS } from './previewKeys'
 import { rawInTransaction } from '../rawTransaction'
+import { utcParam } from '../rawRead'
 import type { Sex } from '../../../shared/clinical'
 
 /** A row that will be stored: the reading and the episode it belongs to. */
@@ -12,6 +13,11 @@ export interface MatchedRow {
   referralId: number
   patientId: number
   patientName: string
+  /**
+   * The time taken as the UTC text the statements send (rawRead.ts's utcParam), worked out once per
+   * row rather than again by each statement that names it (the duplicate look-up, the insert).
+   */
+  takenAtUtc: string
 }
 
 export interface PatientMatch {
@@ -48,9 +54,14 @@ export async function findPatients(sequelize: Sequelize, mrns: string[], t?: Tra
        (SELECT MAX(r.id) FROM referrals r WHERE r.patient_id = p.id AND r.stage NOT IN (${ENDED.map(() => '?').join(', ')})) AS referralId
      FROM patients p WHERE p.mrn IN (${mrns.map(() => '?').join(', ')})`,
     [...ENDED, ...mrns],
+    { plainRows: true },
   )
   const out = new Map<string, PatientMatch>()
-  for (const r of rows) out.set(r.mrn.toUpperCase(), { ...r, bornAtMs: Date.parse(`${r.dob}T00:00:00Z`) })
+  // The driver's own row objects, completed in place rather than copied (a chunk reads up to a thousand).
+  for (const r of rows) {
+    r.bornAtMs = Date.parse(`${r.dob}T00:00:00Z`)
+    out.set(r.mrn.toUpperCase(), r)
+  }
   return out
 }
 
@@ -85,10 +96,8 @@ async function storedKeys(
      SELECT STRAIGHT_JOIN k.i, r.value_canonical AS valueCanonical, r.import_batch_id AS batchId
      FROM k JOIN results r ON r.referral_id = k.referral_id AND r.analyte = k.analyte AND r.taken_at = k.taken_at
        AND r.value_canonical BETWEEN k.lo AND k.hi ${earlierInFile}`,
-    rows.flatMap((r, i) => {
-      const tol = r.reading.tolerance ?? 0
-      return [i, r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical - tol, r.reading.valueCanonical + tol]
-    }),
+    keyParams(rows),
+    { plainRows: true },
   )
   // Lowest matching value first, whichever table holds it: one order for a preview and its commit.
   found.sort((a, b) => Number(a.i) - Number(b.i) || a.valueCanonical - b.valueCanonical)
@@ -98,6 +107,17 @@ async function storedKeys(
     const key = naturalKey(r.referralId, r.reading.analyte, r.reading.takenAt, r.reading.valueCanonical)
     // The first stored row within tolerance answers, as before.
     if (!out.has(key) && Math.abs(f.valueCanonical - r.reading.valueCanonical) <= (r.reading.tolerance ?? 0)) out.set(key, f.batchId)
+  }
+  return out
+}
+
+/** The duplicate look-up's six values a row, in one flat array (no small array per row to flatten). */
+function keyParams(rows: readonly MatchedRow[]): (string | number)[] {
+  const out: (string | number)[] = []
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i]!
+    const tol = r.reading.tolerance ?? 0
+    out.push(i, r.referralId, r.reading.analyte, r.takenAtUtc, r.reading.valueCanonical - tol, r.reading.valueCanonical + tol)
   }
   return out
 }
@@ -141,7 +161,15 @@ export async function matchChunk(
       })
     else if (v.reading.takenAt.getTime() < p.bornAtMs!)
       skipped.push({ row: v.row, code: 'bad-date', reason: 'time taken is before the date of birth' })
-    else matched.push({ row: v.row, reading: v.reading, referralId: p.referralId, patientId: p.patientId, patientName: p.name })
+    else
+      matched.push({
+        row: v.row,
+        reading: v.reading,
+        referralId: p.referralId,
+        patientId: p.patientId,
+        patientName: p.name,
+        takenAtUtc: utcParam(v.reading.takenAt) as string,
+      })
   }
   const stored = await storedKeys(sequelize, matched, run, t)
   const accepted: MatchedRow[] = []

@@ -28,7 +28,7 @@ export async function addPreviewKeys(sequelize: Sequelize, rows: readonly Matche
       sequelize,
       t,
       `INSERT INTO ${PREVIEW_KEYS} VALUES ${part.map(() => '(?, ?, ?, ?)').join(', ')}`,
-      part.flatMap((m) => [m.referralId, m.reading.analyte, m.reading.takenAt, m.reading.valueCanonical]),
+      part.flatMap((m) => [m.referralId, m.reading.analyte, m.takenAtUtc, m.reading.valueCanonical]),
     )
   }
 }

@@ -123,6 +123,7 @@ export class ImportRun {
           valueReported: m.reading.value,
           unitReported: m.reading.unit,
           takenAt: m.reading.takenAt,
+          takenAtUtc: m.takenAtUtc,
           enteredBy: this.viewer.userId,
           source: this.opts.kind,
           importBatchId: this.batchId,
