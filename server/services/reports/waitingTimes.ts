@@ -12,6 +12,15 @@ const LEGS = [
   ['referralToSurgery', 'Referral → surgery', 'created_at', 'surgery_date'],
 ] as const
 
+// How each end of a leg reads in its definition (a clinician reads these, not column names).
+const END_WORDING = {
+  created_at: 'the referral',
+  first_hb_at: 'the first counted Hb',
+  clinic_at: 'the first move to clinic',
+  first_dose_at: 'the first iron dose given',
+  surgery_date: 'the surgery date on the post-operative record',
+} as const
+
 // Each episode's legs are day counts (NULL where an end is missing) over its milestones
 // (milestones.ts). MariaDB groups the episodes by their five legs (t), then counts episodes per
 // leg and day (a few hundred rows); the median and 90th centile are read off those counts in
@@ -48,8 +57,7 @@ export async function waitingTimesReport(sequelize: Sequelize, f: ReportFilters)
       key,
       {
         numerator:
-          `Calendar days from ${a.replace(/_/g, ' ')} to ${b.replace(/_/g, ' ')} (${label}); median and 90th centile (linear ` +
-          `interpolation)`,
+          `Calendar days from ${END_WORDING[a]} to ${END_WORDING[b]} (${label}); median and 90th centile (linear ` + `interpolation)`,
         denominator:
           'Episodes where both dates exist (clinic = first move to clinic; treatment = first iron dose given; surgery = actual ' +
           'surgery date)',
