@@ -1,9 +1,7 @@
-import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
+import type { Sequelize, Transaction } from 'sequelize'
 import { Outcome } from '../../models/index'
 import { DELETE_SQL, REBUILD_SQL, UPSERT_SQL } from './episodeFactsSql'
-
-/** Ids per statement: the IN list stays a small, fixed-size statement for an import of any size. */
-const CHUNK = 1000
+import { rebuildTable, refreshByReferral } from './preAggregate'
 
 /**
  * Issue #19 point 4: brings `episode_facts` (migration 0026) up to date for these referrals, inside the
@@ -15,29 +13,14 @@ const CHUNK = 1000
  * newest committed rows, not the transaction's snapshot) and locks the fact row, so of two writers to one
  * episode the later one's refresh sees the earlier one's committed rows.
  */
-export async function refreshEpisodeFacts(t: Transaction, referralIds: Iterable<number>): Promise<void> {
-  const ids = [...new Set(referralIds)].filter((id) => Number.isSafeInteger(id) && id > 0)
-  if (ids.length === 0) return
-  const sequelize = Outcome.sequelize!
-  for (let i = 0; i < ids.length; i += CHUNK) {
-    const replacements = { ids: ids.slice(i, i + CHUNK) }
-    await sequelize.query(UPSERT_SQL, { transaction: t, replacements, type: QueryTypes.INSERT })
-    await sequelize.query(DELETE_SQL, { transaction: t, replacements, type: QueryTypes.DELETE })
-  }
+export function refreshEpisodeFacts(t: Transaction, referralIds: Iterable<number>): Promise<void> {
+  return refreshByReferral(Outcome.sequelize!, t, referralIds, { upsert: UPSERT_SQL, deleteStale: DELETE_SQL })
 }
 
 /**
  * Every row from scratch, deterministically (the migration runs it; ops run `npm run db:episode-facts`
  * after writing to the tables by hand). One transaction: readers see the old table or the new one.
  */
-export async function rebuildEpisodeFacts(sequelize: Sequelize): Promise<number> {
-  return sequelize.transaction(async (t) => {
-    await sequelize.query('DELETE FROM episode_facts', { transaction: t })
-    await sequelize.query(REBUILD_SQL, { transaction: t })
-    const [row] = await sequelize.query<{ n: unknown }>('SELECT COUNT(*) AS n FROM episode_facts', {
-      transaction: t,
-      type: QueryTypes.SELECT,
-    })
-    return Number(row?.n ?? 0)
-  })
+export function rebuildEpisodeFacts(sequelize: Sequelize): Promise<number> {
+  return rebuildTable(sequelize, 'episode_facts', REBUILD_SQL)
 }

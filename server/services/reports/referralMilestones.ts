@@ -1,20 +1,10 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 import { Referral } from '../../models/index'
 import { DELETE_EMPTY_SQL, REBUILD_SQL, UPSERT_HB_SQL, UPSERT_SQL } from './milestonesSql'
+import { rebuildTable, refreshByReferral } from './preAggregate'
 
-/** Ids per statement: the IN list stays a small, fixed-size statement for an import of any size. */
-const CHUNK = 1000
-
-async function refresh(t: Transaction, referralIds: Iterable<number>, upsertSql: string): Promise<void> {
-  const ids = [...new Set(referralIds)].filter((id) => Number.isSafeInteger(id) && id > 0)
-  if (ids.length === 0) return
-  const sequelize = Referral.sequelize!
-  for (let i = 0; i < ids.length; i += CHUNK) {
-    const replacements = { ids: ids.slice(i, i + CHUNK) }
-    await sequelize.query(upsertSql, { transaction: t, replacements, type: QueryTypes.INSERT })
-    await sequelize.query(DELETE_EMPTY_SQL, { transaction: t, replacements, type: QueryTypes.DELETE })
-  }
-}
+const refresh = (t: Transaction, referralIds: Iterable<number>, upsert: string) =>
+  refreshByReferral(Referral.sequelize!, t, referralIds, { upsert, deleteStale: DELETE_EMPTY_SQL })
 
 /**
  * Issue #19: brings `referral_milestones` (migration 0027, milestonesSql.ts) up to date for these referrals,
@@ -45,15 +35,7 @@ export function refreshHbMilestones(t: Transaction, referralIds: Iterable<number
  * for all 25 000 referrals).
  */
 export async function rebuildMilestones(sequelize: Sequelize): Promise<number> {
-  const n = await sequelize.transaction(async (t) => {
-    await sequelize.query('DELETE FROM referral_milestones', { transaction: t })
-    await sequelize.query(REBUILD_SQL, { transaction: t })
-    const [row] = await sequelize.query<{ n: unknown }>('SELECT COUNT(*) AS n FROM referral_milestones', {
-      transaction: t,
-      type: QueryTypes.SELECT,
-    })
-    return Number(row?.n ?? 0)
-  })
+  const n = await rebuildTable(sequelize, 'referral_milestones', REBUILD_SQL)
   await sequelize.query('ANALYZE TABLE referral_milestones', { type: QueryTypes.SELECT })
   return n
 }
