@@ -12,6 +12,7 @@ import { utcText } from './utcText'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
 import { refreshHbMilestones } from './reports/referralMilestones'
 import { utcParam } from './rawRead'
+import { SerialWrites, yieldToIo } from './serialWrites'
 
 /**
  * The one place results are written: typed-in (services/results.ts), CSV and FHIR imports
@@ -200,6 +201,7 @@ export async function deriveForBatch(
   batchId: number,
   userId: number,
   t: Transaction,
+  writes?: SerialWrites,
 ): Promise<{ derived: number; refused: number }> {
   const out: NewResult[] = []
   let refused = 0
@@ -218,7 +220,10 @@ export async function deriveForBatch(
   const egfrKeys = new Set<string>()
   const derived = { enteredBy: userId, source: 'derived' as const, valueReported: null, unitReported: null, importBatchId: batchId }
   const zone = clinicTimeZone()
-  for (const c of creatinines) {
+  for (let i = 0; i < creatinines.length; i++) {
+    // The event loop runs between slices, so that writes queued beside this (rescreenAndAudit) keep going.
+    if (i > 0 && i % 500 === 0) await yieldToIo()
+    const c = creatinines[i]!
     const takenAt = new Date(c.takenAt)
     const egfr = egfrFromCreatinine(c.valueCanonical, dateInZone(takenAt, zone), { dateOfBirth: c.dob, sex: c.sex })
     const key = `${c.referralId}|${takenAt.getTime()}|${egfr}`
@@ -269,38 +274,54 @@ export async function deriveForBatch(
       refused += 1
     }
   }
-  await insertResults(sequelize, out, t)
+  await (writes ? writes.now(() => insertResults(sequelize, out, t)) : insertResults(sequelize, out, t))
   return { derived: out.length, refused }
 }
 
 /**
- * Re-screens every episode a bulk write touched, once per episode (not once per row), as a
- * typed-in result does, and writes one audit row per episode (who put what into which patient's
- * record) a thousand at a time. refreshScreeningMany says worklistChanged('referral', t).
+ * The per-episode work after a bulk write of results (an import's commit, its reversal), once per episode
+ * (not once per row), in the caller's transaction: `derive` (an import's TSAT and eGFR), the re-screening a
+ * typed-in result also gets, the two per-referral pre-aggregates' refreshes, and one audit row per episode
+ * (who put what into, or took it out of, which patient's record).
+ *
+ * All of it shares the transaction's one connection through SerialWrites: the refreshes and the audit rows,
+ * which nothing here reads, are queued first and sent whenever no other write is waited for, so MariaDB runs
+ * them while the server derives and applies the screening rules, instead of after (issue #19). They read only
+ * Hb rows and the episodes' other tables, which derivation (TSAT, eGFR) and re-screening (the referral's
+ * screening columns) do not write. refreshScreeningMany says worklistChanged('referral', t).
  */
 export async function rescreenAndAudit(
   sequelize: Sequelize,
   viewer: Viewer,
   perReferral: Map<number, { patientId: number; count: number }>,
   t: Transaction,
-  audit: { action: string; batchId: number },
+  audit: { action: string; after: (count: number) => object },
+  derive?: (writes: SerialWrites) => Promise<void>,
 ): Promise<void> {
   const ids = [...perReferral.keys()]
-  await refreshScreeningMany(sequelize, ids, t)
-  await refreshEpisodeFacts(t, ids)
-  await refreshHbMilestones(t, ids)
-  await insertEpisodeAudit(
-    sequelize,
-    viewer,
-    ids.map((id) => ({
-      referralId: id,
-      patientId: perReferral.get(id)!.patientId,
-      after: { importBatchId: audit.batchId, results: perReferral.get(id)!.count },
-    })),
-    audit.action,
-    t,
-  )
+  const writes = new SerialWrites()
+  const at = new Date()
+  for (let i = 0; i < ids.length; i += PER_STATEMENT) {
+    const part = ids.slice(i, i + PER_STATEMENT)
+    writes.whenIdle(() => refreshEpisodeFacts(t, part))
+    writes.whenIdle(() => refreshHbMilestones(t, part))
+    const rows = part.map((id) => {
+      const { patientId, count } = perReferral.get(id)!
+      return { referralId: id, patientId, after: audit.after(count) }
+    })
+    writes.whenIdle(() => insertEpisodeAudit(sequelize, viewer, rows, audit.action, t, at))
+  }
+  // Whatever fails first is thrown by drained(), and nothing is written after it.
+  const work = (async () => {
+    if (derive) await derive(writes)
+    await refreshScreeningMany(sequelize, ids, t, writes)
+  })()
+  const settled = await Promise.allSettled([work, writes.drained()])
+  for (const s of settled) if (s.status === 'rejected') throw s.reason
 }
+
+/** Episodes per refresh statement and per audit INSERT: a small, fixed-size statement for a write of any size. */
+const PER_STATEMENT = 1000
 
 /**
  * One audit row per episode a bulk write touched, as recordAudit writes them (same columns, the
@@ -314,8 +335,8 @@ export async function insertEpisodeAudit(
   rows: readonly { referralId: number; patientId: number; after: object }[],
   action: string,
   t: Transaction,
+  at = new Date(),
 ): Promise<void> {
-  const at = new Date()
   // The bulk protocol (rawBatchInTransaction), a thousand rows a call: one prepared statement
   // instead of MariaDB parsing 8 000 literals per INSERT. Every row has the same value types.
   for (let i = 0; i < rows.length; i += 1000) {

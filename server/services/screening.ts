@@ -20,6 +20,7 @@ import { rawInTransaction, type RawValue } from './rawTransaction'
 import { utcParam } from './rawRead'
 import { utcText } from './utcText'
 import type { ScreeningView } from '../../shared/pathway/views'
+import { SerialWrites, yieldToIo } from './serialWrites'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {
@@ -63,33 +64,43 @@ export interface ReferralScreeningRow {
 /**
  * The same re-screening as refreshScreening, for many referrals at once (a laboratory import or
  * its reversal, once per episode at the end), a thousand episodes per chunk: three reads and one
- * UPDATE each, all through the driver (rawTransaction.ts). The transaction's one connection runs
- * statements in the order sent, so the next chunk's reads are sent before this chunk's rules run
- * on the server: MariaDB reads while the server computes. A write is sent only once the one
- * before it has succeeded, so after a failed one (a deadlock rolls the transaction back) nothing
- * more is written. Same rules, same columns.
+ * UPDATE each, all through the driver (rawTransaction.ts). The next chunk's reads are sent as soon
+ * as this chunk's have answered, and each chunk's UPDATE goes through `writes` (serialWrites.ts:
+ * one write at a time, nothing sent after a failed one), so MariaDB reads and writes while the
+ * server applies the rules, which it does a slice of episodes at a time, letting the writes' answers
+ * in between. Same rules, same columns. With no `writes` of the caller's, it waits for its own.
  */
 export async function refreshScreeningMany(
   sequelize: Sequelize,
   referralIds: readonly number[],
   t: Transaction,
+  writes?: SerialWrites,
   chunk = 1000,
 ): Promise<number> {
+  const queue = writes ?? new SerialWrites()
   const chunks: number[][] = []
   for (let i = 0; i < referralIds.length; i += chunk) chunks.push(referralIds.slice(i, i + chunk))
   let updated = 0
   let next = chunks.length ? readChunk(sequelize, chunks[0]!, t) : null
-  let write: Promise<unknown> = Promise.resolve()
   for (let i = 0; next; i++) {
     const read = await next
-    await write
     next = i + 1 < chunks.length ? readChunk(sequelize, chunks[i + 1]!, t) : null
-    write = writeOutcomes(sequelize, read, t).written
+    const values: RawValue[][] = []
+    const byReferral = groupByReferral(read.rows)
+    for (let at = 0; at < read.refs.length; at += SLICE) {
+      if (at > 0) await yieldToIo()
+      for (const ref of read.refs.slice(at, at + SLICE)) values.push(outcomeOf(ref, byReferral.get(ref.id), read.doses).row)
+    }
+    // A failed UPDATE is reported by drained(); nothing is sent after it.
+    queue.now(() => sendOutcomes(sequelize, values, t)).catch(() => undefined)
     updated += read.refs.length
   }
-  await write
+  if (!writes) await queue.drained()
   return updated
 }
+
+/** Episodes whose rules run between two turns of the event loop (about 5 ms of server CPU). */
+const SLICE = 200
 
 interface ScreeningRow {
   referralId: number
@@ -144,29 +155,39 @@ const OUTCOMES = `JSON_TABLE(?, '$[*]' COLUMNS (id BIGINT UNSIGNED PATH '$[0]', 
   iron CHAR(20) PATH '$[3]', prop CHAR(12) PATH '$[4]', hb DOUBLE PATH '$[5]', hb_at DATETIME PATH '$[6]', nr BIGINT PATH '$[7]',
   fa BIGINT PATH '$[8]'))`
 
-/**
- * The rules for one chunk (pure, shared/clinic) and the one UPDATE that stores the outcomes and the
- * iron-response flags together (the flags read the same Hb rows oldest first: refreshIronResponse's
- * rule, for an episode given iron). `written` is sent, not awaited, and already marked handled.
- */
-function writeOutcomes(sequelize: Sequelize, read: ChunkRead, t: Transaction) {
-  const out = new Map<number, ScreeningColumns>()
-  const byReferral = new Map<number, ScreeningRow[]>()
-  for (const text of read.rows) {
-    const r = { referralId: text.referralId, analyte: text.analyte, valueCanonical: text.valueCanonical, takenAt: new Date(text.takenAt) }
-    const list = byReferral.get(r.referralId)
+/** The chunk's screening rows by episode, in the order read (newest first); their times stay text until used. */
+function groupByReferral(rows: readonly ScreeningText[]): Map<number, ScreeningText[]> {
+  const out = new Map<number, ScreeningText[]>()
+  for (const r of rows) {
+    const list = out.get(r.referralId)
     if (list) list.push(r)
-    else byReferral.set(r.referralId, [r])
+    else out.set(r.referralId, [r])
   }
-  const values: RawValue[][] = []
-  for (const ref of read.refs) {
-    const own = byReferral.get(ref.id) ?? []
-    const next = screeningOutcome(latestFromRows(own), ref.sex, ref.criteria)
-    out.set(ref.id, next)
-    const given = read.doses.get(ref.id)
-    const hb = given ? own.filter((r) => r.analyte === 'hb').map((r) => ({ takenAt: r.takenAt, hbGL: Number(r.valueCanonical) })) : []
-    const flags = ironFlags(hb.reverse(), given)
-    values.push([
+  return out
+}
+
+/**
+ * One episode's rules (pure, shared/clinic) and its row of the UPDATE: the outcome and the iron-response flags
+ * together (the flags read the same Hb rows oldest first: refreshIronResponse's rule, for an episode given iron).
+ */
+function outcomeOf(
+  ref: ReferralScreeningRow,
+  texts: readonly ScreeningText[] | undefined,
+  doses: Map<number, DoseGiven[]>,
+): { next: ScreeningColumns; row: RawValue[] } {
+  const own: ScreeningRow[] = (texts ?? []).map((x) => ({
+    referralId: x.referralId,
+    analyte: x.analyte,
+    valueCanonical: x.valueCanonical,
+    takenAt: new Date(x.takenAt),
+  }))
+  const next = screeningOutcome(latestFromRows(own), ref.sex, ref.criteria)
+  const given = doses.get(ref.id)
+  const hb = given ? own.filter((r) => r.analyte === 'hb').map((r) => ({ takenAt: r.takenAt, hbGL: Number(r.valueCanonical) })) : []
+  const flags = ironFlags(hb.reverse(), given)
+  return {
+    next,
+    row: [
       ref.id,
       next.anaemic == null ? null : next.anaemic ? 1 : 0,
       next.anaemiaSeverity,
@@ -176,23 +197,26 @@ function writeOutcomes(sequelize: Sequelize, read: ChunkRead, t: Transaction) {
       next.latestHbAt ? utcParam(next.latestHbAt) : null,
       flags.noResponseToIron ? 1 : 0,
       flags.hbFallingAfterIron ? 1 : 0,
-    ])
+    ],
   }
-  // Derived data, not an edit: the version (the optimistic lock on decisions) stays, as above.
+}
+
+/**
+ * The one UPDATE that stores a chunk's outcomes and flags. Derived data, not an edit: the version (the optimistic
+ * lock on decisions) stays.
+ */
+function sendOutcomes(sequelize: Sequelize, values: readonly RawValue[][], t: Transaction): Promise<unknown> {
   worklistChanged('referral', t)
-  const written = read.refs.length
-    ? rawInTransaction(
-        sequelize,
-        t,
-        `UPDATE referrals r JOIN ${OUTCOMES} v ON v.id = r.id
-         SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,
-             r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?,
-             r.no_response_to_iron = v.nr, r.hb_falling_after_iron = v.fa`,
-        [JSON.stringify(values), new Date()],
-      )
-    : Promise.resolve()
-  written.catch(() => undefined)
-  return { out, written }
+  if (!values.length) return Promise.resolve()
+  return rawInTransaction(
+    sequelize,
+    t,
+    `UPDATE referrals r JOIN ${OUTCOMES} v ON v.id = r.id
+     SET r.anaemic = v.anaemic, r.anaemia_severity = v.sev, r.iron_status = v.iron, r.proposed_stage = v.prop,
+         r.latest_hb_gl = v.hb, r.latest_hb_at = v.hb_at, r.updated_at = ?,
+         r.no_response_to_iron = v.nr, r.hb_falling_after_iron = v.fa`,
+    [JSON.stringify(values), new Date()],
+  )
 }
 
 /**
@@ -212,8 +236,15 @@ export async function rescreenReferrals(
     t,
     refs,
   )
-  const { out, written } = writeOutcomes(sequelize, read, t)
-  await written
+  const out = new Map<number, ScreeningColumns>()
+  const values: RawValue[][] = []
+  const byReferral = groupByReferral(read.rows)
+  for (const ref of read.refs) {
+    const { next, row } = outcomeOf(ref, byReferral.get(ref.id), read.doses)
+    out.set(ref.id, next)
+    values.push(row)
+  }
+  await sendOutcomes(sequelize, values, t)
   return out
 }
 

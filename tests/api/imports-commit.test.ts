@@ -70,6 +70,34 @@ describe('a commit is all or nothing', () => {
     },
   )
 
+  it(
+    'when the database refuses an episode audit row after the last chunk, then nothing is stored: no result, batch, ' +
+      'screening outcome or milestone (the per-episode writes share the transaction, H-128)',
+    async () => {
+      // The per-episode audit rows are queued beside the re-screening and the pre-aggregates' refreshes
+      // (resultStore.ts rescreenAndAudit): a refusal among them must undo the whole file.
+      await t.sequelize.query(
+        `CREATE TRIGGER imports_test_refuse_audit BEFORE INSERT ON audit_entries FOR EACH ROW
+       BEGIN IF NEW.action = 'import-results' THEN SIGNAL SQLSTATE '45000' SET MESSAGE_TEXT = 'refused by the test trigger'; END IF; END`,
+        { type: QueryTypes.RAW },
+      )
+      try {
+        const res = await uploadCsv(c, hbRows(1500, { at: 1400, value: 95 }), { commit: true })
+        expect(res.status).toBe(500)
+        expect(await Result.count()).toBe(0)
+        expect(await ImportBatch.count()).toBe(0)
+        expect(await AuditEntry.count({ where: { action: ['import', 'import-results'] } })).toBe(0)
+        const [milestones] = await t.sequelize.query<{ n: number }>('SELECT COUNT(*) AS n FROM referral_milestones', {
+          type: QueryTypes.SELECT,
+        })
+        expect(Number(milestones!.n)).toBe(0)
+        expect(await Referral.findByPk(referralId, { raw: true })).toMatchObject({ latestHbGL: null, anaemic: null })
+      } finally {
+        await t.sequelize.query('DROP TRIGGER IF EXISTS imports_test_refuse_audit', { type: QueryTypes.RAW })
+      }
+    },
+  )
+
   it('when the same 1500 rows are committed without the trigger, then all 1500 are stored in one batch and audited', async () => {
     const res = await uploadCsv(c, hbRows(1500), { commit: true }).expect(201)
     expect(res.body.accepted).toBe(1500)

@@ -1,14 +1,11 @@
 import { QueryTypes, type Sequelize } from 'sequelize'
 import { ImportBatch, User } from '../../models/index'
 import { recordAudit } from '../audit'
-import { refreshScreeningMany } from '../screening'
-import { insertEpisodeAudit } from '../resultStore'
+import { rescreenAndAudit } from '../resultStore'
 import { isoOrNull, type Viewer } from '../viewer'
 import { NotFound, RuleRefused } from '../../errors'
 import type { BatchView } from '../../../shared/imports'
 import { READ_ONLY_STAGES } from '../../../shared/pathway/stages'
-import { refreshEpisodeFacts } from '../reports/episodeFacts'
-import { refreshHbMilestones } from '../reports/referralMilestones'
 
 type Row = ImportBatch & { creator?: User | null; reverser?: User | null }
 const who = (u?: User | null) => (u ? { id: u.id, name: u.name } : null)
@@ -82,19 +79,6 @@ export async function reverseBatch(sequelize: Sequelize, viewer: Viewer, id: num
     }
     await sequelize.query('DELETE FROM results WHERE import_batch_id = ?', { type: QueryTypes.DELETE, replacements: [id], transaction: t })
     const removedCount = affected.reduce((n, a) => n + Number(a.n), 0)
-    await refreshScreeningMany(
-      sequelize,
-      affected.map((a) => a.referralId),
-      t,
-    )
-    await refreshEpisodeFacts(
-      t,
-      affected.map((a) => a.referralId),
-    )
-    await refreshHbMilestones(
-      t,
-      affected.map((a) => a.referralId),
-    )
     await ImportBatch.update(
       { reversedAt: new Date(), reversedBy: viewer.userId, reversalReason: reason, resultsRemoved: removedCount },
       { where: { id }, transaction: t },
@@ -106,13 +90,11 @@ export async function reverseBatch(sequelize: Sequelize, viewer: Viewer, id: num
       before: { accepted: batch.accepted },
       after: { reason, resultsRemoved: removedCount, referrals: affected.length },
     })
-    // One row per episode, as before, written a thousand per INSERT (resultStore.ts).
-    const rows = affected.map((a) => ({
-      referralId: a.referralId,
-      patientId: a.patientId,
-      after: { importBatchId: id, resultsRemoved: Number(a.n), reason },
-    }))
-    await insertEpisodeAudit(sequelize, viewer, rows, 'reverse-import', t)
+    // Every episode the batch reached: re-screened, its pre-aggregates refreshed and one audit row each, written a
+    // thousand per INSERT (resultStore.ts).
+    const perReferral = new Map(affected.map((a) => [a.referralId, { patientId: a.patientId, count: Number(a.n) }]))
+    const audit = { action: 'reverse-import', after: (resultsRemoved: number) => ({ importBatchId: id, resultsRemoved, reason }) }
+    await rescreenAndAudit(sequelize, viewer, perReferral, t, audit)
   })
   return getBatch(id)
 }

@@ -154,10 +154,13 @@ export class ImportRun {
       return { ...this.s, sameFileAs }
     }
     const batchId = this.batchId!
-    const d = await deriveForBatch(this.sequelize, batchId, this.viewer.userId, t)
+    const d = { derived: 0, refused: 0 }
+    const audit = { action: 'import-results', after: (results: number) => ({ importBatchId: batchId, results }) }
+    await rescreenAndAudit(this.sequelize, this.viewer, this.perReferral, t, audit, async (writes) => {
+      Object.assign(d, await deriveForBatch(this.sequelize, batchId, this.viewer.userId, t, writes))
+    })
     this.s.derived = d.derived
     this.s.derivationsRefused = d.refused
-    await rescreenAndAudit(this.sequelize, this.viewer, this.perReferral, t, { action: 'import-results', batchId })
     const counts = {
       rowsRead: this.s.rowsRead,
       accepted: this.s.accepted,
