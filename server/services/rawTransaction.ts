@@ -4,6 +4,8 @@ import { utcParam } from './rawRead'
 
 /** A value the bulk statements send: numbers and strings as they are, dates as UTC. */
 export type RawValue = string | number | Date | null
+/** A value rawInTransaction sends: a RawValue, or a list of numbers for `IN (?)` (the driver writes `1,2,3`). */
+export type RawParam = RawValue | readonly number[]
 
 /**
  * A bulk statement with `?` placeholders sent straight through the mariadb driver on the
@@ -18,7 +20,7 @@ export async function rawInTransaction<T = unknown>(
   sequelize: Sequelize,
   t: Transaction | undefined,
   sql: string,
-  values: readonly RawValue[],
+  values: readonly RawParam[],
   how: RawHow = {},
 ): Promise<T> {
   logRawStatement(sequelize, sql, values)

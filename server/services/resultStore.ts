@@ -205,20 +205,21 @@ export async function deriveForBatch(
 ): Promise<{ derived: number; refused: number }> {
   const out: NewResult[] = []
   let refused = 0
-  // Through the driver (rawTransaction.ts) on the transaction's connection: same rows, without
-  // Sequelize's query path for a 20 000-row read; the date of birth as text, as the rule reads it.
-  const creatinines = await rawInTransaction<
-    { id: number; referralId: number; patientId: number; takenAt: string; valueCanonical: number; dob: string; sex: Sex }[]
-  >(
+  const derived = (analyte: 'egfr' | 'tsat', from: DerivedFrom, takenAt: Date, value: number, derivedFrom: number[]) =>
+    derivedResult(from, takenAt, analyte, value, derivedFrom, userId, batchId)
+  // Through the driver (rawTransaction.ts) on the transaction's connection, its own row objects
+  // (plainRows: every column is a number or text, the times and the date of birth formatted by
+  // MariaDB), without Sequelize's query path and type cast for a 20 000-row read.
+  const creatinines = await rawInTransaction<CreatinineRow[]>(
     sequelize,
     t,
     `SELECT r.id, r.referral_id AS referralId, r.patient_id AS patientId, ${utcText('r.taken_at')} AS takenAt,
       r.value_canonical AS valueCanonical, DATE_FORMAT(p.date_of_birth, '%Y-%m-%d') AS dob, p.sex
      FROM results r JOIN patients p ON p.id = r.patient_id WHERE r.import_batch_id = ? AND r.analyte = 'creatinine'`,
     [batchId],
+    { plainRows: true },
   )
   const egfrKeys = new Set<string>()
-  const derived = { enteredBy: userId, source: 'derived' as const, valueReported: null, unitReported: null, importBatchId: batchId }
   const zone = clinicTimeZone()
   for (let i = 0; i < creatinines.length; i++) {
     // The event loop runs between slices, so that writes queued beside this (rescreenAndAudit) keep going.
@@ -226,18 +227,12 @@ export async function deriveForBatch(
     const c = creatinines[i]!
     const takenAt = new Date(c.takenAt)
     const egfr = egfrFromCreatinine(c.valueCanonical, dateInZone(takenAt, zone), { dateOfBirth: c.dob, sex: c.sex })
-    const key = `${c.referralId}|${takenAt.getTime()}|${egfr}`
-    if (egfr === null || egfrKeys.has(key)) continue
+    if (egfr === null) continue
+    // One text per instant (utcText), so the stored time's text keys the sample as its Date did.
+    const key = `${c.referralId}|${c.takenAt}|${egfr}`
+    if (egfrKeys.has(key)) continue
     egfrKeys.add(key)
-    out.push({
-      ...derived,
-      referralId: c.referralId,
-      patientId: c.patientId,
-      analyte: 'egfr',
-      valueCanonical: egfr,
-      takenAt,
-      derivedFrom: [c.id],
-    })
+    out.push(derived('egfr', c, takenAt, egfr, [c.id]))
   }
   // Every iron-study row of each sample this batch touched, wherever it came from.
   const samples = await rawInTransaction<(SampleRow & { referralId: number; patientId: number; takenAt: string })[]>(
@@ -250,25 +245,19 @@ export async function deriveForBatch(
        ON d.referral_id = r.referral_id AND d.taken_at = r.taken_at
      WHERE r.analyte IN ('iron', 'tibc', 'transferrin', 'tsat') AND ${screenableSql('r')}`,
     [batchId],
+    { plainRows: true },
   )
   const bySample = new Map<string, typeof samples>()
   for (const s of samples) {
-    const key = `${s.referralId}|${new Date(s.takenAt).getTime()}`
-    bySample.set(key, [...(bySample.get(key) ?? []), s])
+    const key = `${s.referralId}|${s.takenAt}`
+    const rows = bySample.get(key)
+    if (rows) rows.push(s)
+    else bySample.set(key, [s])
   }
   for (const rows of bySample.values()) {
     try {
       const tsat = tsatFromSample(rows)
-      if (tsat)
-        out.push({
-          ...derived,
-          referralId: rows[0]!.referralId,
-          patientId: rows[0]!.patientId,
-          analyte: 'tsat',
-          valueCanonical: tsat.value,
-          takenAt: new Date(rows[0]!.takenAt),
-          derivedFrom: tsat.derivedFrom,
-        })
+      if (tsat) out.push(derived('tsat', rows[0]!, new Date(rows[0]!.takenAt), tsat.value, tsat.derivedFrom))
     } catch (err) {
       if (!(err instanceof ClinicalInputError)) throw err
       refused += 1
@@ -276,6 +265,51 @@ export async function deriveForBatch(
   }
   await (writes ? writes.now(() => insertResults(sequelize, out, t)) : insertResults(sequelize, out, t))
   return { derived: out.length, refused }
+}
+
+/** The row a derived value comes from; takenAt as utcText reads it ('2026-01-05T09:00:00Z'). */
+type DerivedFrom = { referralId: number; patientId: number; takenAt: string }
+
+interface CreatinineRow {
+  id: number
+  referralId: number
+  patientId: number
+  /** utcText: '2026-01-05T09:00:00Z' */
+  takenAt: string
+  valueCanonical: number
+  dob: string
+  sex: Sex
+}
+
+/**
+ * A row an import derives, every field written out (one object shape, no spread per row). Its time goes
+ * to insertResults as the UTC text it sends ('2026-01-05 09:00:00.000', as utcParam writes a Date),
+ * cut from the utcText read rather than formatted again from a Date.
+ */
+function derivedResult(
+  from: DerivedFrom,
+  takenAt: Date,
+  analyte: 'egfr' | 'tsat',
+  valueCanonical: number,
+  derivedFrom: number[],
+  userId: number,
+  batchId: number,
+): NewResult {
+  const iso = from.takenAt
+  return {
+    referralId: from.referralId,
+    patientId: from.patientId,
+    analyte,
+    valueCanonical,
+    valueReported: null,
+    unitReported: null,
+    takenAt,
+    takenAtUtc: `${iso.slice(0, 10)} ${iso.slice(11, 19)}.000`,
+    enteredBy: userId,
+    source: 'derived',
+    derivedFrom,
+    importBatchId: batchId,
+  }
 }
 
 /**
