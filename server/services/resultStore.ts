@@ -223,7 +223,7 @@ export async function deriveForBatch(
   const zone = clinicTimeZone()
   for (let i = 0; i < creatinines.length; i++) {
     // The event loop runs between slices, so that writes queued beside this (rescreenAndAudit) keep going.
-    if (i > 0 && i % 500 === 0) await yieldToIo()
+    if (i > 0 && i % 250 === 0) await yieldToIo()
     const c = creatinines[i]!
     const takenAt = new Date(c.takenAt)
     const egfr = egfrFromCreatinine(c.valueCanonical, dateInZone(takenAt, zone), { dateOfBirth: c.dob, sex: c.sex })

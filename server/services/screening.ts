@@ -99,8 +99,8 @@ export async function refreshScreeningMany(
   return updated
 }
 
-/** Episodes whose rules run between two turns of the event loop (about 5 ms of server CPU). */
-const SLICE = 200
+/** Episodes whose rules run between two turns of the event loop (a few ms of server CPU). */
+const SLICE = 100
 
 interface ScreeningRow {
   referralId: number
