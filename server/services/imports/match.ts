@@ -2,6 +2,7 @@ import type { Sequelize, Transaction } from 'sequelize'
 import { naturalKey, type Checked, type Reading, type SkippedRow } from '../../../shared/imports'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
 import { PREVIEW_KEYS } from './previewKeys'
+import type { KnownPatients } from './knownPatients'
 import { rawInTransaction } from '../rawTransaction'
 import { utcParam } from '../rawRead'
 import type { Sex } from '../../../shared/clinical'
@@ -131,12 +132,13 @@ export interface ChunkOutcome {
  * Matches one chunk of checked rows to patients and episodes and removes duplicates, both of
  * stored results (earlier chunks of this file are already in the run's transaction) and of
  * rows met earlier in this chunk (`run.seen`); a stored row of this very batch is a repeat in the file.
- * `run.before`: the run's previous write, awaited before the duplicate look-up.
+ * `run.before`: the run's previous write, awaited before the duplicate look-up. `run.patients`:
+ * the run's patient-match answers so far, each MRN asked once per run.
  */
 export async function matchChunk(
   sequelize: Sequelize,
   items: { row: number; checked: Checked }[],
-  run: { batchId: number | null; seen: Set<string>; previewKeys?: boolean; before?: Promise<unknown> },
+  run: { batchId: number | null; seen: Set<string>; previewKeys?: boolean; before?: Promise<unknown>; patients?: KnownPatients },
   t?: Transaction,
 ): Promise<ChunkOutcome> {
   const skipped: SkippedRow[] = []
@@ -147,11 +149,15 @@ export async function matchChunk(
   }
   // The patient match reads no results, so it is sent before the previous chunk's write has
   // answered (`run.before`); the duplicate look-up reads that write, so it waits for it, and if
-  // the write failed its error is thrown here and nothing more is sent.
-  const [patients] = await Promise.all([findPatients(sequelize, [...new Set(valid.map((v) => v.reading.mrn))], t), run.before])
+  // the write failed its error is thrown here and nothing more is sent. Only MRNs the run has not
+  // asked about yet are sent (`run.patients`, knownPatients.ts).
+  const mrns = new Set(valid.map((v) => v.reading.mrn))
+  const asked = run.patients ? run.patients.unknown(mrns) : [...mrns]
+  const [found] = await Promise.all([findPatients(sequelize, asked, t), run.before])
   const matched: MatchedRow[] = []
   for (const v of valid) {
-    const p = patients.get(v.reading.mrn.toUpperCase())
+    const known = run.patients?.get(v.reading.mrn)
+    const p = known !== undefined ? known : found.get(v.reading.mrn.toUpperCase())
     if (!p) skipped.push({ row: v.row, code: 'unknown-mrn', reason: `no patient has MRN ${v.reading.mrn}` })
     else if (p.referralId == null)
       skipped.push({
@@ -171,6 +177,7 @@ export async function matchChunk(
         takenAtUtc: utcParam(v.reading.takenAt) as string,
       })
   }
+  run.patients?.remember(asked, found)
   const stored = await storedKeys(sequelize, matched, run, t)
   const accepted: MatchedRow[] = []
   for (const m of matched) {

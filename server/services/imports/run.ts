@@ -5,6 +5,7 @@ import { ImportBatch } from '../../models/importBatch'
 import { recordAudit } from '../audit'
 import { isoOrNull, type Viewer } from '../viewer'
 import { matchChunk, type ChunkOutcome } from './match'
+import { KnownPatients } from './knownPatients'
 import { deriveForBatch, insertResults, rescreenAndAudit } from '../resultStore'
 import { addPreviewKeys, createPreviewKeys, dropPreviewKeys } from './previewKeys'
 
@@ -13,7 +14,8 @@ import { addPreviewKeys, createPreviewKeys, dropPreviewKeys } from './previewKey
  * chunk to the last. A commit inserts rows as they come, so duplicates against earlier chunks are
  * found by the table's own natural key; a preview puts only the accepted rows' keys into a
  * temporary table that the same look-up reads (previewKeys.ts), so its figures are the commit's
- * without writing results. Memory holds one chunk, never the file. A preview is rolled back
+ * without writing results. Memory holds two chunks at most (the one in flight and the one the caller
+ * is reading), never the file. A preview is rolled back
  * before anything is derived; a commit derives, re-screens, audits and commits, or rolls back
  * together if anything fails.
  */
@@ -25,6 +27,10 @@ export class ImportRun {
   /** The last chunk's write, sent and not yet awaited (see addChunk); marked handled when sent. */
   private written: Promise<unknown> = Promise.resolve()
   private writeFailed = false
+  /** The last addChunk, in flight or settled: the next one and abandon wait for it (see addChunk). */
+  private lastChunk: Promise<unknown> = Promise.resolve()
+  /** Each MRN's patient match, asked once per run (knownPatients.ts says why the answer cannot change). */
+  private readonly patients = new KnownPatients()
 
   constructor(
     private readonly sequelize: Sequelize,
@@ -68,17 +74,36 @@ export class ImportRun {
     if (!this.opts.commit) await createPreviewKeys(this.sequelize, this.t)
   }
 
-  async addChunk(items: { row: number; checked: Checked }[]): Promise<ChunkOutcome> {
+  /**
+   * The caller may parse and check the next chunk while this one is in flight (labCsv.ts), and
+   * should send it only once this one has answered, so memory holds two chunks at most. Chunks
+   * are matched in the order given whatever the caller does: each starts after the one before
+   * has finished (the duplicate look-up must see every earlier chunk), and after a failed one
+   * nothing more is sent and its error is thrown again.
+   */
+  addChunk(items: { row: number; checked: Checked }[]): Promise<ChunkOutcome> {
+    const out = this.lastChunk.then(() => this.matchAndStore(items))
+    // Handled here, so a chunk failing while the caller is still parsing is no unhandled rejection;
+    // the caller gets its error from the promise returned.
+    this.lastChunk = out
+    out.catch(() => undefined)
+    return out
+  }
+
+  private async matchAndStore(items: { row: number; checked: Checked }[]): Promise<ChunkOutcome> {
     // A write already known to have failed: nothing more is sent (its connection may be rolled back and returned).
     if (this.writeFailed) await this.written
+    // Abandoned while this chunk waited its turn: nothing is sent outside the transaction.
+    const t = this.t
+    if (!t) throw new Error('import run chunk after the run ended')
     // Earlier chunks are already in the table (uncommitted); only this chunk needs remembering. The
     // previous chunk's write is awaited inside, after the patient match is sent and before the
     // duplicate look-up: it failed (thrown there), or it is in the table before it is read.
     const out = await matchChunk(
       this.sequelize,
       items,
-      { batchId: this.batchId, seen: new Set(), previewKeys: !this.opts.commit, before: this.written },
-      this.t ?? undefined,
+      { batchId: this.batchId, seen: new Set(), previewKeys: !this.opts.commit, before: this.written, patients: this.patients },
+      t,
     )
     this.s.rowsRead += items.length
     this.s.accepted += out.accepted.length
@@ -188,7 +213,9 @@ export class ImportRun {
    */
   async abandon(): Promise<void> {
     const t = this.t
+    // A chunk in flight ends first (no write is sent once this.t is null); then its or the last write.
     this.t = null
+    await this.lastChunk.catch(() => undefined)
     await this.written.catch(() => undefined)
     // A temporary table outlives a rollback on its pooled connection: dropped first.
     if (t && !this.opts.commit) await dropPreviewKeys(this.sequelize, t).catch(() => undefined)
