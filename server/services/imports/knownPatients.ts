@@ -10,7 +10,7 @@ export const KNOWN_PATIENTS_MAX = 50_000
  * once per run instead of once per chunk.
  *
  * Why the answer cannot differ from asking again: the run holds one REPEATABLE READ transaction
- * (MariaDB's default; nothing in Ferrolane sets another level), so every plain read of the run
+ * (ImportRun.begin names the level rather than relying on the server's default), so every plain read of the run
  * sees the snapshot its first read took, and the run writes neither patients nor referrals
  * before the last chunk. A later chunk's findPatients would read the same rows and give the same
  * patient and episode, even if another session closes an episode meanwhile

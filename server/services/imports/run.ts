@@ -1,4 +1,4 @@
-import { Op, type Sequelize, type Transaction } from 'sequelize'
+import { Op, Transaction, type Sequelize } from 'sequelize'
 import { LIST_CAP, type Checked, type ImportKind, type ImportSummary } from '../../../shared/imports'
 import { ANALYTE_DEFS } from '../../../shared/pathway'
 import { ImportBatch } from '../../models/importBatch'
@@ -54,7 +54,9 @@ export class ImportRun {
   }
 
   async begin(): Promise<void> {
-    this.t = await this.sequelize.transaction()
+    // REPEATABLE READ named, not left to the server's default: the patient match's per-run answers
+    // (knownPatients.ts) rest on every read of the run seeing one snapshot.
+    this.t = await this.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.REPEATABLE_READ })
     const batch = await ImportBatch.create(
       {
         kind: this.opts.kind,
