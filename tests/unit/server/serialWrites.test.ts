@@ -6,15 +6,17 @@ function recorder() {
   const sent: string[] = []
   let inFlight = 0
   let most = 0
-  const write = (name: string, fail = false) => async () => {
-    sent.push(name)
-    inFlight += 1
-    most = Math.max(most, inFlight)
-    await yieldToIo()
-    inFlight -= 1
-    if (fail) throw new Error(`${name} failed`)
-    return name
-  }
+  const write =
+    (name: string, fail = false) =>
+    async () => {
+      sent.push(name)
+      inFlight += 1
+      most = Math.max(most, inFlight)
+      await yieldToIo()
+      inFlight -= 1
+      if (fail) throw new Error(`${name} failed`)
+      return name
+    }
   return { sent, write, most: () => most }
 }
 
