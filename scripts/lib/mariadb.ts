@@ -187,6 +187,23 @@ async function stopByPidFile(pidFile: string, socket: string): Promise<void> {
   await waitUntil(async () => !(await canConnect(socket)), 60_000, 'MariaDB to shut down')
 }
 
+/**
+ * Waits until InnoDB has purged every deleted row it still keeps for older readers (MariaDB 10.3+:
+ * `SET GLOBAL innodb_max_purge_lag_wait = 0` returns once the history list is empty). The bench runs
+ * it after each reversal it makes to leave its database as it found it, so that clean-up is not
+ * counted in the next figure, in this run or the next one (README, performance notes). Returns the ms waited.
+ */
+export async function waitForPurge(dataDir: string): Promise<number> {
+  const t0 = Date.now()
+  const conn = await mariadb.createConnection({ socketPath: socketPath(dataDir), user: 'root' })
+  try {
+    await conn.query('SET GLOBAL innodb_max_purge_lag_wait = 0')
+  } finally {
+    await conn.end()
+  }
+  return Date.now() - t0
+}
+
 /** Drops a database so a test run starts from nothing. */
 export async function dropDatabase(socket: string, name: string): Promise<void> {
   const conn = await mariadb.createConnection({ socketPath: socket, user: 'root' })
