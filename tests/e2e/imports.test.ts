@@ -168,7 +168,7 @@ describe('a nurse imports a laboratory CSV and a doctor reverses it', () => {
       expect(await seriousViolations(page)).toEqual([])
       await page.screenshot({ path: '/tmp/imports-e2e-5a-fhir.png', fullPage: true })
       await page.getByTestId('fhir-commit-button').click()
-      await expect.poll(() => text(page, 'fhir-stored')).toMatch(/Stored 1 results in batch \d+ for 1 episode/)
+      await expect.poll(() => text(page, 'fhir-stored')).toMatch(/Stored 1 result in batch \d+ for 1 episode/)
       expect(await Result.count({ where: { referralId } })).toBe(1)
       await page.context().close()
     },
