@@ -12,7 +12,8 @@ import { utcText } from './utcText'
 import { refreshEpisodeFacts } from './reports/episodeFacts'
 import { refreshHbMilestones } from './reports/referralMilestones'
 import { utcParam } from './rawRead'
-import { SerialWrites, yieldToIo } from './serialWrites'
+import { setImmediate as yieldToIo } from 'node:timers/promises'
+import { SerialWrites } from './serialWrites'
 
 /**
  * The one place results are written: typed-in (services/results.ts), CSV and FHIR imports

@@ -20,7 +20,8 @@ import { rawInTransaction, type RawValue } from './rawTransaction'
 import { utcParam } from './rawRead'
 import { utcText } from './utcText'
 import type { ScreeningView } from '../../shared/pathway/views'
-import { SerialWrites, yieldToIo } from './serialWrites'
+import { setImmediate as yieldToIo } from 'node:timers/promises'
+import { SerialWrites } from './serialWrites'
 
 /** Latest of each screening analyte on the episode (by time taken, then by entry). */
 export async function latestValues(referralId: number, t?: Transaction): Promise<LatestValues> {

@@ -75,9 +75,3 @@ interface Step {
   resolve: (answer: unknown) => void
   reject: (err: unknown) => void
 }
-
-/**
- * Lets the event loop run between slices of a long computation, so that a write's answer (and a queued write
- * behind it) is handled within one slice's time rather than after the whole computation.
- */
-export const yieldToIo = (): Promise<void> => new Promise((resolve) => setImmediate(resolve))

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { SerialWrites, yieldToIo } from '../../../server/services/serialWrites'
+import { setImmediate as yieldToIo } from 'node:timers/promises'
+import { SerialWrites } from '../../../server/services/serialWrites'
 
 /** A fake write that records when it was sent and answers when told to (the order on one connection is what is tested). */
 function recorder() {
