@@ -61,13 +61,13 @@ const ALL: IdsOf = () => '1 = 1'
  */
 const WHOLE_PASSES = "SET STATEMENT optimizer_switch = 'split_materialized=off' FOR"
 
-const upsert = (columns: readonly string[], select: string) => `${WHOLE_PASSES}
-INSERT INTO referral_milestones (referral_id, ${columns.join(', ')})
+const upsert = (columns: readonly string[], select: string) => `INSERT INTO referral_milestones (referral_id, ${columns.join(', ')})
 ${select}
 ON DUPLICATE KEY UPDATE ${columns.map((c) => `${c} = VALUES(${c})`).join(', ')}`
 
 /** Writes every milestone of the given referrals (:ids), an empty row where they have none (removed by DELETE_EMPTY_SQL). */
-export const UPSERT_SQL = upsert(MILESTONE_COLUMNS, MILESTONES_SELECT(IDS))
+export const UPSERT_SQL = `${WHOLE_PASSES}
+${upsert(MILESTONE_COLUMNS, MILESTONES_SELECT(IDS))}`
 
 /**
  * Writes the first and last counted Hb of the given referrals (:ids), for the writers that change results only
@@ -84,10 +84,11 @@ export const UPSERT_SQL = upsert(MILESTONE_COLUMNS, MILESTONES_SELECT(IDS))
  */
 const HB_END = (direction: 'ASC' | 'DESC') => `(SELECT h.taken_at FROM results h WHERE h.analyte = 'hb' AND h.referral_id = r.id
     AND ${finalSql('h')} ORDER BY h.taken_at ${direction} LIMIT 1)`
-export const UPSERT_HB_SQL = `INSERT INTO referral_milestones (referral_id, ${HB_COLUMNS.join(', ')})
-SELECT r.id, ${HB_END('ASC')} AS first_hb_at, ${HB_END('DESC')} AS last_hb_at
-FROM referrals r WHERE r.id IN (:ids)
-ON DUPLICATE KEY UPDATE ${HB_COLUMNS.map((c) => `${c} = VALUES(${c})`).join(', ')}`
+export const UPSERT_HB_SQL = upsert(
+  HB_COLUMNS,
+  `SELECT r.id, ${HB_END('ASC')} AS first_hb_at, ${HB_END('DESC')} AS last_hb_at
+FROM referrals r WHERE r.id IN (:ids)`,
+)
 
 /** Removes the rows of referrals (:ids) left with no milestone at all (a voided Hb, a reversed import). */
 export const DELETE_EMPTY_SQL = `DELETE FROM referral_milestones WHERE referral_id IN (:ids)
