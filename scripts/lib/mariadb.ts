@@ -134,7 +134,7 @@ export async function startMariaDb(opts: MariaDbOptions): Promise<MariaDbHandle>
     '--default-time-zone=+00:00',
     // 1 GB, not 256 MB: a 100 000-row import or a 25 000-row reversal on the bench's database (about 1 GB
     // on disk) touches more index pages than 256 MB holds, so InnoDB evicted and wrote pages mid-statement
-    // (25 000-row reversal 2.7-2.9 s against 1.9-2.1 s; README, performance notes). Linux lends the pool's
+    // (25 000-row reversal 2.7-2.9 s against 1.9-2.3 s; README, performance notes). Linux lends the pool's
     // memory only as pages are used: an idle server takes about 15 MB more, a small database no more.
     '--innodb-buffer-pool-size=1G',
     `--innodb-flush-log-at-trx-commit=${opts.durability === 'relaxed' ? 2 : 1}`,
